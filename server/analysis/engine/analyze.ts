@@ -1,0 +1,405 @@
+/**
+ * Top level of the replicate statistics engine: plot rows (or CSV text) in, one result
+ * object out. Pure: no file or network access, so the command line and the web API share it.
+ */
+import { parse } from 'csv-parse/sync';
+import { analyseVariance, isOrthogonal, type AnovaLine, type AnovaMethod, type Design, type PlotLayout } from './anova.js';
+import { centreDecimalTexts, isDecimalText, addOffset } from './decimal-input.js';
+import { describe } from './descriptives.js';
+import { accurateMean } from './linear-model.js';
+import { separateMeans, type SeparationMethod } from './mean-separation.js';
+
+export type { Design } from './anova.js';
+
+/** Bad input; the message is one line naming the row or column. */
+export class AnalysisInputError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'AnalysisInputError';
+  }
+}
+
+/** One measured plot (or one sub-sample of a plot). */
+export interface PlotRow {
+  variety: string;
+  site?: string | null;
+  block?: string | null;
+  plot?: string | null;
+  /** Decimal text (read exactly) or a number. Empty text or "NA" marks a missing value. */
+  value: string | number | null;
+  /** Row number to use in messages (defaults to position + 1). */
+  row?: number;
+}
+
+export interface AnalyzeOptions {
+  /** Name of the trait, reported back. */
+  trait?: string;
+  /** Significance level for F tests, LSD, HSD and letters (default 0.05). */
+  alpha?: number;
+  /** Layout; chosen from the columns present when omitted. */
+  design?: Design;
+  /** Which test the `group` letters come from (default "hsd"; both are always reported). */
+  letters?: SeparationMethod;
+  /** Force the means (orthogonal) or least-squares computation; default picks by layout. */
+  method?: AnovaMethod;
+  /** Include every pairwise comparison in the result (default false). */
+  includePairs?: boolean;
+}
+
+export interface EntrySummary {
+  variety: string;
+  /** Plot values for this entry (after sub-sample averaging). */
+  n: number;
+  /** Arithmetic mean of the entry's plot values. */
+  mean: number;
+  /** SD of the plot values (null with one plot). */
+  sd: number | null;
+  /** Descriptive standard error SD/√n of the entry's own plot values. */
+  se: number | null;
+  cvPercent: number | null;
+  min: number;
+  max: number;
+  /** 1 = highest mean; ties share the best rank. */
+  rank: number;
+  /** Letters from the chosen test (see `letters`). */
+  group: string;
+  groupLsd: string;
+  groupHsd: string;
+}
+
+export interface AnalysisResult {
+  design: Design;
+  trait: string;
+  alpha: number;
+  /** Plot values after sub-sample averaging. */
+  n: number;
+  grandMean: number;
+  /** 100 × √(residual MS) / grand mean. */
+  cvPercent: number | null;
+  anova: AnovaLine[];
+  means: EntrySummary[];
+  lsd: { value: number | null; df: number; t: number; protected: boolean };
+  hsd: { value: number | null; q: number; df: number };
+  /** Test behind `means[].group`. */
+  letters: SeparationMethod;
+  /** Error term for mean separation: residual (crd, rcbd) or site:variety (multisite). */
+  errorTerm: { source: 'residual' | 'site:variety'; df: number; ms: number };
+  /** "means" for orthogonal layouts, "least-squares" (QR) otherwise. */
+  method: 'means' | 'least-squares';
+  counts: { entries: number; sites: number; blocks: number; rows: number; missingPlots: number };
+  pairs?: {
+    a: string;
+    b: string;
+    difference: number;
+    se: number;
+    lsdSeparated: boolean;
+    hsdSeparated: boolean;
+  }[];
+  warnings: string[];
+}
+
+const MISSING = new Set(['', 'NA', 'na', 'N/A', 'n/a', '.']);
+
+interface Plot {
+  variety: string;
+  site: string;
+  block: string | null;
+  firstRow: number;
+  rowIndices: number[];
+}
+
+function label(v: string | null | undefined): string | null {
+  if (v === null || v === undefined) return null;
+  const t = String(v).trim();
+  return t === '' ? null : t;
+}
+
+/** Analyse already-parsed plot rows (for example database records). */
+export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOptions = {}): AnalysisResult {
+  const alpha = options.alpha ?? 0.05;
+  if (!(alpha > 0 && alpha < 1)) throw new AnalysisInputError(`alpha must be between 0 and 1, got ${alpha}`);
+  const trait = options.trait ?? 'value';
+  const warnings: string[] = [];
+  if (rows.length === 0) throw new AnalysisInputError('no data rows');
+
+  const hasPlot = rows.some((r) => label(r.plot) !== null);
+  const hasBlock = rows.some((r) => label(r.block) !== null);
+  const hasSite = rows.some((r) => label(r.site) !== null);
+
+  // Validate rows and read values as exact decimal text.
+  const texts: string[] = [];
+  const kept: { row: number; variety: string; site: string; block: string | null; plot: string | null }[] = [];
+  let missingValues = 0;
+  rows.forEach((r, i) => {
+    const rowNo = r.row ?? i + 1;
+    const variety = label(r.variety);
+    if (variety === null) throw new AnalysisInputError(`row ${rowNo}, column "variety": empty`);
+    const site = label(r.site);
+    if (hasSite && site === null) throw new AnalysisInputError(`row ${rowNo}, column "site": empty`);
+    const block = label(r.block);
+    if (hasBlock && block === null) throw new AnalysisInputError(`row ${rowNo}, column "block": empty`);
+    const plot = label(r.plot);
+    if (hasPlot && plot === null) throw new AnalysisInputError(`row ${rowNo}, column "plot": empty`);
+    const raw = r.value;
+    if (raw === null || raw === undefined || (typeof raw === 'string' && MISSING.has(raw.trim()))) {
+      missingValues++;
+      return;
+    }
+    let text: string;
+    if (typeof raw === 'number') {
+      if (!Number.isFinite(raw)) throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${raw} is not a number`);
+      text = String(raw);
+    } else {
+      text = raw.trim();
+      if (!isDecimalText(text)) throw new AnalysisInputError(`row ${rowNo}, column "${trait}": "${raw}" is not a number`);
+    }
+    texts.push(text);
+    kept.push({ row: rowNo, variety, site: site ?? '', block, plot });
+  });
+  if (missingValues > 0) warnings.push(`${missingValues} row(s) with no value were left out`);
+  if (kept.length === 0) throw new AnalysisInputError(`column "${trait}": no values`);
+
+  // Sub-samples: rows sharing (site, plot) are one plot.
+  const plots: Plot[] = [];
+  const byKey = new Map<string, Plot>();
+  kept.forEach((r, i) => {
+    const key = r.plot === null ? null : `${r.site}\u0000${r.plot}`;
+    const existing = key === null ? undefined : byKey.get(key);
+    if (existing) {
+      if (existing.variety !== r.variety) {
+        throw new AnalysisInputError(
+          `row ${r.row}, column "variety": plot "${r.plot}" is "${existing.variety}" in row ${existing.firstRow} but "${r.variety}" here`,
+        );
+      }
+      if (existing.block !== r.block) {
+        throw new AnalysisInputError(
+          `row ${r.row}, column "block": plot "${r.plot}" is in block "${existing.block}" in row ${existing.firstRow} but "${r.block}" here`,
+        );
+      }
+      existing.rowIndices.push(i);
+      return;
+    }
+    const p: Plot = { variety: r.variety, site: r.site, block: r.block, firstRow: r.row, rowIndices: [i] };
+    plots.push(p);
+    if (key !== null) byKey.set(key, p);
+  });
+  const subSampled = plots.filter((p) => p.rowIndices.length > 1).length;
+  if (subSampled > 0) {
+    warnings.push(`sub-samples averaged: ${kept.length} rows became ${plots.length} plot values (${subSampled} plots had more than one row)`);
+  }
+
+  // Exact offset removal, then one value per plot.
+  const centred = centreDecimalTexts(texts);
+  const y = new Float64Array(plots.length);
+  plots.forEach((p, i) => {
+    let s = 0;
+    for (const j of p.rowIndices) s += centred.deviations[j]!;
+    y[i] = s / p.rowIndices.length;
+  });
+
+  // Factor codes in order of first appearance.
+  const code = (values: string[]) => {
+    const map = new Map<string, number>();
+    const codes = new Int32Array(values.length);
+    values.forEach((v, i) => {
+      let c = map.get(v);
+      if (c === undefined) {
+        c = map.size;
+        map.set(v, c);
+      }
+      codes[i] = c;
+    });
+    return { codes, levels: [...map.keys()] };
+  };
+  const entry = code(plots.map((p) => p.variety));
+  const site = code(plots.map((p) => p.site));
+  const block = code(plots.map((p) => `${p.site}\u0000${p.block ?? ''}`));
+
+  if (entry.levels.length < 2) {
+    throw new AnalysisInputError(
+      `column "variety": only one entry ("${entry.levels[0]}"); at least two are needed to compare`,
+    );
+  }
+
+  let design: Design;
+  if (options.design) {
+    design = options.design;
+    if (design !== 'crd' && !hasBlock) throw new AnalysisInputError(`column "block": required for design ${design}`);
+    if (design === 'multisite' && site.levels.length < 2) {
+      throw new AnalysisInputError(
+        `column "site": design multisite needs at least two sites, found ${hasSite ? site.levels.length : 0}`,
+      );
+    }
+  } else if (hasBlock && site.levels.length >= 2) design = 'multisite';
+  else if (hasBlock) design = 'rcbd';
+  else design = 'crd';
+
+  const layout: PlotLayout = { y, entry: entry.codes, entries: entry.levels.length };
+  if (design !== 'crd') {
+    layout.block = block.codes;
+    layout.blocks = block.levels.length;
+  }
+  if (design === 'multisite') {
+    layout.site = site.codes;
+    layout.sites = site.levels.length;
+  }
+
+  // Missing plots: block × variety cells with no plot.
+  let missingPlots = 0;
+  if (design !== 'crd') {
+    const seen = new Set<number>();
+    for (let i = 0; i < y.length; i++) seen.add(block.codes[i]! * entry.levels.length + entry.codes[i]!);
+    missingPlots = block.levels.length * entry.levels.length - seen.size;
+  }
+  const orthogonal = isOrthogonal(design, layout);
+
+  const av = analyseVariance(design, layout, options.method ?? 'auto');
+  const residual = av.residual;
+  if (!(residual.df > 0)) {
+    throw new AnalysisInputError(
+      `no residual degrees of freedom left: ${y.length} plot values, ${y.length - residual.df} model parameters (add replicates)`,
+    );
+  }
+  if (!(av.error.df > 0)) {
+    throw new AnalysisInputError(`no degrees of freedom left for ${av.error.source} to test varieties against`);
+  }
+
+  if (design !== 'crd' && missingPlots > 0) {
+    warnings.push(
+      `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); sequential (type I) sums of squares in the order ${design === 'multisite' ? 'site, block, variety, site:variety' : 'block, variety'}; means are arithmetic, not adjusted`,
+    );
+  } else if (!orthogonal) {
+    warnings.push('unbalanced: varieties occur unequally often across blocks; sequential (type I) sums of squares');
+  }
+  if (design === 'multisite' && !orthogonal) {
+    warnings.push('with missing plots, the variety test against site:variety is approximate');
+  }
+
+  // Per-entry descriptives (deviations plus offset) and mean separation on deviations, so
+  // differences keep all their digits even with a large common part.
+  const groups: number[][] = entry.levels.map(() => []);
+  for (let i = 0; i < y.length; i++) groups[entry.codes[i]!]!.push(y[i]!);
+  const descs = groups.map((g) => describe(g));
+  const varietyLine = av.lines.find((l) => l.source === 'variety');
+  const sep = separateMeans(
+    entry.levels.map((name, i) => ({ entry: name, mean: descs[i]!.mean, n: descs[i]!.n })),
+    av.error.ms,
+    av.error.df,
+    alpha,
+    varietyLine?.p ?? null,
+  );
+  if (!sep.replicates) warnings.push(`unequal replication (${[...new Set(descs.map((d) => d.n))].sort((a, b) => a - b).join(', ')} plots per entry): LSD and HSD differ by pair, single values are null`);
+  for (const w of sep.warnings) if (!w.startsWith('unequal replication')) warnings.push(w);
+
+  const indexOf = new Map(entry.levels.map((n, i) => [n, i]));
+  const lettersFrom = options.letters ?? 'hsd';
+  const means: EntrySummary[] = sep.ranked.map((r) => {
+    const d = descs[indexOf.get(r.entry)!]!;
+    const mean = addOffset(centred.offset, d.mean);
+    return {
+      variety: r.entry,
+      n: d.n,
+      mean,
+      sd: d.sd,
+      se: d.se,
+      cvPercent: d.sd === null || mean === 0 ? null : (100 * d.sd) / Math.abs(mean),
+      min: addOffset(centred.offset, d.min),
+      max: addOffset(centred.offset, d.max),
+      rank: r.rank,
+      group: lettersFrom === 'lsd' ? r.lsdGroup : r.hsdGroup,
+      groupLsd: r.lsdGroup,
+      groupHsd: r.hsdGroup,
+    };
+  });
+
+  const grandMean = addOffset(centred.offset, accurateMean(y));
+  const result: AnalysisResult = {
+    design,
+    trait,
+    alpha,
+    n: y.length,
+    grandMean,
+    cvPercent: grandMean !== 0 && residual.ms >= 0 ? (100 * Math.sqrt(residual.ms)) / Math.abs(grandMean) : null,
+    anova: av.lines,
+    means,
+    lsd: sep.lsd,
+    hsd: { ...sep.hsd, df: av.error.df },
+    letters: lettersFrom,
+    errorTerm: { source: av.error.source as 'residual' | 'site:variety', df: av.error.df, ms: av.error.ms },
+    method: av.method,
+    counts: {
+      entries: entry.levels.length,
+      sites: design === 'multisite' ? site.levels.length : hasSite ? site.levels.length : 0,
+      blocks: design === 'crd' ? 0 : block.levels.length,
+      rows: rows.length,
+      missingPlots,
+    },
+    warnings,
+  };
+  if (options.includePairs) result.pairs = sep.pairs;
+  return result;
+}
+
+const KNOWN_COLUMNS = ['variety', 'site', 'block', 'plot'] as const;
+
+/** Analyse CSV text with a header row (see the analyze command for the column rules). */
+export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): AnalysisResult {
+  let records: string[][];
+  try {
+    records = parse(csvText, { bom: true, skip_empty_lines: true, relax_column_count: false }) as string[][];
+  } catch (err) {
+    const msg = err instanceof Error ? err.message : String(err);
+    throw new AnalysisInputError(`CSV could not be read: ${msg.split('\n')[0]}`);
+  }
+  if (records.length === 0) throw new AnalysisInputError('file is empty: no header row');
+  const header = records[0]!.map((h) => h.trim());
+  const seen = new Set<string>();
+  for (const h of header) {
+    if (h === '') throw new AnalysisInputError('row 1: a column has an empty name');
+    if (seen.has(h.toLowerCase())) throw new AnalysisInputError(`row 1, column "${h}": appears twice`);
+    seen.add(h.toLowerCase());
+  }
+  const find = (name: string) => header.findIndex((h) => h.toLowerCase() === name);
+  const col = Object.fromEntries(KNOWN_COLUMNS.map((c) => [c, find(c)])) as Record<(typeof KNOWN_COLUMNS)[number], number>;
+  if (col.variety < 0) throw new AnalysisInputError('column "variety": not found in the header');
+
+  let valueCol: number;
+  if (options.trait !== undefined) {
+    valueCol = header.indexOf(options.trait);
+    if (valueCol < 0) valueCol = find(options.trait.toLowerCase());
+    if (valueCol < 0) throw new AnalysisInputError(`column "${options.trait}": not found in the header (given by --trait)`);
+    if ((KNOWN_COLUMNS as readonly string[]).includes(header[valueCol]!.toLowerCase())) {
+      throw new AnalysisInputError(`column "${header[valueCol]}": is a layout column, not a trait`);
+    }
+  } else {
+    const others = header
+      .map((h, i) => ({ h, i }))
+      .filter(({ h }) => !(KNOWN_COLUMNS as readonly string[]).includes(h.toLowerCase()));
+    if (others.length === 0) throw new AnalysisInputError('no value column: the header has only variety/site/block/plot');
+    if (others.length > 1) {
+      throw new AnalysisInputError(
+        `several value columns (${others.map((o) => `"${o.h}"`).join(', ')}): choose one with --trait`,
+      );
+    }
+    valueCol = others[0]!.i;
+  }
+  const trait = header[valueCol]!;
+  if (records.length === 1) throw new AnalysisInputError('no data rows: the file has only a header');
+
+  const rows: PlotRow[] = [];
+  for (let r = 1; r < records.length; r++) {
+    const rec = records[r]!;
+    // Spreadsheet numbering: the header is row 1.
+    rows.push({
+      row: r + 1,
+      variety: rec[col.variety] ?? '',
+      site: col.site >= 0 ? (rec[col.site] ?? '') : null,
+      block: col.block >= 0 ? (rec[col.block] ?? '') : null,
+      plot: col.plot >= 0 ? (rec[col.plot] ?? '') : null,
+      value: rec[valueCol] ?? '',
+    });
+  }
+  // Presence of the column (not of values) decides whether it is part of the layout.
+  if (col.block >= 0) for (const r of rows) r.block ??= '';
+  return analyzePlotRows(rows, { ...options, trait });
+}

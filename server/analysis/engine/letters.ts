@@ -1,0 +1,107 @@
+/**
+ * Compact letter display by insert-and-absorb (Piepho 2004, Journal of Computational and
+ * Graphical Statistics 13:456-466): start with one group holding every entry; for each pair
+ * the test separates, split every group holding both into one without each member of the
+ * pair; drop any group contained in another. Afterwards two entries share a letter exactly
+ * when the test does not separate them. Letters are assigned in order of the best mean in
+ * each group, so the highest mean gets "a".
+ */
+
+/**
+ * @param order entry indices sorted from highest mean to lowest
+ * @param separated separated(i, j) is true when the test finds entries i and j different
+ * @returns letter string per entry index (length = order.length)
+ */
+export function compactLetters(
+  order: readonly number[],
+  separated: (i: number, j: number) => boolean,
+): string[] {
+  const k = order.length;
+  const words = Math.ceil(k / 32) || 1;
+  // Groups as bit sets over positions in `order` (position 0 = highest mean).
+  let groups: Uint32Array[] = [];
+  const all = new Uint32Array(words);
+  for (let p = 0; p < k; p++) all[p >> 5]! |= 1 << (p & 31);
+  if (k > 0) groups.push(all);
+
+  const has = (g: Uint32Array, p: number) => (g[p >> 5]! >>> (p & 31)) & 1;
+  const subset = (a: Uint32Array, b: Uint32Array) => {
+    for (let w = 0; w < words; w++) if ((a[w]! & ~b[w]!) !== 0) return false;
+    return true;
+  };
+
+  for (let p = 0; p < k; p++) {
+    for (let q = p + 1; q < k; q++) {
+      if (!separated(order[p]!, order[q]!)) continue;
+      const kept: Uint32Array[] = [];
+      const fresh: Uint32Array[] = [];
+      for (const g of groups) {
+        if (has(g, p) && has(g, q)) {
+          const withoutP = g.slice();
+          withoutP[p >> 5]! &= ~(1 << (p & 31));
+          const withoutQ = g.slice();
+          withoutQ[q >> 5]! &= ~(1 << (q & 31));
+          fresh.push(withoutP, withoutQ);
+        } else kept.push(g);
+      }
+      if (fresh.length === 0) continue;
+      // Absorb: an untouched group can never lie inside a new one (it was not inside the
+      // group that was split), so only new groups need checking, against everything kept.
+      const next = kept.slice();
+      for (let a = 0; a < fresh.length; a++) {
+        const g = fresh[a]!;
+        let absorbed = false;
+        for (const h of next) {
+          if (subset(g, h)) {
+            absorbed = true;
+            break;
+          }
+        }
+        if (!absorbed) {
+          for (let b = a + 1; b < fresh.length; b++) {
+            if (subset(g, fresh[b]!)) {
+              absorbed = true;
+              break;
+            }
+          }
+        }
+        if (!absorbed) next.push(g);
+      }
+      groups = next;
+    }
+  }
+
+  // Letter order: by the best (lowest-position) member, then by the next members.
+  const firstMember = (g: Uint32Array) => {
+    for (let p = 0; p < k; p++) if (has(g, p)) return p;
+    return k;
+  };
+  groups.sort((a, b) => {
+    for (let p = Math.min(firstMember(a), firstMember(b)); p < k; p++) {
+      const d = has(b, p) - has(a, p);
+      if (d !== 0) return d;
+    }
+    return 0;
+  });
+  const out: string[] = new Array<string>(k).fill('');
+  groups.forEach((g, idx) => {
+    const letter = letterName(idx);
+    for (let p = 0; p < k; p++) if (has(g, p)) out[order[p]!] += letter;
+  });
+  return out;
+}
+
+/**
+ * a … z, then A … Z; beyond 52 groups a bracketed number, so every letter stays one
+ * readable unit in the concatenated display.
+ */
+export function letterName(index: number): string {
+  if (index < 26) return String.fromCharCode(97 + index);
+  if (index < 52) return String.fromCharCode(65 + index - 26);
+  return `[${index + 1}]`;
+}
+
+/** Split a letter display back into its letters (inverse of the concatenation above). */
+export function splitLetters(display: string): string[] {
+  return display.match(/\[\d+\]|[a-zA-Z]/g) ?? [];
+}
