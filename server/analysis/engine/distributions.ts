@@ -12,7 +12,7 @@ export function fUpperTail(f: number, df1: number, df2: number): number {
   return jStat.ibeta(df2 / (df2 + df1 * f), df2 / 2, df1 / 2);
 }
 
-/** Student t quantile, refined by Newton steps on jstat's cdf (its inverse alone is ~1e-8). */
+/** Student t quantile, refined by Newton steps on jstat's cdf (its inverse alone is ~1e-8 off; the refined value is limited by the cdf, ~1e-9..1e-8). */
 export function studentTQuantile(p: number, df: number): number {
   let x = jStat.studentt.inv(p, df);
   for (let i = 0; i < 4; i++) {
