@@ -1,0 +1,72 @@
+/**
+ * npm run --silent analyze -- FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite]
+ *                                      [--letters hsd|lsd]
+ * Prints one JSON object on stdout; on bad input exits 1 with one line on stderr.
+ */
+import { readFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { AnalysisInputError, analyzeCsv, type AnalyzeOptions, type Design } from './engine/analyze.js';
+
+const USAGE = 'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd]';
+
+function fail(message: string, code = 1): never {
+  process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
+  process.exit(code);
+}
+
+function main(): void {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: process.argv.slice(2),
+      allowPositionals: true,
+      strict: true,
+      options: {
+        trait: { type: 'string' },
+        alpha: { type: 'string' },
+        design: { type: 'string' },
+        letters: { type: 'string' },
+      },
+    });
+  } catch (err) {
+    fail(`${err instanceof Error ? err.message : String(err)}; ${USAGE}`, 2);
+  }
+  const { values, positionals } = parsed;
+  if (positionals.length !== 1) fail(`expected one CSV file, got ${positionals.length}; ${USAGE}`, 2);
+  const options: AnalyzeOptions = {};
+  if (values.trait !== undefined) options.trait = values.trait;
+  if (values.alpha !== undefined) {
+    const a = Number(values.alpha);
+    if (!/^\s*[0-9.eE+-]+\s*$/.test(values.alpha) || !(a > 0 && a < 1)) {
+      fail(`option --alpha: "${values.alpha}" is not a number between 0 and 1`, 2);
+    }
+    options.alpha = a;
+  }
+  if (values.design !== undefined) {
+    if (!['crd', 'rcbd', 'multisite'].includes(values.design)) {
+      fail(`option --design: "${values.design}" is not one of crd, rcbd, multisite`, 2);
+    }
+    options.design = values.design as Design;
+  }
+  if (values.letters !== undefined) {
+    if (values.letters !== 'hsd' && values.letters !== 'lsd') fail(`option --letters: "${values.letters}" is not hsd or lsd`, 2);
+    options.letters = values.letters;
+  }
+  const file = positionals[0]!;
+  let text: string;
+  try {
+    text = readFileSync(file, 'utf8');
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code ?? 'error';
+    fail(`${file}: cannot read file (${code})`);
+  }
+  try {
+    const result = analyzeCsv(text, options);
+    process.stdout.write(JSON.stringify(result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
+  } catch (err) {
+    if (err instanceof AnalysisInputError) fail(`${file}: ${err.message}`);
+    fail(`${file}: analysis failed: ${err instanceof Error ? err.message : String(err)}`);
+  }
+}
+
+main();
