@@ -1,0 +1,77 @@
+import { z } from 'zod';
+
+export const trialDesigns = ['crd', 'rcbd', 'multisite'] as const;
+export const trialStatuses = ['draft', 'active', 'closed', 'published'] as const;
+export const entryTypes = ['heirloom', 'open_pollinated', 'hybrid'] as const;
+export const quantityKinds = ['mass', 'length', 'count', 'score', 'date', 'percent'] as const;
+export const traitBases = ['plant', 'plot', 'harvest'] as const;
+export const traitDirections = ['higher', 'lower', 'none'] as const;
+export const trialRoles = ['lead', 'grower', 'contributor', 'viewer'] as const;
+
+export const designLabels: Record<(typeof trialDesigns)[number], string> = {
+  crd: 'Completely randomized',
+  rcbd: 'Randomized complete blocks',
+  multisite: 'Blocks at several sites',
+};
+
+export const trialSlugParams = z.object({ slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.') });
+
+export const trialSummarySchema = z.object({
+  id: z.uuid(),
+  slug: z.string(),
+  title: z.string(),
+  crop: z.string(),
+  season: z.string(),
+  design: z.enum(trialDesigns),
+  status: z.enum(trialStatuses),
+  siteCount: z.number().int(),
+  entryCount: z.number().int(),
+  plotCount: z.number().int(),
+  myRole: z.enum(trialRoles).nullable(),
+});
+export type TrialSummary = z.infer<typeof trialSummarySchema>;
+
+export const trialListSchema = z.object({ trials: z.array(trialSummarySchema) });
+export type TrialList = z.infer<typeof trialListSchema>;
+
+export const siteSchema = z.object({
+  id: z.uuid(),
+  name: z.string(),
+  region: z.string(),
+  soilTexture: z.string().nullable(),
+  irrigationMethod: z.string().nullable(),
+  notes: z.string(),
+});
+
+export const entrySchema = z.object({
+  id: z.uuid(),
+  name: z.string(),
+  code: z.string(),
+  seedSource: z.string(),
+  entryType: z.enum(entryTypes),
+  daysToMaturityClaimed: z.number().int().nullable(),
+  notes: z.string(),
+});
+
+export const traitSchema = z.object({
+  id: z.uuid(),
+  key: z.string(),
+  label: z.string(),
+  quantityKind: z.enum(quantityKinds),
+  basis: z.enum(traitBases),
+  direction: z.enum(traitDirections),
+  scaleMin: z.number().nullable(),
+  scaleMax: z.number().nullable(),
+});
+
+export const trialDetailSchema = trialSummarySchema.extend({
+  description: z.string(),
+  sowingDate: z.string().nullable(),
+  transplantDate: z.string().nullable(),
+  sites: z.array(siteSchema),
+  entries: z.array(entrySchema),
+  traits: z.array(traitSchema),
+  harvestCount: z.number().int(),
+  observationCount: z.number().int(),
+});
+export type TrialDetail = z.infer<typeof trialDetailSchema>;

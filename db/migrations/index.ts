@@ -1,0 +1,12 @@
+/**
+ * Every migration, in order. Listed by hand so the migrator works the same under tsx, Vitest
+ * and a bundle; a test checks that every file in this folder appears here.
+ */
+import type { Migration } from 'kysely/migration';
+import * as accounts from './2026-12-01T0001-accounts';
+import * as trials from './2026-12-01T0002-trials';
+
+export const migrations: Record<string, Migration> = {
+  '2026-12-01T0001-accounts': accounts,
+  '2026-12-01T0002-trials': trials,
+};

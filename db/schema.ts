@@ -1,0 +1,273 @@
+/**
+ * The typed shape of the migrated database. A test compares every table and column here with
+ * the real migrated schema, so this file cannot drift from db/migrations.
+ */
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+
+type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
+/** `date` columns travel as 'YYYY-MM-DD' text (see the pg type parser in db/database.ts). */
+type DateText = ColumnType<string, string, string>;
+
+interface Written {
+  created_at: Timestamp;
+  updated_at: Timestamp;
+  created_by: string | null;
+  updated_by: string | null;
+}
+
+export interface UsersTable {
+  id: string;
+  name: string;
+  email: string;
+  email_verified: boolean;
+  image: string | null;
+  created_at: Timestamp;
+  updated_at: Timestamp;
+  unit_system: Generated<'metric' | 'us'>;
+  is_admin: Generated<boolean>;
+}
+
+export interface SessionsTable {
+  id: string;
+  expires_at: Timestamp;
+  token: string;
+  created_at: Timestamp;
+  updated_at: Timestamp;
+  ip_address: string | null;
+  user_agent: string | null;
+  user_id: string;
+}
+
+export interface AccountsTable {
+  id: string;
+  account_id: string;
+  provider_id: string;
+  user_id: string;
+  access_token: string | null;
+  refresh_token: string | null;
+  id_token: string | null;
+  access_token_expires_at: Timestamp | null;
+  refresh_token_expires_at: Timestamp | null;
+  scope: string | null;
+  password: string | null;
+  created_at: Timestamp;
+  updated_at: Timestamp;
+}
+
+export interface VerificationsTable {
+  id: string;
+  identifier: string;
+  value: string;
+  expires_at: Timestamp;
+  created_at: Timestamp;
+  updated_at: Timestamp;
+}
+
+export interface RateLimitsTable {
+  id: string;
+  key: string;
+  count: number;
+  last_request: ColumnType<string, number | string, number | string>;
+}
+
+export type TrialDesign = 'crd' | 'rcbd' | 'multisite';
+export type TrialStatus = 'draft' | 'active' | 'closed' | 'published';
+
+export interface TrialsTable extends Written {
+  id: Generated<string>;
+  slug: string;
+  title: string;
+  crop: string;
+  season: string;
+  design: TrialDesign;
+  status: Generated<TrialStatus>;
+  description: Generated<string>;
+  sowing_date: DateText | null;
+  transplant_date: DateText | null;
+}
+
+export interface SitesTable extends Written {
+  id: Generated<string>;
+  trial_id: string;
+  name: string;
+  region: Generated<string>;
+  soil_texture: string | null;
+  irrigation_method: 'drip' | 'overhead' | 'furrow' | 'hand' | 'none' | null;
+  notes: Generated<string>;
+}
+
+export interface EntriesTable extends Written {
+  id: Generated<string>;
+  trial_id: string;
+  name: string;
+  code: string;
+  seed_source: Generated<string>;
+  seed_lot: Generated<string>;
+  entry_type: 'heirloom' | 'open_pollinated' | 'hybrid';
+  days_to_maturity_claimed: number | null;
+  notes: Generated<string>;
+}
+
+export interface PlotsTable extends Written {
+  id: Generated<string>;
+  trial_id: string;
+  site_id: string;
+  entry_id: string;
+  block: number;
+  position: number;
+  plot_number: number;
+  plants_set: number | null;
+  plants_surviving: number | null;
+  in_row_spacing_mm: number | null;
+  row_length_mm: number | null;
+  row_spacing_mm: number | null;
+}
+
+export type QuantityKind = 'mass' | 'length' | 'count' | 'score' | 'date' | 'percent';
+export type TraitBasis = 'plant' | 'plot' | 'harvest';
+export type TraitDirection = 'higher' | 'lower' | 'none';
+
+export interface TraitsTable extends Written {
+  id: Generated<string>;
+  trial_id: string;
+  key: string;
+  label: string;
+  quantity_kind: QuantityKind;
+  basis: TraitBasis;
+  direction: TraitDirection;
+  scale_min: number | null;
+  scale_max: number | null;
+  sort_order: Generated<number>;
+}
+
+interface Versioned {
+  version: Generated<number>;
+  deleted_at: Timestamp | null;
+}
+
+export interface HarvestsTable extends Written, Versioned {
+  id: Generated<string>;
+  trial_id: string;
+  plot_id: string;
+  harvested_on: DateText;
+  fruit_count: number;
+  mass_g: number;
+  grade: 'marketable' | 'cull';
+  note: Generated<string>;
+}
+
+export interface ObservationsTable extends Written, Versioned {
+  id: Generated<string>;
+  trial_id: string;
+  plot_id: string;
+  trait_id: string;
+  observed_on: DateText;
+  value: number | null;
+  value_date: DateText | null;
+  plant_number: number | null;
+  note: Generated<string>;
+}
+
+export type FieldEventKind =
+  | 'irrigation'
+  | 'rainfall'
+  | 'fertilizer'
+  | 'thinning'
+  | 'pruning'
+  | 'transplanting'
+  | 'note';
+
+export interface FieldEventsTable extends Written, Versioned {
+  id: Generated<string>;
+  trial_id: string;
+  site_id: string;
+  plot_id: string | null;
+  kind: FieldEventKind;
+  occurred_on: DateText;
+  irrigation_method: 'drip' | 'overhead' | 'hand' | 'furrow' | null;
+  run_time_min: number | null;
+  water_depth_mm: number | null;
+  rain_mm: number | null;
+  amendment_kind: string | null;
+  rate_g_per_m2: number | null;
+  none_applied: Generated<boolean>;
+  target_spacing_mm: number | null;
+  note: Generated<string>;
+}
+
+export interface PhotosTable extends Written {
+  id: Generated<string>;
+  trial_id: string;
+  entry_id: string | null;
+  plot_id: string | null;
+  taken_on: DateText | null;
+  caption: string;
+  subject: 'plant' | 'fruit' | 'leaf' | 'damage' | 'measurement' | null;
+  storage_key: string;
+  width: number | null;
+  height: number | null;
+  bytes: number | null;
+  deleted_at: Timestamp | null;
+}
+
+export type TrialRole = 'lead' | 'grower' | 'contributor' | 'viewer';
+
+export interface TrialMembersTable extends Written {
+  trial_id: string;
+  user_id: string;
+  role: TrialRole;
+}
+
+export interface TrialMemberSitesTable {
+  trial_id: string;
+  user_id: string;
+  site_id: string;
+  created_at: Timestamp;
+  created_by: string | null;
+}
+
+export interface Database {
+  users: UsersTable;
+  sessions: SessionsTable;
+  accounts: AccountsTable;
+  verifications: VerificationsTable;
+  rate_limits: RateLimitsTable;
+  trials: TrialsTable;
+  sites: SitesTable;
+  entries: EntriesTable;
+  plots: PlotsTable;
+  traits: TraitsTable;
+  harvests: HarvestsTable;
+  observations: ObservationsTable;
+  field_events: FieldEventsTable;
+  photos: PhotosTable;
+  trial_members: TrialMembersTable;
+  trial_member_sites: TrialMemberSitesTable;
+}
+
+export type Trial = Selectable<TrialsTable>;
+export type NewTrial = Insertable<TrialsTable>;
+export type TrialUpdate = Updateable<TrialsTable>;
+
+/**
+ * Every column of every table, listed once. The mapped type makes the compiler refuse a
+ * missing or extra column, and the schema test compares this list with the migrated database.
+ */
+export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]]-?: true } } = {
+  users: { id: true, name: true, email: true, email_verified: true, image: true, created_at: true, updated_at: true, unit_system: true, is_admin: true },
+  sessions: { id: true, expires_at: true, token: true, created_at: true, updated_at: true, ip_address: true, user_agent: true, user_id: true },
+  accounts: { id: true, account_id: true, provider_id: true, user_id: true, access_token: true, refresh_token: true, id_token: true, access_token_expires_at: true, refresh_token_expires_at: true, scope: true, password: true, created_at: true, updated_at: true },
+  verifications: { id: true, identifier: true, value: true, expires_at: true, created_at: true, updated_at: true },
+  rate_limits: { id: true, key: true, count: true, last_request: true },
+  trials: { id: true, slug: true, title: true, crop: true, season: true, design: true, status: true, description: true, sowing_date: true, transplant_date: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  sites: { id: true, trial_id: true, name: true, region: true, soil_texture: true, irrigation_method: true, notes: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  entries: { id: true, trial_id: true, name: true, code: true, seed_source: true, seed_lot: true, entry_type: true, days_to_maturity_claimed: true, notes: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  plots: { id: true, trial_id: true, site_id: true, entry_id: true, block: true, position: true, plot_number: true, plants_set: true, plants_surviving: true, in_row_spacing_mm: true, row_length_mm: true, row_spacing_mm: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  traits: { id: true, trial_id: true, key: true, label: true, quantity_kind: true, basis: true, direction: true, scale_min: true, scale_max: true, sort_order: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  harvests: { id: true, trial_id: true, plot_id: true, harvested_on: true, fruit_count: true, mass_g: true, grade: true, note: true, version: true, deleted_at: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  observations: { id: true, trial_id: true, plot_id: true, trait_id: true, observed_on: true, value: true, value_date: true, plant_number: true, note: true, version: true, deleted_at: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  field_events: { id: true, trial_id: true, site_id: true, plot_id: true, kind: true, occurred_on: true, irrigation_method: true, run_time_min: true, water_depth_mm: true, rain_mm: true, amendment_kind: true, rate_g_per_m2: true, none_applied: true, target_spacing_mm: true, note: true, version: true, deleted_at: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  photos: { id: true, trial_id: true, entry_id: true, plot_id: true, taken_on: true, caption: true, subject: true, storage_key: true, width: true, height: true, bytes: true, deleted_at: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  trial_members: { trial_id: true, user_id: true, role: true, created_at: true, updated_at: true, created_by: true, updated_by: true },
+  trial_member_sites: { trial_id: true, user_id: true, site_id: true, created_at: true, created_by: true },
+};

@@ -1,0 +1,68 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import express from 'express';
+import helmet from 'helmet';
+import type { Logger } from 'pino';
+import { pinoHttp } from 'pino-http';
+import { toNodeHandler } from 'better-auth/node';
+import type { DB } from '../db/database';
+import type { Env } from './env';
+import { projectRoot } from './env';
+import { resolveActor } from './auth/actor';
+import type { Auth } from './auth/auth';
+import { healthRouter } from './health/health-router';
+import type { CaptureServer } from './mail/capture-server';
+import { mailboxRouter } from './mail/mailbox-router';
+import { meRouter } from './me/me-router';
+import { apiNotFound, errorHandler } from './lib/error-handler';
+import { trialsRouter } from './trials/trials-router';
+
+export interface AppDeps {
+  db: DB;
+  env: Env;
+  logger: Logger;
+  version: string;
+  auth: Auth;
+  /** The local capture server's messages, listed at /dev/mailbox outside production. */
+  mailbox?: CaptureServer;
+  /** Serve the built client from this folder (production). */
+  clientDir?: string;
+}
+
+export function createApp(deps: AppDeps) {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: { 'img-src': ["'self'", 'data:', 'blob:'], 'upgrade-insecure-requests': null },
+      },
+    }),
+  );
+  app.use(pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+
+  // The sign-in library reads its own request bodies: mount it before the JSON parser.
+  app.all('/api/auth/*splat', toNodeHandler(deps.auth));
+  app.use(express.json({ limit: '1mb' }));
+  app.use('/api/health', healthRouter(deps));
+  app.use('/api', resolveActor(deps.auth));
+  app.use('/api/me', meRouter(deps));
+  if (deps.mailbox && deps.env.NODE_ENV !== 'production') app.use('/api/dev/mailbox', mailboxRouter(deps.mailbox));
+  app.use('/api/trials', trialsRouter(deps));
+  app.use('/api', apiNotFound);
+
+  if (deps.clientDir && fs.existsSync(path.join(deps.clientDir, 'index.html'))) {
+    const clientDir = deps.clientDir;
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    // Client routes are the browser router's; every other GET gets the app shell.
+    app.get('/*splat', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  }
+  app.use(errorHandler);
+  return app;
+}
+
+export const defaultClientDir = path.join(projectRoot, 'dist', 'client');

@@ -1,0 +1,46 @@
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { z } from 'zod';
+
+export const projectRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+const port = z.coerce.number().int().min(1).max(65535);
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: port.default(3000),
+  /** The address people reach the app at; links in e-mail are built from it. */
+  PUBLIC_URL: z.url().optional(),
+  DATABASE_URL: z.url().optional(),
+  ROWTALLY_DB_PORT: port.default(55432),
+  ROWTALLY_DATA_DIR: z.string().optional(),
+  DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
+  AUTH_SECRET: z.string().min(32).optional(),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: port.default(2525),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  SMTP_SECURE: z.stringbool().default(false),
+  MAIL_FROM: z.string().default('Rowtally <no-reply@rowtally.local>'),
+  UPLOADS_DIR: z.string().default(path.join(projectRoot, 'uploads')),
+  STORAGE_DRIVER: z.enum(['local', 's3']).default('local'),
+  S3_ENDPOINT: z.url().optional(),
+  S3_BUCKET: z.string().optional(),
+  S3_REGION: z.string().default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+});
+
+export type Env = z.infer<typeof envSchema>;
+
+/** Parses the environment once at start-up; a bad value stops the process with its name. */
+export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  const result = envSchema.safeParse(source);
+  if (!result.success) {
+    const lines = result.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Invalid configuration in the environment:\n${lines.join('\n')}`);
+  }
+  return result.data;
+}

@@ -1,0 +1,61 @@
+import nodemailer from 'nodemailer';
+import type { Logger } from 'pino';
+import type { Env } from '../env';
+
+export interface OutgoingMail {
+  to: string;
+  subject: string;
+  text: string;
+  html: string;
+}
+
+export interface Mailer {
+  send(mail: OutgoingMail): Promise<void>;
+}
+
+const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+/** nodemailer over SMTP. A failed send is retried with back-off, then reported to the caller. */
+export function createSmtpMailer(env: Env, logger: Logger, retryDelaysMs = [200, 1000, 3000]): Mailer {
+  const transport = nodemailer.createTransport({
+    host: env.SMTP_HOST,
+    port: env.SMTP_PORT,
+    secure: env.SMTP_SECURE,
+    auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASSWORD ?? '' } : undefined,
+    // Plain local capture servers offer no TLS; real relays should.
+    ignoreTLS: env.SMTP_HOST === '127.0.0.1' && !env.SMTP_SECURE,
+  });
+  return {
+    async send(mail) {
+      for (let attempt = 0; ; attempt++) {
+        try {
+          await transport.sendMail({ from: env.MAIL_FROM, ...mail });
+          return;
+        } catch (err) {
+          const delay = retryDelaysMs[attempt];
+          logger.warn({ err, to: mail.to, subject: mail.subject, attempt: attempt + 1 }, 'mail send failed');
+          if (delay === undefined) throw err;
+          await wait(delay);
+        }
+      }
+    },
+  };
+}
+
+const escapeHtml = (s: string) =>
+  s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+
+/** One plain layout for every message: text and HTML bodies, no images, no tracking. */
+export function composeMail(opts: { to: string; subject: string; lines: string[]; action?: { label: string; url: string } }): OutgoingMail {
+  const text = [...opts.lines, ...(opts.action ? ['', `${opts.action.label}: ${opts.action.url}`] : []), '', '— Rowtally'].join('\n');
+  const html = [
+    '<div style="font-family:system-ui,sans-serif;max-width:560px;color:#1f2a1c">',
+    '<p style="font-weight:700;color:#2f5d3a">Rowtally</p>',
+    ...opts.lines.map((l) => `<p>${escapeHtml(l)}</p>`),
+    opts.action
+      ? `<p><a href="${escapeHtml(opts.action.url)}" style="background:#2f5d3a;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escapeHtml(opts.action.label)}</a></p><p style="font-size:12px;color:#555">Or open this address: ${escapeHtml(opts.action.url)}</p>`
+      : '',
+    '</div>',
+  ].join('\n');
+  return { to: opts.to, subject: opts.subject, text, html };
+}

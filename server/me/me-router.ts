@@ -1,0 +1,46 @@
+import { Router } from 'express';
+import { type Me, updateMeBody } from '../../common/contracts/me';
+import type { DB } from '../../db/database';
+import type { AppDeps } from '../app';
+import { requireActor } from '../auth/actor';
+import { AppError } from '../lib/app-error';
+import { endpoint } from '../lib/endpoint';
+
+async function loadMe(db: DB, userId: string): Promise<Me> {
+  const user = await db
+    .selectFrom('users')
+    .select(['id', 'name', 'email', 'email_verified', 'unit_system', 'is_admin'])
+    .where('id', '=', userId)
+    .executeTakeFirst();
+  if (!user) throw new AppError('unauthenticated', 'Sign in to do this.');
+  return {
+    id: user.id,
+    name: user.name,
+    email: user.email,
+    emailVerified: user.email_verified,
+    unitSystem: user.unit_system,
+    isAdmin: user.is_admin,
+  };
+}
+
+export function meRouter({ db }: Pick<AppDeps, 'db'>) {
+  const router = Router();
+  router.get(
+    '/',
+    endpoint({}, async (_input, _req, res) => {
+      res.json(await loadMe(db, requireActor(res).userId));
+    }),
+  );
+  router.patch(
+    '/',
+    endpoint({ body: updateMeBody }, async ({ body }, _req, res) => {
+      const actor = requireActor(res);
+      const changes = { ...(body.name ? { name: body.name } : {}), ...(body.unitSystem ? { unit_system: body.unitSystem } : {}) };
+      if (Object.keys(changes).length) {
+        await db.updateTable('users').set({ ...changes, updated_at: new Date() }).where('id', '=', actor.userId).execute();
+      }
+      res.json(await loadMe(db, actor.userId));
+    }),
+  );
+  return router;
+}

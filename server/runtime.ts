@@ -1,0 +1,75 @@
+/** Builds everything the app needs from the parsed environment; used by start, dev and tests. */
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import pino, { type Logger } from 'pino';
+import { createDb, createPool } from '../db/database';
+import { type AppDeps, createApp, defaultClientDir } from './app';
+import { createAuth } from './auth/auth';
+import { type Env, projectRoot } from './env';
+import type { CaptureServer } from './mail/capture-server';
+import { createSmtpMailer, type Mailer } from './mail/mailer';
+
+export const appVersion: string = JSON.parse(
+  fs.readFileSync(path.join(projectRoot, 'package.json'), 'utf8'),
+).version;
+
+/** A development secret kept beside the data so sessions survive restarts; production must set one. */
+function authSecret(env: Env): string {
+  if (env.AUTH_SECRET) return env.AUTH_SECRET;
+  if (env.NODE_ENV === 'production') throw new Error('AUTH_SECRET must be set (32+ characters) in production.');
+  if (env.NODE_ENV === 'test') return 'test-secret-not-for-use-anywhere-else-0123456789';
+  const file = path.join(projectRoot, '.data', 'auth-secret');
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(path.dirname(file), { recursive: true });
+    fs.writeFileSync(file, crypto.randomBytes(32).toString('hex'), { mode: 0o600 });
+  }
+  return fs.readFileSync(file, 'utf8').trim();
+}
+
+export interface RuntimeOptions {
+  env: Env;
+  databaseUrl: string;
+  logger?: Logger;
+  mailer?: Mailer;
+  mailbox?: CaptureServer;
+  baseUrl?: string;
+  clientDir?: string;
+}
+
+export function createRuntime(opts: RuntimeOptions) {
+  const { env } = opts;
+  const logger =
+    opts.logger ??
+    pino({
+      level: env.LOG_LEVEL,
+      redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'],
+    });
+  const pool = createPool(opts.databaseUrl, env.DB_POOL_MAX);
+  const db = createDb(pool);
+  const mailer = opts.mailer ?? createSmtpMailer(env, logger);
+  const baseUrl = opts.baseUrl ?? env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
+  const auth = createAuth({ pool, env, mailer, logger, baseUrl, secret: authSecret(env) });
+  const deps: AppDeps = {
+    db,
+    env,
+    logger,
+    version: appVersion,
+    auth,
+    mailbox: opts.mailbox,
+    clientDir: opts.clientDir ?? defaultClientDir,
+  };
+  return {
+    deps,
+    app: createApp(deps),
+    pool,
+    db,
+    auth,
+    mailer,
+    baseUrl,
+    close: async () => {
+      await db.destroy();
+    },
+  };
+}
+export type Runtime = ReturnType<typeof createRuntime>;

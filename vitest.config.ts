@@ -1,0 +1,53 @@
+import { fileURLToPath } from 'node:url';
+import { defineConfig } from 'vitest/config';
+
+const alias = {
+  '@': fileURLToPath(new URL('./src', import.meta.url)),
+  '@common': fileURLToPath(new URL('./common', import.meta.url)),
+};
+
+export default defineConfig({
+  resolve: { alias },
+  test: {
+    // One throwaway PostgreSQL cluster per run, started and stopped here.
+    globalSetup: ['tests/setup/global-db.ts'],
+    setupFiles: ['tests/setup/fail-on-console-error.ts'],
+    reporters: ['default'],
+    projects: [
+      {
+        extends: true,
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'api',
+          include: ['tests/api/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 20_000,
+          hookTimeout: 30_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'client',
+          include: ['tests/client/**/*.test.tsx'],
+          environment: 'jsdom',
+          setupFiles: ['tests/setup/client.ts'],
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 90_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+});
