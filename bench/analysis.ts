@@ -1,0 +1,72 @@
+/**
+ * Benchmark: multisite analysis of one trait, 100 entries × 4 blocks × 6 sites (2400 plots),
+ * fictional data from a fixed seed. Prints median and p95 time per analysis.
+ *   npm run bench:analysis            (add --missing to also time one fit with a missing plot)
+ */
+import { analyzePlotRows, type PlotRow } from '../server/analysis/engine/analyze.js';
+
+const TARGET_MS = 20;
+const ENTRIES = 100;
+const BLOCKS = 4;
+const SITES = 6;
+
+/** Small seeded generator (mulberry32) so every run analyses the same data. */
+function seeded(seed: number) {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function trialRows(seed: number): PlotRow[] {
+  const rnd = seeded(seed);
+  const normal = () => Math.sqrt(-2 * Math.log(1 - rnd())) * Math.cos(2 * Math.PI * rnd());
+  const entryEffect = Array.from({ length: ENTRIES }, () => 3 * normal());
+  const rows: PlotRow[] = [];
+  for (let s = 0; s < SITES; s++) {
+    const siteEffect = 5 * normal();
+    for (let b = 0; b < BLOCKS; b++) {
+      const blockEffect = normal();
+      for (let e = 0; e < ENTRIES; e++) {
+        const v = 40 + siteEffect + blockEffect + entryEffect[e]! + 0.8 * normal() + 2 * normal();
+        rows.push({ site: `Site ${s + 1}`, block: `${b + 1}`, variety: `Trial line ${e + 1}`, value: v.toFixed(1) });
+      }
+    }
+  }
+  return rows;
+}
+
+function percentile(sorted: number[], p: number): number {
+  const i = Math.min(sorted.length - 1, Math.ceil(p * sorted.length) - 1);
+  return sorted[Math.max(0, i)]!;
+}
+
+const rows = trialRows(20240611);
+const warmUp = 30;
+const runs = 300;
+let check = 0;
+for (let i = 0; i < warmUp; i++) check += analyzePlotRows(rows, { design: 'multisite' }).n;
+const times: number[] = [];
+for (let i = 0; i < runs; i++) {
+  const t0 = performance.now();
+  const r = analyzePlotRows(rows, { design: 'multisite' });
+  times.push(performance.now() - t0);
+  check += r.n;
+}
+times.sort((a, b) => a - b);
+const median = percentile(times, 0.5);
+const p95 = percentile(times, 0.95);
+const last = analyzePlotRows(rows, { design: 'multisite' });
+console.log(`multisite analysis, ${ENTRIES} entries × ${BLOCKS} blocks × ${SITES} sites = ${rows.length} plots (${last.method} path)`);
+console.log(`runs: ${runs} after ${warmUp} warm-up; median ${median.toFixed(2)} ms, p95 ${p95.toFixed(2)} ms; target < ${TARGET_MS} ms: ${p95 < TARGET_MS ? 'met' : 'NOT met'}`);
+if (check !== (warmUp + runs) * rows.length) throw new Error('unexpected plot count');
+
+if (process.argv.includes('--missing')) {
+  const t0 = performance.now();
+  const m = analyzePlotRows(rows.slice(1), { design: 'multisite' });
+  console.log(`one missing plot (${m.method} path): ${(performance.now() - t0).toFixed(0)} ms`);
+}
