@@ -33,7 +33,12 @@ function trialRows(seed: number): PlotRow[] {
       const blockEffect = normal();
       for (let e = 0; e < ENTRIES; e++) {
         const v = 40 + siteEffect + blockEffect + entryEffect[e]! + 0.8 * normal() + 2 * normal();
-        rows.push({ site: `Site ${s + 1}`, block: `${b + 1}`, variety: `Trial line ${e + 1}`, value: v.toFixed(1) });
+        rows.push({
+          site: `Site ${s + 1}`,
+          block: `${b + 1}`,
+          variety: `Trial line ${e + 1}`,
+          value: v.toFixed(1),
+        });
       }
     }
   }
@@ -61,8 +66,12 @@ times.sort((a, b) => a - b);
 const median = percentile(times, 0.5);
 const p95 = percentile(times, 0.95);
 const last = analyzePlotRows(rows, { design: 'multisite' });
-console.log(`multisite analysis, ${ENTRIES} entries × ${BLOCKS} blocks × ${SITES} sites = ${rows.length} plots (${last.method} path)`);
-console.log(`runs: ${runs} after ${warmUp} warm-up; median ${median.toFixed(2)} ms, p95 ${p95.toFixed(2)} ms; target < ${TARGET_MS} ms: ${p95 < TARGET_MS ? 'met' : 'NOT met'}`);
+console.log(
+  `multisite analysis, ${ENTRIES} entries × ${BLOCKS} blocks × ${SITES} sites = ${rows.length} plots (${last.method} path)`,
+);
+console.log(
+  `runs: ${runs} after ${warmUp} warm-up; median ${median.toFixed(2)} ms, p95 ${p95.toFixed(2)} ms; target < ${TARGET_MS} ms: ${p95 < TARGET_MS ? 'met' : 'NOT met'}`,
+);
 if (check !== (warmUp + runs) * rows.length) throw new Error('unexpected plot count');
 
 if (process.argv.includes('--missing')) {

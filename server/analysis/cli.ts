@@ -5,9 +5,15 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { AnalysisInputError, analyzeCsv, type AnalyzeOptions, type Design } from './engine/analyze.js';
+import {
+  AnalysisInputError,
+  analyzeCsv,
+  type AnalyzeOptions,
+  type Design,
+} from './engine/analyze.js';
 
-const USAGE = 'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd]';
+const USAGE =
+  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd]';
 
 function fail(message: string, code = 1): never {
   process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
@@ -32,7 +38,8 @@ function main(): void {
     fail(`${err instanceof Error ? err.message : String(err)}; ${USAGE}`, 2);
   }
   const { values, positionals } = parsed;
-  if (positionals.length !== 1) fail(`expected one CSV file, got ${positionals.length}; ${USAGE}`, 2);
+  if (positionals.length !== 1)
+    fail(`expected one CSV file, got ${positionals.length}; ${USAGE}`, 2);
   const options: AnalyzeOptions = {};
   if (values.trait !== undefined) options.trait = values.trait;
   if (values.alpha !== undefined) {
@@ -49,7 +56,8 @@ function main(): void {
     options.design = values.design as Design;
   }
   if (values.letters !== undefined) {
-    if (values.letters !== 'hsd' && values.letters !== 'lsd') fail(`option --letters: "${values.letters}" is not hsd or lsd`, 2);
+    if (values.letters !== 'hsd' && values.letters !== 'lsd')
+      fail(`option --letters: "${values.letters}" is not hsd or lsd`, 2);
     options.letters = values.letters;
   }
   const file = positionals[0]!;
@@ -62,7 +70,11 @@ function main(): void {
   }
   try {
     const result = analyzeCsv(text, options);
-    process.stdout.write(JSON.stringify(result, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
+    process.stdout.write(
+      JSON.stringify(result, (_k, v: unknown) =>
+        typeof v === 'number' && !Number.isFinite(v) ? null : v,
+      ) + '\n',
+    );
   } catch (err) {
     if (err instanceof AnalysisInputError) fail(`${file}: ${err.message}`);
     fail(`${file}: analysis failed: ${err instanceof Error ? err.message : String(err)}`);

@@ -3,7 +3,14 @@
  * object out. Pure: no file or network access, so the command line and the web API share it.
  */
 import { parse } from 'csv-parse/sync';
-import { analyseVariance, isOrthogonal, type AnovaLine, type AnovaMethod, type Design, type PlotLayout } from './anova.js';
+import {
+  analyseVariance,
+  isOrthogonal,
+  type AnovaLine,
+  type AnovaMethod,
+  type Design,
+  type PlotLayout,
+} from './anova.js';
 import { centreDecimalTexts, isDecimalText, addOffset } from './decimal-input.js';
 import { describe } from './descriptives.js';
 import { accurateMean } from './linear-model.js';
@@ -115,9 +122,13 @@ function label(v: string | null | undefined): string | null {
 }
 
 /** Analyse already-parsed plot rows (for example database records). */
-export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOptions = {}): AnalysisResult {
+export function analyzePlotRows(
+  rows: readonly PlotRow[],
+  options: AnalyzeOptions = {},
+): AnalysisResult {
   const alpha = options.alpha ?? 0.05;
-  if (!(alpha > 0 && alpha < 1)) throw new AnalysisInputError(`alpha must be between 0 and 1, got ${alpha}`);
+  if (!(alpha > 0 && alpha < 1))
+    throw new AnalysisInputError(`alpha must be between 0 and 1, got ${alpha}`);
   const trait = options.trait ?? 'value';
   const warnings: string[] = [];
   if (rows.length === 0) throw new AnalysisInputError('no data rows');
@@ -128,18 +139,27 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
 
   // Validate rows and read values as exact decimal text.
   const texts: string[] = [];
-  const kept: { row: number; variety: string; site: string; block: string | null; plot: string | null }[] = [];
+  const kept: {
+    row: number;
+    variety: string;
+    site: string;
+    block: string | null;
+    plot: string | null;
+  }[] = [];
   let missingValues = 0;
   rows.forEach((r, i) => {
     const rowNo = r.row ?? i + 1;
     const variety = label(r.variety);
     if (variety === null) throw new AnalysisInputError(`row ${rowNo}, column "variety": empty`);
     const site = label(r.site);
-    if (hasSite && site === null) throw new AnalysisInputError(`row ${rowNo}, column "site": empty`);
+    if (hasSite && site === null)
+      throw new AnalysisInputError(`row ${rowNo}, column "site": empty`);
     const block = label(r.block);
-    if (hasBlock && block === null) throw new AnalysisInputError(`row ${rowNo}, column "block": empty`);
+    if (hasBlock && block === null)
+      throw new AnalysisInputError(`row ${rowNo}, column "block": empty`);
     const plot = label(r.plot);
-    if (hasPlot && plot === null) throw new AnalysisInputError(`row ${rowNo}, column "plot": empty`);
+    if (hasPlot && plot === null)
+      throw new AnalysisInputError(`row ${rowNo}, column "plot": empty`);
     const raw = r.value;
     if (raw === null || raw === undefined || (typeof raw === 'string' && MISSING.has(raw.trim()))) {
       missingValues++;
@@ -147,11 +167,13 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
     }
     let text: string;
     if (typeof raw === 'number') {
-      if (!Number.isFinite(raw)) throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${raw} is not a number`);
+      if (!Number.isFinite(raw))
+        throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${raw} is not a number`);
       text = String(raw);
     } else {
       text = raw.trim();
-      if (!isDecimalText(text)) throw new AnalysisInputError(`row ${rowNo}, column "${trait}": "${raw}" is not a number`);
+      if (!isDecimalText(text))
+        throw new AnalysisInputError(`row ${rowNo}, column "${trait}": "${raw}" is not a number`);
     }
     texts.push(text);
     kept.push({ row: rowNo, variety, site: site ?? '', block, plot });
@@ -179,13 +201,21 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
       existing.rowIndices.push(i);
       return;
     }
-    const p: Plot = { variety: r.variety, site: r.site, block: r.block, firstRow: r.row, rowIndices: [i] };
+    const p: Plot = {
+      variety: r.variety,
+      site: r.site,
+      block: r.block,
+      firstRow: r.row,
+      rowIndices: [i],
+    };
     plots.push(p);
     if (key !== null) byKey.set(key, p);
   });
   const subSampled = plots.filter((p) => p.rowIndices.length > 1).length;
   if (subSampled > 0) {
-    warnings.push(`sub-samples averaged: ${kept.length} rows became ${plots.length} plot values (${subSampled} plots had more than one row)`);
+    warnings.push(
+      `sub-samples averaged: ${kept.length} rows became ${plots.length} plot values (${subSampled} plots had more than one row)`,
+    );
   }
 
   // Exact offset removal, then one value per plot.
@@ -224,7 +254,8 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
   let design: Design;
   if (options.design) {
     design = options.design;
-    if (design !== 'crd' && !hasBlock) throw new AnalysisInputError(`column "block": required for design ${design}`);
+    if (design !== 'crd' && !hasBlock)
+      throw new AnalysisInputError(`column "block": required for design ${design}`);
     if (design === 'multisite' && site.levels.length < 2) {
       throw new AnalysisInputError(
         `column "site": design multisite needs at least two sites, found ${hasSite ? site.levels.length : 0}`,
@@ -248,7 +279,8 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
   let missingPlots = 0;
   if (design !== 'crd') {
     const seen = new Set<number>();
-    for (let i = 0; i < y.length; i++) seen.add(block.codes[i]! * entry.levels.length + entry.codes[i]!);
+    for (let i = 0; i < y.length; i++)
+      seen.add(block.codes[i]! * entry.levels.length + entry.codes[i]!);
     missingPlots = block.levels.length * entry.levels.length - seen.size;
   }
   const orthogonal = isOrthogonal(design, layout);
@@ -261,7 +293,9 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
     );
   }
   if (!(av.error.df > 0)) {
-    throw new AnalysisInputError(`no degrees of freedom left for ${av.error.source} to test varieties against`);
+    throw new AnalysisInputError(
+      `no degrees of freedom left for ${av.error.source} to test varieties against`,
+    );
   }
 
   if (design !== 'crd' && missingPlots > 0) {
@@ -269,7 +303,9 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
       `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); sequential (type I) sums of squares in the order ${design === 'multisite' ? 'site, block, variety, site:variety' : 'block, variety'}; means are arithmetic, not adjusted`,
     );
   } else if (!orthogonal) {
-    warnings.push('unbalanced: varieties occur unequally often across blocks; sequential (type I) sums of squares');
+    warnings.push(
+      'unbalanced: varieties occur unequally often across blocks; sequential (type I) sums of squares',
+    );
   }
   if (design === 'multisite' && !orthogonal) {
     warnings.push('with missing plots, the variety test against site:variety is approximate');
@@ -288,7 +324,10 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
     alpha,
     varietyLine?.p ?? null,
   );
-  if (!sep.replicates) warnings.push(`unequal replication (${[...new Set(descs.map((d) => d.n))].sort((a, b) => a - b).join(', ')} plots per entry): LSD and HSD differ by pair, single values are null`);
+  if (!sep.replicates)
+    warnings.push(
+      `unequal replication (${[...new Set(descs.map((d) => d.n))].sort((a, b) => a - b).join(', ')} plots per entry): LSD and HSD differ by pair, single values are null`,
+    );
   for (const w of sep.warnings) if (!w.startsWith('unequal replication')) warnings.push(w);
 
   const indexOf = new Map(entry.levels.map((n, i) => [n, i]));
@@ -319,13 +358,20 @@ export function analyzePlotRows(rows: readonly PlotRow[], options: AnalyzeOption
     alpha,
     n: y.length,
     grandMean,
-    cvPercent: grandMean !== 0 && residual.ms >= 0 ? (100 * Math.sqrt(residual.ms)) / Math.abs(grandMean) : null,
+    cvPercent:
+      grandMean !== 0 && residual.ms >= 0
+        ? (100 * Math.sqrt(residual.ms)) / Math.abs(grandMean)
+        : null,
     anova: av.lines,
     means,
     lsd: sep.lsd,
     hsd: { ...sep.hsd, df: av.error.df },
     letters: lettersFrom,
-    errorTerm: { source: av.error.source as 'residual' | 'site:variety', df: av.error.df, ms: av.error.ms },
+    errorTerm: {
+      source: av.error.source as 'residual' | 'site:variety',
+      df: av.error.df,
+      ms: av.error.ms,
+    },
     method: av.method,
     counts: {
       entries: entry.levels.length,
@@ -346,7 +392,11 @@ const KNOWN_COLUMNS = ['variety', 'site', 'block', 'plot'] as const;
 export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): AnalysisResult {
   let records: string[][];
   try {
-    records = parse(csvText, { bom: true, skip_empty_lines: true, relax_column_count: false }) as string[][];
+    records = parse(csvText, {
+      bom: true,
+      skip_empty_lines: true,
+      relax_column_count: false,
+    }) as string[][];
   } catch (err) {
     const msg = err instanceof Error ? err.message : String(err);
     throw new AnalysisInputError(`CSV could not be read: ${msg.split('\n')[0]}`);
@@ -356,18 +406,25 @@ export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): Analy
   const seen = new Set<string>();
   for (const h of header) {
     if (h === '') throw new AnalysisInputError('row 1: a column has an empty name');
-    if (seen.has(h.toLowerCase())) throw new AnalysisInputError(`row 1, column "${h}": appears twice`);
+    if (seen.has(h.toLowerCase()))
+      throw new AnalysisInputError(`row 1, column "${h}": appears twice`);
     seen.add(h.toLowerCase());
   }
   const find = (name: string) => header.findIndex((h) => h.toLowerCase() === name);
-  const col = Object.fromEntries(KNOWN_COLUMNS.map((c) => [c, find(c)])) as Record<(typeof KNOWN_COLUMNS)[number], number>;
+  const col = Object.fromEntries(KNOWN_COLUMNS.map((c) => [c, find(c)])) as Record<
+    (typeof KNOWN_COLUMNS)[number],
+    number
+  >;
   if (col.variety < 0) throw new AnalysisInputError('column "variety": not found in the header');
 
   let valueCol: number;
   if (options.trait !== undefined) {
     valueCol = header.indexOf(options.trait);
     if (valueCol < 0) valueCol = find(options.trait.toLowerCase());
-    if (valueCol < 0) throw new AnalysisInputError(`column "${options.trait}": not found in the header (given by --trait)`);
+    if (valueCol < 0)
+      throw new AnalysisInputError(
+        `column "${options.trait}": not found in the header (given by --trait)`,
+      );
     if ((KNOWN_COLUMNS as readonly string[]).includes(header[valueCol]!.toLowerCase())) {
       throw new AnalysisInputError(`column "${header[valueCol]}": is a layout column, not a trait`);
     }
@@ -375,7 +432,8 @@ export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): Analy
     const others = header
       .map((h, i) => ({ h, i }))
       .filter(({ h }) => !(KNOWN_COLUMNS as readonly string[]).includes(h.toLowerCase()));
-    if (others.length === 0) throw new AnalysisInputError('no value column: the header has only variety/site/block/plot');
+    if (others.length === 0)
+      throw new AnalysisInputError('no value column: the header has only variety/site/block/plot');
     if (others.length > 1) {
       throw new AnalysisInputError(
         `several value columns (${others.map((o) => `"${o.h}"`).join(', ')}): choose one with --trait`,
@@ -384,7 +442,8 @@ export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): Analy
     valueCol = others[0]!.i;
   }
   const trait = header[valueCol]!;
-  if (records.length === 1) throw new AnalysisInputError('no data rows: the file has only a header');
+  if (records.length === 1)
+    throw new AnalysisInputError('no data rows: the file has only a header');
 
   const rows: PlotRow[] = [];
   for (let r = 1; r < records.length; r++) {

@@ -55,7 +55,7 @@ export interface AnovaResult {
   residual: { df: number; ss: number; ms: number };
 }
 
-/** Counts of each variety in each block; null when not every block holds every variety equally often. */
+/** True when every block holds every variety equally often (so blocks and varieties are orthogonal). */
 function equalBlockReplication(layout: PlotLayout): boolean {
   const { block, blocks, entry, entries } = layout;
   if (!block || !blocks) return true;

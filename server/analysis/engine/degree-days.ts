@@ -22,13 +22,41 @@ export interface CropThresholds {
  * 10 °C (50 °F) base with a 30 °C (86 °F) cutoff is the widely used warm-season pair.
  */
 export const CROP_THRESHOLDS: Readonly<Record<string, CropThresholds>> = {
-  okra: { baseC: 10, upperC: 30, source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff' },
-  bean: { baseC: 10, upperC: 30, source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff' },
-  tomato: { baseC: 10, upperC: 30, source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff' },
-  pepper: { baseC: 10, upperC: 30, source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff' },
-  'sweet corn': { baseC: 10, upperC: 30, source: 'common practice (no source): the 50/86 °F pair used for corn' },
-  pea: { baseC: 4.4, upperC: 30, source: 'from memory: 40 °F (4.4 °C) base for peas; cutoff common practice (no source)' },
-  cucumber: { baseC: 15.5, upperC: 32, source: 'from memory: 60 °F (15.5 °C) base for cucumbers; cutoff from memory' },
+  okra: {
+    baseC: 10,
+    upperC: 30,
+    source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff',
+  },
+  bean: {
+    baseC: 10,
+    upperC: 30,
+    source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff',
+  },
+  tomato: {
+    baseC: 10,
+    upperC: 30,
+    source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff',
+  },
+  pepper: {
+    baseC: 10,
+    upperC: 30,
+    source: 'common practice (no source): 10 °C (50 °F) base, 30 °C (86 °F) cutoff',
+  },
+  'sweet corn': {
+    baseC: 10,
+    upperC: 30,
+    source: 'common practice (no source): the 50/86 °F pair used for corn',
+  },
+  pea: {
+    baseC: 4.4,
+    upperC: 30,
+    source: 'from memory: 40 °F (4.4 °C) base for peas; cutoff common practice (no source)',
+  },
+  cucumber: {
+    baseC: 15.5,
+    upperC: 32,
+    source: 'from memory: 60 °F (15.5 °C) base for cucumbers; cutoff from memory',
+  },
 };
 
 /** Tmax at or above this counts as a hot day; common practice (no source). */
@@ -45,7 +73,12 @@ export interface DailyWeather {
 }
 
 /** Degree days for one day (see DEGREE_DAY_METHOD). */
-export function dailyDegreeDays(tMaxC: number, tMinC: number, baseC: number, upperC: number): number {
+export function dailyDegreeDays(
+  tMaxC: number,
+  tMinC: number,
+  baseC: number,
+  upperC: number,
+): number {
   if (!(upperC > baseC)) throw new RangeError('upper threshold must be above the base');
   if (tMinC > tMaxC) throw new RangeError(`Tmin ${tMinC} is above Tmax ${tMaxC}`);
   const hi = Math.min(Math.max(tMaxC, baseC), upperC);
@@ -73,18 +106,28 @@ export function accumulateDegreeDays(
     cumulative += gdd;
     return { date: d.date, gdd, cumulative };
   });
-  return { method: DEGREE_DAY_METHOD, baseC: thresholds.baseC, upperC: thresholds.upperC, total: cumulative, daily };
+  return {
+    method: DEGREE_DAY_METHOD,
+    baseC: thresholds.baseC,
+    upperC: thresholds.upperC,
+    total: cumulative,
+    daily,
+  };
 }
 
 /** Days with Tmax ≥ threshold. */
-export function countHotDays(days: readonly DailyWeather[], thresholdC = DEFAULT_HOT_DAY_C): number {
+export function countHotDays(
+  days: readonly DailyWeather[],
+  thresholdC = DEFAULT_HOT_DAY_C,
+): number {
   return days.filter((d) => d.tMaxC >= thresholdC).length;
 }
 
 function sortDays(days: readonly DailyWeather[]): DailyWeather[] {
   const sorted = [...days].sort((a, b) => dayNumber(a.date) - dayNumber(b.date));
   for (let i = 1; i < sorted.length; i++) {
-    if (sorted[i]!.date === sorted[i - 1]!.date) throw new RangeError(`weather for ${sorted[i]!.date} appears twice`);
+    if (sorted[i]!.date === sorted[i - 1]!.date)
+      throw new RangeError(`weather for ${sorted[i]!.date} appears twice`);
   }
   return sorted;
 }
@@ -101,7 +144,12 @@ export interface WaterTotals {
   weeks: WaterWeek[];
   season: { rainMm: number; irrigationMm: number; totalMm: number };
   /** Water up to each harvest date (inclusive) and since the previous harvest. */
-  harvests: { date: string; cumulativeMm: number; sinceLastHarvestMm: number; degreeDays?: number }[];
+  harvests: {
+    date: string;
+    cumulativeMm: number;
+    sinceLastHarvestMm: number;
+    degreeDays?: number;
+  }[];
 }
 
 /** Rain plus irrigation per calendar week (Monday start) and per season, against harvest dates. */
@@ -150,7 +198,11 @@ export function waterTotals(
   let previous = 0;
   const harvests = harvestDays.map((date) => {
     const { mm, g } = upTo(dayNumber(date));
-    const row: WaterTotals['harvests'][number] = { date, cumulativeMm: mm, sinceLastHarvestMm: mm - previous };
+    const row: WaterTotals['harvests'][number] = {
+      date,
+      cumulativeMm: mm,
+      sinceLastHarvestMm: mm - previous,
+    };
     if (thresholds) row.degreeDays = g;
     previous = mm;
     return row;

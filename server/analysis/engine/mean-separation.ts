@@ -58,7 +58,8 @@ export function rankDescending(values: readonly number[]): number[] {
   const ranks = new Array<number>(values.length);
   order.forEach((idx, pos) => {
     const prev = order[pos - 1];
-    ranks[idx] = pos > 0 && prev !== undefined && values[prev] === values[idx] ? ranks[prev]! : pos + 1;
+    ranks[idx] =
+      pos > 0 && prev !== undefined && values[prev] === values[idx] ? ranks[prev]! : pos + 1;
   });
   return ranks;
 }
@@ -73,7 +74,8 @@ export function separateMeans(
   alpha = 0.05,
   varietyP: number | null = null,
 ): MeanSeparation {
-  if (!(alpha > 0 && alpha < 1)) throw new RangeError(`alpha must be between 0 and 1, got ${alpha}`);
+  if (!(alpha > 0 && alpha < 1))
+    throw new RangeError(`alpha must be between 0 and 1, got ${alpha}`);
   const k = means.length;
   if (k < 2) throw new RangeError('mean separation needs at least two entries');
   if (!(errorDf > 0)) throw new RangeError('no error degrees of freedom for mean separation');
@@ -110,7 +112,14 @@ export function separateMeans(
       const hsdSep = d > (q * se) / Math.SQRT2;
       sepLsd[i]![j] = sepLsd[j]![i] = lsdSep;
       sepHsd[i]![j] = sepHsd[j]![i] = hsdSep;
-      pairs.push({ a: a.entry, b: b.entry, difference: diff, se, lsdSeparated: lsdSep, hsdSeparated: hsdSep });
+      pairs.push({
+        a: a.entry,
+        b: b.entry,
+        difference: diff,
+        se,
+        lsdSeparated: lsdSep,
+        hsdSeparated: hsdSep,
+      });
     }
   }
 

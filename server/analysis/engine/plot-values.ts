@@ -83,7 +83,8 @@ export interface PlotHarvestSummary {
 }
 
 function normalise(a: Amount, plants: number, rowLengthM: number, areaM2: number): Normalised {
-  const per = (d: number): Amount | null => (d > 0 ? { count: a.count / d, massG: a.massG / d } : null);
+  const per = (d: number): Amount | null =>
+    d > 0 ? { count: a.count / d, massG: a.massG / d } : null;
   const perM2 = per(areaM2);
   return {
     perPlant: per(plants),
@@ -96,13 +97,19 @@ function normalise(a: Amount, plants: number, rowLengthM: number, areaM2: number
 }
 
 /** Season summary for every plot in `plots` (plots with no harvest get zeros). */
-export function summariseHarvests(plots: readonly PlotInfo[], harvests: readonly HarvestRecord[]): PlotHarvestSummary[] {
+export function summariseHarvests(
+  plots: readonly PlotInfo[],
+  harvests: readonly HarvestRecord[],
+): PlotHarvestSummary[] {
   const byPlot = new Map<string, HarvestRecord[]>();
   for (const p of plots) byPlot.set(p.plotId, []);
   for (const h of harvests) {
     const list = byPlot.get(h.plotId);
     if (!list) throw new RangeError(`harvest on ${h.date} names unknown plot "${h.plotId}"`);
-    if (!(h.count >= 0) || !(h.massG >= 0)) throw new RangeError(`harvest on ${h.date} for plot "${h.plotId}": negative or missing amount`);
+    if (!(h.count >= 0) || !(h.massG >= 0))
+      throw new RangeError(
+        `harvest on ${h.date} for plot "${h.plotId}": negative or missing amount`,
+      );
     dayNumber(h.date); // validates the date
     list.push(h);
   }
@@ -134,7 +141,8 @@ export function summariseHarvests(plots: readonly PlotInfo[], harvests: readonly
       firstHarvest: first,
       lastHarvest: last,
       daysFromSowingToFirstHarvest: first && p.sowingDate ? daysBetween(p.sowingDate, first) : null,
-      daysFromTransplantToFirstHarvest: first && p.transplantDate ? daysBetween(p.transplantDate, first) : null,
+      daysFromTransplantToFirstHarvest:
+        first && p.transplantDate ? daysBetween(p.transplantDate, first) : null,
       marketable,
       total,
       meanFruitMassG: {
@@ -158,10 +166,13 @@ export interface PlotObservationMean {
 }
 
 /** One value per plot from per-plant (or repeated) observations, in first-seen plot order. */
-export function plotObservationMeans(observations: readonly ObservationRecord[]): PlotObservationMean[] {
+export function plotObservationMeans(
+  observations: readonly ObservationRecord[],
+): PlotObservationMean[] {
   const acc = new Map<string, { sum: number; n: number; values: number[] }>();
   for (const o of observations) {
-    if (!Number.isFinite(o.value)) throw new RangeError(`plot "${o.plotId}": observation is not a number`);
+    if (!Number.isFinite(o.value))
+      throw new RangeError(`plot "${o.plotId}": observation is not a number`);
     let a = acc.get(o.plotId);
     if (!a) {
       a = { sum: 0, n: 0, values: [] };

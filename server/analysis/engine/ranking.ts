@@ -44,7 +44,10 @@ export interface CrossTraitRanking {
 }
 
 /** Rank entries across traits. Every directional trait needs a mean for every entry. */
-export function rankAcrossTraits(traits: readonly TraitEntryMeans[], entries?: readonly string[]): CrossTraitRanking {
+export function rankAcrossTraits(
+  traits: readonly TraitEntryMeans[],
+  entries?: readonly string[],
+): CrossTraitRanking {
   const names = entries ? [...entries] : [...new Set(traits.flatMap((t) => Object.keys(t.means)))];
   if (names.length === 0) throw new RangeError('no entries to rank');
   const counted = traits.filter((t) => t.direction !== 'none');
@@ -52,16 +55,21 @@ export function rankAcrossTraits(traits: readonly TraitEntryMeans[], entries?: r
     if (!(t.weight >= 0)) throw new RangeError(`trait "${t.trait}": weight must be zero or more`);
   }
   const weightSum = counted.reduce((s, t) => s + t.weight, 0);
-  if (counted.length > 0 && !(weightSum > 0)) throw new RangeError('the weights of the ranked traits add up to zero');
+  if (counted.length > 0 && !(weightSum > 0))
+    throw new RangeError('the weights of the ranked traits add up to zero');
 
   const traitStats = traits.map((t) => {
     const values = names.map((n) => {
       const v = t.means[n];
-      if (v === undefined || !Number.isFinite(v)) throw new RangeError(`trait "${t.trait}": no mean for entry "${n}"`);
+      if (v === undefined || !Number.isFinite(v))
+        throw new RangeError(`trait "${t.trait}": no mean for entry "${n}"`);
       return v;
     });
     const mean = values.reduce((s, v) => s + v, 0) / values.length;
-    const sd = values.length > 1 ? Math.sqrt(values.reduce((s, v) => s + (v - mean) ** 2, 0) / (values.length - 1)) : 0;
+    const sd =
+      values.length > 1
+        ? Math.sqrt(values.reduce((s, v) => s + (v - mean) ** 2, 0) / (values.length - 1))
+        : 0;
     const sign = t.direction === 'higher' ? 1 : t.direction === 'lower' ? -1 : 0;
     // Rank 1 = best: rank the signed values from highest.
     const ranks = sign === 0 ? null : rankDescending(values.map((v) => sign * v));
@@ -93,6 +101,12 @@ export function rankAcrossTraits(traits: readonly TraitEntryMeans[], entries?: r
     .sort((a, b) => a.indexRank - b.indexRank || a.entry.localeCompare(b.entry));
   return {
     entries: ranked,
-    traits: traitStats.map(({ t, mean, sd }) => ({ trait: t.trait, direction: t.direction, weight: t.weight, mean, sd })),
+    traits: traitStats.map(({ t, mean, sd }) => ({
+      trait: t.trait,
+      direction: t.direction,
+      weight: t.weight,
+      mean,
+      sd,
+    })),
   };
 }

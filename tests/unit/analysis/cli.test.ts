@@ -23,14 +23,30 @@ describe('analyze command', { timeout: 60_000 }, () => {
     expect(r.stdout.trim().split('\n')).toHaveLength(1);
     const out = JSON.parse(r.stdout);
     expect(Object.keys(out)).toEqual(
-      expect.arrayContaining(['design', 'trait', 'alpha', 'n', 'grandMean', 'cvPercent', 'anova', 'means', 'lsd', 'hsd', 'warnings']),
+      expect.arrayContaining([
+        'design',
+        'trait',
+        'alpha',
+        'n',
+        'grandMean',
+        'cvPercent',
+        'anova',
+        'means',
+        'lsd',
+        'hsd',
+        'warnings',
+      ]),
     );
     expect(out.design).toBe('crd');
     expect(out.trait).toBe('value');
     expect(out.alpha).toBe(0.05);
     expect(out.n).toBe(30);
     // R: aov(weight ~ group, PlantGrowth): F = 4.846087862380136, residual MS 0.3885959259259259.
-    expect(out.anova.map((l: { source: string }) => l.source)).toEqual(['variety', 'residual', 'total']);
+    expect(out.anova.map((l: { source: string }) => l.source)).toEqual([
+      'variety',
+      'residual',
+      'total',
+    ]);
     expect(out.anova[0].f).toBeCloseTo(4.846087862380136, 10);
     expect(out.anova[0].testedAgainst).toBe('residual');
     expect(out.anova[1]).toMatchObject({ df: 27, f: null, p: null, testedAgainst: null });
@@ -75,7 +91,11 @@ describe('analyze command', { timeout: 60_000 }, () => {
     ['empty file', [fx('cli/empty.csv')], /empty/],
     ['header only', [fx('cli/header-only.csv')], /no data rows/],
     ['no variety column', [fx('cli/no-variety.csv')], /column "variety": not found/],
-    ['a non-number', [fx('cli/not-number.csv')], /^.*row 5, column "yield": "abc" is not a number$/],
+    [
+      'a non-number',
+      [fx('cli/not-number.csv')],
+      /^.*row 5, column "yield": "abc" is not a number$/,
+    ],
     ['a single entry', [fx('cli/single-entry.csv')], /column "variety": only one entry/],
     ['no residual df', [fx('cli/no-residual.csv')], /no residual degrees of freedom/],
     ['two value columns without --trait', [fx('cli/two-traits.csv')], /several value columns/],
@@ -83,7 +103,11 @@ describe('analyze command', { timeout: 60_000 }, () => {
     ['unknown option', [fx('plantgrowth.csv'), '--colour', 'red'], /Unknown option '--colour'/],
     ['bad --alpha', [fx('plantgrowth.csv'), '--alpha', '2'], /--alpha/],
     ['bad --design', [fx('plantgrowth.csv'), '--design', 'latin'], /--design/],
-    ['rcbd without blocks', [fx('plantgrowth.csv'), '--design', 'rcbd'], /column "block": required/],
+    [
+      'rcbd without blocks',
+      [fx('plantgrowth.csv'), '--design', 'rcbd'],
+      /column "block": required/,
+    ],
     ['missing file', [fx('cli/nope.csv')], /cannot read file/],
   ];
   for (const [label, args, pattern] of bad) {

@@ -1,7 +1,11 @@
 // Certified values: NIST StRD one-way ANOVA sets (https://www.itl.nist.gov/div898/strd/anova/),
 // files in ../shared/reference/nist-strd-anova. Accuracy measured by the log relative error.
 import { describe, expect, it } from 'vitest';
-import { analyzeCsv, analyzePlotRows, type AnalysisResult } from '../../../server/analysis/engine/analyze.js';
+import {
+  analyzeCsv,
+  analyzePlotRows,
+  type AnalysisResult,
+} from '../../../server/analysis/engine/analyze.js';
 import { lre, readNistSet, type NistSet } from './nist.js';
 
 function check(result: AnalysisResult, set: NistSet, minLre: number) {
@@ -26,7 +30,8 @@ function check(result: AnalysisResult, set: NistSet, minLre: number) {
 }
 
 const rowsOf = (set: NistSet) => set.data.map((d) => ({ variety: d.level, value: d.response }));
-const csvOf = (set: NistSet) => 'variety,response\n' + set.data.map((d) => `${d.level},${d.response}`).join('\n') + '\n';
+const csvOf = (set: NistSet) =>
+  'variety,response\n' + set.data.map((d) => `${d.level},${d.response}`).join('\n') + '\n';
 
 // Thresholds: LRE >= 11 for the lower-difficulty sets, >= 9 for AtmWtAg (average difficulty).
 const sets: [string, number][] = [

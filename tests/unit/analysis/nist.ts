@@ -38,7 +38,8 @@ export function readNistSet(file: string): NistSet {
   const rsq = new RegExp(`Certified R-Squared\\s+${NUM}`).exec(text);
   const sd = new RegExp(`Standard Deviation\\s+${NUM}`).exec(text);
   const obs = /(\d+)\s+Observations/.exec(text);
-  if (!between || !within || !rsq || !sd || !obs) throw new Error(`${file}: certified values not found`);
+  if (!between || !within || !rsq || !sd || !obs)
+    throw new Error(`${file}: certified values not found`);
   const b = new RegExp(String.raw`(\d+)\s+${NUM}\s+${NUM}\s+${NUM}\s*$`).exec(between);
   const w = new RegExp(String.raw`(\d+)\s+${NUM}\s+${NUM}\s*$`).exec(within);
   if (!b || !w) throw new Error(`${file}: certified rows unreadable`);

@@ -10,8 +10,28 @@ import {
 } from '../../../server/analysis/engine/plot-values.js';
 
 const plots: PlotInfo[] = [
-  { plotId: 'P1', entryId: 'Velvet Lantern', siteId: 'Northfield', block: '1', plantsSet: 10, plantsSurviving: 8, rowLengthM: 5, rowSpacingM: 0.9, sowingDate: '2024-04-01', transplantDate: '2024-05-10' },
-  { plotId: 'P2', entryId: 'Mossbank Long', siteId: 'Northfield', block: '1', plantsSet: 10, rowLengthM: 4, rowSpacingM: 0.75, sowingDate: '2024-05-02' },
+  {
+    plotId: 'P1',
+    entryId: 'Velvet Lantern',
+    siteId: 'Northfield',
+    block: '1',
+    plantsSet: 10,
+    plantsSurviving: 8,
+    rowLengthM: 5,
+    rowSpacingM: 0.9,
+    sowingDate: '2024-04-01',
+    transplantDate: '2024-05-10',
+  },
+  {
+    plotId: 'P2',
+    entryId: 'Mossbank Long',
+    siteId: 'Northfield',
+    block: '1',
+    plantsSet: 10,
+    rowLengthM: 4,
+    rowSpacingM: 0.75,
+    sowingDate: '2024-05-02',
+  },
 ];
 const harvests: HarvestRecord[] = [
   { plotId: 'P1', date: '2024-07-12', count: 12, massG: 1500, marketable: true },
@@ -41,8 +61,14 @@ describe('season harvest summaries', () => {
     expect(p1!.marketablePer.perMetreOfRow).toEqual({ count: 6.4, massG: 840 });
     // 4200 g / 4.5 m² = 933.33 g/m² -> 9333.3 kg/ha; an acre is exactly 4046.8564224 m² (NIST).
     expect(p1!.marketablePer.kgPerHectare).toBeCloseTo(9333.333333333, 6);
-    expect(p1!.marketablePer.kgPerAcre).toBeCloseTo(((4200 / 4.5) * SQUARE_METRES_PER_ACRE) / 1000, 9);
-    expect(p1!.marketablePer.lbPerAcre).toBeCloseTo(((4200 / 4.5) * 4046.8564224) / 1000 / KILOGRAMS_PER_POUND, 6);
+    expect(p1!.marketablePer.kgPerAcre).toBeCloseTo(
+      ((4200 / 4.5) * SQUARE_METRES_PER_ACRE) / 1000,
+      9,
+    );
+    expect(p1!.marketablePer.lbPerAcre).toBeCloseTo(
+      ((4200 / 4.5) * 4046.8564224) / 1000 / KILOGRAMS_PER_POUND,
+      6,
+    );
     expect(SQUARE_METRES_PER_ACRE).toBe(4046.8564224);
   });
   it('a plot with no harvest has zeros and nulls', () => {
@@ -54,8 +80,12 @@ describe('season harvest summaries', () => {
     expect(p2!.totalPer.kgPerHectare).toBe(0);
   });
   it('rejects unknown plots and bad dates', () => {
-    expect(() => summariseHarvests(plots, [{ ...harvests[0]!, plotId: 'P9' }])).toThrow(/unknown plot "P9"/);
-    expect(() => summariseHarvests(plots, [{ ...harvests[0]!, date: '2024-02-30' }])).toThrow(/not a calendar date/);
+    expect(() => summariseHarvests(plots, [{ ...harvests[0]!, plotId: 'P9' }])).toThrow(
+      /unknown plot "P9"/,
+    );
+    expect(() => summariseHarvests(plots, [{ ...harvests[0]!, date: '2024-02-30' }])).toThrow(
+      /not a calendar date/,
+    );
   });
 });
 

@@ -5,7 +5,10 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { analyzeCsv } from '../../../server/analysis/engine/analyze.js';
-import { studentTQuantile, studentizedRangeQuantile } from '../../../server/analysis/engine/distributions.js';
+import {
+  studentTQuantile,
+  studentizedRangeQuantile,
+} from '../../../server/analysis/engine/distributions.js';
 import { repoRoot } from './nist.js';
 
 const dir = path.join(repoRoot, 'fixtures/analysis');
@@ -17,8 +20,22 @@ interface Ref {
   alpha: number;
   n: number;
   grandMean: number;
-  anova: { source: string; df: number; ss: number; ms: number; f: number | null; p: number | null }[];
-  means: { variety: string; n: number; mean: number; sd: number; groupLsd: string; groupHsd: string }[];
+  anova: {
+    source: string;
+    df: number;
+    ss: number;
+    ms: number;
+    f: number | null;
+    p: number | null;
+  }[];
+  means: {
+    variety: string;
+    n: number;
+    mean: number;
+    sd: number;
+    groupLsd: string;
+    groupHsd: string;
+  }[];
   error: { ms: number; df: number };
   qt: number;
   qtukey: number;
@@ -70,14 +87,20 @@ describe('against R reference analyses', () => {
         }
         const total = res.anova.find((l) => l.source === 'total')!;
         expect(total.df).toBe(ref.n - 1);
-        expect(rel(total.ss, ref.anova.reduce((s, r) => s + r.ss, 0))).toBeLessThan(1e-11);
+        expect(
+          rel(
+            total.ss,
+            ref.anova.reduce((s, r) => s + r.ss, 0),
+          ),
+        ).toBeLessThan(1e-11);
       });
       it('F and p (R summary(aov); multisite F recomputed against the right error term)', () => {
         for (const r of ref.anova) {
           const line = res.anova.find((l) => l.source === r.source)!;
           let f = r.f;
           let p = r.p;
-          if (ref.design === 'multisite' && r.source === 'variety') [f, p] = [ref.varietyF!, ref.varietyP!];
+          if (ref.design === 'multisite' && r.source === 'variety')
+            [f, p] = [ref.varietyF!, ref.varietyP!];
           if (ref.design === 'multisite' && r.source === 'site') [f, p] = [ref.siteF!, ref.siteP!];
           if (f === null) {
             expect(line.f).toBeNull();
@@ -126,7 +149,9 @@ describe('against R reference analyses', () => {
           const r = analyzeCsv(csv, { trait: 'value', includePairs: true });
           for (const t of ref.tukey!) {
             const [a, b] = t.pair.split('-') as [string, string];
-            const pair = r.pairs!.find((p) => (p.a === a && p.b === b) || (p.a === b && p.b === a))!;
+            const pair = r.pairs!.find(
+              (p) => (p.a === a && p.b === b) || (p.a === b && p.b === a),
+            )!;
             expect(pair, t.pair).toBeDefined();
             const diff = pair.a === a ? pair.difference : -pair.difference;
             expect(rel(diff, t.diff)).toBeLessThan(1e-11);

@@ -44,7 +44,11 @@ describe('growing degree days (daily average, horizontal cutoff)', () => {
   });
   it('hot days at the default 32 °C', () => {
     expect(DEFAULT_HOT_DAY_C).toBe(32);
-    const days = [31.9, 32, 35.5, 20].map((t, i) => ({ date: `2024-07-0${i + 1}`, tMaxC: t, tMinC: 15 }));
+    const days = [31.9, 32, 35.5, 20].map((t, i) => ({
+      date: `2024-07-0${i + 1}`,
+      tMaxC: t,
+      tMinC: 15,
+    }));
     expect(countHotDays(days)).toBe(2);
     expect(countHotDays(days, 35)).toBe(1);
   });
@@ -77,9 +81,24 @@ describe('water totals per week and season, against harvests', () => {
 
 describe('ranking across traits', () => {
   const traits = [
-    { trait: 'yield', direction: 'higher' as const, weight: 2, means: { 'Velvet Lantern': 12, 'Mossbank Long': 10, 'Copper Thimble': 8 } },
-    { trait: 'days to harvest', direction: 'lower' as const, weight: 1, means: { 'Velvet Lantern': 70, 'Mossbank Long': 60, 'Copper Thimble': 65 } },
-    { trait: 'height', direction: 'none' as const, weight: 5, means: { 'Velvet Lantern': 1, 'Mossbank Long': 2, 'Copper Thimble': 3 } },
+    {
+      trait: 'yield',
+      direction: 'higher' as const,
+      weight: 2,
+      means: { 'Velvet Lantern': 12, 'Mossbank Long': 10, 'Copper Thimble': 8 },
+    },
+    {
+      trait: 'days to harvest',
+      direction: 'lower' as const,
+      weight: 1,
+      means: { 'Velvet Lantern': 70, 'Mossbank Long': 60, 'Copper Thimble': 65 },
+    },
+    {
+      trait: 'height',
+      direction: 'none' as const,
+      weight: 5,
+      means: { 'Velvet Lantern': 1, 'Mossbank Long': 2, 'Copper Thimble': 3 },
+    },
   ];
   it('weighted index of z-scores with contributions, and rank sums', () => {
     const r = rankAcrossTraits(traits);
@@ -97,10 +116,19 @@ describe('ranking across traits', () => {
     expect(vl[2]!.contribution).toBe(0);
     expect(vl[2]!.rank).toBeNull();
     // rank sums: VL 1 + 3 = 4, ML 2 + 1 = 3, CT 3 + 2 = 5.
-    expect([by['Velvet Lantern']!.rankSum, by['Mossbank Long']!.rankSum, by['Copper Thimble']!.rankSum]).toEqual([4, 3, 5]);
+    expect([
+      by['Velvet Lantern']!.rankSum,
+      by['Mossbank Long']!.rankSum,
+      by['Copper Thimble']!.rankSum,
+    ]).toEqual([4, 3, 5]);
     expect(by['Mossbank Long']!.rankSumRank).toBe(1);
   });
   it('rejects a missing mean', () => {
-    expect(() => rankAcrossTraits([{ ...traits[0]!, means: { 'Velvet Lantern': 1 } }], ['Velvet Lantern', 'Quillfeather'])).toThrow(/Quillfeather/);
+    expect(() =>
+      rankAcrossTraits(
+        [{ ...traits[0]!, means: { 'Velvet Lantern': 1 } }],
+        ['Velvet Lantern', 'Quillfeather'],
+      ),
+    ).toThrow(/Quillfeather/);
   });
 });

@@ -46,9 +46,14 @@ describe('hand-sized cases', () => {
   it('rcbd with a missing plot keeps the other plots of that block', () => {
     // 3 blocks × 3 varieties, plot (block 3, C) missing: 8 plots, residual df 8 − 1 − 2 − 2 = 3.
     const rows = [
-      ['1', 'A', '10'], ['1', 'B', '12'], ['1', 'C', '15'],
-      ['2', 'A', '11'], ['2', 'B', '14'], ['2', 'C', '16'],
-      ['3', 'A', '9'], ['3', 'B', '13'],
+      ['1', 'A', '10'],
+      ['1', 'B', '12'],
+      ['1', 'C', '15'],
+      ['2', 'A', '11'],
+      ['2', 'B', '14'],
+      ['2', 'C', '16'],
+      ['3', 'A', '9'],
+      ['3', 'B', '13'],
     ].map(([block, variety, value]) => ({ block, variety: variety!, value: value! }));
     const r = analyzePlotRows(rows);
     expect(r.design).toBe('rcbd');
@@ -60,7 +65,9 @@ describe('hand-sized cases', () => {
   });
 
   it('alpha other than 0.05 changes the critical values and letters consistently', () => {
-    const csv = 'variety,y\n' + ['A,10', 'A,11', 'A,12', 'B,12', 'B,13', 'B,14', 'C,14', 'C,15', 'C,16'].join('\n');
+    const csv =
+      'variety,y\n' +
+      ['A,10', 'A,11', 'A,12', 'B,12', 'B,13', 'B,14', 'C,14', 'C,15', 'C,16'].join('\n');
     const a05 = analyzeCsv(csv);
     const a20 = analyzeCsv(csv, { alpha: 0.2 });
     expect(a20.alpha).toBe(0.2);
@@ -71,6 +78,8 @@ describe('hand-sized cases', () => {
   });
 
   it('a value that is not a number names row and column (spreadsheet rows)', () => {
-    expect(() => analyzeCsv('variety,yield\nA,1\nB,x1\n')).toThrow('row 3, column "yield": "x1" is not a number');
+    expect(() => analyzeCsv('variety,yield\nA,1\nB,x1\n')).toThrow(
+      'row 3, column "yield": "x1" is not a number',
+    );
   });
 });
