@@ -56,7 +56,7 @@ export function createApp(deps: AppDeps) {
     const clientDir = deps.clientDir;
     app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
     // Client routes are the browser router's; every other GET gets the app shell.
-    app.get('/*splat', (_req, res) => {
+    app.get('/{*splat}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
       res.sendFile(path.join(clientDir, 'index.html'));
     });

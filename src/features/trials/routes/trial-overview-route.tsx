@@ -1,0 +1,98 @@
+import { designLabels } from '@common/contracts/trials';
+import { useParams } from 'react-router-dom';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { useTrial } from '../api/get-trial';
+
+const entryTypeLabel = { heirloom: 'Heirloom', open_pollinated: 'Open-pollinated', hybrid: 'Hybrid' } as const;
+
+export function Component() {
+  const { slug = '' } = useParams();
+  const { data: trial, isPending, error } = useTrial(slug);
+  if (isPending) return <Spinner label="Loading the trial…" />;
+  if (error) return <ErrorPanel error={error} />;
+  return (
+    <article>
+      <p className="text-sm uppercase tracking-wide text-loam-700">
+        {trial.crop} · {trial.season} · {designLabels[trial.design]}
+      </p>
+      <h1 className="mt-1 text-3xl font-semibold text-leaf-900">{trial.title}</h1>
+      <p className="mt-2 max-w-prose">{trial.description}</p>
+      <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-5">
+        {[
+          ['Entries', trial.entryCount],
+          ['Sites', trial.siteCount],
+          ['Plots', trial.plotCount],
+          ['Harvests logged', trial.harvestCount],
+          ['Measurements', trial.observationCount],
+        ].map(([label, value]) => (
+          <div key={label} className="rounded-lg bg-white p-3 shadow-sm">
+            <dt className="text-xs uppercase tracking-wide text-loam-700">{label}</dt>
+            <dd className="font-display text-2xl font-semibold text-leaf-900">{value}</dd>
+          </div>
+        ))}
+      </dl>
+
+      <section className="mt-6" aria-labelledby="entries-heading">
+        <h2 id="entries-heading" className="text-xl font-semibold text-leaf-900">
+          Entries
+        </h2>
+        <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+          <table className="w-full min-w-[32rem] text-left text-sm">
+            <thead className="bg-leaf-50 text-leaf-900">
+              <tr>
+                <th className="p-2">Code</th>
+                <th className="p-2">Variety</th>
+                <th className="p-2">Type</th>
+                <th className="p-2">Seed source</th>
+                <th className="p-2">Claimed days</th>
+              </tr>
+            </thead>
+            <tbody>
+              {trial.entries.map((e) => (
+                <tr key={e.id} className="border-t border-leaf-50">
+                  <td className="p-2 font-mono font-semibold">{e.code}</td>
+                  <td className="p-2">{e.name}</td>
+                  <td className="p-2">{entryTypeLabel[e.entryType]}</td>
+                  <td className="p-2">{e.seedSource}</td>
+                  <td className="p-2">{e.daysToMaturityClaimed ?? '—'}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section className="mt-6" aria-labelledby="sites-heading">
+        <h2 id="sites-heading" className="text-xl font-semibold text-leaf-900">
+          Sites
+        </h2>
+        <ul className="mt-2 grid gap-3 sm:grid-cols-3">
+          {trial.sites.map((s) => (
+            <li key={s.id} className="rounded-lg bg-white p-3 shadow-sm">
+              <p className="font-semibold">{s.name}</p>
+              <p className="text-sm text-loam-700">{s.region}</p>
+              <p className="mt-1 text-sm">
+                {s.soilTexture ?? 'Soil not recorded'} · {s.irrigationMethod ?? 'irrigation not recorded'}
+              </p>
+            </li>
+          ))}
+        </ul>
+      </section>
+
+      <section className="mt-6" aria-labelledby="traits-heading">
+        <h2 id="traits-heading" className="text-xl font-semibold text-leaf-900">
+          Traits recorded
+        </h2>
+        <ul className="mt-2 flex flex-wrap gap-2">
+          {trial.traits.map((t) => (
+            <li key={t.id} className="rounded-full bg-straw-200 px-3 py-1 text-sm">
+              {t.label}
+              <span className="text-loam-700"> · {t.direction === 'higher' ? 'higher is better' : t.direction === 'lower' ? 'lower is better' : 'no preference'}</span>
+            </li>
+          ))}
+        </ul>
+      </section>
+    </article>
+  );
+}

@@ -1,0 +1,14 @@
+import { QueryClient } from '@tanstack/react-query';
+import { ApiError } from './api-client';
+
+export function createQueryClient(): QueryClient {
+  return new QueryClient({
+    defaultOptions: {
+      queries: {
+        staleTime: 30_000,
+        // A 4xx will not change by asking again; a dropped connection might.
+        retry: (count, error) => count < 2 && !(error instanceof ApiError && error.status >= 400 && error.status < 500),
+      },
+    },
+  });
+}

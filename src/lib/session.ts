@@ -1,0 +1,26 @@
+/** The signed-in user, shared by every feature (units preference, names, the user menu). */
+import { meSchema, type UnitSystem } from '@common/contracts/me';
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { api, ApiError } from './api-client';
+
+export const sessionKeys = { me: ['session', 'me'] as const };
+
+/** The signed-in user, or null when signed out (a 401 is an answer here, not an error). */
+export async function getMe() {
+  try {
+    return await api('/api/me', meSchema);
+  } catch (err) {
+    if (err instanceof ApiError && err.status === 401) return null;
+    throw err;
+  }
+}
+
+export const meQueryOptions = () => queryOptions({ queryKey: sessionKeys.me, queryFn: getMe, staleTime: 60_000 });
+
+export const useMe = () => useQuery(meQueryOptions());
+
+/** The reader's units: their choice when signed in, metric otherwise. */
+export function useUnitSystem(): UnitSystem {
+  const { data } = useMe();
+  return data?.unitSystem ?? 'metric';
+}

@@ -1,0 +1,76 @@
+/** Debian's Chromium driven by playwright-core, against the real app on a loopback port. */
+import fs from 'node:fs';
+import type { AddressInfo } from 'node:net';
+import path from 'node:path';
+import { type Browser, type BrowserContext, chromium, type Page } from 'playwright-core';
+import { defaultClientDir } from '../../server/app';
+import { freePort } from '../../db/pg-server';
+import { createTestApp, mintSessionCookie, type TestApp, type TestUser } from './test-app';
+
+export const screenshotDir = path.resolve('.test-artifacts', 'screenshots');
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: [
+      '--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
+      '--disable-background-networking', '--disable-component-update', '--disable-sync',
+    ],
+    // Playwright gives each launch a new empty profile folder of its own.
+  });
+}
+
+export interface LiveApp extends TestApp {
+  url: string;
+  stop(): Promise<void>;
+}
+
+/** The built client and the API, listening on 127.0.0.1 like `npm start`. */
+export async function startLiveApp(): Promise<LiveApp> {
+  if (!fs.existsSync(path.join(defaultClientDir, 'index.html'))) {
+    throw new Error('The client is not built: run `npm test` (it builds first) or `npx vite build`.');
+  }
+  const port = await freePort();
+  const url = `http://127.0.0.1:${port}`;
+  const t = await createTestApp({ clientDir: defaultClientDir, baseUrl: url, port });
+  const server = await new Promise<import('node:http').Server>((resolve) => {
+    const s = t.app.listen(port, '127.0.0.1', () => resolve(s));
+  });
+  if ((server.address() as AddressInfo).port !== port) throw new Error('port mismatch');
+  return {
+    ...t,
+    url,
+    async stop() {
+      await new Promise((r) => server.close(r));
+      server.closeAllConnections?.();
+      await t.close();
+    },
+  };
+}
+
+/** A browser context already signed in as `user` (session minted on the server, no form). */
+export async function contextAs(browser: Browser, live: LiveApp, user: Pick<TestUser, 'email' | 'password'> | null, viewport = { width: 1280, height: 900 }): Promise<BrowserContext> {
+  const context = await browser.newContext({ viewport, baseURL: live.url });
+  if (user) {
+    const [name, value] = (await mintSessionCookie(live, user)).split('=');
+    await context.addCookies([{ name: name!, value: value!, url: live.url, httpOnly: true, sameSite: 'Lax' }]);
+  }
+  return context;
+}
+
+/** Collects page errors and console errors so a test can assert there were none. */
+export function watchErrors(page: Page): string[] {
+  const errors: string[] = [];
+  page.on('pageerror', (e) => errors.push(e.message));
+  page.on('console', (m) => {
+    if (m.type() === 'error') errors.push(m.text());
+  });
+  return errors;
+}
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+  fs.mkdirSync(screenshotDir, { recursive: true });
+  const file = path.join(screenshotDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  return file;
+}
