@@ -34,7 +34,8 @@ export function plotNumberOf(block: number, position: number, positionsPerBlock:
 export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
   const { design, entryIds, replicates, siteIds, seed } = input;
   if (entryIds.length < 2) throw new Error('A trial needs at least two entries to compare.');
-  if (!Number.isInteger(replicates) || replicates < 1) throw new Error('Replicates must be a whole number of 1 or more.');
+  if (!Number.isInteger(replicates) || replicates < 1)
+    throw new Error('Replicates must be a whole number of 1 or more.');
   if (siteIds.length < 1) throw new Error('Add a site before laying out plots.');
   if (design !== 'multisite' && siteIds.length > 1) {
     throw new Error('Only the several-sites design lays out plots at more than one site.');
@@ -43,16 +44,32 @@ export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
   const plots: PlannedPlot[] = [];
   for (const siteId of siteIds) {
     if (design === 'crd') {
-      const order = random.shuffle(entryIds.flatMap((id) => Array.from({ length: replicates }, () => id)));
+      const order = random.shuffle(
+        entryIds.flatMap((id) => Array.from({ length: replicates }, () => id)),
+      );
       order.forEach((entryId, i) =>
-        plots.push({ siteId, entryId, block: 1, position: i + 1, plotNumber: plotNumberOf(1, i + 1, order.length) }),
+        plots.push({
+          siteId,
+          entryId,
+          block: 1,
+          position: i + 1,
+          plotNumber: plotNumberOf(1, i + 1, order.length),
+        }),
       );
       continue;
     }
     for (let block = 1; block <= replicates; block++) {
-      random.shuffle(entryIds).forEach((entryId, i) =>
-        plots.push({ siteId, entryId, block, position: i + 1, plotNumber: plotNumberOf(block, i + 1, entryIds.length) }),
-      );
+      random
+        .shuffle(entryIds)
+        .forEach((entryId, i) =>
+          plots.push({
+            siteId,
+            entryId,
+            block,
+            position: i + 1,
+            plotNumber: plotNumberOf(block, i + 1, entryIds.length),
+          }),
+        );
     }
   }
   return plots;

@@ -35,15 +35,78 @@ type Rule = Record<TrialRole, boolean> & { anyone: boolean };
 
 /** The permission table (also in the README). `anyone` includes signed-out readers. */
 export const permissionTable: Record<TrialAction, Rule & { note: string }> = {
-  'trial.read': { lead: true, grower: true, contributor: true, viewer: true, anyone: false, note: 'design, records, photos and analysis of an unpublished trial' },
-  'trial.edit': { lead: true, grower: false, contributor: false, viewer: false, anyone: false, note: 'entries, sites, traits, layout, trial settings' },
-  'trial.delete': { lead: true, grower: false, contributor: false, viewer: false, anyone: false, note: 'delete the trial' },
-  'trial.publish': { lead: true, grower: false, contributor: false, viewer: false, anyone: false, note: 'results sheet, publish and unpublish' },
-  'members.manage': { lead: true, grower: false, contributor: false, viewer: false, anyone: false, note: 'invite, change roles, remove members' },
-  'records.write': { lead: true, grower: true, contributor: false, viewer: false, anyone: false, note: 'harvests, measurements, field events (growers: their sites only)' },
-  'photos.upload': { lead: true, grower: true, contributor: true, viewer: false, anyone: false, note: 'upload and tag photos' },
-  'notes.write': { lead: true, grower: true, contributor: true, viewer: false, anyone: false, note: 'plot notes' },
-  'results.read': { lead: true, grower: true, contributor: true, viewer: true, anyone: true, note: 'the published results sheet (anyone once published)' },
+  'trial.read': {
+    lead: true,
+    grower: true,
+    contributor: true,
+    viewer: true,
+    anyone: false,
+    note: 'design, records, photos and analysis of an unpublished trial',
+  },
+  'trial.edit': {
+    lead: true,
+    grower: false,
+    contributor: false,
+    viewer: false,
+    anyone: false,
+    note: 'entries, sites, traits, layout, trial settings',
+  },
+  'trial.delete': {
+    lead: true,
+    grower: false,
+    contributor: false,
+    viewer: false,
+    anyone: false,
+    note: 'delete the trial',
+  },
+  'trial.publish': {
+    lead: true,
+    grower: false,
+    contributor: false,
+    viewer: false,
+    anyone: false,
+    note: 'results sheet, publish and unpublish',
+  },
+  'members.manage': {
+    lead: true,
+    grower: false,
+    contributor: false,
+    viewer: false,
+    anyone: false,
+    note: 'invite, change roles, remove members',
+  },
+  'records.write': {
+    lead: true,
+    grower: true,
+    contributor: false,
+    viewer: false,
+    anyone: false,
+    note: 'harvests, measurements, field events (growers: their sites only)',
+  },
+  'photos.upload': {
+    lead: true,
+    grower: true,
+    contributor: true,
+    viewer: false,
+    anyone: false,
+    note: 'upload and tag photos',
+  },
+  'notes.write': {
+    lead: true,
+    grower: true,
+    contributor: true,
+    viewer: false,
+    anyone: false,
+    note: 'plot notes',
+  },
+  'results.read': {
+    lead: true,
+    grower: true,
+    contributor: true,
+    viewer: true,
+    anyone: true,
+    note: 'the published results sheet (anyone once published)',
+  },
 };
 
 /** Instance-wide actions, not tied to one trial. */
@@ -55,19 +118,35 @@ export function canInstance(actor: Actor | null, action: InstanceAction): boolea
   return actor.isAdmin;
 }
 
-export function can(actor: Actor | null, action: TrialAction, trial: TrialAccess, siteId?: string): boolean {
+export function can(
+  actor: Actor | null,
+  action: TrialAction,
+  trial: TrialAccess,
+  siteId?: string,
+): boolean {
   // Whoever runs the server can recover any trial (a lead who left, a lost account).
   if (actor?.isAdmin) return true;
   const rule = permissionTable[action];
   if (action === 'results.read' && trial.status === 'published') return true;
   if (!actor || !trial.role) return false;
   if (!rule[trial.role]) return false;
-  if (action === 'records.write' && trial.role === 'grower' && trial.growerSiteIds && siteId !== undefined) {
+  if (
+    action === 'records.write' &&
+    trial.role === 'grower' &&
+    trial.growerSiteIds &&
+    siteId !== undefined
+  ) {
     return trial.growerSiteIds.includes(siteId);
   }
   return true;
 }
 
-export function permissionsFor(actor: Actor | null, trial: TrialAccess): Record<TrialAction, boolean> {
-  return Object.fromEntries(trialActions.map((a) => [a, can(actor, a, trial)])) as Record<TrialAction, boolean>;
+export function permissionsFor(
+  actor: Actor | null,
+  trial: TrialAccess,
+): Record<TrialAction, boolean> {
+  return Object.fromEntries(trialActions.map((a) => [a, can(actor, a, trial)])) as Record<
+    TrialAction,
+    boolean
+  >;
 }

@@ -28,7 +28,8 @@ export async function ensureDatabase(
 ): Promise<{ url: string; startedHere: boolean }> {
   if (env.DATABASE_URL) return { url: env.DATABASE_URL, startedHere: false };
   const server = await startPg({ dataDir: dataDirOf(env), port: env.ROWTALLY_DB_PORT, log });
-  if (server.started) log(`PostgreSQL started on 127.0.0.1:${server.port} (data in ${server.dataDir}).`);
+  if (server.started)
+    log(`PostgreSQL started on 127.0.0.1:${server.port} (data in ${server.dataDir}).`);
   await createDatabaseIfMissing(server.url(), APP_DATABASE);
   return { url: server.url(APP_DATABASE), startedHere: server.started };
 }

@@ -44,7 +44,9 @@ export function ensurePgInstalled(log: (msg: string) => void = console.log): str
   });
   const bin = findPgBinDir();
   if (result.status !== 0 || !bin) {
-    throw new PgServerError(`Installing PostgreSQL failed (exit ${result.status}). Run: ${command}`);
+    throw new PgServerError(
+      `Installing PostgreSQL failed (exit ${result.status}). Run: ${command}`,
+    );
   }
   return bin;
 }
@@ -105,7 +107,10 @@ export interface RunningPg {
 
 function isRunning(bin: string, dataDir: string): boolean {
   if (!fs.existsSync(path.join(dataDir, 'PG_VERSION'))) return false;
-  return asServerUser(path.join(bin, 'pg_ctl'), ['-D', dataDir, 'status'], { allowFail: true }).status === 0;
+  return (
+    asServerUser(path.join(bin, 'pg_ctl'), ['-D', dataDir, 'status'], { allowFail: true })
+      .status === 0
+  );
 }
 
 function runningPort(dataDir: string): number | null {
@@ -121,13 +126,17 @@ export async function startPg(opts: PgServerOptions): Promise<RunningPg> {
   const log = opts.log ?? console.log;
   const bin = ensurePgInstalled(log);
   const dataDir = path.resolve(opts.dataDir);
-  const url = (port: number) => (database = 'postgres') =>
-    `postgres://${DB_SUPERUSER}@127.0.0.1:${port}/${database}`;
+  const url =
+    (port: number) =>
+    (database = 'postgres') =>
+      `postgres://${DB_SUPERUSER}@127.0.0.1:${port}/${database}`;
 
   if (isRunning(bin, dataDir)) {
     const port = runningPort(dataDir) ?? opts.port;
     if (port !== opts.port) {
-      log(`PostgreSQL in ${dataDir} is already running on port ${port} (asked for ${opts.port}); reusing it.`);
+      log(
+        `PostgreSQL in ${dataDir} is already running on port ${port} (asked for ${opts.port}); reusing it.`,
+      );
     }
     return { url: url(port), port, dataDir, started: false };
   }
@@ -144,7 +153,15 @@ export async function startPg(opts: PgServerOptions): Promise<RunningPg> {
     if (isRoot()) execFileSync('chown', ['postgres:postgres', dataDir]);
     log(`Creating a PostgreSQL cluster in ${dataDir}…`);
     asServerUser(path.join(bin, 'initdb'), [
-      '-D', dataDir, '-A', 'trust', '-U', DB_SUPERUSER, '-E', 'UTF8', '--locale=C.UTF-8',
+      '-D',
+      dataDir,
+      '-A',
+      'trust',
+      '-U',
+      DB_SUPERUSER,
+      '-E',
+      'UTF8',
+      '--locale=C.UTF-8',
     ]);
   }
   if (!(await isPortFree(opts.port))) {
@@ -152,11 +169,24 @@ export async function startPg(opts: PgServerOptions): Promise<RunningPg> {
       `Port ${opts.port} on 127.0.0.1 is already taken by another program; set ROWTALLY_DB_PORT to a free port.`,
     );
   }
-  const durability = opts.throwaway ? ' -c fsync=off -c full_page_writes=off -c synchronous_commit=off' : '';
+  const durability = opts.throwaway
+    ? ' -c fsync=off -c full_page_writes=off -c synchronous_commit=off'
+    : '';
   const serverOpts = `-p ${opts.port} -k ${dataDir} -c listen_addresses=127.0.0.1${durability}`;
   const started = asServerUser(
     path.join(bin, 'pg_ctl'),
-    ['-D', dataDir, '-o', serverOpts, '-l', path.join(dataDir, 'server.log'), '-w', '-t', '60', 'start'],
+    [
+      '-D',
+      dataDir,
+      '-o',
+      serverOpts,
+      '-l',
+      path.join(dataDir, 'server.log'),
+      '-w',
+      '-t',
+      '60',
+      'start',
+    ],
     { allowFail: true },
   );
   if (started.status !== 0) {

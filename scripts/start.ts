@@ -36,7 +36,11 @@ async function main() {
 
   if (!process.argv.includes('--no-build')) {
     console.log('Building the client…');
-    const build = spawnSync(process.execPath, ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'], { stdio: 'inherit' });
+    const build = spawnSync(
+      process.execPath,
+      ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'],
+      { stdio: 'inherit' },
+    );
     if (build.status !== 0) throw new Error('The client build failed.');
   }
 
@@ -44,14 +48,19 @@ async function main() {
   const server: Server = await new Promise((resolve, reject) => {
     const s = runtime.app.listen(env.PORT, env.HOST, () => resolve(s));
     s.once('error', (err: NodeJS.ErrnoException) =>
-      reject(err.code === 'EADDRINUSE' ? new Error(`Port ${env.PORT} is taken; set PORT to a free port.`) : err),
+      reject(
+        err.code === 'EADDRINUSE'
+          ? new Error(`Port ${env.PORT} is taken; set PORT to a free port.`)
+          : err,
+      ),
     );
   });
 
   const url = runtime.baseUrl;
   console.log(`\nRowtally is running at ${url}\n`);
   console.log('Demo sign-ins (Larkhaven Seed Library, season 2026):');
-  for (const a of demoAccounts) console.log(`  ${a.key.padEnd(12)} ${a.email.padEnd(36)} ${a.password}`);
+  for (const a of demoAccounts)
+    console.log(`  ${a.key.padEnd(12)} ${a.email.padEnd(36)} ${a.password}`);
   console.log('\nPress Ctrl+C to stop.');
 
   const stop = async () => {

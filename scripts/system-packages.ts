@@ -14,7 +14,9 @@ export function ensureSystemPackages(names: (keyof typeof checks)[]): void {
   if (missing.length === 0) return;
   const command = `apt-get update && apt-get install -y --no-install-recommends ${missing.join(' ')}`;
   if (process.getuid?.() !== 0) {
-    throw new Error(`Missing system packages: ${missing.join(', ')}. Install them with:\n  sudo sh -c '${command}'`);
+    throw new Error(
+      `Missing system packages: ${missing.join(', ')}. Install them with:\n  sudo sh -c '${command}'`,
+    );
   }
   console.log(`Installing missing system packages: ${missing.join(', ')}…`);
   const result = spawnSync('sh', ['-c', command], {
@@ -23,6 +25,8 @@ export function ensureSystemPackages(names: (keyof typeof checks)[]): void {
   });
   const still = missing.filter((n) => !checks[n]!());
   if (result.status !== 0 || still.length) {
-    throw new Error(`Could not install ${still.join(', ') || missing.join(', ')} (apt-get exit ${result.status}).`);
+    throw new Error(
+      `Could not install ${still.join(', ') || missing.join(', ')} (apt-get exit ${result.status}).`,
+    );
   }
 }

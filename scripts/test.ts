@@ -18,21 +18,35 @@ try {
   process.exit(1);
 }
 
-const run = (args: string[]) => spawnSync(process.execPath, args, { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'test' } });
+const run = (args: string[]) =>
+  spawnSync(process.execPath, args, {
+    stdio: 'inherit',
+    env: { ...process.env, NODE_ENV: 'test' },
+  });
 
 console.log('Building the client for the browser tests…');
-if (run(['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn']).status !== 0) process.exit(1);
+if (run(['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn']).status !== 0)
+  process.exit(1);
 
 const results = path.join(artifacts, 'vitest-results.json');
 const vitest = run([
-  'node_modules/vitest/vitest.mjs', 'run',
-  '--reporter=default', '--reporter=json', `--outputFile.json=${results}`,
+  'node_modules/vitest/vitest.mjs',
+  'run',
+  '--reporter=default',
+  '--reporter=json',
+  `--outputFile.json=${results}`,
   ...process.argv.slice(2),
 ]);
 
 // One plain closing line that any CI can read.
 if (fs.existsSync(results)) {
-  const r = JSON.parse(fs.readFileSync(results, 'utf8')) as { numPassedTests: number; numFailedTests: number; numPendingTests: number };
-  console.log(`\nTests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests} skipped`);
+  const r = JSON.parse(fs.readFileSync(results, 'utf8')) as {
+    numPassedTests: number;
+    numFailedTests: number;
+    numPendingTests: number;
+  };
+  console.log(
+    `\nTests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests} skipped`,
+  );
 }
 process.exit(vitest.status ?? 1);

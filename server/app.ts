@@ -40,7 +40,9 @@ export function createApp(deps: AppDeps) {
       },
     }),
   );
-  app.use(pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+  app.use(
+    pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }),
+  );
 
   // The sign-in library reads its own request bodies: mount it before the JSON parser.
   app.all('/api/auth/*splat', toNodeHandler(deps.auth));
@@ -48,7 +50,8 @@ export function createApp(deps: AppDeps) {
   app.use('/api/health', healthRouter(deps));
   app.use('/api', resolveActor(deps.auth));
   app.use('/api/me', meRouter(deps));
-  if (deps.mailbox && deps.env.NODE_ENV !== 'production') app.use('/api/dev/mailbox', mailboxRouter(deps.mailbox));
+  if (deps.mailbox && deps.env.NODE_ENV !== 'production')
+    app.use('/api/dev/mailbox', mailboxRouter(deps.mailbox));
   app.use('/api/trials', trialsRouter(deps));
   app.use('/api', apiNotFound);
 

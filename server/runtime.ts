@@ -17,7 +17,8 @@ export const appVersion: string = JSON.parse(
 /** A development secret kept beside the data so sessions survive restarts; production must set one. */
 function authSecret(env: Env): string {
   if (env.AUTH_SECRET) return env.AUTH_SECRET;
-  if (env.NODE_ENV === 'production') throw new Error('AUTH_SECRET must be set (32+ characters) in production.');
+  if (env.NODE_ENV === 'production')
+    throw new Error('AUTH_SECRET must be set (32+ characters) in production.');
   if (env.NODE_ENV === 'test') return 'test-secret-not-for-use-anywhere-else-0123456789';
   const file = path.join(projectRoot, '.data', 'auth-secret');
   if (!fs.existsSync(file)) {

@@ -14,7 +14,12 @@ export const meSchema = z.object({
 export type Me = z.infer<typeof meSchema>;
 
 export const updateMeBody = z.object({
-  name: z.string().trim().min(1, 'Enter your name.').max(120, 'Use at most 120 characters.').optional(),
+  name: z
+    .string()
+    .trim()
+    .min(1, 'Enter your name.')
+    .max(120, 'Use at most 120 characters.')
+    .optional(),
   unitSystem: z.enum(unitSystems).optional(),
 });
 export type UpdateMeBody = z.infer<typeof updateMeBody>;

@@ -14,7 +14,9 @@ export const designLabels: Record<(typeof trialDesigns)[number], string> = {
   multisite: 'Blocks at several sites',
 };
 
-export const trialSlugParams = z.object({ slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.') });
+export const trialSlugParams = z.object({
+  slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.'),
+});
 
 export const trialSummarySchema = z.object({
   id: z.uuid(),

@@ -233,7 +233,18 @@ export async function up(db: Kysely<any>): Promise<void> {
     );
   `.execute(db);
 
-  for (const table of ['trials', 'sites', 'entries', 'plots', 'traits', 'harvests', 'observations', 'field_events', 'photos', 'trial_members']) {
+  for (const table of [
+    'trials',
+    'sites',
+    'entries',
+    'plots',
+    'traits',
+    'harvests',
+    'observations',
+    'field_events',
+    'photos',
+    'trial_members',
+  ]) {
     await sql`create trigger touch_updated_at before update on ${sql.table(table)}
       for each row execute function rowtally_touch_updated_at()`.execute(db);
   }

@@ -9,7 +9,10 @@ export function resolveActor(auth: Auth): RequestHandler {
   return async (req, res, next) => {
     const session = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
     res.locals.actor = session
-      ? ({ userId: session.user.id, isAdmin: Boolean((session.user as { isAdmin?: boolean }).isAdmin) } satisfies Actor)
+      ? ({
+          userId: session.user.id,
+          isAdmin: Boolean((session.user as { isAdmin?: boolean }).isAdmin),
+        } satisfies Actor)
       : null;
     next();
   };

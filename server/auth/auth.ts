@@ -60,7 +60,10 @@ export function createAuth(deps: AuthDeps) {
         sendLater(deps, {
           to: user.email,
           subject: 'Confirm your e-mail address for Rowtally',
-          lines: [`Hello ${user.name},`, 'Confirm this address to finish setting up your Rowtally account.'],
+          lines: [
+            `Hello ${user.name},`,
+            'Confirm this address to finish setting up your Rowtally account.',
+          ],
           action: { label: 'Confirm my address', url },
         });
       },

@@ -5,25 +5,37 @@ import { AppError } from './app-error';
 import { issuesOf } from './endpoint';
 
 /** PostgreSQL's own refusals, mapped to what the client can act on. */
-function fromDatabase(err: { code?: string; constraint?: string; detail?: string }): AppError | null {
+function fromDatabase(err: {
+  code?: string;
+  constraint?: string;
+  detail?: string;
+}): AppError | null {
   switch (err.code) {
     case '23505':
       return new AppError('conflict', 'A record with the same identifying values already exists.', {
         constraint: err.constraint,
       });
     case '23503':
-      return new AppError('validation_failed', 'The record refers to something that does not exist in this trial.', {
-        constraint: err.constraint,
-      });
+      return new AppError(
+        'validation_failed',
+        'The record refers to something that does not exist in this trial.',
+        {
+          constraint: err.constraint,
+        },
+      );
     case '23514':
     case '23502':
     case '22P02':
     case '22003':
     case '22007':
     case '22008':
-      return new AppError('validation_failed', 'The database refused a value that is out of range or malformed.', {
-        constraint: err.constraint,
-      });
+      return new AppError(
+        'validation_failed',
+        'The database refused a value that is out of range or malformed.',
+        {
+          constraint: err.constraint,
+        },
+      );
     default:
       return null;
   }
@@ -36,15 +48,23 @@ function toAppError(err: unknown): AppError {
     return new AppError('validation_failed', fields[0]?.message ?? 'Invalid input.', { fields });
   }
   if (err instanceof MulterError) {
-    if (err.code === 'LIMIT_FILE_SIZE' || err.code === 'LIMIT_FILE_COUNT' || err.code === 'LIMIT_PART_COUNT') {
+    if (
+      err.code === 'LIMIT_FILE_SIZE' ||
+      err.code === 'LIMIT_FILE_COUNT' ||
+      err.code === 'LIMIT_PART_COUNT'
+    ) {
       return new AppError('payload_too_large', err.message, { limit: err.code, field: err.field });
     }
     return new AppError('validation_failed', err.message, { field: err.field });
   }
   const e = err as { type?: string; status?: number; code?: string; limit?: number };
-  if (e?.type === 'entity.parse.failed') return new AppError('validation_failed', 'The request body is not valid JSON.');
+  if (e?.type === 'entity.parse.failed')
+    return new AppError('validation_failed', 'The request body is not valid JSON.');
   if (e?.type === 'entity.too.large') {
-    return new AppError('payload_too_large', `The request body is larger than the limit of ${e.limit} bytes.`);
+    return new AppError(
+      'payload_too_large',
+      `The request body is larger than the limit of ${e.limit} bytes.`,
+    );
   }
   if (typeof e?.code === 'string') {
     const mapped = fromDatabase(e as { code: string });
@@ -67,5 +87,8 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
 };
 
 export const apiNotFound: RequestHandler = (req) => {
-  throw new AppError('not_found', `No API route matches ${req.method} ${req.originalUrl.split("?")[0]}.`);
+  throw new AppError(
+    'not_found',
+    `No API route matches ${req.method} ${req.originalUrl.split('?')[0]}.`,
+  );
 };

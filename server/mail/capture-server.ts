@@ -29,7 +29,10 @@ const linkPattern = /https?:\/\/[^\s"'<>]+/g;
 
 export async function startCaptureServer(port = 0, host = '127.0.0.1'): Promise<CaptureServer> {
   const store: CapturedMail[] = [];
-  const waiters = new Set<{ match: (m: CapturedMail) => boolean; resolve: (m: CapturedMail) => void }>();
+  const waiters = new Set<{
+    match: (m: CapturedMail) => boolean;
+    resolve: (m: CapturedMail) => void;
+  }>();
   let nextId = 1;
 
   const server = new SMTPServer({

@@ -16,7 +16,11 @@ export interface Mailer {
 const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 /** nodemailer over SMTP. A failed send is retried with back-off, then reported to the caller. */
-export function createSmtpMailer(env: Env, logger: Logger, retryDelaysMs = [200, 1000, 3000]): Mailer {
+export function createSmtpMailer(
+  env: Env,
+  logger: Logger,
+  retryDelaysMs = [200, 1000, 3000],
+): Mailer {
   const transport = nodemailer.createTransport({
     host: env.SMTP_HOST,
     port: env.SMTP_PORT,
@@ -33,7 +37,10 @@ export function createSmtpMailer(env: Env, logger: Logger, retryDelaysMs = [200,
           return;
         } catch (err) {
           const delay = retryDelaysMs[attempt];
-          logger.warn({ err, to: mail.to, subject: mail.subject, attempt: attempt + 1 }, 'mail send failed');
+          logger.warn(
+            { err, to: mail.to, subject: mail.subject, attempt: attempt + 1 },
+            'mail send failed',
+          );
           if (delay === undefined) throw err;
           await wait(delay);
         }
@@ -43,11 +50,24 @@ export function createSmtpMailer(env: Env, logger: Logger, retryDelaysMs = [200,
 }
 
 const escapeHtml = (s: string) =>
-  s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+  s.replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!,
+  );
 
 /** One plain layout for every message: text and HTML bodies, no images, no tracking. */
-export function composeMail(opts: { to: string; subject: string; lines: string[]; action?: { label: string; url: string } }): OutgoingMail {
-  const text = [...opts.lines, ...(opts.action ? ['', `${opts.action.label}: ${opts.action.url}`] : []), '', '— Rowtally'].join('\n');
+export function composeMail(opts: {
+  to: string;
+  subject: string;
+  lines: string[];
+  action?: { label: string; url: string };
+}): OutgoingMail {
+  const text = [
+    ...opts.lines,
+    ...(opts.action ? ['', `${opts.action.label}: ${opts.action.url}`] : []),
+    '',
+    '— Rowtally',
+  ].join('\n');
   const html = [
     '<div style="font-family:system-ui,sans-serif;max-width:560px;color:#1f2a1c">',
     '<p style="font-weight:700;color:#2f5d3a">Rowtally</p>',

@@ -35,9 +35,16 @@ export function meRouter({ db }: Pick<AppDeps, 'db'>) {
     '/',
     endpoint({ body: updateMeBody }, async ({ body }, _req, res) => {
       const actor = requireActor(res);
-      const changes = { ...(body.name ? { name: body.name } : {}), ...(body.unitSystem ? { unit_system: body.unitSystem } : {}) };
+      const changes = {
+        ...(body.name ? { name: body.name } : {}),
+        ...(body.unitSystem ? { unit_system: body.unitSystem } : {}),
+      };
       if (Object.keys(changes).length) {
-        await db.updateTable('users').set({ ...changes, updated_at: new Date() }).where('id', '=', actor.userId).execute();
+        await db
+          .updateTable('users')
+          .set({ ...changes, updated_at: new Date() })
+          .where('id', '=', actor.userId)
+          .execute();
       }
       res.json(await loadMe(db, actor.userId));
     }),

@@ -8,7 +8,11 @@ export interface LoadedTrial {
   access: TrialAccess;
 }
 
-export async function loadTrialAccess(db: DB, trial: Trial, actor: Actor | null): Promise<LoadedTrial> {
+export async function loadTrialAccess(
+  db: DB,
+  trial: Trial,
+  actor: Actor | null,
+): Promise<LoadedTrial> {
   if (!actor) return { trial, access: { status: trial.status, role: null, growerSiteIds: null } };
   const member = await db
     .selectFrom('trial_members')
@@ -33,9 +37,15 @@ export async function loadTrialAccess(db: DB, trial: Trial, actor: Actor | null)
  * Throws unless the actor may act. Someone with no part in an unpublished trial is told it
  * does not exist (404), so trial addresses reveal nothing; a member lacking the role gets 403.
  */
-export function authorize(actor: Actor | null, action: TrialAction, loaded: LoadedTrial, siteId?: string): void {
+export function authorize(
+  actor: Actor | null,
+  action: TrialAction,
+  loaded: LoadedTrial,
+  siteId?: string,
+): void {
   if (can(actor, action, loaded.access, siteId)) return;
-  const visible = loaded.access.role !== null || actor?.isAdmin || loaded.trial.status === 'published';
+  const visible =
+    loaded.access.role !== null || actor?.isAdmin || loaded.trial.status === 'published';
   if (!visible) throw AppError.notFound('The trial');
   if (!actor) throw new AppError('unauthenticated', 'Sign in to do this.');
   throw new AppError('forbidden', 'Your role in this trial does not allow this.');

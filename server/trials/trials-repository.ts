@@ -14,13 +14,21 @@ export function listTrials(db: DB, userId: string | null, isAdmin: boolean) {
       join.onRef('m.trial_id', '=', 't.id').on('m.user_id', '=', userId ?? ''),
     )
     .select([
-      't.id', 't.slug', 't.title', 't.crop', 't.season', 't.design', 't.status',
+      't.id',
+      't.slug',
+      't.title',
+      't.crop',
+      't.season',
+      't.design',
+      't.status',
       'm.role as myRole',
       counts.siteCount.as('siteCount'),
       counts.entryCount.as('entryCount'),
       counts.plotCount.as('plotCount'),
     ])
-    .$if(!isAdmin, (q) => q.where((eb) => eb.or([eb('m.role', 'is not', null), eb('t.status', '=', 'published')])))
+    .$if(!isAdmin, (q) =>
+      q.where((eb) => eb.or([eb('m.role', 'is not', null), eb('t.status', '=', 'published')])),
+    )
     .orderBy('t.created_at', 'desc')
     .execute();
 }
@@ -33,14 +41,26 @@ export async function trialParts(db: DB, trialId: string) {
   const [sites, entries, traits, tallies] = await Promise.all([
     db.selectFrom('sites').selectAll().where('trial_id', '=', trialId).orderBy('name').execute(),
     db.selectFrom('entries').selectAll().where('trial_id', '=', trialId).orderBy('code').execute(),
-    db.selectFrom('traits').selectAll().where('trial_id', '=', trialId).orderBy('sort_order').orderBy('label').execute(),
+    db
+      .selectFrom('traits')
+      .selectAll()
+      .where('trial_id', '=', trialId)
+      .orderBy('sort_order')
+      .orderBy('label')
+      .execute(),
     db
       .selectNoFrom([
         sql<number>`(select count(*)::int from sites where trial_id = ${trialId})`.as('siteCount'),
-        sql<number>`(select count(*)::int from entries where trial_id = ${trialId})`.as('entryCount'),
+        sql<number>`(select count(*)::int from entries where trial_id = ${trialId})`.as(
+          'entryCount',
+        ),
         sql<number>`(select count(*)::int from plots where trial_id = ${trialId})`.as('plotCount'),
-        sql<number>`(select count(*)::int from harvests where trial_id = ${trialId} and deleted_at is null)`.as('harvestCount'),
-        sql<number>`(select count(*)::int from observations where trial_id = ${trialId} and deleted_at is null)`.as('observationCount'),
+        sql<number>`(select count(*)::int from harvests where trial_id = ${trialId} and deleted_at is null)`.as(
+          'harvestCount',
+        ),
+        sql<number>`(select count(*)::int from observations where trial_id = ${trialId} and deleted_at is null)`.as(
+          'observationCount',
+        ),
       ])
       .executeTakeFirstOrThrow(),
   ]);

@@ -10,7 +10,13 @@ export async function listVisibleTrials(db: DB, actor: Actor | null): Promise<Tr
 }
 
 /** Loads a trial by its address and checks the action; the one entry point for trial routes. */
-export async function trialForAction(db: DB, slug: string, actor: Actor | null, action: Parameters<typeof authorize>[1], siteId?: string) {
+export async function trialForAction(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  action: Parameters<typeof authorize>[1],
+  siteId?: string,
+) {
   const trial = await repo.findTrialBySlug(db, slug);
   if (!trial) throw AppError.notFound('The trial');
   const loaded = await loadTrialAccess(db, trial, actor);
@@ -18,7 +24,11 @@ export async function trialForAction(db: DB, slug: string, actor: Actor | null, 
   return loaded;
 }
 
-export async function trialDetail(db: DB, slug: string, actor: Actor | null): Promise<TrialDetail & { permissions: ReturnType<typeof permissionsFor> }> {
+export async function trialDetail(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+): Promise<TrialDetail & { permissions: ReturnType<typeof permissionsFor> }> {
   const { trial, access } = await trialForAction(db, slug, actor, 'trial.read');
   const { sites, entries, traits, tallies } = await repo.trialParts(db, trial.id);
   return {
@@ -35,16 +45,31 @@ export async function trialDetail(db: DB, slug: string, actor: Actor | null): Pr
     myRole: access.role,
     ...tallies,
     sites: sites.map((s) => ({
-      id: s.id, name: s.name, region: s.region, soilTexture: s.soil_texture,
-      irrigationMethod: s.irrigation_method, notes: s.notes,
+      id: s.id,
+      name: s.name,
+      region: s.region,
+      soilTexture: s.soil_texture,
+      irrigationMethod: s.irrigation_method,
+      notes: s.notes,
     })),
     entries: entries.map((e) => ({
-      id: e.id, name: e.name, code: e.code, seedSource: e.seed_source, entryType: e.entry_type,
-      daysToMaturityClaimed: e.days_to_maturity_claimed, notes: e.notes,
+      id: e.id,
+      name: e.name,
+      code: e.code,
+      seedSource: e.seed_source,
+      entryType: e.entry_type,
+      daysToMaturityClaimed: e.days_to_maturity_claimed,
+      notes: e.notes,
     })),
     traits: traits.map((t) => ({
-      id: t.id, key: t.key, label: t.label, quantityKind: t.quantity_kind, basis: t.basis,
-      direction: t.direction, scaleMin: t.scale_min, scaleMax: t.scale_max,
+      id: t.id,
+      key: t.key,
+      label: t.label,
+      quantityKind: t.quantity_kind,
+      basis: t.basis,
+      direction: t.direction,
+      scaleMin: t.scale_min,
+      scaleMax: t.scale_max,
     })),
     permissions: permissionsFor(actor, access),
   };

@@ -19,20 +19,36 @@ export class ApiError extends Error {
   }
 }
 
-type Options = Omit<RequestInit, 'body'> & { body?: unknown; query?: Record<string, string | number | undefined> };
+type Options = Omit<RequestInit, 'body'> & {
+  body?: unknown;
+  query?: Record<string, string | number | undefined>;
+};
 
 /** fetch for our API: JSON in and out, cookies included, the error body turned into ApiError. */
-export async function api<T>(path: string, schema: z.ZodType<T> | null, options: Options = {}): Promise<T> {
+export async function api<T>(
+  path: string,
+  schema: z.ZodType<T> | null,
+  options: Options = {},
+): Promise<T> {
   const { body, query, headers, ...rest } = options;
   const qs = query
-    ? '?' + new URLSearchParams(Object.entries(query).filter(([, v]) => v !== undefined).map(([k, v]) => [k, String(v)])).toString()
+    ? '?' +
+      new URLSearchParams(
+        Object.entries(query)
+          .filter(([, v]) => v !== undefined)
+          .map(([k, v]) => [k, String(v)]),
+      ).toString()
     : '';
   let response: Response;
   try {
     response = await fetch(`${path}${qs}`, {
       credentials: 'same-origin',
       ...rest,
-      headers: { Accept: 'application/json', ...(body === undefined ? {} : { 'Content-Type': 'application/json' }), ...headers },
+      headers: {
+        Accept: 'application/json',
+        ...(body === undefined ? {} : { 'Content-Type': 'application/json' }),
+        ...headers,
+      },
       body: body === undefined ? undefined : JSON.stringify(body),
     });
   } catch {
@@ -43,7 +59,12 @@ export async function api<T>(path: string, schema: z.ZodType<T> | null, options:
   if (!response.ok) {
     const parsed = apiErrorBodySchema.safeParse(payload);
     if (parsed.success) {
-      throw new ApiError(response.status, parsed.data.error.code, parsed.data.error.message, parsed.data.error.details);
+      throw new ApiError(
+        response.status,
+        parsed.data.error.code,
+        parsed.data.error.message,
+        parsed.data.error.details,
+      );
     }
     throw new ApiError(response.status, 'unexpected', `The server answered ${response.status}.`);
   }

@@ -7,7 +7,8 @@ export function createQueryClient(): QueryClient {
       queries: {
         staleTime: 30_000,
         // A 4xx will not change by asking again; a dropped connection might.
-        retry: (count, error) => count < 2 && !(error instanceof ApiError && error.status >= 400 && error.status < 500),
+        retry: (count, error) =>
+          count < 2 && !(error instanceof ApiError && error.status >= 400 && error.status < 500),
       },
     },
   });

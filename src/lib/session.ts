@@ -15,7 +15,8 @@ export async function getMe() {
   }
 }
 
-export const meQueryOptions = () => queryOptions({ queryKey: sessionKeys.me, queryFn: getMe, staleTime: 60_000 });
+export const meQueryOptions = () =>
+  queryOptions({ queryKey: sessionKeys.me, queryFn: getMe, staleTime: 60_000 });
 
 export const useMe = () => useQuery(meQueryOptions());
 

@@ -1,7 +1,11 @@
 import { sql } from 'kysely';
 import { getMigrations } from 'better-auth/db/migration';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createEmptyDatabase, createTestDatabase, type TestDatabase } from '../support/test-database';
+import {
+  createEmptyDatabase,
+  createTestDatabase,
+  type TestDatabase,
+} from '../support/test-database';
 import { databaseColumns } from '../../db/schema';
 import { migrateDownAll, migrateToLatest } from '../../db/migrator';
 import { createAuth } from '../../server/auth/auth';
@@ -35,16 +39,27 @@ describe('migrations', () => {
   it('match the typed Database interface, table by table and column by column', async () => {
     const tables = await d.db.introspection.getTables();
     const actual = Object.fromEntries(
-      tables.filter((t) => !t.name.startsWith('kysely_')).map((t) => [t.name, t.columns.map((c) => c.name).sort()]),
+      tables
+        .filter((t) => !t.name.startsWith('kysely_'))
+        .map((t) => [t.name, t.columns.map((c) => c.name).sort()]),
     );
-    const expected = Object.fromEntries(Object.entries(databaseColumns).map(([t, cols]) => [t, Object.keys(cols).sort()]));
+    const expected = Object.fromEntries(
+      Object.entries(databaseColumns).map(([t, cols]) => [t, Object.keys(cols).sort()]),
+    );
     expect(actual).toEqual(expected);
   });
 
   it('create the account tables exactly as the sign-in library expects them', async () => {
     const env = parseEnv({ NODE_ENV: 'test' });
     const logger = pino({ level: 'silent' });
-    const auth = createAuth({ pool: d.pool, env, logger, baseUrl: 'http://127.0.0.1:1', secret: 'x'.repeat(40), mailer: { send: async () => {} } });
+    const auth = createAuth({
+      pool: d.pool,
+      env,
+      logger,
+      baseUrl: 'http://127.0.0.1:1',
+      secret: 'x'.repeat(40),
+      mailer: { send: async () => {} },
+    });
     const { toBeCreated, toBeAdded } = await getMigrations(auth.options);
     expect(toBeCreated).toEqual([]);
     expect(toBeAdded).toEqual([]);
@@ -53,10 +68,39 @@ describe('migrations', () => {
 
 describe('the database refuses bad data itself', () => {
   async function trialWithPlot() {
-    const trial = await d.db.insertInto('trials').values({ slug: `t-${Math.random().toString(36).slice(2, 8)}`, title: 'Rules', crop: 'Okra', season: '2026', design: 'rcbd' }).returning('id').executeTakeFirstOrThrow();
-    const site = await d.db.insertInto('sites').values({ trial_id: trial.id, name: 'North bed' }).returning('id').executeTakeFirstOrThrow();
-    const entry = await d.db.insertInto('entries').values({ trial_id: trial.id, name: 'Velvet Lantern', code: 'VL', entry_type: 'heirloom' }).returning('id').executeTakeFirstOrThrow();
-    const plot = await d.db.insertInto('plots').values({ trial_id: trial.id, site_id: site.id, entry_id: entry.id, block: 1, position: 1, plot_number: 101 }).returning('id').executeTakeFirstOrThrow();
+    const trial = await d.db
+      .insertInto('trials')
+      .values({
+        slug: `t-${Math.random().toString(36).slice(2, 8)}`,
+        title: 'Rules',
+        crop: 'Okra',
+        season: '2026',
+        design: 'rcbd',
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const site = await d.db
+      .insertInto('sites')
+      .values({ trial_id: trial.id, name: 'North bed' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const entry = await d.db
+      .insertInto('entries')
+      .values({ trial_id: trial.id, name: 'Velvet Lantern', code: 'VL', entry_type: 'heirloom' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const plot = await d.db
+      .insertInto('plots')
+      .values({
+        trial_id: trial.id,
+        site_id: site.id,
+        entry_id: entry.id,
+        block: 1,
+        position: 1,
+        plot_number: 101,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     return { trialId: trial.id, siteId: site.id, entryId: entry.id, plotId: plot.id };
   }
 
@@ -71,40 +115,148 @@ describe('the database refuses bad data itself', () => {
 
   it('refuses a negative harvest mass (check constraint 23514)', async () => {
     const { trialId, plotId } = await trialWithPlot();
-    expect(await code(d.db.insertInto('harvests').values({ trial_id: trialId, plot_id: plotId, harvested_on: '2026-07-01', fruit_count: 3, mass_g: -5, grade: 'marketable' }).execute())).toBe('23514');
+    expect(
+      await code(
+        d.db
+          .insertInto('harvests')
+          .values({
+            trial_id: trialId,
+            plot_id: plotId,
+            harvested_on: '2026-07-01',
+            fruit_count: 3,
+            mass_g: -5,
+            grade: 'marketable',
+          })
+          .execute(),
+      ),
+    ).toBe('23514');
   });
 
   it('refuses a plot placed in a site of another trial (foreign key 23503)', async () => {
     const a = await trialWithPlot();
     const b = await trialWithPlot();
-    expect(await code(d.db.insertInto('plots').values({ trial_id: a.trialId, site_id: b.siteId, entry_id: a.entryId, block: 1, position: 2, plot_number: 102 }).execute())).toBe('23503');
+    expect(
+      await code(
+        d.db
+          .insertInto('plots')
+          .values({
+            trial_id: a.trialId,
+            site_id: b.siteId,
+            entry_id: a.entryId,
+            block: 1,
+            position: 2,
+            plot_number: 102,
+          })
+          .execute(),
+      ),
+    ).toBe('23503');
   });
 
   it('refuses a harvest whose plot belongs to another trial', async () => {
     const a = await trialWithPlot();
     const b = await trialWithPlot();
-    expect(await code(d.db.insertInto('harvests').values({ trial_id: a.trialId, plot_id: b.plotId, harvested_on: '2026-07-01', fruit_count: 1, mass_g: 10, grade: 'cull' }).execute())).toBe('23503');
+    expect(
+      await code(
+        d.db
+          .insertInto('harvests')
+          .values({
+            trial_id: a.trialId,
+            plot_id: b.plotId,
+            harvested_on: '2026-07-01',
+            fruit_count: 1,
+            mass_g: 10,
+            grade: 'cull',
+          })
+          .execute(),
+      ),
+    ).toBe('23503');
   });
 
   it('refuses two plots with one plot number at a site (unique 23505)', async () => {
     const a = await trialWithPlot();
-    expect(await code(d.db.insertInto('plots').values({ trial_id: a.trialId, site_id: a.siteId, entry_id: a.entryId, block: 2, position: 1, plot_number: 101 }).execute())).toBe('23505');
+    expect(
+      await code(
+        d.db
+          .insertInto('plots')
+          .values({
+            trial_id: a.trialId,
+            site_id: a.siteId,
+            entry_id: a.entryId,
+            block: 2,
+            position: 1,
+            plot_number: 101,
+          })
+          .execute(),
+      ),
+    ).toBe('23505');
   });
 
   it('refuses an unknown design, a score trait without its scale, and NaN values', async () => {
     const a = await trialWithPlot();
-    expect(await code(d.db.insertInto('trials').values({ slug: 'bad-design', title: 'x', crop: 'x', season: 'x', design: 'latin' as never }).execute())).toBe('23514');
-    expect(await code(d.db.insertInto('traits').values({ trial_id: a.trialId, key: 'vigor', label: 'Vigor', quantity_kind: 'score', basis: 'plot', direction: 'higher' }).execute())).toBe('23514');
-    const trait = await d.db.insertInto('traits').values({ trial_id: a.trialId, key: 'height', label: 'Height', quantity_kind: 'length', basis: 'plant', direction: 'lower' }).returning('id').executeTakeFirstOrThrow();
-    expect(await code(sql`insert into observations (trial_id, plot_id, trait_id, observed_on, value) values (${a.trialId}, ${a.plotId}, ${trait.id}, '2026-07-01', 'NaN'::float8)`.execute(d.db))).toBe('23514');
+    expect(
+      await code(
+        d.db
+          .insertInto('trials')
+          .values({
+            slug: 'bad-design',
+            title: 'x',
+            crop: 'x',
+            season: 'x',
+            design: 'latin' as never,
+          })
+          .execute(),
+      ),
+    ).toBe('23514');
+    expect(
+      await code(
+        d.db
+          .insertInto('traits')
+          .values({
+            trial_id: a.trialId,
+            key: 'vigor',
+            label: 'Vigor',
+            quantity_kind: 'score',
+            basis: 'plot',
+            direction: 'higher',
+          })
+          .execute(),
+      ),
+    ).toBe('23514');
+    const trait = await d.db
+      .insertInto('traits')
+      .values({
+        trial_id: a.trialId,
+        key: 'height',
+        label: 'Height',
+        quantity_kind: 'length',
+        basis: 'plant',
+        direction: 'lower',
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    expect(
+      await code(
+        sql`insert into observations (trial_id, plot_id, trait_id, observed_on, value) values (${a.trialId}, ${a.plotId}, ${trait.id}, '2026-07-01', 'NaN'::float8)`.execute(
+          d.db,
+        ),
+      ),
+    ).toBe('23514');
   });
 
   it('keeps who and when on every row and moves updated_at on change', async () => {
     const a = await trialWithPlot();
-    const before = await d.db.selectFrom('plots').select(['created_at', 'updated_at']).where('id', '=', a.plotId).executeTakeFirstOrThrow();
+    const before = await d.db
+      .selectFrom('plots')
+      .select(['created_at', 'updated_at'])
+      .where('id', '=', a.plotId)
+      .executeTakeFirstOrThrow();
     await new Promise((r) => setTimeout(r, 10));
     await d.db.updateTable('plots').set({ plants_set: 6 }).where('id', '=', a.plotId).execute();
-    const after = await d.db.selectFrom('plots').select(['created_at', 'updated_at']).where('id', '=', a.plotId).executeTakeFirstOrThrow();
+    const after = await d.db
+      .selectFrom('plots')
+      .select(['created_at', 'updated_at'])
+      .where('id', '=', a.plotId)
+      .executeTakeFirstOrThrow();
     expect(after.created_at).toEqual(before.created_at);
     expect(after.updated_at.getTime()).toBeGreaterThan(before.updated_at.getTime());
   });

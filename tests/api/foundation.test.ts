@@ -14,7 +14,11 @@ describe('GET /api/health', () => {
   it('reports the version and that the database answers', async () => {
     const res = await request(t.app).get('/api/health');
     expect(res.status).toBe(200);
-    expect(res.body).toMatchObject({ status: 'ok', version: '0.1.0', database: { reachable: true } });
+    expect(res.body).toMatchObject({
+      status: 'ok',
+      version: '0.1.0',
+      database: { reachable: true },
+    });
     expect(typeof res.body.database.latencyMs).toBe('number');
   });
 
@@ -33,20 +37,30 @@ describe('the error shape', () => {
   it('answers an unknown API route with 404 and the error body', async () => {
     const res = await request(t.app).get('/api/no-such-thing');
     expect(res.status).toBe(404);
-    expect(res.body).toEqual({ error: { code: 'not_found', message: 'No API route matches GET /api/no-such-thing.' } });
+    expect(res.body).toEqual({
+      error: { code: 'not_found', message: 'No API route matches GET /api/no-such-thing.' },
+    });
   });
 
   it('refuses a malformed trial address with per-field messages', async () => {
     const res = await request(t.app).get('/api/trials/Not_A_Slug!');
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('validation_failed');
-    expect(res.body.error.details.fields).toEqual([{ path: 'params.slug', message: 'Not a trial address.' }]);
+    expect(res.body.error.details.fields).toEqual([
+      { path: 'params.slug', message: 'Not a trial address.' },
+    ]);
   });
 
   it('refuses a body that is not JSON with 400', async () => {
-    const res = await request(t.app).patch('/api/me').set('Content-Type', 'application/json').send('{"name":');
+    const res = await request(t.app)
+      .patch('/api/me')
+      .set('Content-Type', 'application/json')
+      .send('{"name":');
     expect(res.status).toBe(400);
-    expect(res.body.error).toEqual({ code: 'validation_failed', message: 'The request body is not valid JSON.' });
+    expect(res.body.error).toEqual({
+      code: 'validation_failed',
+      message: 'The request body is not valid JSON.',
+    });
   });
 
   it('refuses an oversized body with 413 naming the limit', async () => {
@@ -66,7 +80,10 @@ describe('the error shape', () => {
   });
 
   it('hides an unpublished trial from someone outside it (404)', async () => {
-    await t.db.insertInto('trials').values({ slug: 'quiet-trial', title: 'Quiet', crop: 'Okra', season: '2026', design: 'crd' }).execute();
+    await t.db
+      .insertInto('trials')
+      .values({ slug: 'quiet-trial', title: 'Quiet', crop: 'Okra', season: '2026', design: 'crd' })
+      .execute();
     const res = await request(t.app).get('/api/trials/quiet-trial');
     expect(res.status).toBe(404);
     expect(res.body.error.code).toBe('not_found');

@@ -2,7 +2,14 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { seedDemo } from '../../db/seed/seed';
-import { contextAs, launchBrowser, type LiveApp, screenshot, startLiveApp, watchErrors } from '../support/browser';
+import {
+  contextAs,
+  launchBrowser,
+  type LiveApp,
+  screenshot,
+  startLiveApp,
+  watchErrors,
+} from '../support/browser';
 
 let live: LiveApp;
 let browser: Browser;
@@ -20,13 +27,18 @@ afterAll(async () => {
 
 describe('the built app in a real browser', () => {
   it('shows the demo trial to its lead, on desktop and at 360 px', async () => {
-    for (const viewport of [{ width: 1280, height: 900 }, { width: 360, height: 780 }]) {
+    for (const viewport of [
+      { width: 1280, height: 900 },
+      { width: 360, height: 780 },
+    ]) {
       const context = await contextAs(browser, live, lead, viewport);
       const page = await context.newPage();
       const errors = watchErrors(page);
       await page.goto('/');
       await page.getByRole('link', { name: /Larkhaven heirloom okra, three gardens/ }).click();
-      await page.getByRole('heading', { level: 1, name: 'Larkhaven heirloom okra, three gardens' }).waitFor();
+      await page
+        .getByRole('heading', { level: 1, name: 'Larkhaven heirloom okra, three gardens' })
+        .waitFor();
       // 6 entries × 3 blocks × 3 sites, from the demo season's design.
       await expect(page.getByText('54', { exact: true }).count()).resolves.toBeGreaterThan(0);
       await expect(page.getByRole('cell', { name: 'Mossbank Long' }).count()).resolves.toBe(1);

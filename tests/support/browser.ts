@@ -13,8 +13,14 @@ export async function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: '/usr/bin/chromium',
     args: [
-      '--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
-      '--disable-background-networking', '--disable-component-update', '--disable-sync',
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
     ],
     // Playwright gives each launch a new empty profile folder of its own.
   });
@@ -28,7 +34,9 @@ export interface LiveApp extends TestApp {
 /** The built client and the API, listening on 127.0.0.1 like `npm start`. */
 export async function startLiveApp(): Promise<LiveApp> {
   if (!fs.existsSync(path.join(defaultClientDir, 'index.html'))) {
-    throw new Error('The client is not built: run `npm test` (it builds first) or `npx vite build`.');
+    throw new Error(
+      'The client is not built: run `npm test` (it builds first) or `npx vite build`.',
+    );
   }
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
@@ -49,11 +57,18 @@ export async function startLiveApp(): Promise<LiveApp> {
 }
 
 /** A browser context already signed in as `user` (session minted on the server, no form). */
-export async function contextAs(browser: Browser, live: LiveApp, user: Pick<TestUser, 'email' | 'password'> | null, viewport = { width: 1280, height: 900 }): Promise<BrowserContext> {
+export async function contextAs(
+  browser: Browser,
+  live: LiveApp,
+  user: Pick<TestUser, 'email' | 'password'> | null,
+  viewport = { width: 1280, height: 900 },
+): Promise<BrowserContext> {
   const context = await browser.newContext({ viewport, baseURL: live.url });
   if (user) {
     const [name, value] = (await mintSessionCookie(live, user)).split('=');
-    await context.addCookies([{ name: name!, value: value!, url: live.url, httpOnly: true, sameSite: 'Lax' }]);
+    await context.addCookies([
+      { name: name!, value: value!, url: live.url, httpOnly: true, sameSite: 'Lax' },
+    ]);
   }
   return context;
 }

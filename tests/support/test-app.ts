@@ -21,10 +21,17 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
-export async function createTestApp(opts: { clientDir?: string; baseUrl?: string; port?: number } = {}): Promise<TestApp> {
+export async function createTestApp(
+  opts: { clientDir?: string; baseUrl?: string; port?: number } = {},
+): Promise<TestApp> {
   const database = await createTestDatabase();
   const mailbox = await startCaptureServer(0);
-  const env = parseEnv({ NODE_ENV: 'test', LOG_LEVEL: 'silent', SMTP_PORT: String(mailbox.port), PORT: String(opts.port ?? 3999) });
+  const env = parseEnv({
+    NODE_ENV: 'test',
+    LOG_LEVEL: 'silent',
+    SMTP_PORT: String(mailbox.port),
+    PORT: String(opts.port ?? 3999),
+  });
   const logger = pino({ level: 'silent' });
   const runtime = createRuntime({
     env,
@@ -49,16 +56,46 @@ export async function createTestApp(opts: { clientDir?: string; baseUrl?: string
   };
 }
 
-export interface TestUser { id: string; email: string; password: string; name: string }
+export interface TestUser {
+  id: string;
+  email: string;
+  password: string;
+  name: string;
+}
 
 /** A verified user with a password, written straight to the database. */
-export async function createUser(db: DB, overrides: Partial<TestUser> & { isAdmin?: boolean } = {}): Promise<TestUser> {
+export async function createUser(
+  db: DB,
+  overrides: Partial<TestUser> & { isAdmin?: boolean } = {},
+): Promise<TestUser> {
   const id = crypto.randomUUID();
   const email = overrides.email ?? `user-${id.slice(0, 8)}@test.example`;
   const password = overrides.password ?? 'correct-horse-battery';
   const name = overrides.name ?? 'Test Grower';
-  await db.insertInto('users').values({ id, name, email, email_verified: true, is_admin: overrides.isAdmin ?? false, created_at: new Date(), updated_at: new Date() }).execute();
-  await db.insertInto('accounts').values({ id: crypto.randomUUID(), account_id: id, provider_id: 'credential', user_id: id, password: await hashPassword(password), created_at: new Date(), updated_at: new Date() }).execute();
+  await db
+    .insertInto('users')
+    .values({
+      id,
+      name,
+      email,
+      email_verified: true,
+      is_admin: overrides.isAdmin ?? false,
+      created_at: new Date(),
+      updated_at: new Date(),
+    })
+    .execute();
+  await db
+    .insertInto('accounts')
+    .values({
+      id: crypto.randomUUID(),
+      account_id: id,
+      provider_id: 'credential',
+      user_id: id,
+      password: await hashPassword(password),
+      created_at: new Date(),
+      updated_at: new Date(),
+    })
+    .execute();
   return { id, email, password, name };
 }
 
@@ -68,15 +105,24 @@ export async function signedInAgent(t: TestApp, user: Pick<TestUser, 'email' | '
   const res = await agent
     .post('/api/auth/sign-in/email')
     .set('Origin', TEST_ORIGIN)
-    .set('X-Forwarded-For', `10.${Math.floor(Math.random() * 250)}.${Math.floor(Math.random() * 250)}.1`)
+    .set(
+      'X-Forwarded-For',
+      `10.${Math.floor(Math.random() * 250)}.${Math.floor(Math.random() * 250)}.1`,
+    )
     .send({ email: user.email, password: user.password });
   if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${res.text}`);
   return agent;
 }
 
 /** A session cookie minted without HTTP (no rate limit in the way), for tests and browser fixtures. */
-export async function mintSessionCookie(t: TestApp, user: Pick<TestUser, 'email' | 'password'>): Promise<string> {
-  const { headers } = await t.runtime.auth.api.signInEmail({ body: { email: user.email, password: user.password }, returnHeaders: true });
+export async function mintSessionCookie(
+  t: TestApp,
+  user: Pick<TestUser, 'email' | 'password'>,
+): Promise<string> {
+  const { headers } = await t.runtime.auth.api.signInEmail({
+    body: { email: user.email, password: user.password },
+    returnHeaders: true,
+  });
   const setCookie = headers.get('set-cookie');
   if (!setCookie) throw new Error('No session cookie was minted.');
   return setCookie.split(';')[0]!;

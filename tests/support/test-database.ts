@@ -52,7 +52,9 @@ export async function createEmptyDatabase(): Promise<TestDatabase> {
   const pool = createPool(url, 2);
   const db = createDb(pool);
   return {
-    url, db, pool,
+    url,
+    db,
+    pool,
     async drop() {
       await db.destroy();
       await admin(`drop database if exists ${name} with (force)`);

@@ -33,7 +33,10 @@ function UserMenu() {
   if (isPending) return <span className="text-sm text-leaf-100">…</span>;
   if (!me) {
     return (
-      <Link to="/sign-in" className="inline-flex min-h-11 items-center rounded-lg bg-pod-500 px-3 font-semibold text-ink">
+      <Link
+        to="/sign-in"
+        className="inline-flex min-h-11 items-center rounded-lg bg-pod-500 px-3 font-semibold text-ink"
+      >
         Sign in
       </Link>
     );
@@ -41,7 +44,10 @@ function UserMenu() {
   return (
     <details className="relative">
       <summary className="flex min-h-11 cursor-pointer list-none items-center gap-2 rounded-lg px-2 text-white hover:bg-leaf-900">
-        <span aria-hidden className="grid h-8 w-8 place-items-center rounded-full bg-pod-500 font-bold text-ink">
+        <span
+          aria-hidden
+          className="grid h-8 w-8 place-items-center rounded-full bg-pod-500 font-bold text-ink"
+        >
           {me.name.slice(0, 1).toUpperCase()}
         </span>
         <span className="hidden sm:inline">{me.name}</span>
@@ -66,12 +72,18 @@ export function AppShell() {
   const navigation = useNavigation();
   return (
     <div className="min-h-screen">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-white focus:p-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-white focus:p-2"
+      >
         Skip to content
       </a>
       <header className="no-print bg-leaf-700 text-white">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-2 px-3 py-2 sm:px-6">
-          <Link to="/" className="flex items-center gap-2 font-display text-2xl font-semibold tracking-tight">
+          <Link
+            to="/"
+            className="flex items-center gap-2 font-display text-2xl font-semibold tracking-tight"
+          >
             <img src="/favicon.svg" alt="" className="h-8 w-8" />
             Rowtally
           </Link>
@@ -92,7 +104,11 @@ export function AppShell() {
         </div>
       </nav>
       {navigation.state === 'loading' ? (
-        <div className="h-1 animate-pulse bg-pod-500" role="progressbar" aria-label="Loading page" />
+        <div
+          className="h-1 animate-pulse bg-pod-500"
+          role="progressbar"
+          aria-label="Loading page"
+        />
       ) : null}
       <main id="main" className="mx-auto max-w-6xl px-3 py-4 sm:px-6 sm:py-6">
         <Suspense fallback={<Spinner />}>

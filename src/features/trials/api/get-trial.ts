@@ -10,7 +10,8 @@ const responseSchema = trialDetailSchema.extend({
 });
 export type TrialWithPermissions = z.infer<typeof responseSchema>;
 
-export const getTrial = (slug: string) => api(`/api/trials/${encodeURIComponent(slug)}`, responseSchema);
+export const getTrial = (slug: string) =>
+  api(`/api/trials/${encodeURIComponent(slug)}`, responseSchema);
 
 export const trialQueryOptions = (slug: string) =>
   queryOptions({ queryKey: trialKeys.detail(slug), queryFn: () => getTrial(slug) });

@@ -5,6 +5,7 @@ import { trialKeys } from './trial-keys';
 
 export const getTrials = () => api('/api/trials', trialListSchema);
 
-export const trialsQueryOptions = () => queryOptions({ queryKey: trialKeys.list(), queryFn: getTrials });
+export const trialsQueryOptions = () =>
+  queryOptions({ queryKey: trialKeys.list(), queryFn: getTrials });
 
 export const useTrials = () => useQuery(trialsQueryOptions());

@@ -39,12 +39,18 @@ export function Component() {
                 </p>
                 <h2 className="mt-1 text-xl font-semibold text-leaf-900">{t.title}</h2>
                 <p className="mt-2 text-sm">
-                  {designLabels[t.design]} · {t.entryCount} entries · {t.siteCount} {t.siteCount === 1 ? 'site' : 'sites'} ·{' '}
-                  {t.plotCount} plots
+                  {designLabels[t.design]} · {t.entryCount} entries · {t.siteCount}{' '}
+                  {t.siteCount === 1 ? 'site' : 'sites'} · {t.plotCount} plots
                 </p>
                 <p className="mt-2 flex gap-2 text-xs">
-                  <span className="rounded-full bg-straw-200 px-2 py-0.5 font-medium capitalize">{t.status}</span>
-                  {t.myRole ? <span className="rounded-full bg-leaf-100 px-2 py-0.5 font-medium capitalize">{t.myRole}</span> : null}
+                  <span className="rounded-full bg-straw-200 px-2 py-0.5 font-medium capitalize">
+                    {t.status}
+                  </span>
+                  {t.myRole ? (
+                    <span className="rounded-full bg-leaf-100 px-2 py-0.5 font-medium capitalize">
+                      {t.myRole}
+                    </span>
+                  ) : null}
                 </p>
               </Link>
             </li>

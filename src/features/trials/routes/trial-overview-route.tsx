@@ -4,7 +4,11 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '../api/get-trial';
 
-const entryTypeLabel = { heirloom: 'Heirloom', open_pollinated: 'Open-pollinated', hybrid: 'Hybrid' } as const;
+const entryTypeLabel = {
+  heirloom: 'Heirloom',
+  open_pollinated: 'Open-pollinated',
+  hybrid: 'Hybrid',
+} as const;
 
 export function Component() {
   const { slug = '' } = useParams();
@@ -73,7 +77,8 @@ export function Component() {
               <p className="font-semibold">{s.name}</p>
               <p className="text-sm text-loam-700">{s.region}</p>
               <p className="mt-1 text-sm">
-                {s.soilTexture ?? 'Soil not recorded'} · {s.irrigationMethod ?? 'irrigation not recorded'}
+                {s.soilTexture ?? 'Soil not recorded'} ·{' '}
+                {s.irrigationMethod ?? 'irrigation not recorded'}
               </p>
             </li>
           ))}
@@ -88,7 +93,15 @@ export function Component() {
           {trial.traits.map((t) => (
             <li key={t.id} className="rounded-full bg-straw-200 px-3 py-1 text-sm">
               {t.label}
-              <span className="text-loam-700"> · {t.direction === 'higher' ? 'higher is better' : t.direction === 'lower' ? 'lower is better' : 'no preference'}</span>
+              <span className="text-loam-700">
+                {' '}
+                ·{' '}
+                {t.direction === 'higher'
+                  ? 'higher is better'
+                  : t.direction === 'lower'
+                    ? 'lower is better'
+                    : 'no preference'}
+              </span>
             </li>
           ))}
         </ul>
