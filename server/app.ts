@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import express from 'express';
+import express, { type Router } from 'express';
 import helmet from 'helmet';
 import type { Logger } from 'pino';
 import { pinoHttp } from 'pino-http';
@@ -29,6 +29,18 @@ export interface AppDeps {
   clientDir?: string;
 }
 
+/**
+ * Every API router behind sign-in resolution, with its mount path. Routers mounted under a
+ * trial (`/api/trials/:slug/...`) use `Router({ mergeParams: true })`. The authorization
+ * matrix test lists the routes from here, so a new route cannot skip it.
+ */
+export function apiMounts(deps: AppDeps): [string, Router][] {
+  return [
+    ['/api/me', meRouter(deps)],
+    ['/api/trials', trialsRouter(deps)],
+  ];
+}
+
 export function createApp(deps: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
@@ -49,10 +61,9 @@ export function createApp(deps: AppDeps) {
   app.use(express.json({ limit: '1mb' }));
   app.use('/api/health', healthRouter(deps));
   app.use('/api', resolveActor(deps.auth));
-  app.use('/api/me', meRouter(deps));
   if (deps.mailbox && deps.env.NODE_ENV !== 'production')
     app.use('/api/dev/mailbox', mailboxRouter(deps.mailbox));
-  app.use('/api/trials', trialsRouter(deps));
+  for (const [mountPath, router] of apiMounts(deps)) app.use(mountPath, router);
   app.use('/api', apiNotFound);
 
   if (deps.clientDir && fs.existsSync(path.join(deps.clientDir, 'index.html'))) {
