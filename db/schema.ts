@@ -174,8 +174,11 @@ export type FieldEventKind =
 export interface FieldEventsTable extends Written, Versioned {
   id: Generated<string>;
   trial_id: string;
-  site_id: string;
+  /** null: a fertilizer policy for the whole trial */
+  site_id: string | null;
   plot_id: string | null;
+  /** a fertilizer policy for one entry */
+  entry_id: string | null;
   kind: FieldEventKind;
   occurred_on: DateText;
   irrigation_method: 'drip' | 'overhead' | 'hand' | 'furrow' | null;
@@ -187,6 +190,28 @@ export interface FieldEventsTable extends Written, Versioned {
   none_applied: Generated<boolean>;
   target_spacing_mm: number | null;
   note: Generated<string>;
+  drip_emitter_flow_l_per_h: number | null;
+  drip_emitter_spacing_mm: number | null;
+  drip_line_flow_l_per_h_per_m: number | null;
+  wetted_width_mm: number | null;
+  sprinkler_rate_mm_per_h: number | null;
+  hand_volume_l: number | null;
+  wetted_area_m2: number | null;
+}
+
+export type AuditTable = 'harvests' | 'observations' | 'field_events' | 'plots';
+export type AuditAction = 'create' | 'update' | 'delete' | 'restore';
+
+export interface AuditLogTable {
+  id: Generated<number>;
+  trial_id: string;
+  table_name: AuditTable;
+  record_id: string;
+  action: AuditAction;
+  before: ColumnType<Record<string, unknown> | null, string | null, string | null>;
+  after: ColumnType<Record<string, unknown>, string, string>;
+  actor_id: string | null;
+  at: Generated<Timestamp>;
 }
 
 export interface PhotosTable extends Written {
@@ -237,6 +262,7 @@ export interface Database {
   photos: PhotosTable;
   trial_members: TrialMembersTable;
   trial_member_sites: TrialMemberSitesTable;
+  audit_log: AuditLogTable;
 }
 
 export type Trial = Selectable<TrialsTable>;
@@ -420,6 +446,14 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     none_applied: true,
     target_spacing_mm: true,
     note: true,
+    entry_id: true,
+    drip_emitter_flow_l_per_h: true,
+    drip_emitter_spacing_mm: true,
+    drip_line_flow_l_per_h_per_m: true,
+    wetted_width_mm: true,
+    sprinkler_rate_mm_per_h: true,
+    hand_volume_l: true,
+    wetted_area_m2: true,
     version: true,
     deleted_at: true,
     created_at: true,
@@ -460,5 +494,16 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     site_id: true,
     created_at: true,
     created_by: true,
+  },
+  audit_log: {
+    id: true,
+    trial_id: true,
+    table_name: true,
+    record_id: true,
+    action: true,
+    before: true,
+    after: true,
+    actor_id: true,
+    at: true,
   },
 };
