@@ -59,18 +59,138 @@ export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
       continue;
     }
     for (let block = 1; block <= replicates; block++) {
-      random
-        .shuffle(entryIds)
-        .forEach((entryId, i) =>
-          plots.push({
-            siteId,
-            entryId,
-            block,
-            position: i + 1,
-            plotNumber: plotNumberOf(block, i + 1, entryIds.length),
-          }),
-        );
+      random.shuffle(entryIds).forEach((entryId, i) =>
+        plots.push({
+          siteId,
+          entryId,
+          block,
+          position: i + 1,
+          plotNumber: plotNumberOf(block, i + 1, entryIds.length),
+        }),
+      );
     }
   }
   return plots;
+}
+
+/* ---------- The planting map: plots placed to scale, and a page to print them on ---------- */
+
+export interface MapPlotInput {
+  plotNumber: number;
+  block: number;
+  position: number;
+}
+
+export interface MapOptions {
+  /** Plots side by side in one range (the entries per block). */
+  plotsPerRange: number;
+  rowLengthMm: number;
+  rowSpacingMm: number;
+  rowsPerPlot: number;
+  /** Walkway between ranges. */
+  alleyMm: number;
+  /** Completely randomized plots all sit in block 1: wrap them into ranges of plotsPerRange. */
+  wrapSingleBlock: boolean;
+}
+
+export interface MapPlotRect extends MapPlotInput {
+  range: number;
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+}
+
+export interface MapGeometry {
+  widthMm: number;
+  heightMm: number;
+  ranges: { range: number; block: number | null; y: number }[];
+  plots: MapPlotRect[];
+}
+
+/**
+ * Rows run top to bottom; a plot is `rowsPerPlot` rows wide and one row length long. Each
+ * block is a range of plots across the field (position 1 on the left); ranges are stacked
+ * with an alley between them. All coordinates in millimetres on the ground.
+ */
+export function mapGeometry(plots: readonly MapPlotInput[], o: MapOptions): MapGeometry {
+  if (plots.length === 0) return { widthMm: 0, heightMm: 0, ranges: [], plots: [] };
+  const perRange = Math.max(1, o.plotsPerRange);
+  const plotWidth = o.rowsPerPlot * o.rowSpacingMm;
+  const singleBlock = o.wrapSingleBlock && plots.every((p) => p.block === plots[0]!.block);
+  const placed = plots.map((p) => {
+    const range = singleBlock ? Math.ceil(p.position / perRange) : p.block;
+    const column = singleBlock ? (p.position - 1) % perRange : p.position - 1;
+    return { ...p, range, column };
+  });
+  const rangeNumbers = [...new Set(placed.map((p) => p.range))].sort((a, b) => a - b);
+  const rangeY = new Map(rangeNumbers.map((r, i) => [r, i * (o.rowLengthMm + o.alleyMm)]));
+  const columns = Math.max(...placed.map((p) => p.column + 1));
+  return {
+    widthMm: columns * plotWidth,
+    heightMm: rangeNumbers.length * o.rowLengthMm + (rangeNumbers.length - 1) * o.alleyMm,
+    ranges: rangeNumbers.map((range) => ({
+      range,
+      block: singleBlock ? null : range,
+      y: rangeY.get(range)!,
+    })),
+    plots: placed.map(({ column, ...p }) => ({
+      ...p,
+      x: column * plotWidth,
+      y: rangeY.get(p.range)!,
+      width: plotWidth,
+      height: o.rowLengthMm,
+    })),
+  };
+}
+
+/** Paper sizes in mm, portrait: ISO 216 A4 and ANSI Letter (8.5 × 11 in). */
+export const paperSizes = {
+  a4: { widthMm: 210, heightMm: 297, css: 'A4' },
+  letter: { widthMm: 215.9, heightMm: 279.4, css: 'letter' },
+} as const;
+export type PaperSize = keyof typeof paperSizes;
+
+export interface PageFit {
+  orientation: 'portrait' | 'landscape';
+  /** The printable box: the sheet less margins and the space kept for title and legend. */
+  boxWidthMm: number;
+  boxHeightMm: number;
+  /** The drawing's size on paper, keeping its proportions. */
+  drawingWidthMm: number;
+  drawingHeightMm: number;
+  /** One mm on paper is this many mm on the ground. */
+  scale: number;
+}
+
+/**
+ * Fits a drawing of the field onto one sheet: picks the orientation that prints it largest and
+ * scales it to the printable box (sheet less `marginMm` all round and `reservedMm` below).
+ */
+export function fitToPage(
+  widthMm: number,
+  heightMm: number,
+  paper: PaperSize,
+  marginMm = 12,
+  reservedMm = 60,
+): PageFit {
+  const sheet = paperSizes[paper];
+  const options = (['portrait', 'landscape'] as const).map((orientation) => {
+    const [w, h] =
+      orientation === 'portrait'
+        ? [sheet.widthMm, sheet.heightMm]
+        : [sheet.heightMm, sheet.widthMm];
+    const boxWidthMm = w - 2 * marginMm;
+    const boxHeightMm = h - 2 * marginMm - reservedMm;
+    const factor = Math.min(boxWidthMm / widthMm, boxHeightMm / heightMm);
+    return {
+      orientation,
+      boxWidthMm,
+      boxHeightMm,
+      drawingWidthMm: widthMm * factor,
+      drawingHeightMm: heightMm * factor,
+      scale: 1 / factor,
+    };
+  });
+  return options[0]!.scale <= options[1]!.scale ? options[0]! : options[1]!;
 }

@@ -84,7 +84,19 @@ export interface TrialsTable extends Written {
   description: Generated<string>;
   sowing_date: DateText | null;
   transplant_date: DateText | null;
+  layout_seed: number | null;
+  replicates: number | null;
+  rows_per_plot: Generated<number>;
+  row_length_mm: number | null;
+  row_spacing_mm: number | null;
+  in_row_spacing_mm: number | null;
+  layout_generated_at: Timestamp | null;
+  fertilizer_policy: Generated<FertilizerPolicy>;
+  fertilizer_notes: Generated<string>;
 }
+
+/** The lead's planned fertilizer use; what was applied is in the field log. */
+export type FertilizerPolicy = 'none_applied' | 'per_entry' | 'as_recorded';
 
 export interface SitesTable extends Written {
   id: Generated<string>;
@@ -106,6 +118,8 @@ export interface EntriesTable extends Written {
   entry_type: 'heirloom' | 'open_pollinated' | 'hybrid';
   days_to_maturity_claimed: number | null;
   notes: Generated<string>;
+  in_row_spacing_mm: number | null;
+  no_fertilizer: Generated<boolean>;
 }
 
 export interface PlotsTable extends Written {
@@ -121,6 +135,8 @@ export interface PlotsTable extends Written {
   in_row_spacing_mm: number | null;
   row_length_mm: number | null;
   row_spacing_mm: number | null;
+  gaps: number | null;
+  planted_note: Generated<string>;
 }
 
 export type QuantityKind = 'mass' | 'length' | 'count' | 'score' | 'date' | 'percent';
@@ -174,11 +190,8 @@ export type FieldEventKind =
 export interface FieldEventsTable extends Written, Versioned {
   id: Generated<string>;
   trial_id: string;
-  /** null: a fertilizer policy for the whole trial */
-  site_id: string | null;
+  site_id: string;
   plot_id: string | null;
-  /** a fertilizer policy for one entry */
-  entry_id: string | null;
   kind: FieldEventKind;
   occurred_on: DateText;
   irrigation_method: 'drip' | 'overhead' | 'hand' | 'furrow' | null;
@@ -330,6 +343,15 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     description: true,
     sowing_date: true,
     transplant_date: true,
+    layout_seed: true,
+    replicates: true,
+    rows_per_plot: true,
+    row_length_mm: true,
+    row_spacing_mm: true,
+    in_row_spacing_mm: true,
+    layout_generated_at: true,
+    fertilizer_policy: true,
+    fertilizer_notes: true,
     created_at: true,
     updated_at: true,
     created_by: true,
@@ -358,6 +380,8 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     entry_type: true,
     days_to_maturity_claimed: true,
     notes: true,
+    in_row_spacing_mm: true,
+    no_fertilizer: true,
     created_at: true,
     updated_at: true,
     created_by: true,
@@ -376,6 +400,8 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     in_row_spacing_mm: true,
     row_length_mm: true,
     row_spacing_mm: true,
+    gaps: true,
+    planted_note: true,
     created_at: true,
     updated_at: true,
     created_by: true,
@@ -446,7 +472,6 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     none_applied: true,
     target_spacing_mm: true,
     note: true,
-    entry_id: true,
     drip_emitter_flow_l_per_h: true,
     drip_emitter_spacing_mm: true,
     drip_line_flow_l_per_h_per_m: true,
