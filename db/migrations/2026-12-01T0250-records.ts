@@ -1,7 +1,7 @@
 import { type Kysely, sql } from 'kysely';
 
-// Frozen. Field records: who changed what (audit log), the inputs behind a computed depth of
-// irrigation water, and fertilizer policies for an entry or the whole trial.
+// Frozen. Field records: who changed what (audit log) and the inputs behind a computed depth
+// of irrigation water.
 export async function up(db: Kysely<any>): Promise<void> {
   await sql`
     create table audit_log (
@@ -22,7 +22,6 @@ export async function up(db: Kysely<any>): Promise<void> {
     create index audit_log_record_idx on audit_log (record_id, at);
 
     alter table field_events
-      add column entry_id uuid,
       add column drip_emitter_flow_l_per_h finite_float check (drip_emitter_flow_l_per_h > 0),
       add column drip_emitter_spacing_mm finite_float check (drip_emitter_spacing_mm > 0),
       add column drip_line_flow_l_per_h_per_m finite_float check (drip_line_flow_l_per_h_per_m > 0),
@@ -30,11 +29,6 @@ export async function up(db: Kysely<any>): Promise<void> {
       add column sprinkler_rate_mm_per_h finite_float check (sprinkler_rate_mm_per_h > 0),
       add column hand_volume_l finite_float check (hand_volume_l > 0),
       add column wetted_area_m2 finite_float check (wetted_area_m2 > 0),
-      add foreign key (entry_id, trial_id) references entries (id, trial_id) on delete cascade,
-      alter column site_id drop not null,
-      -- only a fertilizer policy may cover the whole trial (no site)
-      add check (site_id is not null or (kind = 'fertilizer' and plot_id is null)),
-      add check (entry_id is null or kind = 'fertilizer'),
       -- the depth is stored with whatever it was computed from (checked by the service)
       add check (kind <> 'irrigation' or water_depth_mm is not null);
   `.execute(db);
@@ -42,17 +36,14 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 export async function down(db: Kysely<any>): Promise<void> {
   await sql`
-    delete from field_events where site_id is null;
     alter table field_events
-      drop column entry_id,
       drop column drip_emitter_flow_l_per_h,
       drop column drip_emitter_spacing_mm,
       drop column drip_line_flow_l_per_h_per_m,
       drop column wetted_width_mm,
       drop column sprinkler_rate_mm_per_h,
       drop column hand_volume_l,
-      drop column wetted_area_m2,
-      alter column site_id set not null;
+      drop column wetted_area_m2;
     drop table audit_log;
   `.execute(db);
 }
