@@ -8,10 +8,11 @@
  *
  * Sums of squares are sequential (type I) in the order site, block, variety, site × variety.
  * When every block holds every variety equally often, the terms are orthogonal and the sums
- * of squares come from group means directly; otherwise a least-squares fit by Householder
- * QR gives the sequential reductions, so missing plots cost only their own degrees of
- * freedom, not whole blocks.
+ * of squares come from group means directly; otherwise a least-squares fit gives the
+ * sequential reductions (blocks absorbed, then small variety systems; QR for crd), so missing
+ * plots cost only their own degrees of freedom, not whole blocks.
  */
+import { absorbedBlockSs } from './block-absorption.js';
 import { fUpperTail } from './distributions.js';
 import { accurateMean, sequentialSumsOfSquares, type ModelTerm } from './linear-model.js';
 
@@ -83,7 +84,7 @@ function groupMeans(y: Float64Array, codes: Int32Array, levels: number) {
   return { mean, n };
 }
 
-interface RawSs {
+export interface RawSs {
   terms: { source: AnovaSource; df: number; ss: number }[];
   residualDf: number;
   residualSs: number;
@@ -168,8 +169,23 @@ function meansSs(design: Design, L: PlotLayout): RawSs {
   };
 }
 
-/** General layout: sequential least squares by QR. */
+/**
+ * Non-orthogonal layout. Blocked designs absorb blocks and solve small variety systems
+ * (block-absorption.ts); the completely randomised design, and `qrSequentialSs` for checks,
+ * use the general QR fit.
+ */
 function leastSquaresSs(design: Design, L: PlotLayout): RawSs {
+  if (design === 'crd') return qrSequentialSs(design, L);
+  const a = absorbedBlockSs(L.y, L.block!, L.blocks!, L.entry, L.entries, L.site, L.sites);
+  const terms: RawSs['terms'] = [];
+  if (a.site) terms.push({ source: 'site', ...a.site });
+  terms.push({ source: 'block', ...a.block }, { source: 'variety', ...a.variety });
+  if (a.siteVariety) terms.push({ source: 'site:variety', ...a.siteVariety });
+  return { terms, residualDf: a.residualDf, residualSs: a.residualSs, totalSs: a.totalSs };
+}
+
+/** General layout: sequential least squares by Householder QR over every plot. */
+export function qrSequentialSs(design: Design, L: PlotLayout): RawSs {
   const terms: (ModelTerm & { name: AnovaSource })[] = [];
   const n = L.y.length;
   if (design === 'multisite') {
