@@ -258,6 +258,32 @@ export interface TrialMemberSitesTable {
   created_by: string | null;
 }
 
+export interface InvitationsTable {
+  id: Generated<string>;
+  trial_id: string;
+  email: string;
+  role: TrialRole;
+  token_hash: string;
+  invited_by: string | null;
+  expires_at: Timestamp;
+  accepted_at: Timestamp | null;
+  accepted_by: string | null;
+  revoked_at: Timestamp | null;
+  revoked_by: string | null;
+  last_sent_at: Timestamp | null;
+  send_attempts: Generated<number>;
+  mail_status: Generated<'pending' | 'sent' | 'failed'>;
+  last_send_error: string | null;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+}
+
+export interface InvitationSitesTable {
+  invitation_id: string;
+  trial_id: string;
+  site_id: string;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -275,6 +301,8 @@ export interface Database {
   photos: PhotosTable;
   trial_members: TrialMembersTable;
   trial_member_sites: TrialMemberSitesTable;
+  invitations: InvitationsTable;
+  invitation_sites: InvitationSitesTable;
   audit_log: AuditLogTable;
 }
 
@@ -520,6 +548,26 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     created_at: true,
     created_by: true,
   },
+  invitations: {
+    id: true,
+    trial_id: true,
+    email: true,
+    role: true,
+    token_hash: true,
+    invited_by: true,
+    expires_at: true,
+    accepted_at: true,
+    accepted_by: true,
+    revoked_at: true,
+    revoked_by: true,
+    last_sent_at: true,
+    send_attempts: true,
+    mail_status: true,
+    last_send_error: true,
+    created_at: true,
+    updated_at: true,
+  },
+  invitation_sites: { invitation_id: true, trial_id: true, site_id: true },
   audit_log: {
     id: true,
     trial_id: true,

@@ -9,7 +9,7 @@ import type { DB } from '../db/database';
 import type { Env } from './env';
 import { projectRoot } from './env';
 import { resolveActor } from './auth/actor';
-import type { Auth } from './auth/auth';
+import { type Auth, CLIENT_IP_HEADER } from './auth/auth';
 import { healthRouter } from './health/health-router';
 import type { CaptureServer } from './mail/capture-server';
 import { mailboxRouter } from './mail/mailbox-router';
@@ -53,8 +53,20 @@ export function createApp(deps: AppDeps) {
     }),
   );
   app.use(
-    pinoHttp({ logger: deps.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }),
+    pinoHttp({
+      logger: deps.logger,
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      serializers: {
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+    }),
   );
+  // Rate limits key on the caller's address: the socket's, or the one a loopback proxy forwards.
+  app.use((req, _res, next) => {
+    req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
+    next();
+  });
 
   // The sign-in library reads its own request bodies: mount it before the JSON parser.
   app.all('/api/auth/*splat', toNodeHandler(deps.auth));

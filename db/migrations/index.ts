@@ -5,12 +5,14 @@
 import type { Migration } from 'kysely/migration';
 import * as accounts from './2026-12-01T0001-accounts';
 import * as trials from './2026-12-01T0002-trials';
+import * as invitations from './2026-12-01T0100-invitations';
 import * as trialDesign from './2026-12-01T0200-trial-design';
 import * as records from './2026-12-01T0250-records';
 
 export const migrations: Record<string, Migration> = {
   '2026-12-01T0001-accounts': accounts,
   '2026-12-01T0002-trials': trials,
+  '2026-12-01T0100-invitations': invitations,
   '2026-12-01T0200-trial-design': trialDesign,
   '2026-12-01T0250-records': records,
 };

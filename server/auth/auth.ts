@@ -5,6 +5,9 @@ import type { Env } from '../env';
 import { composeMail, type Mailer } from '../mail/mailer';
 import { authRateLimitTable, authSchemaOptions } from './auth-schema';
 
+/** The header the app sets from the connection (or a trusted loopback proxy) for rate limits. */
+export const CLIENT_IP_HEADER = 'x-rowtally-client-ip';
+
 export interface AuthDeps {
   pool: pg.Pool;
   env: Env;
@@ -90,6 +93,8 @@ export function createAuth(deps: AuthDeps) {
       cookiePrefix: 'rowtally',
       useSecureCookies: secure,
       defaultCookieAttributes: { sameSite: 'lax', httpOnly: true, secure },
+      // Set by our own middleware from Express's req.ip (server/app.ts), never by the client.
+      ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
     },
     logger: {
       level: env.NODE_ENV === 'test' ? 'error' : 'warn',
