@@ -284,6 +284,18 @@ export interface InvitationSitesTable {
   site_id: string;
 }
 
+export interface DailyWeatherTable extends Written {
+  id: Generated<string>;
+  trial_id: string;
+  site_id: string;
+  observed_on: DateText;
+  tmin_c: number | null;
+  tmax_c: number | null;
+  rain_mm: number | null;
+  source: Generated<'manual' | 'import' | 'demo'>;
+  note: Generated<string>;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -304,6 +316,7 @@ export interface Database {
   invitations: InvitationsTable;
   invitation_sites: InvitationSitesTable;
   audit_log: AuditLogTable;
+  daily_weather: DailyWeatherTable;
 }
 
 export type Trial = Selectable<TrialsTable>;
@@ -578,5 +591,20 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     after: true,
     actor_id: true,
     at: true,
+  },
+  daily_weather: {
+    id: true,
+    trial_id: true,
+    site_id: true,
+    observed_on: true,
+    tmin_c: true,
+    tmax_c: true,
+    rain_mm: true,
+    source: true,
+    note: true,
+    created_at: true,
+    updated_at: true,
+    created_by: true,
+    updated_by: true,
   },
 };

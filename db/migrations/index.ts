@@ -8,6 +8,7 @@ import * as trials from './2026-12-01T0002-trials';
 import * as invitations from './2026-12-01T0100-invitations';
 import * as trialDesign from './2026-12-01T0200-trial-design';
 import * as records from './2026-12-01T0250-records';
+import * as dailyWeather from './2026-12-01T0300-daily-weather';
 
 export const migrations: Record<string, Migration> = {
   '2026-12-01T0001-accounts': accounts,
@@ -15,4 +16,5 @@ export const migrations: Record<string, Migration> = {
   '2026-12-01T0100-invitations': invitations,
   '2026-12-01T0200-trial-design': trialDesign,
   '2026-12-01T0250-records': records,
+  '2026-12-01T0300-daily-weather': dailyWeather,
 };
