@@ -387,9 +387,18 @@ export function analyzePlotRows(
 }
 
 const KNOWN_COLUMNS = ['variety', 'site', 'block', 'plot'] as const;
+type LayoutColumn = (typeof KNOWN_COLUMNS)[number];
+
+export interface AnalyzeCsvOptions extends AnalyzeOptions {
+  /**
+   * Header cells to read as the layout columns (matched case-insensitively); a role left out
+   * is looked for under its own name. The value column is `trait`.
+   */
+  columns?: Partial<Record<LayoutColumn, string>>;
+}
 
 /** Analyse CSV text with a header row (see the analyze command for the column rules). */
-export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): AnalysisResult {
+export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): AnalysisResult {
   let records: string[][];
   try {
     records = parse(csvText, {
@@ -410,28 +419,40 @@ export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): Analy
       throw new AnalysisInputError(`row 1, column "${h}": appears twice`);
     seen.add(h.toLowerCase());
   }
-  const find = (name: string) => header.findIndex((h) => h.toLowerCase() === name);
-  const col = Object.fromEntries(KNOWN_COLUMNS.map((c) => [c, find(c)])) as Record<
-    (typeof KNOWN_COLUMNS)[number],
-    number
-  >;
+  const find = (name: string) => header.findIndex((h) => h.toLowerCase() === name.toLowerCase());
+  const { columns, ...analyzeOptions } = options;
+  const col = {} as Record<LayoutColumn, number>;
+  for (const c of KNOWN_COLUMNS) {
+    const chosen = columns?.[c];
+    if (chosen !== undefined) {
+      col[c] = find(chosen.trim());
+      if (col[c] < 0)
+        throw new AnalysisInputError(`column "${chosen}": not found in the header (chosen as ${c})`);
+    } else col[c] = find(c);
+  }
   if (col.variety < 0) throw new AnalysisInputError('column "variety": not found in the header');
+  const layoutCols = new Set(Object.values(col).filter((i) => i >= 0));
+  if (layoutCols.size !== Object.values(col).filter((i) => i >= 0).length)
+    throw new AnalysisInputError('one column is chosen for two layout roles');
 
   let valueCol: number;
   if (options.trait !== undefined) {
     valueCol = header.indexOf(options.trait);
-    if (valueCol < 0) valueCol = find(options.trait.toLowerCase());
+    if (valueCol < 0) valueCol = find(options.trait);
     if (valueCol < 0)
       throw new AnalysisInputError(
         `column "${options.trait}": not found in the header (given by --trait)`,
       );
-    if ((KNOWN_COLUMNS as readonly string[]).includes(header[valueCol]!.toLowerCase())) {
+    if (layoutCols.has(valueCol)) {
       throw new AnalysisInputError(`column "${header[valueCol]}": is a layout column, not a trait`);
     }
   } else {
     const others = header
       .map((h, i) => ({ h, i }))
-      .filter(({ h }) => !(KNOWN_COLUMNS as readonly string[]).includes(h.toLowerCase()));
+      .filter(
+        ({ h, i }) =>
+          !layoutCols.has(i) && !(KNOWN_COLUMNS as readonly string[]).includes(h.toLowerCase()),
+      );
     if (others.length === 0)
       throw new AnalysisInputError('no value column: the header has only variety/site/block/plot');
     if (others.length > 1) {
@@ -460,5 +481,5 @@ export function analyzeCsv(csvText: string, options: AnalyzeOptions = {}): Analy
   }
   // Presence of the column (not of values) decides whether it is part of the layout.
   if (col.block >= 0) for (const r of rows) r.block ??= '';
-  return analyzePlotRows(rows, { ...options, trait });
+  return analyzePlotRows(rows, { ...analyzeOptions, trait });
 }

@@ -1,0 +1,247 @@
+/**
+ * Replicate statistics: a trial's analysis per trait, the ranking across traits, and the
+ * spreadsheet analysis. The result shape is the analyze command's JSON (the engine's
+ * AnalysisResult), so the API, the command and the screens read the same numbers.
+ */
+import { z } from 'zod';
+
+export const analysisBases = ['plot', 'plant', 'm', 'm2', 'ha', 'acre'] as const;
+export type AnalysisBasis = (typeof analysisBases)[number];
+
+export const basisLabels: Record<AnalysisBasis, string> = {
+  plot: 'per plot',
+  plant: 'per plant',
+  m: 'per metre of row',
+  m2: 'per square metre',
+  ha: 'per hectare (estimate)',
+  acre: 'per acre (estimate)',
+};
+
+/** Traits the API derives from harvest records, beside the trial's own traits. */
+export const derivedTraits = {
+  days_to_first_harvest: {
+    label: 'Days to first harvest',
+    quantityKind: 'count',
+    direction: 'lower',
+  },
+  mean_fruit_mass: { label: 'Mean marketable fruit mass', quantityKind: 'mass', direction: 'none' },
+} as const;
+export type DerivedTraitKey = keyof typeof derivedTraits;
+
+export const designs = ['crd', 'rcbd', 'multisite'] as const;
+export const letterMethods = ['hsd', 'lsd'] as const;
+
+const alpha = z.coerce
+  .number({ error: 'Enter a significance level such as 0.05.' })
+  .gt(0, 'The significance level must be above 0.')
+  .lt(1, 'The significance level must be below 1.')
+  .default(0.05);
+
+export const traitKey = z
+  .string()
+  .regex(/^[a-z][a-z0-9_]{0,39}$/, 'Not a trait key (lowercase letters, digits, _).');
+
+export const trialAnalysisQuery = z.object({
+  trait: traitKey,
+  basis: z.enum(analysisBases).default('plot'),
+  alpha,
+  letters: z.enum(letterMethods).default('hsd'),
+});
+export type TrialAnalysisQuery = z.input<typeof trialAnalysisQuery>;
+
+const nullableNumber = z.number().nullable();
+
+export const anovaLineSchema = z.object({
+  source: z.enum(['site', 'block', 'variety', 'site:variety', 'residual', 'total']),
+  df: z.number(),
+  ss: z.number(),
+  ms: nullableNumber,
+  f: nullableNumber,
+  p: nullableNumber,
+  testedAgainst: z.enum(['site', 'block', 'variety', 'site:variety', 'residual']).nullable(),
+});
+export type AnovaLine = z.infer<typeof anovaLineSchema>;
+
+export const entryMeanSchema = z.object({
+  variety: z.string(),
+  n: z.number(),
+  mean: z.number(),
+  sd: nullableNumber,
+  se: nullableNumber,
+  cvPercent: nullableNumber,
+  min: z.number(),
+  max: z.number(),
+  rank: z.number(),
+  group: z.string(),
+  groupLsd: z.string(),
+  groupHsd: z.string(),
+});
+export type EntryMean = z.infer<typeof entryMeanSchema>;
+
+/** The analyze command's JSON. */
+export const analysisResultSchema = z.object({
+  design: z.enum(designs),
+  trait: z.string(),
+  alpha: z.number(),
+  n: z.number(),
+  grandMean: z.number(),
+  cvPercent: nullableNumber,
+  anova: z.array(anovaLineSchema),
+  means: z.array(entryMeanSchema),
+  lsd: z.object({ value: nullableNumber, df: z.number(), t: z.number(), protected: z.boolean() }),
+  hsd: z.object({ value: nullableNumber, q: z.number(), df: z.number() }),
+  letters: z.enum(letterMethods),
+  errorTerm: z.object({
+    source: z.enum(['residual', 'site:variety']),
+    df: z.number(),
+    ms: z.number(),
+  }),
+  method: z.enum(['means', 'least-squares']),
+  counts: z.object({
+    entries: z.number(),
+    sites: z.number(),
+    blocks: z.number(),
+    rows: z.number(),
+    missingPlots: z.number(),
+  }),
+  pairs: z
+    .array(
+      z.object({
+        a: z.string(),
+        b: z.string(),
+        difference: z.number(),
+        se: z.number(),
+        lsdSeparated: z.boolean(),
+        hsdSeparated: z.boolean(),
+      }),
+    )
+    .optional(),
+  warnings: z.array(z.string()),
+});
+export type AnalysisResult = z.infer<typeof analysisResultSchema>;
+
+export const plotValueSchema = z.object({
+  plotId: z.uuid(),
+  plotNumber: z.number().int(),
+  site: z.string(),
+  block: z.number().int(),
+  entry: z.string(),
+  entryCode: z.string(),
+  value: z.number(),
+});
+export type PlotValue = z.infer<typeof plotValueSchema>;
+
+export const trialAnalysisSchema = analysisResultSchema.extend({
+  traitKey: z.string(),
+  traitLabel: z.string(),
+  quantityKind: z.string(),
+  direction: z.enum(['higher', 'lower', 'none']),
+  basis: z.enum(analysisBases),
+  /** SI unit of every value, mean, SE, LSD and HSD (SS and MS are in its square). */
+  unit: z.string(),
+  /** How the plot value was built, in words. */
+  valueNote: z.string(),
+  plotValues: z.array(plotValueSchema),
+  /** Entry name → code, for compact tables. */
+  entryCodes: z.record(z.string(), z.string()),
+});
+export type TrialAnalysis = z.infer<typeof trialAnalysisSchema>;
+
+/** `traits=a,b&weights=2,1` — weights default to 1; directions come from each trait. */
+export const rankingQuery = z
+  .object({
+    traits: z
+      .string()
+      .optional()
+      .transform((s) => (s ? s.split(',').map((t) => t.trim()) : undefined))
+      .pipe(z.array(traitKey).min(1, 'Choose at least one trait.').max(20).optional()),
+    weights: z
+      .string()
+      .optional()
+      .transform((s) => (s ? s.split(',').map((w) => Number(w.trim())) : undefined))
+      .pipe(
+        z
+          .array(
+            z
+              .number({ error: 'Each weight must be a number.' })
+              .min(0, 'Weights must be zero or more.')
+              .max(100, 'Weights must be at most 100.'),
+          )
+          .optional(),
+      ),
+    alpha,
+  })
+  .superRefine((q, ctx) => {
+    if (q.weights && !q.traits)
+      ctx.addIssue({ code: 'custom', path: ['weights'], message: 'Name the traits too.' });
+    if (q.weights && q.traits && q.weights.length !== q.traits.length)
+      ctx.addIssue({
+        code: 'custom',
+        path: ['weights'],
+        message: `Give one weight per trait (${q.traits.length}).`,
+      });
+  });
+export type RankingQuery = z.input<typeof rankingQuery>;
+
+export const rankingSchema = z.object({
+  traits: z.array(
+    z.object({
+      key: z.string(),
+      label: z.string(),
+      direction: z.enum(['higher', 'lower', 'none']),
+      weight: z.number(),
+      unit: z.string(),
+      /** Mean and SD of the entry means (the standardisation). */
+      mean: z.number(),
+      sd: z.number(),
+      varietyP: nullableNumber,
+    }),
+  ),
+  entries: z.array(
+    z.object({
+      entry: z.string(),
+      entryCode: z.string(),
+      index: z.number(),
+      indexRank: z.number(),
+      rankSum: z.number(),
+      rankSumRank: z.number(),
+      contributions: z.array(
+        z.object({
+          trait: z.string(),
+          mean: z.number(),
+          z: z.number(),
+          contribution: z.number(),
+          rank: z.number().nullable(),
+        }),
+      ),
+    }),
+  ),
+  method: z.string(),
+  warnings: z.array(z.string()),
+});
+export type Ranking = z.infer<typeof rankingSchema>;
+
+/** Largest spreadsheet the analyze endpoint accepts. */
+export const ANALYZE_MAX_BYTES = 2 * 1024 * 1024;
+
+const columnName = z.string().trim().min(1).max(200);
+
+/**
+ * Options for POST /api/analyze (query string with a text/csv body, or beside `csv` in a JSON
+ * body). Columns name the header cells to use; left out, the usual names are looked for.
+ */
+export const analyzeOptions = z.object({
+  alpha,
+  design: z.enum(designs).optional(),
+  letters: z.enum(letterMethods).default('hsd'),
+  variety: columnName.optional(),
+  site: columnName.optional(),
+  block: columnName.optional(),
+  plot: columnName.optional(),
+  value: columnName.optional(),
+});
+export type AnalyzeOptionsInput = z.input<typeof analyzeOptions>;
+
+export const analyzeJsonBody = analyzeOptions.extend({
+  csv: z.string().min(1, 'Paste or upload a spreadsheet.'),
+});
