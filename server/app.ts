@@ -16,6 +16,7 @@ import { mailboxRouter } from './mail/mailbox-router';
 import { meRouter } from './me/me-router';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { trialsRouter } from './trials/trials-router';
+import { designRouter } from './design/design-router';
 
 export interface AppDeps {
   db: DB;
@@ -38,6 +39,7 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
   return [
     ['/api/me', meRouter(deps)],
     ['/api/trials', trialsRouter(deps)],
+    ['/api/trials', designRouter(deps)],
   ];
 }
 

@@ -1,0 +1,327 @@
+/** The lead's design of a trial: settings, entries, sites, traits, layout, what was planted. */
+import { z } from 'zod';
+import { entryTypes, quantityKinds, traitBases, traitDirections, trialDesigns } from './trials';
+
+export const soilTextures = [
+  'sand',
+  'loamy sand',
+  'sandy loam',
+  'loam',
+  'silt loam',
+  'silt',
+  'sandy clay loam',
+  'clay loam',
+  'silty clay loam',
+  'sandy clay',
+  'silty clay',
+  'clay',
+] as const;
+export const irrigationMethods = ['drip', 'overhead', 'furrow', 'hand', 'none'] as const;
+export const fertilizerPolicies = ['none_applied', 'per_entry', 'as_recorded'] as const;
+export const editableStatuses = ['draft', 'active', 'closed'] as const;
+
+export const fertilizerPolicyLabels: Record<(typeof fertilizerPolicies)[number], string> = {
+  none_applied: 'No fertilizer anywhere in the trial',
+  per_entry: 'No fertilizer for the entries marked below; the rest as recorded',
+  as_recorded: 'Fertilizer as recorded in the field log',
+};
+
+/** Largest seed the generator takes (it works on 32-bit integers). */
+export const MAX_LAYOUT_SEED = 2_147_483_647;
+
+const text = (max: number, what = 'text') =>
+  z.string().trim().max(max, `Use at most ${max} characters for the ${what}.`);
+const required = (max: number, what: string) =>
+  z
+    .string()
+    .trim()
+    .min(1, `Enter the ${what}.`)
+    .max(max, `Use at most ${max} characters for the ${what}.`);
+const isoDate = z.iso.date('Use a date like 2026-05-01.');
+const lengthMm = (what: string, max = 10_000) =>
+  z
+    .number(`Enter the ${what} as a number.`)
+    .positive(`The ${what} must be more than zero.`)
+    .max(max, `The ${what} is longer than this form accepts.`);
+
+export const entryIdParams = z.object({
+  slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.'),
+  entryId: z.uuid('Not an entry id.'),
+});
+export const siteIdParams = z.object({
+  slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.'),
+  siteId: z.uuid('Not a site id.'),
+});
+export const traitIdParams = z.object({
+  slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.'),
+  traitId: z.uuid('Not a trait id.'),
+});
+
+/* POST /api/trials */
+export const createTrialBody = z
+  .object({
+    title: required(200, 'title'),
+    crop: required(80, 'crop'),
+    season: required(40, 'season'),
+    design: z.enum(trialDesigns, 'Choose a design.'),
+    description: text(5000, 'description').default(''),
+    sowingDate: isoDate.nullable().default(null),
+    transplantDate: isoDate.nullable().default(null),
+    /** Instance administrators only: the account that will lead the trial. */
+    leadEmail: z.email('Enter the lead’s e-mail address.').optional(),
+  })
+  .refine((b) => !b.sowingDate || !b.transplantDate || b.transplantDate >= b.sowingDate, {
+    path: ['transplantDate'],
+    message: 'Transplanting comes after sowing.',
+  });
+export type CreateTrialBody = z.input<typeof createTrialBody>;
+export const createTrialResponse = z.object({ id: z.uuid(), slug: z.string() });
+
+/* PATCH /api/trials/:slug */
+export const updateTrialBody = z
+  .object({
+    title: required(200, 'title'),
+    crop: required(80, 'crop'),
+    season: required(40, 'season'),
+    design: z.enum(trialDesigns, 'Choose a design.'),
+    status: z.enum(editableStatuses, 'Choose draft, active or closed.'),
+    description: text(5000, 'description'),
+    sowingDate: isoDate.nullable(),
+    transplantDate: isoDate.nullable(),
+    fertilizerPolicy: z.enum(fertilizerPolicies, 'Choose a fertilizer policy.'),
+    fertilizerNotes: text(2000, 'fertilizer notes'),
+  })
+  .partial()
+  .refine((b) => Object.keys(b).length > 0, 'Change at least one setting.');
+export type UpdateTrialBody = z.input<typeof updateTrialBody>;
+
+/* Entries */
+export const entryBody = z.object({
+  name: required(120, 'variety name'),
+  code: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9]{1,6}$/, 'Use 1 to 6 letters or digits for the code.'),
+  seedSource: text(200, 'seed source').default(''),
+  seedLot: text(80, 'seed lot').default(''),
+  entryType: z.enum(entryTypes, 'Choose the type.'),
+  daysToMaturityClaimed: z
+    .number()
+    .int('Use whole days.')
+    .min(1, 'Use 1 to 400 days.')
+    .max(400, 'Use 1 to 400 days.')
+    .nullable()
+    .default(null),
+  inRowSpacingMm: lengthMm('in-row spacing').nullable().default(null),
+  noFertilizer: z.boolean().default(false),
+  notes: text(5000, 'notes').default(''),
+});
+export type EntryBody = z.input<typeof entryBody>;
+export const entryUpdateBody = z
+  .object(entryBody.shape)
+  .partial()
+  .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
+
+/* Sites: a town or region only, never exact coordinates (sites show on public pages). */
+const coordinates = /-?\d{1,3}\.\d{3,}\s*[,;\s]\s*-?\d{1,3}\.\d{3,}|\d+\s*°/;
+export const siteBody = z.object({
+  name: required(120, 'site name'),
+  region: text(120, 'town or region')
+    .refine((v) => !coordinates.test(v), 'Give a town or region, not map coordinates.')
+    .default(''),
+  soilTexture: z.enum(soilTextures, 'Choose a soil textural class.').nullable().default(null),
+  irrigationMethod: z
+    .enum(irrigationMethods, 'Choose an irrigation method.')
+    .nullable()
+    .default(null),
+  notes: text(5000, 'notes')
+    .refine((v) => !coordinates.test(v), 'Leave map coordinates out of the notes.')
+    .default(''),
+});
+export type SiteBody = z.input<typeof siteBody>;
+export const siteUpdateBody = z
+  .object(siteBody.shape)
+  .partial()
+  .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
+
+/* Traits */
+const traitFields = {
+  key: z
+    .string()
+    .trim()
+    .regex(
+      /^[a-z][a-z0-9_]{0,39}$/,
+      'Use a short key of lower-case letters, digits and _ , starting with a letter.',
+    ),
+  label: required(120, 'trait name'),
+  quantityKind: z.enum(quantityKinds, 'Choose what is measured.'),
+  basis: z.enum(traitBases, 'Choose per plant, per plot or per harvest.'),
+  direction: z.enum(traitDirections, 'Choose which direction is better.'),
+  scaleMin: z.number().finite().nullable().default(null),
+  scaleMax: z.number().finite().nullable().default(null),
+  sortOrder: z.number().int().min(0).max(999).optional(),
+};
+function scaleRule(b: {
+  quantityKind?: string;
+  scaleMin?: number | null;
+  scaleMax?: number | null;
+}) {
+  if (b.quantityKind === undefined) return true;
+  if (b.quantityKind === 'score')
+    return b.scaleMin != null && b.scaleMax != null && b.scaleMin < b.scaleMax;
+  return b.scaleMin == null && b.scaleMax == null;
+}
+const scaleMessage = {
+  path: ['scaleMax'],
+  message: 'A score needs a scale from a lower to a higher number; other kinds have none.',
+};
+export const traitBody = z.object(traitFields).refine(scaleRule, scaleMessage);
+export type TraitBody = z.input<typeof traitBody>;
+export const traitUpdateBody = z
+  .object(traitFields)
+  .partial()
+  .refine(scaleRule, scaleMessage)
+  .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
+
+/* POST /api/trials/:slug/layout */
+export const layoutBody = z.object({
+  replicates: z
+    .number('Enter the number of replicates.')
+    .int('Use a whole number of replicates.')
+    .min(1, 'Use 1 to 99 replicates.')
+    .max(99, 'Use 1 to 99 replicates.'),
+  /** Omit for a fresh random seed; give one to reproduce a layout. */
+  seed: z
+    .number()
+    .int('The seed is a whole number.')
+    .min(0, `Use a seed from 0 to ${MAX_LAYOUT_SEED}.`)
+    .max(MAX_LAYOUT_SEED, `Use a seed from 0 to ${MAX_LAYOUT_SEED}.`)
+    .optional(),
+  rowsPerPlot: z.number().int().min(1, 'Use 1 to 12 rows.').max(12, 'Use 1 to 12 rows.').default(1),
+  rowLengthMm: lengthMm('row length', 1_000_000),
+  rowSpacingMm: lengthMm('between-row spacing'),
+  /** For entries without a spacing of their own. */
+  inRowSpacingMm: lengthMm('in-row spacing').nullable().default(null),
+});
+export type LayoutBody = z.input<typeof layoutBody>;
+
+/* PUT /api/trials/:slug/layout/planting */
+const count = (what: string) =>
+  z
+    .number(`Enter the ${what} as a number.`)
+    .int(`Count whole plants for the ${what}.`)
+    .min(0, `The ${what} cannot be negative.`)
+    .max(100_000, `The ${what} is more than this form accepts.`)
+    .nullable();
+export const plantingRow = z
+  .object({
+    plotId: z.uuid('Not a plot id.'),
+    plantsSet: count('plants set'),
+    plantsSurviving: count('survivors'),
+    gaps: count('gaps'),
+    note: text(2000, 'note').default(''),
+  })
+  .refine(
+    (r) => r.plantsSurviving == null || r.plantsSet == null || r.plantsSurviving <= r.plantsSet,
+    {
+      path: ['plantsSurviving'],
+      message: 'Survivors cannot outnumber the plants set.',
+    },
+  )
+  .refine((r) => r.gaps == null || r.plantsSet == null || r.gaps <= r.plantsSet, {
+    path: ['gaps'],
+    message: 'Gaps cannot outnumber the plants set.',
+  });
+export const plantingBody = z.object({
+  plots: z.array(plantingRow).min(1, 'Send at least one plot.').max(5000),
+});
+export type PlantingBody = z.input<typeof plantingBody>;
+export const plantingResponse = z.object({ updated: z.number().int() });
+
+/* GET /api/trials/:slug/design */
+export const designEntrySchema = z.object({
+  id: z.uuid(),
+  name: z.string(),
+  code: z.string(),
+  seedSource: z.string(),
+  seedLot: z.string(),
+  entryType: z.enum(entryTypes),
+  daysToMaturityClaimed: z.number().int().nullable(),
+  inRowSpacingMm: z.number().nullable(),
+  noFertilizer: z.boolean(),
+  notes: z.string(),
+});
+export type DesignEntry = z.infer<typeof designEntrySchema>;
+export const designSiteSchema = z.object({
+  id: z.uuid(),
+  name: z.string(),
+  region: z.string(),
+  soilTexture: z.enum(soilTextures).nullable(),
+  irrigationMethod: z.enum(irrigationMethods).nullable(),
+  notes: z.string(),
+});
+export type DesignSite = z.infer<typeof designSiteSchema>;
+export const designTraitSchema = z.object({
+  id: z.uuid(),
+  key: z.string(),
+  label: z.string(),
+  quantityKind: z.enum(quantityKinds),
+  basis: z.enum(traitBases),
+  direction: z.enum(traitDirections),
+  scaleMin: z.number().nullable(),
+  scaleMax: z.number().nullable(),
+  sortOrder: z.number().int(),
+  observationCount: z.number().int(),
+});
+export type DesignTrait = z.infer<typeof designTraitSchema>;
+export const designPlotSchema = z.object({
+  id: z.uuid(),
+  siteId: z.uuid(),
+  entryId: z.uuid(),
+  block: z.number().int(),
+  position: z.number().int(),
+  plotNumber: z.number().int(),
+  inRowSpacingMm: z.number().nullable(),
+  rowLengthMm: z.number().nullable(),
+  rowSpacingMm: z.number().nullable(),
+  /** From row length and spacing (common/planting.ts); null when either is missing. */
+  plannedPlants: z.number().int().nullable(),
+  plantsSet: z.number().int().nullable(),
+  plantsSurviving: z.number().int().nullable(),
+  gaps: z.number().int().nullable(),
+  plantedNote: z.string(),
+});
+export type DesignPlot = z.infer<typeof designPlotSchema>;
+
+export const designSchema = z.object({
+  id: z.uuid(),
+  slug: z.string(),
+  title: z.string(),
+  crop: z.string(),
+  season: z.string(),
+  design: z.enum(trialDesigns),
+  status: z.enum(['draft', 'active', 'closed', 'published']),
+  description: z.string(),
+  sowingDate: z.string().nullable(),
+  transplantDate: z.string().nullable(),
+  fertilizerPolicy: z.enum(fertilizerPolicies),
+  fertilizerNotes: z.string(),
+  canEdit: z.boolean(),
+  layout: z.object({
+    seed: z.number().int().nullable(),
+    replicates: z.number().int().nullable(),
+    rowsPerPlot: z.number().int(),
+    rowLengthMm: z.number().nullable(),
+    rowSpacingMm: z.number().nullable(),
+    inRowSpacingMm: z.number().nullable(),
+    generatedAt: z.string().nullable(),
+    /** Once any record refers to a plot, the layout cannot change. */
+    locked: z.boolean(),
+    lockedReason: z.string().nullable(),
+  }),
+  entries: z.array(designEntrySchema),
+  sites: z.array(designSiteSchema),
+  traits: z.array(designTraitSchema),
+  plots: z.array(designPlotSchema),
+});
+export type Design = z.infer<typeof designSchema>;

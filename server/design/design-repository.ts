@@ -1,0 +1,239 @@
+import { sql, type Transaction } from 'kysely';
+import type { DB } from '../../db/database';
+import type {
+  Database,
+  EntriesTable,
+  NewTrial,
+  PlotsTable,
+  SitesTable,
+  TraitsTable,
+  TrialUpdate,
+} from '../../db/schema';
+import type { Insertable, Updateable } from 'kysely';
+
+export type Conn = DB | Transaction<Database>;
+
+export function findUserByEmail(db: Conn, email: string) {
+  return db
+    .selectFrom('users')
+    .select(['id', 'email'])
+    .where(sql`lower(email)`, '=', email.toLowerCase())
+    .executeTakeFirst();
+}
+
+/** Slugs already taken that start with `base` (to pick the next free one). */
+export async function slugsLike(db: Conn, base: string): Promise<Set<string>> {
+  const rows = await db
+    .selectFrom('trials')
+    .select('slug')
+    .where((eb) => eb.or([eb('slug', '=', base), eb('slug', 'like', `${base}-%`)]))
+    .execute();
+  return new Set(rows.map((r) => r.slug));
+}
+
+export function insertTrial(db: Conn, values: NewTrial) {
+  return db.insertInto('trials').values(values).returning(['id', 'slug']).executeTakeFirstOrThrow();
+}
+
+export function insertLead(db: Conn, trialId: string, userId: string, by: string) {
+  return db
+    .insertInto('trial_members')
+    .values({ trial_id: trialId, user_id: userId, role: 'lead', created_by: by, updated_by: by })
+    .execute();
+}
+
+/** Locks the trial row so layout changes and their checks happen one at a time. */
+export function lockTrial(db: Conn, trialId: string) {
+  return db
+    .selectFrom('trials')
+    .selectAll()
+    .where('id', '=', trialId)
+    .forUpdate()
+    .executeTakeFirstOrThrow();
+}
+
+/**
+ * Records that hang on the plots: harvests and measurements (deleted ones too — they are
+ * still history), plot-level field events and plot photos. Any of them locks the layout.
+ */
+export function plotDependents(db: Conn, trialId: string) {
+  return db
+    .selectNoFrom([
+      sql<number>`(select count(*)::int from harvests where trial_id = ${trialId})`.as('harvests'),
+      sql<number>`(select count(*)::int from observations where trial_id = ${trialId})`.as(
+        'observations',
+      ),
+      sql<number>`(select count(*)::int from field_events where trial_id = ${trialId} and plot_id is not null)`.as(
+        'plotEvents',
+      ),
+      sql<number>`(select count(*)::int from photos where trial_id = ${trialId} and plot_id is not null)`.as(
+        'plotPhotos',
+      ),
+    ])
+    .executeTakeFirstOrThrow();
+}
+
+export function countPlots(db: Conn, trialId: string) {
+  return db
+    .selectFrom('plots')
+    .select(sql<number>`count(*)::int`.as('n'))
+    .where('trial_id', '=', trialId)
+    .executeTakeFirstOrThrow()
+    .then((r) => r.n);
+}
+
+export function listEntries(db: Conn, trialId: string) {
+  return db
+    .selectFrom('entries')
+    .selectAll()
+    .where('trial_id', '=', trialId)
+    .orderBy('code')
+    .execute();
+}
+
+export function listSites(db: Conn, trialId: string) {
+  return db
+    .selectFrom('sites')
+    .selectAll()
+    .where('trial_id', '=', trialId)
+    .orderBy('name')
+    .execute();
+}
+
+export function listTraits(db: Conn, trialId: string) {
+  return db
+    .selectFrom('traits as t')
+    .selectAll('t')
+    .select(
+      sql<number>`(select count(*)::int from observations o where o.trait_id = t.id)`.as(
+        'observation_count',
+      ),
+    )
+    .where('t.trial_id', '=', trialId)
+    .orderBy('t.sort_order')
+    .orderBy('t.label')
+    .execute();
+}
+
+export function listPlots(db: Conn, trialId: string) {
+  return db
+    .selectFrom('plots as p')
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .selectAll('p')
+    .where('p.trial_id', '=', trialId)
+    .orderBy('s.name')
+    .orderBy('p.block')
+    .orderBy('p.position')
+    .execute();
+}
+
+export function updateTrial(db: Conn, trialId: string, values: TrialUpdate) {
+  return db.updateTable('trials').set(values).where('id', '=', trialId).execute();
+}
+
+type Part = 'entries' | 'sites' | 'traits';
+type PartInsert = {
+  entries: Insertable<EntriesTable>;
+  sites: Insertable<SitesTable>;
+  traits: Insertable<TraitsTable>;
+};
+type PartUpdate = {
+  entries: Updateable<EntriesTable>;
+  sites: Updateable<SitesTable>;
+  traits: Updateable<TraitsTable>;
+};
+
+export function insertPart<P extends Part>(db: Conn, table: P, values: PartInsert[P]) {
+  return (db as Conn)
+    .insertInto(table as 'entries')
+    .values(values as Insertable<EntriesTable>)
+    .returning('id')
+    .executeTakeFirstOrThrow();
+}
+
+/** Updates one row of the trial's own; undefined when it is not in this trial. */
+export function updatePart<P extends Part>(
+  db: Conn,
+  table: P,
+  trialId: string,
+  id: string,
+  values: PartUpdate[P],
+) {
+  return db
+    .updateTable(table as 'entries')
+    .set(values as Updateable<EntriesTable>)
+    .where('id', '=', id)
+    .where('trial_id', '=', trialId)
+    .returning('id')
+    .executeTakeFirst();
+}
+
+export function deletePart(db: Conn, table: Part, trialId: string, id: string) {
+  return db
+    .deleteFrom(table)
+    .where('id', '=', id)
+    .where('trial_id', '=', trialId)
+    .returning('id')
+    .executeTakeFirst();
+}
+
+export function findPart(db: Conn, table: Part, trialId: string, id: string) {
+  return db
+    .selectFrom(table)
+    .select('id')
+    .where('id', '=', id)
+    .where('trial_id', '=', trialId)
+    .executeTakeFirst();
+}
+
+export function countTraitObservations(db: Conn, traitId: string) {
+  return db
+    .selectFrom('observations')
+    .select(sql<number>`count(*)::int`.as('n'))
+    .where('trait_id', '=', traitId)
+    .executeTakeFirstOrThrow()
+    .then((r) => r.n);
+}
+
+export function maxTraitOrder(db: Conn, trialId: string) {
+  return db
+    .selectFrom('traits')
+    .select(sql<number>`coalesce(max(sort_order), -1)::int`.as('n'))
+    .where('trial_id', '=', trialId)
+    .executeTakeFirstOrThrow()
+    .then((r) => r.n);
+}
+
+export function deletePlots(db: Conn, trialId: string) {
+  return db.deleteFrom('plots').where('trial_id', '=', trialId).execute();
+}
+
+export function insertPlots(db: Conn, rows: Insertable<PlotsTable>[]) {
+  if (rows.length === 0) return Promise.resolve([]);
+  return db.insertInto('plots').values(rows).execute();
+}
+
+/** Keeps an entry's plots at its spacing while the layout can still change. */
+export function setEntryPlotSpacing(db: Conn, trialId: string, entryId: string, mm: number) {
+  return db
+    .updateTable('plots')
+    .set({ in_row_spacing_mm: mm })
+    .where('trial_id', '=', trialId)
+    .where('entry_id', '=', entryId)
+    .execute();
+}
+
+export function updatePlanting(
+  db: Conn,
+  trialId: string,
+  plotId: string,
+  values: Updateable<PlotsTable>,
+) {
+  return db
+    .updateTable('plots')
+    .set(values)
+    .where('id', '=', plotId)
+    .where('trial_id', '=', trialId)
+    .returning('id')
+    .executeTakeFirst();
+}

@@ -1,0 +1,623 @@
+import crypto from 'node:crypto';
+import { type Actor, can, canInstance } from '../../common/policy';
+import {
+  type createTrialBody,
+  type Design,
+  type entryBody,
+  type entryUpdateBody,
+  type layoutBody,
+  MAX_LAYOUT_SEED,
+  type plantingBody,
+  type siteBody,
+  type siteUpdateBody,
+  type traitBody,
+  type traitUpdateBody,
+  type updateTrialBody,
+} from '../../common/contracts/design';
+import { randomizeLayout } from '../../common/layout';
+import { plantsPerPlot } from '../../common/planting';
+import type { DB } from '../../db/database';
+import type { z } from 'zod';
+import { AppError } from '../lib/app-error';
+import { trialForAction } from '../trials/trials-service';
+import * as repo from './design-repository';
+import type { Conn } from './design-repository';
+
+type Out<T extends z.ZodType> = z.output<T>;
+
+const fieldError = (path: string, message: string) =>
+  new AppError('validation_failed', message, { fields: [{ path, message }] });
+
+/** Turns a unique-key refusal into a message about the field that clashed. */
+async function unique<T>(work: Promise<T>, byConstraint: Record<string, [string, string]>) {
+  try {
+    return await work;
+  } catch (err) {
+    const e = err as { code?: string; constraint?: string };
+    const hit = e.code === '23505' && e.constraint ? byConstraint[e.constraint] : undefined;
+    if (hit)
+      throw new AppError('conflict', hit[1], { fields: [{ path: hit[0], message: hit[1] }] });
+    throw err;
+  }
+}
+
+/* ---------- Creating and editing the trial ---------- */
+
+/** A readable address from the title: lower-case words joined by hyphens. */
+export function slugFromTitle(title: string): string {
+  const base = title
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .slice(0, 60)
+    .replace(/-+$/g, '');
+  return base || 'trial';
+}
+
+export async function createTrial(
+  db: DB,
+  actor: Actor | null,
+  body: Out<typeof createTrialBody>,
+): Promise<{ id: string; slug: string }> {
+  if (!actor || !canInstance(actor, 'trial.create'))
+    throw new AppError('unauthenticated', 'Sign in to create a trial.');
+  let leadId = actor.userId;
+  if (body.leadEmail !== undefined) {
+    if (!actor.isAdmin)
+      throw new AppError(
+        'forbidden',
+        'Only an instance administrator may create a trial for someone else.',
+      );
+    const lead = await repo.findUserByEmail(db, body.leadEmail);
+    if (!lead) throw fieldError('body.leadEmail', 'No account uses this e-mail address.');
+    leadId = lead.id;
+  }
+  const base = slugFromTitle(body.title);
+  // Two leads may pick the same title at once: the unique slug decides, and we try the next.
+  for (let attempt = 0; attempt < 5; attempt++) {
+    try {
+      return await db.transaction().execute(async (trx) => {
+        const taken = await repo.slugsLike(trx, base);
+        let slug = base;
+        for (let n = 2; taken.has(slug); n++) slug = `${base}-${n}`;
+        const trial = await repo.insertTrial(trx, {
+          slug,
+          title: body.title,
+          crop: body.crop,
+          season: body.season,
+          design: body.design,
+          description: body.description,
+          sowing_date: body.sowingDate,
+          transplant_date: body.transplantDate,
+          created_by: actor.userId,
+          updated_by: actor.userId,
+        });
+        await repo.insertLead(trx, trial.id, leadId, actor.userId);
+        return trial;
+      });
+    } catch (err) {
+      const e = err as { code?: string; constraint?: string };
+      if (e.code === '23505' && e.constraint === 'trials_slug_key') continue;
+      throw err;
+    }
+  }
+  throw new AppError(
+    'conflict',
+    'Could not find a free address for this title; try another title.',
+  );
+}
+
+export async function updateTrial(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  body: Out<typeof updateTrialBody>,
+) {
+  const { trial } = await trialForAction(db, slug, actor, 'trial.edit');
+  await db.transaction().execute(async (trx) => {
+    const current = await repo.lockTrial(trx, trial.id);
+    if (body.design !== undefined && body.design !== current.design) {
+      const plots = await repo.countPlots(trx, trial.id);
+      if (plots > 0)
+        throw new AppError(
+          'conflict',
+          `The trial already has a layout of ${plots} plots. Clear the layout before changing the design.`,
+        );
+    }
+    if (body.status !== undefined && current.status === 'published')
+      throw new AppError('conflict', 'The trial is published: unpublish its results sheet first.');
+    const sowing = body.sowingDate !== undefined ? body.sowingDate : current.sowing_date;
+    const transplant =
+      body.transplantDate !== undefined ? body.transplantDate : current.transplant_date;
+    if (sowing && transplant && transplant < sowing)
+      throw fieldError('body.transplantDate', 'Transplanting comes after sowing.');
+    await repo.updateTrial(trx, trial.id, {
+      title: body.title,
+      crop: body.crop,
+      season: body.season,
+      design: body.design,
+      status: body.status,
+      description: body.description,
+      sowing_date: body.sowingDate,
+      transplant_date: body.transplantDate,
+      fertilizer_policy: body.fertilizerPolicy,
+      fertilizer_notes: body.fertilizerNotes,
+      updated_by: actor!.userId,
+    });
+  });
+}
+
+/* ---------- Reading the design ---------- */
+
+function lockReason(d: Awaited<ReturnType<typeof repo.plotDependents>>): string | null {
+  const parts = [
+    [d.harvests, 'harvest'],
+    [d.observations, 'measurement'],
+    [d.plotEvents, 'plot field event'],
+    [d.plotPhotos, 'plot photo'],
+  ]
+    .filter(([n]) => (n as number) > 0)
+    .map(([n, what]) => `${n} ${what}${n === 1 ? '' : 's'}`);
+  if (parts.length === 0) return null;
+  return `The layout is locked: ${parts.join(', ')} already refer to its plots, so it can no longer be re-randomized or cleared.`;
+}
+
+export async function getDesign(db: DB, slug: string, actor: Actor | null): Promise<Design> {
+  const { trial, access } = await trialForAction(db, slug, actor, 'trial.read');
+  const [entries, sites, traits, plots, dependents] = await Promise.all([
+    repo.listEntries(db, trial.id),
+    repo.listSites(db, trial.id),
+    repo.listTraits(db, trial.id),
+    repo.listPlots(db, trial.id),
+    repo.plotDependents(db, trial.id),
+  ]);
+  const reason = lockReason(dependents);
+  return {
+    id: trial.id,
+    slug: trial.slug,
+    title: trial.title,
+    crop: trial.crop,
+    season: trial.season,
+    design: trial.design,
+    status: trial.status,
+    description: trial.description,
+    sowingDate: trial.sowing_date,
+    transplantDate: trial.transplant_date,
+    fertilizerPolicy: trial.fertilizer_policy,
+    fertilizerNotes: trial.fertilizer_notes,
+    canEdit: can(actor, 'trial.edit', access),
+    layout: {
+      seed: trial.layout_seed,
+      replicates: trial.replicates,
+      rowsPerPlot: trial.rows_per_plot,
+      rowLengthMm: trial.row_length_mm,
+      rowSpacingMm: trial.row_spacing_mm,
+      inRowSpacingMm: trial.in_row_spacing_mm,
+      generatedAt: trial.layout_generated_at ? trial.layout_generated_at.toISOString() : null,
+      locked: reason !== null,
+      lockedReason: reason,
+    },
+    entries: entries.map((e) => ({
+      id: e.id,
+      name: e.name,
+      code: e.code,
+      seedSource: e.seed_source,
+      seedLot: e.seed_lot,
+      entryType: e.entry_type,
+      daysToMaturityClaimed: e.days_to_maturity_claimed,
+      inRowSpacingMm: e.in_row_spacing_mm,
+      noFertilizer: e.no_fertilizer,
+      notes: e.notes,
+    })),
+    sites: sites.map((s) => ({
+      id: s.id,
+      name: s.name,
+      region: s.region,
+      soilTexture: s.soil_texture as Design['sites'][number]['soilTexture'],
+      irrigationMethod: s.irrigation_method,
+      notes: s.notes,
+    })),
+    traits: traits.map((t) => ({
+      id: t.id,
+      key: t.key,
+      label: t.label,
+      quantityKind: t.quantity_kind,
+      basis: t.basis,
+      direction: t.direction,
+      scaleMin: t.scale_min,
+      scaleMax: t.scale_max,
+      sortOrder: t.sort_order,
+      observationCount: t.observation_count,
+    })),
+    plots: plots.map((p) => ({
+      id: p.id,
+      siteId: p.site_id,
+      entryId: p.entry_id,
+      block: p.block,
+      position: p.position,
+      plotNumber: p.plot_number,
+      inRowSpacingMm: p.in_row_spacing_mm,
+      rowLengthMm: p.row_length_mm,
+      rowSpacingMm: p.row_spacing_mm,
+      plannedPlants:
+        p.row_length_mm && p.in_row_spacing_mm
+          ? plantsPerPlot(p.row_length_mm, p.in_row_spacing_mm, trial.rows_per_plot)
+          : null,
+      plantsSet: p.plants_set,
+      plantsSurviving: p.plants_surviving,
+      gaps: p.gaps,
+      plantedNote: p.planted_note,
+    })),
+  };
+}
+
+/* ---------- Entries, sites and traits ---------- */
+
+/** Adding or removing entries or sites would leave the layout incomplete. */
+async function assertNoLayout(trx: Conn, trialId: string, change: string) {
+  const plots = await repo.countPlots(trx, trialId);
+  if (plots === 0) return;
+  const reason = lockReason(await repo.plotDependents(trx, trialId));
+  throw new AppError(
+    'conflict',
+    reason
+      ? `${reason} ${change} is no longer possible.`
+      : `The trial already has a layout of ${plots} plots. Clear the layout on the Layout page first, then ${change.toLowerCase()} and generate it again.`,
+  );
+}
+
+async function editing(db: DB, slug: string, actor: Actor | null) {
+  const { trial } = await trialForAction(db, slug, actor, 'trial.edit');
+  return { trialId: trial.id, userId: actor!.userId };
+}
+
+const entryUnique = {
+  entries_trial_id_code_key: ['body.code', 'Another entry of this trial already uses this code.'],
+  entries_trial_id_name_key: ['body.name', 'Another entry of this trial already has this name.'],
+} satisfies Record<string, [string, string]>;
+
+export async function createEntry(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  b: Out<typeof entryBody>,
+) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  return db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    await assertNoLayout(trx, trialId, 'Adding an entry');
+    return unique(
+      repo.insertPart(trx, 'entries', {
+        trial_id: trialId,
+        name: b.name,
+        code: b.code,
+        seed_source: b.seedSource,
+        seed_lot: b.seedLot,
+        entry_type: b.entryType,
+        days_to_maturity_claimed: b.daysToMaturityClaimed,
+        in_row_spacing_mm: b.inRowSpacingMm,
+        no_fertilizer: b.noFertilizer,
+        notes: b.notes,
+        created_by: userId,
+        updated_by: userId,
+      }),
+      entryUnique,
+    );
+  });
+}
+
+export async function updateEntry(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  entryId: string,
+  b: Out<typeof entryUpdateBody>,
+) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    const row = await unique(
+      repo.updatePart(trx, 'entries', trialId, entryId, {
+        name: b.name,
+        code: b.code,
+        seed_source: b.seedSource,
+        seed_lot: b.seedLot,
+        entry_type: b.entryType,
+        days_to_maturity_claimed: b.daysToMaturityClaimed,
+        in_row_spacing_mm: b.inRowSpacingMm,
+        no_fertilizer: b.noFertilizer,
+        notes: b.notes,
+        updated_by: userId,
+      }),
+      entryUnique,
+    );
+    if (!row) throw AppError.notFound('The entry');
+    // Before planting the plan follows the entry's spacing; afterwards plots keep what was planted.
+    if (b.inRowSpacingMm != null && lockReason(await repo.plotDependents(trx, trialId)) === null)
+      await repo.setEntryPlotSpacing(trx, trialId, entryId, b.inRowSpacingMm);
+  });
+}
+
+export async function deleteEntry(db: DB, slug: string, actor: Actor | null, entryId: string) {
+  const { trialId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    if (!(await repo.findPart(trx, 'entries', trialId, entryId)))
+      throw AppError.notFound('The entry');
+    await assertNoLayout(trx, trialId, 'Removing an entry');
+    await repo.deletePart(trx, 'entries', trialId, entryId);
+  });
+}
+
+const siteUnique = {
+  sites_trial_id_name_key: ['body.name', 'Another site of this trial already has this name.'],
+} satisfies Record<string, [string, string]>;
+
+export async function createSite(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  b: Out<typeof siteBody>,
+) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  return db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    await assertNoLayout(trx, trialId, 'Adding a site');
+    return unique(
+      repo.insertPart(trx, 'sites', {
+        trial_id: trialId,
+        name: b.name,
+        region: b.region,
+        soil_texture: b.soilTexture,
+        irrigation_method: b.irrigationMethod,
+        notes: b.notes,
+        created_by: userId,
+        updated_by: userId,
+      }),
+      siteUnique,
+    );
+  });
+}
+
+export async function updateSite(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  siteId: string,
+  b: Out<typeof siteUpdateBody>,
+) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  const row = await unique(
+    repo.updatePart(db, 'sites', trialId, siteId, {
+      name: b.name,
+      region: b.region,
+      soil_texture: b.soilTexture,
+      irrigation_method: b.irrigationMethod,
+      notes: b.notes,
+      updated_by: userId,
+    }),
+    siteUnique,
+  );
+  if (!row) throw AppError.notFound('The site');
+}
+
+export async function deleteSite(db: DB, slug: string, actor: Actor | null, siteId: string) {
+  const { trialId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    if (!(await repo.findPart(trx, 'sites', trialId, siteId))) throw AppError.notFound('The site');
+    await assertNoLayout(trx, trialId, 'Removing a site');
+    await repo.deletePart(trx, 'sites', trialId, siteId);
+  });
+}
+
+const traitUnique = {
+  traits_trial_id_key_key: ['body.key', 'This trial already records a trait with this key.'],
+} satisfies Record<string, [string, string]>;
+
+export async function createTrait(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  b: Out<typeof traitBody>,
+) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  return db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    const sortOrder = b.sortOrder ?? (await repo.maxTraitOrder(trx, trialId)) + 1;
+    return unique(
+      repo.insertPart(trx, 'traits', {
+        trial_id: trialId,
+        key: b.key,
+        label: b.label,
+        quantity_kind: b.quantityKind,
+        basis: b.basis,
+        direction: b.direction,
+        scale_min: b.scaleMin,
+        scale_max: b.scaleMax,
+        sort_order: sortOrder,
+        created_by: userId,
+        updated_by: userId,
+      }),
+      traitUnique,
+    );
+  });
+}
+
+export async function updateTrait(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  traitId: string,
+  b: Out<typeof traitUpdateBody>,
+) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    if (!(await repo.findPart(trx, 'traits', trialId, traitId)))
+      throw AppError.notFound('The trait');
+    const changesMeaning =
+      b.key !== undefined ||
+      b.quantityKind !== undefined ||
+      b.basis !== undefined ||
+      b.scaleMin !== undefined ||
+      b.scaleMax !== undefined;
+    if (changesMeaning) {
+      const n = await repo.countTraitObservations(trx, traitId);
+      if (n > 0)
+        throw new AppError(
+          'conflict',
+          `${n} measurements already use this trait: its key, kind, basis and scale can no longer change (its name and direction still can).`,
+        );
+    }
+    await unique(
+      repo.updatePart(trx, 'traits', trialId, traitId, {
+        key: b.key,
+        label: b.label,
+        quantity_kind: b.quantityKind,
+        basis: b.basis,
+        direction: b.direction,
+        scale_min: b.scaleMin,
+        scale_max: b.scaleMax,
+        sort_order: b.sortOrder,
+        updated_by: userId,
+      }),
+      traitUnique,
+    );
+  });
+}
+
+export async function deleteTrait(db: DB, slug: string, actor: Actor | null, traitId: string) {
+  const { trialId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    if (!(await repo.findPart(trx, 'traits', trialId, traitId)))
+      throw AppError.notFound('The trait');
+    const n = await repo.countTraitObservations(trx, traitId);
+    if (n > 0)
+      throw new AppError(
+        'conflict',
+        `${n} measurements use this trait; it cannot be removed without losing them.`,
+      );
+    await repo.deletePart(trx, 'traits', trialId, traitId);
+  });
+}
+
+/* ---------- The layout ---------- */
+
+async function assertLayoutOpen(trx: Conn, trialId: string) {
+  const reason = lockReason(await repo.plotDependents(trx, trialId));
+  if (reason) throw new AppError('conflict', reason);
+}
+
+export async function generateLayout(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  b: Out<typeof layoutBody>,
+): Promise<{ seed: number; plots: number }> {
+  const { trialId, userId } = await editing(db, slug, actor);
+  return db.transaction().execute(async (trx) => {
+    const trial = await repo.lockTrial(trx, trialId);
+    await assertLayoutOpen(trx, trialId);
+    const [entries, sites] = await Promise.all([
+      repo.listEntries(trx, trialId),
+      repo.listSites(trx, trialId),
+    ]);
+    if (entries.length < 2)
+      throw new AppError('unprocessable', 'Add at least two entries before laying out plots.');
+    if (sites.length < 1)
+      throw new AppError('unprocessable', 'Add a site before laying out plots.');
+    if (trial.design !== 'multisite' && sites.length > 1)
+      throw new AppError(
+        'unprocessable',
+        `This design lays out one site, but the trial has ${sites.length}. Choose “Blocks at several sites” in the settings, or remove the extra sites.`,
+      );
+    const unspaced = entries.filter((e) => e.in_row_spacing_mm == null).map((e) => e.code);
+    if (unspaced.length > 0 && b.inRowSpacingMm == null)
+      throw fieldError(
+        'body.inRowSpacingMm',
+        `Give an in-row spacing for the entries without their own (${unspaced.join(', ')}).`,
+      );
+    const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
+    const planned = randomizeLayout({
+      design: trial.design,
+      // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
+      entryIds: entries.map((e) => e.id),
+      replicates: b.replicates,
+      siteIds: sites.map((s) => s.id),
+      seed,
+    });
+    const spacing = new Map(entries.map((e) => [e.id, e.in_row_spacing_mm ?? b.inRowSpacingMm!]));
+    await repo.deletePlots(trx, trialId);
+    await repo.insertPlots(
+      trx,
+      planned.map((p) => ({
+        trial_id: trialId,
+        site_id: p.siteId,
+        entry_id: p.entryId,
+        block: p.block,
+        position: p.position,
+        plot_number: p.plotNumber,
+        in_row_spacing_mm: spacing.get(p.entryId)!,
+        row_length_mm: b.rowLengthMm,
+        row_spacing_mm: b.rowSpacingMm,
+        created_by: userId,
+        updated_by: userId,
+      })),
+    );
+    await repo.updateTrial(trx, trialId, {
+      layout_seed: seed,
+      replicates: b.replicates,
+      rows_per_plot: b.rowsPerPlot,
+      row_length_mm: b.rowLengthMm,
+      row_spacing_mm: b.rowSpacingMm,
+      in_row_spacing_mm: b.inRowSpacingMm,
+      layout_generated_at: new Date(),
+      updated_by: userId,
+    });
+    return { seed, plots: planned.length };
+  });
+}
+
+export async function clearLayout(db: DB, slug: string, actor: Actor | null) {
+  const { trialId, userId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    await assertLayoutOpen(trx, trialId);
+    await repo.deletePlots(trx, trialId);
+    await repo.updateTrial(trx, trialId, {
+      layout_seed: null,
+      layout_generated_at: null,
+      updated_by: userId,
+    });
+  });
+}
+
+export async function recordPlanting(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  b: Out<typeof plantingBody>,
+): Promise<{ updated: number }> {
+  const { trialId, userId } = await editing(db, slug, actor);
+  const ids = new Set<string>();
+  b.plots.forEach((p, i) => {
+    if (ids.has(p.plotId)) throw fieldError(`body.plots.${i}.plotId`, 'This plot is listed twice.');
+    ids.add(p.plotId);
+  });
+  return db.transaction().execute(async (trx) => {
+    for (const [i, p] of b.plots.entries()) {
+      const row = await repo.updatePlanting(trx, trialId, p.plotId, {
+        plants_set: p.plantsSet,
+        plants_surviving: p.plantsSurviving,
+        gaps: p.gaps,
+        planted_note: p.note,
+        updated_by: userId,
+      });
+      // Throwing here rolls back every plot of the request: all or nothing.
+      if (!row) throw fieldError(`body.plots.${i}.plotId`, 'This plot is not part of the trial.');
+    }
+    return { updated: b.plots.length };
+  });
+}
