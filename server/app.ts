@@ -9,10 +9,14 @@ import type { DB } from '../db/database';
 import type { Env } from './env';
 import { projectRoot } from './env';
 import { resolveActor } from './auth/actor';
+import { sameOriginOnly } from './auth/origin-check';
 import { type Auth, CLIENT_IP_HEADER } from './auth/auth';
 import { healthRouter } from './health/health-router';
 import type { CaptureServer } from './mail/capture-server';
 import { mailboxRouter } from './mail/mailbox-router';
+import type { Mailer } from './mail/mailer';
+import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
+import { membersRouter } from './members/members-router';
 import { meRouter } from './me/me-router';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { trialsRouter } from './trials/trials-router';
@@ -24,6 +28,10 @@ export interface AppDeps {
   logger: Logger;
   version: string;
   auth: Auth;
+  /** Outgoing mail (invitations); the sign-in library has its own reference. */
+  mailer: Mailer;
+  /** The address people reach the app at; links in mail are built from it. */
+  baseUrl: string;
   /** The local capture server's messages, listed at /dev/mailbox outside production. */
   mailbox?: CaptureServer;
   /** Serve the built client from this folder (production). */
@@ -39,6 +47,9 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
   return [
     ['/api/me', meRouter(deps)],
     ['/api/trials', trialsRouter(deps)],
+    ['/api/trials/:slug/members', membersRouter(deps)],
+    ['/api/trials/:slug/invitations', trialInvitationsRouter(deps)],
+    ['/api/invitations', invitationLinksRouter(deps)],
     ['/api/trials', designRouter(deps)],
   ];
 }
@@ -74,6 +85,7 @@ export function createApp(deps: AppDeps) {
   app.all('/api/auth/*splat', toNodeHandler(deps.auth));
   app.use(express.json({ limit: '1mb' }));
   app.use('/api/health', healthRouter(deps));
+  app.use('/api', sameOriginOnly([deps.baseUrl]));
   app.use('/api', resolveActor(deps.auth));
   if (deps.mailbox && deps.env.NODE_ENV !== 'production')
     app.use('/api/dev/mailbox', mailboxRouter(deps.mailbox));

@@ -57,6 +57,8 @@ export function createRuntime(opts: RuntimeOptions) {
     logger,
     version: appVersion,
     auth,
+    mailer,
+    baseUrl,
     mailbox: opts.mailbox,
     clientDir: opts.clientDir ?? defaultClientDir,
   };

@@ -1,4 +1,7 @@
 import { betterAuth } from 'better-auth';
+import { APIError, createAuthMiddleware } from 'better-auth/api';
+import type { z } from 'zod';
+import { personNameSchema, signInBody, signUpBody } from '../../common/contracts/auth';
 import type pg from 'pg';
 import type { Logger } from 'pino';
 import type { Env } from '../env';
@@ -24,6 +27,38 @@ function sendLater(deps: AuthDeps, mail: Parameters<typeof composeMail>[0]) {
   });
 }
 
+/**
+ * Our own request checks in front of the library's, with the same schemas the client's forms
+ * use: lengths that fit the users table, one message per field, nothing written on refusal.
+ */
+const bodyChecks: Record<string, z.ZodType> = {
+  '/sign-up/email': signUpBody,
+  '/sign-in/email': signInBody,
+  '/update-user': personNameSchema.optional().transform((name) => ({ name })),
+};
+
+function checkBody(path: string, body: unknown) {
+  const schema = bodyChecks[path];
+  if (!schema) return;
+  const input = path === '/update-user' ? (body as { name?: unknown } | undefined)?.name : body;
+  const result = schema.safeParse(input ?? {});
+  if (result.success) return;
+  const fields = result.error.issues.map((i) => ({
+    path: path === '/update-user' ? 'name' : i.path.map(String).join('.'),
+    message: i.message,
+  }));
+  throw new APIError('BAD_REQUEST', {
+    code: 'VALIDATION_FAILED',
+    message: `Check ${fields[0]!.path}: ${fields[0]!.message}`,
+    fields,
+  });
+}
+
+/**
+ * Passwords are hashed with the library's default scrypt (N=16384, r=16, p=1, 64-byte key,
+ * 16-byte random salt), the parameters it recommends; see db/seed/seed.ts and the tests,
+ * which use the same function.
+ */
 export function createAuth(deps: AuthDeps) {
   const { env, baseUrl } = deps;
   const secure = baseUrl.startsWith('https://');
@@ -42,6 +77,20 @@ export function createAuth(deps: AuthDeps) {
       maxPasswordLength: 128,
       revokeSessionsOnPasswordReset: true,
       resetPasswordTokenExpiresIn: 60 * 60,
+      // Sign-up with a taken address answers like a new one (no account discovery); the owner
+      // is told by mail instead.
+      onExistingUserSignUp: async ({ user }) => {
+        sendLater(deps, {
+          to: user.email,
+          subject: 'Someone tried to sign up to Rowtally with your address',
+          lines: [
+            `Hello ${user.name},`,
+            'Someone (perhaps you) tried to create a new Rowtally account with this address, which already has one.',
+            'If it was you, sign in instead, or choose a new password if you have forgotten it. If it was not you, ignore this message.',
+          ],
+          action: { label: 'Sign in to Rowtally', url: `${baseUrl}/sign-in` },
+        });
+      },
       sendResetPassword: async ({ user, url }) => {
         sendLater(deps, {
           to: user.email,
@@ -57,6 +106,8 @@ export function createAuth(deps: AuthDeps) {
     },
     emailVerification: {
       sendOnSignUp: true,
+      // An unconfirmed account that signs in with the right password gets a fresh link.
+      sendOnSignIn: true,
       autoSignInAfterVerification: true,
       expiresIn: 60 * 60 * 24,
       sendVerificationEmail: async ({ user, url }) => {
@@ -95,6 +146,14 @@ export function createAuth(deps: AuthDeps) {
       defaultCookieAttributes: { sameSite: 'lax', httpOnly: true, secure },
       // Set by our own middleware from Express's req.ip (server/app.ts), never by the client.
       ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
+      // The library skips its Origin check under NODE_ENV=test; the tests check the real thing.
+      disableOriginCheck: false,
+      disableCSRFCheck: false,
+    },
+    hooks: {
+      before: createAuthMiddleware(async (ctx) => {
+        checkBody(ctx.path, ctx.body);
+      }),
     },
     logger: {
       level: env.NODE_ENV === 'test' ? 'error' : 'warn',
