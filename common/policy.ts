@@ -24,6 +24,7 @@ export const trialActions = [
   'trial.delete',
   'trial.publish',
   'members.manage',
+  'members.add',
   'records.write',
   'photos.upload',
   'notes.write',
@@ -73,7 +74,15 @@ export const permissionTable: Record<TrialAction, Rule & { note: string }> = {
     contributor: false,
     viewer: false,
     anyone: false,
-    note: 'invite, change roles, remove members',
+    note: 'invite, resend or revoke invitations, change roles and sites, remove members',
+  },
+  'members.add': {
+    lead: false,
+    grower: false,
+    contributor: false,
+    viewer: false,
+    anyone: false,
+    note: 'put an existing account straight into the trial, any role (administrators: recovery)',
   },
   'records.write': {
     lead: true,
@@ -149,4 +158,34 @@ export function permissionsFor(
     TrialAction,
     boolean
   >;
+}
+
+/**
+ * Removing someone from a trial: leads (and administrators) remove anyone; every member may
+ * leave. Whether a lead would remain is the service's check, under a lock.
+ */
+export function canRemoveMember(
+  actor: Actor | null,
+  trial: TrialAccess,
+  targetUserId: string,
+): boolean {
+  if (!actor) return false;
+  if (can(actor, 'members.manage', trial)) return true;
+  return trial.role !== null && actor.userId === targetUserId;
+}
+
+const roleColumns = ['lead', 'grower', 'contributor', 'viewer'] as const satisfies TrialRole[];
+
+/** The permission table as Markdown, for the README. */
+export function permissionTableMarkdown(): string {
+  const yes = (b: boolean) => (b ? 'yes' : '—');
+  const head =
+    '| action | lead | grower | contributor | viewer | anyone | admin | what it covers |';
+  const rule = '| --- | --- | --- | --- | --- | --- | --- | --- |';
+  const rows = trialActions.map((a) => {
+    const r = permissionTable[a];
+    const anyone = a === 'results.read' ? 'once published' : yes(r.anyone);
+    return `| \`${a}\` | ${roleColumns.map((c) => yes(r[c])).join(' | ')} | ${anyone} | yes | ${r.note} |`;
+  });
+  return [head, rule, ...rows].join('\n');
 }
