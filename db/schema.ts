@@ -240,7 +240,22 @@ export interface PhotosTable extends Written {
   height: number | null;
   bytes: number | null;
   deleted_at: Timestamp | null;
+  mime_type: PhotoMimeType;
+  original_ext: 'jpg' | 'png' | 'webp' | 'avif';
+  sha256: string | null;
+  display_width: number | null;
+  display_height: number | null;
+  display_bytes: number | null;
+  thumb_width: number | null;
+  thumb_height: number | null;
+  thumb_bytes: number | null;
+  captured_at: Timestamp | null;
+  is_cover: Generated<boolean>;
+  purge_after: Timestamp | null;
+  purged_at: Timestamp | null;
 }
+
+export type PhotoMimeType = 'image/jpeg' | 'image/png' | 'image/webp' | 'image/avif';
 
 export type TrialRole = 'lead' | 'grower' | 'contributor' | 'viewer';
 
@@ -540,6 +555,19 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     height: true,
     bytes: true,
     deleted_at: true,
+    mime_type: true,
+    original_ext: true,
+    sha256: true,
+    display_width: true,
+    display_height: true,
+    display_bytes: true,
+    thumb_width: true,
+    thumb_height: true,
+    thumb_bytes: true,
+    captured_at: true,
+    is_cover: true,
+    purge_after: true,
+    purged_at: true,
     created_at: true,
     updated_at: true,
     created_by: true,

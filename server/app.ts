@@ -18,6 +18,8 @@ import type { Mailer } from './mail/mailer';
 import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
 import { membersRouter } from './members/members-router';
 import { meRouter } from './me/me-router';
+import { photosRouter } from './photos/photos-router';
+import type { ObjectStorage } from './storage/object-storage';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { trialsRouter } from './trials/trials-router';
 import { designRouter } from './design/design-router';
@@ -32,6 +34,8 @@ export interface AppDeps {
   mailer: Mailer;
   /** The address people reach the app at; links in mail are built from it. */
   baseUrl: string;
+  /** Where photo files live; built from the environment (STORAGE_DRIVER) when not given. */
+  storage?: ObjectStorage;
   /** The local capture server's messages, listed at /dev/mailbox outside production. */
   mailbox?: CaptureServer;
   /** Serve the built client from this folder (production). */
@@ -47,6 +51,7 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
   return [
     ['/api/me', meRouter(deps)],
     ['/api/trials', trialsRouter(deps)],
+    ['/api/trials/:slug/photos', photosRouter(deps)],
     ['/api/trials/:slug/members', membersRouter(deps)],
     ['/api/trials/:slug/invitations', trialInvitationsRouter(deps)],
     ['/api/invitations', invitationLinksRouter(deps)],

@@ -9,6 +9,9 @@ import { createAuth } from './auth/auth';
 import { type Env, projectRoot } from './env';
 import type { CaptureServer } from './mail/capture-server';
 import { createSmtpMailer, type Mailer } from './mail/mailer';
+import { purgeDeletedPhotos } from './photos/photos-service';
+import { createStorage } from './storage/create-storage';
+import type { ObjectStorage } from './storage/object-storage';
 
 export const appVersion: string = JSON.parse(
   fs.readFileSync(path.join(projectRoot, 'package.json'), 'utf8'),
@@ -36,7 +39,12 @@ export interface RuntimeOptions {
   mailbox?: CaptureServer;
   baseUrl?: string;
   clientDir?: string;
+  /** Photo storage; by default the driver the environment names. */
+  storage?: ObjectStorage;
 }
+
+/** Deleted photos' files are removed once the undo window has passed; checked this often. */
+const PHOTO_PURGE_INTERVAL_MS = 15 * 60 * 1000;
 
 export function createRuntime(opts: RuntimeOptions) {
   const { env } = opts;
@@ -61,7 +69,17 @@ export function createRuntime(opts: RuntimeOptions) {
     baseUrl,
     mailbox: opts.mailbox,
     clientDir: opts.clientDir ?? defaultClientDir,
+    storage: opts.storage ?? createStorage(env),
   };
+  // Tests run the purge themselves, with the clock they choose.
+  const purgeTimer =
+    env.NODE_ENV === 'test'
+      ? null
+      : setInterval(() => {
+          purgeDeletedPhotos({ db, storage: deps.storage! }).catch((err: unknown) =>
+            logger.warn({ err }, 'removing deleted photos failed; will try again'),
+          );
+        }, PHOTO_PURGE_INTERVAL_MS).unref();
   return {
     deps,
     app: createApp(deps),
@@ -71,6 +89,7 @@ export function createRuntime(opts: RuntimeOptions) {
     mailer,
     baseUrl,
     close: async () => {
+      if (purgeTimer) clearInterval(purgeTimer);
       await db.destroy();
     },
   };

@@ -9,6 +9,7 @@ import * as invitations from './2026-12-01T0100-invitations';
 import * as trialDesign from './2026-12-01T0200-trial-design';
 import * as records from './2026-12-01T0250-records';
 import * as dailyWeather from './2026-12-01T0300-daily-weather';
+import * as photoFiles from './2026-12-01T0400-photo-files';
 
 export const migrations: Record<string, Migration> = {
   '2026-12-01T0001-accounts': accounts,
@@ -17,4 +18,5 @@ export const migrations: Record<string, Migration> = {
   '2026-12-01T0200-trial-design': trialDesign,
   '2026-12-01T0250-records': records,
   '2026-12-01T0300-daily-weather': dailyWeather,
+  '2026-12-01T0400-photo-files': photoFiles,
 };

@@ -1,5 +1,8 @@
 /** The real app on a test file's own database, with a real SMTP capture server. */
 import crypto from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import { hashPassword } from 'better-auth/crypto';
 import pino from 'pino';
 import request from 'supertest';
@@ -8,6 +11,7 @@ import { parseEnv } from '../../server/env';
 import { type CaptureServer, startCaptureServer } from '../../server/mail/capture-server';
 import { createSmtpMailer } from '../../server/mail/mailer';
 import { createRuntime, type Runtime } from '../../server/runtime';
+import type { ObjectStorage } from '../../server/storage/object-storage';
 import { createTestDatabase, type TestDatabase } from './test-database';
 
 export const TEST_ORIGIN = 'http://127.0.0.1:3999';
@@ -22,15 +26,18 @@ export interface TestApp {
 }
 
 export async function createTestApp(
-  opts: { clientDir?: string; baseUrl?: string; port?: number } = {},
+  opts: { clientDir?: string; baseUrl?: string; port?: number; storage?: ObjectStorage } = {},
 ): Promise<TestApp> {
   const database = await createTestDatabase();
+  // Each test app keeps its photo files in a folder of its own, removed on close.
+  const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-uploads-'));
   const mailbox = await startCaptureServer(0);
   const env = parseEnv({
     NODE_ENV: 'test',
     LOG_LEVEL: 'silent',
     SMTP_PORT: String(mailbox.port),
     PORT: String(opts.port ?? 3999),
+    UPLOADS_DIR: uploadsDir,
   });
   const logger = pino({ level: 'silent' });
   const runtime = createRuntime({
@@ -41,6 +48,7 @@ export async function createTestApp(
     mailbox,
     baseUrl: opts.baseUrl ?? TEST_ORIGIN,
     clientDir: opts.clientDir ?? '/nonexistent',
+    storage: opts.storage,
   });
   return {
     runtime,
@@ -52,6 +60,7 @@ export async function createTestApp(
       await mailbox.close();
       await runtime.pool.end().catch(() => {});
       await database.drop();
+      fs.rmSync(uploadsDir, { recursive: true, force: true });
     },
   };
 }
