@@ -2,7 +2,7 @@ import { designLabels } from '@common/contracts/trials';
 import { useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { useTrial } from '../api/get-trial';
+import { useTrial } from '@/lib/trial';
 
 const entryTypeLabel = {
   heirloom: 'Heirloom',

@@ -2,8 +2,10 @@ import { trialDetailSchema } from '@common/contracts/trials';
 import { trialActions } from '@common/policy';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
-import { api } from '@/lib/api-client';
-import { trialKeys } from './trial-keys';
+import { api } from './api-client';
+
+/** Keys of one trial's detail; every feature's pages read the trial through this module. */
+export const trialDetailKey = (slug: string) => ['trials', 'detail', slug] as const;
 
 const responseSchema = trialDetailSchema.extend({
   permissions: z.record(z.enum(trialActions), z.boolean()),
@@ -14,6 +16,6 @@ export const getTrial = (slug: string) =>
   api(`/api/trials/${encodeURIComponent(slug)}`, responseSchema);
 
 export const trialQueryOptions = (slug: string) =>
-  queryOptions({ queryKey: trialKeys.detail(slug), queryFn: () => getTrial(slug) });
+  queryOptions({ queryKey: trialDetailKey(slug), queryFn: () => getTrial(slug) });
 
 export const useTrial = (slug: string) => useQuery(trialQueryOptions(slug));
