@@ -150,6 +150,16 @@ export function createAuth(deps: AuthDeps) {
       disableOriginCheck: false,
       disableCSRFCheck: false,
     },
+    // Refusals (wrong password, bad input, foreign origin) are answers, not faults: log them
+    // quietly through our logger instead of the library's console output.
+    onAPIError: {
+      onError: (err) => {
+        const status = (err as { statusCode?: number }).statusCode ?? 500;
+        if (status >= 500) deps.logger.error({ err }, '[auth] request failed');
+        else
+          deps.logger.info({ status, message: (err as Error).message }, '[auth] request refused');
+      },
+    },
     hooks: {
       before: createAuthMiddleware(async (ctx) => {
         checkBody(ctx.path, ctx.body);
