@@ -96,51 +96,66 @@ export const updateTrialBody = z
 export type UpdateTrialBody = z.input<typeof updateTrialBody>;
 
 /* Entries */
-export const entryBody = z.object({
+const entryFields = {
   name: required(120, 'variety name'),
   code: z
     .string()
     .trim()
     .regex(/^[A-Za-z0-9]{1,6}$/, 'Use 1 to 6 letters or digits for the code.'),
-  seedSource: text(200, 'seed source').default(''),
-  seedLot: text(80, 'seed lot').default(''),
+  seedSource: text(200, 'seed source'),
+  seedLot: text(80, 'seed lot'),
   entryType: z.enum(entryTypes, 'Choose the type.'),
   daysToMaturityClaimed: z
     .number()
     .int('Use whole days.')
     .min(1, 'Use 1 to 400 days.')
     .max(400, 'Use 1 to 400 days.')
-    .nullable()
-    .default(null),
-  inRowSpacingMm: lengthMm('in-row spacing').nullable().default(null),
-  noFertilizer: z.boolean().default(false),
-  notes: text(5000, 'notes').default(''),
+    .nullable(),
+  inRowSpacingMm: lengthMm('in-row spacing').nullable(),
+  noFertilizer: z.boolean(),
+  notes: text(5000, 'notes'),
+};
+export const entryBody = z.object({
+  ...entryFields,
+  seedSource: entryFields.seedSource.default(''),
+  seedLot: entryFields.seedLot.default(''),
+  daysToMaturityClaimed: entryFields.daysToMaturityClaimed.default(null),
+  inRowSpacingMm: entryFields.inRowSpacingMm.default(null),
+  noFertilizer: entryFields.noFertilizer.default(false),
+  notes: entryFields.notes.default(''),
 });
 export type EntryBody = z.input<typeof entryBody>;
+/** Only the fields sent change: no defaults here, or a partial edit would blank the rest. */
 export const entryUpdateBody = z
-  .object(entryBody.shape)
+  .object(entryFields)
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
 
 /* Sites: a town or region only, never exact coordinates (sites show on public pages). */
 const coordinates = /-?\d{1,3}\.\d{3,}\s*[,;\s]\s*-?\d{1,3}\.\d{3,}|\d+\s*°/;
-export const siteBody = z.object({
+const siteFields = {
   name: required(120, 'site name'),
-  region: text(120, 'town or region')
-    .refine((v) => !coordinates.test(v), 'Give a town or region, not map coordinates.')
-    .default(''),
-  soilTexture: z.enum(soilTextures, 'Choose a soil textural class.').nullable().default(null),
-  irrigationMethod: z
-    .enum(irrigationMethods, 'Choose an irrigation method.')
-    .nullable()
-    .default(null),
-  notes: text(5000, 'notes')
-    .refine((v) => !coordinates.test(v), 'Leave map coordinates out of the notes.')
-    .default(''),
+  region: text(120, 'town or region').refine(
+    (v) => !coordinates.test(v),
+    'Give a town or region, not map coordinates.',
+  ),
+  soilTexture: z.enum(soilTextures, 'Choose a soil textural class.').nullable(),
+  irrigationMethod: z.enum(irrigationMethods, 'Choose an irrigation method.').nullable(),
+  notes: text(5000, 'notes').refine(
+    (v) => !coordinates.test(v),
+    'Leave map coordinates out of the notes.',
+  ),
+};
+export const siteBody = z.object({
+  ...siteFields,
+  region: siteFields.region.default(''),
+  soilTexture: siteFields.soilTexture.default(null),
+  irrigationMethod: siteFields.irrigationMethod.default(null),
+  notes: siteFields.notes.default(''),
 });
 export type SiteBody = z.input<typeof siteBody>;
 export const siteUpdateBody = z
-  .object(siteBody.shape)
+  .object(siteFields)
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
 
@@ -157,9 +172,9 @@ const traitFields = {
   quantityKind: z.enum(quantityKinds, 'Choose what is measured.'),
   basis: z.enum(traitBases, 'Choose per plant, per plot or per harvest.'),
   direction: z.enum(traitDirections, 'Choose which direction is better.'),
-  scaleMin: z.number().finite().nullable().default(null),
-  scaleMax: z.number().finite().nullable().default(null),
-  sortOrder: z.number().int().min(0).max(999).optional(),
+  scaleMin: z.number().finite().nullable(),
+  scaleMax: z.number().finite().nullable(),
+  sortOrder: z.number().int().min(0).max(999),
 };
 function scaleRule(b: {
   quantityKind?: string;
@@ -175,7 +190,14 @@ const scaleMessage = {
   path: ['scaleMax'],
   message: 'A score needs a scale from a lower to a higher number; other kinds have none.',
 };
-export const traitBody = z.object(traitFields).refine(scaleRule, scaleMessage);
+export const traitBody = z
+  .object({
+    ...traitFields,
+    scaleMin: traitFields.scaleMin.default(null),
+    scaleMax: traitFields.scaleMax.default(null),
+    sortOrder: traitFields.sortOrder.optional(),
+  })
+  .refine(scaleRule, scaleMessage);
 export type TraitBody = z.input<typeof traitBody>;
 export const traitUpdateBody = z
   .object(traitFields)

@@ -478,8 +478,9 @@ export async function updateTrait(
         quantity_kind: b.quantityKind,
         basis: b.basis,
         direction: b.direction,
-        scale_min: b.scaleMin,
-        scale_max: b.scaleMax,
+        // a count, length or mass has no score scale: clear the old one with the kind
+        scale_min: b.quantityKind && b.quantityKind !== 'score' ? null : b.scaleMin,
+        scale_max: b.quantityKind && b.quantityKind !== 'score' ? null : b.scaleMax,
         sort_order: b.sortOrder,
         updated_by: userId,
       }),
