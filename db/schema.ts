@@ -224,7 +224,7 @@ export interface AuditLogTable {
   before: ColumnType<Record<string, unknown> | null, string | null, string | null>;
   after: ColumnType<Record<string, unknown>, string, string>;
   actor_id: string | null;
-  at: Generated<Timestamp>;
+  at: Timestamp;
 }
 
 export interface PhotosTable extends Written {
@@ -299,6 +299,45 @@ export interface InvitationSitesTable {
   site_id: string;
 }
 
+export interface ResultsSheetsTable {
+  trial_id: string;
+  summary: Generated<string>;
+  methods: string | null;
+  /** JSON text on write; parsed on read by pg */
+  traits: ColumnType<unknown, string | undefined, string>;
+  entry_notes: ColumnType<unknown, string | undefined, string>;
+  cover_photos: ColumnType<unknown, string | undefined, string>;
+  alpha: Generated<number>;
+  letters: Generated<'hsd' | 'lsd'>;
+  license: Generated<string>;
+  created_at: Timestamp;
+  updated_at: Timestamp;
+  created_by: string | null;
+  updated_by: string | null;
+}
+
+export interface ResultVersionsTable {
+  id: Generated<string>;
+  trial_id: string;
+  version: number;
+  change_note: Generated<string>;
+  snapshot: ColumnType<unknown, string, never>;
+  published_at: Timestamp;
+  published_by: string | null;
+}
+
+export interface ResultFollowersTable {
+  id: Generated<string>;
+  trial_id: string;
+  email: string;
+  confirm_token_hash: string;
+  unsubscribe_token: string;
+  confirmed_at: Timestamp | null;
+  unsubscribed_at: Timestamp | null;
+  created_at: Timestamp;
+  updated_at: Timestamp;
+}
+
 export interface DailyWeatherTable extends Written {
   id: Generated<string>;
   trial_id: string;
@@ -328,6 +367,9 @@ export interface Database {
   photos: PhotosTable;
   trial_members: TrialMembersTable;
   trial_member_sites: TrialMemberSitesTable;
+  results_sheets: ResultsSheetsTable;
+  result_versions: ResultVersionsTable;
+  result_followers: ResultFollowersTable;
   invitations: InvitationsTable;
   invitation_sites: InvitationSitesTable;
   audit_log: AuditLogTable;
@@ -634,5 +676,40 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     updated_at: true,
     created_by: true,
     updated_by: true,
+  },
+  results_sheets: {
+    trial_id: true,
+    summary: true,
+    methods: true,
+    traits: true,
+    entry_notes: true,
+    cover_photos: true,
+    alpha: true,
+    letters: true,
+    license: true,
+    created_at: true,
+    updated_at: true,
+    created_by: true,
+    updated_by: true,
+  },
+  result_versions: {
+    id: true,
+    trial_id: true,
+    version: true,
+    change_note: true,
+    snapshot: true,
+    published_at: true,
+    published_by: true,
+  },
+  result_followers: {
+    id: true,
+    trial_id: true,
+    email: true,
+    confirm_token_hash: true,
+    unsubscribe_token: true,
+    confirmed_at: true,
+    unsubscribed_at: true,
+    created_at: true,
+    updated_at: true,
   },
 };

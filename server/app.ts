@@ -22,7 +22,19 @@ import { photosRouter } from './photos/photos-router';
 import type { ObjectStorage } from './storage/object-storage';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { trialsRouter } from './trials/trials-router';
+import { publicResultsRouter, resultsSheetRouter } from './results/results-router';
+import { shareMeta } from './results/share-meta';
+import { comparisonRouter } from './results/comparison-router';
 import { designRouter } from './design/design-router';
+import { analyzeRouter, trialAnalysisRouter } from './analysis/analysis-router';
+import { weatherRouter } from './weather/weather-router';
+import { auditRouter } from './audit/audit-router';
+import {
+  fieldEventsRouter,
+  harvestsRouter,
+  observationsRouter,
+  recordsRouter,
+} from './records/records-router';
 
 export interface AppDeps {
   db: DB;
@@ -56,6 +68,17 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
     ['/api/trials/:slug/invitations', trialInvitationsRouter(deps)],
     ['/api/invitations', invitationLinksRouter(deps)],
     ['/api/trials', designRouter(deps)],
+    ['/api/trials/:slug', trialAnalysisRouter(deps)],
+    ['/api/trials/:slug', weatherRouter(deps)],
+    ['/api/analyze', analyzeRouter()],
+    ['/api/trials/:slug/harvests', harvestsRouter(deps)],
+    ['/api/trials/:slug/observations', observationsRouter(deps)],
+    ['/api/trials/:slug/field-events', fieldEventsRouter(deps)],
+    ['/api/trials/:slug/records', recordsRouter(deps)],
+    ['/api/trials/:slug/audit', auditRouter(deps)],
+    ['/api/trials/:slug/results-sheet', resultsSheetRouter(deps)],
+    ['/api/results', publicResultsRouter(deps)],
+    ['/api/trials/:slug/comparison', comparisonRouter(deps)],
   ];
 }
 
@@ -101,9 +124,11 @@ export function createApp(deps: AppDeps) {
     const clientDir = deps.clientDir;
     app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
     // Client routes are the browser router's; every other GET gets the app shell.
-    app.get('/{*splat}', (_req, res) => {
+    const shell = fs.readFileSync(path.join(clientDir, 'index.html'), 'utf8');
+    app.get('/{*splat}', async (req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
-      res.sendFile(path.join(clientDir, 'index.html'));
+      const meta = await shareMeta(deps.db, req.path, deps.baseUrl);
+      res.type('html').send(meta ? shell.replace(/<title>[^<]*<\/title>/, meta) : shell);
     });
   }
   app.use(errorHandler);

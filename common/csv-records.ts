@@ -1,0 +1,395 @@
+/**
+ * CSV files of harvests and observations: the columns, and row-by-row checking against the
+ * trial's plots and traits. Pure: the caller parses the file into rows of text and supplies
+ * the lookups. Row numbers count the header as row 1, as a spreadsheet shows them.
+ */
+import {
+  latestRecordDate,
+  observationValueProblem,
+  storedUnitOf,
+  type ImportRowError,
+  type TraitRule,
+} from './contracts/records';
+import { type QuantityUnit, toStored } from './units';
+
+export const harvestCsvColumns = [
+  'record_id',
+  'site',
+  'plot_number',
+  'entry_code',
+  'harvested_on',
+  'fruit_count',
+  'mass_g',
+  'grade',
+  'note',
+] as const;
+
+export const observationCsvColumns = [
+  'record_id',
+  'site',
+  'plot_number',
+  'entry_code',
+  'trait_key',
+  'observed_on',
+  'plant_number',
+  'value',
+  'unit',
+  'value_date',
+  'note',
+] as const;
+
+/** Mass columns a harvest file may use instead of mass_g (typed from a scale in kg, oz or lb). */
+const massColumns: Record<string, QuantityUnit> = {
+  mass_g: 'g',
+  mass_kg: 'kg',
+  mass_oz: 'oz',
+  mass_lb: 'lb',
+};
+const convertible: Record<'mass' | 'length', QuantityUnit[]> = {
+  mass: ['g', 'kg', 'oz', 'lb'],
+  length: ['mm', 'cm', 'm', 'in', 'ft'],
+};
+
+export interface CsvPlot {
+  id: string;
+  entryCode: string;
+  label: string;
+}
+export interface CsvTrait extends TraitRule {
+  id: string;
+  key: string;
+}
+export interface CsvLookups {
+  siteNames: string[];
+  plot(siteName: string, plotNumber: number): CsvPlot | undefined;
+  trait?(key: string): CsvTrait | undefined;
+  today?: string;
+}
+
+export interface ParsedHarvestRow {
+  row: number;
+  id: string | null;
+  plot: CsvPlot;
+  harvestedOn: string;
+  fruitCount: number;
+  massG: number;
+  grade: 'marketable' | 'cull';
+  note: string;
+}
+export interface ParsedObservationRow {
+  row: number;
+  id: string | null;
+  plot: CsvPlot;
+  trait: CsvTrait;
+  observedOn: string;
+  plantNumber: number | null;
+  value: number | null;
+  valueDate: string | null;
+  note: string;
+}
+
+export interface CsvCheck<T> {
+  columns: string[];
+  records: T[];
+  errors: ImportRowError[];
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const DATE = /^\d{4}-\d{2}-\d{2}$/;
+
+/** Accepts 1234.5 and 1,234.5 (a spreadsheet's thousands separator); refuses anything else. */
+export function parseCsvNumber(text: string): number | null {
+  const t = text.trim().replace(/,(?=\d{3}(\D|$))/g, '');
+  if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return null;
+  const n = Number(t);
+  return Number.isFinite(n) ? n : null;
+}
+
+function checkDate(text: string, today: string): string | null {
+  if (!DATE.test(text)) return 'Use a date like 2026-07-14.';
+  const d = new Date(`${text}T00:00:00Z`);
+  if (Number.isNaN(d.getTime()) || d.toISOString().slice(0, 10) !== text)
+    return 'Not a calendar date.';
+  if (text > today) return 'The date is in the future.';
+  if (text < '1900-01-01') return 'The date is too far in the past.';
+  return null;
+}
+
+function headerIndex(header: string[]) {
+  const names = header.map((h) =>
+    h
+      .trim()
+      .toLowerCase()
+      .replace(/^\uFEFF/, ''),
+  );
+  return {
+    names,
+    col: (name: string) => names.indexOf(name),
+  };
+}
+
+/** Shared start of both file kinds: header check, then the plot each row names. */
+function begin(
+  rows: string[][],
+  required: string[],
+  known: readonly string[],
+  errors: ImportRowError[],
+) {
+  if (rows.length === 0) {
+    errors.push({ row: 1, column: '', message: 'The file has no header row.' });
+    return null;
+  }
+  const { names, col } = headerIndex(rows[0]!);
+  for (const name of required)
+    if (col(name) < 0)
+      errors.push({ row: 1, column: name, message: `The header has no ${name} column.` });
+  for (const name of names)
+    if (name && !known.includes(name))
+      errors.push({ row: 1, column: name, message: `Unknown column "${name}".` });
+  if (rows.length < 2) errors.push({ row: 1, column: '', message: 'The file has no records.' });
+  return errors.length ? null : { names, col };
+}
+
+function plotOf(
+  cell: (name: string) => string,
+  rowNo: number,
+  lookups: CsvLookups,
+  errors: ImportRowError[],
+): CsvPlot | null {
+  let site = cell('site');
+  if (!site && lookups.siteNames.length === 1) site = lookups.siteNames[0]!;
+  const siteName = lookups.siteNames.find((s) => s.toLowerCase() === site.toLowerCase());
+  if (!siteName) {
+    errors.push({
+      row: rowNo,
+      column: 'site',
+      message: site ? `No site named "${site}" in this trial.` : 'Enter the site.',
+    });
+    return null;
+  }
+  const numberText = cell('plot_number');
+  const n = parseCsvNumber(numberText);
+  if (n === null || !Number.isInteger(n)) {
+    errors.push({ row: rowNo, column: 'plot_number', message: 'Enter the plot number.' });
+    return null;
+  }
+  const plot = lookups.plot(siteName, n);
+  if (!plot) {
+    errors.push({ row: rowNo, column: 'plot_number', message: `No plot ${n} at ${siteName}.` });
+    return null;
+  }
+  const code = cell('entry_code');
+  if (code && code.toLowerCase() !== plot.entryCode.toLowerCase()) {
+    errors.push({
+      row: rowNo,
+      column: 'entry_code',
+      message: `Plot ${n} at ${siteName} holds entry ${plot.entryCode}, not ${code}: check the plot number.`,
+    });
+    return null;
+  }
+  return plot;
+}
+
+function recordId(cell: (name: string) => string, rowNo: number, errors: ImportRowError[]) {
+  const id = cell('record_id');
+  if (!id) return null;
+  if (!UUID.test(id)) {
+    errors.push({
+      row: rowNo,
+      column: 'record_id',
+      message: 'Not a record id (leave it blank for new records).',
+    });
+    return undefined;
+  }
+  return id.toLowerCase();
+}
+
+const cellsOf = (row: string[], col: (n: string) => number) => (name: string) => {
+  const i = col(name);
+  return i < 0 ? '' : (row[i] ?? '').trim();
+};
+const isBlank = (row: string[]) => row.every((c) => c.trim() === '');
+
+export function checkHarvestCsv(rows: string[][], lookups: CsvLookups): CsvCheck<ParsedHarvestRow> {
+  const errors: ImportRowError[] = [];
+  const today = lookups.today ?? latestRecordDate();
+  const known = [...harvestCsvColumns.filter((c) => c !== 'mass_g'), ...Object.keys(massColumns)];
+  const head = begin(rows, ['plot_number', 'harvested_on', 'fruit_count', 'grade'], known, errors);
+  const massName = head?.names.find((n) => n in massColumns);
+  if (head && !massName)
+    errors.push({
+      row: 1,
+      column: 'mass_g',
+      message: 'The header has no mass column (mass_g, mass_kg, mass_oz or mass_lb).',
+    });
+  if (!head || !massName) return { columns: head?.names ?? [], records: [], errors };
+  const records: ParsedHarvestRow[] = [];
+  const seen = new Set<string>();
+  rows.slice(1).forEach((row, i) => {
+    const rowNo = i + 2;
+    if (isBlank(row)) return;
+    const before = errors.length;
+    const cell = cellsOf(row, head.col);
+    const id = recordId(cell, rowNo, errors);
+    const plot = plotOf(cell, rowNo, lookups, errors);
+    const harvestedOn = cell('harvested_on');
+    const dateProblem = checkDate(harvestedOn, today);
+    if (dateProblem) errors.push({ row: rowNo, column: 'harvested_on', message: dateProblem });
+    const fruitCount = parseCsvNumber(cell('fruit_count'));
+    if (fruitCount === null)
+      errors.push({ row: rowNo, column: 'fruit_count', message: 'Enter a whole number.' });
+    else if (!Number.isInteger(fruitCount) || fruitCount < 0)
+      errors.push({
+        row: rowNo,
+        column: 'fruit_count',
+        message: 'The count must be a whole number, 0 or more.',
+      });
+    const mass = parseCsvNumber(cell(massName));
+    if (mass === null)
+      errors.push({ row: rowNo, column: massName, message: 'Enter the mass as a number.' });
+    else if (mass < 0)
+      errors.push({ row: rowNo, column: massName, message: 'The mass cannot be negative.' });
+    const grade = cell('grade').toLowerCase();
+    if (grade !== 'marketable' && grade !== 'cull')
+      errors.push({ row: rowNo, column: 'grade', message: 'Use marketable or cull.' });
+    const noteText = cell('note');
+    if (noteText.length > 2000)
+      errors.push({ row: rowNo, column: 'note', message: 'Use at most 2000 characters.' });
+    if (id) {
+      if (seen.has(id))
+        errors.push({
+          row: rowNo,
+          column: 'record_id',
+          message: 'This record id appears twice in the file.',
+        });
+      seen.add(id);
+    }
+    if (errors.length > before || !plot || id === undefined) return;
+    records.push({
+      row: rowNo,
+      id,
+      plot,
+      harvestedOn,
+      fruitCount: fruitCount!,
+      massG: toStored(mass!, massColumns[massName]!),
+      grade: grade as 'marketable' | 'cull',
+      note: noteText,
+    });
+  });
+  return { columns: head.names, records, errors };
+}
+
+export function checkObservationCsv(
+  rows: string[][],
+  lookups: CsvLookups,
+): CsvCheck<ParsedObservationRow> {
+  const errors: ImportRowError[] = [];
+  const today = lookups.today ?? latestRecordDate();
+  const head = begin(
+    rows,
+    ['plot_number', 'trait_key', 'observed_on'],
+    observationCsvColumns,
+    errors,
+  );
+  if (head && head.col('value') < 0 && head.col('value_date') < 0)
+    errors.push({
+      row: 1,
+      column: 'value',
+      message: 'The header has no value or value_date column.',
+    });
+  if (!head || errors.length) return { columns: head?.names ?? [], records: [], errors };
+  const records: ParsedObservationRow[] = [];
+  const seen = new Set<string>();
+  rows.slice(1).forEach((row, i) => {
+    const rowNo = i + 2;
+    if (isBlank(row)) return;
+    const before = errors.length;
+    const cell = cellsOf(row, head.col);
+    const id = recordId(cell, rowNo, errors);
+    const plot = plotOf(cell, rowNo, lookups, errors);
+    const key = cell('trait_key');
+    const trait = key ? lookups.trait?.(key) : undefined;
+    if (!trait)
+      errors.push({
+        row: rowNo,
+        column: 'trait_key',
+        message: key ? `No trait "${key}" in this trial.` : 'Enter the trait key.',
+      });
+    const observedOn = cell('observed_on');
+    const dateProblem = checkDate(observedOn, today);
+    if (dateProblem) errors.push({ row: rowNo, column: 'observed_on', message: dateProblem });
+    let plantNumber: number | null = null;
+    if (cell('plant_number')) {
+      plantNumber = parseCsvNumber(cell('plant_number'));
+      if (
+        plantNumber === null ||
+        !Number.isInteger(plantNumber) ||
+        plantNumber < 1 ||
+        plantNumber > 999
+      ) {
+        errors.push({
+          row: rowNo,
+          column: 'plant_number',
+          message: 'Use a whole number from 1 to 999.',
+        });
+      }
+    }
+    let value: number | null = null;
+    let valueDate: string | null = null;
+    if (trait) {
+      if (trait.quantityKind === 'date') {
+        valueDate = cell('value_date') || cell('value');
+        const p = checkDate(valueDate, today);
+        if (p) errors.push({ row: rowNo, column: 'value_date', message: p });
+      } else {
+        const raw = parseCsvNumber(cell('value'));
+        const unit = cell('unit').toLowerCase();
+        const stored = storedUnitOf(trait.quantityKind);
+        if (raw === null)
+          errors.push({ row: rowNo, column: 'value', message: 'Enter the value as a number.' });
+        else if (unit && unit !== stored) {
+          const options =
+            trait.quantityKind === 'mass' || trait.quantityKind === 'length'
+              ? convertible[trait.quantityKind]
+              : [];
+          if (!options.includes(unit as QuantityUnit))
+            errors.push({
+              row: rowNo,
+              column: 'unit',
+              message: `${trait.label} is recorded in ${[stored, ...options.filter((u) => u !== stored)].join(', ')}.`,
+            });
+          else value = toStored(raw, unit as QuantityUnit);
+        } else value = raw;
+        if (value !== null) {
+          const p = observationValueProblem(trait, value, null);
+          if (p) errors.push({ row: rowNo, column: 'value', message: p.message });
+        }
+      }
+    }
+    const noteText = cell('note');
+    if (noteText.length > 2000)
+      errors.push({ row: rowNo, column: 'note', message: 'Use at most 2000 characters.' });
+    if (id) {
+      if (seen.has(id))
+        errors.push({
+          row: rowNo,
+          column: 'record_id',
+          message: 'This record id appears twice in the file.',
+        });
+      seen.add(id);
+    }
+    if (errors.length > before || !plot || !trait || id === undefined) return;
+    records.push({
+      row: rowNo,
+      id,
+      plot,
+      trait,
+      observedOn,
+      plantNumber,
+      value,
+      valueDate,
+      note: noteText,
+    });
+  });
+  return { columns: head.names, records, errors };
+}

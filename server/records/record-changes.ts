@@ -1,0 +1,168 @@
+/**
+ * The life of one stored record, the same for harvests, observations and field events:
+ * create once per client-made id, update only from the version that was read, soft delete,
+ * restore. Each change writes its audit entry in the caller's transaction.
+ */
+import type { Actor } from '../../common/policy';
+import type { DB } from '../../db/database';
+import type { AuditTable } from '../../db/schema';
+import { latestEntry, snapshotAtVersion, writeAudit } from '../audit/audit-repository';
+import { AppError } from '../lib/app-error';
+import {
+  insertIfNew,
+  type RawRow,
+  type RecordTable,
+  rawById,
+  updateRaw,
+} from './records-repository';
+
+const camel = (s: string) => s.replace(/_([a-z0-9])/g, (_m, c: string) => c.toUpperCase());
+const bookkeeping = new Set(['version', 'updated_at', 'updated_by', 'created_at', 'created_by']);
+
+const same = (a: unknown, b: unknown) =>
+  JSON.stringify(a instanceof Date ? a.toISOString() : a) ===
+  JSON.stringify(b instanceof Date ? b.toISOString() : b);
+
+/** Columns whose values differ between two snapshots, as the API names them. */
+export function differingFields(a: Record<string, unknown>, b: Record<string, unknown>): string[] {
+  return Object.keys(b)
+    .filter((k) => !bookkeeping.has(k) && !same(a[k], b[k]))
+    .map(camel);
+}
+
+export const camelRecord = (row: Record<string, unknown>) =>
+  Object.fromEntries(
+    Object.entries(row).map(([k, v]) => [camel(k), v instanceof Date ? v.toISOString() : v]),
+  );
+
+export async function createOnce(
+  trx: DB,
+  table: RecordTable,
+  trialId: string,
+  values: Record<string, unknown> & { id: string },
+  actor: Actor,
+  /** columns that identify what the record is about; a reused id must match them */
+  anchor: string[],
+): Promise<{ row: RawRow; created: boolean }> {
+  const row = await insertIfNew(trx, table, {
+    ...values,
+    trial_id: trialId,
+    created_by: actor.userId,
+    updated_by: actor.userId,
+  });
+  if (row) {
+    await writeAudit(trx, {
+      trialId,
+      table,
+      recordId: row.id,
+      action: 'create',
+      before: null,
+      after: row,
+      actorId: actor.userId,
+    });
+    return { row, created: true };
+  }
+  const existing = (await rawById(trx, table, values.id))!;
+  if (existing.trial_id !== trialId || anchor.some((k) => !same(existing[k], values[k]))) {
+    throw new AppError('conflict', 'This record id is already used by a different record.', {
+      fields: [{ path: 'body.id', message: 'Make a new id for a new record.' }],
+    });
+  }
+  // A retry of a record already stored: answer with what is stored, change nothing.
+  return { row: existing, created: false };
+}
+
+export async function lockedRecord(trx: DB, table: RecordTable, trialId: string, id: string) {
+  const row = await rawById(trx, table, id, true);
+  if (!row || row.trial_id !== trialId) throw AppError.notFound('The record');
+  return row;
+}
+
+/** 409 with the stored record and what changed since the version the caller read. */
+export async function staleVersion(
+  db: DB,
+  current: RawRow,
+  yourVersion: number,
+  proposed: Record<string, unknown>,
+): Promise<never> {
+  const seen = await snapshotAtVersion(db, current.id, yourVersion);
+  const changedFields = seen
+    ? differingFields(seen, current)
+    : differingFields(current, proposed).filter((f) => f in camelRecord(proposed));
+  throw new AppError(
+    'conflict',
+    `Someone else changed this record since you opened it (${changedFields.join(', ') || 'no values'} changed). Check the values now stored and save again.`,
+    { current: camelRecord(current), changedFields, yourVersion, currentVersion: current.version },
+  );
+}
+
+export async function applyUpdate(
+  trx: DB,
+  table: RecordTable,
+  before: RawRow,
+  values: Record<string, unknown>,
+  actor: Actor,
+): Promise<RawRow> {
+  if (differingFields(before, { ...before, ...values }).length === 0) return before;
+  const after = await updateRaw(trx, table, before.id, { ...values, updated_by: actor.userId });
+  await writeAudit(trx, {
+    trialId: before.trial_id,
+    table,
+    recordId: before.id,
+    action: 'update',
+    before,
+    after,
+    actorId: actor.userId,
+  });
+  return after;
+}
+
+export async function softDelete(trx: DB, table: RecordTable, before: RawRow, actor: Actor) {
+  if (before.deleted_at) return before;
+  const after = await updateRaw(trx, table, before.id, {
+    deleted_at: new Date(),
+    updated_by: actor.userId,
+  });
+  await writeAudit(trx, {
+    trialId: before.trial_id,
+    table,
+    recordId: before.id,
+    action: 'delete',
+    before,
+    after,
+    actorId: actor.userId,
+  });
+  return after;
+}
+
+export async function restore(trx: DB, table: RecordTable, before: RawRow, actor: Actor) {
+  if (!before.deleted_at) throw new AppError('conflict', 'This record is not deleted.');
+  const after = await updateRaw(trx, table, before.id, {
+    deleted_at: null,
+    updated_by: actor.userId,
+  });
+  await writeAudit(trx, {
+    trialId: before.trial_id,
+    table,
+    recordId: before.id,
+    action: 'restore',
+    before,
+    after,
+    actorId: actor.userId,
+  });
+  return after;
+}
+
+/** Undo of one's own deletion lasts this long; after that the lead restores it. */
+export const UNDO_WINDOW_MS = 15 * 60 * 1000;
+
+export async function mayUndo(db: DB, recordId: string, actor: Actor, now = Date.now()) {
+  const last = await latestEntry(db, recordId);
+  return (
+    last?.action === 'delete' &&
+    last.actor_id === actor.userId &&
+    now - new Date(last.at).getTime() <= UNDO_WINDOW_MS
+  );
+}
+
+export const auditTableOf = (t: RecordTable): AuditTable => t;

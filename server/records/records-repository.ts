@@ -1,0 +1,304 @@
+import { type Kysely, sql } from 'kysely';
+import type { DB } from '../../db/database';
+
+export type RecordTable = 'harvests' | 'observations' | 'field_events';
+export type RawRow = Record<string, unknown> & {
+  id: string;
+  trial_id: string;
+  version: number;
+  deleted_at: Date | null;
+};
+
+// The three record tables share id, version and deleted_at; these helpers work on any of them.
+const anyDb = (db: DB) => db as unknown as Kysely<any>;
+
+export async function rawById(db: DB, table: RecordTable | 'plots', id: string, lock = false) {
+  const q = anyDb(db).selectFrom(table).selectAll().where('id', '=', id);
+  return (lock ? q.forUpdate() : q).executeTakeFirst() as Promise<RawRow | undefined>;
+}
+
+/** Inserts unless the id is taken; returns the new row, or undefined when it already existed. */
+export async function insertIfNew(db: DB, table: RecordTable, values: Record<string, unknown>) {
+  return (await anyDb(db)
+    .insertInto(table)
+    .values(values)
+    .onConflict((oc) => oc.column('id').doNothing())
+    .returningAll()
+    .executeTakeFirst()) as RawRow | undefined;
+}
+
+export async function updateRaw(
+  db: DB,
+  table: RecordTable | 'plots',
+  id: string,
+  values: Record<string, unknown>,
+  bumpVersion = true,
+) {
+  return (await anyDb(db)
+    .updateTable(table)
+    .set(bumpVersion ? { ...values, version: sql`version + 1` } : values)
+    .where('id', '=', id)
+    .returningAll()
+    .executeTakeFirstOrThrow()) as RawRow;
+}
+
+export function plotsOfTrial(db: DB, trialId: string, siteId?: string) {
+  return db
+    .selectFrom('plots as p')
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .innerJoin('entries as e', 'e.id', 'p.entry_id')
+    .select([
+      'p.id as plotId',
+      'p.site_id as siteId',
+      's.name as siteName',
+      'p.plot_number as plotNumber',
+      'p.block',
+      'p.position',
+      'p.entry_id as entryId',
+      'e.code as entryCode',
+      'e.name as entryName',
+      'p.plants_set as plantsSet',
+      'p.plants_surviving as plantsSurviving',
+    ])
+    .where('p.trial_id', '=', trialId)
+    .$if(siteId !== undefined, (q) => q.where('p.site_id', '=', siteId!))
+    .orderBy('s.name')
+    .orderBy('p.plot_number')
+    .execute();
+}
+
+export function plotInTrial(db: DB, trialId: string, plotId: string) {
+  return db
+    .selectFrom('plots')
+    .select(['id', 'site_id', 'plants_set', 'plants_surviving'])
+    .where('trial_id', '=', trialId)
+    .where('id', '=', plotId)
+    .executeTakeFirst();
+}
+
+export function siteInTrial(db: DB, trialId: string, siteId: string) {
+  return db
+    .selectFrom('sites')
+    .select(['id', 'name'])
+    .where('trial_id', '=', trialId)
+    .where('id', '=', siteId)
+    .executeTakeFirst();
+}
+
+export function traitsOfTrial(db: DB, trialId: string) {
+  return db
+    .selectFrom('traits')
+    .selectAll()
+    .where('trial_id', '=', trialId)
+    .orderBy('sort_order')
+    .orderBy('label')
+    .execute();
+}
+
+export function traitInTrial(db: DB, trialId: string, traitId: string) {
+  return db
+    .selectFrom('traits')
+    .selectAll()
+    .where('trial_id', '=', trialId)
+    .where('id', '=', traitId)
+    .executeTakeFirst();
+}
+
+export interface ListFilters {
+  siteId?: string;
+  plotId?: string;
+  from?: string;
+  to?: string;
+  includeDeleted?: boolean;
+  ids?: string[];
+}
+
+const authorNames = {
+  createdByName: sql<string | null>`(select name from users where id = r.created_by)`,
+  updatedByName: sql<string | null>`(select name from users where id = r.updated_by)`,
+};
+
+export function listHarvests(db: DB, trialId: string, f: ListFilters) {
+  return db
+    .selectFrom('harvests as r')
+    .innerJoin('plots as p', 'p.id', 'r.plot_id')
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .innerJoin('entries as e', 'e.id', 'p.entry_id')
+    .select([
+      'r.id',
+      'r.version',
+      'r.deleted_at as deletedAt',
+      'r.created_at as createdAt',
+      'r.updated_at as updatedAt',
+      authorNames.createdByName.as('createdByName'),
+      authorNames.updatedByName.as('updatedByName'),
+      'r.plot_id as plotId',
+      'p.site_id as siteId',
+      's.name as siteName',
+      'p.plot_number as plotNumber',
+      'p.block',
+      'p.entry_id as entryId',
+      'e.code as entryCode',
+      'e.name as entryName',
+      'r.harvested_on as harvestedOn',
+      'r.fruit_count as fruitCount',
+      'r.mass_g as massG',
+      'r.grade',
+      'r.note',
+    ])
+    .where('r.trial_id', '=', trialId)
+    .$if(!f.includeDeleted, (q) => q.where('r.deleted_at', 'is', null))
+    .$if(f.siteId !== undefined, (q) => q.where('p.site_id', '=', f.siteId!))
+    .$if(f.plotId !== undefined, (q) => q.where('r.plot_id', '=', f.plotId!))
+    .$if(f.from !== undefined, (q) => q.where('r.harvested_on', '>=', f.from!))
+    .$if(f.to !== undefined, (q) => q.where('r.harvested_on', '<=', f.to!))
+    .$if(f.ids !== undefined, (q) => q.where('r.id', 'in', f.ids!))
+    .orderBy('r.harvested_on', 'desc')
+    .orderBy('s.name')
+    .orderBy('p.plot_number')
+    .orderBy('r.created_at')
+    .execute();
+}
+
+export function listObservations(db: DB, trialId: string, f: ListFilters & { traitId?: string }) {
+  return db
+    .selectFrom('observations as r')
+    .innerJoin('plots as p', 'p.id', 'r.plot_id')
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .innerJoin('entries as e', 'e.id', 'p.entry_id')
+    .innerJoin('traits as t', 't.id', 'r.trait_id')
+    .select([
+      'r.id',
+      'r.version',
+      'r.deleted_at as deletedAt',
+      'r.created_at as createdAt',
+      'r.updated_at as updatedAt',
+      authorNames.createdByName.as('createdByName'),
+      authorNames.updatedByName.as('updatedByName'),
+      'r.plot_id as plotId',
+      'p.site_id as siteId',
+      's.name as siteName',
+      'p.plot_number as plotNumber',
+      'p.block',
+      'p.entry_id as entryId',
+      'e.code as entryCode',
+      'e.name as entryName',
+      'r.trait_id as traitId',
+      't.key as traitKey',
+      't.label as traitLabel',
+      't.quantity_kind as quantityKind',
+      'r.observed_on as observedOn',
+      'r.value',
+      'r.value_date as valueDate',
+      'r.plant_number as plantNumber',
+      'r.note',
+    ])
+    .where('r.trial_id', '=', trialId)
+    .$if(!f.includeDeleted, (q) => q.where('r.deleted_at', 'is', null))
+    .$if(f.siteId !== undefined, (q) => q.where('p.site_id', '=', f.siteId!))
+    .$if(f.plotId !== undefined, (q) => q.where('r.plot_id', '=', f.plotId!))
+    .$if(f.traitId !== undefined, (q) => q.where('r.trait_id', '=', f.traitId!))
+    .$if(f.from !== undefined, (q) => q.where('r.observed_on', '>=', f.from!))
+    .$if(f.to !== undefined, (q) => q.where('r.observed_on', '<=', f.to!))
+    .$if(f.ids !== undefined, (q) => q.where('r.id', 'in', f.ids!))
+    .orderBy('r.observed_on', 'desc')
+    .orderBy('s.name')
+    .orderBy('p.plot_number')
+    .orderBy('t.sort_order')
+    .orderBy('r.plant_number')
+    .execute();
+}
+
+export function listFieldEvents(db: DB, trialId: string, f: ListFilters) {
+  return db
+    .selectFrom('field_events as r')
+    .innerJoin('sites as s', 's.id', 'r.site_id')
+    .leftJoin('plots as p', 'p.id', 'r.plot_id')
+    .select([
+      'r.id',
+      'r.version',
+      'r.deleted_at as deletedAt',
+      'r.created_at as createdAt',
+      'r.updated_at as updatedAt',
+      authorNames.createdByName.as('createdByName'),
+      authorNames.updatedByName.as('updatedByName'),
+      'r.site_id as siteId',
+      's.name as siteName',
+      'r.plot_id as plotId',
+      'p.plot_number as plotNumber',
+      'r.kind',
+      'r.occurred_on as occurredOn',
+      'r.irrigation_method as irrigationMethod',
+      'r.run_time_min as runTimeMin',
+      'r.water_depth_mm as waterDepthMm',
+      'r.drip_emitter_flow_l_per_h as dripEmitterFlowLPerH',
+      'r.drip_emitter_spacing_mm as dripEmitterSpacingMm',
+      'r.drip_line_flow_l_per_h_per_m as dripLineFlowLPerHPerM',
+      'r.wetted_width_mm as wettedWidthMm',
+      'r.sprinkler_rate_mm_per_h as sprinklerRateMmPerH',
+      'r.hand_volume_l as handVolumeL',
+      'r.wetted_area_m2 as wettedAreaM2',
+      'r.rain_mm as rainMm',
+      'r.amendment_kind as amendmentKind',
+      'r.rate_g_per_m2 as rateGPerM2',
+      'r.none_applied as noneApplied',
+      'r.target_spacing_mm as targetSpacingMm',
+      'r.note',
+    ])
+    .where('r.trial_id', '=', trialId)
+    .$if(!f.includeDeleted, (q) => q.where('r.deleted_at', 'is', null))
+    .$if(f.siteId !== undefined, (q) => q.where('r.site_id', '=', f.siteId!))
+    .$if(f.plotId !== undefined, (q) => q.where('r.plot_id', '=', f.plotId!))
+    .$if(f.from !== undefined, (q) => q.where('r.occurred_on', '>=', f.from!))
+    .$if(f.to !== undefined, (q) => q.where('r.occurred_on', '<=', f.to!))
+    .$if(f.ids !== undefined, (q) => q.where('r.id', 'in', f.ids!))
+    .orderBy('r.occurred_on', 'desc')
+    .orderBy('s.name')
+    .orderBy('r.created_at')
+    .execute();
+}
+
+export function completenessCounts(
+  db: DB,
+  trialId: string,
+  q: { siteId?: string; from: string; to: string },
+) {
+  return Promise.all([
+    db
+      .selectFrom('observations as o')
+      .innerJoin('plots as p', 'p.id', 'o.plot_id')
+      .select([
+        'o.plot_id as plotId',
+        'o.trait_id as traitId',
+        sql<number>`count(*)::int`.as('count'),
+      ])
+      .where('o.trial_id', '=', trialId)
+      .where('o.deleted_at', 'is', null)
+      .where('o.observed_on', '>=', q.from)
+      .where('o.observed_on', '<=', q.to)
+      .$if(q.siteId !== undefined, (b) => b.where('p.site_id', '=', q.siteId!))
+      .groupBy(['o.plot_id', 'o.trait_id'])
+      .execute(),
+    db
+      .selectFrom('harvests as h')
+      .innerJoin('plots as p', 'p.id', 'h.plot_id')
+      .select(['h.plot_id as plotId', sql<number>`count(*)::int`.as('count')])
+      .where('h.trial_id', '=', trialId)
+      .where('h.deleted_at', 'is', null)
+      .where('h.harvested_on', '>=', q.from)
+      .where('h.harvested_on', '<=', q.to)
+      .$if(q.siteId !== undefined, (b) => b.where('p.site_id', '=', q.siteId!))
+      .groupBy('h.plot_id')
+      .execute(),
+  ]);
+}
+
+/** Ids among `ids` that already exist, with the trial they belong to. */
+export function existingIds(db: DB, table: RecordTable, ids: string[]) {
+  if (ids.length === 0) return Promise.resolve([] as { id: string; trial_id: string }[]);
+  return anyDb(db)
+    .selectFrom(table)
+    .select(['id', 'trial_id'])
+    .where('id', 'in', ids)
+    .execute() as Promise<{ id: string; trial_id: string }[]>;
+}

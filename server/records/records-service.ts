@@ -1,0 +1,498 @@
+import type {
+  createFieldEventBody,
+  createHarvestBody,
+  createObservationBody,
+  listQuery,
+  standCountBody,
+  updateFieldEventBody,
+  updateHarvestBody,
+  updateObservationBody,
+} from '../../common/contracts/records';
+import {
+  type FieldEventInput,
+  fieldEventProblems,
+  observationValueProblem,
+} from '../../common/contracts/records';
+import type { Actor } from '../../common/policy';
+import { waterDepthMm, type IrrigationInputs } from '../../common/water';
+import type { DB } from '../../db/database';
+import { writeAudit } from '../audit/audit-repository';
+import { requireActorOf } from './records-actor';
+import { AppError } from '../lib/app-error';
+import type { LoadedTrial } from '../trials/trial-access';
+import { authorizeAtSite, fieldError, loadForRecords } from './records-access';
+import {
+  applyUpdate,
+  createOnce,
+  lockedRecord,
+  mayUndo,
+  restore,
+  softDelete,
+  staleVersion,
+} from './record-changes';
+import * as repo from './records-repository';
+import type { z } from 'zod';
+
+type Q = z.output<typeof listQuery>;
+const filters = (q: Q): repo.ListFilters => ({
+  siteId: q.siteId,
+  plotId: q.plotId,
+  from: q.from,
+  to: q.to,
+  includeDeleted: q.includeDeleted === 'true',
+});
+
+/** Plots and their site, read inside the trial, or a 400 naming the field. */
+async function plotAt(db: DB, loaded: LoadedTrial, plotId: string, path = 'body.plotId') {
+  const plot = await repo.plotInTrial(db, loaded.trial.id, plotId);
+  if (!plot) throw fieldError(path, 'This plot is not in the trial.');
+  return plot;
+}
+
+// ---------- Reads ----------
+
+export async function listHarvests(db: DB, slug: string, actor: Actor | null, q: Q) {
+  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  return { harvests: await repo.listHarvests(db, trial.id, filters(q)) };
+}
+
+export async function listObservations(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  q: Q & { traitId?: string },
+) {
+  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const rows = await repo.listObservations(db, trial.id, { ...filters(q), traitId: q.traitId });
+  return { observations: rows.map(({ quantityKind: _k, ...o }) => o) };
+}
+
+export async function listFieldEvents(db: DB, slug: string, actor: Actor | null, q: Q) {
+  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  return { events: await repo.listFieldEvents(db, trial.id, filters(q)) };
+}
+
+export async function listPlots(db: DB, slug: string, actor: Actor | null, siteId?: string) {
+  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  return { plots: await repo.plotsOfTrial(db, trial.id, siteId) };
+}
+
+export async function completeness(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  q: { siteId?: string; from: string; to: string },
+) {
+  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  if (q.from > q.to) throw fieldError('query.from', 'The round starts after it ends.');
+  const [plots, traits, [cells, harvests]] = await Promise.all([
+    repo.plotsOfTrial(db, trial.id, q.siteId),
+    repo.traitsOfTrial(db, trial.id),
+    repo.completenessCounts(db, trial.id, q),
+  ]);
+  return {
+    from: q.from,
+    to: q.to,
+    traits: traits.map((t) => ({ id: t.id, key: t.key, label: t.label, basis: t.basis })),
+    plots,
+    cells,
+    harvests,
+  };
+}
+
+const oneHarvest = async (db: DB, trialId: string, id: string) =>
+  (await repo.listHarvests(db, trialId, { ids: [id], includeDeleted: true }))[0]!;
+const oneObservation = async (db: DB, trialId: string, id: string) => {
+  const { quantityKind: _k, ...o } = (
+    await repo.listObservations(db, trialId, { ids: [id], includeDeleted: true })
+  )[0]!;
+  return o;
+};
+const oneEvent = async (db: DB, trialId: string, id: string) =>
+  (await repo.listFieldEvents(db, trialId, { ids: [id], includeDeleted: true }))[0]!;
+
+// ---------- Harvests ----------
+
+export async function createHarvest(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  body: z.output<typeof createHarvestBody>,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const plot = await plotAt(db, loaded, body.plotId);
+  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  const { created } = await db.transaction().execute((trx) =>
+    createOnce(
+      trx,
+      'harvests',
+      loaded.trial.id,
+      {
+        id: body.id,
+        plot_id: body.plotId,
+        harvested_on: body.harvestedOn,
+        fruit_count: body.fruitCount,
+        mass_g: body.massG,
+        grade: body.grade,
+        note: body.note,
+      },
+      requireActorOf(actor),
+      ['plot_id'],
+    ),
+  );
+  return { created, record: await oneHarvest(db, loaded.trial.id, body.id) };
+}
+
+export async function updateHarvest(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  id: string,
+  body: z.output<typeof updateHarvestBody>,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  await db.transaction().execute(async (trx) => {
+    const before = await lockedRecord(trx, 'harvests', loaded.trial.id, id);
+    const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
+    authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+    if (before.deleted_at) throw new AppError('not_found', 'This harvest was deleted.');
+    const values = Object.fromEntries(
+      Object.entries({
+        harvested_on: body.harvestedOn,
+        fruit_count: body.fruitCount,
+        mass_g: body.massG,
+        grade: body.grade,
+        note: body.note,
+      }).filter(([, v]) => v !== undefined),
+    );
+    if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
+    await applyUpdate(trx, 'harvests', before, values, requireActorOf(actor));
+  });
+  return oneHarvest(db, loaded.trial.id, id);
+}
+
+// ---------- Observations ----------
+
+async function traitFor(db: DB, trialId: string, traitId: string) {
+  const trait = await repo.traitInTrial(db, trialId, traitId);
+  if (!trait) throw fieldError('body.traitId', 'This trait is not in the trial.');
+  return trait;
+}
+
+function checkValue(
+  trait: Awaited<ReturnType<typeof traitFor>>,
+  value: number | null,
+  valueDate: string | null,
+) {
+  const problem = observationValueProblem(
+    {
+      label: trait.label,
+      quantityKind: trait.quantity_kind,
+      scaleMin: trait.scale_min,
+      scaleMax: trait.scale_max,
+    },
+    value,
+    valueDate,
+  );
+  if (problem) throw fieldError(`body.${problem.field}`, problem.message);
+}
+
+export async function createObservation(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  body: z.output<typeof createObservationBody>,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const plot = await plotAt(db, loaded, body.plotId);
+  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  checkValue(await traitFor(db, loaded.trial.id, body.traitId), body.value, body.valueDate);
+  const { created } = await db.transaction().execute((trx) =>
+    createOnce(
+      trx,
+      'observations',
+      loaded.trial.id,
+      {
+        id: body.id,
+        plot_id: body.plotId,
+        trait_id: body.traitId,
+        observed_on: body.observedOn,
+        value: body.value,
+        value_date: body.valueDate,
+        plant_number: body.plantNumber,
+        note: body.note,
+      },
+      requireActorOf(actor),
+      ['plot_id', 'trait_id'],
+    ),
+  );
+  return { created, record: await oneObservation(db, loaded.trial.id, body.id) };
+}
+
+export async function updateObservation(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  id: string,
+  body: z.output<typeof updateObservationBody>,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  await db.transaction().execute(async (trx) => {
+    const before = await lockedRecord(trx, 'observations', loaded.trial.id, id);
+    const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
+    authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+    if (before.deleted_at) throw new AppError('not_found', 'This observation was deleted.');
+    const values = Object.fromEntries(
+      Object.entries({
+        observed_on: body.observedOn,
+        value: body.value,
+        value_date: body.valueDate,
+        plant_number: body.plantNumber,
+        note: body.note,
+      }).filter(([, v]) => v !== undefined),
+    );
+    if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
+    const merged = { ...before, ...values };
+    checkValue(
+      await traitFor(trx, loaded.trial.id, before.trait_id as string),
+      merged.value as number | null,
+      merged.value_date as string | null,
+    );
+    await applyUpdate(trx, 'observations', before, values, requireActorOf(actor));
+  });
+  return oneObservation(db, loaded.trial.id, id);
+}
+
+// ---------- Field events ----------
+
+/** The stored columns of an event, with the depth of irrigation water computed here. */
+function eventColumns(e: FieldEventInput) {
+  const irrigation = e.kind === 'irrigation';
+  const only = <T>(when: boolean, v: T) => (when ? v : null);
+  let depth: number | null = null;
+  if (irrigation && e.irrigationMethod && e.runTimeMin) {
+    const inputs: IrrigationInputs | null =
+      e.irrigationMethod === 'drip'
+        ? e.dripLineFlowLPerHPerM !== null
+          ? {
+              method: 'drip',
+              lineFlowLPerHPerM: e.dripLineFlowLPerHPerM,
+              wettedWidthMm: e.wettedWidthMm!,
+              runTimeMin: e.runTimeMin,
+            }
+          : {
+              method: 'drip',
+              emitterFlowLPerH: e.dripEmitterFlowLPerH!,
+              emitterSpacingMm: e.dripEmitterSpacingMm!,
+              wettedWidthMm: e.wettedWidthMm!,
+              runTimeMin: e.runTimeMin,
+            }
+        : e.irrigationMethod === 'overhead'
+          ? {
+              method: 'overhead',
+              sprinklerRateMmPerH: e.sprinklerRateMmPerH!,
+              runTimeMin: e.runTimeMin,
+            }
+          : {
+              method: 'hand',
+              volumeL: e.handVolumeL!,
+              wettedAreaM2: e.wettedAreaM2!,
+              runTimeMin: e.runTimeMin,
+            };
+    depth = waterDepthMm(inputs);
+  }
+  const drip = irrigation && e.irrigationMethod === 'drip';
+  const byLine = drip && e.dripLineFlowLPerHPerM !== null;
+  return {
+    occurred_on: e.occurredOn,
+    note: e.note,
+    irrigation_method: only(irrigation, e.irrigationMethod),
+    run_time_min: only(irrigation, e.runTimeMin),
+    water_depth_mm: depth,
+    drip_emitter_flow_l_per_h: only(drip && !byLine, e.dripEmitterFlowLPerH),
+    drip_emitter_spacing_mm: only(drip && !byLine, e.dripEmitterSpacingMm),
+    drip_line_flow_l_per_h_per_m: only(byLine, e.dripLineFlowLPerHPerM),
+    wetted_width_mm: only(drip, e.wettedWidthMm),
+    sprinkler_rate_mm_per_h: only(
+      irrigation && e.irrigationMethod === 'overhead',
+      e.sprinklerRateMmPerH,
+    ),
+    hand_volume_l: only(irrigation && e.irrigationMethod === 'hand', e.handVolumeL),
+    wetted_area_m2: only(irrigation && e.irrigationMethod === 'hand', e.wettedAreaM2),
+    rain_mm: only(e.kind === 'rainfall', e.rainMm),
+    amendment_kind: only(e.kind === 'fertilizer' && !e.noneApplied, e.amendmentKind),
+    rate_g_per_m2: only(e.kind === 'fertilizer' && !e.noneApplied, e.rateGPerM2),
+    none_applied: e.kind === 'fertilizer' && e.noneApplied,
+    target_spacing_mm: only(e.kind === 'thinning', e.targetSpacingMm),
+  };
+}
+
+/** Plot and site notes are open to contributors; every other event is a field record. */
+const eventAction = (kind: string) => (kind === 'note' ? 'notes.write' : 'records.write');
+
+export async function createFieldEvent(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  body: z.output<typeof createFieldEventBody>,
+) {
+  const action = eventAction(body.kind);
+  const loaded = await loadForRecords(db, slug, actor, action);
+  const site = await repo.siteInTrial(db, loaded.trial.id, body.siteId);
+  if (!site) throw fieldError('body.siteId', 'This site is not in the trial.');
+  if (body.plotId) {
+    const plot = await plotAt(db, loaded, body.plotId);
+    if (plot.site_id !== body.siteId)
+      throw fieldError('body.plotId', 'This plot is at another site.');
+  }
+  authorizeAtSite(actor, action, loaded, body.siteId);
+  const { created } = await db.transaction().execute((trx) =>
+    createOnce(
+      trx,
+      'field_events',
+      loaded.trial.id,
+      {
+        id: body.id,
+        site_id: body.siteId,
+        plot_id: body.plotId,
+        kind: body.kind,
+        ...eventColumns(body),
+      },
+      requireActorOf(actor),
+      ['site_id', 'kind'],
+    ),
+  );
+  return { created, record: await oneEvent(db, loaded.trial.id, body.id) };
+}
+
+export async function updateFieldEvent(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  id: string,
+  body: z.output<typeof updateFieldEventBody>,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'trial.read');
+  await db.transaction().execute(async (trx) => {
+    const before = await lockedRecord(trx, 'field_events', loaded.trial.id, id);
+    authorizeAtSite(actor, eventAction(before.kind as string), loaded, before.site_id as string);
+    if (before.deleted_at) throw new AppError('not_found', 'This field event was deleted.');
+    const { version, ...fields } = body;
+    const input: FieldEventInput = { ...fields, kind: before.kind as FieldEventInput['kind'] };
+    const problems = fieldEventProblems(input);
+    if (problems.length) {
+      const fields = problems.map((p) => ({ path: `body.${p.path}`, message: p.message }));
+      throw new AppError('validation_failed', problems[0]!.message, { fields });
+    }
+    const values = eventColumns(input);
+    if (before.version !== version) await staleVersion(trx, before, version, values);
+    await applyUpdate(trx, 'field_events', before, values, requireActorOf(actor));
+  });
+  return oneEvent(db, loaded.trial.id, id);
+}
+
+// ---------- Delete, undo ----------
+
+const readers = { harvests: oneHarvest, observations: oneObservation, field_events: oneEvent };
+
+async function siteOfRecord(trx: DB, trialId: string, table: repo.RecordTable, row: repo.RawRow) {
+  if (table === 'field_events') return row.site_id as string;
+  return (await repo.plotInTrial(trx, trialId, row.plot_id as string))!.site_id;
+}
+
+export async function deleteRecord(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  table: repo.RecordTable,
+  id: string,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'trial.read');
+  await db.transaction().execute(async (trx) => {
+    const before = await lockedRecord(trx, table, loaded.trial.id, id);
+    const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
+    authorizeAtSite(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+    await softDelete(trx, table, before, requireActorOf(actor));
+  });
+  return readers[table](db, loaded.trial.id, id);
+}
+
+/** Undo of one's own recent deletion; later, or someone else's, is the lead's to restore. */
+export async function undoDelete(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  table: repo.RecordTable,
+  id: string,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'trial.read');
+  await db.transaction().execute(async (trx) => {
+    const before = await lockedRecord(trx, table, loaded.trial.id, id);
+    const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
+    authorizeAtSite(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+    const me = requireActorOf(actor);
+    if (!(await mayUndo(trx, id, me)))
+      throw new AppError(
+        'forbidden',
+        'Undo is open for 15 minutes to the person who deleted the record. Ask the trial lead to restore it from the audit log.',
+      );
+    await restore(trx, table, before, me);
+  });
+  return readers[table](db, loaded.trial.id, id);
+}
+
+/** The lead brings back any deleted record (from the audit log). */
+export async function leadRestore(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  table: repo.RecordTable,
+  id: string,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'trial.edit');
+  const row = await db.transaction().execute(async (trx) => {
+    const before = await lockedRecord(trx, table, loaded.trial.id, id);
+    return restore(trx, table, before, requireActorOf(actor));
+  });
+  return { table, recordId: id, version: row.version };
+}
+
+// ---------- Stand count ----------
+
+export async function setStandCount(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  plotId: string,
+  body: z.output<typeof standCountBody>,
+) {
+  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const plot = await plotAt(db, loaded, plotId, 'params.plotId');
+  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  if (plot.plants_set !== null && body.plantsSurviving > plot.plants_set)
+    throw fieldError(
+      'body.plantsSurviving',
+      `The plot was set with ${plot.plants_set} plants; the stand cannot be more.`,
+    );
+  await db.transaction().execute(async (trx) => {
+    const before = (await repo.rawById(trx, 'plots', plotId, true))!;
+    if (before.plants_surviving === body.plantsSurviving) return;
+    const after = await repo.updateRaw(
+      trx,
+      'plots',
+      plotId,
+      { plants_surviving: body.plantsSurviving, updated_by: requireActorOf(actor).userId },
+      false,
+    );
+    await writeAudit(trx, {
+      trialId: loaded.trial.id,
+      table: 'plots',
+      recordId: plotId,
+      action: 'update',
+      before,
+      after,
+      actorId: requireActorOf(actor).userId,
+    });
+  });
+  return (await repo.plotsOfTrial(db, loaded.trial.id)).find((p) => p.plotId === plotId)!;
+}
