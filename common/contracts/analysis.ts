@@ -50,15 +50,16 @@ export const trialAnalysisQuery = z.object({
 export type TrialAnalysisQuery = z.input<typeof trialAnalysisQuery>;
 
 const nullableNumber = z.number().nullable();
+const anovaSources = ['site', 'block', 'variety', 'site:variety', 'residual', 'total'] as const;
 
 export const anovaLineSchema = z.object({
-  source: z.enum(['site', 'block', 'variety', 'site:variety', 'residual', 'total']),
+  source: z.enum(anovaSources),
   df: z.number(),
   ss: z.number(),
   ms: nullableNumber,
   f: nullableNumber,
   p: nullableNumber,
-  testedAgainst: z.enum(['site', 'block', 'variety', 'site:variety', 'residual']).nullable(),
+  testedAgainst: z.enum(anovaSources).nullable(),
 });
 export type AnovaLine = z.infer<typeof anovaLineSchema>;
 

@@ -1,0 +1,280 @@
+import {
+  derivedTraits,
+  type AnalysisResult,
+  type AnalyzeOptionsInput,
+  type Ranking,
+  type TrialAnalysis,
+  type analysisBases,
+} from '../../common/contracts/analysis';
+import type { Actor } from '../../common/policy';
+import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
+import { AppError } from '../lib/app-error';
+import { trialForAction } from '../trials/trials-service';
+import {
+  AnalysisInputError,
+  analyzeCsv,
+  analyzePlotRows,
+  type AnalysisResult as EngineResult,
+  type PlotRow,
+} from './engine/analyze';
+import { rankAcrossTraits } from './engine/ranking';
+import * as repo from './analysis-repository';
+import { buildPlotValues, PlotValueError, type TraitSource } from './trial-plot-values';
+
+type Basis = (typeof analysisBases)[number];
+
+interface ResolvedTrait {
+  key: string;
+  label: string;
+  quantityKind: string;
+  direction: 'higher' | 'lower' | 'none';
+  source: TraitSource;
+  traitId: string | null;
+}
+
+/** NaN or ±Infinity would travel as null in JSON anyway; make it explicit. */
+function finite<T>(value: T): T {
+  return JSON.parse(
+    JSON.stringify(value, (_k, v: unknown) =>
+      typeof v === 'number' && !Number.isFinite(v) ? null : v,
+    ),
+  ) as T;
+}
+
+function unprocessable(err: unknown): never {
+  if (err instanceof AnalysisInputError) throw new AppError('unprocessable', err.message);
+  if (err instanceof PlotValueError) {
+    if (err.field)
+      throw new AppError('validation_failed', err.message, {
+        fields: [{ path: err.field, message: err.message }],
+      });
+    throw new AppError('unprocessable', err.message);
+  }
+  throw err;
+}
+
+async function resolveTrait(db: DB, trialId: string, key: string): Promise<ResolvedTrait> {
+  if (key in derivedTraits) {
+    const d = derivedTraits[key as keyof typeof derivedTraits];
+    return {
+      key,
+      label: d.label,
+      quantityKind: d.quantityKind,
+      direction: d.direction,
+      source: { kind: 'derived', key: key as keyof typeof derivedTraits },
+      traitId: null,
+    };
+  }
+  const trait = (await repo.trialTraits(db, trialId)).find((t) => t.key === key);
+  if (!trait) throw AppError.notFound(`The trait "${key}"`);
+  return {
+    key,
+    label: trait.label,
+    quantityKind: trait.quantity_kind,
+    direction: trait.direction,
+    traitId: trait.id,
+    source:
+      trait.basis === 'harvest'
+        ? { kind: 'harvest', quantityKind: trait.quantity_kind }
+        : { kind: 'observation', basis: trait.basis, quantityKind: trait.quantity_kind },
+  };
+}
+
+async function analyseTrait(
+  db: DB,
+  trial: Trial,
+  trait: ResolvedTrait,
+  basis: Basis,
+  options: { alpha: number; letters: 'hsd' | 'lsd' },
+): Promise<TrialAnalysis> {
+  const [plots, harvests, observations] = await Promise.all([
+    repo.trialPlots(db, trial.id),
+    trait.source.kind === 'observation' ? [] : repo.liveHarvests(db, trial.id),
+    trait.traitId && trait.source.kind === 'observation'
+      ? repo.liveObservations(db, trial.id, trait.traitId)
+      : [],
+  ]);
+  if (plots.length === 0) throw new AppError('unprocessable', 'The trial has no plots yet.');
+  let built;
+  try {
+    built = buildPlotValues(
+      trait.source,
+      basis,
+      {
+        sowingDate: trial.sowing_date,
+        transplantDate: trial.transplant_date,
+        rowsPerPlot: trial.rows_per_plot,
+        rowLengthMm: trial.row_length_mm,
+        rowSpacingMm: trial.row_spacing_mm,
+      },
+      plots,
+      harvests,
+      observations,
+    );
+  } catch (err) {
+    unprocessable(err);
+  }
+  if (built.values.length === 0)
+    throw new AppError('unprocessable', `No records for ${trait.label} yet: nothing to analyse.`);
+  const rows: PlotRow[] = built.values.map(({ plot, value }) => ({
+    variety: plot.entry_name,
+    site: plot.site_name,
+    block: trial.design === 'crd' ? null : String(plot.block),
+    plot: String(plot.plot_number),
+    value,
+  }));
+  let result: EngineResult;
+  try {
+    result = analyzePlotRows(rows, {
+      trait: trait.key,
+      alpha: options.alpha,
+      design: trial.design,
+      letters: options.letters,
+    });
+  } catch (err) {
+    unprocessable(err);
+  }
+  const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));
+  return finite({
+    ...result,
+    warnings: [...built.warnings, ...result.warnings],
+    traitKey: trait.key,
+    traitLabel: trait.label,
+    quantityKind: trait.quantityKind,
+    direction: trait.direction,
+    basis,
+    unit: built.unit,
+    valueNote: built.valueNote,
+    plotValues: built.values.map(({ plot, value }) => ({
+      plotId: plot.id,
+      plotNumber: plot.plot_number,
+      site: plot.site_name,
+      block: plot.block,
+      entry: plot.entry_name,
+      entryCode: plot.entry_code,
+      value,
+    })),
+    entryCodes,
+  });
+}
+
+export async function trialAnalysis(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  query: { trait: string; basis: Basis; alpha: number; letters: 'hsd' | 'lsd' },
+): Promise<TrialAnalysis> {
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  const trait = await resolveTrait(db, trial.id, query.trait);
+  return analyseTrait(db, trial, trait, query.basis, query);
+}
+
+export const RANKING_METHOD =
+  'Index: for each trait, z = (entry mean − mean of the entry means) ÷ SD of the entry means, sign flipped where lower is better; the index is the weighted mean of the z scores (higher is better) and each contribution is weight × signed z ÷ total weight. Rank sum: the sum of each entry’s rank per trait (1 = best; lower sum is better). Traits with no preferred direction are shown but not counted.';
+
+export async function trialRanking(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  query: { traits?: string[]; weights?: number[]; alpha: number },
+): Promise<Ranking> {
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  const warnings: string[] = [];
+  const explicit = query.traits !== undefined;
+  const keys =
+    query.traits ??
+    (await repo.trialTraits(db, trial.id)).filter((t) => t.direction !== 'none').map((t) => t.key);
+  if (keys.length === 0)
+    throw new AppError('unprocessable', 'The trial has no traits with a preferred direction.');
+  if (new Set(keys).size !== keys.length)
+    throw new AppError('validation_failed', 'A trait is named twice.', {
+      fields: [{ path: 'query.traits', message: 'A trait is named twice.' }],
+    });
+  const analysed: { trait: ResolvedTrait; weight: number; result: TrialAnalysis }[] = [];
+  for (const [i, key] of keys.entries()) {
+    const trait = await resolveTrait(db, trial.id, key);
+    try {
+      const result = await analyseTrait(db, trial, trait, 'plot', {
+        alpha: query.alpha,
+        letters: 'hsd',
+      });
+      analysed.push({ trait, weight: query.weights?.[i] ?? 1, result });
+    } catch (err) {
+      if (explicit || !(err instanceof AppError) || err.code !== 'unprocessable') throw err;
+      warnings.push(`${trait.label}: left out (${err.message})`);
+    }
+  }
+  if (analysed.length === 0)
+    throw new AppError('unprocessable', 'None of the traits has records to rank on yet.');
+  const entries = await repo.trialEntries(db, trial.id);
+  const complete = entries.filter((e) =>
+    analysed.every((a) => a.result.means.some((m) => m.variety === e.name)),
+  );
+  for (const e of entries)
+    if (!complete.includes(e)) warnings.push(`${e.name}: left out (not measured for every trait)`);
+  if (complete.length < 2)
+    throw new AppError('unprocessable', 'Fewer than two entries have values for every trait.');
+  let ranking;
+  try {
+    ranking = rankAcrossTraits(
+      analysed.map((a) => ({
+        trait: a.trait.key,
+        direction: a.trait.direction,
+        weight: a.weight,
+        means: Object.fromEntries(a.result.means.map((m) => [m.variety, m.mean])),
+      })),
+      complete.map((e) => e.name),
+    );
+  } catch (err) {
+    if (err instanceof RangeError)
+      throw new AppError('validation_failed', err.message, {
+        fields: [{ path: 'query.weights', message: err.message }],
+      });
+    throw err;
+  }
+  const codeOf = new Map(entries.map((e) => [e.name, e.code]));
+  return finite({
+    traits: ranking.traits.map((t, i) => ({
+      key: t.trait,
+      label: analysed[i]!.trait.label,
+      direction: t.direction,
+      weight: t.weight,
+      unit: analysed[i]!.result.unit,
+      mean: t.mean,
+      sd: t.sd,
+      varietyP: analysed[i]!.result.anova.find((l) => l.source === 'variety')?.p ?? null,
+    })),
+    entries: ranking.entries.map((e) => ({ ...e, entryCode: codeOf.get(e.entry) ?? '' })),
+    method: RANKING_METHOD,
+    warnings,
+  });
+}
+
+/** The spreadsheet analysis: nothing is read from or written to the database. */
+export function analyzeSpreadsheet(
+  csv: string,
+  options: Omit<AnalyzeOptionsInput, 'alpha' | 'letters'> & {
+    alpha: number;
+    letters: 'hsd' | 'lsd';
+  },
+): AnalysisResult {
+  const columns: Record<string, string> = {};
+  for (const c of ['variety', 'site', 'block', 'plot'] as const) {
+    const v = options[c];
+    if (v) columns[c] = v;
+  }
+  try {
+    return finite(
+      analyzeCsv(csv, {
+        alpha: options.alpha,
+        letters: options.letters,
+        ...(options.design ? { design: options.design } : {}),
+        ...(options.value ? { trait: options.value } : {}),
+        columns,
+      }),
+    );
+  } catch (err) {
+    unprocessable(err);
+  }
+}

@@ -1,0 +1,197 @@
+/**
+ * Analysis, ranking, weather and season routes. Reads run on a small balanced trial of this
+ * file's own (same members as the matrix world) so a member's read really computes (200);
+ * weather writes go to the world's site A, so a grower limited to site B is refused.
+ */
+import { memberRead, recordWrite, type MatrixRow } from './matrix-types';
+import type { MatrixWorld } from './matrix-world';
+
+const analysisTrials = new WeakMap<MatrixWorld, Promise<string>>();
+
+/** rcbd, 3 entries × 2 blocks, a vigor score per plot (fictional values). */
+function analysisTrial(w: MatrixWorld): Promise<string> {
+  let p = analysisTrials.get(w);
+  if (!p) {
+    p = (async () => {
+      const db = w.t.db;
+      const trial = await db
+        .insertInto('trials')
+        .values({
+          slug: 'matrix-analysis',
+          title: 'Matrix analysis trial',
+          crop: 'Okra',
+          season: '2026',
+          design: 'rcbd',
+          status: 'active',
+        })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      const site = await db
+        .insertInto('sites')
+        .values({ trial_id: trial.id, name: 'Only site' })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      const entries = await db
+        .insertInto('entries')
+        .values(
+          ['Ash Pod', 'Birch Pod', 'Cedar Pod'].map((name, i) => ({
+            trial_id: trial.id,
+            name,
+            code: `E${i + 1}`,
+            entry_type: 'heirloom' as const,
+          })),
+        )
+        .returning('id')
+        .execute();
+      const trait = await db
+        .insertInto('traits')
+        .values({
+          trial_id: trial.id,
+          key: 'vigor',
+          label: 'Vigor',
+          quantity_kind: 'score',
+          basis: 'plot',
+          direction: 'higher',
+          scale_min: 1,
+          scale_max: 5,
+        })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      const scores = [
+        [3, 4],
+        [4, 5],
+        [2, 2],
+      ];
+      let n = 0;
+      for (const [e, entry] of entries.entries()) {
+        for (const block of [1, 2]) {
+          n++;
+          const plot = await db
+            .insertInto('plots')
+            .values({
+              trial_id: trial.id,
+              site_id: site.id,
+              entry_id: entry.id,
+              block,
+              position: e + 1,
+              plot_number: block * 100 + e + 1,
+            })
+            .returning('id')
+            .executeTakeFirstOrThrow();
+          await db
+            .insertInto('observations')
+            .values({
+              trial_id: trial.id,
+              plot_id: plot.id,
+              trait_id: trait.id,
+              observed_on: '2026-07-01',
+              value: scores[e]![block - 1]!,
+            })
+            .execute();
+        }
+      }
+      if (n !== 6) throw new Error('unexpected plot count');
+      const roles = {
+        viewer: 'viewer',
+        contributor: 'contributor',
+        growerInSite: 'grower',
+        growerOtherSite: 'grower',
+        lead: 'lead',
+      } as const;
+      for (const [caller, role] of Object.entries(roles) as [keyof typeof roles, string][]) {
+        await db
+          .insertInto('trial_members')
+          .values({ trial_id: trial.id, user_id: w.users[caller].id, role: role as 'lead' })
+          .execute();
+      }
+      return 'matrix-analysis';
+    })();
+    analysisTrials.set(w, p);
+  }
+  return p;
+}
+
+async function weatherDay(w: MatrixWorld, date: string) {
+  await w.t.db
+    .insertInto('daily_weather')
+    .values({ trial_id: w.trial.id, site_id: w.siteA, observed_on: date, tmin_c: 14, tmax_c: 27 })
+    .onConflict((oc) => oc.columns(['site_id', 'observed_on']).doNothing())
+    .execute();
+}
+
+const signedIn = {
+  anonymous: 401,
+  viewer: 200,
+  contributor: 200,
+  growerInSite: 200,
+  growerOtherSite: 200,
+  lead: 200,
+  admin: 200,
+};
+
+export const rows: MatrixRow[] = [
+  {
+    method: 'GET',
+    route: '/api/trials/:slug/analysis',
+    request: async (w) => ({ url: `/api/trials/${await analysisTrial(w)}/analysis?trait=vigor` }),
+    expect: memberRead,
+  },
+  {
+    method: 'GET',
+    route: '/api/trials/:slug/ranking',
+    request: async (w) => ({ url: `/api/trials/${await analysisTrial(w)}/ranking?traits=vigor` }),
+    expect: memberRead,
+  },
+  {
+    method: 'GET',
+    route: '/api/trials/:slug/weather',
+    request: (w) => ({ url: `/api/trials/${w.trial.slug}/weather?siteId=${w.siteA}` }),
+    expect: memberRead,
+  },
+  {
+    method: 'PUT',
+    route: '/api/trials/:slug/weather/:siteId/:date',
+    request: (w) => ({
+      url: `/api/trials/${w.trial.slug}/weather/${w.siteA}/2026-06-02`,
+      body: { tminC: 12.5, tmaxC: 26, rainMm: 3 },
+    }),
+    expect: recordWrite(200),
+  },
+  {
+    method: 'DELETE',
+    route: '/api/trials/:slug/weather/:siteId/:date',
+    request: async (w) => {
+      await weatherDay(w, '2026-06-03');
+      return { url: `/api/trials/${w.trial.slug}/weather/${w.siteA}/2026-06-03` };
+    },
+    expect: recordWrite(204),
+  },
+  {
+    method: 'POST',
+    route: '/api/trials/:slug/weather/import',
+    request: (w) => ({
+      url: `/api/trials/${w.trial.slug}/weather/import`,
+      body: {
+        siteId: w.siteA,
+        csv: 'date,tmin,tmax,rain\n2026-06-04,13,25,0\n2026-06-05,15,29,4.2\n',
+        dryRun: false,
+      },
+    }),
+    expect: recordWrite(201),
+  },
+  {
+    method: 'GET',
+    route: '/api/trials/:slug/season',
+    request: (w) => ({ url: `/api/trials/${w.trial.slug}/season` }),
+    expect: memberRead,
+  },
+  {
+    method: 'POST',
+    route: '/api/analyze',
+    request: () => ({
+      url: '/api/analyze',
+      body: { csv: 'block,variety,value\n1,A,3\n1,B,5\n2,A,4\n2,B,6\n3,A,2\n3,B,5\n' },
+    }),
+    expect: signedIn,
+  },
+];
