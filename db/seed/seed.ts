@@ -3,6 +3,7 @@ import { hashPassword } from 'better-auth/crypto';
 import crypto from 'node:crypto';
 import type { DB } from '../database';
 import { demoAccounts, demoTrials, generateSeason } from './demo-season';
+import { generateDemoWeather } from './demo-weather';
 
 async function isEmpty(db: DB): Promise<boolean> {
   const row = await db
@@ -236,6 +237,24 @@ export async function seedDemo(db: DB): Promise<void> {
               note: e.note,
               created_by: grower(e.siteKey),
               updated_by: grower(e.siteKey),
+            })),
+          )
+          .execute();
+      }
+      // Invented daily weather for each site (rain matches the rainfall records).
+      for (const rows of chunk(generateDemoWeather(t, season.events))) {
+        await trx
+          .insertInto('daily_weather')
+          .values(
+            rows.map((w) => ({
+              trial_id: trial.id,
+              site_id: siteIds.get(w.siteKey)!,
+              observed_on: w.date,
+              tmin_c: w.tminC,
+              tmax_c: w.tmaxC,
+              rain_mm: w.rainMm,
+              source: 'demo' as const,
+              ...by,
             })),
           )
           .execute();
