@@ -80,3 +80,50 @@ export function formatYieldPerArea(gramsPerM2: number, system: UnitSystem): stri
   if (system === 'metric') return `${fmt((gramsPerM2 * M2_PER_HECTARE) / 1000, 0)} kg/ha`;
   return `${fmt((gramsPerM2 * M2_PER_ACRE) / G_PER_POUND, 0)} lb/acre`;
 }
+
+const perArea = (gPerM2: number) => (gPerM2 * M2_PER_ACRE) / G_PER_POUND;
+
+/**
+ * A stored (SI) value with its unit, for reading in the chosen system. Handles the units the
+ * analysis reports: g, g/plant, g/m, g/m², kg/ha, mm; anything else (counts, scores, days, %)
+ * passes through. Returns the converted number and its unit label.
+ */
+export function displayQuantity(
+  value: number,
+  unit: string,
+  system: UnitSystem,
+): { value: number; unit: string } {
+  if (system === 'metric') return { value, unit };
+  switch (unit) {
+    case 'g':
+      return { value: value / G_PER_OUNCE, unit: 'oz' };
+    case 'g/plant':
+      return { value: value / G_PER_OUNCE, unit: 'oz/plant' };
+    case 'g/m':
+      return { value: value / G_PER_OUNCE / (1000 / MM_PER_FOOT), unit: 'oz/ft' };
+    case 'g/m²':
+      return { value: perArea(value), unit: 'lb/acre' };
+    case 'kg/ha':
+      return { value: perArea(value / 10), unit: 'lb/acre' };
+    case 'mm':
+      return { value: value / MM_PER_INCH, unit: 'in' };
+    default:
+      return { value, unit };
+  }
+}
+
+/** The number and unit as text, with sensible digits. */
+export function formatQuantity(
+  value: number | null | undefined,
+  unit: string,
+  system: UnitSystem,
+  digits = 1,
+): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  const d = displayQuantity(value, unit, system);
+  const text = d.value.toLocaleString('en', {
+    maximumFractionDigits: digits,
+    minimumFractionDigits: digits,
+  });
+  return d.unit ? `${text} ${d.unit}` : text;
+}

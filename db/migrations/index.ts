@@ -10,6 +10,7 @@ import * as trialDesign from './2026-12-01T0200-trial-design';
 import * as records from './2026-12-01T0250-records';
 import * as dailyWeather from './2026-12-01T0300-daily-weather';
 import * as photoFiles from './2026-12-01T0400-photo-files';
+import * as results from './2026-12-01T0500-results';
 
 export const migrations: Record<string, Migration> = {
   '2026-12-01T0001-accounts': accounts,
@@ -19,4 +20,5 @@ export const migrations: Record<string, Migration> = {
   '2026-12-01T0250-records': records,
   '2026-12-01T0300-daily-weather': dailyWeather,
   '2026-12-01T0400-photo-files': photoFiles,
+  '2026-12-01T0500-results': results,
 };

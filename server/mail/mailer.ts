@@ -7,6 +7,8 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html: string;
+  /** Extra headers, e.g. List-Unsubscribe on follower mail. */
+  headers?: Record<string, string>;
 }
 
 export interface Mailer {

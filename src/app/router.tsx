@@ -15,6 +15,12 @@ export function appRoutes(_queryClient: QueryClient): RouteObject[] {
       children: [
         { index: true, lazy: () => import('@/features/trials/routes/trial-list-route') },
         { path: 't/:slug', lazy: () => import('@/features/trials/routes/trial-overview-route') },
+        { path: 't/:slug/results', lazy: () => import('@/features/results/routes/sheet-editor-route') },
+        { path: 't/:slug/compare', lazy: () => import('@/features/results/routes/comparison-route') },
+        { path: 'r/:slug', lazy: () => import('@/features/results/routes/public-sheet-route') },
+        { path: 'r/:slug/v/:version', lazy: () => import('@/features/results/routes/public-sheet-route') },
+        { path: 'r/:slug/follow', lazy: () => import('@/features/results/routes/follow-confirm-route') },
+        { path: 'unsubscribe', lazy: () => import('@/features/results/routes/unsubscribe-route') },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },

@@ -1,0 +1,202 @@
+/**
+ * The results sheet: the lead's draft, and the frozen snapshot each published version keeps.
+ * A published snapshot is what readers see, print and download; it never changes.
+ */
+import { z } from 'zod';
+import { analysisBases } from './analysis';
+import { entryTypes, traitDirections, trialDesigns } from './trials';
+
+export const licenses = ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'all-rights-reserved'] as const;
+export const licenseLabels: Record<(typeof licenses)[number], string> = {
+  'CC-BY-4.0': 'Creative Commons Attribution 4.0 (CC BY 4.0)',
+  'CC-BY-SA-4.0': 'Creative Commons Attribution-ShareAlike 4.0 (CC BY-SA 4.0)',
+  'CC0-1.0': 'Public domain dedication (CC0 1.0)',
+  'all-rights-reserved': 'All rights reserved',
+};
+
+const slug = z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.');
+export const resultSlugParams = z.object({ slug });
+export const resultVersionParams = z.object({
+  slug,
+  version: z.coerce.number().int('Versions are whole numbers.').min(1, 'Versions start at 1.'),
+});
+
+export const sheetTraitSchema = z.object({
+  key: z.string().regex(/^[a-z][a-z0-9_]{0,39}$/, 'Not a trait key.'),
+  basis: z.enum(analysisBases).default('plot'),
+  weight: z.number().min(0, 'Weights are 0 or more.').max(10, 'Weights are at most 10.').default(1),
+});
+export type SheetTrait = z.infer<typeof sheetTraitSchema>;
+
+/* PUT /api/trials/:slug/results-sheet */
+export const saveSheetBody = z.object({
+  summary: z.string().max(10_000, 'Keep the summary under 10,000 characters.'),
+  methods: z.string().max(10_000, 'Keep the methods under 10,000 characters.').nullable(),
+  traits: z
+    .array(sheetTraitSchema)
+    .min(1, 'Choose at least one trait.')
+    .max(20, 'At most 20 traits.'),
+  entryNotes: z.record(
+    z.uuid(),
+    z.string().max(2000, 'Keep each entry note under 2,000 characters.'),
+  ),
+  coverPhotos: z.record(z.uuid(), z.uuid()),
+  alpha: z.number().gt(0, 'Alpha is more than 0.').lt(0.5, 'Alpha is less than 0.5.'),
+  letters: z.enum(['hsd', 'lsd']),
+  license: z.enum(licenses),
+});
+export type SaveSheetBody = z.infer<typeof saveSheetBody>;
+
+export const sheetDraftSchema = saveSheetBody.extend({
+  generatedMethods: z.string(),
+  publishedVersion: z.number().int().nullable(),
+  isPublic: z.boolean(),
+});
+export type SheetDraft = z.infer<typeof sheetDraftSchema>;
+
+/* POST /api/trials/:slug/results-sheet/publish */
+export const publishBody = z.object({
+  changeNote: z
+    .string()
+    .trim()
+    .max(2000, 'Keep the change note under 2,000 characters.')
+    .default(''),
+});
+
+const anovaLine = z.object({
+  source: z.string(),
+  df: z.number(),
+  ss: z.number(),
+  ms: z.number().nullable(),
+  f: z.number().nullable(),
+  p: z.number().nullable(),
+  testedAgainst: z.string().nullable(),
+});
+const meanLine = z.object({
+  variety: z.string(),
+  n: z.number(),
+  mean: z.number(),
+  sd: z.number().nullable(),
+  se: z.number().nullable(),
+  rank: z.number(),
+  group: z.string(),
+});
+
+export const snapshotTraitSchema = z.object({
+  key: z.string(),
+  label: z.string(),
+  unit: z.string(),
+  quantityKind: z.string(),
+  basis: z.enum(analysisBases),
+  direction: z.enum(traitDirections),
+  weight: z.number(),
+  design: z.enum(trialDesigns),
+  n: z.number(),
+  grandMean: z.number(),
+  cvPercent: z.number().nullable(),
+  anova: z.array(anovaLine),
+  means: z.array(meanLine),
+  lsd: z.object({
+    value: z.number().nullable(),
+    df: z.number(),
+    t: z.number().nullable(),
+    protected: z.boolean().optional(),
+  }),
+  hsd: z.object({ value: z.number().nullable(), q: z.number().nullable() }),
+  warnings: z.array(z.string()),
+});
+export type SnapshotTrait = z.infer<typeof snapshotTraitSchema>;
+
+export const resultSnapshotSchema = z.object({
+  trial: z.object({
+    title: z.string(),
+    slug: z.string(),
+    crop: z.string(),
+    season: z.string(),
+    design: z.enum(trialDesigns),
+    description: z.string(),
+    sowingDate: z.string().nullable(),
+    transplantDate: z.string().nullable(),
+  }),
+  version: z.number().int(),
+  publishedAt: z.string(),
+  changeNote: z.string(),
+  alpha: z.number(),
+  letters: z.enum(['hsd', 'lsd']),
+  license: z.enum(licenses),
+  summary: z.string(),
+  methods: z.string(),
+  plotCount: z.number().int(),
+  sites: z.array(
+    z.object({
+      name: z.string(),
+      region: z.string(),
+      soilTexture: z.string().nullable(),
+      irrigationMethod: z.string().nullable(),
+      rainMm: z.number().nullable(),
+      irrigationMm: z.number().nullable(),
+      degreeDays: z.number().nullable(),
+      degreeDayBaseC: z.number().nullable(),
+      hotDays: z.number().nullable(),
+    }),
+  ),
+  entries: z.array(
+    z.object({
+      id: z.string(),
+      code: z.string(),
+      name: z.string(),
+      seedSource: z.string(),
+      entryType: z.enum(entryTypes),
+      note: z.string(),
+      caution: z.string().nullable(),
+      photo: z
+        .object({
+          id: z.string(),
+          caption: z.string(),
+          width: z.number().nullable(),
+          height: z.number().nullable(),
+        })
+        .nullable(),
+    }),
+  ),
+  traits: z.array(snapshotTraitSchema),
+  ranking: z.array(
+    z.object({
+      variety: z.string(),
+      rank: z.number(),
+      index: z.number(),
+      rankSum: z.number().nullable(),
+      contributions: z.record(z.string(), z.number()),
+    }),
+  ),
+  cautions: z.array(z.string()),
+  plotValues: z.array(
+    z.object({
+      trait: z.string(),
+      site: z.string().nullable(),
+      block: z.string().nullable(),
+      plot: z.string().nullable(),
+      variety: z.string(),
+      value: z.number(),
+    }),
+  ),
+});
+export type ResultSnapshot = z.infer<typeof resultSnapshotSchema>;
+
+export const versionListSchema = z.object({
+  title: z.string(),
+  versions: z.array(
+    z.object({ version: z.number(), publishedAt: z.string(), changeNote: z.string() }),
+  ),
+});
+
+/* POST /api/results/:slug/followers */
+export const followBody = z.object({
+  email: z
+    .email('Enter an e-mail address like name@example.org.')
+    .max(254)
+    .transform((e) => e.toLowerCase()),
+});
+export const followerTokenQuery = z.object({
+  token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, 'This link is not valid.'),
+});

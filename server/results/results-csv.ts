@@ -1,0 +1,59 @@
+import { stringify } from 'csv-stringify/sync';
+import type { ResultSnapshot } from '../../common/contracts/results';
+
+/** Entry means per trait, one row each, units in the header. */
+export function meansCsv(s: ResultSnapshot): string {
+  const rows = s.traits.flatMap((t) =>
+    t.means.map((m) => ({
+      trait: t.key,
+      unit: t.unit,
+      variety: m.variety,
+      n: m.n,
+      mean: m.mean,
+      se: m.se ?? '',
+      group: m.group,
+      rank: m.rank,
+      alpha: s.alpha,
+      version: s.version,
+      license: s.license,
+    })),
+  );
+  return stringify(rows, {
+    header: true,
+    columns: [
+      'trait',
+      'unit',
+      'variety',
+      'n',
+      'mean',
+      'se',
+      'group',
+      'rank',
+      'alpha',
+      'version',
+      'license',
+    ],
+  });
+}
+
+/**
+ * The plot values behind the published numbers, in the shape the analyze command reads
+ * (variety, site, block, plot, value): one file per trait re-imports to the same analysis.
+ */
+export function plotsCsv(s: ResultSnapshot, trait?: string): string {
+  const rows = s.plotValues
+    .filter((v) => !trait || v.trait === trait)
+    .map((v) => ({
+      trait: v.trait,
+      unit: s.traits.find((t) => t.key === v.trait)?.unit ?? '',
+      variety: v.variety,
+      site: v.site ?? '',
+      block: v.block ?? '',
+      plot: v.plot ?? '',
+      value: v.value,
+    }));
+  return stringify(rows, {
+    header: true,
+    columns: ['trait', 'unit', 'variety', 'site', 'block', 'plot', 'value'],
+  });
+}

@@ -1,0 +1,95 @@
+/** The published sheet as a PDF (A4 or US Letter), generated on the server with pdfkit. */
+import PDFDocument from 'pdfkit';
+import { licenseLabels, type ResultSnapshot } from '../../common/contracts/results';
+import { designLabels } from '../../common/contracts/trials';
+
+const fmt = (x: number | null | undefined, digits = 1) =>
+  x === null || x === undefined || !Number.isFinite(x)
+    ? '—'
+    : x.toLocaleString('en', { maximumFractionDigits: digits, minimumFractionDigits: digits });
+
+export function renderSheetPdf(s: ResultSnapshot, size: 'A4' | 'LETTER' = 'A4'): Promise<Buffer> {
+  const doc = new PDFDocument({
+    size,
+    margin: 50,
+    info: { Title: `${s.trial.title} — results, version ${s.version}`, Author: 'Rowtally' },
+  });
+  const chunks: Buffer[] = [];
+  doc.on('data', (c: Buffer) => chunks.push(c));
+  const done = new Promise<Buffer>((resolve) =>
+    doc.on('end', () => resolve(Buffer.concat(chunks))),
+  );
+
+  doc.font('Helvetica-Bold').fontSize(18).fillColor('#1b3822').text(s.trial.title);
+  doc
+    .font('Helvetica')
+    .fontSize(10)
+    .fillColor('#6b4f36')
+    .text(
+      `${s.trial.crop} · ${s.trial.season} · ${designLabels[s.trial.design]} · version ${s.version}, published ${s.publishedAt.slice(0, 10)}`,
+    );
+  if (s.changeNote) doc.text(`What changed: ${s.changeNote}`);
+  doc.moveDown();
+  doc.fillColor('#1f2a1c');
+  if (s.summary) doc.fontSize(11).text(s.summary).moveDown();
+
+  doc.font('Helvetica-Bold').fontSize(13).text('Ranking across traits');
+  doc.font('Helvetica').fontSize(10);
+  for (const r of s.ranking) doc.text(`${r.rank}. ${r.variety}   (index ${fmt(r.index, 2)})`);
+  doc.moveDown();
+
+  for (const t of s.traits) {
+    doc.font('Helvetica-Bold').fontSize(12).text(`${t.label} (${t.unit})`);
+    doc
+      .font('Helvetica')
+      .fontSize(9)
+      .fillColor('#6b4f36')
+      .text(
+        `Grand mean ${fmt(t.grandMean)} ${t.unit}; CV ${fmt(t.cvPercent)} %; ${s.letters === 'hsd' ? `Tukey HSD ${fmt(t.hsd.value)}` : `LSD ${fmt(t.lsd.value)}`} (α = ${s.alpha})`,
+      );
+    doc.fillColor('#1f2a1c').fontSize(10);
+    for (const m of t.means)
+      doc.text(`${m.rank}. ${m.variety}   ${fmt(m.mean)} ± ${fmt(m.se)}   ${m.group}`);
+    for (const w of t.warnings)
+      doc.fontSize(8).fillColor('#a8631a').text(w).fillColor('#1f2a1c').fontSize(10);
+    doc.moveDown(0.6);
+  }
+  doc
+    .fontSize(9)
+    .fillColor('#6b4f36')
+    .text('Means followed by the same letter are not significantly different.')
+    .moveDown();
+
+  doc.font('Helvetica-Bold').fontSize(12).fillColor('#1f2a1c').text('Methods');
+  doc.font('Helvetica').fontSize(10).text(s.methods).moveDown();
+  doc.font('Helvetica-Bold').fontSize(12).text('Growing conditions');
+  doc.font('Helvetica').fontSize(10);
+  for (const site of s.sites) {
+    const parts = [
+      site.region,
+      site.soilTexture,
+      site.irrigationMethod && `${site.irrigationMethod} irrigation`,
+      site.rainMm !== null && `rain ${fmt(site.rainMm, 0)} mm`,
+      site.irrigationMm !== null && `irrigation ${fmt(site.irrigationMm, 0)} mm`,
+      site.degreeDays !== null &&
+        `${fmt(site.degreeDays, 0)} degree days (base ${site.degreeDayBaseC} °C)`,
+      site.hotDays !== null && `${site.hotDays} hot days`,
+    ].filter(Boolean);
+    doc.text(`${site.name}: ${parts.join(', ')}`);
+  }
+  const notes = s.entries.filter((e) => e.note);
+  if (notes.length) {
+    doc.moveDown().font('Helvetica-Bold').fontSize(12).text('Entry notes');
+    doc.font('Helvetica').fontSize(10);
+    for (const e of notes) doc.text(`${e.name}: ${e.note}${e.caution ? ` (${e.caution})` : ''}`);
+  }
+  for (const c of s.cautions)
+    doc.moveDown(0.5).fontSize(9).fillColor('#b3261e').text(`Caution — ${c}`);
+  doc
+    .moveDown()
+    .fontSize(8)
+    .fillColor('#6b4f36')
+    .text(`Licence: ${licenseLabels[s.license]}. Published with Rowtally.`);
+  doc.end();
+  return done;
+}

@@ -1,0 +1,112 @@
+import { sql } from 'kysely';
+import type { DB } from '../../db/database';
+import type { ResultSnapshot, SaveSheetBody } from '../../common/contracts/results';
+
+export function findSheet(db: DB, trialId: string) {
+  return db
+    .selectFrom('results_sheets')
+    .selectAll()
+    .where('trial_id', '=', trialId)
+    .executeTakeFirst();
+}
+
+export async function upsertSheet(db: DB, trialId: string, body: SaveSheetBody, userId: string) {
+  const values = {
+    summary: body.summary,
+    methods: body.methods,
+    traits: JSON.stringify(body.traits),
+    entry_notes: JSON.stringify(body.entryNotes),
+    cover_photos: JSON.stringify(body.coverPhotos),
+    alpha: body.alpha,
+    letters: body.letters,
+    license: body.license,
+    updated_by: userId,
+  };
+  await db
+    .insertInto('results_sheets')
+    .values({ trial_id: trialId, ...values, created_by: userId })
+    .onConflict((oc) => oc.column('trial_id').doUpdateSet(values))
+    .execute();
+}
+
+export async function latestVersionNumber(db: DB, trialId: string): Promise<number> {
+  const row = await db
+    .selectFrom('result_versions')
+    .select(sql<number>`coalesce(max(version), 0)::int`.as('v'))
+    .where('trial_id', '=', trialId)
+    .executeTakeFirstOrThrow();
+  return row.v;
+}
+
+export function insertVersion(
+  db: DB,
+  row: {
+    trialId: string;
+    version: number;
+    changeNote: string;
+    snapshot: ResultSnapshot;
+    userId: string;
+  },
+) {
+  return db
+    .insertInto('result_versions')
+    .values({
+      trial_id: row.trialId,
+      version: row.version,
+      change_note: row.changeNote,
+      snapshot: JSON.stringify(row.snapshot),
+      published_by: row.userId,
+    })
+    .returning(['id', 'version', 'published_at'])
+    .executeTakeFirstOrThrow();
+}
+
+export function findVersion(db: DB, trialId: string, version: number) {
+  return db
+    .selectFrom('result_versions')
+    .select(['version', 'snapshot', 'published_at', 'change_note'])
+    .where('trial_id', '=', trialId)
+    .where('version', '=', version)
+    .executeTakeFirst();
+}
+
+export function listVersions(db: DB, trialId: string) {
+  return db
+    .selectFrom('result_versions')
+    .select(['version', 'published_at', 'change_note'])
+    .where('trial_id', '=', trialId)
+    .orderBy('version', 'desc')
+    .execute();
+}
+
+export function setTrialStatus(
+  db: DB,
+  trialId: string,
+  status: 'published' | 'closed',
+  userId: string,
+) {
+  return db
+    .updateTable('trials')
+    .set({ status, updated_by: userId })
+    .where('id', '=', trialId)
+    .execute();
+}
+
+export function findFollower(db: DB, trialId: string, email: string) {
+  return db
+    .selectFrom('result_followers')
+    .selectAll()
+    .where('trial_id', '=', trialId)
+    .where('email', '=', email)
+    .executeTakeFirst();
+}
+
+export function confirmedFollowers(db: DB, trialId: string) {
+  return db
+    .selectFrom('result_followers')
+    .select(['id', 'email', 'unsubscribe_token'])
+    .where('trial_id', '=', trialId)
+    .where('confirmed_at', 'is not', null)
+    .where('unsubscribed_at', 'is', null)
+    .execute();
+}

@@ -1,0 +1,176 @@
+import { Router } from 'express';
+import {
+  followBody,
+  followerTokenQuery,
+  publishBody,
+  resultSlugParams,
+  resultVersionParams,
+  saveSheetBody,
+} from '../../common/contracts/results';
+import { trialSlugParams } from '../../common/contracts/trials';
+import type { AppDeps } from '../app';
+import { actorOf } from '../auth/actor';
+import { endpoint } from '../lib/endpoint';
+import { meansCsv, plotsCsv } from './results-csv';
+import { renderSheetPdf } from './results-pdf';
+import * as service from './results-service';
+import { z } from 'zod';
+
+type Deps = Pick<AppDeps, 'db' | 'logger'> & {
+  mailer: service.ResultsDeps['mailer'];
+  baseUrl: string;
+};
+
+const resultsDeps = (deps: Deps): service.ResultsDeps => ({
+  db: deps.db,
+  mailer: deps.mailer,
+  baseUrl: deps.baseUrl,
+  log: deps.logger,
+});
+
+/** The lead's side, under /api/trials/:slug/results-sheet. */
+export function resultsSheetRouter(deps: Deps) {
+  const r = resultsDeps(deps);
+  const router = Router({ mergeParams: true });
+  router.get(
+    '/',
+    endpoint({ params: trialSlugParams }, async ({ params }, _req, res) => {
+      res.json(await service.getDraft(r, params.slug, actorOf(res)));
+    }),
+  );
+  router.put(
+    '/',
+    endpoint(
+      { params: trialSlugParams, body: saveSheetBody },
+      async ({ params, body }, _req, res) => {
+        res.json(await service.saveDraft(r, params.slug, actorOf(res), body));
+      },
+    ),
+  );
+  router.get(
+    '/preview',
+    endpoint({ params: trialSlugParams }, async ({ params }, _req, res) => {
+      res.json(await service.preview(r, params.slug, actorOf(res)));
+    }),
+  );
+  router.post(
+    '/publish',
+    endpoint(
+      { params: trialSlugParams, body: publishBody },
+      async ({ params, body }, _req, res) => {
+        res.status(201).json(await service.publish(r, params.slug, actorOf(res), body.changeNote));
+      },
+    ),
+  );
+  router.post(
+    '/unpublish',
+    endpoint({ params: trialSlugParams }, async ({ params }, _req, res) => {
+      await service.unpublish(r, params.slug, actorOf(res));
+      res.status(204).end();
+    }),
+  );
+  return router;
+}
+
+const downloadQuery = z.object({
+  size: z.enum(['a4', 'letter']).default('a4'),
+  trait: z.string().optional(),
+});
+
+/** Public reading, downloads and following, under /api/results. Anyone may call these. */
+export function publicResultsRouter(deps: Deps) {
+  const r = resultsDeps(deps);
+  const router = Router();
+  const cache = (res: import('express').Response) =>
+    res.setHeader('Cache-Control', 'public, max-age=300');
+
+  router.post(
+    '/unsubscribe',
+    endpoint({ query: followerTokenQuery }, async ({ query }, _req, res) => {
+      res.json(await service.unsubscribe(deps.db, query.token));
+    }),
+  );
+  router.post(
+    '/followers/confirm',
+    endpoint({ body: followerTokenQuery }, async ({ body }, _req, res) => {
+      res.json(await service.confirmFollow(deps.db, body.token));
+    }),
+  );
+  router.get(
+    '/:slug',
+    endpoint({ params: resultSlugParams }, async ({ params }, _req, res) => {
+      cache(res);
+      res.json(await service.publicVersion(deps.db, params.slug));
+    }),
+  );
+  router.get(
+    '/:slug/versions',
+    endpoint({ params: resultSlugParams }, async ({ params }, _req, res) => {
+      cache(res);
+      res.json(await service.publicVersions(deps.db, params.slug));
+    }),
+  );
+  router.post(
+    '/:slug/followers',
+    endpoint(
+      { params: resultSlugParams, body: followBody },
+      async ({ params, body }, _req, res) => {
+        await service.follow(r, params.slug, body.email);
+        res
+          .status(202)
+          .json({ message: 'If the address can receive mail, a confirmation link is on its way.' });
+      },
+    ),
+  );
+  router.get(
+    '/:slug/v/:version',
+    endpoint({ params: resultVersionParams }, async ({ params }, _req, res) => {
+      cache(res);
+      res.json(await service.publicVersion(deps.db, params.slug, params.version));
+    }),
+  );
+  router.get(
+    '/:slug/v/:version/results.json',
+    endpoint({ params: resultVersionParams }, async ({ params }, _req, res) => {
+      const s = await service.publicVersion(deps.db, params.slug, params.version);
+      res
+        .attachment(`${s.trial.slug}-v${s.version}.json`)
+        .type('application/json')
+        .send(JSON.stringify(s, null, 2));
+    }),
+  );
+  router.get(
+    '/:slug/v/:version/means.csv',
+    endpoint({ params: resultVersionParams }, async ({ params }, _req, res) => {
+      const s = await service.publicVersion(deps.db, params.slug, params.version);
+      res.attachment(`${s.trial.slug}-v${s.version}-means.csv`).type('text/csv').send(meansCsv(s));
+    }),
+  );
+  router.get(
+    '/:slug/v/:version/plots.csv',
+    endpoint(
+      { params: resultVersionParams, query: downloadQuery },
+      async ({ params, query }, _req, res) => {
+        const s = await service.publicVersion(deps.db, params.slug, params.version);
+        res
+          .attachment(
+            `${s.trial.slug}-v${s.version}-plots${query.trait ? `-${query.trait}` : ''}.csv`,
+          )
+          .type('text/csv')
+          .send(plotsCsv(s, query.trait));
+      },
+    ),
+  );
+  router.get(
+    '/:slug/v/:version/sheet.pdf',
+    endpoint(
+      { params: resultVersionParams, query: downloadQuery },
+      async ({ params, query }, _req, res) => {
+        const s = await service.publicVersion(deps.db, params.slug, params.version);
+        const pdf = await renderSheetPdf(s, query.size === 'letter' ? 'LETTER' : 'A4');
+        res.attachment(`${s.trial.slug}-v${s.version}.pdf`).type('application/pdf').send(pdf);
+      },
+    ),
+  );
+  return router;
+}

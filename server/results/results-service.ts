@@ -1,0 +1,332 @@
+import type { Actor } from '../../common/policy';
+import {
+  type ResultSnapshot,
+  resultSnapshotSchema,
+  type SaveSheetBody,
+  type SheetDraft,
+} from '../../common/contracts/results';
+import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
+import { AppError } from '../lib/app-error';
+import { composeMail, type Mailer } from '../mail/mailer';
+import { trialForAction } from '../trials/trials-service';
+import { findTrialBySlug } from '../trials/trials-repository';
+import { hashToken, newToken } from './follower-tokens';
+import * as repo from './results-repository';
+import { buildSnapshot, defaultSheet, generatedMethods } from './snapshot';
+
+export interface ResultsDeps {
+  db: DB;
+  mailer: Mailer;
+  baseUrl: string;
+  log: { error: (obj: object, msg: string) => void };
+}
+
+function sheetFrom(
+  row: Awaited<ReturnType<typeof repo.findSheet>>,
+  fallback: SaveSheetBody,
+): SaveSheetBody {
+  if (!row) return fallback;
+  return {
+    summary: row.summary,
+    methods: row.methods,
+    traits: row.traits as SaveSheetBody['traits'],
+    entryNotes: row.entry_notes as SaveSheetBody['entryNotes'],
+    coverPhotos: row.cover_photos as SaveSheetBody['coverPhotos'],
+    alpha: row.alpha,
+    letters: row.letters,
+    license: row.license as SaveSheetBody['license'],
+  };
+}
+
+export async function getDraft(
+  deps: ResultsDeps,
+  slug: string,
+  actor: Actor | null,
+): Promise<SheetDraft> {
+  const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
+  const sheet = sheetFrom(
+    await repo.findSheet(deps.db, trial.id),
+    await defaultSheet(deps.db, trial),
+  );
+  const latest = await repo.latestVersionNumber(deps.db, trial.id);
+  return {
+    ...sheet,
+    generatedMethods: await generatedMethods(deps.db, trial, sheet),
+    publishedVersion: latest || null,
+    isPublic: trial.status === 'published',
+  };
+}
+
+export async function saveDraft(
+  deps: ResultsDeps,
+  slug: string,
+  actor: Actor | null,
+  body: SaveSheetBody,
+) {
+  const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
+  await assertSheetRefersToTrial(deps.db, trial, body);
+  await repo.upsertSheet(deps.db, trial.id, body, actor!.userId);
+  return getDraft(deps, slug, actor);
+}
+
+async function assertSheetRefersToTrial(db: DB, trial: Trial, body: SaveSheetBody) {
+  const [traits, entries, photos] = await Promise.all([
+    db.selectFrom('traits').select('key').where('trial_id', '=', trial.id).execute(),
+    db.selectFrom('entries').select('id').where('trial_id', '=', trial.id).execute(),
+    db
+      .selectFrom('photos')
+      .select(['id', 'entry_id'])
+      .where('trial_id', '=', trial.id)
+      .where('deleted_at', 'is', null)
+      .execute(),
+  ]);
+  const traitKeys = new Set(traits.map((t) => t.key));
+  const entryIds = new Set(entries.map((e) => e.id));
+  const fields: { path: string; message: string }[] = [];
+  body.traits.forEach((t, i) => {
+    if (!traitKeys.has(t.key))
+      fields.push({ path: `body.traits.${i}.key`, message: `The trial has no trait "${t.key}".` });
+  });
+  if (new Set(body.traits.map((t) => t.key)).size !== body.traits.length) {
+    fields.push({ path: 'body.traits', message: 'Each trait may appear once.' });
+  }
+  for (const id of Object.keys(body.entryNotes)) {
+    if (!entryIds.has(id))
+      fields.push({ path: `body.entryNotes.${id}`, message: 'Not an entry of this trial.' });
+  }
+  const photoEntry = new Map(photos.map((p) => [p.id, p.entry_id]));
+  for (const [entryId, photoId] of Object.entries(body.coverPhotos)) {
+    if (!entryIds.has(entryId))
+      fields.push({ path: `body.coverPhotos.${entryId}`, message: 'Not an entry of this trial.' });
+    else if (photoEntry.get(photoId) !== entryId)
+      fields.push({
+        path: `body.coverPhotos.${entryId}`,
+        message: "That photo is not one of this entry's photos.",
+      });
+  }
+  if (fields.length) throw new AppError('validation_failed', fields[0]!.message, { fields });
+}
+
+export async function preview(
+  deps: ResultsDeps,
+  slug: string,
+  actor: Actor | null,
+): Promise<ResultSnapshot> {
+  const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
+  const sheet = sheetFrom(
+    await repo.findSheet(deps.db, trial.id),
+    await defaultSheet(deps.db, trial),
+  );
+  const next = (await repo.latestVersionNumber(deps.db, trial.id)) + 1;
+  return buildSnapshot(deps.db, trial, actor, sheet, {
+    version: next,
+    changeNote: '',
+    publishedAt: new Date().toISOString(),
+  });
+}
+
+/**
+ * Freezes a new version. The number is taken under a lock on the trial row so two publishes
+ * at once cannot both become "version 2".
+ */
+export async function publish(
+  deps: ResultsDeps,
+  slug: string,
+  actor: Actor | null,
+  changeNote: string,
+) {
+  const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
+  const published = await deps.db.transaction().execute(async (trx) => {
+    await trx
+      .selectFrom('trials')
+      .select('id')
+      .where('id', '=', trial.id)
+      .forUpdate()
+      .executeTakeFirstOrThrow();
+    const version = (await repo.latestVersionNumber(trx, trial.id)) + 1;
+    if (version > 1 && !changeNote) {
+      throw new AppError('validation_failed', 'Say what changed since the last version.', {
+        fields: [{ path: 'body.changeNote', message: 'Say what changed since the last version.' }],
+      });
+    }
+    const sheet = sheetFrom(await repo.findSheet(trx, trial.id), await defaultSheet(trx, trial));
+    const snapshot = await buildSnapshot(trx, trial, actor, sheet, {
+      version,
+      changeNote,
+      publishedAt: new Date().toISOString(),
+    });
+    const row = await repo.insertVersion(trx, {
+      trialId: trial.id,
+      version,
+      changeNote,
+      snapshot,
+      userId: actor!.userId,
+    });
+    await repo.setTrialStatus(trx, trial.id, 'published', actor!.userId);
+    return { version: row.version, snapshot };
+  });
+  await notifyFollowers(deps, trial, published.version, changeNote);
+  return { version: published.version, url: `${deps.baseUrl}/r/${trial.slug}` };
+}
+
+export async function unpublish(deps: ResultsDeps, slug: string, actor: Actor | null) {
+  const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
+  if (trial.status !== 'published')
+    throw new AppError('conflict', 'The results sheet is not published.');
+  await repo.setTrialStatus(deps.db, trial.id, 'closed', actor!.userId);
+}
+
+/** The public side: a published trial's versions. Unpublished (or never published) is 404. */
+async function publishedTrial(db: DB, slug: string): Promise<Trial> {
+  const trial = await findTrialBySlug(db, slug);
+  if (!trial || trial.status !== 'published') throw AppError.notFound('The results sheet');
+  return trial;
+}
+
+export async function publicVersion(
+  db: DB,
+  slug: string,
+  version?: number,
+): Promise<ResultSnapshot> {
+  const trial = await publishedTrial(db, slug);
+  const number = version ?? (await repo.latestVersionNumber(db, trial.id));
+  const row = await repo.findVersion(db, trial.id, number);
+  if (!row) throw AppError.notFound(`Version ${number} of the results sheet`);
+  const parsed = resultSnapshotSchema.safeParse(row.snapshot);
+  if (!parsed.success)
+    throw new AppError('internal', 'This version of the results sheet could not be read.');
+  return parsed.data;
+}
+
+export async function publicVersions(db: DB, slug: string) {
+  const trial = await publishedTrial(db, slug);
+  const rows = await repo.listVersions(db, trial.id);
+  return {
+    title: trial.title,
+    versions: rows.map((r) => ({
+      version: r.version,
+      publishedAt: r.published_at.toISOString(),
+      changeNote: r.change_note,
+    })),
+  };
+}
+
+/* Followers: double opt-in, one-click unsubscribe. */
+
+export async function follow(deps: ResultsDeps, slug: string, email: string) {
+  const trial = await publishedTrial(deps.db, slug);
+  const confirm = newToken();
+  const existing = await repo.findFollower(deps.db, trial.id, email);
+  // The same answer whether or not the address already follows, so the form reveals nothing.
+  if (existing?.confirmed_at && !existing.unsubscribed_at) return;
+  if (existing) {
+    await deps.db
+      .updateTable('result_followers')
+      .set({ confirm_token_hash: confirm.hash, confirmed_at: null, unsubscribed_at: null })
+      .where('id', '=', existing.id)
+      .execute();
+  } else {
+    await deps.db
+      .insertInto('result_followers')
+      .values({
+        trial_id: trial.id,
+        email,
+        confirm_token_hash: confirm.hash,
+        unsubscribe_token: newToken().token,
+      })
+      .execute();
+  }
+  await deps.mailer.send(
+    composeMail({
+      to: email,
+      subject: `Confirm: follow the results of ${trial.title}`,
+      lines: [
+        `Someone (we hope you) asked to be told by e-mail when new results of "${trial.title}" are published on Rowtally.`,
+        'Nothing will be sent until you confirm. If it was not you, ignore this message.',
+      ],
+      action: {
+        label: 'Confirm and follow',
+        url: `${deps.baseUrl}/r/${trial.slug}/follow?token=${confirm.token}`,
+      },
+    }),
+  );
+}
+
+export async function confirmFollow(db: DB, token: string) {
+  const row = await db
+    .updateTable('result_followers')
+    .set({ confirmed_at: new Date() })
+    .where('confirm_token_hash', '=', hashToken(token))
+    .where('unsubscribed_at', 'is', null)
+    .returning(['trial_id', 'email'])
+    .executeTakeFirst();
+  if (!row)
+    throw new AppError(
+      'not_found',
+      'This confirmation link is not valid any more. Ask for a new one from the results page.',
+    );
+  const trial = await db
+    .selectFrom('trials')
+    .select(['title', 'slug'])
+    .where('id', '=', row.trial_id)
+    .executeTakeFirstOrThrow();
+  return { title: trial.title, slug: trial.slug, email: row.email };
+}
+
+export async function unsubscribe(db: DB, token: string) {
+  const row = await db
+    .updateTable('result_followers')
+    .set({ unsubscribed_at: new Date() })
+    .where('unsubscribe_token', '=', token)
+    .returning(['trial_id', 'email'])
+    .executeTakeFirst();
+  if (!row) throw new AppError('not_found', 'This unsubscribe link is not valid.');
+  const trial = await db
+    .selectFrom('trials')
+    .select(['title', 'slug'])
+    .where('id', '=', row.trial_id)
+    .executeTakeFirstOrThrow();
+  return { title: trial.title, slug: trial.slug, email: row.email };
+}
+
+async function notifyFollowers(
+  deps: ResultsDeps,
+  trial: Trial,
+  version: number,
+  changeNote: string,
+) {
+  const followers = await repo.confirmedFollowers(deps.db, trial.id);
+  for (const f of followers) {
+    const unsubscribeUrl = `${deps.baseUrl}/api/results/unsubscribe?token=${f.unsubscribe_token}`;
+    const unsubscribePage = `${deps.baseUrl}/unsubscribe?token=${f.unsubscribe_token}`;
+    const mail = composeMail({
+      to: f.email,
+      subject:
+        version === 1
+          ? `Results published: ${trial.title}`
+          : `Results updated (version ${version}): ${trial.title}`,
+      lines: [
+        version === 1
+          ? `The results of "${trial.title}" are published.`
+          : `Version ${version} of the results of "${trial.title}" is published.`,
+        ...(changeNote ? [`What changed: ${changeNote}`] : []),
+        `To stop these messages, open: ${unsubscribePage}`,
+      ],
+      action: { label: 'Read the results', url: `${deps.baseUrl}/r/${trial.slug}/v/${version}` },
+    });
+    // One-click unsubscribe in mail clients that offer it (RFC 8058).
+    const withHeaders = {
+      ...mail,
+      headers: {
+        'List-Unsubscribe': `<${unsubscribeUrl}>`,
+        'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click',
+      },
+    };
+    await deps.mailer
+      .send(withHeaders)
+      .catch((err: unknown) =>
+        deps.log.error({ err, to: f.email }, 'follower mail failed after retries'),
+      );
+  }
+}

@@ -1,0 +1,237 @@
+/**
+ * Builds the frozen snapshot a published version keeps: the numbers the analysis gives today,
+ * the lead's text, the chosen photos, the growing conditions. Nothing here is recomputed later:
+ * readers always see exactly what was published.
+ */
+import { designLabels } from '../../common/contracts/trials';
+import type { ResultSnapshot, SaveSheetBody, SnapshotTrait } from '../../common/contracts/results';
+import { cautions, isSpinyCrop } from '../../common/cautions';
+import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
+import type { Actor } from '../../common/policy';
+import { analyzeForSheet, rankForSheet, seasonForSheet } from './sheet-analysis';
+
+const spinyTraitKeys = ['spines'];
+
+export async function defaultSheet(db: DB, trial: Trial): Promise<SaveSheetBody> {
+  const traits = await db
+    .selectFrom('traits')
+    .select(['key', 'direction'])
+    .where('trial_id', '=', trial.id)
+    .orderBy('sort_order')
+    .execute();
+  return {
+    summary: '',
+    methods: null,
+    traits: traits
+      .filter((t) => t.direction !== 'none')
+      .map((t) => ({ key: t.key, basis: 'plot' as const, weight: 1 })),
+    entryNotes: {},
+    coverPhotos: {},
+    alpha: 0.05,
+    letters: 'hsd',
+    license: 'CC-BY-4.0',
+  };
+}
+
+const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
+
+/** A methods paragraph from the trial itself; the lead may replace it with their own words. */
+export async function generatedMethods(
+  db: DB,
+  trial: Trial,
+  sheet: SaveSheetBody,
+): Promise<string> {
+  const [sites, entries, plots] = await Promise.all([
+    db
+      .selectFrom('sites')
+      .select(['name', 'region', 'soil_texture', 'irrigation_method'])
+      .where('trial_id', '=', trial.id)
+      .orderBy('name')
+      .execute(),
+    db
+      .selectFrom('entries')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('trial_id', '=', trial.id)
+      .executeTakeFirstOrThrow(),
+    db
+      .selectFrom('plots')
+      .select([(eb) => eb.fn.countAll<number>().as('n'), (eb) => eb.fn.max('block').as('blocks')])
+      .where('trial_id', '=', trial.id)
+      .executeTakeFirstOrThrow(),
+  ]);
+  const siteText = sites
+    .map(
+      (s) =>
+        `${s.name} (${[s.region, s.soil_texture, s.irrigation_method ? `${s.irrigation_method} irrigation` : null].filter(Boolean).join(', ')})`,
+    )
+    .join('; ');
+  const fertilizer =
+    trial.fertilizer_policy === 'none_applied'
+      ? 'No fertilizer was applied.'
+      : trial.fertilizer_policy === 'per_entry'
+        ? 'Some entries received no fertilizer, as marked; the others as recorded in the field log.'
+        : 'Fertilizer and amendments were applied as recorded in the field log.';
+  const dates = [
+    trial.sowing_date ? `sown ${trial.sowing_date}` : null,
+    trial.transplant_date ? `transplanted ${trial.transplant_date}` : null,
+  ]
+    .filter(Boolean)
+    .join(', ');
+  const test =
+    sheet.letters === 'hsd'
+      ? "Tukey's honestly significant difference"
+      : "Fisher's least significant difference";
+  return [
+    `${Number(entries.n)} entries of ${trial.crop.toLowerCase()} were compared in a ${designLabels[trial.design].toLowerCase()} design` +
+      (trial.design === 'crd'
+        ? ''
+        : ` with ${plural(Number(plots.blocks ?? 0), 'block')}${trial.design === 'multisite' ? ' at each site' : ''}`) +
+      `, ${plural(Number(plots.n), 'plot')} in all, in the ${trial.season} season${dates ? ` (${dates})` : ''}.`,
+    sites.length ? `${sites.length === 1 ? 'Site' : 'Sites'}: ${siteText}.` : '',
+    fertilizer,
+    `Plot values were analysed by analysis of variance (sequential sums of squares${trial.design === 'multisite' ? '; entries tested against the site × entry interaction' : ''}); means were separated by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`,
+  ]
+    .filter(Boolean)
+    .join(' ');
+}
+
+export async function buildSnapshot(
+  db: DB,
+  trial: Trial,
+  actor: Actor | null,
+  sheet: SaveSheetBody,
+  meta: { version: number; changeNote: string; publishedAt: string },
+): Promise<ResultSnapshot> {
+  const [sites, entries, traitRows, plotCount, photos] = await Promise.all([
+    db.selectFrom('sites').selectAll().where('trial_id', '=', trial.id).orderBy('name').execute(),
+    db.selectFrom('entries').selectAll().where('trial_id', '=', trial.id).orderBy('code').execute(),
+    db.selectFrom('traits').selectAll().where('trial_id', '=', trial.id).execute(),
+    db
+      .selectFrom('plots')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('trial_id', '=', trial.id)
+      .executeTakeFirstOrThrow(),
+    db
+      .selectFrom('photos')
+      .select(['id', 'entry_id', 'caption', 'display_width', 'display_height', 'is_cover'])
+      .where('trial_id', '=', trial.id)
+      .where('deleted_at', 'is', null)
+      .execute(),
+  ]);
+  const traitByKey = new Map(traitRows.map((t) => [t.key, t]));
+
+  const traits: SnapshotTrait[] = [];
+  const plotValues: ResultSnapshot['plotValues'] = [];
+  for (const choice of sheet.traits) {
+    const trait = traitByKey.get(choice.key);
+    if (!trait) continue;
+    const result = await analyzeForSheet(db, trial, actor, {
+      trait: trait.key,
+      basis: choice.basis,
+      alpha: sheet.alpha,
+      letters: sheet.letters,
+    });
+    if (!result) continue;
+    traits.push({
+      key: trait.key,
+      label: trait.label,
+      unit: result.unit,
+      quantityKind: trait.quantity_kind,
+      basis: choice.basis,
+      direction: trait.direction,
+      weight: choice.weight,
+      design: result.design,
+      n: result.n,
+      grandMean: result.grandMean,
+      cvPercent: Number.isFinite(result.cvPercent) ? result.cvPercent : null,
+      anova: result.anova,
+      means: result.means.map((m) => ({
+        variety: m.variety,
+        n: m.n,
+        mean: m.mean,
+        sd: m.sd,
+        se: m.se,
+        rank: m.rank,
+        group: m.group,
+      })),
+      lsd: result.lsd,
+      hsd: result.hsd,
+      warnings: result.warnings,
+    });
+    for (const v of result.plotValues) plotValues.push({ trait: trait.key, ...v });
+  }
+
+  const ranking = rankForSheet(traits);
+  const conditions = await seasonForSheet(db, trial, actor);
+  const photoById = new Map(photos.map((p) => [p.id, p]));
+  const crop = trial.crop;
+  const hasSpines = traitRows.some((t) => spinyTraitKeys.includes(t.key)) || isSpinyCrop(crop);
+  const spiny = cautions['spiny-crop'];
+
+  return {
+    trial: {
+      title: trial.title,
+      slug: trial.slug,
+      crop: trial.crop,
+      season: trial.season,
+      design: trial.design,
+      description: trial.description,
+      sowingDate: trial.sowing_date,
+      transplantDate: trial.transplant_date,
+    },
+    version: meta.version,
+    publishedAt: meta.publishedAt,
+    changeNote: meta.changeNote,
+    alpha: sheet.alpha,
+    letters: sheet.letters,
+    license: sheet.license,
+    summary: sheet.summary,
+    methods: sheet.methods ?? (await generatedMethods(db, trial, sheet)),
+    plotCount: Number(plotCount.n),
+    // Town or region only: a volunteer's garden is never located more closely on a public page.
+    sites: sites.map((s) => {
+      const c = conditions.get(s.id);
+      return {
+        name: s.name,
+        region: s.region,
+        soilTexture: s.soil_texture,
+        irrigationMethod: s.irrigation_method,
+        rainMm: c?.rainMm ?? null,
+        irrigationMm: c?.irrigationMm ?? null,
+        degreeDays: c?.degreeDays ?? null,
+        degreeDayBaseC: c?.degreeDayBaseC ?? null,
+        hotDays: c?.hotDays ?? null,
+      };
+    }),
+    entries: entries.map((e) => {
+      const note = sheet.entryNotes[e.id] ?? '';
+      // The sheet's own choice, else the cover the lead marked in the gallery.
+      const photoId =
+        sheet.coverPhotos[e.id] ?? photos.find((p) => p.entry_id === e.id && p.is_cover)?.id;
+      const photo = photoId ? photoById.get(photoId) : undefined;
+      const mentionsIrritation = /spine|spiny|itch|irritat|prickl/i.test(note);
+      return {
+        id: e.id,
+        code: e.code,
+        name: e.name,
+        seedSource: e.seed_source,
+        entryType: e.entry_type,
+        note,
+        caution: mentionsIrritation ? `${spiny.title}: ${spiny.points[0]}` : null,
+        photo: photo
+          ? {
+              id: photo.id,
+              caption: photo.caption,
+              width: photo.display_width,
+              height: photo.display_height,
+            }
+          : null,
+      };
+    }),
+    traits,
+    ranking,
+    cautions: hasSpines ? [`${spiny.title}: ${spiny.points.join(' ')}`] : [],
+    plotValues,
+  };
+}

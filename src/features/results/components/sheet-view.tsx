@@ -1,0 +1,268 @@
+import { licenseLabels, type ResultSnapshot } from '@common/contracts/results';
+import { designLabels } from '@common/contracts/trials';
+import { formatDepth, formatQuantity } from '@common/units';
+import { useUnitSystem } from '@/lib/session';
+
+const directionText = {
+  higher: 'higher is better',
+  lower: 'lower is better',
+  none: 'no preference',
+} as const;
+
+function photoUrl(s: ResultSnapshot, photoId: string, variant: 'thumb' | 'display') {
+  return `/api/results/${s.trial.slug}/v/${s.version}/photos/${photoId}/${variant}`;
+}
+
+/** The results sheet as readers see it; the lead's preview uses the same view. */
+export function SheetView({
+  sheet,
+  preview = false,
+}: {
+  sheet: ResultSnapshot;
+  preview?: boolean;
+}) {
+  const units = useUnitSystem();
+  const photos = sheet.entries.filter((e) => e.photo);
+  return (
+    <article className="sheet mx-auto max-w-4xl">
+      <header>
+        <p className="text-sm uppercase tracking-wide text-loam-700">
+          {sheet.trial.crop} · {sheet.trial.season} · {designLabels[sheet.trial.design]}
+        </p>
+        <h1 className="mt-1 text-3xl font-semibold text-leaf-900">{sheet.trial.title}</h1>
+        <p className="mt-1 text-sm text-loam-700">
+          {preview
+            ? `Preview of version ${sheet.version}`
+            : `Version ${sheet.version}, published ${sheet.publishedAt.slice(0, 10)}`}{' '}
+          · {sheet.plotCount} plots
+        </p>
+        {sheet.changeNote ? (
+          <p className="mt-2 rounded bg-straw-200 p-2 text-sm">What changed: {sheet.changeNote}</p>
+        ) : null}
+        {sheet.summary ? <p className="mt-3 whitespace-pre-line text-lg">{sheet.summary}</p> : null}
+      </header>
+
+      {sheet.cautions.map((c) => (
+        <aside
+          key={c}
+          role="note"
+          className="mt-4 rounded-lg border-l-4 border-frost-600 bg-white p-3 text-sm"
+        >
+          <strong>Caution.</strong> {c}
+        </aside>
+      ))}
+
+      <section aria-labelledby="ranking-heading" className="mt-6">
+        <h2 id="ranking-heading" className="text-xl font-semibold text-leaf-900">
+          Ranking
+        </h2>
+        <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+          <table className="w-full min-w-[20rem] text-left text-sm">
+            <caption className="sr-only">
+              Entries ranked by the weighted index across the chosen traits
+            </caption>
+            <thead className="bg-leaf-50">
+              <tr>
+                <th scope="col" className="p-2">
+                  Rank
+                </th>
+                <th scope="col" className="p-2">
+                  Variety
+                </th>
+                <th scope="col" className="p-2 text-right">
+                  Index
+                </th>
+                {sheet.traits.map((t) => (
+                  <th key={t.key} scope="col" className="p-2 text-right">
+                    {t.label}
+                  </th>
+                ))}
+              </tr>
+            </thead>
+            <tbody>
+              {sheet.ranking.map((r) => (
+                <tr key={r.variety} className="border-t border-leaf-50">
+                  <td className="p-2 font-semibold">{r.rank}</td>
+                  <th scope="row" className="p-2 font-medium">
+                    {r.variety}
+                  </th>
+                  <td className="p-2 text-right tabular-nums">{r.index.toFixed(2)}</td>
+                  {sheet.traits.map((t) => {
+                    const m = t.means.find((x) => x.variety === r.variety);
+                    return (
+                      <td key={t.key} className="p-2 text-right tabular-nums">
+                        {m ? `${formatQuantity(m.mean, t.unit, units)} ${m.group}` : '—'}
+                      </td>
+                    );
+                  })}
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        <p className="mt-1 text-xs text-loam-700">
+          Index: weighted mean of each trait's standardised entry means, signed so that better is
+          higher. Means followed by the same letter are not significantly different (
+          {sheet.letters === 'hsd' ? "Tukey's HSD" : "Fisher's LSD"}, α = {sheet.alpha}).
+        </p>
+      </section>
+
+      {sheet.traits.map((t) => (
+        <section key={t.key} aria-labelledby={`trait-${t.key}`} className="trait-section mt-6">
+          <h2 id={`trait-${t.key}`} className="text-xl font-semibold text-leaf-900">
+            {t.label}
+          </h2>
+          <p className="text-sm text-loam-700">
+            {directionText[t.direction]} · grand mean {formatQuantity(t.grandMean, t.unit, units)} ·
+            CV {t.cvPercent === null ? '—' : `${t.cvPercent.toFixed(1)} %`} ·{' '}
+            {sheet.letters === 'hsd'
+              ? `HSD ${formatQuantity(t.hsd.value, t.unit, units)}`
+              : `LSD ${formatQuantity(t.lsd.value, t.unit, units)}`}
+          </p>
+          <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+            <table className="w-full min-w-[20rem] text-left text-sm">
+              <caption className="sr-only">
+                {t.label}: entry means with standard errors, letter groups and ranks
+              </caption>
+              <thead className="bg-leaf-50">
+                <tr>
+                  <th scope="col" className="p-2">
+                    Rank
+                  </th>
+                  <th scope="col" className="p-2">
+                    Variety
+                  </th>
+                  <th scope="col" className="p-2 text-right">
+                    Mean ± SE
+                  </th>
+                  <th scope="col" className="p-2">
+                    Group
+                  </th>
+                  <th scope="col" className="p-2 text-right">
+                    Plots
+                  </th>
+                </tr>
+              </thead>
+              <tbody>
+                {t.means.map((m) => (
+                  <tr key={m.variety} className="border-t border-leaf-50">
+                    <td className="p-2">{m.rank}</td>
+                    <th scope="row" className="p-2 font-medium">
+                      {m.variety}
+                    </th>
+                    <td className="p-2 text-right tabular-nums">
+                      {formatQuantity(m.mean, t.unit, units)} ±{' '}
+                      {formatQuantity(m.se, t.unit, units).replace(/ .*/, '')}
+                    </td>
+                    <td className="p-2 font-mono">{m.group}</td>
+                    <td className="p-2 text-right">{m.n}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          {t.warnings.length ? (
+            <ul className="mt-1 list-disc pl-5 text-xs text-pod-700">
+              {t.warnings.map((w) => (
+                <li key={w}>{w}</li>
+              ))}
+            </ul>
+          ) : null}
+        </section>
+      ))}
+
+      {photos.length ? (
+        <section aria-labelledby="photos-heading" className="mt-6">
+          <h2 id="photos-heading" className="text-xl font-semibold text-leaf-900">
+            Photos
+          </h2>
+          <ul className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3">
+            {photos.map((e) => (
+              <li key={e.id}>
+                <figure className="overflow-hidden rounded-lg bg-white shadow-sm">
+                  <img
+                    src={photoUrl(sheet, e.photo!.id, 'thumb')}
+                    srcSet={`${photoUrl(sheet, e.photo!.id, 'thumb')} 400w, ${photoUrl(sheet, e.photo!.id, 'display')} 1600w`}
+                    sizes="(min-width: 640px) 33vw, 50vw"
+                    alt={e.photo!.caption}
+                    loading="lazy"
+                    className="aspect-[4/3] w-full object-cover"
+                  />
+                  <figcaption className="p-2 text-sm">
+                    <strong>{e.name}</strong> — {e.photo!.caption}
+                  </figcaption>
+                </figure>
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+
+      {sheet.entries.some((e) => e.note) ? (
+        <section aria-labelledby="notes-heading" className="mt-6">
+          <h2 id="notes-heading" className="text-xl font-semibold text-leaf-900">
+            Notes on the entries
+          </h2>
+          <dl className="mt-2 space-y-2">
+            {sheet.entries
+              .filter((e) => e.note)
+              .map((e) => (
+                <div key={e.id} className="rounded-lg bg-white p-3 shadow-sm">
+                  <dt className="font-semibold">
+                    {e.name}{' '}
+                    <span className="text-sm font-normal text-loam-700">
+                      ({e.seedSource || 'seed source not given'})
+                    </span>
+                  </dt>
+                  <dd className="mt-1 whitespace-pre-line">{e.note}</dd>
+                  {e.caution ? (
+                    <dd className="mt-1 text-sm text-frost-600">Caution: {e.caution}</dd>
+                  ) : null}
+                </div>
+              ))}
+          </dl>
+        </section>
+      ) : null}
+
+      <section aria-labelledby="methods-heading" className="mt-6">
+        <h2 id="methods-heading" className="text-xl font-semibold text-leaf-900">
+          Methods
+        </h2>
+        <p className="mt-2 whitespace-pre-line">{sheet.methods}</p>
+      </section>
+
+      <section aria-labelledby="conditions-heading" className="mt-6">
+        <h2 id="conditions-heading" className="text-xl font-semibold text-leaf-900">
+          Growing conditions
+        </h2>
+        <ul className="mt-2 grid gap-3 sm:grid-cols-3">
+          {sheet.sites.map((s) => (
+            <li key={s.name} className="rounded-lg bg-white p-3 text-sm shadow-sm">
+              <p className="font-semibold">{s.name}</p>
+              <p className="text-loam-700">{s.region}</p>
+              <p>
+                {s.soilTexture ?? 'soil not recorded'} ·{' '}
+                {s.irrigationMethod
+                  ? `${s.irrigationMethod} irrigation`
+                  : 'irrigation not recorded'}
+              </p>
+              <p>
+                Rain {s.rainMm === null ? '—' : formatDepth(s.rainMm, units)} · irrigation{' '}
+                {s.irrigationMm === null ? '—' : formatDepth(s.irrigationMm, units)}
+              </p>
+              <p>
+                {s.degreeDays === null
+                  ? 'Degree days not recorded'
+                  : units === 'us'
+                    ? `${Math.round(s.degreeDays * 1.8)} degree days (base ${Math.round((s.degreeDayBaseC ?? 0) * 1.8 + 32)} °F)`
+                    : `${Math.round(s.degreeDays)} degree days (base ${s.degreeDayBaseC} °C)`}
+                {s.hotDays === null ? '' : ` · ${s.hotDays} hot days`}
+              </p>
+            </li>
+          ))}
+        </ul>
+      </section>
+      <p className="mt-6 text-sm text-loam-700">Licence: {licenseLabels[sheet.license]}.</p>
+    </article>
+  );
+}

@@ -1,0 +1,368 @@
+import type { TrialAnalysis } from '@common/contracts/analysis';
+import { displayQuantity, formatQuantity } from '@common/units';
+import {
+  createColumnHelper,
+  flexRender,
+  getCoreRowModel,
+  getSortedRowModel,
+  type SortingState,
+  useReactTable,
+} from '@tanstack/react-table';
+import { useMemo, useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import {
+  Bar,
+  CartesianGrid,
+  ComposedChart,
+  ErrorBar,
+  Legend,
+  Line,
+  LineChart,
+  ResponsiveContainer,
+  Scatter,
+  Tooltip,
+  XAxis,
+  YAxis,
+} from 'recharts';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { useUnitSystem } from '@/lib/session';
+import { useTrial } from '@/lib/trial';
+import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparison';
+
+const palette = [
+  '#2f5d3a',
+  '#d98e2b',
+  '#6b4f36',
+  '#4a8a57',
+  '#a8631a',
+  '#8fbf98',
+  '#1b3822',
+  '#c7ad92',
+];
+
+type Row = {
+  variety: string;
+  code: string;
+  cells: Record<string, TrialAnalysis['means'][number] | undefined>;
+};
+const column = createColumnHelper<Row>();
+
+export function Component() {
+  const { slug = '' } = useParams();
+  const units = useUnitSystem();
+  const trial = useTrial(slug);
+  const traitKeys = useMemo(() => trial.data?.traits.map((t) => t.key) ?? [], [trial.data]);
+  const [shown, setShown] = useState<string[] | null>(null);
+  const visible = shown ?? traitKeys.slice(0, 4);
+  const analyses = useTraitAnalyses(slug, visible);
+  const [sorting, setSorting] = useState<SortingState>([]);
+  const [chartTrait, setChartTrait] = useState<string | null>(null);
+  const chartKey = chartTrait ?? visible[0] ?? '';
+  const chartIndex = visible.indexOf(chartKey);
+  const chart = chartIndex >= 0 ? analyses[chartIndex]?.data : undefined;
+  const curve = useHarvestCurve(slug);
+  const multisite = trial.data?.design === 'multisite';
+  const entrySite = useEntrySite(slug, chartKey, Boolean(multisite && chartKey));
+
+  const byKey = new Map(visible.map((k, i) => [k, analyses[i]?.data]));
+  const rows: Row[] = useMemo(() => {
+    const entries = trial.data?.entries ?? [];
+    return entries.map((e) => ({
+      variety: e.name,
+      code: e.code,
+      cells: Object.fromEntries(
+        visible.map((k) => [k, byKey.get(k)?.means.find((m) => m.variety === e.name)]),
+      ),
+    }));
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [trial.data, visible.join(','), analyses.map((a) => a.dataUpdatedAt).join(',')]);
+
+  const columns = useMemo(
+    () => [
+      column.accessor('variety', {
+        header: 'Variety',
+        cell: (c) => <span className="font-medium">{c.getValue()}</span>,
+      }),
+      ...visible.map((k) => {
+        const label = trial.data?.traits.find((t) => t.key === k)?.label ?? k;
+        const unit = byKey.get(k)?.unit ?? '';
+        return column.accessor((r) => r.cells[k]?.mean ?? null, {
+          id: k,
+          header: label,
+          sortUndefined: 'last',
+          cell: (c) => {
+            const m = c.row.original.cells[k];
+            if (!m) return '—';
+            return (
+              <span className="tabular-nums">
+                {formatQuantity(m.mean, unit, units)} ±{' '}
+                {formatQuantity(m.se, unit, units).replace(/ .*/, '')}{' '}
+                <span className="font-mono text-leaf-700">{m.group}</span>{' '}
+                <span className="text-xs text-loam-700">#{m.rank}</span>
+              </span>
+            );
+          },
+        });
+      }),
+    ],
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+    [visible.join(','), units, trial.data, analyses.map((a) => a.dataUpdatedAt).join(',')],
+  );
+  const table = useReactTable({
+    data: rows,
+    columns,
+    state: { sorting },
+    onSortingChange: setSorting,
+    getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
+  });
+
+  if (trial.isPending) return <Spinner label="Loading the trial…" />;
+  if (trial.error) return <ErrorPanel error={trial.error} />;
+  const loading = analyses.some((a) => a.isPending);
+  const failed = analyses.find((a) => a.error);
+  const unit = chart?.unit ?? '';
+  const conv = (v: number) => displayQuantity(v, unit, units).value;
+  const meansData =
+    chart?.means.map((m) => ({
+      variety: m.variety,
+      mean: conv(m.mean),
+      se: m.se === null ? 0 : conv(m.se),
+    })) ?? [];
+  const dots = chart?.plotValues.map((p) => ({ variety: p.entry, value: conv(p.value) })) ?? [];
+  const displayUnit = chart ? displayQuantity(1, unit, units).unit : '';
+  const massUnit = displayQuantity(1, 'g', units).unit;
+  const sites = [...new Set(entrySite.data?.cells.map((c) => c.site) ?? [])];
+
+  return (
+    <div>
+      <p className="text-sm text-loam-700">
+        <Link to={`/t/${slug}`} className="underline">
+          {trial.data.title}
+        </Link>
+      </p>
+      <h1 className="text-3xl font-semibold text-leaf-900">Compare entries</h1>
+
+      <fieldset className="mt-3 rounded-lg bg-white p-3 shadow-sm">
+        <legend className="px-1 text-sm font-semibold">Traits in the table</legend>
+        <div className="flex flex-wrap gap-3">
+          {trial.data.traits.map((t) => (
+            <label key={t.key} className="flex min-h-11 items-center gap-2 text-sm">
+              <input
+                type="checkbox"
+                className="h-5 w-5"
+                checked={visible.includes(t.key)}
+                onChange={(e) =>
+                  setShown(
+                    e.target.checked ? [...visible, t.key] : visible.filter((k) => k !== t.key),
+                  )
+                }
+              />
+              {t.label}
+            </label>
+          ))}
+        </div>
+      </fieldset>
+
+      {failed?.error ? (
+        <div className="mt-3">
+          <ErrorPanel error={failed.error} title="A trait could not be analysed" />
+        </div>
+      ) : null}
+      {loading ? <Spinner label="Analysing the chosen traits…" /> : null}
+
+      <div className="mt-3 overflow-x-auto rounded-lg bg-white shadow-sm">
+        <table className="w-full min-w-[28rem] text-left text-sm">
+          <caption className="p-2 text-left text-xs text-loam-700">
+            Mean ± SE, letter group (same letter: not significantly different, Tukey's HSD at α =
+            0.05) and rank. Select a header to sort.
+          </caption>
+          <thead className="bg-leaf-50">
+            {table.getHeaderGroups().map((hg) => (
+              <tr key={hg.id}>
+                {hg.headers.map((h) => (
+                  <th
+                    key={h.id}
+                    scope="col"
+                    className="p-2"
+                    aria-sort={
+                      h.column.getIsSorted() === 'asc'
+                        ? 'ascending'
+                        : h.column.getIsSorted() === 'desc'
+                          ? 'descending'
+                          : 'none'
+                    }
+                  >
+                    <button
+                      type="button"
+                      className="min-h-11 text-left font-semibold"
+                      onClick={h.column.getToggleSortingHandler()}
+                    >
+                      {flexRender(h.column.columnDef.header, h.getContext())}
+                      {h.column.getIsSorted() === 'asc'
+                        ? ' ▲'
+                        : h.column.getIsSorted() === 'desc'
+                          ? ' ▼'
+                          : ''}
+                    </button>
+                  </th>
+                ))}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {table.getRowModel().rows.map((r) => (
+              <tr key={r.id} className="border-t border-leaf-50">
+                {r.getVisibleCells().map((c) => (
+                  <td key={c.id} className="p-2">
+                    {flexRender(c.column.columnDef.cell, c.getContext())}
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+
+      <section className="mt-6" aria-labelledby="chart-heading">
+        <div className="flex flex-wrap items-end gap-3">
+          <h2 id="chart-heading" className="text-xl font-semibold text-leaf-900">
+            Entry means and plot values
+          </h2>
+          <label className="text-sm">
+            Trait{' '}
+            <select
+              className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
+              value={chartKey}
+              onChange={(e) => setChartTrait(e.target.value)}
+            >
+              {visible.map((k) => (
+                <option key={k} value={k}>
+                  {trial.data.traits.find((t) => t.key === k)?.label ?? k}
+                </option>
+              ))}
+            </select>
+          </label>
+        </div>
+        <figure className="mt-2 h-80 rounded-lg bg-white p-2 shadow-sm">
+          <ResponsiveContainer width="100%" height="100%">
+            <ComposedChart data={meansData} margin={{ left: 8, right: 8, bottom: 40 }}>
+              <CartesianGrid strokeDasharray="3 3" />
+              <XAxis
+                dataKey="variety"
+                type="category"
+                allowDuplicatedCategory={false}
+                angle={-30}
+                textAnchor="end"
+                interval={0}
+                height={60}
+              />
+              <YAxis label={{ value: displayUnit, angle: -90, position: 'insideLeft' }} />
+              <Tooltip />
+              <Bar dataKey="mean" name={`Mean (${displayUnit})`} fill="#8fbf98">
+                <ErrorBar dataKey="se" width={6} stroke="#1b3822" />
+              </Bar>
+              <Scatter data={dots} dataKey="value" name="Plot values" fill="#a8631a" />
+            </ComposedChart>
+          </ResponsiveContainer>
+          <figcaption className="sr-only">
+            Bars: entry means with ± 1 standard error; dots: the plot values behind them.
+          </figcaption>
+        </figure>
+      </section>
+
+      <section className="mt-6" aria-labelledby="curve-heading">
+        <h2 id="curve-heading" className="text-xl font-semibold text-leaf-900">
+          Cumulative marketable harvest per plot
+        </h2>
+        {curve.isPending ? (
+          <Spinner />
+        ) : curve.error ? (
+          <ErrorPanel error={curve.error} />
+        ) : (
+          <figure className="mt-2 h-80 rounded-lg bg-white p-2 shadow-sm">
+            <ResponsiveContainer width="100%" height="100%">
+              <LineChart margin={{ left: 8, right: 8 }}>
+                <CartesianGrid strokeDasharray="3 3" />
+                <XAxis dataKey="date" type="category" allowDuplicatedCategory={false} />
+                <YAxis label={{ value: massUnit, angle: -90, position: 'insideLeft' }} />
+                <Tooltip />
+                <Legend />
+                {curve.data.entries.map((e, i) => (
+                  <Line
+                    key={e.entry}
+                    data={e.points.map((p) => ({
+                      date: p.date,
+                      value: displayQuantity(p.cumulativeMassG, 'g', units).value,
+                    }))}
+                    dataKey="value"
+                    name={e.entry}
+                    stroke={palette[i % palette.length]}
+                    dot={false}
+                  />
+                ))}
+              </LineChart>
+            </ResponsiveContainer>
+            <figcaption className="sr-only">
+              Mean marketable mass harvested per plot up to each date, one line per entry.
+            </figcaption>
+          </figure>
+        )}
+      </section>
+
+      {multisite ? (
+        <section className="mt-6" aria-labelledby="sites-heading">
+          <h2 id="sites-heading" className="text-xl font-semibold text-leaf-900">
+            Entries at each site
+          </h2>
+          {entrySite.isPending ? (
+            <Spinner />
+          ) : entrySite.error ? (
+            <ErrorPanel error={entrySite.error} />
+          ) : (
+            <figure className="mt-2 h-80 rounded-lg bg-white p-2 shadow-sm">
+              <ResponsiveContainer width="100%" height="100%">
+                <LineChart margin={{ left: 8, right: 8 }}>
+                  <CartesianGrid strokeDasharray="3 3" />
+                  <XAxis dataKey="site" type="category" allowDuplicatedCategory={false} />
+                  <YAxis
+                    label={{
+                      value: displayQuantity(1, entrySite.data.unit, units).unit,
+                      angle: -90,
+                      position: 'insideLeft',
+                    }}
+                  />
+                  <Tooltip />
+                  <Legend />
+                  {[...new Set(entrySite.data.cells.map((c) => c.entry))].map((entry, i) => (
+                    <Line
+                      key={entry}
+                      data={sites.map((site) => {
+                        const cell = entrySite.data.cells.find(
+                          (c) => c.entry === entry && c.site === site,
+                        );
+                        return {
+                          site,
+                          value: cell
+                            ? displayQuantity(cell.mean, entrySite.data.unit, units).value
+                            : null,
+                        };
+                      })}
+                      dataKey="value"
+                      name={entry}
+                      stroke={palette[i % palette.length]}
+                    />
+                  ))}
+                </LineChart>
+              </ResponsiveContainer>
+              <figcaption className="sr-only">
+                Entry means at each site; crossing lines show entries that rank differently by site.
+              </figcaption>
+            </figure>
+          )}
+        </section>
+      ) : null}
+    </div>
+  );
+}

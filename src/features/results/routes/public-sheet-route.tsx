@@ -1,0 +1,142 @@
+import { useEffect, useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { Button } from '@/components/ui/button';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { ApiError } from '@/lib/api-client';
+import { useFollowResults } from '../api/follow-results';
+import { usePublishedSheet } from '../api/get-published-sheet';
+import { useVersions } from '../api/get-versions';
+import { SheetView } from '../components/sheet-view';
+
+function FollowForm({ slug }: { slug: string }) {
+  const follow = useFollowResults(slug);
+  const [email, setEmail] = useState('');
+  const fieldError =
+    follow.error instanceof ApiError
+      ? (follow.error.fields.find((f) => f.path === 'body.email')?.message ?? follow.error.message)
+      : null;
+  if (follow.isSuccess) {
+    return (
+      <p role="status" className="rounded-lg bg-leaf-50 p-3">
+        {follow.data.message} Open the link in it to start following.
+      </p>
+    );
+  }
+  return (
+    <form
+      className="flex flex-col gap-2 sm:flex-row sm:items-end"
+      onSubmit={(e) => {
+        e.preventDefault();
+        follow.mutate(email);
+      }}
+    >
+      <label className="flex flex-1 flex-col text-sm font-medium">
+        E-mail me when new results are published
+        <input
+          type="email"
+          required
+          autoComplete="email"
+          value={email}
+          onChange={(e) => setEmail(e.target.value)}
+          aria-invalid={fieldError ? true : undefined}
+          aria-describedby={fieldError ? 'follow-error' : undefined}
+          className="mt-1 min-h-11 rounded-lg border border-leaf-300 px-3"
+        />
+      </label>
+      <Button type="submit" disabled={follow.isPending}>
+        {follow.isPending ? 'Sending…' : 'Follow'}
+      </Button>
+      {fieldError ? (
+        <p id="follow-error" className="text-sm text-frost-600">
+          {fieldError}
+        </p>
+      ) : null}
+    </form>
+  );
+}
+
+export function Component() {
+  const { slug = '', version } = useParams();
+  const number = version ? Number(version) : undefined;
+  const { data: sheet, isPending, error } = usePublishedSheet(slug, number);
+  const { data: versions } = useVersions(slug);
+
+  useEffect(() => {
+    if (!sheet) return;
+    document.title = `${sheet.trial.title} — results (v${sheet.version}) · Rowtally`;
+  }, [sheet]);
+
+  if (isPending) return <Spinner label="Loading the results…" />;
+  if (error) return <ErrorPanel error={error} title="These results are not available" />;
+  const base = `/api/results/${sheet.trial.slug}/v/${sheet.version}`;
+  return (
+    <div>
+      <div className="no-print mb-4 flex flex-wrap items-center gap-2">
+        <Button type="button" variant="secondary" onClick={() => window.print()}>
+          Print
+        </Button>
+        <a
+          className="inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-3 font-semibold text-leaf-700"
+          href={`${base}/sheet.pdf?size=a4`}
+        >
+          PDF (A4)
+        </a>
+        <a
+          className="inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-3 font-semibold text-leaf-700"
+          href={`${base}/sheet.pdf?size=letter`}
+        >
+          PDF (Letter)
+        </a>
+        <a
+          className="inline-flex min-h-11 items-center rounded-lg px-3 font-semibold text-leaf-700 underline"
+          href={`${base}/means.csv`}
+        >
+          Means (CSV)
+        </a>
+        <a
+          className="inline-flex min-h-11 items-center rounded-lg px-3 font-semibold text-leaf-700 underline"
+          href={`${base}/plots.csv`}
+        >
+          Plot data (CSV)
+        </a>
+        <a
+          className="inline-flex min-h-11 items-center rounded-lg px-3 font-semibold text-leaf-700 underline"
+          href={`${base}/results.json`}
+        >
+          All numbers (JSON)
+        </a>
+      </div>
+      <SheetView sheet={sheet} />
+      {versions && versions.versions.length > 1 ? (
+        <nav aria-label="Versions" className="no-print mx-auto mt-6 max-w-4xl">
+          <h2 className="text-lg font-semibold text-leaf-900">Versions</h2>
+          <ul className="mt-2 space-y-1 text-sm">
+            {versions.versions.map((v) => (
+              <li key={v.version}>
+                {v.version === sheet.version ? (
+                  <strong>Version {v.version}</strong>
+                ) : (
+                  <Link className="text-leaf-700 underline" to={`/r/${slug}/v/${v.version}`}>
+                    Version {v.version}
+                  </Link>
+                )}{' '}
+                — {v.publishedAt.slice(0, 10)}
+                {v.changeNote ? `: ${v.changeNote}` : ''}
+              </li>
+            ))}
+          </ul>
+        </nav>
+      ) : null}
+      <section
+        className="no-print mx-auto mt-6 max-w-4xl rounded-lg bg-white p-4 shadow-sm"
+        aria-label="Follow these results"
+      >
+        <FollowForm slug={slug} />
+        <p className="mt-2 text-xs text-loam-700">
+          We send a confirmation first; every message has a one-click unsubscribe link.
+        </p>
+      </section>
+    </div>
+  );
+}
