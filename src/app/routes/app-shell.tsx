@@ -65,6 +65,16 @@ function UserMenu() {
   );
 }
 
+function NewTrialLink() {
+  const { data: me } = useMe();
+  if (!me) return null;
+  return (
+    <NavLink to="/trials/new" className={navClass}>
+      New trial
+    </NavLink>
+  );
+}
+
 const navClass = ({ isActive }: { isActive: boolean }) =>
   `inline-flex min-h-11 items-center rounded-lg px-3 font-medium ${isActive ? 'bg-leaf-100 text-leaf-900' : 'text-leaf-700 hover:bg-leaf-50'}`;
 
@@ -101,6 +111,7 @@ export function AppShell() {
           <NavLink to="/analyze" className={navClass}>
             Analyze a spreadsheet
           </NavLink>
+          <NewTrialLink />
         </div>
       </nav>
       {navigation.state === 'loading' ? (

@@ -1,5 +1,5 @@
 import { designLabels } from '@common/contracts/trials';
-import { useParams } from 'react-router-dom';
+import { Link, useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
@@ -22,6 +22,30 @@ export function Component() {
       </p>
       <h1 className="mt-1 text-3xl font-semibold text-leaf-900">{trial.title}</h1>
       <p className="mt-2 max-w-prose">{trial.description}</p>
+      {trial.permissions['trial.edit'] ? (
+        <nav aria-label="Design the trial" className="mt-3 flex flex-wrap gap-2">
+          {(
+            [
+              ['settings', 'Settings'],
+              ['entries', 'Entries'],
+              ['sites', 'Sites'],
+              ['traits', 'Traits'],
+              ['layout', 'Layout'],
+              ['map', 'Planting map'],
+              ['field-sheet', 'Field sheet'],
+              ['planting', 'What was planted'],
+            ] as const
+          ).map(([path, label]) => (
+            <Link
+              key={path}
+              to={`/t/${trial.slug}/${path}`}
+              className="inline-flex min-h-11 items-center rounded-lg border border-leaf-300 bg-white px-3 text-sm font-medium text-leaf-700 hover:bg-leaf-50"
+            >
+              {label}
+            </Link>
+          ))}
+        </nav>
+      ) : null}
       <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-5">
         {[
           ['Entries', trial.entryCount],

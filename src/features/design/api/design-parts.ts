@@ -1,0 +1,47 @@
+/** Entries, sites and traits: add, edit and remove, each refreshing the design afterwards. */
+import type { EntryBody, SiteBody, TraitBody } from '@common/contracts/design';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { api } from '@/lib/api-client';
+import { invalidateDesign } from './get-design';
+
+type Part = 'entries' | 'sites' | 'traits';
+type BodyOf = { entries: EntryBody; sites: SiteBody; traits: TraitBody };
+const created = z.object({ id: z.uuid() });
+const base = (slug: string, part: Part) => `/api/trials/${encodeURIComponent(slug)}/${part}`;
+
+export const createPart = <P extends Part>(slug: string, part: P, body: BodyOf[P]) =>
+  api(base(slug, part), created, { method: 'POST', body });
+export const updatePart = <P extends Part>(
+  slug: string,
+  part: P,
+  id: string,
+  body: Partial<BodyOf[P]>,
+) => api<void>(`${base(slug, part)}/${id}`, null, { method: 'PATCH', body });
+export const deletePart = (slug: string, part: Part, id: string) =>
+  api<void>(`${base(slug, part)}/${id}`, null, { method: 'DELETE' });
+
+export function useCreatePart<P extends Part>(slug: string, part: P) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: BodyOf[P]) => createPart(slug, part, body),
+    onSuccess: () => invalidateDesign(queryClient, slug),
+  });
+}
+
+export function useUpdatePart<P extends Part>(slug: string, part: P) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, body }: { id: string; body: Partial<BodyOf[P]> }) =>
+      updatePart(slug, part, id, body),
+    onSuccess: () => invalidateDesign(queryClient, slug),
+  });
+}
+
+export function useDeletePart(slug: string, part: Part) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => deletePart(slug, part, id),
+    onSuccess: () => invalidateDesign(queryClient, slug),
+  });
+}

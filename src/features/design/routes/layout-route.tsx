@@ -1,0 +1,258 @@
+import { type Design, MAX_LAYOUT_SEED } from '@common/contracts/design';
+import { designLabels } from '@common/contracts/trials';
+import { formatLength, toStored } from '@common/units';
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import { Button } from '@/components/ui/button';
+import { useUnitSystem } from '@/lib/session';
+import { useClearLayout, useGenerateLayout } from '../api/layout';
+import { DesignPage } from '../components/design-page';
+import { fieldErrors, FormError, numberOrNull, TextField } from '../components/form-fields';
+import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
+import { lengthInput, rowLengthUnit, spacingUnit } from '../components/units';
+
+function LayoutForm({ design, slug }: { design: Design; slug: string }) {
+  const system = useUnitSystem();
+  const generate = useGenerateLayout(slug);
+  const clear = useClearLayout(slug);
+  const errors = fieldErrors(generate.error);
+  const [seed, setSeed] = useState(design.layout.seed?.toString() ?? '');
+  const { locked, lockedReason } = design.layout;
+  const hasPlots = design.plots.length > 0;
+  const lengthUnit = rowLengthUnit(system);
+  const spaceUnit = spacingUnit(system);
+  const unspaced = design.entries.filter((e) => e.inRowSpacingMm == null);
+
+  function submit(form: HTMLFormElement, fresh: boolean) {
+    const f = new FormData(form);
+    const rowLength = numberOrNull(f.get('rowLength'));
+    const rowSpacing = numberOrNull(f.get('rowSpacing'));
+    const inRow = numberOrNull(f.get('inRowSpacing'));
+    const typedSeed = numberOrNull(f.get('seed'));
+    generate.mutate(
+      {
+        replicates: numberOrNull(f.get('replicates')) ?? Number.NaN,
+        rowsPerPlot: numberOrNull(f.get('rowsPerPlot')) ?? 1,
+        rowLengthMm: rowLength === null ? Number.NaN : toStored(rowLength, lengthUnit),
+        rowSpacingMm: rowSpacing === null ? Number.NaN : toStored(rowSpacing, spaceUnit),
+        inRowSpacingMm: inRow === null ? null : toStored(inRow, spaceUnit),
+        ...(fresh || typedSeed === null ? {} : { seed: typedSeed }),
+      },
+      { onSuccess: (r) => setSeed(String(r.seed)) },
+    );
+  }
+
+  return (
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        submit(e.currentTarget, false);
+      }}
+      noValidate
+      aria-label="Layout"
+      className="space-y-3 rounded-xl bg-white p-4 shadow-sm"
+    >
+      <p className="text-sm text-loam-700">
+        {designLabels[design.design]} · {design.entries.length} entries · {design.sites.length}{' '}
+        {design.sites.length === 1 ? 'site' : 'sites'}
+      </p>
+      <fieldset disabled={!design.canEdit || locked} className="space-y-3">
+        <div className="grid gap-3 sm:grid-cols-2">
+          <TextField
+            label={design.design === 'crd' ? 'Plots per entry (replicates)' : 'Blocks (replicates)'}
+            name="replicates"
+            type="number"
+            inputMode="numeric"
+            min={1}
+            max={99}
+            defaultValue={design.layout.replicates ?? 3}
+            error={errors.replicates}
+          />
+          <TextField
+            label="Rows per plot"
+            name="rowsPerPlot"
+            type="number"
+            inputMode="numeric"
+            min={1}
+            max={12}
+            defaultValue={design.layout.rowsPerPlot}
+            error={errors.rowsPerPlot}
+          />
+          <TextField
+            label="Row length"
+            name="rowLength"
+            type="number"
+            inputMode="decimal"
+            step="any"
+            suffix={lengthUnit}
+            defaultValue={lengthInput(design.layout.rowLengthMm, lengthUnit)}
+            error={errors.rowLengthMm}
+          />
+          <TextField
+            label="Between-row spacing"
+            name="rowSpacing"
+            type="number"
+            inputMode="decimal"
+            step="any"
+            suffix={spaceUnit}
+            defaultValue={lengthInput(design.layout.rowSpacingMm, spaceUnit)}
+            error={errors.rowSpacingMm}
+          />
+          <TextField
+            label="In-row spacing for entries without their own"
+            name="inRowSpacing"
+            type="number"
+            inputMode="decimal"
+            step="any"
+            suffix={spaceUnit}
+            hint={
+              unspaced.length
+                ? `Needed for ${unspaced.map((e) => e.code).join(', ')}.`
+                : 'Every entry has its own spacing.'
+            }
+            defaultValue={lengthInput(design.layout.inRowSpacingMm, spaceUnit)}
+            error={errors.inRowSpacingMm}
+          />
+          <TextField
+            label="Seed"
+            name="seed"
+            type="number"
+            inputMode="numeric"
+            min={0}
+            max={MAX_LAYOUT_SEED}
+            value={seed}
+            onChange={(e) => setSeed(e.target.value)}
+            hint="The same seed with the same entries and sites gives the same plan. Leave blank for a new one."
+            error={errors.seed}
+          />
+        </div>
+        <FormError error={Object.keys(errors).length ? null : generate.error} />
+        <div className="flex flex-wrap gap-2">
+          <Button type="submit" disabled={generate.isPending}>
+            {generate.isPending
+              ? 'Laying out plots…'
+              : hasPlots
+                ? 'Generate with this seed'
+                : 'Generate layout'}
+          </Button>
+          {hasPlots ? (
+            <Button
+              type="button"
+              variant="secondary"
+              disabled={generate.isPending}
+              onClick={(e) => submit(e.currentTarget.form!, true)}
+            >
+              Re-randomize (new seed)
+            </Button>
+          ) : null}
+          {hasPlots ? (
+            <Button
+              type="button"
+              variant="ghost"
+              disabled={clear.isPending}
+              onClick={() => {
+                if (window.confirm('Clear the layout? Every plot of the plan is removed.'))
+                  clear.mutate();
+              }}
+            >
+              Clear layout
+            </Button>
+          ) : null}
+        </div>
+        <FormError error={clear.error} />
+      </fieldset>
+      {locked ? (
+        <p role="note" className="rounded-lg bg-straw-100 p-3 text-sm">
+          {lockedReason}
+        </p>
+      ) : null}
+      {generate.isPending ? (
+        <div
+          role="progressbar"
+          aria-label="Laying out plots"
+          className="h-1 animate-pulse rounded bg-pod-500"
+        />
+      ) : null}
+    </form>
+  );
+}
+
+function PlotPlan({ design, slug }: { design: Design; slug: string }) {
+  const system = useUnitSystem();
+  const [siteId, setSiteId] = useState(firstSiteWithPlots(design));
+  const plots = design.plots.filter((p) => p.siteId === siteId);
+  const entry = new Map(design.entries.map((e) => [e.id, e]));
+  if (design.plots.length === 0)
+    return <p className="rounded-lg bg-white p-4 shadow-sm">No plots yet: generate the layout.</p>;
+  const total = plots.reduce((s, p) => s + (p.plannedPlants ?? 0), 0);
+  return (
+    <section aria-labelledby="plan-heading" className="space-y-2">
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <h2 id="plan-heading" className="text-xl font-semibold text-leaf-900">
+          Plot plan · seed {design.layout.seed ?? '(not stored)'}
+        </h2>
+        <SitePicker design={design} value={siteId} onChange={setSiteId} />
+      </div>
+      <p className="text-sm">
+        {plots.length} plots here, {total} plants planned.{' '}
+        <Link className="font-semibold text-leaf-700 underline" to={`/t/${slug}/map`}>
+          Planting map
+        </Link>{' '}
+        ·{' '}
+        <Link className="font-semibold text-leaf-700 underline" to={`/t/${slug}/field-sheet`}>
+          Field sheet
+        </Link>
+      </p>
+      <div className="overflow-x-auto rounded-lg bg-white shadow-sm">
+        <table className="w-full text-left text-sm">
+          <caption className="sr-only">Plots of the site in field order</caption>
+          <thead className="bg-leaf-50 text-leaf-900">
+            <tr>
+              <th className="p-2">Plot</th>
+              <th className="p-2">Block</th>
+              <th className="p-2">Entry</th>
+              <th className="p-2">In-row spacing</th>
+              <th className="p-2">Plants planned</th>
+            </tr>
+          </thead>
+          <tbody>
+            {plots.map((p) => (
+              <tr key={p.id} className="border-t border-leaf-50">
+                <td className="p-2 font-semibold">{p.plotNumber}</td>
+                <td className="p-2">{p.block}</td>
+                <td className="p-2">
+                  <span className="font-mono font-semibold">{entry.get(p.entryId)?.code}</span>{' '}
+                  {entry.get(p.entryId)?.name}
+                </td>
+                <td className="p-2">
+                  {p.inRowSpacingMm ? formatLength(p.inRowSpacingMm, system) : '—'}
+                </td>
+                <td className="p-2">{p.plannedPlants ?? '—'}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p className="text-xs text-loam-700">
+        Plants planned per plot = rows × whole in-row spacings that fit in the row length.
+      </p>
+    </section>
+  );
+}
+
+export function Component() {
+  return (
+    <DesignPage title="Layout">
+      {(design, slug) => (
+        <div className="grid gap-4 lg:grid-cols-[minmax(0,26rem)_1fr]">
+          <LayoutForm
+            key={`${design.id}-${design.layout.generatedAt}`}
+            design={design}
+            slug={slug}
+          />
+          <PlotPlan key={design.layout.generatedAt ?? 'none'} design={design} slug={slug} />
+        </div>
+      )}
+    </DesignPage>
+  );
+}

@@ -1,0 +1,197 @@
+import {
+  type Design,
+  type DesignSite,
+  irrigationMethods,
+  type SiteBody,
+  soilTextures,
+} from '@common/contracts/design';
+import { useState } from 'react';
+import { Button } from '@/components/ui/button';
+import { CautionNote } from '@/components/ui/caution-note';
+import { useCreatePart, useDeletePart, useUpdatePart } from '../api/design-parts';
+import { DesignPage } from '../components/design-page';
+import {
+  fieldErrors,
+  FormError,
+  SelectField,
+  TextArea,
+  TextField,
+} from '../components/form-fields';
+
+const irrigationLabels: Record<(typeof irrigationMethods)[number], string> = {
+  drip: 'Drip',
+  overhead: 'Overhead sprinkler',
+  furrow: 'Furrow',
+  hand: 'By hand (hose or can)',
+  none: 'None (rain only)',
+};
+
+function SiteForm({
+  slug,
+  editing,
+  onDone,
+}: {
+  slug: string;
+  editing: DesignSite | null;
+  onDone: () => void;
+}) {
+  const create = useCreatePart(slug, 'sites');
+  const update = useUpdatePart(slug, 'sites');
+  const mutation = editing ? update : create;
+  const errors = fieldErrors(mutation.error);
+  const [irrigation, setIrrigation] = useState(editing?.irrigationMethod ?? '');
+
+  function onSubmit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const form = e.currentTarget;
+    const f = new FormData(form);
+    const body: SiteBody = {
+      name: String(f.get('name') ?? ''),
+      region: String(f.get('region') ?? ''),
+      soilTexture: (String(f.get('soilTexture') ?? '') || null) as SiteBody['soilTexture'],
+      irrigationMethod: (String(f.get('irrigationMethod') ?? '') ||
+        null) as SiteBody['irrigationMethod'],
+      notes: String(f.get('notes') ?? ''),
+    };
+    const done = () => {
+      form.reset();
+      setIrrigation('');
+      onDone();
+    };
+    if (editing) update.mutate({ id: editing.id, body }, { onSuccess: done });
+    else create.mutate(body, { onSuccess: done });
+  }
+
+  return (
+    <form
+      key={editing?.id ?? 'new'}
+      onSubmit={onSubmit}
+      noValidate
+      aria-label={editing ? `Edit ${editing.name}` : 'Add a site'}
+      className="space-y-3 rounded-xl bg-white p-4 shadow-sm"
+    >
+      <h2 className="text-xl font-semibold text-leaf-900">
+        {editing ? `Edit ${editing.name}` : 'Add a site'}
+      </h2>
+      <TextField label="Site name" name="name" defaultValue={editing?.name} error={errors.name} />
+      <TextField
+        label="Town or region"
+        name="region"
+        defaultValue={editing?.region}
+        hint="No street address or map coordinates: sites appear on the published results sheet."
+        error={errors.region}
+      />
+      <div className="grid gap-3 sm:grid-cols-2">
+        <SelectField
+          label="Soil texture (USDA class)"
+          name="soilTexture"
+          defaultValue={editing?.soilTexture ?? ''}
+          error={errors.soilTexture}
+          options={[['', 'Not recorded'], ...soilTextures.map((s) => [s, s] as const)]}
+        />
+        <SelectField
+          label="Irrigation"
+          name="irrigationMethod"
+          value={irrigation}
+          onChange={(e) => setIrrigation(e.target.value)}
+          error={errors.irrigationMethod}
+          options={[
+            ['', 'Not recorded'],
+            ...irrigationMethods.map((m) => [m, irrigationLabels[m]] as const),
+          ]}
+        />
+      </div>
+      {irrigation && irrigation !== 'none' ? <CautionNote id="irrigation-backflow" /> : null}
+      <TextArea
+        label="Fertility and other notes"
+        name="notes"
+        defaultValue={editing?.notes}
+        error={errors.notes}
+      />
+      <FormError error={Object.keys(errors).length ? null : mutation.error} />
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" disabled={mutation.isPending}>
+          {mutation.isPending ? 'Saving…' : editing ? 'Save site' : 'Add site'}
+        </Button>
+        {editing ? (
+          <Button type="button" variant="ghost" onClick={onDone}>
+            Cancel
+          </Button>
+        ) : null}
+      </div>
+    </form>
+  );
+}
+
+function Sites({ design, slug }: { design: Design; slug: string }) {
+  const [editingId, setEditingId] = useState<string | null>(null);
+  const remove = useDeletePart(slug, 'sites');
+  const editing = design.sites.find((s) => s.id === editingId) ?? null;
+  const layoutExists = design.plots.length > 0;
+  return (
+    <div className="grid gap-4 lg:grid-cols-2">
+      <section aria-labelledby="site-list">
+        <h2 id="site-list" className="text-xl font-semibold text-leaf-900">
+          {design.sites.length} {design.sites.length === 1 ? 'site' : 'sites'}
+        </h2>
+        {design.design !== 'multisite' ? (
+          <p className="mt-1 text-sm text-loam-700">
+            This design lays out one site; choose “Blocks at several sites” in the settings for
+            more.
+          </p>
+        ) : null}
+        <ul className="mt-2 space-y-2">
+          {design.sites.map((s) => (
+            <li key={s.id} className="rounded-lg bg-white p-3 shadow-sm">
+              <p className="font-semibold">{s.name}</p>
+              <p className="text-sm text-loam-700">
+                {s.region || 'Region not given'} · {s.soilTexture ?? 'soil not recorded'} ·{' '}
+                {s.irrigationMethod
+                  ? irrigationLabels[s.irrigationMethod]
+                  : 'irrigation not recorded'}
+              </p>
+              {s.notes ? <p className="mt-1 text-sm">{s.notes}</p> : null}
+              {design.canEdit ? (
+                <div className="mt-2 flex gap-2">
+                  <Button
+                    variant="secondary"
+                    onClick={() => setEditingId(s.id)}
+                    aria-label={`Edit ${s.name}`}
+                  >
+                    Edit
+                  </Button>
+                  <Button
+                    variant="ghost"
+                    disabled={layoutExists || remove.isPending}
+                    title={layoutExists ? 'Clear the layout first' : undefined}
+                    aria-label={`Remove ${s.name}`}
+                    onClick={() => {
+                      if (window.confirm(`Remove the site ${s.name}?`)) remove.mutate(s.id);
+                    }}
+                  >
+                    Remove
+                  </Button>
+                </div>
+              ) : null}
+            </li>
+          ))}
+        </ul>
+        <FormError error={remove.error} />
+      </section>
+      {design.canEdit && (editing || !layoutExists) ? (
+        <SiteForm
+          key={editing?.id ?? 'new'}
+          slug={slug}
+          editing={editing}
+          onDone={() => setEditingId(null)}
+        />
+      ) : null}
+    </div>
+  );
+}
+
+export function Component() {
+  return (
+    <DesignPage title="Sites">{(design, slug) => <Sites design={design} slug={slug} />}</DesignPage>
+  );
+}
