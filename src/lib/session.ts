@@ -1,6 +1,6 @@
 /** The signed-in user, shared by every feature (units preference, names, the user menu). */
 import { meSchema, type UnitSystem } from '@common/contracts/me';
-import { queryOptions, useQuery } from '@tanstack/react-query';
+import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError } from './api-client';
 
 export const sessionKeys = { me: ['session', 'me'] as const };
@@ -24,4 +24,16 @@ export const useMe = () => useQuery(meQueryOptions());
 export function useUnitSystem(): UnitSystem {
   const { data } = useMe();
   return data?.unitSystem ?? 'metric';
+}
+
+/**
+ * After signing in or out everything cached belonged to someone else: drop it and read the
+ * new session before moving on.
+ */
+export function useSessionChanged() {
+  const queryClient = useQueryClient();
+  return async () => {
+    queryClient.removeQueries();
+    await queryClient.fetchQuery(meQueryOptions());
+  };
 }

@@ -75,6 +75,20 @@ function NewTrialLink() {
   );
 }
 
+/** Shown to the trial's leads (and administrators); the server checks again on every call. */
+function MembersLink() {
+  const { slug } = useParams();
+  const { data: me } = useMe();
+  const { data } = useTrials();
+  const role = data?.trials.find((t) => t.slug === slug)?.myRole;
+  if (!slug || !me || !(role === 'lead' || me.isAdmin)) return null;
+  return (
+    <NavLink to={`/t/${slug}/members`} className={navClass}>
+      Members
+    </NavLink>
+  );
+}
+
 const navClass = ({ isActive }: { isActive: boolean }) =>
   `inline-flex min-h-11 items-center rounded-lg px-3 font-medium ${isActive ? 'bg-leaf-100 text-leaf-900' : 'text-leaf-700 hover:bg-leaf-50'}`;
 
@@ -112,6 +126,7 @@ export function AppShell() {
             Analyze a spreadsheet
           </NavLink>
           <NewTrialLink />
+          <MembersLink />
         </div>
       </nav>
       {navigation.state === 'loading' ? (

@@ -1,0 +1,75 @@
+import { type SignInBody, safeNextPath, signInBody } from '@common/contracts/auth';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { Link, useNavigate, useSearchParams } from 'react-router-dom';
+import type { z } from 'zod';
+import { Button } from '@/components/ui/button';
+import { FormMessage, TextField } from '@/components/ui/text-field';
+import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { useSessionChanged } from '@/lib/session';
+import { AuthCard } from '../components/auth-card';
+
+export function Component() {
+  const [params] = useSearchParams();
+  const next = safeNextPath(params.get('next'));
+  const navigate = useNavigate();
+  const sessionChanged = useSessionChanged();
+  const [problem, setProblem] = useState<string | null>(null);
+  const form = useForm<z.input<typeof signInBody>, unknown, SignInBody>({
+    resolver: zodResolver(signInBody),
+    defaultValues: { email: params.get('email') ?? '', password: '' },
+  });
+  const { errors, isSubmitting } = form.formState;
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    setProblem(null);
+    const { error } = await authClient.signIn.email({
+      ...values,
+      callbackURL: `/email-verified?next=${encodeURIComponent(next)}`,
+    });
+    if (error) {
+      setProblem(authErrorMessage(error));
+      return;
+    }
+    await sessionChanged();
+    navigate(next, { replace: true });
+  });
+
+  return (
+    <AuthCard title="Sign in to Rowtally">
+      {params.get('next') ? <p className="text-loam-700">Sign in to open that page.</p> : null}
+      <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+        <TextField
+          label="E-mail address"
+          type="email"
+          autoComplete="email"
+          error={errors.email?.message}
+          {...form.register('email')}
+        />
+        <TextField
+          label="Password"
+          type="password"
+          autoComplete="current-password"
+          error={errors.password?.message}
+          {...form.register('password')}
+        />
+        {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? 'Signing in…' : 'Sign in'}
+        </Button>
+      </form>
+      <p className="flex flex-wrap justify-between gap-2 text-sm">
+        <Link className="font-semibold text-leaf-700 underline" to="/forgot-password">
+          Forgot your password?
+        </Link>
+        <Link
+          className="font-semibold text-leaf-700 underline"
+          to={`/sign-up${params.get('next') ? `?next=${encodeURIComponent(next)}` : ''}`}
+        >
+          Create an account
+        </Link>
+      </p>
+    </AuthCard>
+  );
+}

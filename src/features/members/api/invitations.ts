@@ -1,0 +1,39 @@
+import {
+  type CreateInvitationBody,
+  invitationListSchema,
+  invitationSchema,
+} from '@common/contracts/invitations';
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+import { memberKeys } from './member-keys';
+
+const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}/invitations`;
+
+export const getInvitations = (slug: string) => api(base(slug), invitationListSchema);
+
+export const invitationsQueryOptions = (slug: string) =>
+  queryOptions({ queryKey: memberKeys.invitations(slug), queryFn: () => getInvitations(slug) });
+
+export const useInvitations = (slug: string) => useQuery(invitationsQueryOptions(slug));
+
+export const createInvitation = (slug: string, body: CreateInvitationBody) =>
+  api(base(slug), invitationSchema, { method: 'POST', body });
+export const resendInvitation = (slug: string, id: string) =>
+  api(`${base(slug)}/${id}/resend`, invitationSchema, { method: 'POST' });
+export const revokeInvitation = (slug: string, id: string) =>
+  api(`${base(slug)}/${id}`, null, { method: 'DELETE' });
+
+function useInvitationMutation<A>(slug: string, fn: (a: A) => Promise<unknown>) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: fn,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: memberKeys.invitations(slug) }),
+  });
+}
+
+export const useCreateInvitation = (slug: string) =>
+  useInvitationMutation(slug, (body: CreateInvitationBody) => createInvitation(slug, body));
+export const useResendInvitation = (slug: string) =>
+  useInvitationMutation(slug, (id: string) => resendInvitation(slug, id));
+export const useRevokeInvitation = (slug: string) =>
+  useInvitationMutation(slug, (id: string) => revokeInvitation(slug, id));
