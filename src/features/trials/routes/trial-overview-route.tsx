@@ -46,6 +46,14 @@ export function Component() {
           ))}
         </nav>
       ) : null}
+      <p className="mt-3">
+        <Link
+          to={`/t/${trial.slug}/photos`}
+          className="inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
+        >
+          Photos
+        </Link>
+      </p>
       <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-5">
         {[
           ['Entries', trial.entryCount],

@@ -1,0 +1,19 @@
+import { type ListPhotosQuery, photoListSchema } from '@common/contracts/photos';
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+import { photoKeys } from './photo-keys';
+
+export const getPhotos = (slug: string, filters: ListPhotosQuery) =>
+  api(`/api/trials/${encodeURIComponent(slug)}/photos`, photoListSchema, {
+    query: { ...filters },
+  });
+
+export const photosQueryOptions = (slug: string, filters: ListPhotosQuery = {}) =>
+  queryOptions({
+    queryKey: photoKeys.list(slug, filters),
+    queryFn: () => getPhotos(slug, filters),
+    placeholderData: keepPreviousData,
+  });
+
+export const usePhotos = (slug: string, filters: ListPhotosQuery = {}) =>
+  useQuery(photosQueryOptions(slug, filters));
