@@ -1,11 +1,12 @@
 import type { QueryClient } from '@tanstack/react-query';
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { Spinner } from '@/components/ui/spinner';
+import { requireSignIn } from '@/lib/require-sign-in';
 import { RootErrorBoundary } from './routes/root-error-boundary';
 import { AppShell } from './routes/app-shell';
 
 /** Route modules load on demand; each exports `Component` (and may export `loader`). */
-export function appRoutes(_queryClient: QueryClient): RouteObject[] {
+export function appRoutes(queryClient: QueryClient): RouteObject[] {
   return [
     {
       path: '/',
@@ -27,26 +28,6 @@ export function appRoutes(_queryClient: QueryClient): RouteObject[] {
           path: 't/:slug/photos/compare',
           lazy: () => import('@/features/photos/routes/photo-compare-route'),
         },
-        { path: 'trials/new', lazy: () => import('@/features/design/routes/new-trial-route') },
-        { path: 't/:slug/settings', lazy: () => import('@/features/design/routes/settings-route') },
-        { path: 't/:slug/entries', lazy: () => import('@/features/design/routes/entries-route') },
-        { path: 't/:slug/sites', lazy: () => import('@/features/design/routes/sites-route') },
-        { path: 't/:slug/traits', lazy: () => import('@/features/design/routes/traits-route') },
-        { path: 't/:slug/layout', lazy: () => import('@/features/design/routes/layout-route') },
-        { path: 't/:slug/map', lazy: () => import('@/features/design/routes/map-route') },
-        {
-          path: 't/:slug/field-sheet',
-          lazy: () => import('@/features/design/routes/field-sheet-route'),
-        },
-        { path: 't/:slug/planting', lazy: () => import('@/features/design/routes/planting-route') },
-        {
-          path: 't/:slug/results',
-          lazy: () => import('@/features/results/routes/sheet-editor-route'),
-        },
-        {
-          path: 't/:slug/compare',
-          lazy: () => import('@/features/results/routes/comparison-route'),
-        },
         { path: 'r/:slug', lazy: () => import('@/features/results/routes/public-sheet-route') },
         {
           path: 'r/:slug/v/:version',
@@ -57,6 +38,67 @@ export function appRoutes(_queryClient: QueryClient): RouteObject[] {
           lazy: () => import('@/features/results/routes/follow-confirm-route'),
         },
         { path: 'unsubscribe', lazy: () => import('@/features/results/routes/unsubscribe-route') },
+        {
+          // Pages that need a signed-in user: signed-out visitors go to sign in and come back.
+          loader: requireSignIn(queryClient),
+          children: [
+            { path: 'trials/new', lazy: () => import('@/features/design/routes/new-trial-route') },
+            {
+              path: 't/:slug/settings',
+              lazy: () => import('@/features/design/routes/settings-route'),
+            },
+            {
+              path: 't/:slug/entries',
+              lazy: () => import('@/features/design/routes/entries-route'),
+            },
+            { path: 't/:slug/sites', lazy: () => import('@/features/design/routes/sites-route') },
+            { path: 't/:slug/traits', lazy: () => import('@/features/design/routes/traits-route') },
+            { path: 't/:slug/layout', lazy: () => import('@/features/design/routes/layout-route') },
+            { path: 't/:slug/map', lazy: () => import('@/features/design/routes/map-route') },
+            {
+              path: 't/:slug/field-sheet',
+              lazy: () => import('@/features/design/routes/field-sheet-route'),
+            },
+            {
+              path: 't/:slug/planting',
+              lazy: () => import('@/features/design/routes/planting-route'),
+            },
+            {
+              path: 't/:slug/results',
+              lazy: () => import('@/features/results/routes/sheet-editor-route'),
+            },
+            {
+              path: 't/:slug/compare',
+              lazy: () => import('@/features/results/routes/comparison-route'),
+            },
+            { path: 'account', lazy: () => import('@/features/account/routes/account-route') },
+            {
+              path: 't/:slug/members',
+              lazy: () => import('@/features/members/routes/members-route'),
+            },
+          ],
+        },
+        { path: 'sign-in', lazy: () => import('@/features/auth/routes/sign-in-route') },
+        { path: 'sign-up', lazy: () => import('@/features/auth/routes/sign-up-route') },
+        { path: 'check-email', lazy: () => import('@/features/auth/routes/check-email-route') },
+        {
+          path: 'email-verified',
+          lazy: () => import('@/features/auth/routes/email-verified-route'),
+        },
+        {
+          path: 'forgot-password',
+          lazy: () => import('@/features/auth/routes/forgot-password-route'),
+        },
+        {
+          path: 'reset-password',
+          lazy: () => import('@/features/auth/routes/reset-password-route'),
+        },
+        { path: 'sign-out', lazy: () => import('@/features/auth/routes/sign-out-route') },
+        {
+          path: 'invitations/accept',
+          lazy: () => import('@/features/invitations/routes/accept-invitation-route'),
+        },
+        { path: 'dev/mailbox', lazy: () => import('@/features/mailbox/routes/mailbox-route') },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },
