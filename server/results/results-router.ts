@@ -15,8 +15,9 @@ import { meansCsv, plotsCsv } from './results-csv';
 import { renderSheetPdf } from './results-pdf';
 import * as service from './results-service';
 import { z } from 'zod';
+import { createStorage } from '../storage/create-storage';
 
-type Deps = Pick<AppDeps, 'db' | 'logger'> & {
+type Deps = Pick<AppDeps, 'db' | 'logger' | 'env' | 'storage'> & {
   mailer: service.ResultsDeps['mailer'];
   baseUrl: string;
 };
@@ -72,6 +73,11 @@ export function resultsSheetRouter(deps: Deps) {
   return router;
 }
 
+const publishedPhotoParams = resultVersionParams.extend({
+  photoId: z.uuid('Not a photo id.'),
+  variant: z.enum(['thumb', 'display']),
+});
+
 const downloadQuery = z.object({
   size: z.enum(['a4', 'letter']).default('a4'),
   trait: z.string().optional(),
@@ -80,6 +86,7 @@ const downloadQuery = z.object({
 /** Public reading, downloads and following, under /api/results. Anyone may call these. */
 export function publicResultsRouter(deps: Deps) {
   const r = resultsDeps(deps);
+  const storage = deps.storage ?? createStorage(deps.env);
   const router = Router();
   const cache = (res: import('express').Response) =>
     res.setHeader('Cache-Control', 'public, max-age=300');
@@ -171,6 +178,23 @@ export function publicResultsRouter(deps: Deps) {
         res.attachment(`${s.trial.slug}-v${s.version}.pdf`).type('application/pdf').send(pdf);
       },
     ),
+  );
+  router.get(
+    '/:slug/v/:version/photos/:photoId/:variant',
+    endpoint({ params: publishedPhotoParams }, async ({ params }, req, res) => {
+      const photo = await service.publishedPhoto(deps.db, storage, params);
+      const etag = `"${photo.etag}"`;
+      res.setHeader('ETag', etag);
+      // A version's photos never change: cache for a day anywhere.
+      res.setHeader('Cache-Control', 'public, max-age=86400');
+      if (req.headers['if-none-match'] === etag) {
+        photo.file.body.destroy();
+        res.status(304).end();
+        return;
+      }
+      res.type(photo.file.contentType).setHeader('Content-Length', String(photo.file.size));
+      photo.file.body.pipe(res);
+    }),
   );
   return router;
 }

@@ -11,6 +11,8 @@ import { AppError } from '../lib/app-error';
 import { composeMail, type Mailer } from '../mail/mailer';
 import { trialForAction } from '../trials/trials-service';
 import { findTrialBySlug } from '../trials/trials-repository';
+import { variantKey } from '../photos/photos-service';
+import type { ObjectStorage } from '../storage/object-storage';
 import { hashToken, newToken } from './follower-tokens';
 import * as repo from './results-repository';
 import { buildSnapshot, defaultSheet, generatedMethods } from './snapshot';
@@ -329,4 +331,26 @@ async function notifyFollowers(
         deps.log.error({ err, to: f.email }, 'follower mail failed after retries'),
       );
   }
+}
+
+/**
+ * A photo that a published version shows: readable by anyone while the sheet is public, because
+ * the version itself names it (later cover changes do not break earlier versions).
+ */
+export async function publishedPhoto(
+  db: DB,
+  storage: ObjectStorage,
+  params: { slug: string; version: number; photoId: string; variant: 'thumb' | 'display' },
+) {
+  const snapshot = await publicVersion(db, params.slug, params.version);
+  if (!snapshot.entries.some((e) => e.photo?.id === params.photoId))
+    throw AppError.notFound('The photo');
+  const row = await db
+    .selectFrom('photos')
+    .select(['id', 'storage_key', 'original_ext', 'sha256'])
+    .where('id', '=', params.photoId)
+    .executeTakeFirst();
+  const file = row ? await storage.get(variantKey(row, params.variant)) : null;
+  if (!row || !file) throw AppError.notFound('The photo file');
+  return { file, etag: `${(row.sha256 ?? row.id).slice(0, 20)}-${params.variant}` };
 }

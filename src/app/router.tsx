@@ -99,6 +99,14 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           lazy: () => import('@/features/invitations/routes/accept-invitation-route'),
         },
         { path: 'dev/mailbox', lazy: () => import('@/features/mailbox/routes/mailbox-route') },
+        {
+          path: 'analyze',
+          lazy: () => import('@/features/analysis/routes/analyze-spreadsheet-route'),
+        },
+        {
+          path: 't/:slug/analysis',
+          lazy: () => import('@/features/analysis/routes/trial-analysis-route'),
+        },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },

@@ -303,6 +303,64 @@ describe('the results sheet', () => {
     expect((await as(null).get(`/api/results/${SLUG}/v/1`)).status).toBe(200);
   });
 
+  it('serves the photos a version names to anyone, and no others', async () => {
+    const sharp = (await import('sharp')).default;
+    const contributor = await mintSessionCookie(t, account('contributor'));
+    const entry = await t.db
+      .selectFrom('entries as e')
+      .innerJoin('trials as t', 't.id', 'e.trial_id')
+      .select('e.id')
+      .where('t.slug', '=', SLUG)
+      .where('e.code', '=', 'ML')
+      .executeTakeFirstOrThrow();
+    const image = await sharp({
+      create: { width: 800, height: 600, channels: 3, background: '#4a8a57' },
+    })
+      .jpeg()
+      .toBuffer();
+    const upload = async (caption: string) => {
+      const res = await request(t.app)
+        .post(`/api/trials/${SLUG}/photos`)
+        .set('Origin', TEST_ORIGIN)
+        .set('Cookie', contributor)
+        .field('caption', caption)
+        .field('entryId', entry.id)
+        .attach('photo', image, { filename: 'pods.jpg', contentType: 'image/jpeg' });
+      expect(res.status, res.text).toBe(201);
+      return res.body.photos[0].id as string;
+    };
+    const chosen = await upload('Mossbank Long pods at first harvest');
+    const other = await upload('Another Mossbank Long plant');
+    const save = await as(lead).send('put', `/api/trials/${SLUG}/results-sheet`, {
+      ...sheet,
+      coverPhotos: { [entry.id]: chosen },
+    });
+    expect(save.status).toBe(200);
+    const v = (
+      await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
+        changeNote: 'Added a photo.',
+      })
+    ).body.version;
+    const snap = (await as(null).get(`/api/results/${SLUG}/v/${v}`)).body;
+    expect(snap.entries.find((e: { code: string }) => e.code === 'ML').photo).toMatchObject({
+      id: chosen,
+      caption: 'Mossbank Long pods at first harvest',
+    });
+    const served = await as(null).get(`/api/results/${SLUG}/v/${v}/photos/${chosen}/display`);
+    expect(served.status).toBe(200);
+    expect(served.headers['content-type']).toBe('image/webp');
+    expect(served.headers['cache-control']).toBe('public, max-age=86400');
+    expect((await as(null).get(`/api/results/${SLUG}/v/${v}/photos/${other}/display`)).status).toBe(
+      404,
+    );
+    // Not in an earlier version either.
+    expect((await as(null).get(`/api/results/${SLUG}/v/1/photos/${chosen}/display`)).status).toBe(
+      404,
+    );
+    // And the unpublished trial's photo stays private at its own address.
+    expect((await as(null).get(`/api/trials/${SLUG}/photos/${other}/display`)).status).toBe(401);
+  });
+
   it('refuses to change a published version even from inside the database', async () => {
     await expect(
       t.db.updateTable('result_versions').set({ change_note: 'rewritten' }).execute(),

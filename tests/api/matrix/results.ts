@@ -174,6 +174,14 @@ export const rows: MatrixRow[] = [
   },
   {
     method: 'GET',
+    route: '/api/results/:slug/v/:version/photos/:photoId/:variant',
+    request: (w) => ({
+      url: `/api/results/${w.trial.slug}/v/1/photos/${crypto.randomUUID()}/thumb`,
+    }),
+    expect: everyone(404),
+  },
+  {
+    method: 'GET',
     route: '/api/trials/:slug/comparison/harvest-curve',
     request: (w) => ({ url: `/api/trials/${w.trial.slug}/comparison/harvest-curve` }),
     expect: memberRead,

@@ -53,6 +53,12 @@ export function Component() {
         >
           Photos
         </Link>
+        <Link
+          to={`/t/${trial.slug}/analysis`}
+          className="ml-2 inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
+        >
+          Analysis
+        </Link>
       </p>
       <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-5">
         {[
