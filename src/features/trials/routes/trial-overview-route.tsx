@@ -59,6 +59,28 @@ export function Component() {
         >
           Analysis
         </Link>
+        <Link
+          to={`/t/${trial.slug}/compare`}
+          className="ml-2 inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
+        >
+          Compare entries
+        </Link>
+        {trial.permissions['trial.publish'] ? (
+          <Link
+            to={`/t/${trial.slug}/results`}
+            className="ml-2 inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-4 font-semibold text-leaf-700 hover:bg-leaf-50"
+          >
+            Results sheet
+          </Link>
+        ) : null}
+        {trial.status === 'published' ? (
+          <Link
+            to={`/r/${trial.slug}`}
+            className="ml-2 inline-flex min-h-11 items-center px-2 font-semibold text-leaf-700 underline"
+          >
+            Published results
+          </Link>
+        ) : null}
       </p>
       <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-5">
         {[
