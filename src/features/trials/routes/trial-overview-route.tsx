@@ -46,7 +46,7 @@ export function Component() {
           ))}
         </nav>
       ) : null}
-      <p className="mt-3">
+      <p className="mt-3 flex flex-wrap gap-2">
         <Link
           to={`/t/${trial.slug}/photos`}
           className="inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
@@ -55,20 +55,20 @@ export function Component() {
         </Link>
         <Link
           to={`/t/${trial.slug}/analysis`}
-          className="ml-2 inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
+          className="inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
         >
           Analysis
         </Link>
         <Link
           to={`/t/${trial.slug}/compare`}
-          className="ml-2 inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
+          className="inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
         >
           Compare entries
         </Link>
         {trial.permissions['trial.publish'] ? (
           <Link
             to={`/t/${trial.slug}/results`}
-            className="ml-2 inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-4 font-semibold text-leaf-700 hover:bg-leaf-50"
+            className="inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-4 font-semibold text-leaf-700 hover:bg-leaf-50"
           >
             Results sheet
           </Link>
@@ -76,7 +76,7 @@ export function Component() {
         {trial.status === 'published' ? (
           <Link
             to={`/r/${trial.slug}`}
-            className="ml-2 inline-flex min-h-11 items-center px-2 font-semibold text-leaf-700 underline"
+            className="inline-flex min-h-11 items-center px-2 font-semibold text-leaf-700 underline"
           >
             Published results
           </Link>
