@@ -1,0 +1,26 @@
+import { rankingSchema } from '@common/contracts/analysis';
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+import { analysisKeys } from './analysis-keys';
+
+export interface RankingParams {
+  traits: string[];
+  weights: number[];
+  alpha: number;
+}
+
+export const getRanking = (slug: string, q: RankingParams) =>
+  api(`/api/trials/${encodeURIComponent(slug)}/ranking`, rankingSchema, {
+    query: { traits: q.traits.join(','), weights: q.weights.join(','), alpha: q.alpha },
+  });
+
+export const rankingQueryOptions = (slug: string, q: RankingParams) =>
+  queryOptions({
+    queryKey: analysisKeys.ranking(slug, q),
+    queryFn: () => getRanking(slug, q),
+    enabled: q.traits.length > 0,
+    placeholderData: keepPreviousData,
+  });
+
+export const useRanking = (slug: string, q: RankingParams) =>
+  useQuery(rankingQueryOptions(slug, q));

@@ -1,0 +1,27 @@
+import { type AnalysisBasis, trialAnalysisSchema } from '@common/contracts/analysis';
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+import { analysisKeys } from './analysis-keys';
+
+export interface TrialAnalysisParams {
+  trait: string;
+  basis: AnalysisBasis;
+  alpha: number;
+  letters: 'hsd' | 'lsd';
+}
+
+export const getTrialAnalysis = (slug: string, q: TrialAnalysisParams) =>
+  api(`/api/trials/${encodeURIComponent(slug)}/analysis`, trialAnalysisSchema, {
+    query: { trait: q.trait, basis: q.basis, alpha: q.alpha, letters: q.letters },
+  });
+
+export const trialAnalysisQueryOptions = (slug: string, q: TrialAnalysisParams) =>
+  queryOptions({
+    queryKey: analysisKeys.trait(slug, q),
+    queryFn: () => getTrialAnalysis(slug, q),
+    enabled: q.trait !== '',
+    placeholderData: keepPreviousData,
+  });
+
+export const useTrialAnalysis = (slug: string, q: TrialAnalysisParams) =>
+  useQuery(trialAnalysisQueryOptions(slug, q));

@@ -1,0 +1,35 @@
+import type { AnalysisResult } from '@common/contracts/analysis';
+
+function save(name: string, type: string, text: string) {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const a = document.createElement('a');
+  a.href = url;
+  a.download = name;
+  document.body.append(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+const cell = (v: unknown) => {
+  const s = v === null || v === undefined ? '' : String(v);
+  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+};
+
+export function downloadJson(name: string, result: unknown) {
+  save(`${name}.json`, 'application/json', JSON.stringify(result, null, 2));
+}
+
+/** The ANOVA and the means as one CSV (two sections), values in the analysis units. */
+export function downloadCsv(name: string, result: AnalysisResult) {
+  const lines = [
+    'source,df,ss,ms,f,p',
+    ...result.anova.map((l) => [l.source, l.df, l.ss, l.ms, l.f, l.p].map(cell).join(',')),
+    '',
+    'rank,variety,n,mean,sd,se,letters_hsd,letters_lsd',
+    ...result.means.map((m) =>
+      [m.rank, m.variety, m.n, m.mean, m.sd, m.se, m.groupHsd, m.groupLsd].map(cell).join(','),
+    ),
+  ];
+  save(`${name}.csv`, 'text/csv', lines.join('\n') + '\n');
+}

@@ -1,0 +1,140 @@
+import type { TrialWithPermissions } from '@/lib/trial';
+import { useEffect, useId, useState } from 'react';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { useRanking } from '../api/get-ranking';
+import { formatNumber, formatP } from './display-units';
+
+const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };
+
+/** Weighted index across traits, with weights the reader sets (kept only on this screen). */
+export function RankingPanel({ trial, alpha }: { trial: TrialWithPermissions; alpha: number }) {
+  const id = useId();
+  const ranked = trial.traits.filter((t) => t.direction !== 'none');
+  const [weights, setWeights] = useState<Record<string, string>>(() =>
+    Object.fromEntries(ranked.map((t) => [t.key, '1'])),
+  );
+  // Let typing settle before asking the server again.
+  const [settled, setSettled] = useState(weights);
+  useEffect(() => {
+    const h = setTimeout(() => setSettled(weights), 400);
+    return () => clearTimeout(h);
+  }, [weights]);
+  const chosen = ranked.filter((t) => {
+    const w = Number(settled[t.key]);
+    return Number.isFinite(w) && w > 0;
+  });
+  const query = {
+    traits: chosen.map((t) => t.key),
+    weights: chosen.map((t) => Number(settled[t.key])),
+    alpha,
+  };
+  const { data, error, isFetching } = useRanking(trial.slug, query);
+  if (ranked.length === 0) return null;
+  const labelOf = Object.fromEntries(trial.traits.map((t) => [t.key, t.label]));
+
+  return (
+    <section aria-labelledby={`${id}-h`} className="mt-8">
+      <h2 id={`${id}-h`} className="text-2xl font-semibold text-leaf-900">
+        Ranking across traits
+      </h2>
+      <p className="mt-1 max-w-prose text-sm">
+        Each trait’s entry means are standardised (z = distance from the average entry in SDs of the
+        entry means), turned so that better is positive, and averaged with your weights. A weight of
+        0 leaves a trait out. The rank sum adds each entry’s rank per trait.
+      </p>
+      <fieldset className="mt-3 grid gap-2 sm:grid-cols-3">
+        <legend className="sr-only">Weights</legend>
+        {ranked.map((t) => (
+          <label
+            key={t.key}
+            className="flex items-center justify-between gap-2 rounded-lg bg-white p-2 text-sm shadow-sm"
+          >
+            <span>
+              {t.label}
+              <span className="block text-xs text-loam-700">{directionWords[t.direction]}</span>
+            </span>
+            <input
+              type="number"
+              min={0}
+              max={100}
+              step={0.5}
+              inputMode="decimal"
+              className="min-h-11 w-20 rounded-lg border border-leaf-300 px-2 text-right"
+              value={weights[t.key] ?? '1'}
+              onChange={(e) => setWeights({ ...weights, [t.key]: e.target.value })}
+              aria-label={`Weight for ${t.label}`}
+            />
+          </label>
+        ))}
+      </fieldset>
+      {isFetching ? <Spinner label="Ranking…" /> : null}
+      {error ? <ErrorPanel error={error} title="The ranking could not be computed" /> : null}
+      {data ? (
+        <>
+          {data.warnings.length > 0 ? (
+            <ul className="mt-2 list-disc pl-5 text-sm text-loam-700">
+              {data.warnings.map((w) => (
+                <li key={w}>{w}</li>
+              ))}
+            </ul>
+          ) : null}
+          <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+            <table className="w-full min-w-[40rem] text-left text-sm">
+              <caption className="p-2 text-left font-semibold text-leaf-900">
+                Weighted index and each trait’s contribution (z-score units)
+              </caption>
+              <thead className="bg-leaf-50 text-leaf-900">
+                <tr>
+                  <th scope="col" className="p-2 text-right">
+                    Rank
+                  </th>
+                  <th scope="col" className="p-2">
+                    Entry
+                  </th>
+                  <th scope="col" className="p-2 text-right">
+                    Index
+                  </th>
+                  <th scope="col" className="p-2 text-right">
+                    Rank-sum rank
+                  </th>
+                  {data.traits.map((t) => (
+                    <th key={t.key} scope="col" className="p-2 text-right">
+                      {labelOf[t.key] ?? t.key}
+                      <span className="block text-xs font-normal text-loam-700">
+                        weight {t.weight}; variety p {formatP(t.varietyP)}
+                      </span>
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {data.entries.map((e) => (
+                  <tr key={e.entry} className="border-t border-leaf-50">
+                    <td className="p-2 text-right tabular-nums">{e.indexRank}</td>
+                    <th scope="row" className="p-2 font-medium">
+                      <span className="mr-1 font-mono text-xs text-loam-700">{e.entryCode}</span>
+                      {e.entry}
+                    </th>
+                    <td className="p-2 text-right font-semibold tabular-nums">
+                      {e.index.toFixed(2)}
+                    </td>
+                    <td className="p-2 text-right tabular-nums">
+                      {e.rankSumRank} <span className="text-xs text-loam-700">({e.rankSum})</span>
+                    </td>
+                    {e.contributions.map((c) => (
+                      <td key={c.trait} className="p-2 text-right tabular-nums">
+                        {c.contribution >= 0 ? '+' : ''}
+                        {formatNumber(c.contribution, 2)}
+                      </td>
+                    ))}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        </>
+      ) : null}
+    </section>
+  );
+}

@@ -1,0 +1,256 @@
+import {
+  type AnalysisBasis,
+  analysisBases,
+  basisLabels,
+  derivedTraits,
+} from '@common/contracts/analysis';
+import { useId } from 'react';
+import { Link, useParams, useSearchParams } from 'react-router-dom';
+import { Button } from '@/components/ui/button';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { useUnitSystem } from '@/lib/session';
+import { useTrial } from '@/lib/trial';
+import { useTrialAnalysis } from '../api/get-trial-analysis';
+import {
+  AnovaTable,
+  MeansTable,
+  ResultSummary,
+  SeparationSummary,
+  WarningsList,
+} from '../components/analysis-tables';
+import { displayUnit, formatNumber } from '../components/display-units';
+import { downloadCsv, downloadJson } from '../components/download';
+import { RankingPanel } from '../components/ranking-panel';
+import { SeasonPanel } from '../components/season-panel';
+
+const select = 'mt-1 min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-2';
+
+export function Component() {
+  const { slug = '' } = useParams();
+  const id = useId();
+  const system = useUnitSystem();
+  const trial = useTrial(slug);
+  const [params, setParams] = useSearchParams();
+
+  const traits = [
+    ...(trial.data?.traits ?? []).map((t) => ({
+      key: t.key,
+      label: t.label,
+      amount: t.basis === 'harvest' && (t.quantityKind === 'mass' || t.quantityKind === 'count'),
+    })),
+    ...Object.entries(derivedTraits).map(([key, d]) => ({
+      key,
+      label: `${d.label} (from harvests)`,
+      amount: false,
+    })),
+  ];
+  const traitKey = params.get('trait') ?? traits[0]?.key ?? '';
+  const current = traits.find((t) => t.key === traitKey);
+  const basisParam = params.get('basis') as AnalysisBasis | null;
+  const basis: AnalysisBasis =
+    current?.amount && basisParam && analysisBases.includes(basisParam) ? basisParam : 'plot';
+  const alpha = Number(params.get('alpha') ?? '0.05');
+  const letters = params.get('letters') === 'lsd' ? 'lsd' : 'hsd';
+  const analysis = useTrialAnalysis(slug, { trait: traitKey, basis, alpha, letters });
+
+  const set = (key: string, value: string) => {
+    const next = new URLSearchParams(params);
+    next.set(key, value);
+    if (key === 'trait') next.delete('basis');
+    setParams(next, { replace: true });
+  };
+
+  if (trial.isPending) return <Spinner label="Loading the trial…" />;
+  if (trial.error) return <ErrorPanel error={trial.error} />;
+  const t = trial.data;
+  const result = analysis.data;
+  const typical = result ? result.grandMean : 0;
+  const unit = result ? displayUnit(result.unit, system, typical) : { label: '', factor: 1 };
+  const basisChoices = analysisBases.filter((b) => (system === 'us' ? b !== 'ha' : b !== 'acre'));
+
+  return (
+    <article>
+      <p className="text-sm text-loam-700">
+        <Link to={`/t/${slug}`} className="underline">
+          {t.title}
+        </Link>
+      </p>
+      <h1 className="mt-1 text-3xl font-semibold text-leaf-900">Analysis</h1>
+      <p className="mt-1 max-w-prose text-sm">
+        Replicate statistics from the records entered so far; deleted records are left out.
+      </p>
+
+      <form
+        className="mt-4 grid gap-3 rounded-xl bg-white p-4 shadow-sm sm:grid-cols-4"
+        onSubmit={(e) => e.preventDefault()}
+        aria-label="Choose what to analyse"
+      >
+        <label className="text-sm">
+          Trait
+          <select
+            className={select}
+            value={traitKey}
+            onChange={(e) => set('trait', e.target.value)}
+          >
+            {traits.map((x) => (
+              <option key={x.key} value={x.key}>
+                {x.label}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="text-sm">
+          Expressed
+          <select
+            className={select}
+            value={basis}
+            disabled={!current?.amount}
+            onChange={(e) => set('basis', e.target.value)}
+            aria-describedby={`${id}-basis-help`}
+          >
+            {basisChoices.map((b) => (
+              <option key={b} value={b}>
+                {basisLabels[b]}
+              </option>
+            ))}
+          </select>
+          <span id={`${id}-basis-help`} className="text-xs text-loam-700">
+            {current?.amount ? 'Harvest amounts only.' : 'Measured per plot or per plant.'}
+          </span>
+        </label>
+        <label className="text-sm">
+          Significance level (α)
+          <select
+            className={select}
+            value={String(alpha)}
+            onChange={(e) => set('alpha', e.target.value)}
+          >
+            <option value="0.1">0.10</option>
+            <option value="0.05">0.05</option>
+            <option value="0.01">0.01</option>
+          </select>
+        </label>
+        <label className="text-sm">
+          Letters from
+          <select
+            className={select}
+            value={letters}
+            onChange={(e) => set('letters', e.target.value)}
+          >
+            <option value="hsd">Tukey HSD</option>
+            <option value="lsd">Fisher LSD</option>
+          </select>
+        </label>
+      </form>
+
+      <div aria-live="polite">
+        {analysis.isFetching ? (
+          <div className="mt-3">
+            <div
+              className="h-1 animate-pulse rounded bg-pod-500"
+              role="progressbar"
+              aria-label="Computing the analysis"
+            />
+            <Spinner label="Computing the analysis…" />
+          </div>
+        ) : null}
+        {analysis.error ? (
+          <div className="mt-4">
+            <ErrorPanel error={analysis.error} title="This trait could not be analysed" />
+          </div>
+        ) : null}
+      </div>
+
+      {result && !analysis.error ? (
+        <section aria-labelledby={`${id}-result`} className="mt-6">
+          <h2 id={`${id}-result`} className="text-2xl font-semibold text-leaf-900">
+            {result.traitLabel}{' '}
+            <span className="text-base font-normal text-loam-700">
+              {basisLabels[result.basis]}, {unit.label}
+            </span>
+          </h2>
+          <p className="text-sm text-loam-700">Plot value: {result.valueNote}.</p>
+          <ResultSummary result={result} unit={unit} />
+          <WarningsList warnings={result.warnings} />
+          <AnovaTable result={result} unit={unit} title={result.traitLabel} />
+          <MeansTable
+            result={result}
+            unit={unit}
+            title={result.traitLabel}
+            codes={result.entryCodes}
+          />
+          <SeparationSummary result={result} unit={unit} />
+          <details className="mt-3 rounded-lg bg-white p-2 shadow-sm">
+            <summary className="min-h-11 cursor-pointer py-2 font-semibold">
+              The {result.plotValues.length} plot values used
+            </summary>
+            <div className="overflow-x-auto">
+              <table className="w-full min-w-[28rem] text-left text-sm">
+                <caption className="sr-only">Plot values for {result.traitLabel}</caption>
+                <thead className="bg-leaf-50">
+                  <tr>
+                    <th scope="col" className="p-2">
+                      Site
+                    </th>
+                    <th scope="col" className="p-2 text-right">
+                      Block
+                    </th>
+                    <th scope="col" className="p-2 text-right">
+                      Plot
+                    </th>
+                    <th scope="col" className="p-2">
+                      Entry
+                    </th>
+                    <th scope="col" className="p-2 text-right">
+                      Value ({unit.label})
+                    </th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {result.plotValues.map((p) => (
+                    <tr key={p.plotId} className="border-t border-leaf-50">
+                      <td className="p-2">{p.site}</td>
+                      <td className="p-2 text-right">{p.block}</td>
+                      <th scope="row" className="p-2 text-right font-normal">
+                        {p.plotNumber}
+                      </th>
+                      <td className="p-2">{p.entryCode}</td>
+                      <td className="p-2 text-right tabular-nums">
+                        {formatNumber(p.value * unit.factor)}
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          </details>
+          <div className="mt-3 flex flex-wrap gap-2">
+            <Button
+              variant="secondary"
+              type="button"
+              onClick={() => downloadJson(`${slug}-${result.traitKey}`, result)}
+            >
+              Download results (JSON)
+            </Button>
+            <Button
+              variant="secondary"
+              type="button"
+              onClick={() => downloadCsv(`${slug}-${result.traitKey}`, result)}
+            >
+              Download results (CSV)
+            </Button>
+          </div>
+        </section>
+      ) : null}
+
+      <RankingPanel trial={t} alpha={alpha} />
+      <SeasonPanel
+        slug={slug}
+        system={system}
+        sites={t.sites.map((s) => ({ id: s.id, name: s.name }))}
+        canWrite={t.permissions['records.write'] === true}
+      />
+    </article>
+  );
+}
