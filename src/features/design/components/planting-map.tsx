@@ -39,8 +39,9 @@ export interface MapDrawing {
 
 export function mapExtent(design: Design, siteId: string) {
   const plots = design.plots.filter((p) => p.siteId === siteId);
-  const rowLengthMm = design.layout.rowLengthMm ?? 3000;
-  const rowSpacingMm = design.layout.rowSpacingMm ?? 900;
+  // Plots laid out before the trial stored its plot size carry their own.
+  const rowLengthMm = design.layout.rowLengthMm ?? plots[0]?.rowLengthMm ?? 3000;
+  const rowSpacingMm = design.layout.rowSpacingMm ?? plots[0]?.rowSpacingMm ?? 900;
   const alleyMm = Math.max(600, Math.min(1500, rowLengthMm / 3));
   const geometry = mapGeometry(plots, {
     plotsPerRange: design.entries.length,
@@ -57,7 +58,7 @@ export function mapExtent(design: Design, siteId: string) {
     width: geometry.widthMm + 2 * pad,
     height: geometry.heightMm + alleyMm * 2.2,
   };
-  return { plots, geometry, alleyMm, viewBox };
+  return { plots, geometry, alleyMm, viewBox, rowLengthMm, rowSpacingMm };
 }
 
 /**
@@ -75,12 +76,15 @@ export function PlantingMap({
   system: UnitSystem;
   paper: PaperSize;
 }) {
-  const { plots, geometry, alleyMm, viewBox } = mapExtent(design, siteId);
+  const { plots, geometry, alleyMm, viewBox, rowLengthMm, rowSpacingMm } = mapExtent(
+    design,
+    siteId,
+  );
   const fit = fitToPage(viewBox.width, viewBox.height, paper);
   const entryIndex = new Map(design.entries.map((e, i) => [e.id, i]));
   const byId = new Map(plots.map((p) => [p.id, p]));
-  const plotWidth = design.layout.rowsPerPlot * (design.layout.rowSpacingMm ?? 900);
-  const rowLength = design.layout.rowLengthMm ?? 3000;
+  const plotWidth = design.layout.rowsPerPlot * rowSpacingMm;
+  const rowLength = rowLengthMm;
   const font = Math.min(plotWidth * 0.32, rowLength * 0.12, alleyMm * 0.45);
   const bar = scaleBar(geometry.widthMm, system);
   const site = design.sites.find((s) => s.id === siteId);
@@ -198,7 +202,7 @@ export function PlantingMap({
           fill="#1f2a1c"
         >
           {bar.label} · rows {formatLength(rowLength, system)} long,{' '}
-          {formatLength(design.layout.rowSpacingMm ?? 900, system)} apart
+          {formatLength(rowSpacingMm, system)} apart
         </text>
       </g>
     </svg>

@@ -14,6 +14,8 @@ export function PrintPageStyle({
   const css = `@page { size: ${paperSizes[paper].css} ${orientation}; margin: 12mm; }
 @media print {
   html, body { background: #fff !important; }
+  /* a full-screen-height shell would spill onto a blank second sheet */
+  .min-h-screen { min-height: 0 !important; }
   main { padding: 0 !important; max-width: none !important; }
   .print-sheet { box-shadow: none !important; padding: 0 !important; }
   ${

@@ -130,7 +130,13 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
           </table>
         </div>
       </fieldset>
-      <FormError error={save.error} />
+      <FormError
+        error={
+          Object.keys(errors).length
+            ? new Error('Check the marked plots; nothing was saved.')
+            : save.error
+        }
+      />
       {saved ? (
         <p role="status" className="text-leaf-700">
           Saved {plots.length} plots.
