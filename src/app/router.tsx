@@ -107,6 +107,11 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           path: 't/:slug/analysis',
           lazy: () => import('@/features/analysis/routes/trial-analysis-route'),
         },
+        { path: 't/:slug/log', lazy: () => import('@/features/field-log/routes/field-log-route') },
+        {
+          path: 't/:slug/log/events',
+          lazy: () => import('@/features/field-log/routes/field-events-route'),
+        },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },

@@ -1,0 +1,191 @@
+import type { FieldEvent } from '@common/contracts/records';
+import { formatDepth, formatLength } from '@common/units';
+import { weeklyWaterSummary } from '@common/water';
+import { useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { useUnitSystem } from '@/lib/session';
+import { useTrial } from '@/lib/trial';
+import { localToday } from '../api/client-id';
+import { useFieldEvents } from '../api/get-field-events';
+import { useOutbox } from '../api/use-outbox';
+import { FieldEventForm } from '../components/field-event-form';
+import { OutboxPanel } from '../components/outbox-panel';
+
+const kindWord: Record<FieldEvent['kind'], string> = {
+  irrigation: 'Irrigation',
+  rainfall: 'Rain',
+  fertilizer: 'Fertilizer',
+  thinning: 'Thinning',
+  pruning: 'Pruning',
+  transplanting: 'Transplanting',
+  note: 'Note',
+};
+
+/** Field events at a site: the form, the weekly water summary and the season's timeline. */
+export function Component() {
+  const { slug = '' } = useParams();
+  const trial = useTrial(slug);
+  const units = useUnitSystem();
+  const outbox = useOutbox(slug);
+  const [siteId, setSiteId] = useState<string | null>(null);
+  const [date, setDate] = useState(localToday);
+  const events = useFieldEvents(slug, siteId ?? undefined);
+
+  if (trial.isPending) return <Spinner label="Loading the trial…" />;
+  if (trial.error) return <ErrorPanel error={trial.error} />;
+  const t = trial.data;
+  const canWrite = t.permissions['records.write'];
+  const list = events.data?.events ?? [];
+  const weeks = weeklyWaterSummary(list);
+  const detail = (e: FieldEvent) => {
+    switch (e.kind) {
+      case 'irrigation':
+        return `${e.irrigationMethod ?? ''}, ${e.runTimeMin ?? '?'} min, ${e.waterDepthMm !== null ? formatDepth(e.waterDepthMm, units) : 'depth unknown'}`;
+      case 'rainfall':
+        return e.rainMm !== null ? formatDepth(e.rainMm, units) : '';
+      case 'fertilizer':
+        return e.noneApplied
+          ? 'none applied'
+          : `${e.amendmentKind ?? ''}, ${e.rateGPerM2 ?? '?'} g/m²`;
+      case 'thinning':
+        return e.targetSpacingMm !== null ? `to ${formatLength(e.targetSpacingMm, units)}` : '';
+      default:
+        return '';
+    }
+  };
+
+  return (
+    <article className="mx-auto max-w-3xl space-y-4">
+      <header>
+        <p className="text-sm uppercase tracking-wide text-loam-700">
+          <Link to={`/t/${slug}`} className="underline">
+            {t.title}
+          </Link>{' '}
+          ·{' '}
+          <Link to={`/t/${slug}/log`} className="underline">
+            Field log
+          </Link>
+        </p>
+        <h1 className="text-2xl font-semibold text-leaf-900">Field events and water</h1>
+      </header>
+      <div role="group" aria-label="Site" className="flex flex-wrap gap-2">
+        {t.sites.map((s) => (
+          <button
+            key={s.id}
+            type="button"
+            aria-pressed={s.id === siteId}
+            onClick={() => setSiteId(s.id)}
+            className={`min-h-11 rounded-lg border px-3 font-semibold ${
+              s.id === siteId
+                ? 'border-leaf-700 bg-leaf-700 text-white'
+                : 'border-leaf-300 bg-white'
+            }`}
+          >
+            {s.name}
+          </button>
+        ))}
+      </div>
+
+      {siteId && canWrite ? (
+        <section aria-labelledby="event-heading" className="rounded-xl bg-white p-3 shadow-sm">
+          <h2 id="event-heading" className="text-lg font-semibold text-leaf-900">
+            Record an event
+          </h2>
+          <div className="my-2 flex flex-col gap-1">
+            <label htmlFor="event-date" className="font-medium">
+              Date
+            </label>
+            <input
+              id="event-date"
+              type="date"
+              value={date}
+              max={localToday()}
+              onChange={(e) => setDate(e.target.value || localToday())}
+              className="min-h-11 w-48 rounded-lg border border-leaf-300 bg-white px-3"
+            />
+          </div>
+          <FieldEventForm
+            key={siteId}
+            slug={slug}
+            siteId={siteId}
+            date={date}
+            units={units}
+            onSave={(entries) => outbox.add(entries)}
+          />
+        </section>
+      ) : null}
+
+      {siteId ? (
+        <>
+          <section aria-labelledby="water-heading" className="rounded-xl bg-white p-3 shadow-sm">
+            <h2 id="water-heading" className="text-lg font-semibold text-leaf-900">
+              Water by week
+            </h2>
+            {events.isPending ? (
+              <Spinner label="Loading events…" />
+            ) : weeks.length === 0 ? (
+              <p className="text-sm text-loam-700">
+                No rain or irrigation recorded at this site yet.
+              </p>
+            ) : (
+              <div className="overflow-x-auto">
+                <table className="mt-2 w-full text-left text-sm">
+                  <caption className="sr-only">
+                    Rain plus irrigation depth per week (weeks start on Monday)
+                  </caption>
+                  <thead className="bg-leaf-50">
+                    <tr>
+                      <th className="p-2">Week of</th>
+                      <th className="p-2 text-right">Rain</th>
+                      <th className="p-2 text-right">Irrigation</th>
+                      <th className="p-2 text-right">Total</th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {weeks.map((w) => (
+                      <tr key={w.weekStart} className="border-t border-leaf-50">
+                        <td className="p-2">{w.weekStart}</td>
+                        <td className="p-2 text-right">{formatDepth(w.rainMm, units)}</td>
+                        <td className="p-2 text-right">{formatDepth(w.irrigationMm, units)}</td>
+                        <td className="p-2 text-right font-semibold">
+                          {formatDepth(w.totalMm, units)}
+                        </td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            )}
+          </section>
+          <section aria-labelledby="timeline-heading" className="rounded-xl bg-white p-3 shadow-sm">
+            <h2 id="timeline-heading" className="text-lg font-semibold text-leaf-900">
+              Season timeline
+            </h2>
+            <ol className="mt-2 space-y-2 border-l-2 border-leaf-300 pl-4">
+              {[...list]
+                .sort((a, b) => a.occurredOn.localeCompare(b.occurredOn))
+                .map((e) => (
+                  <li key={e.id} className="text-sm">
+                    <span className="font-semibold">{e.occurredOn}</span> · {kindWord[e.kind]}
+                    {e.plotNumber !== null ? ` (plot ${e.plotNumber})` : ''} {detail(e)}
+                    {e.note ? <span className="block text-loam-700">{e.note}</span> : null}
+                  </li>
+                ))}
+            </ol>
+          </section>
+        </>
+      ) : (
+        <p>Choose a site to record events and see its water.</p>
+      )}
+
+      <OutboxPanel
+        items={outbox.items}
+        online={outbox.online}
+        onRetry={() => void outbox.retryNow()}
+        onDiscard={(id) => void outbox.discard(id)}
+      />
+    </article>
+  );
+}

@@ -1,0 +1,217 @@
+import { isSpinyCrop } from '@common/cautions';
+import { useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { CautionNote } from '@/components/ui/caution-note';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { Spinner } from '@/components/ui/spinner';
+import { useUnitSystem } from '@/lib/session';
+import { useTrial } from '@/lib/trial';
+import { localToday } from '../api/client-id';
+import { useRecordPlots } from '../api/get-record-plots';
+import { useOutbox } from '../api/use-outbox';
+import {
+  HarvestForm,
+  MeasureForm,
+  NoteForm,
+  type QueuedEntry,
+  ScoreForm,
+  StandCountForm,
+} from '../components/entry-forms';
+import { OutboxPanel } from '../components/outbox-panel';
+import { PlotPicker } from '../components/plot-picker';
+
+const forms = {
+  harvest: { label: 'Harvest', Form: HarvestForm },
+  measure: { label: 'Measure', Form: MeasureForm },
+  score: { label: 'Score', Form: ScoreForm },
+  stand: { label: 'Stand count', Form: StandCountForm },
+  note: { label: 'Note', Form: NoteForm },
+} as const;
+type FormKey = keyof typeof forms;
+
+/** The grower's field log: a site, a plot, a quick form; "next plot" keeps date and form. */
+export function Component() {
+  const { slug = '' } = useParams();
+  const trial = useTrial(slug);
+  const plots = useRecordPlots(slug);
+  const units = useUnitSystem();
+  const outbox = useOutbox(slug);
+  const [siteId, setSiteId] = useState<string | null>(null);
+  const [plotId, setPlotId] = useState<string | null>(null);
+  const [date, setDate] = useState(localToday);
+  const [form, setForm] = useState<FormKey>('harvest');
+  const [saved, setSaved] = useState<string | null>(null);
+
+  if (trial.isPending || plots.isPending) return <Spinner label="Loading the field log…" />;
+  if (trial.error) return <ErrorPanel error={trial.error} />;
+  if (plots.error) return <ErrorPanel error={plots.error} />;
+  const t = trial.data;
+  const canWrite = t.permissions['records.write'];
+  const canNote = t.permissions['notes.write'];
+  const sitePlots = plots.data.plots.filter((p) => p.siteId === siteId);
+  const plot = sitePlots.find((p) => p.plotId === plotId) ?? null;
+  const spiny = isSpinyCrop(t.crop) || t.traits.some((tr) => tr.key === 'spines');
+  const available = (Object.keys(forms) as FormKey[]).filter((k) =>
+    k === 'note' ? canNote : canWrite,
+  );
+  const activeForm = available.includes(form) ? form : available[0];
+
+  const onSave = async (entries: QueuedEntry[], next: boolean) => {
+    await outbox.add(entries);
+    setSaved(`Kept on this device: ${entries.map((e) => e.label).join('; ')}`);
+    if (next && plot) {
+      const i = sitePlots.findIndex((p) => p.plotId === plot.plotId);
+      const following = sitePlots[i + 1];
+      if (following) setPlotId(following.plotId);
+      else setSaved((s) => `${s}. That was the last plot at this site.`);
+    }
+  };
+
+  if (!canWrite && !canNote)
+    return (
+      <ErrorPanel
+        title="Field log"
+        error={new Error('Your role in this trial does not include field records.')}
+      />
+    );
+
+  return (
+    <article className="mx-auto max-w-2xl space-y-4">
+      <header>
+        <p className="text-sm uppercase tracking-wide text-loam-700">
+          <Link to={`/t/${slug}`} className="underline">
+            {t.title}
+          </Link>
+        </p>
+        <h1 className="text-2xl font-semibold text-leaf-900">Field log</h1>
+        <p className="text-sm">
+          <Link
+            to={`/t/${slug}/log/events`}
+            className="inline-flex min-h-11 items-center underline"
+          >
+            Irrigation, rain and other field events
+          </Link>
+        </p>
+      </header>
+
+      <details className="rounded-lg bg-white p-2 shadow-sm">
+        <summary className="min-h-11 cursor-pointer content-center font-semibold text-loam-700">
+          Working in heat
+        </summary>
+        <CautionNote id="field-heat" />
+      </details>
+
+      <section aria-labelledby="site-heading" className="rounded-xl bg-white p-3 shadow-sm">
+        <h2 id="site-heading" className="text-lg font-semibold text-leaf-900">
+          Site
+        </h2>
+        <div role="group" aria-label="Site" className="mt-2 flex flex-wrap gap-2">
+          {t.sites.map((s) => (
+            <button
+              key={s.id}
+              type="button"
+              aria-pressed={s.id === siteId}
+              onClick={() => {
+                setSiteId(s.id);
+                setPlotId(plots.data.plots.find((p) => p.siteId === s.id)?.plotId ?? null);
+              }}
+              className={`min-h-11 rounded-lg border px-3 font-semibold ${
+                s.id === siteId
+                  ? 'border-leaf-700 bg-leaf-700 text-white'
+                  : 'border-leaf-300 bg-white'
+              }`}
+            >
+              {s.name}
+            </button>
+          ))}
+        </div>
+      </section>
+
+      {siteId ? (
+        <section aria-labelledby="plot-heading" className="rounded-xl bg-white p-3 shadow-sm">
+          <h2 id="plot-heading" className="text-lg font-semibold text-leaf-900">
+            Plot
+          </h2>
+          <PlotPicker plots={sitePlots} currentId={plotId} onPick={setPlotId} />
+        </section>
+      ) : null}
+
+      {plot ? (
+        <section aria-labelledby="entry-heading" className="rounded-xl bg-white p-3 shadow-sm">
+          <h2
+            id="entry-heading"
+            className="font-display text-xl font-semibold text-leaf-900"
+            aria-live="polite"
+          >
+            Plot {plot.plotNumber} · {plot.entryName}{' '}
+            <span className="text-base font-normal text-loam-700">
+              ({plot.entryCode}, block {plot.block})
+            </span>
+          </h2>
+          <div className="mt-2 flex flex-col gap-1">
+            <label htmlFor="log-date" className="font-medium">
+              Date
+            </label>
+            <input
+              id="log-date"
+              type="date"
+              value={date}
+              max={localToday()}
+              onChange={(e) => setDate(e.target.value || localToday())}
+              className="min-h-11 w-48 rounded-lg border border-leaf-300 bg-white px-3"
+            />
+          </div>
+          <div role="tablist" aria-label="What to record" className="mt-3 flex flex-wrap gap-1">
+            {available.map((k) => (
+              <button
+                key={k}
+                type="button"
+                role="tab"
+                aria-selected={k === activeForm}
+                onClick={() => setForm(k)}
+                className={`min-h-11 rounded-lg px-3 font-semibold ${
+                  k === activeForm ? 'bg-leaf-100 text-leaf-900' : 'text-leaf-700'
+                }`}
+              >
+                {forms[k].label}
+              </button>
+            ))}
+          </div>
+          <div role="tabpanel" className="mt-3">
+            {activeForm === 'harvest' && spiny ? (
+              <CautionNote id="spiny-crop" className="mb-3" />
+            ) : null}
+            {activeForm
+              ? (() => {
+                  const { Form } = forms[activeForm];
+                  return (
+                    <Form
+                      key={`${activeForm}`}
+                      slug={slug}
+                      plot={plot}
+                      date={date}
+                      units={units}
+                      traits={t.traits}
+                      onSave={onSave}
+                    />
+                  );
+                })()
+              : null}
+          </div>
+          {saved ? (
+            <p role="status" className="mt-2 text-sm text-leaf-900">
+              {saved}
+            </p>
+          ) : null}
+        </section>
+      ) : null}
+
+      <OutboxPanel
+        items={outbox.items}
+        online={outbox.online}
+        onRetry={() => void outbox.retryNow()}
+        onDiscard={(id) => void outbox.discard(id)}
+      />
+    </article>
+  );
+}
