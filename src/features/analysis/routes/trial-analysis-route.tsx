@@ -86,9 +86,10 @@ export function Component() {
         onSubmit={(e) => e.preventDefault()}
         aria-label="Choose what to analyse"
       >
-        <label className="text-sm">
-          Trait
+        <div className="text-sm">
+          <label htmlFor={`${id}-trait`}>Trait</label>
           <select
+            id={`${id}-trait`}
             className={select}
             value={traitKey}
             onChange={(e) => set('trait', e.target.value)}
@@ -99,7 +100,7 @@ export function Component() {
               </option>
             ))}
           </select>
-        </label>
+        </div>
         <label className="text-sm">
           Expressed
           <select
