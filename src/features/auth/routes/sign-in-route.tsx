@@ -24,10 +24,8 @@ export function Component() {
 
   const onSubmit = form.handleSubmit(async (values) => {
     setProblem(null);
-    const { error } = await authClient.signIn.email({
-      ...values,
-      callbackURL: `/email-verified?next=${encodeURIComponent(next)}`,
-    });
+    // No callbackURL here: the library's client would follow it instead of `next`.
+    const { error } = await authClient.signIn.email(values);
     if (error) {
       setProblem(authErrorMessage(error));
       return;

@@ -2,7 +2,7 @@ import { type CreateInvitationBody, createInvitationBody } from '@common/contrac
 import { roleDescriptions, roleLabels } from '@common/contracts/members';
 import { trialRoles } from '@common/contracts/trials';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
+import { useId, useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
@@ -18,6 +18,7 @@ export function InviteForm({
   slug: string;
   sites: { id: string; name: string }[];
 }) {
+  const id = useId();
   const create = useCreateInvitation(slug);
   const [result, setResult] = useState<{ tone: 'ok' | 'error'; text: string } | null>(null);
   const form = useForm<z.input<typeof createInvitationBody>, unknown, CreateInvitationBody>({
@@ -52,11 +53,14 @@ export function InviteForm({
 
   return (
     <form
+      aria-labelledby={`${id}-heading`}
       onSubmit={onSubmit}
       noValidate
       className="flex flex-col gap-4 rounded-xl bg-white p-4 shadow-sm"
     >
-      <h2 className="text-xl font-semibold text-leaf-900">Invite someone</h2>
+      <h2 id={`${id}-heading`} className="text-xl font-semibold text-leaf-900">
+        Invite someone
+      </h2>
       <TextField
         label="Their e-mail address"
         type="email"
@@ -64,9 +68,13 @@ export function InviteForm({
         error={errors.email?.message}
         {...form.register('email')}
       />
-      <label className="flex flex-col gap-1">
-        <span className="font-medium">Role</span>
+      <div className="flex flex-col gap-1">
+        <label htmlFor={`${id}-role`} className="font-medium">
+          Role
+        </label>
         <select
+          id={`${id}-role`}
+          aria-describedby={`${id}-role-hint`}
           className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
           {...form.register('role')}
         >
@@ -76,8 +84,10 @@ export function InviteForm({
             </option>
           ))}
         </select>
-        <span className="text-sm text-loam-700">{roleDescriptions[role ?? 'grower']}</span>
-      </label>
+        <span id={`${id}-role-hint`} className="text-sm text-loam-700">
+          {roleDescriptions[role ?? 'grower']}
+        </span>
+      </div>
       {role === 'grower' ? (
         <Controller
           control={form.control}

@@ -54,9 +54,13 @@ export function MemberCard({
         {member.role === 'grower' ? ` · ${siteNames || 'every site'}` : ''}
       </p>
       <div className="mt-3 flex flex-col gap-3">
-        <label className="flex flex-col gap-1">
-          <span className="font-medium">Role of {member.name}</span>
+        <div className="flex flex-col gap-1">
+          <label htmlFor={`${id}-role`} className="font-medium">
+            Role of {member.name}
+          </label>
           <select
+            id={`${id}-role`}
+            aria-describedby={`${id}-role-hint`}
             className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
             value={role}
             onChange={(e) => setRole(e.target.value as Member['role'])}
@@ -67,8 +71,10 @@ export function MemberCard({
               </option>
             ))}
           </select>
-          <span className="text-sm text-loam-700">{roleDescriptions[role]}</span>
-        </label>
+          <span id={`${id}-role-hint`} className="text-sm text-loam-700">
+            {roleDescriptions[role]}
+          </span>
+        </div>
         {role === 'grower' ? (
           <SitePicker sites={sites} value={siteIds} onChange={setSiteIds} />
         ) : null}
