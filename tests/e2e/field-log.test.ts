@@ -1,0 +1,174 @@
+/**
+ * A grower at a 360 px phone viewport logs a harvest round with no signal; when the signal
+ * returns every entry is sent, and the first answer for each is lost on the way back, so each
+ * entry is sent twice. PostgreSQL then holds exactly one harvest per plot.
+ */
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  contextAs,
+  launchBrowser,
+  type LiveApp,
+  screenshot,
+  startLiveApp,
+  watchErrors,
+} from '../support/browser';
+import { createUser, type TestUser } from '../support/test-app';
+
+let live: LiveApp;
+let browser: Browser;
+let grower: TestUser;
+let trialId: string;
+const slug = 'brookfold-okra-round';
+const entryNames = [
+  'Tallow Finger',
+  'Redwick Spire',
+  'Ashgrove Pod',
+  'Minnow Green',
+  'Cobble Star',
+  'Harrow Lace',
+];
+
+beforeAll(async () => {
+  live = await startLiveApp();
+  browser = await launchBrowser();
+  const db = live.db;
+  grower = await createUser(db, { name: 'Wren Alderby' });
+  const trial = await db
+    .insertInto('trials')
+    .values({
+      slug,
+      title: 'Brookfold okra round',
+      crop: 'Okra',
+      season: '2026',
+      design: 'rcbd',
+      status: 'active',
+    })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  trialId = trial.id;
+  const site = await db
+    .insertInto('sites')
+    .values({ trial_id: trial.id, name: 'Brookfold Allotment' })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const entries = await db
+    .insertInto('entries')
+    .values(
+      entryNames.map((name, i) => ({
+        trial_id: trial.id,
+        name,
+        code: `E${i + 1}`,
+        entry_type: 'heirloom' as const,
+      })),
+    )
+    .returning('id')
+    .execute();
+  const plots = [];
+  for (const block of [1, 2])
+    for (const [i, entry] of entries.entries())
+      plots.push({
+        trial_id: trial.id,
+        site_id: site.id,
+        entry_id: entry.id,
+        block,
+        position: i + 1,
+        plot_number: block * 100 + i + 1,
+      });
+  await db.insertInto('plots').values(plots).execute();
+  await db
+    .insertInto('trial_members')
+    .values({ trial_id: trial.id, user_id: grower.id, role: 'grower' })
+    .execute();
+  await db
+    .insertInto('trial_member_sites')
+    .values({ trial_id: trial.id, user_id: grower.id, site_id: site.id })
+    .execute();
+});
+afterAll(async () => {
+  await browser?.close();
+  await live?.stop();
+});
+
+describe('the field log on a phone', () => {
+  it('keeps a whole offline harvest round and stores one record per plot, though each is sent twice', async () => {
+    const context = await contextAs(browser, live, grower, { width: 360, height: 780 });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await page.goto(`/t/${slug}/log`);
+    await page.getByRole('heading', { level: 1, name: 'Field log' }).waitFor();
+    await page.getByRole('button', { name: 'Brookfold Allotment' }).click();
+    await page.getByRole('heading', { name: /^Plot 101 · Tallow Finger/ }).waitFor();
+    // Okra: gloves and long sleeves, shown with the harvest form.
+    await page
+      .getByRole('complementary', { name: 'Caution: Spiny or irritating plants' })
+      .waitFor();
+
+    await context.setOffline(true);
+    await page.getByText(/^Offline/).waitFor();
+    const plotNumbers = [101, 102, 103, 104, 105, 106, 201, 202, 203, 204, 205, 206];
+    for (const [i, n] of plotNumbers.entries()) {
+      await page.getByRole('heading', { name: new RegExp(`^Plot ${n} · `) }).waitFor();
+      await page.getByLabel('Fruit count').fill(String(10 + i));
+      await page.getByLabel(/^Mass \(g\)$/).fill(String(120 + i * 5.5));
+      await page.getByRole('button', { name: 'Save and next plot' }).click();
+      await page
+        .getByTestId('outbox-summary')
+        .getByText(`${i + 1} waiting`)
+        .waitFor();
+    }
+    await page.getByText('That was the last plot at this site.', { exact: false }).waitFor();
+    expect(
+      Number(
+        (
+          await live.db
+            .selectFrom('harvests')
+            .select((eb) => eb.fn.countAll().as('n'))
+            .executeTakeFirstOrThrow()
+        ).n,
+      ),
+    ).toBe(0);
+    const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
+    expect(scrollWidth).toBeLessThanOrEqual(360);
+    await screenshot(page, 'field-log-offline-360');
+
+    // Each entry's first answer is lost after the server has stored it: the phone sends again.
+    const answered = new Set<string>();
+    let deliveries = 0;
+    await page.route('**/api/trials/*/harvests', async (route) => {
+      const id = (JSON.parse(route.request().postData() ?? '{}') as { id?: string }).id ?? '';
+      deliveries += 1;
+      if (!answered.has(id)) {
+        answered.add(id);
+        await route.fetch();
+        await route.abort('failed');
+        return;
+      }
+      await route.continue();
+    });
+    await context.setOffline(false);
+    await page.getByTestId('outbox-summary').getByText('12 saved').waitFor({ timeout: 60_000 });
+    expect(deliveries).toBeGreaterThanOrEqual(24);
+
+    const rows = await live.db
+      .selectFrom('harvests as h')
+      .innerJoin('plots as p', 'p.id', 'h.plot_id')
+      .select(['p.plot_number', 'h.fruit_count', 'h.mass_g', 'h.grade', 'h.created_by'])
+      .where('h.trial_id', '=', trialId)
+      .orderBy('p.plot_number')
+      .execute();
+    expect(rows).toEqual(
+      plotNumbers.map((n, i) => ({
+        plot_number: n,
+        fruit_count: 10 + i,
+        mass_g: 120 + i * 5.5,
+        grade: 'marketable',
+        created_by: grower.id,
+      })),
+    );
+    await screenshot(page, 'field-log-saved-360');
+    // The browser reports the connection failures we caused; nothing else may go wrong.
+    expect(errors.filter((e) => !/Failed to load resource|net::ERR_/.test(e))).toEqual([]);
+    await context.close();
+  });
+});
