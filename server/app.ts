@@ -17,7 +17,7 @@ import { mailboxRouter } from './mail/mailbox-router';
 import type { Mailer } from './mail/mailer';
 import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
 import { membersRouter } from './members/members-router';
-import { meRouter } from './me/me-router';
+import { meRouter, sessionRouter } from './me/me-router';
 import { photosRouter } from './photos/photos-router';
 import type { ObjectStorage } from './storage/object-storage';
 import { apiNotFound, errorHandler } from './lib/error-handler';
@@ -62,6 +62,7 @@ export interface AppDeps {
 export function apiMounts(deps: AppDeps): [string, Router][] {
   return [
     ['/api/me', meRouter(deps)],
+    ['/api/session', sessionRouter(deps)],
     ['/api/trials', trialsRouter(deps)],
     ['/api/trials/:slug/photos', photosRouter(deps)],
     ['/api/trials/:slug/members', membersRouter(deps)],

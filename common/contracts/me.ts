@@ -23,3 +23,6 @@ export const updateMeBody = z.object({
   unitSystem: z.enum(unitSystems).optional(),
 });
 export type UpdateMeBody = z.infer<typeof updateMeBody>;
+
+/* GET /api/session */
+export const sessionSchema = z.object({ user: meSchema.nullable() });

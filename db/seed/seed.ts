@@ -76,6 +76,10 @@ export async function seedDemo(db: DB): Promise<void> {
           description: t.description,
           sowing_date: t.sowingDate,
           transplant_date: t.transplantDate,
+          replicates: t.blocks,
+          row_length_mm: t.rowLengthMm,
+          row_spacing_mm: t.rowSpacingMm,
+          fertilizer_policy: 'none' in t.fertilizer ? 'none_applied' : 'as_recorded',
           ...by,
         })
         .returning('id')

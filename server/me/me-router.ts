@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { type Me, updateMeBody } from '../../common/contracts/me';
 import type { DB } from '../../db/database';
 import type { AppDeps } from '../app';
-import { requireActor } from '../auth/actor';
+import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
 import { endpoint } from '../lib/endpoint';
 
@@ -47,6 +47,22 @@ export function meRouter({ db }: Pick<AppDeps, 'db'>) {
           .execute();
       }
       res.json(await loadMe(db, actor.userId));
+    }),
+  );
+  return router;
+}
+
+/**
+ * GET /api/session: who is signed in, or `{ user: null }`. Pages that work signed out too (the
+ * public results sheet) ask this instead of /api/me, so a reader's browser logs no 401.
+ */
+export function sessionRouter({ db }: Pick<AppDeps, 'db'>) {
+  const router = Router();
+  router.get(
+    '/',
+    endpoint({}, async (_input, _req, res) => {
+      const actor = actorOf(res);
+      res.json({ user: actor ? await loadMe(db, actor.userId) : null });
     }),
   );
   return router;

@@ -3,7 +3,6 @@
  * the lead's text, the chosen photos, the growing conditions. Nothing here is recomputed later:
  * readers always see exactly what was published.
  */
-import { designLabels } from '../../common/contracts/trials';
 import type { ResultSnapshot, SaveSheetBody, SnapshotTrait } from '../../common/contracts/results';
 import { cautions, isSpinyCrop } from '../../common/cautions';
 import type { DB } from '../../db/database';
@@ -82,12 +81,15 @@ export async function generatedMethods(
     sheet.letters === 'hsd'
       ? "Tukey's honestly significant difference"
       : "Fisher's least significant difference";
+  const blocks = Number(plots.blocks ?? 0);
+  const layout =
+    trial.design === 'crd'
+      ? 'a completely randomized design'
+      : trial.design === 'rcbd'
+        ? `${plural(blocks, 'randomized complete block')}`
+        : `${plural(blocks, 'randomized complete block')} at each of ${plural(sites.length, 'site')}`;
   return [
-    `${Number(entries.n)} entries of ${trial.crop.toLowerCase()} were compared in a ${designLabels[trial.design].toLowerCase()} design` +
-      (trial.design === 'crd'
-        ? ''
-        : ` with ${plural(Number(plots.blocks ?? 0), 'block')}${trial.design === 'multisite' ? ' at each site' : ''}`) +
-      `, ${plural(Number(plots.n), 'plot')} in all, in the ${trial.season} season${dates ? ` (${dates})` : ''}.`,
+    `${Number(entries.n)} entries of ${trial.crop.toLowerCase()} were compared in ${layout}, ${plural(Number(plots.n), 'plot')} in all, in the ${trial.season} season${dates ? ` (${dates})` : ''}.`,
     sites.length ? `${sites.length === 1 ? 'Site' : 'Sites'}: ${siteText}.` : '',
     fertilizer,
     `Plot values were analysed by analysis of variance (sequential sums of squares${trial.design === 'multisite' ? '; entries tested against the site × entry interaction' : ''}); means were separated by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`,

@@ -1,18 +1,13 @@
 /** The signed-in user, shared by every feature (units preference, names, the user menu). */
-import { meSchema, type UnitSystem } from '@common/contracts/me';
+import { sessionSchema, type UnitSystem } from '@common/contracts/me';
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, ApiError } from './api-client';
+import { api } from './api-client';
 
 export const sessionKeys = { me: ['session', 'me'] as const };
 
-/** The signed-in user, or null when signed out (a 401 is an answer here, not an error). */
+/** The signed-in user, or null when signed out. */
 export async function getMe() {
-  try {
-    return await api('/api/me', meSchema);
-  } catch (err) {
-    if (err instanceof ApiError && err.status === 401) return null;
-    throw err;
-  }
+  return (await api('/api/session', sessionSchema)).user;
 }
 
 export const meQueryOptions = () =>

@@ -73,6 +73,12 @@ describe('the error shape', () => {
     expect(res.body.error.message).toContain('1048576');
   });
 
+  it('tells a signed-out browser who is signed in without an error status', async () => {
+    const res = await request(t.app).get('/api/session');
+    expect(res.status).toBe(200);
+    expect(res.body).toEqual({ user: null });
+  });
+
   it('answers 401 to a signed-out request for the current user', async () => {
     const res = await request(t.app).get('/api/me');
     expect(res.status).toBe(401);

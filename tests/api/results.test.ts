@@ -77,7 +77,7 @@ describe('the results sheet', () => {
       'Means followed by the same letter are not significantly different.',
     );
     expect(ok.body.generatedMethods).toContain(
-      '6 entries of okra were compared in a blocks at several sites design with 3 blocks at each site, 54 plots',
+      '6 entries of okra were compared in 3 randomized complete blocks at each of 3 sites, 54 plots',
     );
   });
 

@@ -20,6 +20,20 @@ export const rows: MatrixRow[] = [
   },
   {
     method: 'GET',
+    route: '/api/session',
+    request: () => ({ url: '/api/session' }),
+    expect: {
+      anonymous: 200,
+      viewer: 200,
+      contributor: 200,
+      growerInSite: 200,
+      growerOtherSite: 200,
+      lead: 200,
+      admin: 200,
+    },
+  },
+  {
+    method: 'GET',
     route: '/api/trials',
     request: () => ({ url: '/api/trials' }),
     expect: {

@@ -213,7 +213,7 @@ export function Component() {
               <input
                 type="number"
                 inputMode="decimal"
-                step={0.01}
+                step="any"
                 min={0.001}
                 max={0.2}
                 className={field}
