@@ -333,7 +333,7 @@ describe('forgotten password', () => {
     const link = mail.links.find((l) => l.includes('/api/auth/reset-password/'))!;
     const opened = await request(t.app).get(pathOf(link));
     expect(opened.status).toBe(302);
-    const location = new URL(opened.headers.location, TEST_ORIGIN);
+    const location = new URL(String(opened.headers.location), TEST_ORIGIN);
     expect(location.pathname).toBe('/reset-password');
     const token = location.searchParams.get('token')!;
     expect(token).toBeTruthy();
