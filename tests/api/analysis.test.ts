@@ -45,6 +45,7 @@ type Body = {
     value: number;
   }[];
   entryCodes: Record<string, string>;
+  warnings: string[];
   [k: string]: unknown;
 };
 const line = (b: Body, source: string) => b.anova.find((l) => l.source === source)!;

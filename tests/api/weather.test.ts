@@ -33,7 +33,7 @@ beforeAll(async () => {
     .returning('id')
     .executeTakeFirstOrThrow();
   trialId = trial.id;
-  [siteA, siteB] = await Promise.all(
+  const ids = await Promise.all(
     ['Hollow Field', 'Upper Terrace'].map(
       async (name) =>
         (
@@ -45,6 +45,8 @@ beforeAll(async () => {
         ).id,
     ),
   );
+  siteA = ids[0]!;
+  siteB = ids[1]!;
   const entry = await t.db
     .insertInto('entries')
     .values({ trial_id: trialId, name: 'Pebble Green', code: 'PG', entry_type: 'heirloom' })

@@ -392,7 +392,8 @@ type LayoutColumn = (typeof KNOWN_COLUMNS)[number];
 export interface AnalyzeCsvOptions extends AnalyzeOptions {
   /**
    * Header cells to read as the layout columns (matched case-insensitively); a role left out
-   * is looked for under its own name. The value column is `trait`.
+   * is looked for under its own name, and an empty name means the sheet has no such column.
+   * The value column is `trait`.
    */
   columns?: Partial<Record<LayoutColumn, string>>;
 }
@@ -424,10 +425,13 @@ export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): An
   const col = {} as Record<LayoutColumn, number>;
   for (const c of KNOWN_COLUMNS) {
     const chosen = columns?.[c];
-    if (chosen !== undefined) {
+    if (chosen !== undefined && chosen.trim() === '') col[c] = -1;
+    else if (chosen !== undefined) {
       col[c] = find(chosen.trim());
       if (col[c] < 0)
-        throw new AnalysisInputError(`column "${chosen}": not found in the header (chosen as ${c})`);
+        throw new AnalysisInputError(
+          `column "${chosen}": not found in the header (chosen as ${c})`,
+        );
     } else col[c] = find(c);
   }
   if (col.variety < 0) throw new AnalysisInputError('column "variety": not found in the header');
