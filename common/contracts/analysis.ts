@@ -225,7 +225,8 @@ export type Ranking = z.infer<typeof rankingSchema>;
 /** Largest spreadsheet the analyze endpoint accepts. */
 export const ANALYZE_MAX_BYTES = 2 * 1024 * 1024;
 
-const columnName = z.string().trim().min(1).max(200);
+/** A header cell; empty means "the sheet has no such column" (layout roles only). */
+const columnName = z.string().trim().max(200);
 
 /**
  * Options for POST /api/analyze (query string with a text/csv body, or beside `csv` in a JSON
@@ -239,7 +240,7 @@ export const analyzeOptions = z.object({
   site: columnName.optional(),
   block: columnName.optional(),
   plot: columnName.optional(),
-  value: columnName.optional(),
+  value: columnName.min(1, 'Choose the value column.').optional(),
 });
 export type AnalyzeOptionsInput = z.input<typeof analyzeOptions>;
 

@@ -262,7 +262,7 @@ export function analyzeSpreadsheet(
   const columns: Record<string, string> = {};
   for (const c of ['variety', 'site', 'block', 'plot'] as const) {
     const v = options[c];
-    if (v) columns[c] = v;
+    if (v !== undefined) columns[c] = v;
   }
   try {
     return finite(
