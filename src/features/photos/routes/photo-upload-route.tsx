@@ -277,7 +277,11 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
             </progress>
             <div className="mt-2 flex flex-wrap gap-2">
               <Button onClick={() => void sendAll()} disabled={running || pending === 0}>
-                {pending === 1 ? 'Upload 1 photo' : `Upload ${pending} photos`}
+                {running
+                  ? 'Uploading…'
+                  : pending === 1
+                    ? 'Upload 1 photo'
+                    : `Upload ${pending} photos`}
               </Button>
               {running ? (
                 <Button variant="secondary" onClick={cancel}>
