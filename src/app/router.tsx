@@ -112,6 +112,23 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           path: 't/:slug/log/events',
           lazy: () => import('@/features/field-log/routes/field-events-route'),
         },
+        {
+          path: 't/:slug/records/harvests',
+          lazy: () => import('@/features/records/routes/harvest-log-route'),
+        },
+        {
+          path: 't/:slug/records/observations',
+          lazy: () => import('@/features/records/routes/observation-log-route'),
+        },
+        {
+          path: 't/:slug/records/completeness',
+          lazy: () => import('@/features/records/routes/completeness-route'),
+        },
+        {
+          path: 't/:slug/records/files',
+          lazy: () => import('@/features/records/routes/import-export-route'),
+        },
+        { path: 't/:slug/records/audit', lazy: () => import('@/features/records/routes/audit-route') },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },

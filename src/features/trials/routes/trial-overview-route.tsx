@@ -47,6 +47,20 @@ export function Component() {
         </nav>
       ) : null}
       <p className="mt-3 flex flex-wrap gap-2">
+        {trial.permissions['records.write'] || trial.permissions['notes.write'] ? (
+          <Link
+            to={`/t/${trial.slug}/log`}
+            className="inline-flex min-h-11 items-center rounded-lg bg-pod-500 px-4 font-semibold text-ink hover:brightness-95"
+          >
+            Field log
+          </Link>
+        ) : null}
+        <Link
+          to={`/t/${trial.slug}/records/harvests`}
+          className="inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"
+        >
+          Records
+        </Link>
         <Link
           to={`/t/${trial.slug}/photos`}
           className="inline-flex min-h-11 items-center rounded-lg bg-leaf-700 px-4 font-semibold text-white hover:bg-leaf-900"

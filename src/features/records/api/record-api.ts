@@ -1,0 +1,119 @@
+/**
+ * The records tables' API: lists, edits with the version read, delete and undo, completeness,
+ * import and the audit log. Mutations await invalidation of the trial's record keys.
+ */
+import {
+  auditListSchema,
+  completenessSchema,
+  type ConflictDetails,
+  conflictDetailsSchema,
+  harvestListSchema,
+  harvestSchema,
+  importPreviewSchema,
+  importResultSchema,
+  type ImportKind,
+  observationListSchema,
+  observationSchema,
+  restoredSchema,
+  type RestoreBody,
+  type UpdateHarvestBody,
+  type UpdateObservationBody,
+} from '@common/contracts/records';
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api, ApiError } from '@/lib/api-client';
+import { recordKeys } from '@/lib/record-keys';
+
+const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
+export interface ListFilters {
+  siteId?: string;
+  from?: string;
+  to?: string;
+}
+
+export const harvestsQueryOptions = (slug: string, f: ListFilters) =>
+  queryOptions({
+    queryKey: recordKeys.harvests(slug, f),
+    queryFn: () => api(`${base(slug)}/harvests`, harvestListSchema, { query: { ...f } }),
+  });
+export const useHarvests = (slug: string, f: ListFilters) =>
+  useQuery(harvestsQueryOptions(slug, f));
+
+export const observationsQueryOptions = (slug: string, f: ListFilters) =>
+  queryOptions({
+    queryKey: recordKeys.observations(slug, f),
+    queryFn: () => api(`${base(slug)}/observations`, observationListSchema, { query: { ...f } }),
+  });
+export const useObservations = (slug: string, f: ListFilters) =>
+  useQuery(observationsQueryOptions(slug, f));
+
+export const completenessQueryOptions = (
+  slug: string,
+  q: { siteId?: string; from: string; to: string },
+) =>
+  queryOptions({
+    queryKey: recordKeys.completeness(slug, q),
+    queryFn: () => api(`${base(slug)}/records/completeness`, completenessSchema, { query: q }),
+  });
+export const useCompleteness = (slug: string, q: { siteId?: string; from: string; to: string }) =>
+  useQuery(completenessQueryOptions(slug, q));
+
+export const auditQueryOptions = (slug: string, q: { table?: string; action?: string }) =>
+  queryOptions({
+    queryKey: recordKeys.audit(slug, q),
+    queryFn: () => api(`${base(slug)}/audit`, auditListSchema, { query: { ...q, limit: 200 } }),
+  });
+export const useAuditLog = (slug: string, q: { table?: string; action?: string }) =>
+  useQuery(auditQueryOptions(slug, q));
+
+/** The 409 details of a stale save, or null for any other failure. */
+export function conflictOf(error: unknown): ConflictDetails | null {
+  if (!(error instanceof ApiError) || error.status !== 409) return null;
+  const parsed = conflictDetailsSchema.safeParse(error.details);
+  return parsed.success ? parsed.data : null;
+}
+
+function useRecordMutation<TVars, TOut>(slug: string, fn: (v: TVars) => Promise<TOut>) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: fn,
+    onSettled: () => queryClient.invalidateQueries({ queryKey: recordKeys.all(slug) }),
+  });
+}
+
+export const useUpdateHarvest = (slug: string) =>
+  useRecordMutation(slug, ({ id, body }: { id: string; body: UpdateHarvestBody }) =>
+    api(`${base(slug)}/harvests/${id}`, harvestSchema, { method: 'PATCH', body }),
+  );
+export const useUpdateObservation = (slug: string) =>
+  useRecordMutation(slug, ({ id, body }: { id: string; body: UpdateObservationBody }) =>
+    api(`${base(slug)}/observations/${id}`, observationSchema, { method: 'PATCH', body }),
+  );
+
+type Path = 'harvests' | 'observations' | 'field-events';
+export const useDeleteRecord = (slug: string, path: Path) =>
+  useRecordMutation(slug, (id: string) =>
+    api(`${base(slug)}/${path}/${id}`, null, { method: 'DELETE' }),
+  );
+export const useUndoDelete = (slug: string, path: Path) =>
+  useRecordMutation(slug, (id: string) =>
+    api(`${base(slug)}/${path}/${id}/undo-delete`, null, { method: 'POST' }),
+  );
+export const useRestoreRecord = (slug: string) =>
+  useRecordMutation(slug, (body: RestoreBody) =>
+    api(`${base(slug)}/audit/restore`, restoredSchema, { method: 'POST', body }),
+  );
+
+export const previewImport = (slug: string, kind: ImportKind, csv: string) =>
+  api(`${base(slug)}/records/import/preview`, importPreviewSchema, {
+    method: 'POST',
+    body: { kind, csv },
+  });
+export const useCommitImport = (slug: string) =>
+  useRecordMutation(slug, ({ kind, csv }: { kind: ImportKind; csv: string }) =>
+    api(`${base(slug)}/records/import`, importResultSchema, {
+      method: 'POST',
+      body: { kind, csv },
+    }),
+  );
+export const exportUrl = (slug: string, dataset: string) =>
+  `${base(slug)}/records/export/${dataset}`;
