@@ -80,3 +80,9 @@ export function formatTemperature(c: number | null, system: UnitSystem): string 
 export function formatDegreeDays(dd: number, system: UnitSystem): string {
   return system === 'metric' ? `${Math.round(dd)} °C·d` : `${Math.round((dd * 9) / 5)} °F·d`;
 }
+
+/** A value in a chosen display unit, with its label. */
+export function formatInUnit(value: number | null | undefined, unit: DisplayUnit): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  return unit.label ? `${formatNumber(value * unit.factor)} ${unit.label}` : formatNumber(value);
+}

@@ -1,5 +1,5 @@
 import type { AnalysisResult } from '@common/contracts/analysis';
-import { type DisplayUnit, formatF, formatNumber, formatP } from './display-units';
+import { type DisplayUnit, formatF, formatNumber, formatP } from '@/lib/display-units';
 
 const designWords = {
   crd: 'completely randomized',

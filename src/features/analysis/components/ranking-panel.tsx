@@ -3,7 +3,7 @@ import { useEffect, useId, useState } from 'react';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useRanking } from '../api/get-ranking';
-import { formatNumber, formatP } from './display-units';
+import { formatNumber, formatP } from '@/lib/display-units';
 
 const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };
 

@@ -19,7 +19,7 @@ import {
   SeparationSummary,
   WarningsList,
 } from '../components/analysis-tables';
-import { displayUnit, formatNumber } from '../components/display-units';
+import { displayUnit, formatNumber } from '@/lib/display-units';
 import { downloadCsv, downloadJson } from '../components/download';
 import { RankingPanel } from '../components/ranking-panel';
 import { SeasonPanel } from '../components/season-panel';

@@ -1,6 +1,13 @@
 import { licenseLabels, type ResultSnapshot } from '@common/contracts/results';
 import { designLabels } from '@common/contracts/trials';
-import { formatDepth, formatQuantity } from '@common/units';
+import { formatDepth } from '@common/units';
+import {
+  displayUnit,
+  formatDegreeDays,
+  formatInUnit,
+  formatNumber,
+  formatTemperature,
+} from '@/lib/display-units';
 import { useUnitSystem } from '@/lib/session';
 
 const directionText = {
@@ -22,6 +29,8 @@ export function SheetView({
   preview?: boolean;
 }) {
   const units = useUnitSystem();
+  // One display unit per trait, chosen by the size of its grand mean.
+  const du = (t: ResultSnapshot['traits'][number]) => displayUnit(t.unit, units, t.grandMean);
   const photos = sheet.entries.filter((e) => e.photo);
   return (
     <article className="sheet mx-auto max-w-4xl">
@@ -91,7 +100,7 @@ export function SheetView({
                     const m = t.means.find((x) => x.variety === r.variety);
                     return (
                       <td key={t.key} className="p-2 text-right tabular-nums">
-                        {m ? `${formatQuantity(m.mean, t.unit, units)} ${m.group}` : '—'}
+                        {m ? `${formatInUnit(m.mean, du(t))} ${m.group}` : '—'}
                       </td>
                     );
                   })}
@@ -113,11 +122,11 @@ export function SheetView({
             {t.label}
           </h2>
           <p className="text-sm text-loam-700">
-            {directionText[t.direction]} · grand mean {formatQuantity(t.grandMean, t.unit, units)} ·
-            CV {t.cvPercent === null ? '—' : `${t.cvPercent.toFixed(1)} %`} ·{' '}
+            {directionText[t.direction]} · grand mean {formatInUnit(t.grandMean, du(t))} · CV{' '}
+            {t.cvPercent === null ? '—' : `${t.cvPercent.toFixed(1)} %`} ·{' '}
             {sheet.letters === 'hsd'
-              ? `HSD ${formatQuantity(t.hsd.value, t.unit, units)}`
-              : `LSD ${formatQuantity(t.lsd.value, t.unit, units)}`}
+              ? `HSD ${formatInUnit(t.hsd.value, du(t))}`
+              : `LSD ${formatInUnit(t.lsd.value, du(t))}`}
           </p>
           <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
             <table className="w-full min-w-[20rem] text-left text-sm">
@@ -151,8 +160,8 @@ export function SheetView({
                       {m.variety}
                     </th>
                     <td className="p-2 text-right tabular-nums">
-                      {formatQuantity(m.mean, t.unit, units)} ±{' '}
-                      {formatQuantity(m.se, t.unit, units).replace(/ .*/, '')}
+                      {formatInUnit(m.mean, du(t))} ±{' '}
+                      {formatNumber(m.se === null ? null : m.se * du(t).factor)}
                     </td>
                     <td className="p-2 font-mono">{m.group}</td>
                     <td className="p-2 text-right">{m.n}</td>
@@ -253,9 +262,7 @@ export function SheetView({
               <p>
                 {s.degreeDays === null
                   ? 'Degree days not recorded'
-                  : units === 'us'
-                    ? `${Math.round(s.degreeDays * 1.8)} degree days (base ${Math.round((s.degreeDayBaseC ?? 0) * 1.8 + 32)} °F)`
-                    : `${Math.round(s.degreeDays)} degree days (base ${s.degreeDayBaseC} °C)`}
+                  : `${formatDegreeDays(s.degreeDays, units)} above ${formatTemperature(s.degreeDayBaseC, units)}`}
                 {s.hotDays === null ? '' : ` · ${s.hotDays} hot days`}
               </p>
             </li>

@@ -1,5 +1,5 @@
 import type { TrialAnalysis } from '@common/contracts/analysis';
-import { displayQuantity, formatQuantity } from '@common/units';
+import { type DisplayUnit, displayUnit, formatInUnit, formatNumber } from '@/lib/display-units';
 import {
   createColumnHelper,
   flexRender,
@@ -86,7 +86,8 @@ export function Component() {
       }),
       ...visible.map((k) => {
         const label = trial.data?.traits.find((t) => t.key === k)?.label ?? k;
-        const unit = byKey.get(k)?.unit ?? '';
+        const analysis = byKey.get(k);
+        const du = displayUnit(analysis?.unit ?? '', units, analysis?.grandMean ?? 0);
         return column.accessor((r) => r.cells[k]?.mean ?? null, {
           id: k,
           header: label,
@@ -96,8 +97,7 @@ export function Component() {
             if (!m) return '—';
             return (
               <span className="tabular-nums">
-                {formatQuantity(m.mean, unit, units)} ±{' '}
-                {formatQuantity(m.se, unit, units).replace(/ .*/, '')}{' '}
+                {formatInUnit(m.mean, du)} ± {formatNumber(m.se === null ? null : m.se * du.factor)}{' '}
                 <span className="font-mono text-leaf-700">{m.group}</span>{' '}
                 <span className="text-xs text-loam-700">#{m.rank}</span>
               </span>
@@ -122,8 +122,8 @@ export function Component() {
   if (trial.error) return <ErrorPanel error={trial.error} />;
   const loading = analyses.some((a) => a.isPending);
   const failed = analyses.find((a) => a.error);
-  const unit = chart?.unit ?? '';
-  const conv = (v: number) => displayQuantity(v, unit, units).value;
+  const chartUnit: DisplayUnit = displayUnit(chart?.unit ?? '', units, chart?.grandMean ?? 0);
+  const conv = (v: number) => v * chartUnit.factor;
   const meansData =
     chart?.means.map((m) => ({
       variety: m.variety,
@@ -131,8 +131,16 @@ export function Component() {
       se: m.se === null ? 0 : conv(m.se),
     })) ?? [];
   const dots = chart?.plotValues.map((p) => ({ variety: p.entry, value: conv(p.value) })) ?? [];
-  const displayUnit = chart ? displayQuantity(1, unit, units).unit : '';
-  const massUnit = displayQuantity(1, 'g', units).unit;
+  const curveMax = Math.max(
+    0,
+    ...(curve.data?.entries.flatMap((e) => e.points.map((p) => p.cumulativeMassG)) ?? []),
+  );
+  const massUnit = displayUnit('g', units, curveMax);
+  const siteUnit = displayUnit(
+    entrySite.data?.unit ?? '',
+    units,
+    entrySite.data?.cells[0]?.mean ?? 0,
+  );
   const sites = [...new Set(entrySite.data?.cells.map((c) => c.site) ?? [])];
 
   return (
@@ -258,9 +266,9 @@ export function Component() {
                 interval={0}
                 height={60}
               />
-              <YAxis label={{ value: displayUnit, angle: -90, position: 'insideLeft' }} />
+              <YAxis label={{ value: chartUnit.label, angle: -90, position: 'insideLeft' }} />
               <Tooltip />
-              <Bar dataKey="mean" name={`Mean (${displayUnit})`} fill="#8fbf98">
+              <Bar dataKey="mean" name={`Mean (${chartUnit.label})`} fill="#8fbf98">
                 <ErrorBar dataKey="se" width={6} stroke="#1b3822" />
               </Bar>
               <Scatter data={dots} dataKey="value" name="Plot values" fill="#a8631a" />
@@ -286,7 +294,7 @@ export function Component() {
               <LineChart margin={{ left: 8, right: 8 }}>
                 <CartesianGrid strokeDasharray="3 3" />
                 <XAxis dataKey="date" type="category" allowDuplicatedCategory={false} />
-                <YAxis label={{ value: massUnit, angle: -90, position: 'insideLeft' }} />
+                <YAxis label={{ value: massUnit.label, angle: -90, position: 'insideLeft' }} />
                 <Tooltip />
                 <Legend />
                 {curve.data.entries.map((e, i) => (
@@ -294,7 +302,7 @@ export function Component() {
                     key={e.entry}
                     data={e.points.map((p) => ({
                       date: p.date,
-                      value: displayQuantity(p.cumulativeMassG, 'g', units).value,
+                      value: p.cumulativeMassG * massUnit.factor,
                     }))}
                     dataKey="value"
                     name={e.entry}
@@ -328,7 +336,7 @@ export function Component() {
                   <XAxis dataKey="site" type="category" allowDuplicatedCategory={false} />
                   <YAxis
                     label={{
-                      value: displayQuantity(1, entrySite.data.unit, units).unit,
+                      value: siteUnit.label,
                       angle: -90,
                       position: 'insideLeft',
                     }}
@@ -344,9 +352,7 @@ export function Component() {
                         );
                         return {
                           site,
-                          value: cell
-                            ? displayQuantity(cell.mean, entrySite.data.unit, units).value
-                            : null,
+                          value: cell ? cell.mean * siteUnit.factor : null,
                         };
                       })}
                       dataKey="value"
