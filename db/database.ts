@@ -9,8 +9,18 @@ pg.types.setTypeParser(pg.types.builtins.INT8, (value) => Number(value));
 
 export type DB = Kysely<Database>;
 
-export function createPool(connectionString: string, max = 10): pg.Pool {
-  return new pg.Pool({ connectionString, max });
+/**
+ * A pool whose idle connections may drop (server restart, a test database dropped) without
+ * taking the process down: pg discards the broken client and the next query opens a new one.
+ */
+export function createPool(
+  connectionString: string,
+  max = 10,
+  onIdleError: (err: Error) => void = () => {},
+): pg.Pool {
+  const pool = new pg.Pool({ connectionString, max });
+  pool.on('error', onIdleError);
+  return pool;
 }
 
 export function createDb(pool: pg.Pool): DB {

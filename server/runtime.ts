@@ -54,7 +54,9 @@ export function createRuntime(opts: RuntimeOptions) {
       level: env.LOG_LEVEL,
       redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'],
     });
-  const pool = createPool(opts.databaseUrl, env.DB_POOL_MAX);
+  const pool = createPool(opts.databaseUrl, env.DB_POOL_MAX, (err) =>
+    logger.warn({ err }, 'an idle database connection was lost'),
+  );
   const db = createDb(pool);
   const mailer = opts.mailer ?? createSmtpMailer(env, logger);
   const baseUrl = opts.baseUrl ?? env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
