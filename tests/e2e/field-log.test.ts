@@ -18,6 +18,7 @@ import { createUser, type TestUser } from '../support/test-app';
 let live: LiveApp;
 let browser: Browser;
 let grower: TestUser;
+let lead: TestUser;
 let trialId: string;
 const slug = 'brookfold-okra-round';
 const entryNames = [
@@ -34,6 +35,7 @@ beforeAll(async () => {
   browser = await launchBrowser();
   const db = live.db;
   grower = await createUser(db, { name: 'Wren Alderby' });
+  lead = await createUser(db, { name: 'Hollis Marchetti' });
   const trial = await db
     .insertInto('trials')
     .values({
@@ -78,7 +80,10 @@ beforeAll(async () => {
   await db.insertInto('plots').values(plots).execute();
   await db
     .insertInto('trial_members')
-    .values({ trial_id: trial.id, user_id: grower.id, role: 'grower' })
+    .values([
+      { trial_id: trial.id, user_id: grower.id, role: 'grower' },
+      { trial_id: trial.id, user_id: lead.id, role: 'lead' },
+    ])
     .execute();
   await db
     .insertInto('trial_member_sites')
@@ -169,6 +174,61 @@ describe('the field log on a phone', () => {
     await screenshot(page, 'field-log-saved-360');
     // The browser reports the connection failures we caused; nothing else may go wrong.
     expect(errors.filter((e) => !/Failed to load resource|net::ERR_/.test(e))).toEqual([]);
+    await context.close();
+  });
+
+  it('shows the lead the round in the harvest log, and a clear 409 when someone saved first', async () => {
+    const context = await contextAs(browser, live, lead, { width: 1280, height: 900 });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await page.goto(`/t/${slug}/records/harvests`);
+    await page.getByText(/^12 harvests · /).waitFor();
+    await page.getByRole('button', { name: /^Edit harvest of plot 101 / }).click();
+    // Meanwhile the grower corrects the same harvest from another phone.
+    await live.db
+      .updateTable('harvests')
+      .set({ mass_g: 999, version: 2 })
+      .where('trial_id', '=', trialId)
+      .where('fruit_count', '=', 10)
+      .execute();
+    await page.getByLabel('Fruit count').fill('11');
+    await page.getByRole('button', { name: 'Save', exact: true }).click();
+    const alert = page.getByRole('alert').filter({ hasText: 'Not saved' });
+    await alert.waitFor();
+    await expect(alert.textContent()).resolves.toContain('version 1 → 2');
+    await page.getByRole('button', { name: 'Keep the stored values' }).click();
+    const stored = await live.db
+      .selectFrom('harvests')
+      .select(['fruit_count', 'mass_g'])
+      .where('trial_id', '=', trialId)
+      .where('mass_g', '=', 999)
+      .execute();
+    expect(stored).toEqual([{ fruit_count: 10, mass_g: 999 }]);
+
+    for (const [path, heading] of [
+      ['completeness', 'Completeness'],
+      ['files', 'Import and export'],
+      ['audit', 'Audit log'],
+      ['observations', 'Observation log'],
+    ] as const) {
+      await page.goto(`/t/${slug}/records/${path}`);
+      await page.getByRole('heading', { level: 1, name: new RegExp(`^${heading}`) }).waitFor();
+    }
+    await page.goto(`/t/${slug}/log/events`);
+    await page.getByRole('button', { name: 'Brookfold Allotment' }).click();
+    await page.getByLabel('Run time (min)').fill('45');
+    await page.getByLabel('Emitter flow (L/h)').fill('2');
+    await page.getByLabel('Emitter spacing (cm)').fill('30');
+    await page.getByLabel('Wetted width (cm)').fill('40');
+    // 2 L/h ÷ (0.30 m × 0.40 m) × 0.75 h = 12.5 mm (1 L over 1 m² = 1 mm).
+    await page.getByText('Depth of water applied over the wetted area: 12.5 mm').waitFor();
+    await page
+      .getByRole('complementary', { name: 'Caution: Irrigation connected to drinking water' })
+      .waitFor();
+    await page.getByRole('button', { name: 'Save event' }).click();
+    await page.getByRole('cell', { name: '12.5 mm' }).first().waitFor();
+    // The browser logs the 409 it was given on purpose; nothing else may go wrong.
+    expect(errors.filter((e) => !/status of 409/.test(e))).toEqual([]);
     await context.close();
   });
 });

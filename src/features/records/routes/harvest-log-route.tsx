@@ -4,7 +4,6 @@ import {
   type ColumnDef,
   flexRender,
   getCoreRowModel,
-  getFilteredRowModel,
   getSortedRowModel,
   type SortingState,
   useReactTable,
@@ -112,26 +111,40 @@ export function Component() {
         header: `Mass`,
         cell: (c) => formatMass(c.getValue<number>(), units),
       },
-      { accessorKey: 'grade', header: 'Grade', filterFn: 'equalsString' },
+      { accessorKey: 'grade', header: 'Grade' },
       { accessorKey: 'note', header: 'Note', enableSorting: false },
       { accessorKey: 'updatedByName', header: 'By' },
     ],
     [units],
   );
-  const data = useMemo(() => harvests.data?.harvests ?? [], [harvests.data]);
+  // Filtered here rather than by the table's filter model, which re-rendered without end
+  // once a row was in edit mode.
+  const data = useMemo(() => {
+    const q = search.trim().toLowerCase();
+    return (harvests.data?.harvests ?? []).filter(
+      (h) =>
+        (!grade || h.grade === grade) &&
+        (!q ||
+          [
+            h.entryName,
+            h.entryCode,
+            h.note,
+            h.siteName,
+            String(h.plotNumber),
+            h.updatedByName ?? '',
+          ]
+            .join(' ')
+            .toLowerCase()
+            .includes(q)),
+    );
+  }, [harvests.data, grade, search]);
   const table = useReactTable({
     data,
     columns,
-    state: {
-      sorting,
-      globalFilter: search,
-      columnFilters: grade ? [{ id: 'grade', value: grade }] : [],
-    },
+    state: { sorting },
     onSortingChange: setSorting,
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
-    getFilteredRowModel: getFilteredRowModel(),
-    globalFilterFn: 'includesString',
   });
 
   if (trial.isPending) return <Spinner />;

@@ -4,7 +4,6 @@ import {
   type ColumnDef,
   flexRender,
   getCoreRowModel,
-  getFilteredRowModel,
   getSortedRowModel,
   type SortingState,
   useReactTable,
@@ -90,19 +89,25 @@ export function Component() {
     // eslint-disable-next-line react-hooks/exhaustive-deps
     [units, kindOf],
   );
-  const data = useMemo(
-    () => (observations.data?.observations ?? []).filter((o) => !traitId || o.traitId === traitId),
-    [observations.data, traitId],
-  );
+  const data = useMemo(() => {
+    const q = search.trim().toLowerCase();
+    return (observations.data?.observations ?? []).filter(
+      (o) =>
+        (!traitId || o.traitId === traitId) &&
+        (!q ||
+          [o.entryName, o.entryCode, o.note, o.siteName, o.traitLabel, String(o.plotNumber)]
+            .join(' ')
+            .toLowerCase()
+            .includes(q)),
+    );
+  }, [observations.data, traitId, search]);
   const table = useReactTable({
     data,
     columns,
-    state: { sorting, globalFilter: search },
+    state: { sorting },
     onSortingChange: setSorting,
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
-    getFilteredRowModel: getFilteredRowModel(),
-    globalFilterFn: 'includesString',
   });
 
   if (trial.isPending) return <Spinner />;

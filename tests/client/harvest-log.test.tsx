@@ -1,0 +1,141 @@
+/**
+ * The harvest log in a browser-like page: inline edit sends the version it read; a 409 is
+ * shown with the fields that changed and the stored values, and nothing is overwritten.
+ */
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { Profiler } from 'react';
+import { MemoryRouter, Route, Routes } from 'react-router-dom';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { trialActions } from '../../common/policy';
+import { Component as HarvestLog } from '../../src/features/records/routes/harvest-log-route';
+
+const trial = {
+  id: '00000000-0000-4000-8000-000000000001',
+  slug: 'brookfold',
+  title: 'Brookfold okra round',
+  crop: 'Okra',
+  season: '2026',
+  design: 'rcbd',
+  status: 'active',
+  siteCount: 1,
+  entryCount: 1,
+  plotCount: 1,
+  myRole: 'lead',
+  description: '',
+  sowingDate: null,
+  transplantDate: null,
+  sites: [
+    {
+      id: '00000000-0000-4000-8000-000000000002',
+      name: 'Brookfold Allotment',
+      region: '',
+      soilTexture: null,
+      irrigationMethod: null,
+      notes: '',
+    },
+  ],
+  entries: [],
+  traits: [],
+  harvestCount: 1,
+  observationCount: 0,
+  permissions: Object.fromEntries(trialActions.map((a) => [a, true])),
+};
+const harvest = {
+  id: '00000000-0000-4000-8000-0000000000a1',
+  version: 1,
+  deletedAt: null,
+  createdAt: '2026-07-01T10:00:00.000Z',
+  updatedAt: '2026-07-01T10:00:00.000Z',
+  createdByName: 'Wren Alderby',
+  updatedByName: 'Wren Alderby',
+  plotId: '00000000-0000-4000-8000-000000000003',
+  siteId: trial.sites[0]!.id,
+  siteName: 'Brookfold Allotment',
+  plotNumber: 101,
+  block: 1,
+  entryId: '00000000-0000-4000-8000-000000000004',
+  entryCode: 'E1',
+  entryName: 'Tallow Finger',
+  harvestedOn: '2026-07-01',
+  fruitCount: 10,
+  massG: 120,
+  grade: 'marketable',
+  note: '',
+};
+const json = (status: number, body: unknown) =>
+  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+
+afterEach(() => vi.unstubAllGlobals());
+
+describe('the harvest log', () => {
+  it('shows a stale save as a 409 with what changed, and renders a bounded number of times', async () => {
+    const patches: unknown[] = [];
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async (url: string, init?: RequestInit) => {
+        if (url === '/api/me')
+          return json(401, { error: { code: 'unauthenticated', message: 'Sign in.' } });
+        if (url === '/api/trials/brookfold') return json(200, trial);
+        if (
+          url.startsWith('/api/trials/brookfold/harvests?') ||
+          url === '/api/trials/brookfold/harvests'
+        )
+          return json(200, { harvests: [harvest] });
+        if (init?.method === 'PATCH') {
+          patches.push(JSON.parse(String(init.body)));
+          return json(409, {
+            error: {
+              code: 'conflict',
+              message: 'Someone else changed this record since you opened it.',
+              details: {
+                current: { ...harvest, massG: 999, version: 2 },
+                changedFields: ['massG'],
+                yourVersion: 1,
+                currentVersion: 2,
+              },
+            },
+          });
+        }
+        return json(404, { error: { code: 'not_found', message: url } });
+      }),
+    );
+    let commits = 0;
+    render(
+      <QueryClientProvider
+        client={new QueryClient({ defaultOptions: { queries: { retry: false } } })}
+      >
+        <MemoryRouter initialEntries={['/t/brookfold/records/harvests']}>
+          <Profiler id="log" onRender={() => (commits += 1)}>
+            <Routes>
+              <Route path="/t/:slug/records/harvests" element={<HarvestLog />} />
+            </Routes>
+          </Profiler>
+        </MemoryRouter>
+      </QueryClientProvider>,
+    );
+    fireEvent.click(
+      await screen.findByRole('button', { name: 'Edit harvest of plot 101 on 2026-07-01' }),
+    );
+    await new Promise((r) => setTimeout(r, 200));
+    const afterEdit = commits;
+    await new Promise((r) => setTimeout(r, 200));
+    expect(commits - afterEdit).toBeLessThan(3);
+    fireEvent.change(screen.getByLabelText('Fruit count'), { target: { value: '11' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Save' }));
+    const alert = await screen.findByText(/Not saved: someone else changed this record/);
+    expect(alert).toBeTruthy();
+    expect(patches).toEqual([
+      {
+        version: 1,
+        harvestedOn: '2026-07-01',
+        fruitCount: 11,
+        massG: 120,
+        grade: 'marketable',
+        note: '',
+      },
+    ]);
+    await waitFor(() => expect(screen.getByText(/mass \(g\) is now/)).toBeTruthy());
+    expect(screen.getByText('999')).toBeTruthy();
+  });
+});
