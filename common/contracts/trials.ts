@@ -75,5 +75,7 @@ export const trialDetailSchema = trialSummarySchema.extend({
   traits: z.array(traitSchema),
   harvestCount: z.number().int(),
   observationCount: z.number().int(),
+  /** The sites a grower is limited to; null when the caller may record at every site. */
+  mySiteIds: z.array(z.uuid()).nullable(),
 });
 export type TrialDetail = z.infer<typeof trialDetailSchema>;

@@ -43,6 +43,7 @@ export async function trialDetail(
     sowingDate: trial.sowing_date,
     transplantDate: trial.transplant_date,
     myRole: access.role,
+    mySiteIds: access.growerSiteIds,
     ...tallies,
     sites: sites.map((s) => ({
       id: s.id,

@@ -95,6 +95,57 @@ describe('the error shape', () => {
     expect(res.body.error.code).toBe('not_found');
   });
 
+  it('tells a grower which sites they record at, and everyone else null', async () => {
+    const { createUser, mintSessionCookie } = await import('../support/test-app');
+    const trial = await t.db
+      .insertInto('trials')
+      .values({
+        slug: 'two-gardens',
+        title: 'Two gardens',
+        crop: 'Okra',
+        season: '2026',
+        design: 'multisite',
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const [north, south] = await Promise.all(
+      ['North bed', 'South bed'].map(
+        async (name) =>
+          (
+            await t.db
+              .insertInto('sites')
+              .values({ trial_id: trial.id, name })
+              .returning('id')
+              .executeTakeFirstOrThrow()
+          ).id,
+      ),
+    );
+    const grower = await createUser(t.db);
+    const lead = await createUser(t.db);
+    await t.db
+      .insertInto('trial_members')
+      .values([
+        { trial_id: trial.id, user_id: grower.id, role: 'grower' },
+        { trial_id: trial.id, user_id: lead.id, role: 'lead' },
+      ])
+      .execute();
+    await t.db
+      .insertInto('trial_member_sites')
+      .values({ trial_id: trial.id, user_id: grower.id, site_id: south! })
+      .execute();
+    const asGrower = await request(t.app)
+      .get('/api/trials/two-gardens')
+      .set('Cookie', await mintSessionCookie(t, grower));
+    expect(asGrower.body.mySiteIds).toEqual([south]);
+    expect(asGrower.body.sites.map((s: { id: string }) => s.id).sort()).toEqual(
+      [north, south].sort(),
+    );
+    const asLead = await request(t.app)
+      .get('/api/trials/two-gardens')
+      .set('Cookie', await mintSessionCookie(t, lead));
+    expect(asLead.body.mySiteIds).toBeNull();
+  });
+
   it('sets the usual security headers', async () => {
     const res = await request(t.app).get('/api/health');
     expect(res.headers['x-content-type-options']).toBe('nosniff');

@@ -36,6 +36,8 @@ export function Component() {
   if (trial.isPending) return <Spinner label="Loading the trial…" />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
   const t = trial.data;
+  // A grower limited to some sites sees only those; the server refuses the others anyway.
+  const mySites = t.mySiteIds ? t.sites.filter((s) => t.mySiteIds!.includes(s.id)) : t.sites;
   const canWrite = t.permissions['records.write'];
   const list = events.data?.events ?? [];
   const weeks = weeklyWaterSummary(list);
@@ -71,7 +73,7 @@ export function Component() {
         <h1 className="text-2xl font-semibold text-leaf-900">Field events and water</h1>
       </header>
       <div role="group" aria-label="Site" className="flex flex-wrap gap-2">
-        {t.sites.map((s) => (
+        {mySites.map((s) => (
           <button
             key={s.id}
             type="button"

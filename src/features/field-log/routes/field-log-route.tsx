@@ -46,6 +46,8 @@ export function Component() {
   if (trial.error) return <ErrorPanel error={trial.error} />;
   if (plots.error) return <ErrorPanel error={plots.error} />;
   const t = trial.data;
+  // A grower limited to some sites sees only those; the server refuses the others anyway.
+  const mySites = t.mySiteIds ? t.sites.filter((s) => t.mySiteIds!.includes(s.id)) : t.sites;
   const canWrite = t.permissions['records.write'];
   const canNote = t.permissions['notes.write'];
   const sitePlots = plots.data.plots.filter((p) => p.siteId === siteId);
@@ -106,7 +108,7 @@ export function Component() {
           Site
         </h2>
         <div role="group" aria-label="Site" className="mt-2 flex flex-wrap gap-2">
-          {t.sites.map((s) => (
+          {mySites.map((s) => (
             <button
               key={s.id}
               type="button"
