@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import { z } from 'zod';
+import type { Actor } from '../../common/policy';
 import {
   completenessQuery,
   createFieldEventBody,
@@ -16,6 +17,7 @@ import {
   updateHarvestBody,
   updateObservationBody,
 } from '../../common/contracts/records';
+import type { DB } from '../../db/database';
 import type { AppDeps } from '../app';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
@@ -23,134 +25,114 @@ import * as csv from './records-csv-service';
 import type { RecordTable } from './records-repository';
 import * as service from './records-service';
 
-/** Delete and undo are the same for every record table. */
-function lifecycleRoutes(router: Router, db: AppDeps['db'], table: RecordTable) {
+/** What differs between the record kinds: their table, schemas and services. */
+interface RecordKind<L extends z.ZodType, C extends z.ZodType, U extends z.ZodType> {
+  table: RecordTable;
+  listQuery: L;
+  createBody: C;
+  updateBody: U;
+  list: (db: DB, slug: string, actor: Actor | null, query: z.output<L>) => Promise<unknown>;
+  create: (
+    db: DB,
+    slug: string,
+    actor: Actor | null,
+    body: z.output<C>,
+  ) => Promise<{ created: boolean; record: unknown }>;
+  update: (
+    db: DB,
+    slug: string,
+    actor: Actor | null,
+    id: string,
+    body: z.output<U>,
+  ) => Promise<unknown>;
+}
+
+/**
+ * List, create, patch, delete and undo for one record kind, in that order. A repeated id
+ * answers 200 with the stored record.
+ */
+function recordRoutes<L extends z.ZodType, C extends z.ZodType, U extends z.ZodType>(
+  db: DB,
+  kind: RecordKind<L, C, U>,
+) {
+  const router = Router({ mergeParams: true });
+  router.get(
+    '/',
+    endpoint(
+      { params: slugParams, query: kind.listQuery },
+      async ({ params, query }, _req, res) => {
+        res.json(await kind.list(db, params.slug, actorOf(res), query));
+      },
+    ),
+  );
+  router.post(
+    '/',
+    endpoint({ params: slugParams, body: kind.createBody }, async ({ params, body }, _req, res) => {
+      const { created, record } = await kind.create(db, params.slug, actorOf(res), body);
+      res.status(created ? 201 : 200).json(record);
+    }),
+  );
+  router.patch(
+    '/:id',
+    endpoint(
+      { params: recordParams, body: kind.updateBody },
+      async ({ params, body }, _req, res) => {
+        res.json(await kind.update(db, params.slug, actorOf(res), params.id, body));
+      },
+    ),
+  );
   router.delete(
     '/:id',
     endpoint({ params: recordParams }, async ({ params }, _req, res) => {
-      res.json(await service.deleteRecord(db, params.slug, actorOf(res), table, params.id));
+      res.json(await service.deleteRecord(db, params.slug, actorOf(res), kind.table, params.id));
     }),
   );
   router.post(
     '/:id/undo-delete',
     endpoint({ params: recordParams }, async ({ params }, _req, res) => {
-      res.json(await service.undoDelete(db, params.slug, actorOf(res), table, params.id));
+      res.json(await service.undoDelete(db, params.slug, actorOf(res), kind.table, params.id));
     }),
   );
+  return router;
 }
 
-/** Mounted at /api/trials/:slug/harvests. A repeated id answers 200 with the stored record. */
+/** Mounted at /api/trials/:slug/harvests. */
 export function harvestsRouter({ db }: Pick<AppDeps, 'db'>) {
-  const router = Router({ mergeParams: true });
-  router.get(
-    '/',
-    endpoint({ params: slugParams, query: listQuery }, async ({ params, query }, _req, res) => {
-      res.json(await service.listHarvests(db, params.slug, actorOf(res), query));
-    }),
-  );
-  router.post(
-    '/',
-    endpoint(
-      { params: slugParams, body: createHarvestBody },
-      async ({ params, body }, _req, res) => {
-        const { created, record } = await service.createHarvest(
-          db,
-          params.slug,
-          actorOf(res),
-          body,
-        );
-        res.status(created ? 201 : 200).json(record);
-      },
-    ),
-  );
-  router.patch(
-    '/:id',
-    endpoint(
-      { params: recordParams, body: updateHarvestBody },
-      async ({ params, body }, _req, res) => {
-        res.json(await service.updateHarvest(db, params.slug, actorOf(res), params.id, body));
-      },
-    ),
-  );
-  lifecycleRoutes(router, db, 'harvests');
-  return router;
+  return recordRoutes(db, {
+    table: 'harvests',
+    listQuery,
+    createBody: createHarvestBody,
+    updateBody: updateHarvestBody,
+    list: service.listHarvests,
+    create: service.createHarvest,
+    update: service.updateHarvest,
+  });
 }
 
 /** Mounted at /api/trials/:slug/observations. */
 export function observationsRouter({ db }: Pick<AppDeps, 'db'>) {
-  const router = Router({ mergeParams: true });
-  router.get(
-    '/',
-    endpoint(
-      { params: slugParams, query: listQuery.extend({ traitId: z.uuid().optional() }) },
-      async ({ params, query }, _req, res) => {
-        res.json(await service.listObservations(db, params.slug, actorOf(res), query));
-      },
-    ),
-  );
-  router.post(
-    '/',
-    endpoint(
-      { params: slugParams, body: createObservationBody },
-      async ({ params, body }, _req, res) => {
-        const { created, record } = await service.createObservation(
-          db,
-          params.slug,
-          actorOf(res),
-          body,
-        );
-        res.status(created ? 201 : 200).json(record);
-      },
-    ),
-  );
-  router.patch(
-    '/:id',
-    endpoint(
-      { params: recordParams, body: updateObservationBody },
-      async ({ params, body }, _req, res) => {
-        res.json(await service.updateObservation(db, params.slug, actorOf(res), params.id, body));
-      },
-    ),
-  );
-  lifecycleRoutes(router, db, 'observations');
-  return router;
+  return recordRoutes(db, {
+    table: 'observations',
+    listQuery: listQuery.extend({ traitId: z.uuid().optional() }),
+    createBody: createObservationBody,
+    updateBody: updateObservationBody,
+    list: service.listObservations,
+    create: service.createObservation,
+    update: service.updateObservation,
+  });
 }
 
 /** Mounted at /api/trials/:slug/field-events. */
 export function fieldEventsRouter({ db }: Pick<AppDeps, 'db'>) {
-  const router = Router({ mergeParams: true });
-  router.get(
-    '/',
-    endpoint({ params: slugParams, query: listQuery }, async ({ params, query }, _req, res) => {
-      res.json(await service.listFieldEvents(db, params.slug, actorOf(res), query));
-    }),
-  );
-  router.post(
-    '/',
-    endpoint(
-      { params: slugParams, body: createFieldEventBody },
-      async ({ params, body }, _req, res) => {
-        const { created, record } = await service.createFieldEvent(
-          db,
-          params.slug,
-          actorOf(res),
-          body,
-        );
-        res.status(created ? 201 : 200).json(record);
-      },
-    ),
-  );
-  router.patch(
-    '/:id',
-    endpoint(
-      { params: recordParams, body: updateFieldEventBody },
-      async ({ params, body }, _req, res) => {
-        res.json(await service.updateFieldEvent(db, params.slug, actorOf(res), params.id, body));
-      },
-    ),
-  );
-  lifecycleRoutes(router, db, 'field_events');
-  return router;
+  return recordRoutes(db, {
+    table: 'field_events',
+    listQuery,
+    createBody: createFieldEventBody,
+    updateBody: updateFieldEventBody,
+    list: service.listFieldEvents,
+    create: service.createFieldEvent,
+    update: service.updateFieldEvent,
+  });
 }
 
 /** Mounted at /api/trials/:slug/records: plots for the field log, rounds, import and export. */
