@@ -1,4 +1,5 @@
 /** npm run db:start | db:stop | db:migrate | db:reset */
+import { createStorage } from '../server/storage/create-storage';
 import { sql } from 'kysely';
 import { parseEnv } from '../server/env';
 import { createDb, createPool } from './database';
@@ -32,7 +33,7 @@ async function main(command: string | undefined) {
         const applied = await migrateToLatest(db);
         console.log(applied.length ? `Applied: ${applied.join(', ')}` : 'Already up to date.');
         if (command === 'reset') {
-          const seeded = await seedDemoIfEmpty(db);
+          const seeded = await seedDemoIfEmpty(db, createStorage(env));
           if (seeded) console.log('Loaded the demo season.');
         }
       } finally {

@@ -13,6 +13,7 @@ import { seedDemoIfEmpty } from '../db/seed/seed';
 import { parseEnv } from '../server/env';
 import { type CaptureServer, startCaptureServer } from '../server/mail/capture-server';
 import { createRuntime } from '../server/runtime';
+import { createStorage } from '../server/storage/create-storage';
 import { ensureSystemPackages } from './system-packages';
 
 async function main() {
@@ -24,7 +25,8 @@ async function main() {
     const db = createDb(pool);
     const applied = await migrateToLatest(db);
     if (applied.length) console.log(`Migrations applied: ${applied.length}`);
-    if (await seedDemoIfEmpty(db)) console.log('Loaded the demo season (Larkhaven Seed Library).');
+    if (await seedDemoIfEmpty(db, createStorage(env)))
+      console.log('Loaded the demo season (Larkhaven Seed Library).');
     await db.destroy();
   }
 

@@ -1,7 +1,9 @@
 /** Writes the demo season into an empty database, in one transaction. */
 import { hashPassword } from 'better-auth/crypto';
 import crypto from 'node:crypto';
+import type { ObjectStorage } from '../../server/storage/object-storage';
 import type { DB } from '../database';
+import { seedDemoPhotos } from './demo-photos';
 import { demoAccounts, demoTrials, generateSeason } from './demo-season';
 import { generateDemoWeather } from './demo-weather';
 
@@ -17,9 +19,11 @@ async function isEmpty(db: DB): Promise<boolean> {
   return Number(row.n) === 0 && Number(users.n) === 0;
 }
 
-export async function seedDemoIfEmpty(db: DB): Promise<boolean> {
+/** Loads the demo season into an empty database; with a storage, its demo photos too. */
+export async function seedDemoIfEmpty(db: DB, storage?: ObjectStorage): Promise<boolean> {
   if (!(await isEmpty(db))) return false;
   await seedDemo(db);
+  if (storage) await seedDemoPhotos(db, storage);
   return true;
 }
 
