@@ -113,10 +113,29 @@ export interface ListFilters {
   ids?: string[];
 }
 
-const authorNames = {
-  createdByName: sql<string | null>`(select name from users where id = r.created_by)`,
-  updatedByName: sql<string | null>`(select name from users where id = r.updated_by)`,
-};
+// Every record list selects its table as `r`, with plots as `p`, sites `s` and entries `e`.
+/** The bookkeeping every record carries: id, version, deletion and who wrote it when. */
+const recordColumns = [
+  'r.id',
+  'r.version',
+  'r.deleted_at as deletedAt',
+  'r.created_at as createdAt',
+  'r.updated_at as updatedAt',
+  sql<string | null>`(select name from users where id = r.created_by)`.as('createdByName'),
+  sql<string | null>`(select name from users where id = r.updated_by)`.as('updatedByName'),
+] as const;
+
+/** Where a harvest or observation was taken: its plot, site and entry. */
+const plotColumns = [
+  'r.plot_id as plotId',
+  'p.site_id as siteId',
+  's.name as siteName',
+  'p.plot_number as plotNumber',
+  'p.block',
+  'p.entry_id as entryId',
+  'e.code as entryCode',
+  'e.name as entryName',
+] as const;
 
 export function listHarvests(db: DB, trialId: string, f: ListFilters) {
   return db
@@ -125,21 +144,8 @@ export function listHarvests(db: DB, trialId: string, f: ListFilters) {
     .innerJoin('sites as s', 's.id', 'p.site_id')
     .innerJoin('entries as e', 'e.id', 'p.entry_id')
     .select([
-      'r.id',
-      'r.version',
-      'r.deleted_at as deletedAt',
-      'r.created_at as createdAt',
-      'r.updated_at as updatedAt',
-      authorNames.createdByName.as('createdByName'),
-      authorNames.updatedByName.as('updatedByName'),
-      'r.plot_id as plotId',
-      'p.site_id as siteId',
-      's.name as siteName',
-      'p.plot_number as plotNumber',
-      'p.block',
-      'p.entry_id as entryId',
-      'e.code as entryCode',
-      'e.name as entryName',
+      ...recordColumns,
+      ...plotColumns,
       'r.harvested_on as harvestedOn',
       'r.fruit_count as fruitCount',
       'r.mass_g as massG',
@@ -168,21 +174,8 @@ export function listObservations(db: DB, trialId: string, f: ListFilters & { tra
     .innerJoin('entries as e', 'e.id', 'p.entry_id')
     .innerJoin('traits as t', 't.id', 'r.trait_id')
     .select([
-      'r.id',
-      'r.version',
-      'r.deleted_at as deletedAt',
-      'r.created_at as createdAt',
-      'r.updated_at as updatedAt',
-      authorNames.createdByName.as('createdByName'),
-      authorNames.updatedByName.as('updatedByName'),
-      'r.plot_id as plotId',
-      'p.site_id as siteId',
-      's.name as siteName',
-      'p.plot_number as plotNumber',
-      'p.block',
-      'p.entry_id as entryId',
-      'e.code as entryCode',
-      'e.name as entryName',
+      ...recordColumns,
+      ...plotColumns,
       'r.trait_id as traitId',
       't.key as traitKey',
       't.label as traitLabel',
@@ -215,13 +208,7 @@ export function listFieldEvents(db: DB, trialId: string, f: ListFilters) {
     .innerJoin('sites as s', 's.id', 'r.site_id')
     .leftJoin('plots as p', 'p.id', 'r.plot_id')
     .select([
-      'r.id',
-      'r.version',
-      'r.deleted_at as deletedAt',
-      'r.created_at as createdAt',
-      'r.updated_at as updatedAt',
-      authorNames.createdByName.as('createdByName'),
-      authorNames.updatedByName.as('updatedByName'),
+      ...recordColumns,
       'r.site_id as siteId',
       's.name as siteName',
       'r.plot_id as plotId',

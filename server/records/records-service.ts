@@ -49,6 +49,42 @@ async function plotAt(db: DB, loaded: LoadedTrial, plotId: string, path = 'body.
   return plot;
 }
 
+/** A plot in the trial that the actor may write records for, at its site. */
+async function writablePlot(
+  db: DB,
+  loaded: LoadedTrial,
+  actor: Actor | null,
+  plotId: string,
+  path?: string,
+) {
+  const plot = await plotAt(db, loaded, plotId, path);
+  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  return plot;
+}
+
+/** The columns a patch sets; a field left out of the body keeps its stored value. */
+const givenColumns = (values: Record<string, unknown>) =>
+  Object.fromEntries(Object.entries(values).filter(([, v]) => v !== undefined));
+
+/**
+ * A plot's record locked for an edit, once the actor may write at the plot's site; a deleted
+ * record is not edited.
+ */
+async function lockedPlotRecordForEdit(
+  trx: DB,
+  loaded: LoadedTrial,
+  actor: Actor | null,
+  table: 'harvests' | 'observations',
+  id: string,
+  deletedMessage: string,
+) {
+  const before = await lockedRecord(trx, table, loaded.trial.id, id);
+  const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
+  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  if (before.deleted_at) throw new AppError('not_found', deletedMessage);
+  return before;
+}
+
 // ---------- Reads ----------
 
 export async function listHarvests(db: DB, slug: string, actor: Actor | null, q: Q) {
@@ -120,8 +156,7 @@ export async function createHarvest(
   body: z.output<typeof createHarvestBody>,
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
-  const plot = await plotAt(db, loaded, body.plotId);
-  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  await writablePlot(db, loaded, actor, body.plotId);
   const { created } = await db.transaction().execute((trx) =>
     createOnce(
       trx,
@@ -152,19 +187,21 @@ export async function updateHarvest(
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
   await db.transaction().execute(async (trx) => {
-    const before = await lockedRecord(trx, 'harvests', loaded.trial.id, id);
-    const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
-    authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
-    if (before.deleted_at) throw new AppError('not_found', 'This harvest was deleted.');
-    const values = Object.fromEntries(
-      Object.entries({
-        harvested_on: body.harvestedOn,
-        fruit_count: body.fruitCount,
-        mass_g: body.massG,
-        grade: body.grade,
-        note: body.note,
-      }).filter(([, v]) => v !== undefined),
+    const before = await lockedPlotRecordForEdit(
+      trx,
+      loaded,
+      actor,
+      'harvests',
+      id,
+      'This harvest was deleted.',
     );
+    const values = givenColumns({
+      harvested_on: body.harvestedOn,
+      fruit_count: body.fruitCount,
+      mass_g: body.massG,
+      grade: body.grade,
+      note: body.note,
+    });
     if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
     await applyUpdate(trx, 'harvests', before, values, requireActorOf(actor));
   });
@@ -204,8 +241,7 @@ export async function createObservation(
   body: z.output<typeof createObservationBody>,
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
-  const plot = await plotAt(db, loaded, body.plotId);
-  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  await writablePlot(db, loaded, actor, body.plotId);
   checkValue(await traitFor(db, loaded.trial.id, body.traitId), body.value, body.valueDate);
   const { created } = await db.transaction().execute((trx) =>
     createOnce(
@@ -238,19 +274,21 @@ export async function updateObservation(
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
   await db.transaction().execute(async (trx) => {
-    const before = await lockedRecord(trx, 'observations', loaded.trial.id, id);
-    const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
-    authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
-    if (before.deleted_at) throw new AppError('not_found', 'This observation was deleted.');
-    const values = Object.fromEntries(
-      Object.entries({
-        observed_on: body.observedOn,
-        value: body.value,
-        value_date: body.valueDate,
-        plant_number: body.plantNumber,
-        note: body.note,
-      }).filter(([, v]) => v !== undefined),
+    const before = await lockedPlotRecordForEdit(
+      trx,
+      loaded,
+      actor,
+      'observations',
+      id,
+      'This observation was deleted.',
     );
+    const values = givenColumns({
+      observed_on: body.observedOn,
+      value: body.value,
+      value_date: body.valueDate,
+      plant_number: body.plantNumber,
+      note: body.note,
+    });
     if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
     const merged = { ...before, ...values };
     checkValue(
@@ -400,6 +438,20 @@ async function siteOfRecord(trx: DB, trialId: string, table: repo.RecordTable, r
   return (await repo.plotInTrial(trx, trialId, row.plot_id as string))!.site_id;
 }
 
+/** Any record locked for deletion or undo, once the actor may change it at its site. */
+async function lockedRecordForLifecycle(
+  trx: DB,
+  loaded: LoadedTrial,
+  actor: Actor | null,
+  table: repo.RecordTable,
+  id: string,
+) {
+  const before = await lockedRecord(trx, table, loaded.trial.id, id);
+  const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
+  authorizeAtSite(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+  return before;
+}
+
 export async function deleteRecord(
   db: DB,
   slug: string,
@@ -409,9 +461,7 @@ export async function deleteRecord(
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'trial.read');
   await db.transaction().execute(async (trx) => {
-    const before = await lockedRecord(trx, table, loaded.trial.id, id);
-    const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
-    authorizeAtSite(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+    const before = await lockedRecordForLifecycle(trx, loaded, actor, table, id);
     await softDelete(trx, table, before, requireActorOf(actor));
   });
   return readers[table](db, loaded.trial.id, id);
@@ -427,9 +477,7 @@ export async function undoDelete(
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'trial.read');
   await db.transaction().execute(async (trx) => {
-    const before = await lockedRecord(trx, table, loaded.trial.id, id);
-    const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
-    authorizeAtSite(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+    const before = await lockedRecordForLifecycle(trx, loaded, actor, table, id);
     const me = requireActorOf(actor);
     if (!(await mayUndo(trx, id, me)))
       throw new AppError(
@@ -467,8 +515,7 @@ export async function setStandCount(
   body: z.output<typeof standCountBody>,
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
-  const plot = await plotAt(db, loaded, plotId, 'params.plotId');
-  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  const plot = await writablePlot(db, loaded, actor, plotId, 'params.plotId');
   if (plot.plants_set !== null && body.plantsSurviving > plot.plants_set)
     throw fieldError(
       'body.plantsSurviving',
