@@ -66,22 +66,23 @@ async function writablePlot(
 const givenColumns = (values: Record<string, unknown>) =>
   Object.fromEntries(Object.entries(values).filter(([, v]) => v !== undefined));
 
-/**
- * A plot's record locked for an edit, once the actor may write at the plot's site; a deleted
- * record is not edited.
- */
-async function lockedPlotRecordForEdit(
+const deletedMessages = {
+  harvests: 'This harvest was deleted.',
+  observations: 'This observation was deleted.',
+};
+
+/** A plot's record locked for an edit at a site the actor may write; a deleted one is refused. */
+async function editablePlotRecord(
   trx: DB,
   loaded: LoadedTrial,
   actor: Actor | null,
-  table: 'harvests' | 'observations',
+  table: keyof typeof deletedMessages,
   id: string,
-  deletedMessage: string,
 ) {
   const before = await lockedRecord(trx, table, loaded.trial.id, id);
   const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
   authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
-  if (before.deleted_at) throw new AppError('not_found', deletedMessage);
+  if (before.deleted_at) throw new AppError('not_found', deletedMessages[table]);
   return before;
 }
 
@@ -187,14 +188,7 @@ export async function updateHarvest(
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
   await db.transaction().execute(async (trx) => {
-    const before = await lockedPlotRecordForEdit(
-      trx,
-      loaded,
-      actor,
-      'harvests',
-      id,
-      'This harvest was deleted.',
-    );
+    const before = await editablePlotRecord(trx, loaded, actor, 'harvests', id);
     const values = givenColumns({
       harvested_on: body.harvestedOn,
       fruit_count: body.fruitCount,
@@ -274,14 +268,7 @@ export async function updateObservation(
 ) {
   const loaded = await loadForRecords(db, slug, actor, 'records.write');
   await db.transaction().execute(async (trx) => {
-    const before = await lockedPlotRecordForEdit(
-      trx,
-      loaded,
-      actor,
-      'observations',
-      id,
-      'This observation was deleted.',
-    );
+    const before = await editablePlotRecord(trx, loaded, actor, 'observations', id);
     const values = givenColumns({
       observed_on: body.observedOn,
       value: body.value,
