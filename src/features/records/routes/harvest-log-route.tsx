@@ -1,4 +1,4 @@
-import type { ConflictDetails, Harvest } from '@common/contracts/records';
+import type { Harvest } from '@common/contracts/records';
 import { formatMass, fromStored, G_PER_OUNCE, toStored } from '@common/units';
 import {
   type ColumnDef,
@@ -14,16 +14,17 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
+import { useHarvests, useUpdateHarvest } from '../api/record-api';
 import {
-  conflictOf,
-  useDeleteRecord,
-  useHarvests,
-  useUndoDelete,
-  useUpdateHarvest,
-} from '../api/record-api';
-import { ConflictNotice } from '../components/conflict-notice';
-import { RecordsNav } from '../components/records-nav';
-import { UndoToast } from '../components/undo-toast';
+  EditActions,
+  editCell,
+  FilterInput,
+  FilterSelect,
+  RecordLogShell,
+  RowActions,
+  SortButton,
+  useRecordLog,
+} from '../components/record-log';
 
 interface Draft {
   id: string;
@@ -34,7 +35,6 @@ interface Draft {
   grade: 'marketable' | 'cull';
   note: string;
 }
-const cell = 'min-h-11 w-full rounded border border-leaf-300 bg-white px-2';
 
 /** The harvest log: filter, sort, edit in place (a stale edit is refused with 409), delete with undo. */
 export function Component() {
@@ -49,22 +49,18 @@ export function Component() {
   const [grade, setGrade] = useState('');
   const [sorting, setSorting] = useState<SortingState>([{ id: 'harvestedOn', desc: true }]);
   const [draft, setDraft] = useState<Draft | null>(null);
-  const [conflict, setConflict] = useState<ConflictDetails | null>(null);
-  const [problem, setProblem] = useState<string | null>(null);
-  const [deleted, setDeleted] = useState<Harvest | null>(null);
   const harvests = useHarvests(slug, {
     siteId: siteId || undefined,
     from: from || undefined,
     to: to || undefined,
   });
   const update = useUpdateHarvest(slug);
-  const remove = useDeleteRecord(slug, 'harvests');
-  const undo = useUndoDelete(slug, 'harvests');
+  const log = useRecordLog<Harvest>(slug, 'harvests');
   const canWrite = trial.data?.permissions['records.write'] ?? false;
 
   const startEdit = (h: Harvest) => {
-    setConflict(null);
-    setProblem(null);
+    log.setConflict(null);
+    log.setProblem(null);
     setDraft({
       id: h.id,
       version: h.version,
@@ -78,7 +74,7 @@ export function Component() {
 
   const save = async () => {
     if (!draft) return;
-    setProblem(null);
+    log.setProblem(null);
     try {
       await update.mutateAsync({
         id: draft.id,
@@ -93,9 +89,7 @@ export function Component() {
       });
       setDraft(null);
     } catch (err) {
-      const c = conflictOf(err);
-      if (c) setConflict(c);
-      else setProblem(err instanceof Error ? err.message : 'Not saved.');
+      log.refused(err);
     }
   };
 
@@ -153,268 +147,171 @@ export function Component() {
   const total = rows.reduce((a, r) => a + r.original.massG, 0);
 
   return (
-    <article className="space-y-3">
-      <h1 className="text-2xl font-semibold text-leaf-900">Harvest log · {trial.data.title}</h1>
-      <RecordsNav slug={slug} />
-      <div className="flex flex-wrap items-end gap-2 rounded-lg bg-white p-3 shadow-sm">
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Site
-          <select
-            value={siteId}
-            onChange={(e) => setSiteId(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          >
+    <RecordLogShell
+      heading={`Harvest log · ${trial.data.title}`}
+      slug={slug}
+      log={log}
+      filters={
+        <>
+          <FilterSelect label="Site" value={siteId} onChange={setSiteId}>
             <option value="">All sites</option>
             {trial.data.sites.map((s) => (
               <option key={s.id} value={s.id}>
                 {s.name}
               </option>
             ))}
-          </select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          From
-          <input
-            type="date"
-            value={from}
-            onChange={(e) => setFrom(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          />
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          To
-          <input
-            type="date"
-            value={to}
-            onChange={(e) => setTo(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          />
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Grade
-          <select
-            value={grade}
-            onChange={(e) => setGrade(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          >
+          </FilterSelect>
+          <FilterInput label="From" type="date" value={from} onChange={setFrom} />
+          <FilterInput label="To" type="date" value={to} onChange={setTo} />
+          <FilterSelect label="Grade" value={grade} onChange={setGrade}>
             <option value="">Both</option>
             <option value="marketable">Marketable</option>
             <option value="cull">Cull</option>
-          </select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Search entry, note…
-          <input
-            value={search}
-            onChange={(e) => setSearch(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          />
-        </label>
-      </div>
-      {conflict && draft ? (
-        <ConflictNotice
-          conflict={conflict}
-          onCancel={() => {
-            setDraft(null);
-            setConflict(null);
-          }}
-          onUseCurrent={() => {
-            const c = conflict.current as unknown as Harvest;
-            setDraft({
-              ...draft,
-              version: conflict.currentVersion,
-              harvestedOn: String(c.harvestedOn),
-              fruitCount: String(c.fruitCount),
-              mass: String(Math.round(fromStored(Number(c.massG), massUnit) * 100) / 100),
-              grade: c.grade,
-              note: String(c.note ?? ''),
-            });
-            setConflict(null);
-          }}
-        />
-      ) : null}
-      {problem ? (
-        <p role="alert" className="font-medium text-frost-600">
-          {problem}
-        </p>
-      ) : null}
-      {harvests.isPending ? (
-        <Spinner label="Loading harvests…" />
-      ) : harvests.error ? (
-        <ErrorPanel error={harvests.error} />
-      ) : (
-        <div className="overflow-x-auto rounded-lg bg-white shadow-sm">
-          <table className="w-full min-w-[48rem] text-left text-sm">
-            <caption className="p-2 text-left text-loam-700">
-              {rows.length} harvests · {formatMass(total, units)} in total
-              {units === 'us' ? ` (${Math.round(total / G_PER_OUNCE)} oz)` : ''}
-            </caption>
-            <thead className="bg-leaf-50">
-              {table.getHeaderGroups().map((hg) => (
-                <tr key={hg.id}>
-                  {hg.headers.map((h) => (
-                    <th
-                      key={h.id}
-                      className="p-2"
-                      aria-sort={
-                        h.column.getIsSorted() === 'asc'
-                          ? 'ascending'
-                          : h.column.getIsSorted() === 'desc'
-                            ? 'descending'
-                            : undefined
-                      }
-                    >
-                      {h.column.getCanSort() ? (
-                        <button
-                          type="button"
-                          onClick={h.column.getToggleSortingHandler()}
-                          className="min-h-11 font-semibold underline-offset-2 hover:underline"
-                        >
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          {h.column.getIsSorted() === 'asc'
-                            ? ' ▲'
-                            : h.column.getIsSorted() === 'desc'
-                              ? ' ▼'
-                              : ''}
-                        </button>
-                      ) : (
-                        flexRender(h.column.columnDef.header, h.getContext())
-                      )}
-                    </th>
-                  ))}
-                  {canWrite ? <th className="p-2">Change</th> : null}
-                </tr>
+          </FilterSelect>
+          <FilterInput label="Search entry, note…" value={search} onChange={setSearch} />
+        </>
+      }
+      editing={draft !== null}
+      onCancelEdit={() => setDraft(null)}
+      onUseCurrent={(conflict) => {
+        const c = conflict.current as unknown as Harvest;
+        setDraft({
+          ...draft!,
+          version: conflict.currentVersion,
+          harvestedOn: String(c.harvestedOn),
+          fruitCount: String(c.fruitCount),
+          mass: String(Math.round(fromStored(Number(c.massG), massUnit) * 100) / 100),
+          grade: c.grade,
+          note: String(c.note ?? ''),
+        });
+      }}
+      query={harvests}
+      loadingLabel="Loading harvests…"
+      deletedMessage={(d) => `Deleted the harvest of plot ${d.plotNumber} (${d.harvestedOn}).`}
+    >
+      <table className="w-full min-w-[48rem] text-left text-sm">
+        <caption className="p-2 text-left text-loam-700">
+          {rows.length} harvests · {formatMass(total, units)} in total
+          {units === 'us' ? ` (${Math.round(total / G_PER_OUNCE)} oz)` : ''}
+        </caption>
+        <thead className="bg-leaf-50">
+          {table.getHeaderGroups().map((hg) => (
+            <tr key={hg.id}>
+              {hg.headers.map((h) => (
+                <th
+                  key={h.id}
+                  className="p-2"
+                  aria-sort={
+                    h.column.getIsSorted() === 'asc'
+                      ? 'ascending'
+                      : h.column.getIsSorted() === 'desc'
+                        ? 'descending'
+                        : undefined
+                  }
+                >
+                  {h.column.getCanSort() ? (
+                    <SortButton
+                      header={h}
+                      className="min-h-11 font-semibold underline-offset-2 hover:underline"
+                    />
+                  ) : (
+                    flexRender(h.column.columnDef.header, h.getContext())
+                  )}
+                </th>
               ))}
-            </thead>
-            <tbody>
-              {rows.map((row) => {
-                const h = row.original;
-                if (draft?.id === h.id)
-                  return (
-                    <tr key={row.id} className="border-t border-leaf-50 bg-straw-50">
-                      <td className="p-1">
-                        <input
-                          aria-label="Date"
-                          type="date"
-                          value={draft.harvestedOn}
-                          onChange={(e) => setDraft({ ...draft, harvestedOn: e.target.value })}
-                          className={cell}
-                        />
-                      </td>
-                      <td className="p-2">{h.siteName}</td>
-                      <td className="p-2">{h.plotNumber}</td>
-                      <td className="p-2">{h.entryName}</td>
-                      <td className="p-1">
-                        <input
-                          aria-label="Fruit count"
-                          inputMode="numeric"
-                          value={draft.fruitCount}
-                          onChange={(e) => setDraft({ ...draft, fruitCount: e.target.value })}
-                          className={cell}
-                        />
-                      </td>
-                      <td className="p-1">
-                        <input
-                          aria-label={`Mass (${massUnit})`}
-                          inputMode="decimal"
-                          value={draft.mass}
-                          onChange={(e) => setDraft({ ...draft, mass: e.target.value })}
-                          className={cell}
-                        />
-                      </td>
-                      <td className="p-1">
-                        <select
-                          aria-label="Grade"
-                          value={draft.grade}
-                          onChange={(e) =>
-                            setDraft({ ...draft, grade: e.target.value as Draft['grade'] })
-                          }
-                          className={cell}
-                        >
-                          <option value="marketable">marketable</option>
-                          <option value="cull">cull</option>
-                        </select>
-                      </td>
-                      <td className="p-1">
-                        <input
-                          aria-label="Note"
-                          value={draft.note}
-                          onChange={(e) => setDraft({ ...draft, note: e.target.value })}
-                          className={cell}
-                        />
-                      </td>
-                      <td className="p-2">{h.updatedByName}</td>
-                      <td className="flex gap-1 p-1">
-                        <button
-                          type="button"
-                          onClick={() => void save()}
-                          disabled={update.isPending}
-                          className="min-h-11 rounded-lg bg-leaf-700 px-3 font-semibold text-white"
-                        >
-                          Save
-                        </button>
-                        <button
-                          type="button"
-                          onClick={() => setDraft(null)}
-                          className="min-h-11 rounded-lg px-2 text-leaf-700"
-                        >
-                          Cancel
-                        </button>
-                      </td>
-                    </tr>
-                  );
-                return (
-                  <tr key={row.id} className="border-t border-leaf-50">
-                    {row.getVisibleCells().map((c) => (
-                      <td key={c.id} className="p-2">
-                        {flexRender(c.column.columnDef.cell, c.getContext())}
-                      </td>
-                    ))}
-                    {canWrite ? (
-                      <td className="flex gap-1 p-1">
-                        <button
-                          type="button"
-                          onClick={() => startEdit(h)}
-                          className="min-h-11 rounded-lg px-2 text-leaf-700 underline"
-                          aria-label={`Edit harvest of plot ${h.plotNumber} on ${h.harvestedOn}`}
-                        >
-                          Edit
-                        </button>
-                        <button
-                          type="button"
-                          aria-label={`Delete harvest of plot ${h.plotNumber} on ${h.harvestedOn}`}
-                          onClick={async () => {
-                            await remove.mutateAsync(h.id);
-                            setDeleted(h);
-                          }}
-                          className="min-h-11 rounded-lg px-2 text-frost-600 underline"
-                        >
-                          Delete
-                        </button>
-                      </td>
-                    ) : null}
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
-        </div>
-      )}
-      {deleted ? (
-        <UndoToast
-          message={`Deleted the harvest of plot ${deleted.plotNumber} (${deleted.harvestedOn}).`}
-          busy={undo.isPending}
-          onClose={() => setDeleted(null)}
-          onUndo={async () => {
-            try {
-              await undo.mutateAsync(deleted.id);
-            } catch (err) {
-              setProblem(err instanceof Error ? err.message : 'Could not undo.');
-            }
-            setDeleted(null);
-          }}
-        />
-      ) : null}
-    </article>
+              {canWrite ? <th className="p-2">Change</th> : null}
+            </tr>
+          ))}
+        </thead>
+        <tbody>
+          {rows.map((row) => {
+            const h = row.original;
+            if (draft?.id === h.id)
+              return (
+                <tr key={row.id} className="border-t border-leaf-50 bg-straw-50">
+                  <td className="p-1">
+                    <input
+                      aria-label="Date"
+                      type="date"
+                      value={draft.harvestedOn}
+                      onChange={(e) => setDraft({ ...draft, harvestedOn: e.target.value })}
+                      className={editCell}
+                    />
+                  </td>
+                  <td className="p-2">{h.siteName}</td>
+                  <td className="p-2">{h.plotNumber}</td>
+                  <td className="p-2">{h.entryName}</td>
+                  <td className="p-1">
+                    <input
+                      aria-label="Fruit count"
+                      inputMode="numeric"
+                      value={draft.fruitCount}
+                      onChange={(e) => setDraft({ ...draft, fruitCount: e.target.value })}
+                      className={editCell}
+                    />
+                  </td>
+                  <td className="p-1">
+                    <input
+                      aria-label={`Mass (${massUnit})`}
+                      inputMode="decimal"
+                      value={draft.mass}
+                      onChange={(e) => setDraft({ ...draft, mass: e.target.value })}
+                      className={editCell}
+                    />
+                  </td>
+                  <td className="p-1">
+                    <select
+                      aria-label="Grade"
+                      value={draft.grade}
+                      onChange={(e) =>
+                        setDraft({ ...draft, grade: e.target.value as Draft['grade'] })
+                      }
+                      className={editCell}
+                    >
+                      <option value="marketable">marketable</option>
+                      <option value="cull">cull</option>
+                    </select>
+                  </td>
+                  <td className="p-1">
+                    <input
+                      aria-label="Note"
+                      value={draft.note}
+                      onChange={(e) => setDraft({ ...draft, note: e.target.value })}
+                      className={editCell}
+                    />
+                  </td>
+                  <td className="p-2">{h.updatedByName}</td>
+                  <td className="flex gap-1 p-1">
+                    <EditActions
+                      onSave={() => void save()}
+                      onCancel={() => setDraft(null)}
+                      saving={update.isPending}
+                    />
+                  </td>
+                </tr>
+              );
+            return (
+              <tr key={row.id} className="border-t border-leaf-50">
+                {row.getVisibleCells().map((c) => (
+                  <td key={c.id} className="p-2">
+                    {flexRender(c.column.columnDef.cell, c.getContext())}
+                  </td>
+                ))}
+                {canWrite ? (
+                  <td className="flex gap-1 p-1">
+                    <RowActions
+                      onEdit={() => startEdit(h)}
+                      onDelete={() => void log.remove(h)}
+                      editLabel={`Edit harvest of plot ${h.plotNumber} on ${h.harvestedOn}`}
+                      deleteLabel={`Delete harvest of plot ${h.plotNumber} on ${h.harvestedOn}`}
+                    />
+                  </td>
+                ) : null}
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </RecordLogShell>
   );
 }
