@@ -39,6 +39,7 @@ const trial = {
   traits: [],
   harvestCount: 1,
   observationCount: 0,
+  mySiteIds: null,
   permissions: Object.fromEntries(trialActions.map((a) => [a, true])),
 };
 const harvest = {
