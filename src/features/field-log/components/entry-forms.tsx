@@ -1,7 +1,7 @@
 import type { RecordPlot } from '@common/contracts/records';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { type QuantityUnit, toStored, type UnitSystem } from '@common/units';
-import { useId, useState } from 'react';
+import { type ReactNode, useId, useState } from 'react';
 import type { OutboxItem } from '../api/outbox';
 import { clientId } from '../api/client-id';
 
@@ -61,6 +61,41 @@ function FieldError({ id, message }: { id: string; message: string | null }) {
   ) : null;
 }
 
+/** A label above its control. */
+function Field({ id, label, children }: { id: string; label: ReactNode; children: ReactNode }) {
+  return (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={id} className="font-medium">
+        {label}
+      </label>
+      {children}
+    </div>
+  );
+}
+
+/**
+ * A new record for the outbox. Its client-made id is also the outbox id, so a retry sends the
+ * same record again.
+ */
+function newRecord(
+  slug: string,
+  kind: QueuedEntry['kind'],
+  path: string,
+  body: Record<string, unknown>,
+  label: string,
+): QueuedEntry {
+  const entryId = clientId();
+  return {
+    id: entryId,
+    trialSlug: slug,
+    kind,
+    method: 'POST',
+    url: `${base(slug)}/${path}`,
+    body: { id: entryId, ...body },
+    label,
+  };
+}
+
 const submitterNext = (e: React.FormEvent<HTMLFormElement>) =>
   ((e.nativeEvent as SubmitEvent).submitter as HTMLButtonElement | null)?.value !== 'no';
 
@@ -88,17 +123,13 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
           return setError('Enter the mass as a number, 0 or more.');
         setError(null);
         const massG = toStored(massValue, unit);
-        const entryId = clientId();
         await onSave(
           [
-            {
-              id: entryId,
-              trialSlug: slug,
-              kind: 'harvest',
-              method: 'POST',
-              url: `${base(slug)}/harvests`,
-              body: {
-                id: entryId,
+            newRecord(
+              slug,
+              'harvest',
+              'harvests',
+              {
                 plotId: plot.plotId,
                 harvestedOn: date,
                 fruitCount,
@@ -106,8 +137,8 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
                 grade,
                 note,
               },
-              label: `${plotLabel(plot)} · ${date} · ${fruitCount} fruit, ${massValue} ${unit}, ${grade}`,
-            },
+              `${plotLabel(plot)} · ${date} · ${fruitCount} fruit, ${massValue} ${unit}, ${grade}`,
+            ),
           ],
           submitterNext(e),
         );
@@ -117,10 +148,7 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
       }}
     >
       <div className="grid grid-cols-2 gap-3">
-        <div className="flex flex-col gap-1">
-          <label htmlFor={`${id}-c`} className="font-medium">
-            Fruit count
-          </label>
+        <Field id={`${id}-c`} label="Fruit count">
           <input
             id={`${id}-c`}
             inputMode="numeric"
@@ -130,11 +158,8 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
             onChange={(e) => setCount(e.target.value)}
             className={inputClass}
           />
-        </div>
-        <div className="flex flex-col gap-1">
-          <label htmlFor={`${id}-m`} className="font-medium">
-            Mass ({unit})
-          </label>
+        </Field>
+        <Field id={`${id}-m`} label={<>Mass ({unit})</>}>
           <div className="flex gap-1">
             <input
               id={`${id}-m`}
@@ -155,7 +180,7 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
               ))}
             </select>
           </div>
-        </div>
+        </Field>
       </div>
       <fieldset className="flex gap-2">
         <legend className="mb-1 font-medium">Grade</legend>
@@ -178,17 +203,14 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
           </label>
         ))}
       </fieldset>
-      <div className="flex flex-col gap-1">
-        <label htmlFor={`${id}-n`} className="font-medium">
-          Note (optional)
-        </label>
+      <Field id={`${id}-n`} label="Note (optional)">
         <input
           id={`${id}-n`}
           value={note}
           onChange={(e) => setNote(e.target.value)}
           className={inputClass}
         />
-      </div>
+      </Field>
       <FieldError id={`${id}-err`} message={error} />
       <SaveButtons />
     </form>
@@ -236,23 +258,21 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
           if (trait.quantityKind === 'count' && !Number.isInteger(v))
             return setError(`Plant ${i + 1}: a count is a whole number.`);
           const value = activeUnit ? toStored(v, activeUnit) : v;
-          const entryId = clientId();
-          entries.push({
-            id: entryId,
-            trialSlug: slug,
-            kind: 'observation',
-            method: 'POST',
-            url: `${base(slug)}/observations`,
-            body: {
-              id: entryId,
-              plotId: plot.plotId,
-              traitId: trait.id,
-              observedOn: date,
-              value,
-              plantNumber: i + 1,
-            },
-            label: `${plotLabel(plot)} · ${date} · ${trait.label}, plant ${i + 1}: ${v} ${suffix}`,
-          });
+          entries.push(
+            newRecord(
+              slug,
+              'observation',
+              'observations',
+              {
+                plotId: plot.plotId,
+                traitId: trait.id,
+                observedOn: date,
+                value,
+                plantNumber: i + 1,
+              },
+              `${plotLabel(plot)} · ${date} · ${trait.label}, plant ${i + 1}: ${v} ${suffix}`,
+            ),
+          );
         }
         if (!entries.length) return setError('Enter at least one value.');
         setError(null);
@@ -261,10 +281,7 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
       }}
     >
       <div className="grid grid-cols-2 gap-3">
-        <div className="flex flex-col gap-1">
-          <label htmlFor={`${id}-t`} className="font-medium">
-            Trait
-          </label>
+        <Field id={`${id}-t`} label="Trait">
           <select
             id={`${id}-t`}
             value={traitId}
@@ -277,11 +294,8 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
               </option>
             ))}
           </select>
-        </div>
-        <div className="flex flex-col gap-1">
-          <label htmlFor={`${id}-p`} className="font-medium">
-            Plants sampled
-          </label>
+        </Field>
+        <Field id={`${id}-p`} label="Plants sampled">
           <input
             id={`${id}-p`}
             inputMode="numeric"
@@ -292,7 +306,7 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
             onChange={(e) => setPlants(Math.max(1, Math.min(50, Number(e.target.value) || 1)))}
             className={inputClass}
           />
-        </div>
+        </Field>
       </div>
       {unitOptions && unitOptions.length > 1 ? (
         <div className="flex items-center gap-2">
@@ -357,34 +371,27 @@ export function ScoreForm({ slug, plot, date, traits, onSave }: FormProps) {
         if (score === null)
           return setError(`Choose a score from ${trait.scaleMin} to ${trait.scaleMax}.`);
         setError(null);
-        const entryId = clientId();
         await onSave(
           [
-            {
-              id: entryId,
-              trialSlug: slug,
-              kind: 'observation',
-              method: 'POST',
-              url: `${base(slug)}/observations`,
-              body: {
-                id: entryId,
+            newRecord(
+              slug,
+              'observation',
+              'observations',
+              {
                 plotId: plot.plotId,
                 traitId: trait.id,
                 observedOn: date,
                 value: score,
               },
-              label: `${plotLabel(plot)} · ${date} · ${trait.label}: ${score}`,
-            },
+              `${plotLabel(plot)} · ${date} · ${trait.label}: ${score}`,
+            ),
           ],
           submitterNext(e),
         );
         setScore(null);
       }}
     >
-      <div className="flex flex-col gap-1">
-        <label htmlFor={`${id}-t`} className="font-medium">
-          Trait
-        </label>
+      <Field id={`${id}-t`} label="Trait">
         <select
           id={`${id}-t`}
           value={traitId}
@@ -400,7 +407,7 @@ export function ScoreForm({ slug, plot, date, traits, onSave }: FormProps) {
             </option>
           ))}
         </select>
-      </div>
+      </Field>
       <fieldset>
         <legend className="mb-1 font-medium">Score</legend>
         <div className="flex flex-wrap gap-2">
@@ -465,10 +472,10 @@ export function StandCountForm({ slug, plot, onSave }: FormProps) {
         setCount('');
       }}
     >
-      <div className="flex flex-col gap-1">
-        <label htmlFor={`${id}-c`} className="font-medium">
-          Plants standing{plot.plantsSet !== null ? ` (of ${plot.plantsSet} set)` : ''}
-        </label>
+      <Field
+        id={`${id}-c`}
+        label={<>Plants standing{plot.plantsSet !== null ? ` (of ${plot.plantsSet} set)` : ''}</>}
+      >
         <input
           id={`${id}-c`}
           inputMode="numeric"
@@ -477,7 +484,7 @@ export function StandCountForm({ slug, plot, onSave }: FormProps) {
           onChange={(e) => setCount(e.target.value)}
           className={inputClass}
         />
-      </div>
+      </Field>
       <FieldError id={`${id}-err`} message={error} />
       <SaveButtons />
     </form>
@@ -496,35 +503,28 @@ export function NoteForm({ slug, plot, date, onSave }: FormProps) {
         e.preventDefault();
         if (!text.trim()) return setError('Write the note.');
         setError(null);
-        const entryId = clientId();
         await onSave(
           [
-            {
-              id: entryId,
-              trialSlug: slug,
-              kind: 'field-event',
-              method: 'POST',
-              url: `${base(slug)}/field-events`,
-              body: {
-                id: entryId,
+            newRecord(
+              slug,
+              'field-event',
+              'field-events',
+              {
                 siteId: plot.siteId,
                 plotId: plot.plotId,
                 kind: 'note',
                 occurredOn: date,
                 note: text.trim(),
               },
-              label: `${plotLabel(plot)} · ${date} · note: ${text.trim().slice(0, 60)}`,
-            },
+              `${plotLabel(plot)} · ${date} · note: ${text.trim().slice(0, 60)}`,
+            ),
           ],
           submitterNext(e),
         );
         setText('');
       }}
     >
-      <div className="flex flex-col gap-1">
-        <label htmlFor={`${id}-t`} className="font-medium">
-          Note
-        </label>
+      <Field id={`${id}-t`} label="Note">
         <textarea
           id={`${id}-t`}
           rows={3}
@@ -533,7 +533,7 @@ export function NoteForm({ slug, plot, date, onSave }: FormProps) {
           onChange={(e) => setText(e.target.value)}
           className="rounded-lg border border-leaf-300 bg-white p-3 text-lg"
         />
-      </div>
+      </Field>
       <FieldError id={`${id}-err`} message={error} />
       <SaveButtons />
     </form>
