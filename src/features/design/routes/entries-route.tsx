@@ -2,9 +2,8 @@ import { type Design, type DesignEntry, type EntryBody } from '@common/contracts
 import { entryTypes } from '@common/contracts/trials';
 import { formatLength, toStored } from '@common/units';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { useUnitSystem } from '@/lib/session';
-import { useCreatePart, useDeletePart, useUpdatePart } from '../api/design-parts';
+import { useDeletePart, useSavePart } from '../api/design-parts';
 import { DesignPage } from '../components/design-page';
 import {
   fieldErrors,
@@ -14,6 +13,7 @@ import {
   TextArea,
   TextField,
 } from '../components/form-fields';
+import { PartActions, PartForm, PartFormActions } from '../components/part-editing';
 import { lengthInput, spacingUnit } from '../components/units';
 
 const entryTypeLabels = {
@@ -35,9 +35,7 @@ function EntryForm({
 }) {
   const system = useUnitSystem();
   const unit = spacingUnit(system);
-  const create = useCreatePart(slug, 'entries');
-  const update = useUpdatePart(slug, 'entries');
-  const mutation = editing ? update : create;
+  const { mutation, save } = useSavePart(slug, 'entries', editing?.id ?? null);
   const errors = fieldErrors(mutation.error);
 
   function onSubmit(e: React.FormEvent<HTMLFormElement>) {
@@ -56,25 +54,18 @@ function EntryForm({
       noFertilizer: f.get('noFertilizer') === 'on',
       notes: String(f.get('notes') ?? ''),
     };
-    const done = () => {
+    save(body, () => {
       form.reset();
       onDone();
-    };
-    if (editing) update.mutate({ id: editing.id, body }, { onSuccess: done });
-    else create.mutate(body, { onSuccess: done });
+    });
   }
 
   return (
-    <form
-      key={editing?.id ?? 'new'}
+    <PartForm
+      editingId={editing?.id ?? null}
+      title={editing ? `Edit ${editing.name}` : 'Add an entry'}
       onSubmit={onSubmit}
-      noValidate
-      aria-label={editing ? `Edit ${editing.name}` : 'Add an entry'}
-      className="space-y-3 rounded-xl bg-white p-4 shadow-sm"
     >
-      <h2 className="text-xl font-semibold text-leaf-900">
-        {editing ? `Edit ${editing.name}` : 'Add an entry'}
-      </h2>
       <div className="grid gap-3 sm:grid-cols-3">
         <TextField
           label="Code"
@@ -150,18 +141,13 @@ function EntryForm({
         </label>
       ) : null}
       <TextArea label="Notes" name="notes" defaultValue={editing?.notes} error={errors.notes} />
-      <FormError error={Object.keys(errors).length ? null : mutation.error} />
-      <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={mutation.isPending}>
-          {mutation.isPending ? 'Saving…' : editing ? 'Save entry' : 'Add entry'}
-        </Button>
-        {editing ? (
-          <Button type="button" variant="ghost" onClick={onDone}>
-            Cancel
-          </Button>
-        ) : null}
-      </div>
-    </form>
+      <PartFormActions
+        mutation={mutation}
+        errors={errors}
+        submitLabel={editing ? 'Save entry' : 'Add entry'}
+        onCancel={editing ? onDone : undefined}
+      />
+    </PartForm>
   );
 }
 
@@ -204,26 +190,14 @@ function Entries({ design, slug }: { design: Design; slug: string }) {
                   : ''}
               </p>
               {design.canEdit ? (
-                <div className="mt-2 flex gap-2">
-                  <Button
-                    variant="secondary"
-                    onClick={() => setEditingId(e.id)}
-                    aria-label={`Edit ${e.name}`}
-                  >
-                    Edit
-                  </Button>
-                  <Button
-                    variant="ghost"
-                    disabled={layoutExists || remove.isPending}
-                    title={layoutExists ? 'Clear the layout first' : undefined}
-                    aria-label={`Remove ${e.name}`}
-                    onClick={() => {
-                      if (window.confirm(`Remove ${e.name} from the trial?`)) remove.mutate(e.id);
-                    }}
-                  >
-                    Remove
-                  </Button>
-                </div>
+                <PartActions
+                  name={e.name}
+                  onEdit={() => setEditingId(e.id)}
+                  layoutExists={layoutExists}
+                  removing={remove.isPending}
+                  confirmMessage={`Remove ${e.name} from the trial?`}
+                  onRemove={() => remove.mutate(e.id)}
+                />
               ) : null}
             </li>
           ))}

@@ -6,9 +6,8 @@ import {
   soilTextures,
 } from '@common/contracts/design';
 import { useState } from 'react';
-import { Button } from '@/components/ui/button';
 import { CautionNote } from '@/components/ui/caution-note';
-import { useCreatePart, useDeletePart, useUpdatePart } from '../api/design-parts';
+import { useDeletePart, useSavePart } from '../api/design-parts';
 import { DesignPage } from '../components/design-page';
 import {
   fieldErrors,
@@ -17,6 +16,7 @@ import {
   TextArea,
   TextField,
 } from '../components/form-fields';
+import { PartActions, PartForm, PartFormActions } from '../components/part-editing';
 
 const irrigationLabels: Record<(typeof irrigationMethods)[number], string> = {
   drip: 'Drip',
@@ -35,9 +35,7 @@ function SiteForm({
   editing: DesignSite | null;
   onDone: () => void;
 }) {
-  const create = useCreatePart(slug, 'sites');
-  const update = useUpdatePart(slug, 'sites');
-  const mutation = editing ? update : create;
+  const { mutation, save } = useSavePart(slug, 'sites', editing?.id ?? null);
   const errors = fieldErrors(mutation.error);
   const [irrigation, setIrrigation] = useState(editing?.irrigationMethod ?? '');
 
@@ -53,26 +51,19 @@ function SiteForm({
         null) as SiteBody['irrigationMethod'],
       notes: String(f.get('notes') ?? ''),
     };
-    const done = () => {
+    save(body, () => {
       form.reset();
       setIrrigation('');
       onDone();
-    };
-    if (editing) update.mutate({ id: editing.id, body }, { onSuccess: done });
-    else create.mutate(body, { onSuccess: done });
+    });
   }
 
   return (
-    <form
-      key={editing?.id ?? 'new'}
+    <PartForm
+      editingId={editing?.id ?? null}
+      title={editing ? `Edit ${editing.name}` : 'Add a site'}
       onSubmit={onSubmit}
-      noValidate
-      aria-label={editing ? `Edit ${editing.name}` : 'Add a site'}
-      className="space-y-3 rounded-xl bg-white p-4 shadow-sm"
     >
-      <h2 className="text-xl font-semibold text-leaf-900">
-        {editing ? `Edit ${editing.name}` : 'Add a site'}
-      </h2>
       <TextField label="Site name" name="name" defaultValue={editing?.name} error={errors.name} />
       <TextField
         label="Town or region"
@@ -108,18 +99,13 @@ function SiteForm({
         defaultValue={editing?.notes}
         error={errors.notes}
       />
-      <FormError error={Object.keys(errors).length ? null : mutation.error} />
-      <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={mutation.isPending}>
-          {mutation.isPending ? 'Saving…' : editing ? 'Save site' : 'Add site'}
-        </Button>
-        {editing ? (
-          <Button type="button" variant="ghost" onClick={onDone}>
-            Cancel
-          </Button>
-        ) : null}
-      </div>
-    </form>
+      <PartFormActions
+        mutation={mutation}
+        errors={errors}
+        submitLabel={editing ? 'Save site' : 'Add site'}
+        onCancel={editing ? onDone : undefined}
+      />
+    </PartForm>
   );
 }
 
@@ -152,26 +138,14 @@ function Sites({ design, slug }: { design: Design; slug: string }) {
               </p>
               {s.notes ? <p className="mt-1 text-sm">{s.notes}</p> : null}
               {design.canEdit ? (
-                <div className="mt-2 flex gap-2">
-                  <Button
-                    variant="secondary"
-                    onClick={() => setEditingId(s.id)}
-                    aria-label={`Edit ${s.name}`}
-                  >
-                    Edit
-                  </Button>
-                  <Button
-                    variant="ghost"
-                    disabled={layoutExists || remove.isPending}
-                    title={layoutExists ? 'Clear the layout first' : undefined}
-                    aria-label={`Remove ${s.name}`}
-                    onClick={() => {
-                      if (window.confirm(`Remove the site ${s.name}?`)) remove.mutate(s.id);
-                    }}
-                  >
-                    Remove
-                  </Button>
-                </div>
+                <PartActions
+                  name={s.name}
+                  onEdit={() => setEditingId(s.id)}
+                  layoutExists={layoutExists}
+                  removing={remove.isPending}
+                  confirmMessage={`Remove the site ${s.name}?`}
+                  onRemove={() => remove.mutate(s.id)}
+                />
               ) : null}
             </li>
           ))}
