@@ -273,6 +273,74 @@ async function editing(db: DB, slug: string, actor: Actor | null) {
   return { trialId: trial.id, userId: actor!.userId };
 }
 
+/** Adds an entry or site while the trial has no layout (the layout is made from them). */
+function insertBeforeLayout<P extends 'entries' | 'sites'>(
+  db: DB,
+  trialId: string,
+  table: P,
+  change: string,
+  values: Parameters<typeof repo.insertPart<P>>[2],
+  byConstraint: Record<string, [string, string]>,
+) {
+  return db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    await assertNoLayout(trx, trialId, change);
+    return unique(repo.insertPart(trx, table, values), byConstraint);
+  });
+}
+
+/** Removes an entry or site while the trial has no layout; `what` names it in a 404. */
+async function deleteBeforeLayout(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  table: 'entries' | 'sites',
+  id: string,
+  what: string,
+  change: string,
+) {
+  const { trialId } = await editing(db, slug, actor);
+  await db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trialId);
+    if (!(await repo.findPart(trx, table, trialId, id))) throw AppError.notFound(what);
+    await assertNoLayout(trx, trialId, change);
+    await repo.deletePart(trx, table, trialId, id);
+  });
+}
+
+/**
+ * Body fields under their column names. On a patch a field left out stays undefined, which the
+ * update leaves unchanged.
+ */
+function columns<const M extends Record<string, string>, B extends { [K in keyof M]?: unknown }>(
+  names: M,
+  body: B,
+) {
+  return Object.fromEntries(
+    Object.entries(names).map(([field, column]) => [column, body[field]]),
+  ) as { [K in keyof M as M[K]]: B[K] };
+}
+
+const entryColumnNames = {
+  name: 'name',
+  code: 'code',
+  seedSource: 'seed_source',
+  seedLot: 'seed_lot',
+  entryType: 'entry_type',
+  daysToMaturityClaimed: 'days_to_maturity_claimed',
+  inRowSpacingMm: 'in_row_spacing_mm',
+  noFertilizer: 'no_fertilizer',
+  notes: 'notes',
+} as const;
+
+const siteColumnNames = {
+  name: 'name',
+  region: 'region',
+  soilTexture: 'soil_texture',
+  irrigationMethod: 'irrigation_method',
+  notes: 'notes',
+} as const;
+
 const entryUnique = {
   entries_trial_id_code_key: ['body.code', 'Another entry of this trial already uses this code.'],
   entries_trial_id_name_key: ['body.name', 'Another entry of this trial already has this name.'],
@@ -285,27 +353,14 @@ export async function createEntry(
   b: Out<typeof entryBody>,
 ) {
   const { trialId, userId } = await editing(db, slug, actor);
-  return db.transaction().execute(async (trx) => {
-    await repo.lockTrial(trx, trialId);
-    await assertNoLayout(trx, trialId, 'Adding an entry');
-    return unique(
-      repo.insertPart(trx, 'entries', {
-        trial_id: trialId,
-        name: b.name,
-        code: b.code,
-        seed_source: b.seedSource,
-        seed_lot: b.seedLot,
-        entry_type: b.entryType,
-        days_to_maturity_claimed: b.daysToMaturityClaimed,
-        in_row_spacing_mm: b.inRowSpacingMm,
-        no_fertilizer: b.noFertilizer,
-        notes: b.notes,
-        created_by: userId,
-        updated_by: userId,
-      }),
-      entryUnique,
-    );
-  });
+  return insertBeforeLayout(
+    db,
+    trialId,
+    'entries',
+    'Adding an entry',
+    { trial_id: trialId, ...columns(entryColumnNames, b), created_by: userId, updated_by: userId },
+    entryUnique,
+  );
 }
 
 export async function updateEntry(
@@ -320,15 +375,7 @@ export async function updateEntry(
     await repo.lockTrial(trx, trialId);
     const row = await unique(
       repo.updatePart(trx, 'entries', trialId, entryId, {
-        name: b.name,
-        code: b.code,
-        seed_source: b.seedSource,
-        seed_lot: b.seedLot,
-        entry_type: b.entryType,
-        days_to_maturity_claimed: b.daysToMaturityClaimed,
-        in_row_spacing_mm: b.inRowSpacingMm,
-        no_fertilizer: b.noFertilizer,
-        notes: b.notes,
+        ...columns(entryColumnNames, b),
         updated_by: userId,
       }),
       entryUnique,
@@ -340,15 +387,8 @@ export async function updateEntry(
   });
 }
 
-export async function deleteEntry(db: DB, slug: string, actor: Actor | null, entryId: string) {
-  const { trialId } = await editing(db, slug, actor);
-  await db.transaction().execute(async (trx) => {
-    await repo.lockTrial(trx, trialId);
-    if (!(await repo.findPart(trx, 'entries', trialId, entryId)))
-      throw AppError.notFound('The entry');
-    await assertNoLayout(trx, trialId, 'Removing an entry');
-    await repo.deletePart(trx, 'entries', trialId, entryId);
-  });
+export function deleteEntry(db: DB, slug: string, actor: Actor | null, entryId: string) {
+  return deleteBeforeLayout(db, slug, actor, 'entries', entryId, 'The entry', 'Removing an entry');
 }
 
 const siteUnique = {
@@ -362,23 +402,14 @@ export async function createSite(
   b: Out<typeof siteBody>,
 ) {
   const { trialId, userId } = await editing(db, slug, actor);
-  return db.transaction().execute(async (trx) => {
-    await repo.lockTrial(trx, trialId);
-    await assertNoLayout(trx, trialId, 'Adding a site');
-    return unique(
-      repo.insertPart(trx, 'sites', {
-        trial_id: trialId,
-        name: b.name,
-        region: b.region,
-        soil_texture: b.soilTexture,
-        irrigation_method: b.irrigationMethod,
-        notes: b.notes,
-        created_by: userId,
-        updated_by: userId,
-      }),
-      siteUnique,
-    );
-  });
+  return insertBeforeLayout(
+    db,
+    trialId,
+    'sites',
+    'Adding a site',
+    { trial_id: trialId, ...columns(siteColumnNames, b), created_by: userId, updated_by: userId },
+    siteUnique,
+  );
 }
 
 export async function updateSite(
@@ -391,11 +422,7 @@ export async function updateSite(
   const { trialId, userId } = await editing(db, slug, actor);
   const row = await unique(
     repo.updatePart(db, 'sites', trialId, siteId, {
-      name: b.name,
-      region: b.region,
-      soil_texture: b.soilTexture,
-      irrigation_method: b.irrigationMethod,
-      notes: b.notes,
+      ...columns(siteColumnNames, b),
       updated_by: userId,
     }),
     siteUnique,
@@ -403,14 +430,8 @@ export async function updateSite(
   if (!row) throw AppError.notFound('The site');
 }
 
-export async function deleteSite(db: DB, slug: string, actor: Actor | null, siteId: string) {
-  const { trialId } = await editing(db, slug, actor);
-  await db.transaction().execute(async (trx) => {
-    await repo.lockTrial(trx, trialId);
-    if (!(await repo.findPart(trx, 'sites', trialId, siteId))) throw AppError.notFound('The site');
-    await assertNoLayout(trx, trialId, 'Removing a site');
-    await repo.deletePart(trx, 'sites', trialId, siteId);
-  });
+export function deleteSite(db: DB, slug: string, actor: Actor | null, siteId: string) {
+  return deleteBeforeLayout(db, slug, actor, 'sites', siteId, 'The site', 'Removing a site');
 }
 
 const traitUnique = {
