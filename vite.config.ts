@@ -1,11 +1,45 @@
+import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import react from '@vitejs/plugin-react';
 import { defineConfig } from 'vite';
+import { VitePWA } from 'vite-plugin-pwa';
 
 const apiPort = Number(process.env.PORT ?? 3000);
 
+const { version } = JSON.parse(
+  readFileSync(new URL('./package.json', import.meta.url), 'utf8'),
+) as {
+  version: string;
+};
+
 export default defineConfig({
-  plugins: [react()],
+  define: { __APP_VERSION__: JSON.stringify(version) },
+  plugins: [
+    react(),
+    // The app shell is kept on the device so a grower can open the field log with no signal;
+    // records queued offline live in IndexedDB. The API is never cached.
+    VitePWA({
+      registerType: 'autoUpdate',
+      injectRegister: null,
+      includeAssets: ['favicon.svg'],
+      manifest: {
+        name: 'Rowtally',
+        short_name: 'Rowtally',
+        description: 'A recordbook for side-by-side trials of heirloom vegetable varieties.',
+        theme_color: '#2f5d3a',
+        background_color: '#faf7ee',
+        display: 'standalone',
+        start_url: '/',
+        icons: [{ src: '/favicon.svg', sizes: 'any', type: 'image/svg+xml', purpose: 'any' }],
+      },
+      workbox: {
+        globPatterns: ['**/*.{js,css,html,svg,woff2}'],
+        navigateFallback: '/index.html',
+        navigateFallbackDenylist: [/^\/api\//, /^\/r\//],
+        maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
+      },
+    }),
+  ],
   resolve: {
     alias: {
       '@': fileURLToPath(new URL('./src', import.meta.url)),

@@ -123,7 +123,17 @@ export function createApp(deps: AppDeps) {
 
   if (deps.clientDir && fs.existsSync(path.join(deps.clientDir, 'index.html'))) {
     const clientDir = deps.clientDir;
-    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.use(
+      express.static(clientDir, {
+        index: false,
+        maxAge: '1h',
+        // The service worker and manifest must be re-checked on every visit to pick up a release.
+        setHeaders: (res, file) => {
+          if (/(?:sw\.js|workbox-[\w-]+\.js|manifest\.webmanifest)$/.test(file))
+            res.setHeader('Cache-Control', 'no-cache');
+        },
+      }),
+    );
     // Client routes are the browser router's; every other GET gets the app shell.
     const shell = fs.readFileSync(path.join(clientDir, 'index.html'), 'utf8');
     app.get('/{*splat}', async (req, res) => {

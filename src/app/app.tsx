@@ -1,15 +1,28 @@
-import { QueryClientProvider } from '@tanstack/react-query';
+import { createSyncStoragePersister } from '@tanstack/query-sync-storage-persister';
+import { PersistQueryClientProvider } from '@tanstack/react-query-persist-client';
 import { useState } from 'react';
 import { RouterProvider } from 'react-router-dom';
-import { createQueryClient } from '@/lib/query-client';
+import { CACHE_MAX_AGE_MS, createQueryClient } from '@/lib/query-client';
 import { createAppRouter } from './router';
+
+/**
+ * What the app last read (trial, plots, traits) is kept on the device, so the field log opens
+ * and works with no signal; it is cleared when someone signs in or out.
+ */
+const persister = createSyncStoragePersister({
+  storage: window.localStorage,
+  key: 'rowtally-cache',
+});
 
 export function App() {
   const [queryClient] = useState(createQueryClient);
   const [router] = useState(() => createAppRouter(queryClient));
   return (
-    <QueryClientProvider client={queryClient}>
+    <PersistQueryClientProvider
+      client={queryClient}
+      persistOptions={{ persister, maxAge: CACHE_MAX_AGE_MS, buster: __APP_VERSION__ }}
+    >
       <RouterProvider router={router} />
-    </QueryClientProvider>
+    </PersistQueryClientProvider>
   );
 }

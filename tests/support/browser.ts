@@ -62,8 +62,11 @@ export async function contextAs(
   live: LiveApp,
   user: Pick<TestUser, 'email' | 'password'> | null,
   viewport = { width: 1280, height: 900 },
+  // The app's service worker would sit between the page and Playwright's network controls;
+  // only the offline-shell test lets it run.
+  serviceWorkers: 'allow' | 'block' = 'block',
 ): Promise<BrowserContext> {
-  const context = await browser.newContext({ viewport, baseURL: live.url });
+  const context = await browser.newContext({ viewport, baseURL: live.url, serviceWorkers });
   if (user) {
     const [name, value] = (await mintSessionCookie(live, user)).split('=');
     await context.addCookies([
