@@ -128,7 +128,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           path: 't/:slug/records/files',
           lazy: () => import('@/features/records/routes/import-export-route'),
         },
-        { path: 't/:slug/records/audit', lazy: () => import('@/features/records/routes/audit-route') },
+        {
+          path: 't/:slug/records/audit',
+          lazy: () => import('@/features/records/routes/audit-route'),
+        },
         { path: '*', lazy: () => import('./routes/not-found') },
       ],
     },
