@@ -1,4 +1,4 @@
-import { changePasswordForm, passwordMinLength } from '@common/contracts/auth';
+import { changePasswordForm } from '@common/contracts/auth';
 import { type Me, unitSystems, updateMeBody } from '@common/contracts/me';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
@@ -6,7 +6,13 @@ import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import {
+  ConfirmPasswordField,
+  NameField,
+  NewPasswordField,
+  PasswordField,
+} from '@/components/ui/account-fields';
+import { FormMessage } from '@/components/ui/text-field';
 import { ApiError } from '@/lib/api-client';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { useMe } from '@/lib/session';
@@ -44,12 +50,7 @@ function ProfileSection({ me }: { me: Me }) {
         Name and units
       </h2>
       <form onSubmit={onSubmit} noValidate className="mt-3 flex flex-col gap-4">
-        <TextField
-          label="Your name"
-          autoComplete="name"
-          error={errors.name?.message}
-          {...form.register('name')}
-        />
+        <NameField error={errors.name?.message} {...form.register('name')} />
         <fieldset className="flex flex-col gap-2">
           <legend className="font-medium">Units for entering and reading numbers</legend>
           {unitSystems.map((u) => (
@@ -120,28 +121,13 @@ function PasswordSection() {
         Password
       </h2>
       <form onSubmit={onSubmit} noValidate className="mt-3 flex flex-col gap-4">
-        <TextField
+        <PasswordField
           label="Current password"
-          type="password"
-          autoComplete="current-password"
           error={errors.currentPassword?.message}
           {...form.register('currentPassword')}
         />
-        <TextField
-          label="New password"
-          type="password"
-          autoComplete="new-password"
-          hint={`At least ${passwordMinLength} characters.`}
-          error={errors.newPassword?.message}
-          {...form.register('newPassword')}
-        />
-        <TextField
-          label="New password again"
-          type="password"
-          autoComplete="new-password"
-          error={errors.confirm?.message}
-          {...form.register('confirm')}
-        />
+        <NewPasswordField error={errors.newPassword?.message} {...form.register('newPassword')} />
+        <ConfirmPasswordField error={errors.confirm?.message} {...form.register('confirm')} />
         <label className="flex min-h-11 items-center gap-3">
           <input
             type="checkbox"

@@ -5,7 +5,8 @@ import { useForm } from 'react-hook-form';
 import { Link } from 'react-router-dom';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import { EmailField } from '@/components/ui/account-fields';
+import { FormMessage } from '@/components/ui/text-field';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { AuthCard } from '../components/auth-card';
 
@@ -41,13 +42,7 @@ export function Component() {
       ) : (
         <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
           <p>Enter your address and we will send you a link to choose a new password.</p>
-          <TextField
-            label="E-mail address"
-            type="email"
-            autoComplete="email"
-            error={errors.email?.message}
-            {...form.register('email')}
-          />
+          <EmailField error={errors.email?.message} {...form.register('email')} />
           {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
           <Button type="submit" disabled={isSubmitting}>
             {isSubmitting ? 'Sending…' : 'Send the link'}

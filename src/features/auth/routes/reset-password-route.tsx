@@ -1,11 +1,12 @@
-import { passwordMinLength, resetPasswordForm } from '@common/contracts/auth';
+import { resetPasswordForm } from '@common/contracts/auth';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import { ConfirmPasswordField, NewPasswordField } from '@/components/ui/account-fields';
+import { FormMessage } from '@/components/ui/text-field';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { AuthCard } from '../components/auth-card';
 
@@ -56,21 +57,8 @@ export function Component() {
   return (
     <AuthCard title="Choose a new password">
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-        <TextField
-          label="New password"
-          type="password"
-          autoComplete="new-password"
-          hint={`At least ${passwordMinLength} characters.`}
-          error={errors.newPassword?.message}
-          {...form.register('newPassword')}
-        />
-        <TextField
-          label="New password again"
-          type="password"
-          autoComplete="new-password"
-          error={errors.confirm?.message}
-          {...form.register('confirm')}
-        />
+        <NewPasswordField error={errors.newPassword?.message} {...form.register('newPassword')} />
+        <ConfirmPasswordField error={errors.confirm?.message} {...form.register('confirm')} />
         {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
         <Button type="submit" disabled={isSubmitting}>
           {isSubmitting ? 'Saving…' : 'Set the new password'}

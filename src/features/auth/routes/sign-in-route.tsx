@@ -5,7 +5,8 @@ import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import { EmailField, PasswordField } from '@/components/ui/account-fields';
+import { FormMessage } from '@/components/ui/text-field';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { useSessionChanged } from '@/lib/session';
 import { AuthCard } from '../components/auth-card';
@@ -38,20 +39,8 @@ export function Component() {
     <AuthCard title="Sign in to Rowtally">
       {params.get('next') ? <p className="text-loam-700">Sign in to open that page.</p> : null}
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-        <TextField
-          label="E-mail address"
-          type="email"
-          autoComplete="email"
-          error={errors.email?.message}
-          {...form.register('email')}
-        />
-        <TextField
-          label="Password"
-          type="password"
-          autoComplete="current-password"
-          error={errors.password?.message}
-          {...form.register('password')}
-        />
+        <EmailField error={errors.email?.message} {...form.register('email')} />
+        <PasswordField error={errors.password?.message} {...form.register('password')} />
         {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
         <Button type="submit" disabled={isSubmitting}>
           {isSubmitting ? 'Signing in…' : 'Sign in'}

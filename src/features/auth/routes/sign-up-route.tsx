@@ -10,7 +10,8 @@ import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import { EmailField, NameField, NewPasswordField } from '@/components/ui/account-fields';
+import { FormMessage } from '@/components/ui/text-field';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { AuthCard } from '../components/auth-card';
 
@@ -47,23 +48,10 @@ export function Component() {
   return (
     <AuthCard title="Create your Rowtally account">
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
-        <TextField
-          label="Your name"
-          autoComplete="name"
-          error={errors.name?.message}
-          {...form.register('name')}
-        />
-        <TextField
-          label="E-mail address"
-          type="email"
-          autoComplete="email"
-          error={errors.email?.message}
-          {...form.register('email')}
-        />
-        <TextField
+        <NameField error={errors.name?.message} {...form.register('name')} />
+        <EmailField error={errors.email?.message} {...form.register('email')} />
+        <NewPasswordField
           label="Password"
-          type="password"
-          autoComplete="new-password"
           hint={`At least ${passwordMinLength} characters. A few unrelated words are easy to remember.`}
           error={errors.password?.message}
           {...form.register('password')}

@@ -1,4 +1,4 @@
-import { passwordMinLength, personNameSchema, passwordSchema } from '@common/contracts/auth';
+import { personNameSchema, passwordSchema } from '@common/contracts/auth';
 import type { InvitationPreview } from '@common/contracts/invitations';
 import { roleDescriptions, roleLabels } from '@common/contracts/members';
 import { zodResolver } from '@hookform/resolvers/zod';
@@ -9,7 +9,8 @@ import { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import { NameField, NewPasswordField, PasswordField } from '@/components/ui/account-fields';
+import { FormMessage } from '@/components/ui/text-field';
 import { ApiError } from '@/lib/api-client';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { useMe, useSessionChanged } from '@/lib/session';
@@ -74,17 +75,9 @@ function SignUpThroughLink({ token }: { token: string }) {
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       <h2 className="text-xl font-semibold text-leaf-900">Create your account and join</h2>
-      <TextField
-        label="Your name"
-        autoComplete="name"
-        error={errors.name?.message}
-        {...form.register('name')}
-      />
-      <TextField
+      <NameField error={errors.name?.message} {...form.register('name')} />
+      <NewPasswordField
         label="Choose a password"
-        type="password"
-        autoComplete="new-password"
-        hint={`At least ${passwordMinLength} characters.`}
         error={errors.password?.message}
         {...form.register('password')}
       />
@@ -125,13 +118,7 @@ function SignInThroughLink({ token, email }: { token: string; email: string }) {
       <p>
         An account already uses <strong className="break-all">{email}</strong>.
       </p>
-      <TextField
-        label="Password"
-        type="password"
-        autoComplete="current-password"
-        error={errors.password?.message}
-        {...form.register('password')}
-      />
+      <PasswordField error={errors.password?.message} {...form.register('password')} />
       {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
       <Button type="submit" disabled={isSubmitting}>
         {isSubmitting ? 'Joining…' : 'Sign in and join'}
