@@ -34,6 +34,36 @@ export function FilterSelect({
   );
 }
 
+/** Every site of the trial, or all of them. */
+export function SiteFilter({
+  sites,
+  value,
+  onChange,
+}: {
+  sites: { id: string; name: string }[];
+  value: string;
+  onChange: (siteId: string) => void;
+}) {
+  return (
+    <FilterSelect label="Site" value={value} onChange={onChange}>
+      <option value="">All sites</option>
+      {sites.map((s) => (
+        <option key={s.id} value={s.id}>
+          {s.name}
+        </option>
+      ))}
+    </FilterSelect>
+  );
+}
+
+export function FilterBar({ children }: { children: ReactNode }) {
+  return (
+    <div className="flex flex-wrap items-end gap-2 rounded-lg bg-white p-3 shadow-sm">
+      {children}
+    </div>
+  );
+}
+
 export function FilterInput({
   label,
   value,
@@ -201,9 +231,7 @@ export function RecordLogShell<R extends { id: string }>({
     <article className="space-y-3">
       <h1 className="text-2xl font-semibold text-leaf-900">{heading}</h1>
       <RecordsNav slug={slug} />
-      <div className="flex flex-wrap items-end gap-2 rounded-lg bg-white p-3 shadow-sm">
-        {filters}
-      </div>
+      <FilterBar>{filters}</FilterBar>
       {conflict && editing ? (
         <ConflictNotice
           conflict={conflict}

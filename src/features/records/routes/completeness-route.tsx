@@ -4,6 +4,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
 import { useCompleteness } from '../api/record-api';
+import { FilterBar, FilterInput, SiteFilter } from '../components/record-log';
 import { RecordsNav } from '../components/records-nav';
 
 const isoDaysAgo = (n: number) => {
@@ -38,40 +39,10 @@ export function Component() {
     <article className="space-y-3">
       <h1 className="text-2xl font-semibold text-leaf-900">Completeness · {trial.data.title}</h1>
       <RecordsNav slug={slug} />
-      <div className="flex flex-wrap items-end gap-2 rounded-lg bg-white p-3 shadow-sm">
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Site
-          <select
-            value={siteId}
-            onChange={(e) => setSiteId(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          >
-            <option value="">All sites</option>
-            {trial.data.sites.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Round from
-          <input
-            type="date"
-            value={from}
-            onChange={(e) => setFrom(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          />
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          to
-          <input
-            type="date"
-            value={to}
-            onChange={(e) => setTo(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          />
-        </label>
+      <FilterBar>
+        <SiteFilter sites={trial.data.sites} value={siteId} onChange={setSiteId} />
+        <FilterInput label="Round from" type="date" value={from} onChange={setFrom} />
+        <FilterInput label="to" type="date" value={to} onChange={setTo} />
         {trial.data.permissions['records.write'] ? (
           <Link
             to={`/t/${slug}/log`}
@@ -80,7 +51,7 @@ export function Component() {
             Open the field log
           </Link>
         ) : null}
-      </div>
+      </FilterBar>
       {grid.isPending ? (
         <Spinner label="Counting the round…" />
       ) : grid.error ? (

@@ -22,6 +22,7 @@ import {
   FilterSelect,
   RecordLogShell,
   RowActions,
+  SiteFilter,
   SortButton,
   useRecordLog,
 } from '../components/record-log';
@@ -153,14 +154,7 @@ export function Component() {
       log={log}
       filters={
         <>
-          <FilterSelect label="Site" value={siteId} onChange={setSiteId}>
-            <option value="">All sites</option>
-            {trial.data.sites.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </FilterSelect>
+          <SiteFilter sites={trial.data.sites} value={siteId} onChange={setSiteId} />
           <FilterInput label="From" type="date" value={from} onChange={setFrom} />
           <FilterInput label="To" type="date" value={to} onChange={setTo} />
           <FilterSelect label="Grade" value={grade} onChange={setGrade}>

@@ -22,6 +22,7 @@ import {
   FilterSelect,
   RecordLogShell,
   RowActions,
+  SiteFilter,
   SortButton,
   useRecordLog,
 } from '../components/record-log';
@@ -140,14 +141,7 @@ export function Component() {
       log={log}
       filters={
         <>
-          <FilterSelect label="Site" value={siteId} onChange={setSiteId}>
-            <option value="">All sites</option>
-            {trial.data.sites.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </FilterSelect>
+          <SiteFilter sites={trial.data.sites} value={siteId} onChange={setSiteId} />
           <FilterSelect label="Trait" value={traitId} onChange={setTraitId}>
             <option value="">All traits</option>
             {trial.data.traits.map((t) => (
