@@ -204,6 +204,29 @@ function recordId(cell: (name: string) => string, rowNo: number, errors: ImportR
   return id.toLowerCase();
 }
 
+/** Checks of every record row: the note's length, and a record id used once in the file. */
+function checkNoteAndId(
+  cell: (name: string) => string,
+  rowNo: number,
+  id: string | null | undefined,
+  seen: Set<string>,
+  errors: ImportRowError[],
+) {
+  const noteText = cell('note');
+  if (noteText.length > 2000)
+    errors.push({ row: rowNo, column: 'note', message: 'Use at most 2000 characters.' });
+  if (id) {
+    if (seen.has(id))
+      errors.push({
+        row: rowNo,
+        column: 'record_id',
+        message: 'This record id appears twice in the file.',
+      });
+    seen.add(id);
+  }
+  return noteText;
+}
+
 const cellsOf = (row: string[], col: (n: string) => number) => (name: string) => {
   const i = col(name);
   return i < 0 ? '' : (row[i] ?? '').trim();
@@ -252,18 +275,7 @@ export function checkHarvestCsv(rows: string[][], lookups: CsvLookups): CsvCheck
     const grade = cell('grade').toLowerCase();
     if (grade !== 'marketable' && grade !== 'cull')
       errors.push({ row: rowNo, column: 'grade', message: 'Use marketable or cull.' });
-    const noteText = cell('note');
-    if (noteText.length > 2000)
-      errors.push({ row: rowNo, column: 'note', message: 'Use at most 2000 characters.' });
-    if (id) {
-      if (seen.has(id))
-        errors.push({
-          row: rowNo,
-          column: 'record_id',
-          message: 'This record id appears twice in the file.',
-        });
-      seen.add(id);
-    }
+    const noteText = checkNoteAndId(cell, rowNo, id, seen, errors);
     if (errors.length > before || !plot || id === undefined) return;
     records.push({
       row: rowNo,
@@ -366,18 +378,7 @@ export function checkObservationCsv(
         }
       }
     }
-    const noteText = cell('note');
-    if (noteText.length > 2000)
-      errors.push({ row: rowNo, column: 'note', message: 'Use at most 2000 characters.' });
-    if (id) {
-      if (seen.has(id))
-        errors.push({
-          row: rowNo,
-          column: 'record_id',
-          message: 'This record id appears twice in the file.',
-        });
-      seen.add(id);
-    }
+    const noteText = checkNoteAndId(cell, rowNo, id, seen, errors);
     if (errors.length > before || !plot || !trait || id === undefined) return;
     records.push({
       row: rowNo,
