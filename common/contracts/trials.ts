@@ -79,3 +79,8 @@ export const trialDetailSchema = trialSummarySchema.extend({
   mySiteIds: z.array(z.uuid()).nullable(),
 });
 export type TrialDetail = z.infer<typeof trialDetailSchema>;
+
+/* DELETE /api/trials/:slug — the address typed again, so a slip of the finger deletes nothing. */
+export const deleteTrialBody = z.object({
+  confirmSlug: z.string({ error: 'Type the trial address to confirm.' }),
+});

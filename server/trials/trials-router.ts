@@ -1,11 +1,14 @@
 import { Router } from 'express';
-import { trialSlugParams } from '../../common/contracts/trials';
+import { deleteTrialBody, trialSlugParams } from '../../common/contracts/trials';
+import { createStorage } from '../storage/create-storage';
 import type { AppDeps } from '../app';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './trials-service';
 
-export function trialsRouter({ db }: Pick<AppDeps, 'db'>) {
+export function trialsRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage' | 'logger'>) {
+  const { db } = deps;
+  const storage = deps.storage ?? createStorage(deps.env);
   const router = Router();
   router.get(
     '/',
@@ -18,6 +21,21 @@ export function trialsRouter({ db }: Pick<AppDeps, 'db'>) {
     endpoint({ params: trialSlugParams }, async ({ params }, _req, res) => {
       res.json(await service.trialDetail(db, params.slug, actorOf(res)));
     }),
+  );
+  router.delete(
+    '/:slug',
+    endpoint(
+      { params: trialSlugParams, body: deleteTrialBody },
+      async ({ params, body }, _req, res) => {
+        await service.deleteTrial(
+          { db, storage, logger: deps.logger },
+          params.slug,
+          actorOf(res),
+          body.confirmSlug,
+        );
+        res.status(204).end();
+      },
+    ),
   );
   return router;
 }

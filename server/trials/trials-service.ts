@@ -2,6 +2,7 @@ import { type Actor, permissionsFor } from '../../common/policy';
 import type { TrialDetail, TrialSummary } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
 import { AppError } from '../lib/app-error';
+import type { ObjectStorage } from '../storage/object-storage';
 import { authorize, loadTrialAccess } from './trial-access';
 import * as repo from './trials-repository';
 
@@ -74,4 +75,31 @@ export async function trialDetail(
     })),
     permissions: permissionsFor(actor, access),
   };
+}
+
+/**
+ * Deletes a trial with everything in it (the database cascades to records, photos' rows,
+ * members and published versions), then removes its photo files from storage.
+ */
+export async function deleteTrial(
+  deps: { db: DB; storage: ObjectStorage; logger: { warn: (o: object, m: string) => void } },
+  slug: string,
+  actor: Actor | null,
+  confirmSlug: string,
+): Promise<void> {
+  const { trial } = await trialForAction(deps.db, slug, actor, 'trial.delete');
+  if (confirmSlug !== trial.slug) {
+    throw new AppError('validation_failed', `Type the trial address "${trial.slug}" to confirm.`, {
+      fields: [{ path: 'body.confirmSlug', message: `Type "${trial.slug}" to confirm.` }],
+    });
+  }
+  await deps.db.deleteFrom('trials').where('id', '=', trial.id).execute();
+  const keys = await deps.storage.list(`photos/${trial.id}/`);
+  const results = await Promise.allSettled(keys.map((key) => deps.storage.delete(key)));
+  const failed = results.filter((r) => r.status === 'rejected').length;
+  if (failed)
+    deps.logger.warn(
+      { trialId: trial.id, failed },
+      'photo files of a deleted trial were left in storage',
+    );
 }

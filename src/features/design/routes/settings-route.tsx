@@ -10,6 +10,7 @@ import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { CautionNote } from '@/components/ui/caution-note';
 import { useUpdateTrial } from '../api/update-trial';
+import { DeleteTrialSection } from '../components/delete-trial-section';
 import { DesignPage } from '../components/design-page';
 import {
   fieldErrors,
@@ -140,7 +141,12 @@ function SettingsForm({ design, slug }: { design: Design; slug: string }) {
 export function Component() {
   return (
     <DesignPage title="Trial settings">
-      {(design, slug) => <SettingsForm key={design.id} design={design} slug={slug} />}
+      {(design, slug) => (
+        <>
+          <SettingsForm key={design.id} design={design} slug={slug} />
+          <DeleteTrialSection slug={slug} />
+        </>
+      )}
     </DesignPage>
   );
 }
