@@ -5,6 +5,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useSeason } from '../api/get-season';
 import { cToF, formatDegreeDays, formatNumber } from '@/lib/display-units';
+import { WeatherDayForm } from './weather-day-form';
 import { WeatherImport } from './weather-import';
 
 export function SeasonPanel({
@@ -157,7 +158,12 @@ export function SeasonPanel({
               <li key={c}>{c}</li>
             ))}
           </ul>
-          {canWrite ? <WeatherImport slug={slug} sites={sites} /> : null}
+          {canWrite ? (
+            <>
+              <WeatherDayForm slug={slug} sites={sites} system={system} />
+              <WeatherImport slug={slug} sites={sites} />
+            </>
+          ) : null}
         </>
       ) : null}
     </section>
