@@ -8,7 +8,17 @@ const fmt = (x: number | null | undefined, digits = 1) =>
     ? '—'
     : x.toLocaleString('en', { maximumFractionDigits: digits, minimumFractionDigits: digits });
 
-export function renderSheetPdf(s: ResultSnapshot, size: 'A4' | 'LETTER' = 'A4'): Promise<Buffer> {
+export interface PdfPhoto {
+  entry: string;
+  caption: string;
+  jpeg: Buffer;
+}
+
+export function renderSheetPdf(
+  s: ResultSnapshot,
+  size: 'A4' | 'LETTER' = 'A4',
+  photos: PdfPhoto[] = [],
+): Promise<Buffer> {
   const doc = new PDFDocument({
     size,
     margin: 50,
@@ -60,7 +70,36 @@ export function renderSheetPdf(s: ResultSnapshot, size: 'A4' | 'LETTER' = 'A4'):
     .text('Means followed by the same letter are not significantly different.')
     .moveDown();
 
-  doc.font('Helvetica-Bold').fontSize(12).fillColor('#1f2a1c').text('Methods');
+  if (photos.length) {
+    doc.addPage();
+    doc.font('Helvetica-Bold').fontSize(12).fillColor('#1f2a1c').text('Photos');
+    const width = (doc.page.width - doc.page.margins.left - doc.page.margins.right - 20) / 2;
+    let column = 0;
+    let top = doc.y + 6;
+    for (const p of photos) {
+      const x = doc.page.margins.left + column * (width + 20);
+      if (top + width * 0.75 + 40 > doc.page.height - doc.page.margins.bottom) {
+        doc.addPage();
+        top = doc.page.margins.top;
+      }
+      doc.image(p.jpeg, x, top, { fit: [width, width * 0.75] });
+      doc
+        .font('Helvetica-Bold')
+        .fontSize(9)
+        .text(p.entry, x, top + width * 0.75 + 4, { width });
+      doc.font('Helvetica').fontSize(8).text(p.caption, x, doc.y, { width });
+      column = 1 - column;
+      if (column === 0) top = doc.y + 14;
+    }
+    doc.x = doc.page.margins.left;
+    doc.moveDown(2);
+  }
+
+  doc
+    .font('Helvetica-Bold')
+    .fontSize(12)
+    .fillColor('#1f2a1c')
+    .text('Methods', doc.page.margins.left);
   doc.font('Helvetica').fontSize(10).text(s.methods).moveDown();
   doc.font('Helvetica-Bold').fontSize(12).text('Growing conditions');
   doc.font('Helvetica').fontSize(10);

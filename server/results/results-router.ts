@@ -174,7 +174,8 @@ export function publicResultsRouter(deps: Deps) {
       { params: resultVersionParams, query: downloadQuery },
       async ({ params, query }, _req, res) => {
         const s = await service.publicVersion(deps.db, params.slug, params.version);
-        const pdf = await renderSheetPdf(s, query.size === 'letter' ? 'LETTER' : 'A4');
+        const photos = await service.sheetPhotosForPdf(deps.db, storage, s);
+        const pdf = await renderSheetPdf(s, query.size === 'letter' ? 'LETTER' : 'A4', photos);
         res.attachment(`${s.trial.slug}-v${s.version}.pdf`).type('application/pdf').send(pdf);
       },
     ),

@@ -1,3 +1,4 @@
+import sharp from 'sharp';
 import type { Actor } from '../../common/policy';
 import {
   type ResultSnapshot,
@@ -353,4 +354,30 @@ export async function publishedPhoto(
   const file = row ? await storage.get(variantKey(row, params.variant)) : null;
   if (!row || !file) throw AppError.notFound('The photo file');
   return { file, etag: `${(row.sha256 ?? row.id).slice(0, 20)}-${params.variant}` };
+}
+
+/** The version's photos as JPEG, for the PDF (which cannot embed WebP). Missing files are skipped. */
+export async function sheetPhotosForPdf(db: DB, storage: ObjectStorage, snapshot: ResultSnapshot) {
+  const out: { entry: string; caption: string; jpeg: Buffer }[] = [];
+  for (const e of snapshot.entries) {
+    if (!e.photo) continue;
+    try {
+      const photo = await publishedPhoto(db, storage, {
+        slug: snapshot.trial.slug,
+        version: snapshot.version,
+        photoId: e.photo.id,
+        variant: 'display',
+      });
+      const chunks: Buffer[] = [];
+      for await (const c of photo.file.body) chunks.push(c as Buffer);
+      const jpeg = await sharp(Buffer.concat(chunks))
+        .resize({ width: 640, withoutEnlargement: true })
+        .jpeg({ quality: 80 })
+        .toBuffer();
+      out.push({ entry: e.name, caption: e.photo.caption, jpeg });
+    } catch (err) {
+      if (!(err instanceof AppError && err.code === 'not_found')) throw err;
+    }
+  }
+  return out;
 }

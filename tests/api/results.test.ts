@@ -353,6 +353,25 @@ describe('the results sheet', () => {
     expect((await as(null).get(`/api/results/${SLUG}/v/${v}/photos/${other}/display`)).status).toBe(
       404,
     );
+    // The PDF of that version carries the photo (poppler's pdfimages lists the embedded images).
+    const pdf = await as(null)
+      .get(`/api/results/${SLUG}/v/${v}/sheet.pdf`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
+    const pdfFile = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-pdf-')), 'photo.pdf');
+    fs.writeFileSync(pdfFile, pdf.body as Buffer);
+    const images = execFileSync('pdfimages', ['-list', pdfFile], { encoding: 'utf8' })
+      .trim()
+      .split('\n')
+      .slice(2);
+    expect(images).toHaveLength(1);
+    expect(execFileSync('pdftotext', [pdfFile, '-'], { encoding: 'utf8' })).toContain(
+      'Mossbank Long pods at first harvest',
+    );
     // Not in an earlier version either.
     expect((await as(null).get(`/api/results/${SLUG}/v/1/photos/${chosen}/display`)).status).toBe(
       404,
