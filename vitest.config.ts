@@ -43,7 +43,7 @@ export default defineConfig({
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',
-          testTimeout: 90_000,
+          testTimeout: 180_000,
           hookTimeout: 120_000,
           fileParallelism: false,
         },

@@ -67,6 +67,8 @@ export async function contextAs(
   serviceWorkers: 'allow' | 'block' = 'block',
 ): Promise<BrowserContext> {
   const context = await browser.newContext({ viewport, baseURL: live.url, serviceWorkers });
+  // Two cores run the whole suite at once: give pages room before a wait counts as a failure.
+  context.setDefaultTimeout(60_000);
   if (user) {
     const [name, value] = (await mintSessionCookie(live, user)).split('=');
     await context.addCookies([
