@@ -19,7 +19,7 @@ import { plantsPerPlot } from '../../common/planting';
 import type { DB } from '../../db/database';
 import type { z } from 'zod';
 import { AppError } from '../lib/app-error';
-import { trialForAction } from '../trials/trials-service';
+import { trialForAction, trialHeading } from '../trials/trials-service';
 import * as repo from './design-repository';
 import type { Conn } from './design-repository';
 
@@ -175,16 +175,7 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
   ]);
   const reason = lockReason(dependents);
   return {
-    id: trial.id,
-    slug: trial.slug,
-    title: trial.title,
-    crop: trial.crop,
-    season: trial.season,
-    design: trial.design,
-    status: trial.status,
-    description: trial.description,
-    sowingDate: trial.sowing_date,
-    transplantDate: trial.transplant_date,
+    ...trialHeading(trial),
     fertilizerPolicy: trial.fertilizer_policy,
     fertilizerNotes: trial.fertilizer_notes,
     canEdit: can(actor, 'trial.edit', access),

@@ -1,6 +1,7 @@
 import { type Actor, permissionsFor } from '../../common/policy';
 import type { TrialDetail, TrialSummary } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import type { ObjectStorage } from '../storage/object-storage';
 import { authorize, loadTrialAccess } from './trial-access';
@@ -33,16 +34,7 @@ export async function trialDetail(
   const { trial, access } = await trialForAction(db, slug, actor, 'trial.read');
   const { sites, entries, traits, tallies } = await repo.trialParts(db, trial.id);
   return {
-    id: trial.id,
-    slug: trial.slug,
-    title: trial.title,
-    crop: trial.crop,
-    season: trial.season,
-    design: trial.design,
-    status: trial.status,
-    description: trial.description,
-    sowingDate: trial.sowing_date,
-    transplantDate: trial.transplant_date,
+    ...trialHeading(trial),
     myRole: access.role,
     mySiteIds: access.growerSiteIds,
     ...tallies,
@@ -102,4 +94,20 @@ export async function deleteTrial(
       { trialId: trial.id, failed },
       'photo files of a deleted trial were left in storage',
     );
+}
+
+/** The fields every view of a trial starts with, in the API's names. */
+export function trialHeading(trial: Trial) {
+  return {
+    id: trial.id,
+    slug: trial.slug,
+    title: trial.title,
+    crop: trial.crop,
+    season: trial.season,
+    design: trial.design,
+    status: trial.status,
+    description: trial.description,
+    sowingDate: trial.sowing_date,
+    transplantDate: trial.transplant_date,
+  };
 }
