@@ -14,6 +14,8 @@ export interface CapturedMail {
   text: string;
   html: string;
   links: string[];
+  /** Raw header lines by lower-case name (the last one wins), e.g. list-unsubscribe. */
+  headers: Record<string, string>;
 }
 
 export interface CaptureServer {
@@ -53,6 +55,9 @@ export async function startCaptureServer(port = 0, host = '127.0.0.1'): Promise<
             text,
             html,
             links: [...new Set(text.match(linkPattern) ?? [])],
+            headers: Object.fromEntries(
+              parsed.headerLines.map((h) => [h.key, h.line.slice(h.line.indexOf(':') + 1).trim()]),
+            ),
           };
           store.push(mail);
           for (const w of waiters) {

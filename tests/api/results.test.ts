@@ -274,6 +274,11 @@ describe('the results sheet', () => {
     expect(news.text).toContain('What changed: Corrected a plot label.');
     expect(news.links.some((l) => l.endsWith(`/r/${SLUG}/v/3`))).toBe(true);
     const unsubscribePage = news.links.find((l) => l.includes('/unsubscribe?token='))!;
+    // One-click unsubscribe in mail clients that offer it (RFC 8058): a POST to the header's address.
+    expect(news.headers['list-unsubscribe-post']).toBe('List-Unsubscribe=One-Click');
+    expect(news.headers['list-unsubscribe']).toMatch(
+      /^<http:\/\/127\.0\.0\.1:3999\/api\/results\/unsubscribe\?token=[A-Za-z0-9_-]{43}>$/,
+    );
     expect(news.html).not.toMatch(/<img/i);
 
     const u = new URL(unsubscribePage).searchParams.get('token')!;
