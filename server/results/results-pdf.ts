@@ -8,6 +8,18 @@ const fmt = (x: number | null | undefined, digits = 1) =>
     ? '—'
     : x.toLocaleString('en', { maximumFractionDigits: digits, minimumFractionDigits: digits });
 
+const beyondWinAnsi: Record<string, string> = {
+  α: 'alpha',
+  '−': '-',
+  '≥': '>=',
+  '≤': '<=',
+  '√': 'sqrt',
+};
+
+export function forStandardFonts(text: string): string {
+  return text.replace(/[α−≥≤√]/g, (c) => beyondWinAnsi[c] ?? c);
+}
+
 export interface PdfPhoto {
   entry: string;
   caption: string;
@@ -24,6 +36,14 @@ export function renderSheetPdf(
     margin: 50,
     info: { Title: `${s.trial.title} — results, version ${s.version}`, Author: 'Rowtally' },
   });
+  // The PDF's standard fonts cover Windows-1252 only: spell out the few symbols the sheet uses
+  // beyond it, so every line prints as written.
+  const write = doc.text.bind(doc);
+  doc.text = ((value: unknown, ...rest: unknown[]) =>
+    (write as (...a: unknown[]) => PDFKit.PDFDocument)(
+      typeof value === 'string' ? forStandardFonts(value) : value,
+      ...rest,
+    )) as typeof doc.text;
   const chunks: Buffer[] = [];
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve) =>

@@ -214,6 +214,8 @@ describe('the results sheet', () => {
     expect(positions.every((p: number) => p > 0)).toBe(true);
     expect([...positions].sort((a, b) => a - b)).toEqual(positions);
     expect(text).toContain('Means followed by the same letter are not significantly different.');
+    // Symbols outside the standard PDF fonts are spelled out rather than garbled.
+    expect(text).toContain('(alpha = 0.05)');
   });
 
   it('exports plot values that re-import to the same numbers', async () => {
