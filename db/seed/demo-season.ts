@@ -7,6 +7,8 @@ import { randomizeLayout } from '../../common/layout';
 import { createRandom, type Random } from '../../common/random';
 
 export const DEMO_SEED = 20260504;
+/** Seed of the heat-tolerance scores, which have no variety effect by design. */
+export const HEAT_SCORE_SEED = 7;
 
 export const demoAccounts = [
   {
@@ -524,6 +526,9 @@ const irrigationRateMmPerHour: Record<'drip' | 'overhead' | 'hand', number> = {
 
 export function generateSeason(trial: DemoTrial, seed = DEMO_SEED): GeneratedSeason {
   const random: Random = createRandom(seed + trial.slug.length * 7919);
+  // Scores with no variety effect come from a stream of their own: what they draw never shifts
+  // the rest of the season's records.
+  const nullTraitRandom: Random = createRandom(HEAT_SCORE_SEED + trial.slug.length);
   const layout = randomizeLayout({
     design: trial.design,
     entryIds: trial.entries.map((e) => e.code),
@@ -643,7 +648,7 @@ export function generateSeason(trial: DemoTrial, seed = DEMO_SEED): GeneratedSea
         traitKey: 'heat_tolerance',
         date: scoreOn,
         plantNumber: null,
-        value: clamp(Math.round(random.normal(3.4, 0.8)), 1, 5),
+        value: clamp(Math.round(nullTraitRandom.normal(3.4, 0.8)), 1, 5),
       });
     if (has('spines'))
       observations.push({

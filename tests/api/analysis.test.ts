@@ -119,18 +119,16 @@ describe('the demo season: what the generator built in is found', () => {
     ).toBe(true);
   });
 
-  it('heat tolerance: no variety effect in the generator; this seed’s draw is a chance p ≈ 0.010', async () => {
-    // The generator scores every plot from the same distribution (no variety term). At
-    // alpha = 0.05 one such trait in twenty looks "significant" by chance; this seed gives
-    // p = 0.0100, so at alpha = 0.01 nothing is separated and every entry shares letter a.
-    const b = (await analysis('heat_tolerance', '&alpha=0.01')).body as Body;
-    const p = line(b, 'variety').p!;
-    expect(p).toBeGreaterThan(0.01);
-    expect(p).toBeLessThan(0.011);
-    expect(b.means.every((x) => x.group === 'a')).toBe(true);
+  it('heat tolerance: no variety effect in the generator, and the analysis finds none', async () => {
+    // The generator scores every plot from one distribution with no variety term (its own
+    // random stream, db/seed/demo-season.ts), so the F test should not separate the entries.
+    const b = (await analysis('heat_tolerance')).body as Body;
+    expect(line(b, 'variety').p!).toBeGreaterThan(0.05);
+    expect(line(b, 'site:variety').p!).toBeGreaterThan(0.05);
+    expect(b.lsd.protected).toBe(false);
     expect(b.warnings.some((w: string) => w.includes('not protected'))).toBe(true);
-    // Site × variety is nowhere near significant either.
-    expect(line(b, 'site:variety').p!).toBeGreaterThan(0.5);
+    // Tukey's HSD at the same alpha separates nobody: every entry shares letter a.
+    expect(b.means.every((x) => x.group === 'a')).toBe(true);
   });
 });
 
