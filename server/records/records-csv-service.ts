@@ -17,16 +17,18 @@ import { AppError } from '../lib/app-error';
 import type { LoadedTrial } from '../trials/trial-access';
 import { authorizeAtSite, loadForRecords } from './records-access';
 import { createOnce } from './record-changes';
+import { fromSpreadsheetSafe, spreadsheetSafe } from '../../common/csv-safety';
 import * as repo from './records-repository';
 import { requireActorOf } from './records-actor';
 
 function parseCsv(text: string): string[][] {
   try {
-    return parse(text.replace(/^\uFEFF/, ''), {
+    const rows = parse(text.replace(/^\uFEFF/, ''), {
       relax_column_count: true,
       skip_empty_lines: false,
       trim: false,
     }) as string[][];
+    return rows.map((r) => r.map(fromSpreadsheetSafe));
   } catch (err) {
     const e = err as { message?: string; lines?: number };
     throw new AppError(
@@ -228,7 +230,7 @@ export async function commitImport(
 // ---------- Export ----------
 
 const csvOf = (columns: readonly string[], rows: unknown[][]) =>
-  stringify([columns as string[], ...rows], {
+  stringify([columns as string[], ...rows.map((r) => r.map(spreadsheetSafe))], {
     cast: { number: (n) => String(n), boolean: (b) => String(b) },
   });
 

@@ -1,4 +1,5 @@
 import { stringify } from 'csv-stringify/sync';
+import { spreadsheetSafe } from '../../common/csv-safety';
 import type { ResultSnapshot } from '../../common/contracts/results';
 
 /** Entry means per trait, one row each, units in the header. */
@@ -18,7 +19,7 @@ export function meansCsv(s: ResultSnapshot): string {
       license: s.license,
     })),
   );
-  return stringify(rows, {
+  return stringify(rows.map(safeRow), {
     header: true,
     columns: [
       'trait',
@@ -52,8 +53,11 @@ export function plotsCsv(s: ResultSnapshot, trait?: string): string {
       plot: v.plot ?? '',
       value: v.value,
     }));
-  return stringify(rows, {
+  return stringify(rows.map(safeRow), {
     header: true,
     columns: ['trait', 'unit', 'variety', 'site', 'block', 'plot', 'value'],
   });
 }
+
+const safeRow = <T extends object>(row: T): T =>
+  Object.fromEntries(Object.entries(row).map(([k, v]) => [k, spreadsheetSafe(v)])) as T;

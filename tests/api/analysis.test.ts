@@ -34,6 +34,7 @@ const analysis = (trait: string, extra = '') =>
   get(`/api/trials/${OKRA}/analysis?trait=${trait}${extra}`);
 
 type Body = {
+  lsd: { value: number | null; protected: boolean };
   anova: { source: string; df: number; ss: number; f: number | null; p: number | null }[];
   means: { variety: string; mean: number; se: number | null; group: string; rank: number }[];
   plotValues: {
