@@ -166,6 +166,15 @@ export async function trialAnalysis(
   query: { trait: string; basis: Basis; alpha: number; letters: 'hsd' | 'lsd' },
 ): Promise<TrialAnalysis> {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  return analyseTrialTrait(db, trial, query);
+}
+
+/** One trait of a trial the caller has already been allowed to read (the results sheet). */
+export async function analyseTrialTrait(
+  db: DB,
+  trial: Trial,
+  query: { trait: string; basis: Basis; alpha: number; letters: 'hsd' | 'lsd' },
+): Promise<TrialAnalysis> {
   const trait = await resolveTrait(db, trial.id, query.trait);
   return analyseTrait(db, trial, trait, query.basis, query);
 }

@@ -25,11 +25,10 @@ export interface ResultsDeps {
   log: { error: (obj: object, msg: string) => void };
 }
 
-function sheetFrom(
-  row: Awaited<ReturnType<typeof repo.findSheet>>,
-  fallback: SaveSheetBody,
-): SaveSheetBody {
-  if (!row) return fallback;
+/** The lead's saved sheet, or the default one for a trial that has none yet. */
+async function currentSheet(db: DB, trial: Trial): Promise<SaveSheetBody> {
+  const row = await repo.findSheet(db, trial.id);
+  if (!row) return defaultSheet(db, trial);
   return {
     summary: row.summary,
     methods: row.methods,
@@ -48,10 +47,7 @@ export async function getDraft(
   actor: Actor | null,
 ): Promise<SheetDraft> {
   const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
-  const sheet = sheetFrom(
-    await repo.findSheet(deps.db, trial.id),
-    await defaultSheet(deps.db, trial),
-  );
+  const sheet = await currentSheet(deps.db, trial);
   const latest = await repo.latestVersionNumber(deps.db, trial.id);
   return {
     ...sheet,
@@ -117,12 +113,9 @@ export async function preview(
   actor: Actor | null,
 ): Promise<ResultSnapshot> {
   const { trial } = await trialForAction(deps.db, slug, actor, 'trial.publish');
-  const sheet = sheetFrom(
-    await repo.findSheet(deps.db, trial.id),
-    await defaultSheet(deps.db, trial),
-  );
+  const sheet = await currentSheet(deps.db, trial);
   const next = (await repo.latestVersionNumber(deps.db, trial.id)) + 1;
-  return buildSnapshot(deps.db, trial, actor, sheet, {
+  return buildSnapshot(deps.db, trial, sheet, {
     version: next,
     changeNote: '',
     publishedAt: new Date().toISOString(),
@@ -153,8 +146,8 @@ export async function publish(
         fields: [{ path: 'body.changeNote', message: 'Say what changed since the last version.' }],
       });
     }
-    const sheet = sheetFrom(await repo.findSheet(trx, trial.id), await defaultSheet(trx, trial));
-    const snapshot = await buildSnapshot(trx, trial, actor, sheet, {
+    const sheet = await currentSheet(trx, trial);
+    const snapshot = await buildSnapshot(trx, trial, sheet, {
       version,
       changeNote,
       publishedAt: new Date().toISOString(),
@@ -344,16 +337,25 @@ export async function publishedPhoto(
   params: { slug: string; version: number; photoId: string; variant: 'thumb' | 'display' },
 ) {
   const snapshot = await publicVersion(db, params.slug, params.version);
-  if (!snapshot.entries.some((e) => e.photo?.id === params.photoId))
-    throw AppError.notFound('The photo');
+  return photoOfSnapshot(db, storage, snapshot, params.photoId, params.variant);
+}
+
+async function photoOfSnapshot(
+  db: DB,
+  storage: ObjectStorage,
+  snapshot: ResultSnapshot,
+  photoId: string,
+  variant: 'thumb' | 'display',
+) {
+  if (!snapshot.entries.some((e) => e.photo?.id === photoId)) throw AppError.notFound('The photo');
   const row = await db
     .selectFrom('photos')
     .select(['id', 'storage_key', 'original_ext', 'sha256'])
-    .where('id', '=', params.photoId)
+    .where('id', '=', photoId)
     .executeTakeFirst();
-  const file = row ? await storage.get(variantKey(row, params.variant)) : null;
+  const file = row ? await storage.get(variantKey(row, variant)) : null;
   if (!row || !file) throw AppError.notFound('The photo file');
-  return { file, etag: `${(row.sha256 ?? row.id).slice(0, 20)}-${params.variant}` };
+  return { file, etag: `${(row.sha256 ?? row.id).slice(0, 20)}-${variant}` };
 }
 
 /** The version's photos as JPEG, for the PDF (which cannot embed WebP). Missing files are skipped. */
@@ -362,12 +364,7 @@ export async function sheetPhotosForPdf(db: DB, storage: ObjectStorage, snapshot
   for (const e of snapshot.entries) {
     if (!e.photo) continue;
     try {
-      const photo = await publishedPhoto(db, storage, {
-        slug: snapshot.trial.slug,
-        version: snapshot.version,
-        photoId: e.photo.id,
-        variant: 'display',
-      });
+      const photo = await photoOfSnapshot(db, storage, snapshot, e.photo.id, 'display');
       const chunks: Buffer[] = [];
       for await (const c of photo.file.body) chunks.push(c as Buffer);
       const jpeg = await sharp(Buffer.concat(chunks))

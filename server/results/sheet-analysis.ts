@@ -4,22 +4,20 @@
  * over exactly the traits and bases the sheet shows.
  */
 import type { ResultSnapshot, SnapshotTrait } from '../../common/contracts/results';
-import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
-import { trialAnalysis } from '../analysis/analysis-service';
+import { analyseTrialTrait } from '../analysis/analysis-service';
 import { rankAcrossTraits } from '../analysis/engine/ranking';
 import { AppError } from '../lib/app-error';
-import { season } from '../weather/weather-service';
+import { seasonOfTrial } from '../weather/weather-service';
 
 export async function analyzeForSheet(
   db: DB,
   trial: Trial,
-  actor: Actor | null,
   choice: { trait: string; basis: SnapshotTrait['basis']; alpha: number; letters: 'hsd' | 'lsd' },
 ) {
   try {
-    const result = await trialAnalysis(db, trial.slug, actor, choice);
+    const result = await analyseTrialTrait(db, trial, choice);
     return {
       ...result,
       plotValues: result.plotValues.map((v) => ({
@@ -73,12 +71,8 @@ export interface SiteConditions {
 }
 
 /** Growing conditions per site id, from the same season summary the trial's season API gives. */
-export async function seasonForSheet(
-  db: DB,
-  trial: Trial,
-  actor: Actor | null,
-): Promise<Map<string, SiteConditions>> {
-  const s = await season(db, trial.slug, actor, {});
+export async function seasonForSheet(db: DB, trial: Trial): Promise<Map<string, SiteConditions>> {
+  const s = await seasonOfTrial(db, trial, {});
   return new Map(
     s.sites.map((site) => [
       site.siteId,

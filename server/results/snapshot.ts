@@ -7,7 +7,6 @@ import type { ResultSnapshot, SaveSheetBody, SnapshotTrait } from '../../common/
 import { cautions, isSpinyCrop } from '../../common/cautions';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
-import type { Actor } from '../../common/policy';
 import { analyzeForSheet, rankForSheet, seasonForSheet } from './sheet-analysis';
 
 const spinyTraitKeys = ['spines'];
@@ -101,7 +100,6 @@ export async function generatedMethods(
 export async function buildSnapshot(
   db: DB,
   trial: Trial,
-  actor: Actor | null,
   sheet: SaveSheetBody,
   meta: { version: number; changeNote: string; publishedAt: string },
 ): Promise<ResultSnapshot> {
@@ -128,7 +126,7 @@ export async function buildSnapshot(
   for (const choice of sheet.traits) {
     const trait = traitByKey.get(choice.key);
     if (!trait) continue;
-    const result = await analyzeForSheet(db, trial, actor, {
+    const result = await analyzeForSheet(db, trial, {
       trait: trait.key,
       basis: choice.basis,
       alpha: sheet.alpha,
@@ -165,7 +163,7 @@ export async function buildSnapshot(
   }
 
   const ranking = rankForSheet(traits);
-  const conditions = await seasonForSheet(db, trial, actor);
+  const conditions = await seasonForSheet(db, trial);
   const photoById = new Map(photos.map((p) => [p.id, p]));
   const crop = trial.crop;
   const hasSpines = traitRows.some((t) => spinyTraitKeys.includes(t.key)) || isSpinyCrop(crop);

@@ -6,6 +6,7 @@ import type {
 } from '../../common/contracts/weather';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
 import { DEFAULT_HOT_DAY_C, DEGREE_DAY_METHOD } from '../analysis/engine/degree-days';
 import { AppError } from '../lib/app-error';
 import { trialForAction } from '../trials/trials-service';
@@ -131,9 +132,16 @@ export async function season(
   db: DB,
   slug: string,
   actor: Actor | null,
-  query: { baseC?: number; upperC?: number; hotDayC?: number },
+  query: SeasonOptions,
 ): Promise<Season> {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  return seasonOfTrial(db, trial, query);
+}
+
+type SeasonOptions = { baseC?: number; upperC?: number; hotDayC?: number };
+
+/** The season summary of a trial the caller has already been allowed to read. */
+export async function seasonOfTrial(db: DB, trial: Trial, query: SeasonOptions): Promise<Season> {
   const crop = thresholdsForCrop(trial.crop);
   const overridden = query.baseC !== undefined || query.upperC !== undefined;
   const thresholds = {
