@@ -4,8 +4,15 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from './api-client';
 
-/** Keys of one trial's detail; every feature's pages read the trial through this module. */
-export const trialDetailKey = (slug: string) => ['trials', 'detail', slug] as const;
+/**
+ * The trials' query keys, shared: every feature reads a trial through this module and
+ * refreshes the list or a trial's detail after changing what they show.
+ */
+export const trialKeys = {
+  all: ['trials'] as const,
+  list: () => [...trialKeys.all, 'list'] as const,
+  detail: (slug: string) => [...trialKeys.all, 'detail', slug] as const,
+};
 
 const responseSchema = trialDetailSchema.extend({
   permissions: z.record(z.enum(trialActions), z.boolean()),
@@ -16,6 +23,6 @@ export const getTrial = (slug: string) =>
   api(`/api/trials/${encodeURIComponent(slug)}`, responseSchema);
 
 export const trialQueryOptions = (slug: string) =>
-  queryOptions({ queryKey: trialDetailKey(slug), queryFn: () => getTrial(slug) });
+  queryOptions({ queryKey: trialKeys.detail(slug), queryFn: () => getTrial(slug) });
 
 export const useTrial = (slug: string) => useQuery(trialQueryOptions(slug));

@@ -1,7 +1,7 @@
 import { type CreateTrialBody, createTrialResponse } from '@common/contracts/design';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { trialQueryKeys } from './design-keys';
+import { trialKeys } from '@/lib/trial';
 
 export const createTrial = (body: CreateTrialBody) =>
   api('/api/trials', createTrialResponse, { method: 'POST', body });
@@ -10,6 +10,6 @@ export function useCreateTrial() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: createTrial,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: trialQueryKeys.list }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: trialKeys.list() }),
   });
 }

@@ -1,7 +1,8 @@
 import { designSchema } from '@common/contracts/design';
 import { queryOptions, type QueryClient, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { designKeys, trialQueryKeys } from './design-keys';
+import { trialKeys } from '@/lib/trial';
+import { designKeys } from './design-keys';
 
 export const getDesign = (slug: string) =>
   api(`/api/trials/${encodeURIComponent(slug)}/design`, designSchema);
@@ -15,7 +16,7 @@ export const useDesign = (slug: string) => useQuery(designQueryOptions(slug));
 export async function invalidateDesign(queryClient: QueryClient, slug: string) {
   await Promise.all([
     queryClient.invalidateQueries({ queryKey: designKeys.detail(slug) }),
-    queryClient.invalidateQueries({ queryKey: trialQueryKeys.detail(slug) }),
-    queryClient.invalidateQueries({ queryKey: trialQueryKeys.list }),
+    queryClient.invalidateQueries({ queryKey: trialKeys.detail(slug) }),
+    queryClient.invalidateQueries({ queryKey: trialKeys.list() }),
   ]);
 }

@@ -6,6 +6,7 @@ import {
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '@/lib/api-client';
+import { trialKeys } from '@/lib/trial';
 import { resultsKeys } from './results-keys';
 
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}/results-sheet`;
@@ -47,7 +48,7 @@ export function usePublishSheet(slug: string) {
       await Promise.all([
         qc.invalidateQueries({ queryKey: resultsKeys.draft(slug) }),
         qc.invalidateQueries({ queryKey: resultsKeys.public(slug) }),
-        qc.invalidateQueries({ queryKey: ['trials'] }),
+        qc.invalidateQueries({ queryKey: trialKeys.all }),
       ]);
     },
   });
@@ -61,7 +62,7 @@ export function useUnpublishSheet(slug: string) {
       await Promise.all([
         qc.invalidateQueries({ queryKey: resultsKeys.draft(slug) }),
         qc.invalidateQueries({ queryKey: resultsKeys.public(slug) }),
-        qc.invalidateQueries({ queryKey: ['trials'] }),
+        qc.invalidateQueries({ queryKey: trialKeys.all }),
       ]);
     },
   });

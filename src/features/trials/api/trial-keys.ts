@@ -1,7 +1,0 @@
-import { trialDetailKey } from '@/lib/trial';
-
-export const trialKeys = {
-  all: ['trials'] as const,
-  list: () => [...trialKeys.all, 'list'] as const,
-  detail: trialDetailKey,
-};
