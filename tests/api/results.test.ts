@@ -14,6 +14,12 @@ let t: TestApp;
 let lead: string;
 let viewer: string;
 
+/** Supertest reads a binary body (the PDF) whole. */
+const asBytes = (r: request.Response, cb: (err: Error | null, body: Buffer) => void) => {
+  const chunks: Buffer[] = [];
+  r.on('data', (c: Buffer) => chunks.push(c));
+  r.on('end', () => cb(null, Buffer.concat(chunks)));
+};
 const account = (key: string) => demoAccounts.find((a) => a.key === key)!;
 const as = (cookie: string | null) => ({
   get: (url: string) =>
@@ -196,11 +202,7 @@ describe('the results sheet', () => {
     const res = await as(null)
       .get(`/api/results/${SLUG}/v/2/sheet.pdf?size=letter`)
       .buffer(true)
-      .parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+      .parse(asBytes);
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-pdf-')), 'sheet.pdf');
@@ -364,11 +366,7 @@ describe('the results sheet', () => {
     const pdf = await as(null)
       .get(`/api/results/${SLUG}/v/${v}/sheet.pdf`)
       .buffer(true)
-      .parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+      .parse(asBytes);
     const pdfFile = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-pdf-')), 'photo.pdf');
     fs.writeFileSync(pdfFile, pdf.body as Buffer);
     const images = execFileSync('pdfimages', ['-list', pdfFile], { encoding: 'utf8' })

@@ -3,14 +3,13 @@ import { readFileSync } from 'node:fs';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import { analyzeCsv } from '../../server/analysis/engine/analyze';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 
@@ -19,14 +18,9 @@ let browser: Browser;
 const lead = demoAccounts.find((a) => a.key === 'lead')!;
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
 });
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('analysis screens', () => {
   it('the lead sees the demo trial’s ANOVA, letters and ranking at 360 px and on desktop', async () => {

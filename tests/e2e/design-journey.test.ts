@@ -5,12 +5,12 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createUser, type TestUser } from '../support/test-app';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
   screenshotDir,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 
@@ -19,14 +19,10 @@ let browser: Browser;
 let lead: TestUser;
 
 beforeAll(async () => {
-  live = await startLiveApp();
+  ({ live, browser } = await openBrowserSuite({ demo: false }));
   lead = await createUser(live.db, { name: 'Perrin Ashgrove', email: 'perrin@ashgrove.example' });
-  browser = await launchBrowser();
 });
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 const entries = [
   ['AT', 'Ashgrove Tall', '30'],

@@ -6,11 +6,11 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 import { createUser, type TestUser } from '../support/test-app';
@@ -31,8 +31,7 @@ const entryNames = [
 ];
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: false }));
   const db = live.db;
   grower = await createUser(db, { name: 'Wren Alderby' });
   lead = await createUser(db, { name: 'Hollis Marchetti' });
@@ -90,10 +89,7 @@ beforeAll(async () => {
     .values({ trial_id: trial.id, user_id: grower.id, site_id: site.id })
     .execute();
 });
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('the field log on a phone', () => {
   it('keeps a whole offline harvest round and stores one record per plot, though each is sent twice', async () => {

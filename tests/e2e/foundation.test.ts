@@ -1,13 +1,12 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 
@@ -16,14 +15,9 @@ let browser: Browser;
 const lead = demoAccounts.find((a) => a.key === 'lead')!;
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
 });
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('the built app in a real browser', () => {
   it('shows the demo trial to its lead, on desktop and at 360 px', async () => {

@@ -7,13 +7,12 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 
@@ -26,14 +25,9 @@ const slug = 'larkhaven-okra-2026';
 const signedOutProbe = (e: string) => e.includes('status of 401 (Unauthorized)');
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
 });
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('inviting a grower', () => {
   it('goes from the lead’s invitation to the grower working in the trial', async () => {

@@ -6,13 +6,12 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
 } from '../support/browser';
 
 const SLUG = 'larkhaven-okra-2026';
@@ -21,14 +20,9 @@ let browser: Browser;
 const grower = demoAccounts.find((a) => a.key === 'grower2')!;
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
 }, 120_000);
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 const harvestCount = async () =>
   Number(

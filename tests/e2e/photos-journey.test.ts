@@ -6,13 +6,12 @@ import sharp from 'sharp';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 import { phonePhoto } from '../api/photos-fixtures';
@@ -49,14 +48,9 @@ async function noisyPhoto(seedColour: string): Promise<Buffer> {
 }
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
 });
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('photos in a real browser', () => {
   it('uploads three photos at 360 px over a slow link and shows them in the galleries', async () => {

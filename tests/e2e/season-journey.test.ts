@@ -8,13 +8,12 @@ import request from 'supertest';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
   screenshot,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 import { mintSessionCookie } from '../support/test-app';
@@ -25,9 +24,7 @@ let browser: Browser;
 const lead = demoAccounts.find((a) => a.key === 'lead')!;
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
-  browser = await launchBrowser();
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
   // A cover photo for one entry, uploaded and chosen through the API.
   const cookie = await mintSessionCookie(live, lead);
   const entry = await live.db
@@ -56,10 +53,7 @@ beforeAll(async () => {
     .set('Cookie', cookie);
   expect(cover.status, cover.text).toBeLessThan(300);
 }, 120_000);
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('season journey', () => {
   it('lead compares, edits and publishes; a reader opens it on a phone and prints', async () => {

@@ -2,12 +2,11 @@
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { seedDemo } from '../../db/seed/seed';
 import {
+  closeBrowserSuite,
   contextAs,
-  launchBrowser,
+  openBrowserSuite,
   type LiveApp,
-  startLiveApp,
   watchErrors,
 } from '../support/browser';
 
@@ -16,19 +15,14 @@ let browser: Browser;
 const lead = demoAccounts.find((a) => a.key === 'lead')!;
 
 beforeAll(async () => {
-  live = await startLiveApp();
-  await seedDemo(live.db);
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
   await live.db
     .updateTable('users')
     .set({ unit_system: 'us' })
     .where('email', '=', lead.email)
     .execute();
-  browser = await launchBrowser();
 }, 120_000);
-afterAll(async () => {
-  await browser?.close();
-  await live?.stop();
-});
+afterAll(() => closeBrowserSuite(live, browser));
 
 describe('typing in one day of weather', () => {
   it('converts °F and inches to the stored °C and mm', async () => {

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { type Browser, type BrowserContext, chromium, type Page } from 'playwright-core';
+import { seedDemo } from '../../db/seed/seed';
 import { defaultClientDir } from '../../server/app';
 import { freePort } from '../../db/pg-server';
 import { createTestApp, mintSessionCookie, type TestApp, type TestUser } from './test-app';
@@ -93,4 +94,21 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   const file = path.join(screenshotDir, `${name}.png`);
   await page.screenshot({ path: file, fullPage: true });
   return file;
+}
+
+/** The live app (with the demo season loaded if asked) and a browser, for one test file. */
+export async function openBrowserSuite(opts: {
+  demo: boolean;
+}): Promise<{ live: LiveApp; browser: Browser }> {
+  const live = await startLiveApp();
+  if (opts.demo) await seedDemo(live.db);
+  return { live, browser: await launchBrowser() };
+}
+
+export async function closeBrowserSuite(
+  live: LiveApp | undefined,
+  browser: Browser | undefined,
+): Promise<void> {
+  await browser?.close();
+  await live?.stop();
 }

@@ -2,17 +2,8 @@
  * Design routes. Changes that would disturb the shared world (a new layout deletes its plots)
  * act on a fresh trial with the world's members in the same roles, made for each caller.
  */
-import crypto from 'node:crypto';
 import { leadOnly, memberRead, type MatrixRow } from './matrix-types';
-import type { MatrixWorld } from './matrix-world';
-
-const roles = {
-  viewer: 'viewer',
-  contributor: 'contributor',
-  growerInSite: 'grower',
-  growerOtherSite: 'grower',
-  lead: 'lead',
-} as const;
+import { type MatrixWorld, trialWithWorldMembers } from './matrix-world';
 
 interface Fresh {
   slug: string;
@@ -25,12 +16,8 @@ interface Fresh {
 /** A trial with two entries, one site and a trait, and the world's members; with plots if asked. */
 async function freshTrial(w: MatrixWorld, withPlots = false): Promise<Fresh> {
   const db = w.t.db;
-  const slug = `design-matrix-${crypto.randomBytes(4).toString('hex')}`;
-  const trial = await db
-    .insertInto('trials')
-    .values({ slug, title: 'Design matrix', crop: 'Okra', season: '2026', design: 'rcbd' })
-    .returning('id')
-    .executeTakeFirstOrThrow();
+  const trial = await trialWithWorldMembers(w, 'design-matrix', { title: 'Design matrix' });
+  const slug = trial.slug;
   const entries = await db
     .insertInto('entries')
     .values([
@@ -86,12 +73,6 @@ async function freshTrial(w: MatrixWorld, withPlots = false): Promise<Fresh> {
         .returning('id')
         .executeTakeFirstOrThrow()
     ).id;
-  }
-  for (const [caller, role] of Object.entries(roles) as [keyof typeof roles, string][]) {
-    await db
-      .insertInto('trial_members')
-      .values({ trial_id: trial.id, user_id: w.users[caller].id, role: role as 'lead' })
-      .execute();
   }
   return { slug, entryId: entries[0]!.id, siteId: site.id, traitId: trait.id, plotId };
 }

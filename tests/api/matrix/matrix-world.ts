@@ -3,6 +3,7 @@
  * two entries, a plot at each site, a trait, and one member per role. The in-site grower is
  * limited to site A, the other-site grower to site B.
  */
+import crypto from 'node:crypto';
 import type { TestApp, TestUser } from '../../support/test-app';
 import { createUser, mintSessionCookie } from '../../support/test-app';
 import type { Caller } from './matrix-types';
@@ -135,4 +136,42 @@ export async function buildMatrixWorld(t: TestApp): Promise<MatrixWorld> {
   for (const caller of Object.keys(users) as (keyof typeof users)[])
     cookies[caller] = await mintSessionCookie(t, users[caller]);
   return { t, trial, siteA: siteA!, siteB: siteB!, entries, plotA, plotB, traitId, users, cookies };
+}
+
+/**
+ * A new trial with the world's members in the same roles, for rows whose request would change
+ * the shared trial (publishing, deleting, a new layout). Its slug starts with `prefix`.
+ */
+export async function trialWithWorldMembers(
+  w: MatrixWorld,
+  prefix: string,
+  values: {
+    title?: string;
+    design?: 'crd' | 'rcbd' | 'multisite';
+    status?: 'active' | 'published';
+  } = {},
+): Promise<{ id: string; slug: string }> {
+  const slug = `${prefix}-${crypto.randomBytes(4).toString('hex')}`;
+  const trial = await w.t.db
+    .insertInto('trials')
+    .values({
+      slug,
+      title: values.title ?? 'Matrix copy',
+      crop: 'Okra',
+      season: '2026',
+      design: values.design ?? 'rcbd',
+      status: values.status ?? 'active',
+    })
+    .returning(['id', 'slug'])
+    .executeTakeFirstOrThrow();
+  const members = await w.t.db
+    .selectFrom('trial_members')
+    .select(['user_id', 'role'])
+    .where('trial_id', '=', w.trial.id)
+    .execute();
+  await w.t.db
+    .insertInto('trial_members')
+    .values(members.map((m) => ({ trial_id: trial.id, user_id: m.user_id, role: m.role })))
+    .execute();
+  return trial;
 }

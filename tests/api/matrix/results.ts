@@ -5,7 +5,7 @@
  */
 import crypto from 'node:crypto';
 import { type Caller, leadOnly, type MatrixRow, memberRead } from './matrix-types';
-import type { MatrixWorld } from './matrix-world';
+import { type MatrixWorld, trialWithWorldMembers } from './matrix-world';
 import { publish } from '../../../server/results/results-service';
 
 const everyone = (status: number): Record<Caller, number> => ({
@@ -20,28 +20,7 @@ const everyone = (status: number): Record<Caller, number> => ({
 
 /** A copy of the matrix trial's membership on a new trial, optionally already published. */
 async function trialCopy(w: MatrixWorld, published: boolean): Promise<string> {
-  const slug = `copy-${crypto.randomBytes(4).toString('hex')}`;
-  const trial = await w.t.db
-    .insertInto('trials')
-    .values({
-      slug,
-      title: 'Matrix copy',
-      crop: 'Okra',
-      season: '2026',
-      design: 'rcbd',
-      status: published ? 'published' : 'active',
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  const members = await w.t.db
-    .selectFrom('trial_members')
-    .select(['user_id', 'role'])
-    .where('trial_id', '=', w.trial.id)
-    .execute();
-  await w.t.db
-    .insertInto('trial_members')
-    .values(members.map((m) => ({ trial_id: trial.id, user_id: m.user_id, role: m.role })))
-    .execute();
+  const { slug } = await trialWithWorldMembers(w, 'copy');
   if (published) {
     const deps = {
       db: w.t.db,
