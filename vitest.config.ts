@@ -6,11 +6,12 @@ const alias = {
   '@common': fileURLToPath(new URL('./common', import.meta.url)),
 };
 
+/** One throwaway PostgreSQL cluster per run, started only when a project that uses it runs. */
+const withDatabase = ['tests/setup/global-db.ts'];
+
 export default defineConfig({
   resolve: { alias },
   test: {
-    // One throwaway PostgreSQL cluster per run, started and stopped here.
-    globalSetup: ['tests/setup/global-db.ts'],
     setupFiles: ['tests/setup/fail-on-console-error.ts'],
     reporters: ['default'],
     projects: [
@@ -23,6 +24,7 @@ export default defineConfig({
         test: {
           name: 'api',
           include: ['tests/api/**/*.test.ts'],
+          globalSetup: withDatabase,
           environment: 'node',
           testTimeout: 20_000,
           hookTimeout: 30_000,
@@ -35,6 +37,8 @@ export default defineConfig({
           include: ['tests/client/**/*.test.tsx'],
           environment: 'jsdom',
           setupFiles: ['tests/setup/client.ts'],
+          // jsdom pages take seconds on a busy machine; waits are on events (tests/setup/client.ts).
+          testTimeout: 30_000,
         },
       },
       {
@@ -42,6 +46,7 @@ export default defineConfig({
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
+          globalSetup: withDatabase,
           environment: 'node',
           testTimeout: 180_000,
           hookTimeout: 120_000,

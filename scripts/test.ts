@@ -7,6 +7,7 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { ensureSystemPackages } from './system-packages';
+import { summarizeTestRun, type VitestJsonReport } from './test-summary';
 
 const artifacts = path.resolve('.test-artifacts');
 fs.mkdirSync(artifacts, { recursive: true });
@@ -29,6 +30,7 @@ if (run(['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn']).status
   process.exit(1);
 
 const results = path.join(artifacts, 'vitest-results.json');
+fs.rmSync(results, { force: true });
 const vitest = run([
   'node_modules/vitest/vitest.mjs',
   'run',
@@ -38,15 +40,12 @@ const vitest = run([
   ...process.argv.slice(2),
 ]);
 
-// One plain closing line that any CI can read.
-if (fs.existsSync(results)) {
-  const r = JSON.parse(fs.readFileSync(results, 'utf8')) as {
-    numPassedTests: number;
-    numFailedTests: number;
-    numPendingTests: number;
-  };
-  console.log(
-    `\nTests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests} skipped`,
-  );
-}
-process.exit(vitest.status ?? 1);
+// One plain closing line that any CI can read; the run fails when the runner says it failed,
+// even if no single test did (a file that does not load has no failing test).
+const report = fs.existsSync(results)
+  ? (JSON.parse(fs.readFileSync(results, 'utf8')) as VitestJsonReport)
+  : null;
+const summary = summarizeTestRun(report);
+for (const file of summary.brokenFiles) console.log(`\n${file.name}: ${file.message}`);
+console.log(`\n${summary.line}`);
+process.exit(summary.ok && vitest.status === 0 ? 0 : (vitest.status || 1));

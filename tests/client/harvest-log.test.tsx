@@ -3,7 +3,7 @@
  * shown with the fields that changed and the stored values, and nothing is overwritten.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { act, fireEvent, render, screen, waitFor } from '@testing-library/react';
 import { Profiler } from 'react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
@@ -102,10 +102,9 @@ describe('the harvest log', () => {
       }),
     );
     let commits = 0;
+    const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false } } });
     render(
-      <QueryClientProvider
-        client={new QueryClient({ defaultOptions: { queries: { retry: false } } })}
-      >
+      <QueryClientProvider client={queryClient}>
         <MemoryRouter initialEntries={['/t/brookfold/records/harvests']}>
           <Profiler id="log" onRender={() => (commits += 1)}>
             <Routes>
@@ -118,9 +117,15 @@ describe('the harvest log', () => {
     fireEvent.click(
       await screen.findByRole('button', { name: 'Edit harvest of plot 101 on 2026-07-01' }),
     );
-    await new Promise((r) => setTimeout(r, 200));
+    // Once the form is open and nothing is loading, the page is at rest: letting React run
+    // every pending effect and update must not set off more renders (no loop between the
+    // form and the data it was filled from).
+    await screen.findByLabelText('Fruit count');
+    await waitFor(() => expect(queryClient.isFetching()).toBe(0));
+    await act(async () => {});
     const afterEdit = commits;
-    await new Promise((r) => setTimeout(r, 200));
+    await act(async () => {});
+    await act(async () => {});
     expect(commits - afterEdit).toBeLessThan(3);
     fireEvent.change(screen.getByLabelText('Fruit count'), { target: { value: '11' } });
     fireEvent.click(screen.getByRole('button', { name: 'Save' }));

@@ -1,5 +1,5 @@
 // Certified values: NIST StRD one-way ANOVA sets (https://www.itl.nist.gov/div898/strd/anova/),
-// files in ../shared/reference/nist-strd-anova. Accuracy measured by the log relative error.
+// copies in fixtures/analysis/nist-strd-anova. Accuracy measured by the log relative error.
 import { describe, expect, it } from 'vitest';
 import {
   analyzeCsv,

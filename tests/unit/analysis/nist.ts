@@ -1,14 +1,14 @@
 /**
  * Helpers for the NIST StRD one-way ANOVA reference sets
- * (https://www.itl.nist.gov/div898/strd/anova/anova.html), read at test time from
- * ../shared/reference/nist-strd-anova beside the repository.
+ * (https://www.itl.nist.gov/div898/strd/anova/anova.html): unchanged copies of NIST's files in
+ * fixtures/analysis/nist-strd-anova (its README.md names the source).
  */
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 export const repoRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../..');
-export const nistDir = path.resolve(repoRoot, '../shared/reference/nist-strd-anova');
+export const nistDir = path.resolve(repoRoot, 'fixtures/analysis/nist-strd-anova');
 
 export interface NistSet {
   name: string;
