@@ -48,4 +48,4 @@ const report = fs.existsSync(results)
 const summary = summarizeTestRun(report);
 for (const file of summary.brokenFiles) console.log(`\n${file.name}: ${file.message}`);
 console.log(`\n${summary.line}`);
-process.exit(summary.ok && vitest.status === 0 ? 0 : (vitest.status || 1));
+process.exit(summary.ok && vitest.status === 0 ? 0 : vitest.status || 1);

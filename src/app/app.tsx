@@ -2,7 +2,7 @@ import { createSyncStoragePersister } from '@tanstack/query-sync-storage-persist
 import { PersistQueryClientProvider } from '@tanstack/react-query-persist-client';
 import { useState } from 'react';
 import { RouterProvider } from 'react-router-dom';
-import { CACHE_MAX_AGE_MS, createQueryClient } from '@/lib/query-client';
+import { CACHE_MAX_AGE_MS, CACHE_STORAGE_KEY, createQueryClient } from '@/lib/query-client';
 import { createAppRouter } from './router';
 
 /**
@@ -11,7 +11,7 @@ import { createAppRouter } from './router';
  */
 const persister = createSyncStoragePersister({
   storage: window.localStorage,
-  key: 'rowtally-cache',
+  key: CACHE_STORAGE_KEY,
 });
 
 export function App() {

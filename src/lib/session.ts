@@ -2,6 +2,7 @@
 import { sessionSchema, type UnitSystem } from '@common/contracts/me';
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from './api-client';
+import { forgetStoredCache } from './query-client';
 
 export const sessionKeys = { me: ['session', 'me'] as const };
 
@@ -29,6 +30,7 @@ export function useSessionChanged() {
   const queryClient = useQueryClient();
   return async () => {
     queryClient.removeQueries();
+    forgetStoredCache();
     await queryClient.fetchQuery(meQueryOptions());
   };
 }

@@ -164,4 +164,27 @@ describe('protected pages', () => {
     expect(errors.filter((e) => !signedOutProbe(e))).toEqual([]);
     await context.close();
   });
+
+  it('shows the signed-in page on a reload right after signing in', async () => {
+    // The device's stored copy of the cache is written at most once a second: a reload in that
+    // second used to restore the signed-out answer as fresh and offer no way to sign out.
+    const context = await contextAs(browser, live, null, { width: 360, height: 780 });
+    const page = await context.newPage();
+    const errors = watchErrors(page);
+    await page.goto('/account');
+    await page.waitForURL((u) => u.pathname === '/sign-in');
+    await page.waitForFunction(() =>
+      (localStorage.getItem('rowtally-cache') ?? '').includes('"queryKey":["session","me"]'),
+    );
+    await page.getByLabel('E-mail address').fill(viewer.email);
+    await page.getByLabel('Password').fill(viewer.password);
+    await page.keyboard.press('Enter');
+    await page.waitForURL((u) => u.pathname === '/account');
+    await page.goto('/sign-out');
+    await page.getByText(`Signed in as ${viewer.email}.`).waitFor();
+    await page.getByRole('button', { name: 'Sign out on this device' }).click();
+    await page.getByRole('heading', { name: 'You are signed out' }).waitFor();
+    expect(errors.filter((e) => !signedOutProbe(e))).toEqual([]);
+    await context.close();
+  });
 });

@@ -40,7 +40,12 @@ function startOnce(): SharedCluster {
   if (process.getuid?.() === 0) execFileSync('chown', ['postgres:postgres', base]);
   const dataDir = path.join(base, 'pg');
   const url = (async () => {
-    const server = await startPg({ dataDir, port: await freePort(), throwaway: true, log: () => {} });
+    const server = await startPg({
+      dataDir,
+      port: await freePort(),
+      throwaway: true,
+      log: () => {},
+    });
     await createDatabaseIfMissing(server.url(), TEMPLATE_DB);
     const db = createDb(createPool(server.url(TEMPLATE_DB), 2));
     await migrateToLatest(db);
