@@ -1,5 +1,5 @@
 import type { Kysely } from 'kysely';
-import { type MigrationResultSet, Migrator } from 'kysely/migration';
+import { type MigrationResultSet, Migrator } from 'kysely';
 import { migrations } from './migrations/index';
 
 export function createMigrator(db: Kysely<any>): Migrator {

@@ -2,7 +2,7 @@
  * Every migration, in order. Listed by hand so the migrator works the same under tsx, Vitest
  * and a bundle; a test checks that every file in this folder appears here.
  */
-import type { Migration } from 'kysely/migration';
+import type { Migration } from 'kysely';
 import * as accounts from './2026-12-01T0001-accounts';
 import * as trials from './2026-12-01T0002-trials';
 import * as invitations from './2026-12-01T0100-invitations';
