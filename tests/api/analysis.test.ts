@@ -417,6 +417,29 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
     expect(bad.body.error.message).toBe('row 3, column "value": "x" is not a number');
   });
 
+  it('refuses 1e400 and 1e-400 naming row and column (beyond IEEE 754 double range); hints at a semicolon separator', async () => {
+    const post = (csv: string) =>
+      request(t.app)
+        .post('/api/analyze')
+        .set('Cookie', lead)
+        .set('Content-Type', 'text/csv')
+        .send(csv);
+    const big = await post('variety,value\nA,1\nA,1e400\nB,2\nB,3\n');
+    expect(big.status).toBe(422);
+    expect(big.body.error.message).toMatch(/^row 3, column "value": 1e400 is too large to analyse/);
+    const tiny = await post('variety,value\nA,1\nA,2\nB,1e-400\nB,3\n');
+    expect(tiny.status).toBe(422);
+    expect(tiny.body.error.message).toMatch(
+      /^row 4, column "value": 1e-400 is too small to analyse/,
+    );
+    const semi = await post('variety;value\nA;1\nA;2\nB;3\nB;4\n');
+    expect(semi.status).toBe(422);
+    expect(semi.body.error.message).toMatch(/separated by semicolons, not commas/);
+    const gap = await post('variety,value\nA,1\nA,2\nA,\nB,3\nB,4\n');
+    expect(gap.status).toBe(200);
+    expect(gap.body.warnings).toContain('row 4 has no value: left out');
+  });
+
   it('refuses more than 2 MB (413), other media types (415) and signed-out callers (401)', async () => {
     const big = 'variety,value\n' + 'Long Name Variety,12.345678\n'.repeat(80_000);
     expect(big.length).toBeGreaterThan(2 * 1024 * 1024);

@@ -3,6 +3,7 @@
  * object out. Pure: no file or network access, so the command line and the web API share it.
  */
 import { parse } from 'csv-parse/sync';
+import Decimal from 'decimal.js';
 import {
   analyseVariance,
   isOrthogonal,
@@ -115,6 +116,34 @@ interface Plot {
   rowIndices: number[];
 }
 
+/**
+ * Magnitudes the analysis accepts: squares and sums of squares of values up to 1e150 stay
+ * finite in double precision, and nonzero values from 1e-150 up keep their squares from
+ * underflowing to zero (1e400 would be read as infinity, 1e-400 as 0).
+ */
+export const VALUE_LIMITS = { largest: 1e150, smallestNonZero: 1e-150 } as const;
+
+/** Why a decimal text is outside VALUE_LIMITS, or null when it is inside. */
+function outOfRangeReason(text: string): string | null {
+  // Decimal text parsed exactly first: Number() would turn 1e400 into Infinity, 1e-400 into 0.
+  const exact = new Decimal(text).abs();
+  if (exact.isZero()) return null;
+  if (exact.greaterThan(VALUE_LIMITS.largest))
+    return 'is too large to analyse (largest accepted magnitude 1e150)';
+  if (exact.lessThan(VALUE_LIMITS.smallestNonZero))
+    return 'is too small to analyse (smallest accepted nonzero magnitude 1e-150)';
+  return null;
+}
+
+/** "row 9 has no value", or a list of rows, with at most ten row numbers spelled out. */
+function leftOutWarning(rowNumbers: readonly number[]): string {
+  const shown = rowNumbers.slice(0, 10).join(', ');
+  const more = rowNumbers.length > 10 ? ` and ${rowNumbers.length - 10} more` : '';
+  return rowNumbers.length === 1
+    ? `row ${shown} has no value: left out`
+    : `rows ${shown}${more} have no value: ${rowNumbers.length} rows left out`;
+}
+
 function label(v: string | null | undefined): string | null {
   if (v === null || v === undefined) return null;
   const t = String(v).trim();
@@ -146,7 +175,7 @@ export function analyzePlotRows(
     block: string | null;
     plot: string | null;
   }[] = [];
-  let missingValues = 0;
+  const missingRows: number[] = [];
   rows.forEach((r, i) => {
     const rowNo = r.row ?? i + 1;
     const variety = label(r.variety);
@@ -162,7 +191,7 @@ export function analyzePlotRows(
       throw new AnalysisInputError(`row ${rowNo}, column "plot": empty`);
     const raw = r.value;
     if (raw === null || raw === undefined || (typeof raw === 'string' && MISSING.has(raw.trim()))) {
-      missingValues++;
+      missingRows.push(rowNo);
       return;
     }
     let text: string;
@@ -175,10 +204,13 @@ export function analyzePlotRows(
       if (!isDecimalText(text))
         throw new AnalysisInputError(`row ${rowNo}, column "${trait}": "${raw}" is not a number`);
     }
+    const outOfRange = outOfRangeReason(text);
+    if (outOfRange)
+      throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${text} ${outOfRange}`);
     texts.push(text);
     kept.push({ row: rowNo, variety, site: site ?? '', block, plot });
   });
-  if (missingValues > 0) warnings.push(`${missingValues} row(s) with no value were left out`);
+  if (missingRows.length > 0) warnings.push(leftOutWarning(missingRows));
   if (kept.length === 0) throw new AnalysisInputError(`column "${trait}": no values`);
 
   // Sub-samples: rows sharing (site, plot) are one plot.
@@ -398,6 +430,20 @@ export interface AnalyzeCsvOptions extends AnalyzeOptions {
   columns?: Partial<Record<LayoutColumn, string>>;
 }
 
+/**
+ * A hint when the header row looks separated by semicolons or tabs (spreadsheets in locales
+ * with a decimal comma save "CSV" that way); empty otherwise.
+ */
+function separatorHint(csvText: string): string {
+  const firstLine = csvText.replace(/^\uFEFF/, '').split(/\r?\n/, 1)[0] ?? '';
+  if (firstLine.includes(',')) return '';
+  const tabs = firstLine.split('\t').length - 1;
+  const semicolons = firstLine.split(';').length - 1;
+  if (tabs === 0 && semicolons === 0) return '';
+  const which = tabs >= semicolons ? 'tabs' : 'semicolons';
+  return ` (the header row is separated by ${which}, not commas: save the sheet as comma-separated values, with a point as the decimal mark)`;
+}
+
 /** Analyse CSV text with a header row (see the analyze command for the column rules). */
 export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): AnalysisResult {
   let records: string[][];
@@ -409,7 +455,9 @@ export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): An
     }) as string[][];
   } catch (err) {
     const msg = err instanceof Error ? err.message : String(err);
-    throw new AnalysisInputError(`CSV could not be read: ${msg.split('\n')[0]}`);
+    throw new AnalysisInputError(
+      `CSV could not be read: ${msg.split('\n')[0]}${separatorHint(csvText)}`,
+    );
   }
   if (records.length === 0) throw new AnalysisInputError('file is empty: no header row');
   const header = records[0]!.map((h) => h.trim());
@@ -434,7 +482,10 @@ export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): An
         );
     } else col[c] = find(c);
   }
-  if (col.variety < 0) throw new AnalysisInputError('column "variety": not found in the header');
+  if (col.variety < 0)
+    throw new AnalysisInputError(
+      `column "variety": not found in the header${separatorHint(csvText)}`,
+    );
   const layoutCols = new Set(Object.values(col).filter((i) => i >= 0));
   if (layoutCols.size !== Object.values(col).filter((i) => i >= 0).length)
     throw new AnalysisInputError('one column is chosen for two layout roles');

@@ -87,6 +87,14 @@ describe('analyze command', { timeout: 60_000 }, () => {
     expect(JSON.parse(r.stdout).design).toBe('rcbd');
   });
 
+  it('names the rows left out for having no value', () => {
+    const r = run(fx('cli/missing-values.csv'));
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.n).toBe(7);
+    expect(out.warnings).toContain('rows 7, 9 have no value: 2 rows left out');
+  });
+
   const bad: [string, string[], RegExp][] = [
     ['empty file', [fx('cli/empty.csv')], /empty/],
     ['header only', [fx('cli/header-only.csv')], /no data rows/],
@@ -109,6 +117,27 @@ describe('analyze command', { timeout: 60_000 }, () => {
       /column "block": required/,
     ],
     ['missing file', [fx('cli/nope.csv')], /cannot read file/],
+    // 1e400 overflows a double (IEEE 754 binary64 largest finite ~1.8e308); 1e-400 underflows to 0.
+    [
+      'a value too large to analyse',
+      [fx('cli/too-large.csv')],
+      /row 4, column "yield": 1e400 is too large to analyse/,
+    ],
+    [
+      'a nonzero value too small to analyse',
+      [fx('cli/too-small.csv')],
+      /row 5, column "yield": -1e-400 is too small to analyse/,
+    ],
+    [
+      'a file separated by semicolons',
+      [fx('cli/semicolons.csv')],
+      /\(the header row is separated by semicolons, not commas/,
+    ],
+    [
+      'a file separated by tabs',
+      [fx('cli/tabs.csv')],
+      /not found in the header \(the header row is separated by tabs, not commas/,
+    ],
   ];
   for (const [label, args, pattern] of bad) {
     it(`exits non-zero with one line on stderr: ${label}`, () => {
