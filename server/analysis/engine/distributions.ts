@@ -9,7 +9,7 @@
  */
 import jStat from 'jstat';
 
-const LN_SQRT_2PI = 0.91893853320467274178;
+const LN_SQRT_2PI = 0.9189385332046728;
 const EPS = 2.220446049250313e-16;
 
 /**
