@@ -1,18 +1,13 @@
-import { createSyncStoragePersister } from '@tanstack/query-sync-storage-persister';
 import { PersistQueryClientProvider } from '@tanstack/react-query-persist-client';
 import { useState } from 'react';
 import { RouterProvider } from 'react-router-dom';
-import { CACHE_MAX_AGE_MS, CACHE_STORAGE_KEY, createQueryClient } from '@/lib/query-client';
+import { afterCacheRestored, cachePersistOptions } from '@/lib/persisted-cache';
+import { createQueryClient } from '@/lib/query-client';
 import { createAppRouter } from './router';
 
-/**
- * What the app last read (trial, plots, traits) is kept on the device, so the field log opens
- * and works with no signal; it is cleared when someone signs in or out.
- */
-const persister = createSyncStoragePersister({
-  storage: window.localStorage,
-  key: CACHE_STORAGE_KEY,
-});
+// The on-device copy of what was read (see src/lib/persisted-cache.ts); cleared when someone
+// signs in or out.
+const persistOptions = cachePersistOptions(window.localStorage, __APP_VERSION__);
 
 export function App() {
   const [queryClient] = useState(createQueryClient);
@@ -20,7 +15,8 @@ export function App() {
   return (
     <PersistQueryClientProvider
       client={queryClient}
-      persistOptions={{ persister, maxAge: CACHE_MAX_AGE_MS, buster: __APP_VERSION__ }}
+      persistOptions={persistOptions}
+      onSuccess={() => afterCacheRestored(queryClient)}
     >
       <RouterProvider router={router} />
     </PersistQueryClientProvider>

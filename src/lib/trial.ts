@@ -3,16 +3,7 @@ import { trialActions } from '@common/policy';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from './api-client';
-
-/**
- * The trials' query keys, shared: every feature reads a trial through this module and
- * refreshes the list or a trial's detail after changing what they show.
- */
-export const trialKeys = {
-  all: ['trials'] as const,
-  list: () => [...trialKeys.all, 'list'] as const,
-  detail: (slug: string) => [...trialKeys.all, 'detail', slug] as const,
-};
+import { trialKeys } from './trial-keys';
 
 const responseSchema = trialDetailSchema.extend({
   permissions: z.record(z.enum(trialActions), z.boolean()),

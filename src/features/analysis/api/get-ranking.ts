@@ -1,7 +1,7 @@
 import { rankingSchema } from '@common/contracts/analysis';
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { analysisKeys } from './analysis-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export interface RankingParams {
   traits: string[];
@@ -16,7 +16,7 @@ export const getRanking = (slug: string, q: RankingParams) =>
 
 export const rankingQueryOptions = (slug: string, q: RankingParams) =>
   queryOptions({
-    queryKey: analysisKeys.ranking(slug, q),
+    queryKey: trialKeys.ranking(slug, q),
     queryFn: () => getRanking(slug, q),
     enabled: q.traits.length > 0,
     placeholderData: keepPreviousData,

@@ -1,7 +1,7 @@
 import { type AnalysisBasis, trialAnalysisSchema } from '@common/contracts/analysis';
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { analysisKeys } from './analysis-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export interface TrialAnalysisParams {
   trait: string;
@@ -17,7 +17,7 @@ export const getTrialAnalysis = (slug: string, q: TrialAnalysisParams) =>
 
 export const trialAnalysisQueryOptions = (slug: string, q: TrialAnalysisParams) =>
   queryOptions({
-    queryKey: analysisKeys.trait(slug, q),
+    queryKey: trialKeys.analysis(slug, q),
     queryFn: () => getTrialAnalysis(slug, q),
     enabled: q.trait !== '',
     placeholderData: keepPreviousData,

@@ -1,7 +1,7 @@
 import { type WeatherImportBody, weatherImportResultSchema } from '@common/contracts/weather';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { analysisKeys } from './analysis-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 export const importWeather = (slug: string, body: WeatherImportBody) =>
   api(`/api/trials/${encodeURIComponent(slug)}/weather/import`, weatherImportResultSchema, {
@@ -11,15 +11,11 @@ export const importWeather = (slug: string, body: WeatherImportBody) =>
 
 /** Preview (dryRun) or import; an import changes the season summary and the site's weather. */
 export function useImportWeather(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: (body: WeatherImportBody) => importWeather(slug, body),
-    onSuccess: async (result, body) => {
-      if (result.dryRun) return;
-      await Promise.all([
-        queryClient.invalidateQueries({ queryKey: analysisKeys.season(slug) }),
-        queryClient.invalidateQueries({ queryKey: analysisKeys.weather(slug, body.siteId) }),
-      ]);
+    onSuccess: async (result) => {
+      if (!result.dryRun) await invalidate(slug, 'weather');
     },
   });
 }

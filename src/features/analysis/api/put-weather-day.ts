@@ -1,7 +1,7 @@
 import { type WeatherDay, weatherDaySchema } from '@common/contracts/weather';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { analysisKeys } from './analysis-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 export interface WeatherDayInput {
   siteId: string;
@@ -23,14 +23,9 @@ export const putWeatherDay = (slug: string, { siteId, date, ...body }: WeatherDa
 
 /** One day typed in by hand; it changes the season summary and that site's weather. */
 export function usePutWeatherDay(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: (input: WeatherDayInput) => putWeatherDay(slug, input),
-    onSuccess: async (_day, input) => {
-      await Promise.all([
-        queryClient.invalidateQueries({ queryKey: analysisKeys.season(slug) }),
-        queryClient.invalidateQueries({ queryKey: analysisKeys.weather(slug, input.siteId) }),
-      ]);
-    },
+    onSuccess: () => invalidate(slug, 'weather'),
   });
 }

@@ -1,7 +1,7 @@
 import { type CreateTrialBody, createTrialResponse } from '@common/contracts/design';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { trialKeys } from '@/lib/trial';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const createTrial = (body: CreateTrialBody) =>
   api('/api/trials', createTrialResponse, { method: 'POST', body });

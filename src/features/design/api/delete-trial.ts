@@ -1,6 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { trialKeys } from '@/lib/trial';
+import { forgetTrial } from '@/lib/trial-keys';
 
 export const deleteTrial = (slug: string, confirmSlug: string) =>
   api<void>(`/api/trials/${encodeURIComponent(slug)}`, null, {
@@ -13,6 +13,6 @@ export function useDeleteTrial(slug: string) {
   return useMutation({
     mutationFn: (confirmSlug: string) => deleteTrial(slug, confirmSlug),
     // Everything cached about the trial is gone with it.
-    onSuccess: () => queryClient.removeQueries({ queryKey: trialKeys.all }),
+    onSuccess: () => forgetTrial(queryClient, slug),
   });
 }

@@ -3,7 +3,7 @@ import type { EntryBody, SiteBody, TraitBody } from '@common/contracts/design';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '@/lib/api-client';
-import { invalidateDesign } from './get-design';
+import { invalidateTrial } from '@/lib/trial-keys';
 
 type Part = 'entries' | 'sites' | 'traits';
 type BodyOf = { entries: EntryBody; sites: SiteBody; traits: TraitBody };
@@ -25,7 +25,7 @@ export function useCreatePart<P extends Part>(slug: string, part: P) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: BodyOf[P]) => createPart(slug, part, body),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }
 
@@ -34,7 +34,7 @@ export function useUpdatePart<P extends Part>(slug: string, part: P) {
   return useMutation({
     mutationFn: ({ id, body }: { id: string; body: Partial<BodyOf[P]> }) =>
       updatePart(slug, part, id, body),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }
 
@@ -42,7 +42,7 @@ export function useDeletePart(slug: string, part: Part) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (id: string) => deletePart(slug, part, id),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }
 

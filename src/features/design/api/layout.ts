@@ -2,7 +2,7 @@ import { type LayoutBody, type PlantingBody, plantingResponse } from '@common/co
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '@/lib/api-client';
-import { invalidateDesign } from './get-design';
+import { invalidateTrial } from '@/lib/trial-keys';
 
 const generated = z.object({ seed: z.number().int(), plots: z.number().int() });
 const url = (slug: string) => `/api/trials/${encodeURIComponent(slug)}/layout`;
@@ -17,7 +17,7 @@ export function useGenerateLayout(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: LayoutBody) => generateLayout(slug, body),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }
 
@@ -25,7 +25,7 @@ export function useClearLayout(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: () => clearLayout(slug),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }
 
@@ -33,6 +33,6 @@ export function useRecordPlanting(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: PlantingBody) => recordPlanting(slug, body),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }

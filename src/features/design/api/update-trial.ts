@@ -1,7 +1,7 @@
 import type { UpdateTrialBody } from '@common/contracts/design';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { invalidateDesign } from './get-design';
+import { invalidateTrial } from '@/lib/trial-keys';
 
 export const updateTrial = (slug: string, body: UpdateTrialBody) =>
   api<void>(`/api/trials/${encodeURIComponent(slug)}`, null, { method: 'PATCH', body });
@@ -10,6 +10,6 @@ export function useUpdateTrial(slug: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: UpdateTrialBody) => updateTrial(slug, body),
-    onSuccess: () => invalidateDesign(queryClient, slug),
+    onSuccess: () => invalidateTrial(queryClient, slug, 'design'),
   });
 }

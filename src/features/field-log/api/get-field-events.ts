@@ -1,7 +1,7 @@
 import { fieldEventListSchema } from '@common/contracts/records';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { recordKeys } from '@/lib/record-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const getFieldEvents = (slug: string, siteId?: string) =>
   api(`/api/trials/${encodeURIComponent(slug)}/field-events`, fieldEventListSchema, {
@@ -10,7 +10,7 @@ export const getFieldEvents = (slug: string, siteId?: string) =>
 
 export const fieldEventsQueryOptions = (slug: string, siteId?: string) =>
   queryOptions({
-    queryKey: recordKeys.events(slug, { siteId }),
+    queryKey: trialKeys.fieldEvents(slug, { siteId }),
     queryFn: () => getFieldEvents(slug, siteId),
   });
 

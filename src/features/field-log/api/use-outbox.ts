@@ -1,12 +1,11 @@
-import { useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useState } from 'react';
-import { recordKeys } from '@/lib/record-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 import { type OutboxItem, sharedOutbox } from './outbox';
 
-/** The outbox items of one trial, kept current; saved entries refresh the record tables. */
+/** The outbox items of one trial, kept current; saved entries refresh every view of the records. */
 export function useOutbox(trialSlug: string) {
   const outbox = sharedOutbox();
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   const [items, setItems] = useState<OutboxItem[]>([]);
   const [online, setOnline] = useState(() => navigator.onLine);
 
@@ -18,8 +17,7 @@ export function useOutbox(trialSlug: string) {
     refresh();
     const unsubscribe = outbox.subscribe(refresh);
     const unsaved = outbox.whenSaved((item) => {
-      if (item.trialSlug === trialSlug)
-        void queryClient.invalidateQueries({ queryKey: recordKeys.all(trialSlug) });
+      if (item.trialSlug === trialSlug) void invalidate(trialSlug, 'records');
     });
     const on = () => setOnline(true);
     const off = () => setOnline(false);
@@ -31,7 +29,7 @@ export function useOutbox(trialSlug: string) {
       window.removeEventListener('online', on);
       window.removeEventListener('offline', off);
     };
-  }, [outbox, refresh, queryClient, trialSlug]);
+  }, [outbox, refresh, invalidate, trialSlug]);
 
   return {
     items,

@@ -1,7 +1,7 @@
 import { memberSchema, type UpdateMemberBody } from '@common/contracts/members';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { memberKeys } from './member-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 const memberUrl = (slug: string, userId: string) =>
   `/api/trials/${encodeURIComponent(slug)}/members/${encodeURIComponent(userId)}`;
@@ -13,18 +13,18 @@ export const removeMember = (slug: string, userId: string) =>
   api(memberUrl(slug, userId), null, { method: 'DELETE' });
 
 export function useUpdateMember(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: (v: { userId: string; body: UpdateMemberBody }) =>
       updateMember(slug, v.userId, v.body),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: memberKeys.list(slug) }),
+    onSuccess: () => invalidate(slug, 'members'),
   });
 }
 
 export function useRemoveMember(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: (userId: string) => removeMember(slug, userId),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: memberKeys.list(slug) }),
+    onSuccess: () => invalidate(slug, 'members'),
   });
 }

@@ -1,12 +1,12 @@
 import { memberListSchema } from '@common/contracts/members';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { memberKeys } from './member-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const getMembers = (slug: string) =>
   api(`/api/trials/${encodeURIComponent(slug)}/members`, memberListSchema);
 
 export const membersQueryOptions = (slug: string) =>
-  queryOptions({ queryKey: memberKeys.list(slug), queryFn: () => getMembers(slug) });
+  queryOptions({ queryKey: trialKeys.members(slug), queryFn: () => getMembers(slug) });
 
 export const useMembers = (slug: string) => useQuery(membersQueryOptions(slug));

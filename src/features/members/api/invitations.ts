@@ -3,16 +3,16 @@ import {
   invitationListSchema,
   invitationSchema,
 } from '@common/contracts/invitations';
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { queryOptions, useMutation, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { memberKeys } from './member-keys';
+import { trialKeys, useInvalidateTrial } from '@/lib/trial-keys';
 
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}/invitations`;
 
 export const getInvitations = (slug: string) => api(base(slug), invitationListSchema);
 
 export const invitationsQueryOptions = (slug: string) =>
-  queryOptions({ queryKey: memberKeys.invitations(slug), queryFn: () => getInvitations(slug) });
+  queryOptions({ queryKey: trialKeys.invitations(slug), queryFn: () => getInvitations(slug) });
 
 export const useInvitations = (slug: string) => useQuery(invitationsQueryOptions(slug));
 
@@ -24,10 +24,10 @@ export const revokeInvitation = (slug: string, id: string) =>
   api(`${base(slug)}/${id}`, null, { method: 'DELETE' });
 
 function useInvitationMutation<A>(slug: string, fn: (a: A) => Promise<unknown>) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: fn,
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: memberKeys.invitations(slug) }),
+    onSuccess: () => invalidate(slug, 'members'),
   });
 }
 

@@ -1,7 +1,7 @@
 import { deletePhotoResponse, photoResponse } from '@common/contracts/photos';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { photoKeys } from './photo-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 const photoUrl = (slug: string, photoId: string) =>
   `/api/trials/${encodeURIComponent(slug)}/photos/${photoId}`;
@@ -14,17 +14,17 @@ export const restorePhoto = (slug: string, photoId: string) =>
 
 /** Deleting may change an entry's cover, so the tagging data is refreshed too. */
 export function useDeletePhoto(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: (photoId: string) => deletePhoto(slug, photoId),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: photoKeys.all(slug) }),
+    onSuccess: () => invalidate(slug, 'photos'),
   });
 }
 
 export function useRestorePhoto(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: (photoId: string) => restorePhoto(slug, photoId),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: photoKeys.all(slug) }),
+    onSuccess: () => invalidate(slug, 'photos'),
   });
 }

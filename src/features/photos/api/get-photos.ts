@@ -1,7 +1,7 @@
 import { type ListPhotosQuery, photoListSchema } from '@common/contracts/photos';
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { photoKeys } from './photo-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const getPhotos = (slug: string, filters: ListPhotosQuery) =>
   api(`/api/trials/${encodeURIComponent(slug)}/photos`, photoListSchema, {
@@ -10,7 +10,7 @@ export const getPhotos = (slug: string, filters: ListPhotosQuery) =>
 
 export const photosQueryOptions = (slug: string, filters: ListPhotosQuery = {}) =>
   queryOptions({
-    queryKey: photoKeys.list(slug, filters),
+    queryKey: trialKeys.photos(slug, filters),
     queryFn: () => getPhotos(slug, filters),
     placeholderData: keepPreviousData,
   });

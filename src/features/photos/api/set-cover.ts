@@ -1,7 +1,7 @@
 import { photoResponse } from '@common/contracts/photos';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { photoKeys } from './photo-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 export const setCover = (slug: string, photoId: string, cover: boolean) =>
   api(`/api/trials/${encodeURIComponent(slug)}/photos/${photoId}/cover`, photoResponse, {
@@ -9,10 +9,10 @@ export const setCover = (slug: string, photoId: string, cover: boolean) =>
   });
 
 export function useSetCover(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: ({ photoId, cover }: { photoId: string; cover: boolean }) =>
       setCover(slug, photoId, cover),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: photoKeys.all(slug) }),
+    onSuccess: () => invalidate(slug, 'photos'),
   });
 }

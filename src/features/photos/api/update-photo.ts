@@ -1,7 +1,7 @@
 import { type UpdatePhotoBody, photoResponse } from '@common/contracts/photos';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useMutation } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { photoKeys } from './photo-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 export const updatePhoto = (slug: string, photoId: string, body: UpdatePhotoBody) =>
   api(`/api/trials/${encodeURIComponent(slug)}/photos/${photoId}`, photoResponse, {
@@ -10,10 +10,10 @@ export const updatePhoto = (slug: string, photoId: string, body: UpdatePhotoBody
   });
 
 export function useUpdatePhoto(slug: string) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: ({ photoId, body }: { photoId: string; body: UpdatePhotoBody }) =>
       updatePhoto(slug, photoId, body),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: photoKeys.lists(slug) }),
+    onSuccess: () => invalidate(slug, 'photos'),
   });
 }

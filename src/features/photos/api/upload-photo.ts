@@ -1,9 +1,8 @@
 import { apiErrorBodySchema } from '@common/api-error';
 import { type Photo, type UploadPhotoFields, uploadPhotoResponse } from '@common/contracts/photos';
-import { useQueryClient } from '@tanstack/react-query';
 import { useCallback } from 'react';
 import { ApiError } from '@/lib/api-client';
-import { photoKeys } from './photo-keys';
+import { useInvalidateTrial } from '@/lib/trial-keys';
 
 export interface UploadProgress {
   loaded: number;
@@ -72,11 +71,8 @@ export function uploadPhoto(
 
 /** Uploads, then refreshes the lists the new photo appears in. */
 export function useUploadPhoto(slug: string) {
-  const queryClient = useQueryClient();
-  const finished = useCallback(
-    () => queryClient.invalidateQueries({ queryKey: photoKeys.all(slug) }),
-    [queryClient, slug],
-  );
+  const invalidate = useInvalidateTrial();
+  const finished = useCallback(() => invalidate(slug, 'photos'), [invalidate, slug]);
   return {
     uploadPhoto: (...args: Parameters<typeof uploadPhoto>) => uploadPhoto(...args),
     finished,

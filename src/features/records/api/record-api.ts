@@ -1,6 +1,6 @@
 /**
  * The records tables' API: lists, edits with the version read, delete and undo, completeness,
- * import and the audit log. Mutations await invalidation of the trial's record keys.
+ * import and the audit log. Mutations await `invalidateTrial(slug, 'records')`.
  */
 import {
   auditListSchema,
@@ -19,9 +19,9 @@ import {
   type UpdateHarvestBody,
   type UpdateObservationBody,
 } from '@common/contracts/records';
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { queryOptions, useMutation, useQuery } from '@tanstack/react-query';
 import { api, ApiError } from '@/lib/api-client';
-import { recordKeys } from '@/lib/record-keys';
+import { trialKeys, useInvalidateTrial } from '@/lib/trial-keys';
 
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
 export interface ListFilters {
@@ -32,7 +32,7 @@ export interface ListFilters {
 
 export const harvestsQueryOptions = (slug: string, f: ListFilters) =>
   queryOptions({
-    queryKey: recordKeys.harvests(slug, f),
+    queryKey: trialKeys.harvests(slug, f),
     queryFn: () => api(`${base(slug)}/harvests`, harvestListSchema, { query: { ...f } }),
   });
 export const useHarvests = (slug: string, f: ListFilters) =>
@@ -40,7 +40,7 @@ export const useHarvests = (slug: string, f: ListFilters) =>
 
 export const observationsQueryOptions = (slug: string, f: ListFilters) =>
   queryOptions({
-    queryKey: recordKeys.observations(slug, f),
+    queryKey: trialKeys.observations(slug, f),
     queryFn: () => api(`${base(slug)}/observations`, observationListSchema, { query: { ...f } }),
   });
 export const useObservations = (slug: string, f: ListFilters) =>
@@ -51,7 +51,7 @@ export const completenessQueryOptions = (
   q: { siteId?: string; from: string; to: string },
 ) =>
   queryOptions({
-    queryKey: recordKeys.completeness(slug, q),
+    queryKey: trialKeys.completeness(slug, q),
     queryFn: () => api(`${base(slug)}/records/completeness`, completenessSchema, { query: q }),
   });
 export const useCompleteness = (slug: string, q: { siteId?: string; from: string; to: string }) =>
@@ -59,7 +59,7 @@ export const useCompleteness = (slug: string, q: { siteId?: string; from: string
 
 export const auditQueryOptions = (slug: string, q: { table?: string; action?: string }) =>
   queryOptions({
-    queryKey: recordKeys.audit(slug, q),
+    queryKey: trialKeys.audit(slug, q),
     queryFn: () => api(`${base(slug)}/audit`, auditListSchema, { query: { ...q, limit: 200 } }),
   });
 export const useAuditLog = (slug: string, q: { table?: string; action?: string }) =>
@@ -73,10 +73,11 @@ export function conflictOf(error: unknown): ConflictDetails | null {
 }
 
 function useRecordMutation<TVars, TOut>(slug: string, fn: (v: TVars) => Promise<TOut>) {
-  const queryClient = useQueryClient();
+  const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: fn,
-    onSettled: () => queryClient.invalidateQueries({ queryKey: recordKeys.all(slug) }),
+    // Also after a refusal: a 409 means someone else changed the records meanwhile.
+    onSettled: () => invalidate(slug, 'records'),
   });
 }
 

@@ -1,7 +1,7 @@
 import { photoListSchema } from '@common/contracts/photos';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { resultsKeys } from './results-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 /** The trial's photos, to choose a cover per entry for the sheet. */
 export const getTrialPhotos = (slug: string) =>
@@ -9,7 +9,7 @@ export const getTrialPhotos = (slug: string) =>
 
 export const trialPhotosQueryOptions = (slug: string) =>
   queryOptions({
-    queryKey: [...resultsKeys.draft(slug), 'photos'],
+    queryKey: trialKeys.sheetPhotos(slug),
     queryFn: () => getTrialPhotos(slug),
   });
 

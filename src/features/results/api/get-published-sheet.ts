@@ -1,7 +1,7 @@
 import { resultSnapshotSchema } from '@common/contracts/results';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { resultsKeys } from './results-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const getPublishedSheet = (slug: string, version?: number) =>
   api(
@@ -11,7 +11,7 @@ export const getPublishedSheet = (slug: string, version?: number) =>
 
 export const publishedSheetQueryOptions = (slug: string, version?: number) =>
   queryOptions({
-    queryKey: resultsKeys.version(slug, version ?? 'latest'),
+    queryKey: trialKeys.publishedSheet(slug, version ?? 'latest'),
     queryFn: () => getPublishedSheet(slug, version),
     // A published version never changes.
     staleTime: version ? Infinity : 60_000,

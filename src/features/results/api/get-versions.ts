@@ -1,12 +1,12 @@
 import { versionListSchema } from '@common/contracts/results';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { resultsKeys } from './results-keys';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const getVersions = (slug: string) =>
   api(`/api/results/${encodeURIComponent(slug)}/versions`, versionListSchema);
 
 export const versionsQueryOptions = (slug: string) =>
-  queryOptions({ queryKey: resultsKeys.versions(slug), queryFn: () => getVersions(slug) });
+  queryOptions({ queryKey: trialKeys.versions(slug), queryFn: () => getVersions(slug) });
 
 export const useVersions = (slug: string) => useQuery(versionsQueryOptions(slug));

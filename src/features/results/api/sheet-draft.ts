@@ -6,20 +6,19 @@ import {
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '@/lib/api-client';
-import { trialKeys } from '@/lib/trial';
-import { resultsKeys } from './results-keys';
+import { invalidateTrial, trialKeys } from '@/lib/trial-keys';
 
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}/results-sheet`;
 
 export const getSheetDraft = (slug: string) => api(base(slug), sheetDraftSchema);
 export const sheetDraftQueryOptions = (slug: string) =>
-  queryOptions({ queryKey: resultsKeys.draft(slug), queryFn: () => getSheetDraft(slug) });
+  queryOptions({ queryKey: trialKeys.sheetDraft(slug), queryFn: () => getSheetDraft(slug) });
 export const useSheetDraft = (slug: string) => useQuery(sheetDraftQueryOptions(slug));
 
 export const getSheetPreview = (slug: string) => api(`${base(slug)}/preview`, resultSnapshotSchema);
 export const sheetPreviewQueryOptions = (slug: string) =>
   queryOptions({
-    queryKey: resultsKeys.preview(slug),
+    queryKey: trialKeys.sheetPreview(slug),
     queryFn: () => getSheetPreview(slug),
     staleTime: 0,
   });
@@ -31,8 +30,8 @@ export function useSaveSheet(slug: string) {
   return useMutation({
     mutationFn: (body: SaveSheetBody) => api(base(slug), sheetDraftSchema, { method: 'PUT', body }),
     onSuccess: async (draft) => {
-      qc.setQueryData(resultsKeys.draft(slug), draft);
-      await qc.invalidateQueries({ queryKey: resultsKeys.preview(slug) });
+      qc.setQueryData(trialKeys.sheetDraft(slug), draft);
+      await invalidateTrial(qc, slug, 'sheet');
     },
   });
 }
@@ -44,13 +43,7 @@ export function usePublishSheet(slug: string) {
   return useMutation({
     mutationFn: (changeNote: string) =>
       api(`${base(slug)}/publish`, published, { method: 'POST', body: { changeNote } }),
-    onSuccess: async () => {
-      await Promise.all([
-        qc.invalidateQueries({ queryKey: resultsKeys.draft(slug) }),
-        qc.invalidateQueries({ queryKey: resultsKeys.public(slug) }),
-        qc.invalidateQueries({ queryKey: trialKeys.all }),
-      ]);
-    },
+    onSuccess: () => invalidateTrial(qc, slug, 'publishing'),
   });
 }
 
@@ -58,12 +51,6 @@ export function useUnpublishSheet(slug: string) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: () => api<void>(`${base(slug)}/unpublish`, null, { method: 'POST' }),
-    onSuccess: async () => {
-      await Promise.all([
-        qc.invalidateQueries({ queryKey: resultsKeys.draft(slug) }),
-        qc.invalidateQueries({ queryKey: resultsKeys.public(slug) }),
-        qc.invalidateQueries({ queryKey: trialKeys.all }),
-      ]);
-    },
+    onSuccess: () => invalidateTrial(qc, slug, 'publishing'),
   });
 }

@@ -1,7 +1,7 @@
 import { trialListSchema } from '@common/contracts/trials';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import { trialKeys } from '@/lib/trial';
+import { trialKeys } from '@/lib/trial-keys';
 
 export const getTrials = () => api('/api/trials', trialListSchema);
 
