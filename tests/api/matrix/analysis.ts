@@ -5,6 +5,7 @@
  */
 import { memberRead, recordWrite, type MatrixRow } from './matrix-types';
 import type { MatrixWorld } from './matrix-world';
+import { insertBlocksTrial } from '../../support/trial-fixture';
 
 const analysisTrials = new WeakMap<MatrixWorld, Promise<string>>();
 
@@ -14,39 +15,12 @@ function analysisTrial(w: MatrixWorld): Promise<string> {
   if (!p) {
     p = (async () => {
       const db = w.t.db;
-      const trial = await db
-        .insertInto('trials')
-        .values({
-          slug: 'matrix-analysis',
-          title: 'Matrix analysis trial',
-          crop: 'Okra',
-          season: '2026',
-          design: 'rcbd',
-          status: 'active',
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      const site = await db
-        .insertInto('sites')
-        .values({ trial_id: trial.id, name: 'Only site' })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      const entries = await db
-        .insertInto('entries')
-        .values(
-          ['Ash Pod', 'Birch Pod', 'Cedar Pod'].map((name, i) => ({
-            trial_id: trial.id,
-            name,
-            code: `E${i + 1}`,
-            entry_type: 'heirloom' as const,
-          })),
-        )
-        .returning('id')
-        .execute();
-      const trait = await db
-        .insertInto('traits')
-        .values({
-          trial_id: trial.id,
+      const t = await insertBlocksTrial(db, {
+        trial: { slug: 'matrix-analysis', title: 'Matrix analysis trial', crop: 'Okra' },
+        siteName: 'Only site',
+        entryNames: ['Ash Pod', 'Birch Pod', 'Cedar Pod'],
+        blocks: 2,
+        trait: {
           key: 'vigor',
           label: 'Vigor',
           quantity_kind: 'score',
@@ -54,43 +28,28 @@ function analysisTrial(w: MatrixWorld): Promise<string> {
           direction: 'higher',
           scale_min: 1,
           scale_max: 5,
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
+        },
+      });
       const scores = [
         [3, 4],
         [4, 5],
         [2, 2],
       ];
-      let n = 0;
-      for (const [e, entry] of entries.entries()) {
-        for (const block of [1, 2]) {
-          n++;
-          const plot = await db
-            .insertInto('plots')
-            .values({
-              trial_id: trial.id,
-              site_id: site.id,
-              entry_id: entry.id,
-              block,
-              position: e + 1,
-              plot_number: block * 100 + e + 1,
-            })
-            .returning('id')
-            .executeTakeFirstOrThrow();
-          await db
-            .insertInto('observations')
-            .values({
-              trial_id: trial.id,
-              plot_id: plot.id,
-              trait_id: trait.id,
+      // Entry e's score in block b sits on plot b × 100 + e + 1.
+      await db
+        .insertInto('observations')
+        .values(
+          scores.flatMap((byBlock, e) =>
+            byBlock.map((value, b) => ({
+              trial_id: t.trialId,
+              plot_id: t.plotIds[(b + 1) * 100 + e + 1]!,
+              trait_id: t.traitId,
               observed_on: '2026-07-01',
-              value: scores[e]![block - 1]!,
-            })
-            .execute();
-        }
-      }
-      if (n !== 6) throw new Error('unexpected plot count');
+              value,
+            })),
+          ),
+        )
+        .execute();
       const roles = {
         viewer: 'viewer',
         contributor: 'contributor',
@@ -101,7 +60,7 @@ function analysisTrial(w: MatrixWorld): Promise<string> {
       for (const [caller, role] of Object.entries(roles) as [keyof typeof roles, string][]) {
         await db
           .insertInto('trial_members')
-          .values({ trial_id: trial.id, user_id: w.users[caller].id, role: role as 'lead' })
+          .values({ trial_id: t.trialId, user_id: w.users[caller].id, role: role as 'lead' })
           .execute();
       }
       return 'matrix-analysis';
