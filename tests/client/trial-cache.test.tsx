@@ -38,11 +38,8 @@ import {
   sheetDraftQueryOptions,
   sheetPreviewQueryOptions,
 } from '../../src/features/results/api/sheet-draft';
-import {
-  afterCacheRestored,
-  CACHE_STORAGE_KEY,
-  cachePersistOptions,
-} from '../../src/lib/persisted-cache';
+import { afterCacheRestored, cachePersistOptions } from '../../src/lib/persisted-cache';
+import { CACHE_STORAGE_KEY } from '../../src/lib/query-client';
 import { trialQueryOptions } from '../../src/lib/trial';
 import {
   forgetTrial,
