@@ -139,7 +139,8 @@ export function createApp(deps: AppDeps) {
     app.get('/{*splat}', async (req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
       const meta = await shareMeta(deps.db, req.path, deps.baseUrl);
-      res.type('html').send(meta ? shell.replace(/<title>[^<]*<\/title>/, meta) : shell);
+      // A replacer function: a string would expand `$&`, `$'` and the like from a trial's title.
+      res.type('html').send(meta ? shell.replace(/<title>[^<]*<\/title>/, () => meta) : shell);
     });
   }
   app.use(errorHandler);

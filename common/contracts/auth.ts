@@ -61,11 +61,20 @@ export const changePasswordForm = z
   });
 
 /**
- * Only local paths may follow sign-in (`?next=`), so a crafted link cannot send someone to
- * another site after they sign in.
+ * Only a path on this site may follow sign-in (`?next=`), so a crafted link cannot send someone
+ * to another site after they sign in. The value is read the way a browser reads an address
+ * (the WHATWG URL parser drops tabs and newlines and treats `\` as `/`), so "/\t/x.example"
+ * cannot pass as local and then become "//x.example" on the way to the address bar.
  */
 export function safeNextPath(next: string | null | undefined, fallback = '/'): string {
-  if (!next || !next.startsWith('/') || next.startsWith('//') || next.startsWith('/\\'))
+  if (!next || !next.startsWith('/')) return fallback;
+  const base = 'http://next.invalid';
+  let url: URL;
+  try {
+    url = new URL(next, base);
+  } catch {
     return fallback;
-  return next;
+  }
+  if (url.origin !== base) return fallback;
+  return url.pathname + url.search + url.hash;
 }
