@@ -338,6 +338,15 @@ export interface ResultFollowersTable {
   updated_at: Timestamp;
 }
 
+export interface FollowRequestsTable {
+  id: Generated<number>;
+  trial_id: string;
+  email: string;
+  client_ip: string;
+  mailed: boolean;
+  requested_at: Timestamp;
+}
+
 export interface DailyWeatherTable extends Written {
   id: Generated<string>;
   trial_id: string;
@@ -370,6 +379,7 @@ export interface Database {
   results_sheets: ResultsSheetsTable;
   result_versions: ResultVersionsTable;
   result_followers: ResultFollowersTable;
+  follow_requests: FollowRequestsTable;
   invitations: InvitationsTable;
   invitation_sites: InvitationSitesTable;
   audit_log: AuditLogTable;
@@ -711,5 +721,13 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     unsubscribed_at: true,
     created_at: true,
     updated_at: true,
+  },
+  follow_requests: {
+    id: true,
+    trial_id: true,
+    email: true,
+    client_ip: true,
+    mailed: true,
+    requested_at: true,
   },
 };

@@ -77,6 +77,11 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const appError = toAppError(err);
   if (appError.status >= 500) req.log?.error({ err }, 'request failed');
   if (res.headersSent) return;
+  // A limit that says when it frees up (AppError details.retryAfterSeconds) tells the client too.
+  const retryAfter = (appError.details as { retryAfterSeconds?: unknown } | undefined)
+    ?.retryAfterSeconds;
+  if (appError.status === 429 && typeof retryAfter === 'number')
+    res.setHeader('Retry-After', String(Math.ceil(retryAfter)));
   res.status(appError.status).json({
     error: {
       code: appError.code,

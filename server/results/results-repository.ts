@@ -110,3 +110,59 @@ export function confirmedFollowers(db: DB, trialId: string) {
     .where('unsubscribed_at', 'is', null)
     .execute();
 }
+
+/* Requests to follow: counted for the limits, kept for a day. */
+
+/** Serializes follow requests that share a caller address or a recipient, until commit. */
+export async function lockFollowRequests(trx: DB, clientIp: string, email: string) {
+  // Always in this order, so two requests cannot wait on each other.
+  for (const key of [`follow-ip:${clientIp}`, `follow-to:${email}`])
+    await sql`select pg_advisory_xact_lock(hashtextextended(${key}, 0))`.execute(trx);
+}
+
+/** How many follow requests came from this address since `since`, and when the first did. */
+export async function followRequestsFrom(db: DB, clientIp: string, since: Date) {
+  const row = await db
+    .selectFrom('follow_requests')
+    .select((eb) => [eb.fn.countAll<number>().as('count'), eb.fn.min('requested_at').as('first')])
+    .where('client_ip', '=', clientIp)
+    .where('requested_at', '>', since)
+    .executeTakeFirstOrThrow();
+  return { count: Number(row.count), first: row.first as Date | null };
+}
+
+/** Confirmation mails sent to this address since `since`, for one trial or for all. */
+export async function confirmationsSentTo(
+  db: DB,
+  email: string,
+  since: Date,
+  trialId?: string,
+): Promise<number> {
+  let query = db
+    .selectFrom('follow_requests')
+    .select((eb) => eb.fn.countAll<number>().as('count'))
+    .where('email', '=', email)
+    .where('mailed', '=', true)
+    .where('requested_at', '>', since);
+  if (trialId) query = query.where('trial_id', '=', trialId);
+  return Number((await query.executeTakeFirstOrThrow()).count);
+}
+
+export function recordFollowRequest(
+  db: DB,
+  values: { trialId: string; email: string; clientIp: string; mailed: boolean },
+) {
+  return db
+    .insertInto('follow_requests')
+    .values({
+      trial_id: values.trialId,
+      email: values.email,
+      client_ip: values.clientIp,
+      mailed: values.mailed,
+    })
+    .execute();
+}
+
+export function forgetFollowRequestsBefore(db: DB, before: Date) {
+  return db.deleteFrom('follow_requests').where('requested_at', '<', before).execute();
+}

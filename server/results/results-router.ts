@@ -119,15 +119,12 @@ export function publicResultsRouter(deps: Deps) {
   );
   router.post(
     '/:slug/followers',
-    endpoint(
-      { params: resultSlugParams, body: followBody },
-      async ({ params, body }, _req, res) => {
-        await service.follow(r, params.slug, body.email);
-        res
-          .status(202)
-          .json({ message: 'If the address can receive mail, a confirmation link is on its way.' });
-      },
-    ),
+    endpoint({ params: resultSlugParams, body: followBody }, async ({ params, body }, req, res) => {
+      await service.follow(r, params.slug, body.email, req.ip ?? req.socket.remoteAddress ?? '');
+      res
+        .status(202)
+        .json({ message: 'If the address can receive mail, a confirmation link is on its way.' });
+    }),
   );
   router.get(
     '/:slug/v/:version',

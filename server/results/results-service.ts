@@ -210,29 +210,74 @@ export async function publicVersions(db: DB, slug: string) {
 
 /* Followers: double opt-in, one-click unsubscribe. */
 
-export async function follow(deps: ResultsDeps, slug: string, email: string) {
+/**
+ * Limits on asking to follow (common practice, no source): anyone may ask, so the form must not
+ * become a way to mail strangers. Per caller address: a few requests an hour. Per recipient:
+ * one pending confirmation per trial per hour, and a few confirmations a day in all.
+ */
+export const followLimits = {
+  requestsPerAddressPerHour: 10,
+  confirmationsPerRecipientPerDay: 3,
+  pendingConfirmationMs: 60 * 60 * 1000,
+} as const;
+const HOUR_MS = 60 * 60 * 1000;
+const DAY_MS = 24 * HOUR_MS;
+
+/**
+ * Asks `email` to confirm following the trial. The caller always gets the same neutral answer
+ * (whether the address already follows, has a confirmation pending, or has had its share of
+ * mail today), except when the caller's own address is over its limit.
+ */
+export async function follow(deps: ResultsDeps, slug: string, email: string, clientIp: string) {
   const trial = await publishedTrial(deps.db, slug);
   const confirm = newToken();
-  const existing = await repo.findFollower(deps.db, trial.id, email);
-  // The same answer whether or not the address already follows, so the form reveals nothing.
-  if (existing?.confirmed_at && !existing.unsubscribed_at) return;
-  if (existing) {
-    await deps.db
-      .updateTable('result_followers')
-      .set({ confirm_token_hash: confirm.hash, confirmed_at: null, unsubscribed_at: null })
-      .where('id', '=', existing.id)
-      .execute();
-  } else {
-    await deps.db
-      .insertInto('result_followers')
-      .values({
-        trial_id: trial.id,
+  const now = Date.now();
+  const outcome = await deps.db.transaction().execute(async (trx) => {
+    await repo.lockFollowRequests(trx, clientIp, email);
+    const fromCaller = await repo.followRequestsFrom(trx, clientIp, new Date(now - HOUR_MS));
+    if (fromCaller.count >= followLimits.requestsPerAddressPerHour) {
+      const freesAt = (fromCaller.first?.getTime() ?? now) + HOUR_MS;
+      return { retryAfterSeconds: Math.max(1, Math.ceil((freesAt - now) / 1000)) } as const;
+    }
+    await repo.forgetFollowRequestsBefore(trx, new Date(now - DAY_MS));
+    const existing = await repo.findFollower(trx, trial.id, email);
+    const mayMail =
+      !(existing?.confirmed_at && !existing.unsubscribed_at) &&
+      (await repo.confirmationsSentTo(
+        trx,
         email,
-        confirm_token_hash: confirm.hash,
-        unsubscribe_token: newToken().token,
-      })
-      .execute();
+        new Date(now - followLimits.pendingConfirmationMs),
+        trial.id,
+      )) === 0 &&
+      (await repo.confirmationsSentTo(trx, email, new Date(now - DAY_MS))) <
+        followLimits.confirmationsPerRecipientPerDay;
+    await repo.recordFollowRequest(trx, { trialId: trial.id, email, clientIp, mailed: mayMail });
+    if (!mayMail) return { mail: false } as const;
+    if (existing) {
+      await trx
+        .updateTable('result_followers')
+        .set({ confirm_token_hash: confirm.hash, confirmed_at: null, unsubscribed_at: null })
+        .where('id', '=', existing.id)
+        .execute();
+    } else {
+      await trx
+        .insertInto('result_followers')
+        .values({
+          trial_id: trial.id,
+          email,
+          confirm_token_hash: confirm.hash,
+          unsubscribe_token: newToken().token,
+        })
+        .execute();
+    }
+    return { mail: true } as const;
+  });
+  if ('retryAfterSeconds' in outcome) {
+    throw new AppError('rate_limited', 'Too many requests to follow from here. Try again later.', {
+      retryAfterSeconds: outcome.retryAfterSeconds,
+    });
   }
+  if (!outcome.mail) return;
   await deps.mailer.send(
     composeMail({
       to: email,
