@@ -347,6 +347,13 @@ export interface FollowRequestsTable {
   requested_at: Timestamp;
 }
 
+export interface SignInThrottlesTable {
+  email: string;
+  failures: number;
+  last_failure_at: Timestamp;
+  blocked_until: Timestamp | null;
+}
+
 export interface DailyWeatherTable extends Written {
   id: Generated<string>;
   trial_id: string;
@@ -380,6 +387,7 @@ export interface Database {
   result_versions: ResultVersionsTable;
   result_followers: ResultFollowersTable;
   follow_requests: FollowRequestsTable;
+  sign_in_throttles: SignInThrottlesTable;
   invitations: InvitationsTable;
   invitation_sites: InvitationSitesTable;
   audit_log: AuditLogTable;
@@ -730,4 +738,5 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     mailed: true,
     requested_at: true,
   },
+  sign_in_throttles: { email: true, failures: true, last_failure_at: true, blocked_until: true },
 };

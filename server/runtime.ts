@@ -60,7 +60,7 @@ export function createRuntime(opts: RuntimeOptions) {
   const db = createDb(pool);
   const mailer = opts.mailer ?? createSmtpMailer(env, logger);
   const baseUrl = opts.baseUrl ?? env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
-  const auth = createAuth({ pool, env, mailer, logger, baseUrl, secret: authSecret(env) });
+  const auth = createAuth({ pool, db, env, mailer, logger, baseUrl, secret: authSecret(env) });
   const deps: AppDeps = {
     db,
     env,

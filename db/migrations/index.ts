@@ -12,6 +12,7 @@ import * as dailyWeather from './2026-12-01T0300-daily-weather';
 import * as photoFiles from './2026-12-01T0400-photo-files';
 import * as results from './2026-12-01T0500-results';
 import * as followRequests from './2026-12-02T1400-follow-requests';
+import * as signInThrottles from './2026-12-02T1410-sign-in-throttles';
 
 export const migrations: Record<string, Migration> = {
   '2026-12-01T0001-accounts': accounts,
@@ -23,4 +24,5 @@ export const migrations: Record<string, Migration> = {
   '2026-12-01T0400-photo-files': photoFiles,
   '2026-12-01T0500-results': results,
   '2026-12-02T1400-follow-requests': followRequests,
+  '2026-12-02T1410-sign-in-throttles': signInThrottles,
 };

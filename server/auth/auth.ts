@@ -4,15 +4,19 @@ import type { z } from 'zod';
 import { personNameSchema, signInBody, signUpBody } from '../../common/contracts/auth';
 import type pg from 'pg';
 import type { Logger } from 'pino';
+import type { DB } from '../../db/database';
 import type { Env } from '../env';
 import { composeMail, type Mailer } from '../mail/mailer';
 import { authRateLimitTable, authSchemaOptions } from './auth-schema';
+import { admitSignIn, clearSignInThrottle, waitInWords } from './sign-in-throttle';
 
 /** The header the app sets from the connection (or a trusted loopback proxy) for rate limits. */
 export const CLIENT_IP_HEADER = 'x-rowtally-client-ip';
 
 export interface AuthDeps {
   pool: pg.Pool;
+  /** The same database through Kysely, for our own sign-in throttling. */
+  db: DB;
   env: Env;
   mailer: Mailer;
   logger: Logger;
@@ -163,6 +167,28 @@ export function createAuth(deps: AuthDeps) {
     hooks: {
       before: createAuthMiddleware(async (ctx) => {
         checkBody(ctx.path, ctx.body);
+        if (ctx.path === '/sign-in/email') {
+          const verdict = await admitSignIn(deps.db, String(ctx.body.email));
+          if (!verdict.admitted)
+            throw new APIError(
+              'TOO_MANY_REQUESTS',
+              {
+                code: 'SIGN_IN_DELAYED',
+                message: `Too many wrong passwords for this account. Wait ${waitInWords(verdict.retryAfterSeconds)} and try again.`,
+                retryAfterSeconds: verdict.retryAfterSeconds,
+              },
+              { 'Retry-After': String(verdict.retryAfterSeconds) },
+            );
+        }
+      }),
+      after: createAuthMiddleware(async (ctx) => {
+        if (ctx.path !== '/sign-in/email') return;
+        const returned = ctx.context.returned;
+        // The right password (even for an address still to be confirmed) clears the count.
+        const rightPassword =
+          !(returned instanceof APIError) ||
+          (returned.body as { code?: string } | undefined)?.code === 'EMAIL_NOT_VERIFIED';
+        if (rightPassword) await clearSignInThrottle(deps.db, String(ctx.body.email));
       }),
     },
     logger: {

@@ -17,6 +17,9 @@ export function authErrorMessage(
       return 'This link has expired or was already used. Ask for a new one.';
     case 'INVALID_PASSWORD':
       return 'Your current password is not right.';
+    case 'SIGN_IN_DELAYED':
+      // Says how long to wait for this account (the server's own wording).
+      return error.message ?? 'Too many wrong passwords for this account. Wait and try again.';
   }
   if (error.status === 429) return 'Too many tries from here. Wait a minute and try again.';
   if (error.status === 0 || error.status === undefined)

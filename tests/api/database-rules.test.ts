@@ -54,6 +54,7 @@ describe('migrations', () => {
     const logger = pino({ level: 'silent' });
     const auth = createAuth({
       pool: d.pool,
+      db: d.db,
       env,
       logger,
       baseUrl: 'http://127.0.0.1:1',
