@@ -11,6 +11,7 @@ import {
   type LiveApp,
   screenshot,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 
 let live: LiveApp;
@@ -57,6 +58,7 @@ describe('analysis screens', () => {
       // Tables scroll inside their own box; the page does not scroll sideways.
       const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
       expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
+      await expectNoSeriousA11yViolations(page);
       await screenshot(page, `analysis-trial-${viewport.width}`);
 
       // Choosing another trait by keyboard recomputes.
@@ -94,6 +96,7 @@ describe('analysis screens', () => {
     await page.getByRole('button', { name: 'Download results (JSON)' }).waitFor();
     const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
     expect(scrollWidth).toBeLessThanOrEqual(360);
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'analysis-spreadsheet-360');
     expect(errors).toEqual([]);
     await context.close();

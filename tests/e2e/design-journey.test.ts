@@ -12,6 +12,7 @@ import {
   screenshot,
   screenshotDir,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 
 let live: LiveApp;
@@ -114,6 +115,7 @@ async function journey(page: Page, title: string, tag: string) {
       .allInnerTexts();
     expect(codes.sort()).toEqual(['AT', 'BD', 'CG', 'DR', 'EL']);
   }
+  await expectNoSeriousA11yViolations(page);
   await screenshot(page, `design-layout-${tag}`);
 
   await page.getByRole('link', { name: 'Planting map' }).first().click();
@@ -127,6 +129,7 @@ async function journey(page: Page, title: string, tag: string) {
   expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
     viewport.width,
   );
+  await expectNoSeriousA11yViolations(page);
   await screenshot(page, `design-map-${tag}`);
 
   // the print view: one sheet, with the drawing inside the printable box
@@ -135,6 +138,7 @@ async function journey(page: Page, title: string, tag: string) {
   const printWidthMm = Number(await map.getAttribute('data-print-width-mm'));
   const printedPx = (await map.boundingBox())!.width;
   expect(printedPx).toBeCloseTo((printWidthMm / 25.4) * 96, 0);
+  await expectNoSeriousA11yViolations(page);
   await screenshot(page, `design-map-print-${tag}`);
   await page.emulateMedia({ media: 'screen' });
   fs.mkdirSync(screenshotDir, { recursive: true });
@@ -164,6 +168,7 @@ async function journey(page: Page, title: string, tag: string) {
   await page.getByRole('complementary', { name: /Field work in heat/ }).waitFor();
   await page.getByRole('complementary', { name: /Spiny or irritating plants/ }).waitFor();
   await page.emulateMedia({ media: 'print' });
+  await expectNoSeriousA11yViolations(page);
   await screenshot(page, `design-field-sheet-print-${tag}`);
   await page.emulateMedia({ media: 'screen' });
 

@@ -12,6 +12,7 @@ import {
   type LiveApp,
   screenshot,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 import { createUser, type TestUser } from '../support/test-app';
 
@@ -131,6 +132,7 @@ describe('the field log on a phone', () => {
     ).toBe(0);
     const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
     expect(scrollWidth).toBeLessThanOrEqual(360);
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'field-log-offline-360');
 
     // Each entry's first answer is lost after the server has stored it: the phone sends again.
@@ -167,6 +169,7 @@ describe('the field log on a phone', () => {
         created_by: grower.id,
       })),
     );
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'field-log-saved-360');
     // The browser reports the connection failures we caused; nothing else may go wrong.
     expect(errors.filter((e) => !/Failed to load resource|net::ERR_/.test(e))).toEqual([]);

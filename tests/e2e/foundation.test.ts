@@ -8,6 +8,7 @@ import {
   type LiveApp,
   screenshot,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 
 let live: LiveApp;
@@ -38,6 +39,7 @@ describe('the built app in a real browser', () => {
       await expect(page.getByRole('cell', { name: 'Mossbank Long' }).count()).resolves.toBe(1);
       const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
       expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
+      await expectNoSeriousA11yViolations(page);
       await screenshot(page, `demo-trial-${viewport.width}`);
       expect(errors).toEqual([]);
       await context.close();
@@ -50,6 +52,7 @@ describe('the built app in a real browser', () => {
     await page.goto('/no/such/page');
     await page.getByRole('heading', { name: 'Nothing grows here' }).waitFor();
     await page.getByRole('link', { name: 'Sign in' }).first().waitFor();
+    await expectNoSeriousA11yViolations(page);
     await context.close();
   });
 });

@@ -14,6 +14,7 @@ import {
   type LiveApp,
   screenshot,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 
 let live: LiveApp;
@@ -54,6 +55,7 @@ describe('inviting a grower', () => {
       .waitFor();
     await leadPage.getByRole('heading', { name: 'Open invitations' }).waitFor();
     await leadPage.getByText(inviteeEmail, { exact: true }).waitFor();
+    await expectNoSeriousA11yViolations(leadPage);
     await screenshot(leadPage, 'members-after-invite-1280');
     expect(leadErrors).toEqual([]);
     await leadContext.close();
@@ -103,6 +105,7 @@ describe('inviting a grower', () => {
     });
     const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
     expect(scrollWidth).toBeLessThanOrEqual(360);
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'grower-joined-360');
 
     // The link worked once.
@@ -156,6 +159,7 @@ describe('protected pages', () => {
     await page.getByRole('status').filter({ hasText: 'Saved.' }).waitFor();
     const me = await page.evaluate(async () => (await fetch('/api/me')).json());
     expect(me.unitSystem).toBe('us');
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'account-360');
 
     await page.goto('/sign-out');

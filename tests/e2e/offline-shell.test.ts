@@ -12,6 +12,7 @@ import {
   openBrowserSuite,
   type LiveApp,
   screenshot,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 
 const SLUG = 'larkhaven-okra-2026';
@@ -67,6 +68,7 @@ describe('the field log with no signal', () => {
     await page.getByLabel(/^Mass \(g\)$/).fill('240');
     await page.getByRole('button', { name: 'Save and next plot' }).click();
     await page.getByTestId('outbox-summary').getByText('1 waiting').waitFor();
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'field-log-reloaded-offline-360');
     expect(await harvestCount()).toBe(before);
 

@@ -13,6 +13,7 @@ import {
   type LiveApp,
   screenshot,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 import { phonePhoto } from '../api/photos-fixtures';
 
@@ -106,6 +107,7 @@ describe('photos in a real browser', () => {
     const midway = Number(await batch.getAttribute('value'));
     expect(midway).toBeGreaterThan(0);
     expect(midway).toBeLessThan(100);
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'photos-upload-progress-360');
     await page.getByText('All photos: 3 of 3 uploaded').waitFor({ timeout: 120_000 });
     expect(await batch.getAttribute('value')).toBe('100');
@@ -144,6 +146,7 @@ describe('photos in a real browser', () => {
     const column = page.getByRole('list', { name: `Photos of ${first!.name}` });
     await expect.poll(() => column.getByRole('listitem').count()).toBe(3);
     await page.getByText('No photos this week.').waitFor();
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'photos-side-by-side-360');
     expect(errors).toEqual([]);
     await context.close();

@@ -15,6 +15,7 @@ import {
   type LiveApp,
   screenshot,
   watchErrors,
+  expectNoSeriousA11yViolations,
 } from '../support/browser';
 import { mintSessionCookie } from '../support/test-app';
 
@@ -66,6 +67,7 @@ describe('season journey', () => {
     // The table reads the analysis API: Mossbank Long's marketable yield cell carries a letter group.
     await page.getByRole('cell', { name: 'Mossbank Long' }).waitFor();
     await page.getByText('Cumulative marketable harvest per plot').waitFor();
+    await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'compare-desktop');
 
     await page.goto(`/t/${SLUG}/results`);
@@ -106,6 +108,7 @@ describe('season journey', () => {
     expect(shell.text).toContain(
       '<meta property="og:title" content="Larkhaven heirloom okra, three gardens — results" />',
     );
+    await expectNoSeriousA11yViolations(phone);
     await screenshot(phone, 'public-sheet-360');
 
     await phone.emulateMedia({ media: 'print' });

@@ -6,6 +6,7 @@ import {
   closeBrowserSuite,
   contextAs,
   openBrowserSuite,
+  expectNoSeriousA11yViolations,
   type LiveApp,
   watchErrors,
 } from '../support/browser';
@@ -37,6 +38,7 @@ describe('typing in one day of weather', () => {
     await page.getByLabel('Rain (in)').fill('0.5');
     await page.getByRole('button', { name: 'Save the day' }).click();
     await page.getByText('Saved 2026-10-02.').waitFor();
+    await expectNoSeriousA11yViolations(page);
     const row = await live.db
       .selectFrom('daily_weather')
       .select(['tmin_c', 'tmax_c', 'rain_mm'])

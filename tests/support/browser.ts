@@ -1,5 +1,6 @@
 /** Debian's Chromium driven by playwright-core, against the real app on a loopback port. */
 import fs from 'node:fs';
+import { createRequire } from 'node:module';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import { type Browser, type BrowserContext, chromium, type Page } from 'playwright-core';
@@ -111,4 +112,52 @@ export async function closeBrowserSuite(
 ): Promise<void> {
   await browser?.close();
   await live?.stop();
+}
+
+// axe-core's engine, injected into a page by evaluation (Playwright's evaluate is not subject to
+// the app's Content-Security-Policy, which refuses inline scripts).
+const axeSource = fs.readFileSync(
+  createRequire(import.meta.url).resolve('axe-core/axe.min.js'),
+  'utf8',
+);
+
+interface AxeViolation {
+  id: string;
+  impact?: string | null;
+  help: string;
+  helpUrl: string;
+  nodes: { target: unknown[]; failureSummary?: string }[];
+}
+
+/**
+ * Runs axe-core's WCAG 2.x A/AA rules and its best practices on the page as it is now and fails
+ * on any violation that axe rates serious or critical, listing each rule with the elements it hit.
+ */
+export async function expectNoSeriousA11yViolations(page: Page, where = page.url()): Promise<void> {
+  const loaded = await page.evaluate(() => 'axe' in window);
+  if (!loaded) await page.evaluate(axeSource);
+  const violations = (await page.evaluate(async () => {
+    const axe = (
+      window as unknown as {
+        axe: { run: (c: Document, o: object) => Promise<{ violations: unknown[] }> };
+      }
+    ).axe;
+    const result = await axe.run(document, { resultTypes: ['violations'] });
+    return result.violations;
+  })) as AxeViolation[];
+  const serious = violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+  if (serious.length === 0) return;
+  const list = serious
+    .map((v) => {
+      const targets = v.nodes
+        .slice(0, 5)
+        .map((n) => `    - ${n.target.map(String).join(' ')}`)
+        .join('\n');
+      const more = v.nodes.length > 5 ? `\n    … and ${v.nodes.length - 5} more` : '';
+      return `  [${v.impact}] ${v.id}: ${v.help} (${v.nodes.length} element(s))\n${targets}${more}`;
+    })
+    .join('\n');
+  throw new Error(
+    `Accessibility: ${serious.length} serious or critical rule(s) broken on ${where}\n${list}`,
+  );
 }

@@ -50,7 +50,9 @@ function UserMenu() {
         >
           {me.name.slice(0, 1).toUpperCase()}
         </span>
-        <span className="hidden sm:inline">{me.name}</span>
+        {/* On a phone only the initial shows: the words stay for screen readers. */}
+        <span className="sr-only">Account menu: </span>
+        <span className="sr-only sm:not-sr-only">{me.name}</span>
       </summary>
       <div className="absolute right-0 z-20 mt-1 w-56 rounded-lg border border-leaf-100 bg-white p-2 text-ink shadow-lg">
         <p className="truncate px-2 py-1 text-sm text-loam-700">{me.email}</p>

@@ -1,5 +1,6 @@
 import type { AnalysisResult } from '@common/contracts/analysis';
 import { type DisplayUnit, formatF, formatNumber, formatP } from '@/lib/display-units';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const designWords = {
   crd: 'completely randomized',
@@ -16,7 +17,7 @@ const sourceWords: Record<string, string> = {
   total: 'Total',
 };
 
-const tableWrap = 'mt-2 overflow-x-auto rounded-lg bg-white shadow-sm';
+const tableWrap = 'mt-2 rounded-lg bg-white shadow-sm';
 const th = 'p-2 font-semibold';
 const td = 'p-2 tabular-nums';
 
@@ -67,7 +68,7 @@ export function AnovaTable({
 }) {
   const f2 = unit.factor * unit.factor;
   return (
-    <div className={tableWrap}>
+    <ScrollRegion label={`Analysis of variance: ${title}`} className={tableWrap}>
       <table className="w-full min-w-[36rem] text-left text-sm">
         <caption className="p-2 text-left font-semibold text-leaf-900">
           Analysis of variance: {title}
@@ -131,7 +132,7 @@ export function AnovaTable({
         </tbody>
       </table>
       <p className="px-2 pb-2 text-xs text-loam-700">* p below α = {result.alpha}</p>
-    </div>
+    </ScrollRegion>
   );
 }
 
@@ -148,7 +149,7 @@ export function MeansTable({
 }) {
   const test = result.letters === 'hsd' ? 'Tukey HSD' : 'Fisher LSD';
   return (
-    <div className={tableWrap}>
+    <ScrollRegion label={`Entry means: ${title}`} className={tableWrap}>
       <table className="w-full min-w-[34rem] text-left text-sm">
         <caption className="p-2 text-left font-semibold text-leaf-900">
           Entry means: {title} ({unit.label})
@@ -204,7 +205,7 @@ export function MeansTable({
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 }
 

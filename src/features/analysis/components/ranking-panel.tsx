@@ -4,6 +4,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useRanking } from '../api/get-ranking';
 import { formatNumber, formatP } from '@/lib/display-units';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };
 
@@ -79,7 +80,7 @@ export function RankingPanel({ trial, alpha }: { trial: TrialWithPermissions; al
               ))}
             </ul>
           ) : null}
-          <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+          <ScrollRegion label="Weighted index" className="mt-2 rounded-lg bg-white shadow-sm">
             <table className="w-full min-w-[40rem] text-left text-sm">
               <caption className="p-2 text-left font-semibold text-leaf-900">
                 Weighted index and each trait’s contribution (z-score units)
@@ -132,7 +133,7 @@ export function RankingPanel({ trial, alpha }: { trial: TrialWithPermissions; al
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
         </>
       ) : null}
     </section>

@@ -7,6 +7,7 @@ import { useSeason } from '../api/get-season';
 import { cToF, formatDegreeDays, formatNumber } from '@/lib/display-units';
 import { WeatherDayForm } from './weather-day-form';
 import { WeatherImport } from './weather-import';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 export function SeasonPanel({
   slug,
@@ -37,7 +38,10 @@ export function SeasonPanel({
             {data.thresholds.source}). Hot day: a high of {t(data.hotDayC)} or more (
             {data.hotDaySource}).
           </p>
-          <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+          <ScrollRegion
+            label="Degree days, hot days and water per site"
+            className="mt-2 rounded-lg bg-white shadow-sm"
+          >
             <table className="w-full min-w-[40rem] text-left text-sm">
               <caption className="p-2 text-left font-semibold text-leaf-900">
                 Degree days, hot days and water received per site
@@ -94,14 +98,14 @@ export function SeasonPanel({
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
           {data.sites.map((s) =>
             s.harvests.length > 0 ? (
               <details key={s.siteId} className="mt-2 rounded-lg bg-white p-2 shadow-sm">
                 <summary className="min-h-11 cursor-pointer py-2 font-semibold">
                   {s.siteName}: harvests against degree days and water
                 </summary>
-                <div className="overflow-x-auto">
+                <ScrollRegion label={`${s.siteName}: harvests against degree days and water`}>
                   <table className="w-full min-w-[32rem] text-left text-sm">
                     <caption className="sr-only">
                       Harvest dates at {s.siteName} with degree days and water to date
@@ -143,7 +147,7 @@ export function SeasonPanel({
                       ))}
                     </tbody>
                   </table>
-                </div>
+                </ScrollRegion>
                 <p className="mt-1 text-xs text-loam-700">
                   {formatNumber(s.weeks.length)} weeks of records.
                 </p>

@@ -23,6 +23,7 @@ import { displayUnit, formatNumber } from '@/lib/display-units';
 import { downloadCsv, downloadJson } from '../components/download';
 import { RankingPanel } from '../components/ranking-panel';
 import { SeasonPanel } from '../components/season-panel';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const select = 'mt-1 min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-2';
 
@@ -186,7 +187,7 @@ export function Component() {
             <summary className="min-h-11 cursor-pointer py-2 font-semibold">
               The {result.plotValues.length} plot values used
             </summary>
-            <div className="overflow-x-auto">
+            <ScrollRegion label="Plot values used">
               <table className="w-full min-w-[28rem] text-left text-sm">
                 <caption className="sr-only">Plot values for {result.traitLabel}</caption>
                 <thead className="bg-leaf-50">
@@ -224,7 +225,7 @@ export function Component() {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollRegion>
           </details>
           <div className="mt-3 flex flex-wrap gap-2">
             <Button

@@ -8,6 +8,7 @@ import { useUnitSystem } from '@/lib/session';
 import { DesignPage } from '../components/design-page';
 import { defaultPaper, PaperPicker, PrintPageStyle } from '../components/print-page';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function FieldSheet({ design }: { design: Design }) {
   const system = useUnitSystem();
@@ -34,7 +35,7 @@ function FieldSheet({ design }: { design: Design }) {
           Recorder: ____________________ Date: ____________ · {plots.length} plots in field order
         </p>
       </header>
-      <div className="overflow-x-auto">
+      <ScrollRegion label="Field sheet">
         <table className="field-sheet w-full min-w-[40rem] border-collapse text-left text-sm">
           <thead>
             <tr className="border-b-2 border-ink">
@@ -65,7 +66,7 @@ function FieldSheet({ design }: { design: Design }) {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <div className="grid gap-2 sm:grid-cols-2 print:grid-cols-2">
         <CautionNote id="field-heat" />
         {spiny ? <CautionNote id="spiny-crop" /> : null}

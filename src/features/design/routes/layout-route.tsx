@@ -10,6 +10,7 @@ import { DesignPage } from '../components/design-page';
 import { fieldErrors, FormError, numberOrNull, TextField } from '../components/form-fields';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
 import { lengthInput, rowLengthUnit, spacingUnit } from '../components/units';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function LayoutForm({ design, slug }: { design: Design; slug: string }) {
   const system = useUnitSystem();
@@ -203,7 +204,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
           Field sheet
         </Link>
       </p>
-      <div className="overflow-x-auto rounded-lg bg-white shadow-sm">
+      <ScrollRegion label="Plots in field order" className="rounded-lg bg-white shadow-sm">
         <table className="w-full text-left text-sm">
           <caption className="sr-only">Plots of the site in field order</caption>
           <thead className="bg-leaf-50 text-leaf-900">
@@ -232,7 +233,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <p className="text-xs text-loam-700">
         Plants planned per plot = rows × whole in-row spacings that fit in the row length.
       </p>

@@ -8,6 +8,7 @@ import { DesignPage } from '../components/design-page';
 import { entryFill, mapExtent, PlantingMap } from '../components/planting-map';
 import { defaultPaper, PaperPicker, PrintPageStyle } from '../components/print-page';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 function MapView({ design, slug }: { design: Design; slug: string }) {
   const system = useUnitSystem();
@@ -49,9 +50,9 @@ function MapView({ design, slug }: { design: Design; slug: string }) {
           position from the left
         </p>
       </header>
-      <div className="print-map-frame overflow-x-auto">
+      <ScrollRegion label="Planting map" className="print-map-frame">
         <PlantingMap design={design} siteId={siteId} system={system} paper={paper} />
-      </div>
+      </ScrollRegion>
       <section aria-labelledby="legend-heading">
         <h3 id="legend-heading" className="font-semibold text-leaf-900">
           Legend

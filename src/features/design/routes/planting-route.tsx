@@ -5,6 +5,7 @@ import { useRecordPlanting } from '../api/layout';
 import { DesignPage } from '../components/design-page';
 import { fieldErrors, FormError, numberOrNull } from '../components/form-fields';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 type Row = { plantsSet: string; plantsSurviving: string; gaps: string; note: string };
 const rowOf = (p: DesignPlot): Row => ({
@@ -77,7 +78,7 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
         row).
       </p>
       <fieldset disabled={!design.canEdit}>
-        <div className="overflow-x-auto rounded-lg bg-white shadow-sm">
+        <ScrollRegion label="What was planted per plot" className="rounded-lg bg-white shadow-sm">
           <table className="w-full min-w-[40rem] text-left text-sm">
             <thead className="bg-leaf-50 text-leaf-900">
               <tr>
@@ -128,7 +129,7 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
               })}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
       </fieldset>
       <FormError
         error={

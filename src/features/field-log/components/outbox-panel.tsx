@@ -48,7 +48,11 @@ export function OutboxPanel({
         {count('refused')} refused
       </p>
       {items.length ? (
-        <ul className="mt-2 max-h-72 divide-y divide-leaf-50 overflow-y-auto">
+        <ul
+          aria-label="Entries on this device"
+          tabIndex={0}
+          className="mt-2 max-h-72 divide-y divide-leaf-50 overflow-y-auto"
+        >
           {items.map((item) => (
             <li key={item.id} className="flex flex-wrap items-center gap-2 py-2 text-sm">
               <span

@@ -96,7 +96,6 @@ export function PlotPicker({
                   key={p.plotId}
                   type="button"
                   aria-pressed={p.plotId === currentId}
-                  aria-label={`Plot ${p.plotNumber}, ${p.entryName}`}
                   onClick={() => onPick(p.plotId)}
                   className={`min-h-11 min-w-11 shrink-0 rounded-md border px-1 text-xs leading-tight ${
                     p.plotId === currentId
@@ -104,9 +103,11 @@ export function PlotPicker({
                       : 'border-leaf-300 bg-white text-leaf-900'
                   }`}
                 >
+                  <span className="sr-only">Plot </span>
                   {p.plotNumber}
                   <br />
                   <span className="font-mono">{p.entryCode}</span>
+                  <span className="sr-only">, {p.entryName}</span>
                 </button>
               ))}
           </div>

@@ -12,6 +12,7 @@ import { useFieldEvents } from '../api/get-field-events';
 import { useOutbox } from '../api/use-outbox';
 import { FieldEventForm } from '../components/field-event-form';
 import { OutboxPanel } from '../components/outbox-panel';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const kindWord: Record<FieldEvent['kind'], string> = {
   irrigation: 'Irrigation',
@@ -132,7 +133,7 @@ export function Component() {
                 No rain or irrigation recorded at this site yet.
               </p>
             ) : (
-              <div className="overflow-x-auto">
+              <ScrollRegion label="Water received per week">
                 <table className="mt-2 w-full text-left text-sm">
                   <caption className="sr-only">
                     Rain plus irrigation depth per week (weeks start on Monday)
@@ -158,7 +159,7 @@ export function Component() {
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </ScrollRegion>
             )}
           </section>
           <section aria-labelledby="timeline-heading" className="rounded-xl bg-white p-3 shadow-sm">

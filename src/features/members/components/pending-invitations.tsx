@@ -59,7 +59,7 @@ export function PendingInvitations({
                   variant="secondary"
                   disabled={resend.isPending}
                   onClick={() => resend.mutate(inv.id)}
-                  aria-label={`Send the invitation to ${inv.email} again`}
+                  aria-label={`Send again: the invitation to ${inv.email}`}
                 >
                   Send again
                 </Button>

@@ -7,6 +7,7 @@ import { conflictOf, useDeleteRecord, useUndoDelete } from '../api/record-api';
 import { ConflictNotice } from './conflict-notice';
 import { RecordsNav } from './records-nav';
 import { UndoToast } from './undo-toast';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 /** The input style of a cell being edited in place. */
 export const editCell = 'min-h-11 w-full rounded border border-leaf-300 bg-white px-2';
@@ -255,7 +256,9 @@ export function RecordLogShell<R extends { id: string }>({
       ) : query.error ? (
         <ErrorPanel error={query.error} />
       ) : (
-        <div className="overflow-x-auto rounded-lg bg-white shadow-sm">{children}</div>
+        <ScrollRegion label={heading} className="rounded-lg bg-white shadow-sm">
+          {children}
+        </ScrollRegion>
       )}
       {deleted ? (
         <UndoToast

@@ -6,6 +6,7 @@ import { useTrial } from '@/lib/trial';
 import { useCompleteness } from '../api/record-api';
 import { FilterBar, FilterInput, SiteFilter } from '../components/record-log';
 import { RecordsNav } from '../components/records-nav';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const isoDaysAgo = (n: number) => {
   const d = new Date();
@@ -63,7 +64,10 @@ export function Component() {
               ? 'Every plot has every trait recorded in this round.'
               : `${missing} plot × trait cells still missing in this round.`}
           </p>
-          <div className="overflow-x-auto rounded-lg bg-white shadow-sm">
+          <ScrollRegion
+            label="Records per plot and trait"
+            className="rounded-lg bg-white shadow-sm"
+          >
             <table className="w-full text-left text-sm">
               <caption className="sr-only">
                 Records per plot and trait between {from} and {to}
@@ -103,7 +107,7 @@ export function Component() {
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
         </>
       ) : null}
     </article>

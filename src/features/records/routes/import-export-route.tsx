@@ -8,6 +8,7 @@ import { ApiError } from '@/lib/api-client';
 import { useTrial } from '@/lib/trial';
 import { exportUrl, previewImport, useCommitImport } from '../api/record-api';
 import { RecordsNav } from '../components/records-nav';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const downloads = [
   ['harvests', 'Harvests (raw, one row per harvest; mass_g)'],
@@ -187,7 +188,7 @@ export function Component() {
                 {preview.errors.length} problems
               </p>
               {preview.errors.length ? (
-                <div className="overflow-x-auto">
+                <ScrollRegion label="Problems in the file">
                   <table className="w-full text-left text-sm">
                     <caption className="text-left font-semibold text-frost-600">
                       Problems (nothing will be imported until they are fixed)
@@ -209,7 +210,7 @@ export function Component() {
                       ))}
                     </tbody>
                   </table>
-                </div>
+                </ScrollRegion>
               ) : null}
               <div className="max-h-80 overflow-auto">
                 <table className="w-full text-left text-sm">

@@ -9,6 +9,7 @@ import {
   formatTemperature,
 } from '@/lib/display-units';
 import { useUnitSystem } from '@/lib/session';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const directionText = {
   higher: 'higher is better',
@@ -65,7 +66,7 @@ export function SheetView({
         <h2 id="ranking-heading" className="text-xl font-semibold text-leaf-900">
           Ranking
         </h2>
-        <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+        <ScrollRegion label="Ranking" className="mt-2 rounded-lg bg-white shadow-sm">
           <table className="w-full min-w-[20rem] text-left text-sm">
             <caption className="sr-only">
               Entries ranked by the weighted index across the chosen traits
@@ -108,7 +109,7 @@ export function SheetView({
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
         <p className="mt-1 text-xs text-loam-700">
           Index: weighted mean of each trait's standardised entry means, signed so that better is
           higher. Means followed by the same letter are not significantly different (
@@ -128,7 +129,10 @@ export function SheetView({
               ? `HSD ${formatInUnit(t.hsd.value, du(t))}`
               : `LSD ${formatInUnit(t.lsd.value, du(t))}`}
           </p>
-          <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+          <ScrollRegion
+            label={`${t.label}: entry means`}
+            className="mt-2 rounded-lg bg-white shadow-sm"
+          >
             <table className="w-full min-w-[20rem] text-left text-sm">
               <caption className="sr-only">
                 {t.label}: entry means with standard errors, letter groups and ranks
@@ -169,7 +173,7 @@ export function SheetView({
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollRegion>
           {t.warnings.length ? (
             <ul className="mt-1 list-disc pl-5 text-xs text-pod-700">
               {t.warnings.map((w) => (

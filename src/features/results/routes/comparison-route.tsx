@@ -29,6 +29,7 @@ import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparison';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const palette = [
   '#2f5d3a',
@@ -180,7 +181,7 @@ export function Component() {
       ) : null}
       {loading ? <Spinner label="Analysing the chosen traits…" /> : null}
 
-      <div className="mt-3 overflow-x-auto rounded-lg bg-white shadow-sm">
+      <ScrollRegion label="Entries compared" className="mt-3 rounded-lg bg-white shadow-sm">
         <table className="w-full min-w-[28rem] text-left text-sm">
           <caption className="p-2 text-left text-xs text-loam-700">
             Mean ± SE, letter group (same letter: not significantly different, Tukey's HSD at α =
@@ -231,7 +232,7 @@ export function Component() {
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
 
       <section className="mt-6" aria-labelledby="chart-heading">
         <div className="flex flex-wrap items-end gap-3">

@@ -3,6 +3,7 @@ import { Link, useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const entryTypeLabel = {
   heirloom: 'Heirloom',
@@ -115,7 +116,7 @@ export function Component() {
         <h2 id="entries-heading" className="text-xl font-semibold text-leaf-900">
           Entries
         </h2>
-        <div className="mt-2 overflow-x-auto rounded-lg bg-white shadow-sm">
+        <ScrollRegion label="Entries" className="mt-2 rounded-lg bg-white shadow-sm">
           <table className="w-full min-w-[32rem] text-left text-sm">
             <thead className="bg-leaf-50 text-leaf-900">
               <tr>
@@ -138,7 +139,7 @@ export function Component() {
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
       </section>
 
       <section className="mt-6" aria-labelledby="sites-heading">
