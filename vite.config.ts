@@ -50,11 +50,7 @@ export default defineConfig({
     host: '127.0.0.1',
     port: Number(process.env.VITE_PORT ?? 5173),
     // The API runs beside the dev server; the browser only ever talks to one origin.
-    proxy: {
-      '/api': `http://127.0.0.1:${apiPort}`,
-      '/media': `http://127.0.0.1:${apiPort}`,
-      '/dev/mailbox/api': `http://127.0.0.1:${apiPort}`,
-    },
+    proxy: { '/api': `http://127.0.0.1:${apiPort}` },
   },
   build: { outDir: 'dist/client', sourcemap: true },
 });

@@ -70,13 +70,3 @@ export function formatLength(mm: number, system: UnitSystem, digits = 0): string
 export function formatDepth(mm: number, system: UnitSystem): string {
   return system === 'metric' ? `${fmt(mm, 1)} mm` : `${fmt(mm / MM_PER_INCH, 2)} in`;
 }
-
-export function formatArea(m2: number, system: UnitSystem): string {
-  return system === 'metric' ? `${fmt(m2, 2)} m²` : `${fmt(m2 / (0.3048 * 0.3048), 1)} ft²`;
-}
-
-/** Yield per area: kg/ha or lb/acre. */
-export function formatYieldPerArea(gramsPerM2: number, system: UnitSystem): string {
-  if (system === 'metric') return `${fmt((gramsPerM2 * M2_PER_HECTARE) / 1000, 0)} kg/ha`;
-  return `${fmt((gramsPerM2 * M2_PER_ACRE) / G_PER_POUND, 0)} lb/acre`;
-}

@@ -62,7 +62,6 @@ export const depthFromVolumeMm = (litres: number, areaM2: number) =>
 
 // US customary inputs, converted with the exact definitions in common/units.ts.
 export const gallonsToLitres = (gal: number) => gal * LITRES_PER_US_GALLON;
-export const litresToGallons = (l: number) => l / LITRES_PER_US_GALLON;
 /** Drip tape is often rated in US gallons per hour per 100 ft of tape. */
 export const gphPer100FtToLPerHPerM = (gph: number) =>
   gallonsToLitres(gph) / ((100 * MM_PER_FOOT) / 1000);

@@ -201,11 +201,3 @@ export function markPurged(db: Q, photoId: string) {
     .where('deleted_at', 'is not', null)
     .execute();
 }
-
-export function coverPhotos(db: Q, trialId: string) {
-  return photosQuery(db)
-    .where('p.trial_id', '=', trialId)
-    .where('p.is_cover', '=', true)
-    .where('p.deleted_at', 'is', null)
-    .execute();
-}

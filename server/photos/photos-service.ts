@@ -77,20 +77,6 @@ export function isPhotoPublic(
   return trial.status === 'published' && photo.is_cover && photo.deleted_at === null;
 }
 
-/** The covers of a trial's entries, for the results sheet (public once the trial is published). */
-export async function coverPhotosOf(db: DB, trial: Pick<Trial, 'id' | 'slug'>) {
-  const rows = await repo.coverPhotos(db, trial.id);
-  return rows.map((r) => ({
-    photoId: r.id,
-    entryId: r.entry_id!,
-    caption: r.caption,
-    width: r.display_width,
-    height: r.display_height,
-    thumbUrl: urlOf(trial.slug, r, 'thumb'),
-    displayUrl: urlOf(trial.slug, r, 'display'),
-  }));
-}
-
 function urlOf(slug: string, row: Pick<PhotoRow, 'id' | 'sha256'>, variant: PhotoVariant) {
   // The version in the address changes with the content, so the file can be cached for good.
   return `/api/trials/${slug}/photos/${row.id}/${variant}?v=${(row.sha256 ?? '').slice(0, 12)}`;

@@ -5,7 +5,6 @@
  */
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
-import type { AuditTable } from '../../db/schema';
 import { latestEntry, snapshotAtVersion, writeAudit } from '../audit/audit-repository';
 import { AppError } from '../lib/app-error';
 import {
@@ -164,5 +163,3 @@ export async function mayUndo(db: DB, recordId: string, actor: Actor, now = Date
     now - new Date(last.at).getTime() <= UNDO_WINDOW_MS
   );
 }
-
-export const auditTableOf = (t: RecordTable): AuditTable => t;

@@ -66,12 +66,3 @@ export async function trialParts(db: DB, trialId: string) {
   ]);
   return { sites, entries, traits, tallies };
 }
-
-export function memberRole(db: DB, trialId: string, userId: string) {
-  return db
-    .selectFrom('trial_members')
-    .select('role')
-    .where('trial_id', '=', trialId)
-    .where('user_id', '=', userId)
-    .executeTakeFirst();
-}

@@ -43,15 +43,3 @@ export function describe(values: ArrayLike<number>, offset = 0): Descriptives {
     max: max + offset,
   };
 }
-
-/** Descriptives for every entry code 0 … entries − 1 (codes absent from the data are skipped). */
-export function describeByEntry(
-  y: ArrayLike<number>,
-  entry: ArrayLike<number>,
-  entries: number,
-  offset = 0,
-): (Descriptives | null)[] {
-  const groups: number[][] = Array.from({ length: entries }, () => []);
-  for (let i = 0; i < y.length; i++) groups[entry[i]!]!.push(y[i]!);
-  return groups.map((g) => (g.length ? describe(g, offset) : null));
-}
