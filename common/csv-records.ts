@@ -10,6 +10,7 @@ import {
   type ImportRowError,
   type TraitRule,
 } from './contracts/records';
+import { readDecimal } from './decimal';
 import { type QuantityUnit, toStored } from './units';
 
 export const harvestCsvColumns = [
@@ -97,14 +98,6 @@ export interface CsvCheck<T> {
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const DATE = /^\d{4}-\d{2}-\d{2}$/;
 
-/** Accepts 1234.5 and 1,234.5 (a spreadsheet's thousands separator); refuses anything else. */
-export function parseCsvNumber(text: string): number | null {
-  const t = text.trim().replace(/,(?=\d{3}(\D|$))/g, '');
-  if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return null;
-  const n = Number(t);
-  return Number.isFinite(n) ? n : null;
-}
-
 function checkDate(text: string, today: string): string | null {
   if (!DATE.test(text)) return 'Use a date like 2026-07-14.';
   const d = new Date(`${text}T00:00:00Z`);
@@ -168,7 +161,7 @@ function plotOf(
     return null;
   }
   const numberText = cell('plot_number');
-  const n = parseCsvNumber(numberText);
+  const n = readDecimal(numberText);
   if (n === null || !Number.isInteger(n)) {
     errors.push({ row: rowNo, column: 'plot_number', message: 'Enter the plot number.' });
     return null;
@@ -258,7 +251,7 @@ export function checkHarvestCsv(rows: string[][], lookups: CsvLookups): CsvCheck
     const harvestedOn = cell('harvested_on');
     const dateProblem = checkDate(harvestedOn, today);
     if (dateProblem) errors.push({ row: rowNo, column: 'harvested_on', message: dateProblem });
-    const fruitCount = parseCsvNumber(cell('fruit_count'));
+    const fruitCount = readDecimal(cell('fruit_count'));
     if (fruitCount === null)
       errors.push({ row: rowNo, column: 'fruit_count', message: 'Enter a whole number.' });
     else if (!Number.isInteger(fruitCount) || fruitCount < 0)
@@ -267,7 +260,7 @@ export function checkHarvestCsv(rows: string[][], lookups: CsvLookups): CsvCheck
         column: 'fruit_count',
         message: 'The count must be a whole number, 0 or more.',
       });
-    const mass = parseCsvNumber(cell(massName));
+    const mass = readDecimal(cell(massName));
     if (mass === null)
       errors.push({ row: rowNo, column: massName, message: 'Enter the mass as a number.' });
     else if (mass < 0)
@@ -332,7 +325,7 @@ export function checkObservationCsv(
     if (dateProblem) errors.push({ row: rowNo, column: 'observed_on', message: dateProblem });
     let plantNumber: number | null = null;
     if (cell('plant_number')) {
-      plantNumber = parseCsvNumber(cell('plant_number'));
+      plantNumber = readDecimal(cell('plant_number'));
       if (
         plantNumber === null ||
         !Number.isInteger(plantNumber) ||
@@ -354,7 +347,7 @@ export function checkObservationCsv(
         const p = checkDate(valueDate, today);
         if (p) errors.push({ row: rowNo, column: 'value_date', message: p });
       } else {
-        const raw = parseCsvNumber(cell('value'));
+        const raw = readDecimal(cell('value'));
         const unit = cell('unit').toLowerCase();
         const stored = storedUnitOf(trait.quantityKind);
         if (raw === null)

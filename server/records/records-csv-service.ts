@@ -1,5 +1,4 @@
 import { parse } from 'csv-parse/sync';
-import { stringify } from 'csv-stringify/sync';
 import type { ExportDataset, ImportKind, ImportPreview } from '../../common/contracts/records';
 import { storedUnitOf } from '../../common/contracts/records';
 import {
@@ -17,7 +16,7 @@ import { AppError } from '../lib/app-error';
 import type { LoadedTrial } from '../trials/trial-access';
 import { authorizeAtSite, loadForRecords } from './records-access';
 import { createOnce } from './record-changes';
-import { fromSpreadsheetSafe, spreadsheetSafe } from '../../common/csv-safety';
+import { fromSpreadsheetSafe, writeCsv } from '../../common/csv';
 import * as repo from './records-repository';
 import { requireActorOf } from './records-actor';
 
@@ -229,11 +228,6 @@ export async function commitImport(
 
 // ---------- Export ----------
 
-const csvOf = (columns: readonly string[], rows: unknown[][]) =>
-  stringify([columns as string[], ...rows.map((r) => r.map(spreadsheetSafe))], {
-    cast: { number: (n) => String(n), boolean: (b) => String(b) },
-  });
-
 export async function exportDataset(
   db: DB,
   slug: string,
@@ -246,7 +240,7 @@ export async function exportDataset(
     const rows = await repo.listHarvests(db, trial.id, {});
     return {
       filename,
-      body: csvOf(
+      body: writeCsv(
         harvestCsvColumns,
         rows.map((h) => [
           h.id,
@@ -266,7 +260,7 @@ export async function exportDataset(
     const rows = await repo.listObservations(db, trial.id, {});
     return {
       filename,
-      body: csvOf(
+      body: writeCsv(
         observationCsvColumns,
         rows.map((o) => [
           o.id,
@@ -311,7 +305,7 @@ export async function exportDataset(
     ];
     return {
       filename,
-      body: csvOf(
+      body: writeCsv(
         columns,
         rows.map((e) => [
           e.id,
@@ -394,5 +388,5 @@ export async function exportDataset(
       ...traitCells,
     ];
   });
-  return { filename, body: csvOf(columns, rows) };
+  return { filename, body: writeCsv(columns, rows) };
 }

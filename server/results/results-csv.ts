@@ -1,5 +1,4 @@
-import { stringify } from 'csv-stringify/sync';
-import { spreadsheetSafe } from '../../common/csv-safety';
+import { writeCsv } from '../../common/csv';
 import type { ResultSnapshot } from '../../common/contracts/results';
 
 /** Entry means per trait, one row each, units in the header. */
@@ -19,22 +18,7 @@ export function meansCsv(s: ResultSnapshot): string {
       license: s.license,
     })),
   );
-  return stringify(rows.map(safeRow), {
-    header: true,
-    columns: [
-      'trait',
-      'unit',
-      'variety',
-      'n',
-      'mean',
-      'se',
-      'group',
-      'rank',
-      'alpha',
-      'version',
-      'license',
-    ],
-  });
+  return csvOf(MEANS_COLUMNS, rows);
 }
 
 /**
@@ -53,11 +37,27 @@ export function plotsCsv(s: ResultSnapshot, trait?: string): string {
       plot: v.plot ?? '',
       value: v.value,
     }));
-  return stringify(rows.map(safeRow), {
-    header: true,
-    columns: ['trait', 'unit', 'variety', 'site', 'block', 'plot', 'value'],
-  });
+  return csvOf(PLOT_COLUMNS, rows);
 }
 
-const safeRow = <T extends object>(row: T): T =>
-  Object.fromEntries(Object.entries(row).map(([k, v]) => [k, spreadsheetSafe(v)])) as T;
+const MEANS_COLUMNS = [
+  'trait',
+  'unit',
+  'variety',
+  'n',
+  'mean',
+  'se',
+  'group',
+  'rank',
+  'alpha',
+  'version',
+  'license',
+] as const;
+const PLOT_COLUMNS = ['trait', 'unit', 'variety', 'site', 'block', 'plot', 'value'] as const;
+
+function csvOf<K extends string>(columns: readonly K[], rows: Record<K, unknown>[]): string {
+  return writeCsv(
+    columns,
+    rows.map((r) => columns.map((k) => r[k])),
+  );
+}

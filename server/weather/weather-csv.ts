@@ -9,6 +9,7 @@ import {
   TEMPERATURE_RANGE_C,
   type WeatherImportRowError,
 } from '../../common/contracts/weather';
+import { readDecimalText } from '../../common/decimal';
 import { MM_PER_INCH } from '../../common/units';
 
 const columnPatterns = {
@@ -31,8 +32,6 @@ export interface ParsedWeatherCsv {
   rows: ParsedWeatherRow[];
   errors: WeatherImportRowError[];
 }
-
-const NUMBER = /^[+-]?(\d+(\.\d*)?|\.\d+)$/;
 
 function isoDate(text: string): string | null {
   const m = /^(\d{4})[-/](\d{1,2})[-/](\d{1,2})$/.exec(text.trim());
@@ -121,11 +120,12 @@ export function parseWeatherCsv(
     const num = (i: number, name: string | null): number | null => {
       const t = cell(i);
       if (t === '' || /^(na|n\/a|-|—)$/i.test(t)) return null;
-      if (!NUMBER.test(t)) {
-        rowErrors.push({ row: line, column: name, message: `"${t}" is not a number.` });
+      const reading = readDecimalText(t);
+      if (!reading.ok) {
+        rowErrors.push({ row: line, column: name, message: reading.message });
         return null;
       }
-      return Number(t);
+      return Number(reading.text);
     };
     const lowRaw = num(idx.tmin, columns.tmin);
     const highRaw = num(idx.tmax, columns.tmax);

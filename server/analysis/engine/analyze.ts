@@ -12,7 +12,8 @@ import {
   type Design,
   type PlotLayout,
 } from './anova.js';
-import { centreDecimalTexts, isDecimalText, addOffset } from './decimal-input.js';
+import { readDecimalText } from '../../../common/decimal';
+import { centreDecimalTexts, addOffset } from './decimal-input.js';
 import { describe } from './descriptives.js';
 import { accurateMean } from './linear-model.js';
 import { separateMeans, type SeparationMethod } from './mean-separation.js';
@@ -200,9 +201,12 @@ export function analyzePlotRows(
         throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${raw} is not a number`);
       text = String(raw);
     } else {
-      text = raw.trim();
-      if (!isDecimalText(text))
-        throw new AnalysisInputError(`row ${rowNo}, column "${trait}": "${raw}" is not a number`);
+      const reading = readDecimalText(raw);
+      if (!reading.ok)
+        throw new AnalysisInputError(
+          `row ${rowNo}, column "${trait}": ${reading.message.replace(/\.$/, '')}`,
+        );
+      text = reading.text;
     }
     const outOfRange = outOfRangeReason(text);
     if (outOfRange)

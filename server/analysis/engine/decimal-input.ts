@@ -17,11 +17,6 @@ const PLAIN_FIXED = /^([+-]?)(\d*)(?:\.(\d*))?$/;
 /** Largest count of significant digits whose integer form is always exact in a double. */
 const EXACT_DIGITS = 15;
 
-/** True when the text is a decimal number this engine accepts. */
-export function isDecimalText(text: string): boolean {
-  return DECIMAL_TEXT.test(text.trim());
-}
-
 /** Canonical decimal text for a number or text value; throws on anything else. */
 export function toDecimalText(value: string | number): string {
   if (typeof value === 'number') {

@@ -1,4 +1,5 @@
 import type { AnalysisResult } from '@common/contracts/analysis';
+import { writeCsvSections } from '@common/csv';
 
 function save(name: string, type: string, text: string) {
   const url = URL.createObjectURL(new Blob([text], { type }));
@@ -11,25 +12,30 @@ function save(name: string, type: string, text: string) {
   setTimeout(() => URL.revokeObjectURL(url), 1000);
 }
 
-const cell = (v: unknown) => {
-  const s = v === null || v === undefined ? '' : String(v);
-  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-};
-
 export function downloadJson(name: string, result: unknown) {
   save(`${name}.json`, 'application/json', JSON.stringify(result, null, 2));
 }
 
 /** The ANOVA and the means as one CSV (two sections), values in the analysis units. */
 export function downloadCsv(name: string, result: AnalysisResult) {
-  const lines = [
-    'source,df,ss,ms,f,p',
-    ...result.anova.map((l) => [l.source, l.df, l.ss, l.ms, l.f, l.p].map(cell).join(',')),
-    '',
-    'rank,variety,n,mean,sd,se,letters_hsd,letters_lsd',
-    ...result.means.map((m) =>
-      [m.rank, m.variety, m.n, m.mean, m.sd, m.se, m.groupHsd, m.groupLsd].map(cell).join(','),
-    ),
-  ];
-  save(`${name}.csv`, 'text/csv', lines.join('\n') + '\n');
+  const text = writeCsvSections([
+    {
+      header: ['source', 'df', 'ss', 'ms', 'f', 'p'],
+      rows: result.anova.map((l) => [l.source, l.df, l.ss, l.ms, l.f, l.p]),
+    },
+    {
+      header: ['rank', 'variety', 'n', 'mean', 'sd', 'se', 'letters_hsd', 'letters_lsd'],
+      rows: result.means.map((m) => [
+        m.rank,
+        m.variety,
+        m.n,
+        m.mean,
+        m.sd,
+        m.se,
+        m.groupHsd,
+        m.groupLsd,
+      ]),
+    },
+  ]);
+  save(`${name}.csv`, 'text/csv', text);
 }

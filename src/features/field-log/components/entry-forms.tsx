@@ -1,4 +1,5 @@
 import type { RecordPlot } from '@common/contracts/records';
+import { readNumberField } from '@common/decimal';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { type QuantityUnit, toStored, type UnitSystem } from '@common/units';
 import { type ReactNode, useId, useState } from 'react';
@@ -25,8 +26,7 @@ const inputClass = 'min-h-11 w-full rounded-lg border border-leaf-300 bg-white p
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
 const plotLabel = (p: RecordPlot) => `Plot ${p.plotNumber} (${p.entryCode})`;
 
-/** A number read from a field: blank is null, anything not a number is NaN. */
-const readNumber = (text: string) => (text.trim() === '' ? null : Number(text.replace(',', '.')));
+const readNumber = readNumberField;
 
 function SaveButtons({ disabled }: { disabled?: boolean }) {
   return (

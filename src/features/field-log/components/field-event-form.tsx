@@ -1,4 +1,5 @@
 import { fieldEventKinds, type FieldEventKind } from '@common/contracts/records';
+import { readNumberField } from '@common/decimal';
 import { formatDepth, G_PER_POUND, MM_PER_INCH, type UnitSystem } from '@common/units';
 import {
   gallonsToLitres,
@@ -23,7 +24,7 @@ const kindLabels: Record<FieldEventKind, string> = {
   note: 'Note',
 };
 const inputClass = 'min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-3 text-lg';
-const num = (s: string) => (s.trim() === '' ? null : Number(s.replace(',', '.')));
+const num = readNumberField;
 
 function NumberField({
   label,

@@ -1,5 +1,6 @@
 import type { Harvest } from '@common/contracts/records';
 import { formatMass, fromStored, G_PER_OUNCE, toStored } from '@common/units';
+import { readNumberField } from '@common/decimal';
 import {
   type ColumnDef,
   flexRender,
@@ -82,8 +83,8 @@ export function Component() {
         body: {
           version: draft.version,
           harvestedOn: draft.harvestedOn,
-          fruitCount: Number(draft.fruitCount),
-          massG: toStored(Number(draft.mass), massUnit),
+          fruitCount: readNumberField(draft.fruitCount) ?? Number.NaN,
+          massG: toStored(readNumberField(draft.mass) ?? Number.NaN, massUnit),
           grade: draft.grade,
           note: draft.note,
         },
