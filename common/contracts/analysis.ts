@@ -98,6 +98,10 @@ export const analysisResultSchema = z.object({
     ms: z.number(),
   }),
   method: z.enum(['means', 'least-squares']),
+  /** Which model the ranks and letters come from. */
+  model: z.enum(['anova', 'mixed']),
+  /** Least-squares means in rank order (equal to the arithmetic means on balanced layouts). */
+  adjustedMeans: z.array(z.object({ variety: z.string(), mean: z.number(), se: nullableNumber })),
   counts: z.object({
     entries: z.number(),
     sites: z.number(),
@@ -114,6 +118,9 @@ export const analysisResultSchema = z.object({
         se: z.number(),
         lsdSeparated: z.boolean(),
         hsdSeparated: z.boolean(),
+        t: nullableNumber,
+        p: nullableNumber,
+        pTukey: nullableNumber,
       }),
     )
     .optional(),

@@ -16,6 +16,8 @@ import { readDecimalText } from '../../../common/decimal';
 import { centreDecimalTexts, addOffset } from './decimal-input.js';
 import { describe } from './descriptives.js';
 import { accurateMean } from './linear-model.js';
+import { adjustedMeans, NotConnectedError, type AdjustedMeans } from './adjusted-means.js';
+import { studentTTwoSided, studentizedRangeUpperTail } from './distributions.js';
 import { separateMeans, type SeparationMethod } from './mean-separation.js';
 
 export type { Design } from './anova.js';
@@ -68,7 +70,7 @@ export interface EntrySummary {
   cvPercent: number | null;
   min: number;
   max: number;
-  /** 1 = highest mean; ties share the best rank. */
+  /** 1 = highest adjusted mean; ties share the best rank. */
   rank: number;
   /** Letters from the chosen test (see `letters`). */
   group: string;
@@ -96,13 +98,28 @@ export interface AnalysisResult {
   /** "means" for orthogonal layouts, "least-squares" (QR) otherwise. */
   method: 'means' | 'least-squares';
   counts: { entries: number; sites: number; blocks: number; rows: number; missingPlots: number };
+  /** Which model the means, ranks and letters come from. */
+  model: 'anova' | 'mixed';
+  /**
+   * Least-squares means (predictions averaged over blocks and sites with equal weights) with
+   * their standard errors, in rank order; equal to the arithmetic means on balanced layouts.
+   * `means[].rank` and the letters follow these.
+   */
+  adjustedMeans: { variety: string; mean: number; se: number }[];
   pairs?: {
     a: string;
     b: string;
+    /** Difference of adjusted means a − b. */
     difference: number;
     se: number;
     lsdSeparated: boolean;
     hsdSeparated: boolean;
+    /** difference / se, on the error term's df. */
+    t: number;
+    /** Two-sided p of t, unadjusted. */
+    p: number;
+    /** Tukey-adjusted p (Tukey–Kramer with unequal SEs). */
+    pTukey: number;
   }[];
   warnings: string[];
 }
@@ -336,7 +353,7 @@ export function analyzePlotRows(
 
   if (design !== 'crd' && missingPlots > 0) {
     warnings.push(
-      `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); sequential (type I) sums of squares in the order ${design === 'multisite' ? 'site, block, variety, site:variety' : 'block, variety'}; means are arithmetic, not adjusted`,
+      `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); sequential (type I) sums of squares in the order ${design === 'multisite' ? 'site, block, variety, site:variety' : 'block, variety'}; ranks and letters come from adjusted (least-squares) means, arithmetic means are shown beside them`,
     );
   } else if (!orthogonal) {
     warnings.push(
@@ -353,17 +370,46 @@ export function analyzePlotRows(
   for (let i = 0; i < y.length; i++) groups[entry.codes[i]!]!.push(y[i]!);
   const descs = groups.map((g) => describe(g));
   const varietyLine = av.lines.find((l) => l.source === 'variety');
+  let adjusted: AdjustedMeans;
+  let adjustedOk = true;
+  const adjustedInput = {
+    y,
+    entry: entry.codes,
+    entries: entry.levels.length,
+    errorMs: av.error.ms,
+    orthogonal,
+    ...(design === 'crd'
+      ? {}
+      : { block: block.codes, blocks: block.levels.length, siteOfBlock: siteOfEachBlock() }),
+  };
+  try {
+    adjusted = adjustedMeans(adjustedInput);
+  } catch (err) {
+    if (!(err instanceof NotConnectedError)) throw err;
+    // Entries and blocks fall apart into unlinked groups: no common scale to adjust to.
+    adjustedOk = false;
+    adjusted = adjustedMeans({ ...adjustedInput, orthogonal: true });
+    warnings.push(
+      'blocks and varieties are not connected (some varieties never share a block with the others): adjusted means cannot be estimated; ranks and letters use arithmetic means',
+    );
+  }
+  const modelBased = adjustedOk && !orthogonal;
   const sep = separateMeans(
-    entry.levels.map((name, i) => ({ entry: name, mean: descs[i]!.mean, n: descs[i]!.n })),
+    entry.levels.map((name, i) => ({ entry: name, mean: adjusted.mean[i]!, n: descs[i]!.n })),
     av.error.ms,
     av.error.df,
     alpha,
     varietyLine?.p ?? null,
+    modelBased ? adjusted.pairSe : undefined,
   );
-  if (!sep.replicates)
+  if (!sep.replicates) {
+    const counts = [...new Set(descs.map((d) => d.n))].sort((a, b) => a - b);
     warnings.push(
-      `unequal replication (${[...new Set(descs.map((d) => d.n))].sort((a, b) => a - b).join(', ')} plots per entry): LSD and HSD differ by pair, single values are null`,
+      counts.length > 1
+        ? `unequal replication (${counts.join(', ')} plots per entry): LSD and HSD differ by pair, single values are null`
+        : 'LSD and HSD differ by pair (each difference of adjusted means has its own standard error), single values are null',
     );
+  }
   for (const w of sep.warnings) if (!w.startsWith('unequal replication')) warnings.push(w);
 
   const indexOf = new Map(entry.levels.map((n, i) => [n, i]));
@@ -409,6 +455,15 @@ export function analyzePlotRows(
       ms: av.error.ms,
     },
     method: av.method,
+    model: 'anova',
+    adjustedMeans: sep.ranked.map((r) => {
+      const i = indexOf.get(r.entry)!;
+      return {
+        variety: r.entry,
+        mean: addOffset(centred.offset, adjusted.mean[i]!),
+        se: adjusted.se[i]!,
+      };
+    }),
     counts: {
       entries: entry.levels.length,
       sites: design === 'multisite' ? site.levels.length : hasSite ? site.levels.length : 0,
@@ -418,8 +473,26 @@ export function analyzePlotRows(
     },
     warnings,
   };
-  if (options.includePairs) result.pairs = sep.pairs;
+  if (options.includePairs) {
+    const k = entry.levels.length;
+    result.pairs = sep.pairs.map((pair) => {
+      const t = pair.se > 0 ? pair.difference / pair.se : pair.difference === 0 ? 0 : Infinity;
+      return {
+        ...pair,
+        t,
+        p: studentTTwoSided(t, av.error.df),
+        pTukey: Math.min(1, studentizedRangeUpperTail(Math.abs(t) * Math.SQRT2, k, av.error.df)),
+      };
+    });
+  }
   return result;
+
+  function siteOfEachBlock(): Int32Array {
+    const of = new Int32Array(block.levels.length);
+    for (let i = 0; i < y.length; i++)
+      of[block.codes[i]!] = design === 'multisite' ? site.codes[i]! : 0;
+    return of;
+  }
 }
 
 const KNOWN_COLUMNS = ['variety', 'site', 'block', 'plot'] as const;

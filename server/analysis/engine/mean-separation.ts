@@ -25,7 +25,7 @@ export interface PairComparison {
   a: string;
   b: string;
   difference: number;
-  /** √(MS·(1/na + 1/nb)). */
+  /** √(MS·(1/na + 1/nb)), or the model's SE of the difference of adjusted means. */
   se: number;
   lsdSeparated: boolean;
   hsdSeparated: boolean;
@@ -66,6 +66,9 @@ export function rankDescending(values: readonly number[]): number[] {
 
 /**
  * @param varietyP p-value of the variety F test; LSD is "protected" only when it is < alpha.
+ * @param pairSe standard error of the difference between means[i] and means[j] when it is
+ *   not √(MS·(1/ni + 1/nj)) (adjusted means of a non-orthogonal layout); the single LSD and
+ *   HSD values are then null.
  */
 export function separateMeans(
   means: readonly EntryMean[],
@@ -73,6 +76,7 @@ export function separateMeans(
   errorDf: number,
   alpha = 0.05,
   varietyP: number | null = null,
+  pairSe?: (i: number, j: number) => number,
 ): MeanSeparation {
   if (!(alpha > 0 && alpha < 1))
     throw new RangeError(`alpha must be between 0 and 1, got ${alpha}`);
@@ -84,7 +88,7 @@ export function separateMeans(
   const t = studentTQuantile(1 - alpha / 2, errorDf);
   const q = studentizedRangeQuantile(1 - alpha, k, errorDf);
   const n0 = means[0]!.n;
-  const equal = means.every((m) => m.n === n0);
+  const equal = !pairSe && means.every((m) => m.n === n0);
   const ms = Math.max(errorMs, 0);
   const lsdValue = equal ? t * Math.sqrt((2 * ms) / n0) : null;
   const hsdValue = equal ? q * Math.sqrt(ms / n0) : null;
@@ -96,6 +100,8 @@ export function separateMeans(
     );
   }
   if (!equal) warnings.push('unequal replication: LSD and HSD vary by pair (Tukey-Kramer for HSD)');
+  const seOf =
+    pairSe ?? ((i: number, j: number) => Math.sqrt(ms * (1 / means[i]!.n + 1 / means[j]!.n)));
 
   const sepLsd: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
   const sepHsd: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
@@ -104,7 +110,7 @@ export function separateMeans(
     for (let j = i + 1; j < k; j++) {
       const a = means[i]!;
       const b = means[j]!;
-      const se = Math.sqrt(ms * (1 / a.n + 1 / b.n));
+      const se = seOf(i, j);
       const diff = a.mean - b.mean;
       const d = Math.abs(diff);
       // Threshold form of the tests; a zero error MS separates any unequal means.

@@ -148,6 +148,12 @@ export function MeansTable({
   codes?: Record<string, string>;
 }) {
   const test = result.letters === 'hsd' ? 'Tukey HSD' : 'Fisher LSD';
+  // Unbalanced layouts: the model's adjusted means differ from the arithmetic ones and carry
+  // the ranks and letters, so both are shown.
+  const adjusted =
+    result.method === 'least-squares'
+      ? new Map(result.adjustedMeans.map((a) => [a.variety, a]))
+      : null;
   return (
     <ScrollRegion label={`Entry means: ${title}`} className={tableWrap}>
       <table className="w-full min-w-[34rem] text-left text-sm">
@@ -156,6 +162,9 @@ export function MeansTable({
           <span className="block text-xs font-normal text-loam-700">
             Entries sharing a letter are not significantly different ({test}, α = {result.alpha}).
             SE is each entry’s own SD ÷ √n.
+            {adjusted
+              ? ' Ranks and letters come from the adjusted (least-squares) means: the model’s predictions averaged over blocks, with the model’s SE.'
+              : ''}
           </span>
         </caption>
         <thead className="bg-leaf-50 text-leaf-900">
@@ -172,6 +181,11 @@ export function MeansTable({
             <th scope="col" className={`${th} text-right`}>
               Mean ± SE
             </th>
+            {adjusted ? (
+              <th scope="col" className={`${th} text-right`}>
+                Adjusted mean ± SE
+              </th>
+            ) : null}
             <th scope="col" className={th}>
               Letters
             </th>
@@ -195,6 +209,14 @@ export function MeansTable({
                 {formatNumber(m.mean * unit.factor)}
                 {m.se === null ? '' : ` ± ${formatNumber(m.se * unit.factor, 3)}`}
               </td>
+              {adjusted ? (
+                <td className={`${td} text-right`} data-adjusted={adjusted.get(m.variety)?.mean}>
+                  {formatNumber((adjusted.get(m.variety)?.mean ?? NaN) * unit.factor)}
+                  {adjusted.get(m.variety)?.se == null
+                    ? ''
+                    : ` ± ${formatNumber(adjusted.get(m.variety)!.se! * unit.factor, 3)}`}
+                </td>
+              ) : null}
               <td className="p-2 font-mono font-semibold text-leaf-700" data-letters={m.group}>
                 {m.group}
               </td>
