@@ -13,6 +13,7 @@
  * When every block holds every entry equally often, the adjusted means are the arithmetic
  * means and SE = √(MS/n) exactly, so they are returned in that closed form.
  */
+import { groupMeans } from './anova.js';
 
 export interface AdjustedMeansInput {
   /** Plot values (deviations from an offset are fine: differences and SEs do not change). */
@@ -35,22 +36,6 @@ export interface AdjustedMeans {
   se: Float64Array;
   /** Standard error of the difference between entries i and j. */
   pairSe(i: number, j: number): number;
-}
-
-/** Arithmetic means per entry (with a correction pass) and counts. */
-function entryMeans(y: Float64Array, entry: Int32Array, k: number) {
-  const sum = new Float64Array(k);
-  const n = new Float64Array(k);
-  for (let i = 0; i < y.length; i++) {
-    sum[entry[i]!]! += y[i]!;
-    n[entry[i]!]! += 1;
-  }
-  const mean = new Float64Array(k);
-  for (let e = 0; e < k; e++) mean[e] = sum[e]! / n[e]!;
-  const corr = new Float64Array(k);
-  for (let i = 0; i < y.length; i++) corr[entry[i]!]! += y[i]! - mean[entry[i]!]!;
-  for (let e = 0; e < k; e++) mean[e] = mean[e]! + corr[e]! / n[e]!;
-  return { mean, n };
 }
 
 /** A layout whose blocks and entries are not connected has no adjusted means. */
@@ -96,7 +81,7 @@ export function invertSpd(a: Float64Array, p: number): Float64Array {
 export function adjustedMeans(input: AdjustedMeansInput): AdjustedMeans {
   const { y, entry, entries: k, errorMs } = input;
   const ms = Math.max(errorMs, 0);
-  const arith = entryMeans(y, entry, k);
+  const arith = groupMeans(y, entry, k);
   if (input.orthogonal || !input.block || !input.blocks) {
     const se = arith.n.map((n) => Math.sqrt(ms / n));
     return {

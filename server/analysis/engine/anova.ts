@@ -69,7 +69,7 @@ function equalBlockReplication(layout: PlotLayout): boolean {
 }
 
 /** Group means with one correction pass each, plus group sizes. */
-function groupMeans(y: Float64Array, codes: Int32Array, levels: number) {
+export function groupMeans(y: Float64Array, codes: Int32Array, levels: number) {
   const sum = new Float64Array(levels);
   const n = new Float64Array(levels);
   for (let i = 0; i < y.length; i++) {
