@@ -312,3 +312,8 @@ export function studentTQuantile(p: number, df: number): number {
 export function studentizedRangeQuantile(p: number, k: number, df: number): number {
   return jStat.tukey.inv(p, k, df);
 }
+
+/** Upper-tail probability of the studentized range (Tukey-adjusted p-values). */
+export function studentizedRangeUpperTail(q: number, k: number, df: number): number {
+  return 1 - jStat.tukey.cdf(q, k, df);
+}
