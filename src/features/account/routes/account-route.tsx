@@ -14,6 +14,7 @@ import {
 } from '@/components/ui/account-fields';
 import { FormMessage } from '@/components/ui/text-field';
 import { ApiError } from '@/lib/api-client';
+import { showServerErrors } from '@/lib/form-errors';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { useMe } from '@/lib/session';
 import { useUpdateMe } from '../api/update-me';
@@ -39,9 +40,7 @@ function ProfileSection({ me }: { me: Me }) {
       await update.mutateAsync(values);
       setSaved(true);
     } catch (err) {
-      if (err instanceof ApiError)
-        for (const f of err.fields)
-          form.setError(f.path.replace(/^body\./, '') as 'name', { message: f.message });
+      showServerErrors(err, form.setError);
     }
   });
   return (

@@ -6,15 +6,8 @@ const inputClass =
   'mt-1 block min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-3 text-ink aria-[invalid=true]:border-frost-600';
 
 /** Per-field messages from a failed request: `body.code` → `code`, `body.plots.1.gaps` → `plots.1.gaps`. */
-export function fieldErrors(error: unknown): Record<string, string> {
-  if (!(error instanceof ApiError)) return {};
-  const out: Record<string, string> = {};
-  for (const f of error.fields) {
-    const key = f.path.replace(/^body\./, '');
-    out[key] ??= f.message;
-  }
-  return out;
-}
+export const fieldErrors = (error: unknown): Record<string, string> =>
+  error instanceof ApiError ? error.fieldMessages : {};
 
 function Described({
   id,

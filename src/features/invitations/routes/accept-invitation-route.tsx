@@ -12,6 +12,7 @@ import { Spinner } from '@/components/ui/spinner';
 import { NameField, NewPasswordField, PasswordField } from '@/components/ui/account-fields';
 import { FormMessage } from '@/components/ui/text-field';
 import { ApiError } from '@/lib/api-client';
+import { showServerErrors } from '@/lib/form-errors';
 import { authClient, authErrorMessage } from '@/lib/auth-client';
 import { useMe, useSessionChanged } from '@/lib/session';
 import {
@@ -67,9 +68,7 @@ function SignUpThroughLink({ token }: { token: string }) {
       const res = await signUp.mutateAsync({ token, ...values });
       await joined(res.trialSlug);
     } catch (err) {
-      if (err instanceof ApiError)
-        for (const f of err.fields)
-          form.setError(f.path.replace(/^body\./, '') as 'name', { message: f.message });
+      showServerErrors(err, form.setError);
     }
   });
   return (

@@ -7,7 +7,7 @@ import { Controller, useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { FormMessage, TextField } from '@/components/ui/text-field';
-import { ApiError } from '@/lib/api-client';
+import { showServerErrors } from '@/lib/form-errors';
 import { useCreateInvitation } from '../api/invitations';
 import { SitePicker } from './site-picker';
 
@@ -42,12 +42,8 @@ export function InviteForm({
             },
       );
     } catch (err) {
-      if (err instanceof ApiError && err.fields.length) {
-        for (const f of err.fields)
-          form.setError(f.path.replace(/^body\./, '').split('.')[0] as 'email', {
-            message: f.message,
-          });
-      } else setResult({ tone: 'error', text: err instanceof Error ? err.message : 'Not sent.' });
+      if (!showServerErrors(err, form.setError, { topLevel: true }))
+        setResult({ tone: 'error', text: err instanceof Error ? err.message : 'Not sent.' });
     }
   });
 
