@@ -12,6 +12,7 @@ import { demoAccounts } from '../db/seed/demo-season';
 import { seedDemoIfEmpty } from '../db/seed/seed';
 import { parseEnv } from '../server/env';
 import { type CaptureServer, startCaptureServer } from '../server/mail/capture-server';
+import { mailboxBanner } from '../server/mail/mailbox-router';
 import { createRuntime } from '../server/runtime';
 import { createStorage } from '../server/storage/create-storage';
 import { ensureSystemPackages } from './system-packages';
@@ -33,7 +34,6 @@ async function main() {
   let mailbox: CaptureServer | undefined;
   if (env.NODE_ENV !== 'production' && env.SMTP_HOST === '127.0.0.1' && !env.SMTP_USER) {
     mailbox = await startCaptureServer(env.SMTP_PORT);
-    console.log(`Mail capture server on 127.0.0.1:${mailbox.port}; messages at /dev/mailbox.`);
   }
 
   if (!process.argv.includes('--no-build')) {
@@ -60,6 +60,7 @@ async function main() {
 
   const url = runtime.baseUrl;
   console.log(`\nRowtally is running at ${url}\n`);
+  if (mailbox) console.log(`${mailboxBanner(url, mailbox.port)}\n`);
   console.log('Demo sign-ins (Larkhaven Seed Library, season 2026):');
   for (const a of demoAccounts)
     console.log(`  ${a.key.padEnd(12)} ${a.email.padEnd(36)} ${a.password}`);

@@ -13,7 +13,7 @@ import { sameOriginOnly } from './auth/origin-check';
 import { type Auth, CLIENT_IP_HEADER } from './auth/auth';
 import { healthRouter } from './health/health-router';
 import type { CaptureServer } from './mail/capture-server';
-import { mailboxRouter } from './mail/mailbox-router';
+import { mailboxInUse, mailboxRouter, thisMachineOnly } from './mail/mailbox-router';
 import type { Mailer } from './mail/mailer';
 import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
 import { membersRouter } from './members/members-router';
@@ -116,8 +116,8 @@ export function createApp(deps: AppDeps) {
   app.use('/api/health', healthRouter(deps));
   app.use('/api', sameOriginOnly([deps.baseUrl]));
   app.use('/api', resolveActor(deps.auth));
-  if (deps.mailbox && deps.env.NODE_ENV !== 'production')
-    app.use('/api/dev/mailbox', mailboxRouter(deps.mailbox));
+  const mailbox = mailboxInUse(deps.env, deps.mailbox) ? deps.mailbox : undefined;
+  if (mailbox) app.use('/api/dev/mailbox', mailboxRouter(mailbox));
   for (const [mountPath, router] of apiMounts(deps)) app.use(mountPath, router);
   app.use('/api', apiNotFound);
 
@@ -134,6 +134,8 @@ export function createApp(deps: AppDeps) {
         },
       }),
     );
+    // The mailbox page, like its API, is for this computer only (and only while in use).
+    app.get('/dev/mailbox', mailbox ? thisMachineOnly : (_req, res) => res.status(404).end());
     // Client routes are the browser router's; every other GET gets the app shell.
     const shell = fs.readFileSync(path.join(clientDir, 'index.html'), 'utf8');
     app.get('/{*splat}', async (req, res) => {
