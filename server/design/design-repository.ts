@@ -21,16 +21,6 @@ export function findUserByEmail(db: Conn, email: string) {
     .executeTakeFirst();
 }
 
-/** Slugs already taken that start with `base` (to pick the next free one). */
-export async function slugsLike(db: Conn, base: string): Promise<Set<string>> {
-  const rows = await db
-    .selectFrom('trials')
-    .select('slug')
-    .where((eb) => eb.or([eb('slug', '=', base), eb('slug', 'like', `${base}-%`)]))
-    .execute();
-  return new Set(rows.map((r) => r.slug));
-}
-
 export function insertTrial(db: Conn, values: NewTrial) {
   return db.insertInto('trials').values(values).returning(['id', 'slug']).executeTakeFirstOrThrow();
 }

@@ -56,6 +56,20 @@ export function slugFromTitle(title: string): string {
   return base || 'trial';
 }
 
+/** Letters and digits that cannot be read as one another (no i, l, o, 0, 1). */
+const tailAlphabet = 'abcdefghjkmnpqrstuvwxyz23456789';
+
+/**
+ * A new trial's address: the title's words and a short random tail, always. Were the tail
+ * added only when the plain address is taken, an outsider could learn from their own new
+ * trial's address that a private trial of that name exists.
+ */
+export function newTrialSlug(title: string): string {
+  let tail = '';
+  for (let i = 0; i < 6; i++) tail += tailAlphabet[crypto.randomInt(tailAlphabet.length)];
+  return `${slugFromTitle(title)}-${tail}`;
+}
+
 export async function createTrial(
   db: DB,
   actor: Actor | null,
@@ -74,14 +88,11 @@ export async function createTrial(
     if (!lead) throw fieldError('body.leadEmail', 'No account uses this e-mail address.');
     leadId = lead.id;
   }
-  const base = slugFromTitle(body.title);
-  // Two leads may pick the same title at once: the unique slug decides, and we try the next.
+  // Two new trials may draw the same address (about one chance in 900 million): draw again.
   for (let attempt = 0; attempt < 5; attempt++) {
     try {
       return await db.transaction().execute(async (trx) => {
-        const taken = await repo.slugsLike(trx, base);
-        let slug = base;
-        for (let n = 2; taken.has(slug); n++) slug = `${base}-${n}`;
+        const slug = newTrialSlug(body.title);
         const trial = await repo.insertTrial(trx, {
           slug,
           title: body.title,

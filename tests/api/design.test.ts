@@ -92,21 +92,37 @@ describe('creating a trial', () => {
       design: 'crd',
     });
     expect(res.status).toBe(201);
-    expect(res.body.slug).toBe('bean-rows-at-tollerby-green');
+    // the title's words and a random tail, so the address says nothing about other trials
+    expect(res.body.slug).toMatch(/^bean-rows-at-tollerby-green-[a-z2-9]{6}$/);
     const detail = await as('other').get(`/api/trials/${res.body.slug}`);
     expect(detail.status).toBe(200);
     expect(detail.body).toMatchObject({ myRole: 'lead', status: 'draft', design: 'crd' });
     expect(detail.body.permissions['trial.edit']).toBe(true);
-    // the same title again gets the next free address
+    // the same title again gets another address of the same shape, never a numbered one
     const again = await as('other').post('/api/trials', {
       title: 'Bean rows at Tollerby Green',
       crop: 'Bush bean',
       season: '2028',
       design: 'crd',
     });
-    expect(again.body.slug).toBe('bean-rows-at-tollerby-green-2');
+    expect(again.body.slug).toMatch(/^bean-rows-at-tollerby-green-[a-z2-9]{6}$/);
+    expect(again.body.slug).not.toBe(res.body.slug);
     // a stranger does not see it
     expect((await as('lead').get(`/api/trials/${res.body.slug}`)).status).toBe(404);
+  });
+
+  it('gives an outsider no hint that a private trial of the same name exists', async () => {
+    const create = (who: 'lead' | 'other', title: string) =>
+      as(who).post('/api/trials', { title, crop: 'Okra', season: '2027', design: 'crd' });
+    const hidden = await create('lead', 'Quiet okra at Fellmere');
+    expect(hidden.status).toBe(201);
+    const same = await create('other', 'Quiet okra at Fellmere');
+    const fresh = await create('other', 'Loud okra at Fellmere');
+    // The outsider's address has the same shape whether or not the name was taken.
+    expect(same.body.slug).toMatch(/^quiet-okra-at-fellmere-[a-z2-9]{6}$/);
+    expect(fresh.body.slug).toMatch(/^loud-okra-at-fellmere-[a-z2-9]{6}$/);
+    expect(same.body.slug).not.toBe(hidden.body.slug);
+    expect((await as('other').get(`/api/trials/${hidden.body.slug}`)).status).toBe(404);
   });
 
   it('lets an administrator create a trial for another account, and only an administrator', async () => {

@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { slugFromTitle } from '../../server/design/design-service';
 import { createUser, type TestUser } from '../support/test-app';
 import {
   closeBrowserSuite,
@@ -39,7 +40,8 @@ function pdfPages(file: string): number {
   return Number(/^Pages:\s+(\d+)/m.exec(info)![1]);
 }
 
-async function journey(page: Page, title: string, tag: string) {
+/** Walks the design pages; returns the new trial's address (the title's words and a random tail). */
+async function journey(page: Page, title: string, tag: string): Promise<string> {
   await page.goto('/');
   await page.getByRole('link', { name: 'New trial' }).click();
   await page.getByRole('heading', { level: 1, name: 'New trial' }).waitFor();
@@ -51,6 +53,8 @@ async function journey(page: Page, title: string, tag: string) {
   await page.getByRole('button', { name: 'Create trial' }).click();
 
   await page.getByRole('heading', { level: 1, name: 'Entries' }).waitFor();
+  const slug = new URL(page.url()).pathname.split('/')[2]!;
+  expect(slug).toMatch(new RegExp(`^${slugFromTitle(title)}-[a-z2-9]{6}$`));
   for (const [code, name, spacingCm] of entries) {
     const form = page.getByRole('form', { name: 'Add an entry' });
     await form.getByLabel('Code').fill(code);
@@ -187,6 +191,7 @@ async function journey(page: Page, title: string, tag: string) {
   await page.getByLabel(`Gaps, plot ${plot}`).fill('0');
   await page.getByRole('button', { name: 'Save what was planted' }).click();
   await page.getByRole('status').filter({ hasText: 'Saved 15 plots.' }).waitFor();
+  return slug;
 }
 
 describe('a lead designs a trial in a real browser', () => {
@@ -198,9 +203,9 @@ describe('a lead designs a trial in a real browser', () => {
       const context = await contextAs(browser, live, lead, viewport);
       const page = await context.newPage();
       const errors = watchErrors(page);
-      await journey(page, `Ashgrove okra ${tag}`, tag);
+      const slug = await journey(page, `Ashgrove okra ${tag}`, tag);
       // the overview links to the design pages for the lead
-      await page.goto(`/t/ashgrove-okra-${tag}`);
+      await page.goto(`/t/${slug}`);
       await page
         .getByRole('navigation', { name: 'Design the trial' })
         .getByRole('link', { name: 'Layout' })
