@@ -126,6 +126,12 @@ export function createAuth(deps: AuthDeps) {
         });
       },
     },
+    // Reset links (and any other single-use value the library keeps) are stored as SHA-256
+    // digests: a database dump holds no link that works. E-mail confirmation links are signed
+    // tokens the library does not store at all. Session tokens cannot be hashed by any option
+    // of this library version; a dump's session tokens only work signed with AUTH_SECRET
+    // (README, "What a database dump holds").
+    verification: { ...authSchemaOptions.verification, storeIdentifier: 'hashed' },
     session: {
       ...authSchemaOptions.session,
       expiresIn: 60 * 60 * 24 * 30,
