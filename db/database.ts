@@ -10,16 +10,29 @@ pg.types.setTypeParser(pg.types.builtins.INT8, (value) => Number(value));
 export type DB = Kysely<Database>;
 
 /**
- * A pool whose idle connections may drop (server restart, a test database dropped) without
- * taking the process down: pg discards the broken client and the next query opens a new one.
+ * A pool that outlives its server: when PostgreSQL restarts or a connection is cut (57P01
+ * "terminating connection due to administrator command", a crash, a dropped test database),
+ * pg raises an 'error' event on each affected client, idle or checked out. An unheard 'error'
+ * event ends a Node process, so every client gets a listener the moment it connects; the query
+ * in flight fails on its own, pg discards the broken client and the next query opens a new one.
  */
 export function createPool(
   connectionString: string,
   max = 10,
-  onIdleError: (err: Error) => void = () => {},
+  onConnectionLost: (err: Error) => void = () => {},
 ): pg.Pool {
-  const pool = new pg.Pool({ connectionString, max });
-  pool.on('error', onIdleError);
+  const pool = new pg.Pool({
+    connectionString,
+    max,
+    // A request waits at most this long for a free connection, then is told to retry (503).
+    connectionTimeoutMillis: 10_000,
+  });
+  // Each lost connection is reported once, by its client's listener; the pool's own 'error'
+  // event (for idle clients) repeats it.
+  pool.on('error', () => {});
+  pool.on('connect', (client) => {
+    client.on('error', onConnectionLost);
+  });
   return pool;
 }
 

@@ -198,14 +198,22 @@ export async function startPg(opts: PgServerOptions): Promise<RunningPg> {
   return { url: url(opts.port), port: opts.port, dataDir, started: true };
 }
 
-export function stopPg(dataDir: string, log: (msg: string) => void = console.log): boolean {
+/**
+ * `fast` ends every session with "terminating connection due to administrator command";
+ * `immediate` stops without a clean shutdown, as a crash would (recovery runs on the next start).
+ */
+export function stopPg(
+  dataDir: string,
+  log: (msg: string) => void = console.log,
+  mode: 'fast' | 'immediate' = 'fast',
+): boolean {
   const bin = findPgBinDir();
   const dir = path.resolve(dataDir);
   if (!bin || !isRunning(bin, dir)) {
     log(`PostgreSQL in ${dir} is not running.`);
     return false;
   }
-  asServerUser(path.join(bin, 'pg_ctl'), ['-D', dir, '-m', 'fast', '-w', 'stop']);
+  asServerUser(path.join(bin, 'pg_ctl'), ['-D', dir, '-m', mode, '-w', 'stop']);
   log(`PostgreSQL in ${dir} stopped.`);
   return true;
 }

@@ -55,7 +55,7 @@ export function createRuntime(opts: RuntimeOptions) {
       redact: ['req.headers.cookie', 'req.headers.authorization', 'res.headers["set-cookie"]'],
     });
   const pool = createPool(opts.databaseUrl, env.DB_POOL_MAX, (err) =>
-    logger.warn({ err }, 'an idle database connection was lost'),
+    logger.warn({ err }, 'a database connection was lost; the next query opens a new one'),
   );
   const db = createDb(pool);
   const mailer = opts.mailer ?? createSmtpMailer(env, logger);

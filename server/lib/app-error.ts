@@ -9,7 +9,8 @@ export type ErrorCode =
   | 'unsupported_media_type'
   | 'unprocessable'
   | 'rate_limited'
-  | 'internal';
+  | 'internal'
+  | 'unavailable';
 
 const statusOf: Record<ErrorCode, number> = {
   validation_failed: 400,
@@ -22,6 +23,7 @@ const statusOf: Record<ErrorCode, number> = {
   unprocessable: 422,
   rate_limited: 429,
   internal: 500,
+  unavailable: 503,
 };
 
 export class AppError extends Error {

@@ -41,6 +41,31 @@ function fromDatabase(err: {
   }
 }
 
+/**
+ * The database server is away (restarting, crashed, refusing connections while it starts) or
+ * every connection is busy: nothing was committed by the failed statement, so the caller may
+ * send the same request again.
+ */
+function databaseAway(err: unknown): boolean {
+  // The sign-in library wraps the driver's error in its own (as `cause`).
+  for (let e = err, depth = 0; e && typeof e === 'object' && depth < 5; depth++) {
+    const { code, message, cause } = e as { code?: unknown; message?: unknown; cause?: unknown };
+    if (typeof code === 'string') {
+      if (/^(57P0[1-3]|08\w{3})$/.test(code)) return true;
+      if (['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT'].includes(code)) return true;
+    }
+    if (
+      typeof message === 'string' &&
+      /^(Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error)/.test(
+        message,
+      )
+    )
+      return true;
+    e = cause;
+  }
+  return false;
+}
+
 function toAppError(err: unknown): AppError {
   if (err instanceof AppError) return err;
   if (err instanceof z.ZodError) {
@@ -66,6 +91,11 @@ function toAppError(err: unknown): AppError {
       `The request body is larger than the limit of ${e.limit} bytes.`,
     );
   }
+  if (databaseAway(err))
+    return new AppError(
+      'unavailable',
+      'The database is restarting; nothing was saved. Try again in a moment.',
+    );
   if (typeof e?.code === 'string') {
     const mapped = fromDatabase(e as { code: string });
     if (mapped) return mapped;
@@ -75,13 +105,15 @@ function toAppError(err: unknown): AppError {
 
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const appError = toAppError(err);
-  if (appError.status >= 500) req.log?.error({ err }, 'request failed');
+  if (appError.code === 'unavailable') req.log?.warn({ err }, 'database unavailable');
+  else if (appError.status >= 500) req.log?.error({ err }, 'request failed');
   if (res.headersSent) return;
   // A limit that says when it frees up (AppError details.retryAfterSeconds) tells the client too.
   const retryAfter = (appError.details as { retryAfterSeconds?: unknown } | undefined)
     ?.retryAfterSeconds;
   if (appError.status === 429 && typeof retryAfter === 'number')
     res.setHeader('Retry-After', String(Math.ceil(retryAfter)));
+  if (appError.code === 'unavailable') res.setHeader('Retry-After', '1');
   res.status(appError.status).json({
     error: {
       code: appError.code,
