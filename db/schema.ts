@@ -366,6 +366,14 @@ export interface DailyWeatherTable extends Written {
   note: Generated<string>;
 }
 
+/** Request counts per caller and fixed window, for rate limits (server/lib/rate-limit.ts). */
+export interface RequestRateWindowsTable {
+  bucket: string;
+  caller: string;
+  window_started_at: Timestamp;
+  hits: number;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -392,6 +400,7 @@ export interface Database {
   invitation_sites: InvitationSitesTable;
   audit_log: AuditLogTable;
   daily_weather: DailyWeatherTable;
+  request_rate_windows: RequestRateWindowsTable;
 }
 
 export type Trial = Selectable<TrialsTable>;
@@ -739,4 +748,10 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     requested_at: true,
   },
   sign_in_throttles: { email: true, failures: true, last_failure_at: true, blocked_until: true },
+  request_rate_windows: {
+    bucket: true,
+    caller: true,
+    window_started_at: true,
+    hits: true,
+  },
 };

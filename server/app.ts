@@ -71,7 +71,7 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
     ['/api/trials', designRouter(deps)],
     ['/api/trials/:slug', trialAnalysisRouter(deps)],
     ['/api/trials/:slug', weatherRouter(deps)],
-    ['/api/analyze', analyzeRouter()],
+    ['/api/analyze', analyzeRouter(deps)],
     ['/api/trials/:slug/harvests', harvestsRouter(deps)],
     ['/api/trials/:slug/observations', observationsRouter(deps)],
     ['/api/trials/:slug/field-events', fieldEventsRouter(deps)],

@@ -16,6 +16,10 @@ const envSchema = z.object({
   ROWTALLY_DB_PORT: port.default(55432),
   ROWTALLY_DATA_DIR: z.string().optional(),
   DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
+  /** Analyses (spreadsheet, trial trait, ranking) one account or address may ask for per minute. */
+  ANALYSIS_RATE_PER_MINUTE: z.coerce.number().int().min(1).max(100_000).default(60),
+  /** Longest one analysis may run before it is stopped and answered 422. */
+  ANALYSIS_TIME_LIMIT_MS: z.coerce.number().int().min(50).max(600_000).default(10_000),
   AUTH_SECRET: z.string().min(32).optional(),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: port.default(2525),

@@ -10,6 +10,7 @@ import { type Env, projectRoot } from './env';
 import type { CaptureServer } from './mail/capture-server';
 import { createSmtpMailer, type Mailer } from './mail/mailer';
 import { purgeDeletedPhotos } from './photos/photos-service';
+import { closeAnalysisPool, setAnalysisTimeLimit } from './analysis/analysis-pool';
 import { createStorage } from './storage/create-storage';
 import type { ObjectStorage } from './storage/object-storage';
 
@@ -58,6 +59,7 @@ export function createRuntime(opts: RuntimeOptions) {
     logger.warn({ err }, 'a database connection was lost; the next query opens a new one'),
   );
   const db = createDb(pool);
+  setAnalysisTimeLimit(env.ANALYSIS_TIME_LIMIT_MS);
   const mailer = opts.mailer ?? createSmtpMailer(env, logger);
   const baseUrl = opts.baseUrl ?? env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
   const auth = createAuth({ pool, db, env, mailer, logger, baseUrl, secret: authSecret(env) });
@@ -92,6 +94,7 @@ export function createRuntime(opts: RuntimeOptions) {
     baseUrl,
     close: async () => {
       if (purgeTimer) clearInterval(purgeTimer);
+      await closeAnalysisPool();
       await db.destroy();
     },
   };

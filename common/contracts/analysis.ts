@@ -109,6 +109,8 @@ export const analysisResultSchema = z.object({
     rows: z.number(),
     missingPlots: z.number(),
   }),
+  /** Why the letters are empty (too many entries for the letter display), else null. */
+  lettersOmitted: z.string().nullable().optional(),
   pairs: z
     .array(
       z.object({

@@ -11,6 +11,7 @@ import * as records from './2026-12-01T0250-records';
 import * as dailyWeather from './2026-12-01T0300-daily-weather';
 import * as photoFiles from './2026-12-01T0400-photo-files';
 import * as results from './2026-12-01T0500-results';
+import * as requestRateWindows from './2026-12-02T1300-request-rate-windows';
 import * as followRequests from './2026-12-02T1400-follow-requests';
 import * as signInThrottles from './2026-12-02T1410-sign-in-throttles';
 
@@ -23,6 +24,7 @@ export const migrations: Record<string, Migration> = {
   '2026-12-01T0300-daily-weather': dailyWeather,
   '2026-12-01T0400-photo-files': photoFiles,
   '2026-12-01T0500-results': results,
+  '2026-12-02T1300-request-rate-windows': requestRateWindows,
   '2026-12-02T1400-follow-requests': followRequests,
   '2026-12-02T1410-sign-in-throttles': signInThrottles,
 };

@@ -11,19 +11,33 @@ import type { AppDeps } from '../app';
 import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
 import { endpoint, issuesOf } from '../lib/endpoint';
+import { rateLimit } from '../lib/rate-limit';
 import * as service from './analysis-service';
 
+/** One limit for every route that runs the analysis engine, per account (or address). */
+function analysisRateLimit({ db, env }: Pick<AppDeps, 'db' | 'env'>) {
+  return rateLimit(db, {
+    bucket: 'analysis',
+    max: env.ANALYSIS_RATE_PER_MINUTE,
+    windowSeconds: 60,
+  });
+}
+
 /** Mounted at /api/trials/:slug: a trial's analysis and ranking (trial.read). */
-export function trialAnalysisRouter({ db }: Pick<AppDeps, 'db'>) {
+export function trialAnalysisRouter(deps: Pick<AppDeps, 'db' | 'env'>) {
+  const { db } = deps;
+  const limited = analysisRateLimit(deps);
   const router = Router({ mergeParams: true });
   router.get(
     '/analysis',
+    limited,
     endpoint({ params: trialSlugParams, query: trialAnalysisQuery }, async (input, _req, res) => {
       res.json(await service.trialAnalysis(db, input.params.slug, actorOf(res), input.query));
     }),
   );
   router.get(
     '/ranking',
+    limited,
     endpoint({ params: trialSlugParams, query: rankingQuery }, async (input, _req, res) => {
       res.json(await service.trialRanking(db, input.params.slug, actorOf(res), input.query));
     }),
@@ -36,7 +50,7 @@ export function trialAnalysisRouter({ db }: Pick<AppDeps, 'db'>) {
  * Any signed-in account may use it (it reads no trial). The CSV comes as a text/csv body (up
  * to 2 MB, options in the query string) or as `csv` in a JSON body (the app's 1 MB JSON limit).
  */
-export function analyzeRouter() {
+export function analyzeRouter(deps: Pick<AppDeps, 'db' | 'env'>) {
   const router = Router();
   const csvText = express.text({
     type: ['text/csv', 'text/plain', 'application/csv'],
@@ -48,8 +62,9 @@ export function analyzeRouter() {
       requireActor(res);
       next();
     },
+    analysisRateLimit(deps),
     csvText,
-    (req, res) => {
+    async (req, res) => {
       let csv: string;
       let raw: unknown;
       let part: 'query' | 'body';
@@ -89,7 +104,7 @@ export function analyzeRouter() {
           fields,
         });
       }
-      res.json(service.analyzeSpreadsheet(csv, options.data));
+      res.json(await service.analyzeSpreadsheet(csv, options.data));
     },
   );
   return router;

@@ -11,13 +11,9 @@ import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import { trialForAction } from '../trials/trials-service';
-import {
-  AnalysisInputError,
-  analyzeCsv,
-  analyzePlotRows,
-  type AnalysisResult as EngineResult,
-  type PlotRow,
-} from './engine/analyze';
+import type { AnalysisResult as EngineResult, PlotRow } from './engine/analyze';
+import { AnalysisStopped, runAnalysis } from './analysis-pool';
+import type { AnalysisTask } from './analysis-worker';
 import { rankAcrossTraits } from './engine/ranking';
 import * as repo from './analysis-repository';
 import { buildPlotValues, PlotValueError, type TraitSource } from './trial-plot-values';
@@ -42,8 +38,29 @@ function finite<T>(value: T): T {
   ) as T;
 }
 
+/**
+ * Runs the engine off the request thread and turns what stopped it into an answer that names
+ * the limit: too many rows 413, too many entries or too long 422, a full queue 503.
+ */
+async function analyse(task: AnalysisTask): Promise<EngineResult> {
+  let outcome;
+  try {
+    outcome = await runAnalysis(task);
+  } catch (err) {
+    if (!(err instanceof AnalysisStopped)) throw err;
+    if (err.reason === 'busy') throw new AppError('unavailable', err.message);
+    throw new AppError('unprocessable', err.message, { limit: err.reason, max: err.max });
+  }
+  if (outcome.ok) return outcome.result;
+  if (outcome.kind === 'input') throw new AppError('unprocessable', outcome.message);
+  throw new AppError(
+    outcome.limit === 'rows' ? 'payload_too_large' : 'unprocessable',
+    outcome.message,
+    { limit: outcome.limit, max: outcome.max, actual: outcome.actual },
+  );
+}
+
 function unprocessable(err: unknown): never {
-  if (err instanceof AnalysisInputError) throw new AppError('unprocessable', err.message);
   if (err instanceof PlotValueError) {
     if (err.field)
       throw new AppError('validation_failed', err.message, {
@@ -124,17 +141,16 @@ async function analyseTrait(
     plot: String(plot.plot_number),
     value,
   }));
-  let result: EngineResult;
-  try {
-    result = analyzePlotRows(rows, {
+  const result = await analyse({
+    kind: 'rows',
+    rows,
+    options: {
       trait: trait.key,
       alpha: options.alpha,
       design: trial.design,
       letters: options.letters,
-    });
-  } catch (err) {
-    unprocessable(err);
-  }
+    },
+  });
   const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));
   return finite({
     ...result,
@@ -261,29 +277,29 @@ export async function trialRanking(
 }
 
 /** The spreadsheet analysis: nothing is read from or written to the database. */
-export function analyzeSpreadsheet(
+export async function analyzeSpreadsheet(
   csv: string,
   options: Omit<AnalyzeOptionsInput, 'alpha' | 'letters'> & {
     alpha: number;
     letters: 'hsd' | 'lsd';
   },
-): AnalysisResult {
+): Promise<AnalysisResult> {
   const columns: Record<string, string> = {};
   for (const c of ['variety', 'site', 'block', 'plot'] as const) {
     const v = options[c];
     if (v !== undefined) columns[c] = v;
   }
-  try {
-    return finite(
-      analyzeCsv(csv, {
+  return finite(
+    await analyse({
+      kind: 'csv',
+      csv,
+      options: {
         alpha: options.alpha,
         letters: options.letters,
         ...(options.design ? { design: options.design } : {}),
         ...(options.value ? { trait: options.value } : {}),
         columns,
-      }),
-    );
-  } catch (err) {
-    unprocessable(err);
-  }
+      },
+    }),
+  );
 }

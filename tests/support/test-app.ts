@@ -26,7 +26,14 @@ export interface TestApp {
 }
 
 export async function createTestApp(
-  opts: { clientDir?: string; baseUrl?: string; port?: number; storage?: ObjectStorage } = {},
+  opts: {
+    clientDir?: string;
+    baseUrl?: string;
+    port?: number;
+    storage?: ObjectStorage;
+    /** More environment variables (limits a test wants small). */
+    env?: Record<string, string>;
+  } = {},
 ): Promise<TestApp> {
   const database = await createTestDatabase();
   // Each test app keeps its photo files in a folder of its own, removed on close.
@@ -38,6 +45,7 @@ export async function createTestApp(
     SMTP_PORT: String(mailbox.port),
     PORT: String(opts.port ?? 3999),
     UPLOADS_DIR: uploadsDir,
+    ...opts.env,
   });
   const logger = pino({ level: 'silent' });
   const runtime = createRuntime({

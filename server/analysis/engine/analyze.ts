@@ -30,6 +30,28 @@ export class AnalysisInputError extends Error {
   }
 }
 
+/** Input beyond a size limit the caller set; names the limit so the message can. */
+export class AnalysisLimitError extends Error {
+  constructor(
+    readonly limit: 'rows' | 'entries',
+    readonly max: number,
+    readonly actual: number,
+  ) {
+    super(
+      limit === 'rows'
+        ? `The data has ${actual} rows; the limit is ${max} rows per analysis.`
+        : `The data has ${actual} entries (varieties); the limit is ${max} entries per analysis.`,
+    );
+    this.name = 'AnalysisLimitError';
+  }
+}
+
+/** Size limits on one analysis (none when left out). */
+export interface AnalysisLimits {
+  maxRows?: number;
+  maxEntries?: number;
+}
+
 /** One measured plot (or one sub-sample of a plot). */
 export interface PlotRow {
   variety: string;
@@ -55,6 +77,9 @@ export interface AnalyzeOptions {
   method?: AnovaMethod;
   /** Include every pairwise comparison in the result (default false). */
   includePairs?: boolean;
+  limits?: AnalysisLimits;
+  /** Work limit for each letter display (see compactLettersWithin). */
+  letterWorkLimit?: number;
 }
 
 export interface EntrySummary {
@@ -106,6 +131,8 @@ export interface AnalysisResult {
    * `means[].rank` and the letters follow these.
    */
   adjustedMeans: { variety: string; mean: number; se: number }[];
+  /** Why `group` letters are empty (too many entries to display within the limit), else null. */
+  lettersOmitted: string | null;
   pairs?: {
     a: string;
     b: string;
@@ -179,6 +206,9 @@ export function analyzePlotRows(
   const trait = options.trait ?? 'value';
   const warnings: string[] = [];
   if (rows.length === 0) throw new AnalysisInputError('no data rows');
+  const limits = options.limits ?? {};
+  if (limits.maxRows !== undefined && rows.length > limits.maxRows)
+    throw new AnalysisLimitError('rows', limits.maxRows, rows.length);
 
   const hasPlot = rows.some((r) => label(r.plot) !== null);
   const hasBlock = rows.some((r) => label(r.block) !== null);
@@ -298,6 +328,8 @@ export function analyzePlotRows(
   const site = code(plots.map((p) => p.site));
   const block = code(plots.map((p) => `${p.site}\u0000${p.block ?? ''}`));
 
+  if (limits.maxEntries !== undefined && entry.levels.length > limits.maxEntries)
+    throw new AnalysisLimitError('entries', limits.maxEntries, entry.levels.length);
   if (entry.levels.length < 2) {
     throw new AnalysisInputError(
       `column "variety": only one entry ("${entry.levels[0]}"); at least two are needed to compare`,
@@ -394,14 +426,27 @@ export function analyzePlotRows(
     );
   }
   const modelBased = adjustedOk && !orthogonal;
-  const sep = separateMeans(
-    entry.levels.map((name, i) => ({ entry: name, mean: adjusted.mean[i]!, n: descs[i]!.n })),
-    av.error.ms,
-    av.error.df,
-    alpha,
-    varietyLine?.p ?? null,
-    modelBased ? adjusted.pairSe : undefined,
-  );
+  let sep: ReturnType<typeof separateMeans>;
+  try {
+    sep = separateMeans(
+      entry.levels.map((name, i) => ({ entry: name, mean: adjusted.mean[i]!, n: descs[i]!.n })),
+      av.error.ms,
+      av.error.df,
+      alpha,
+      varietyLine?.p ?? null,
+      {
+        ...(modelBased ? { pairSe: adjusted.pairSe } : {}),
+        includePairs: options.includePairs ?? false,
+        ...(options.letterWorkLimit === undefined
+          ? {}
+          : { letterWorkLimit: options.letterWorkLimit }),
+      },
+    );
+  } catch (err) {
+    // A critical value the distribution functions cannot give (an extreme alpha).
+    if (err instanceof RangeError) throw new AnalysisInputError(err.message);
+    throw err;
+  }
   if (!sep.replicates) {
     const counts = [...new Set(descs.map((d) => d.n))].sort((a, b) => a - b);
     warnings.push(
@@ -471,9 +516,10 @@ export function analyzePlotRows(
       rows: rows.length,
       missingPlots,
     },
+    lettersOmitted: sep.lettersOmitted,
     warnings,
   };
-  if (options.includePairs) {
+  if (sep.pairs) {
     const k = entry.levels.length;
     result.pairs = sep.pairs.map((pair) => {
       const t = pair.se > 0 ? pair.difference / pair.se : pair.difference === 0 ? 0 : Infinity;

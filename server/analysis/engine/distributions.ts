@@ -308,9 +308,38 @@ export function studentTQuantile(p: number, df: number): number {
   return upper ? x : -x;
 }
 
-/** Quantile of the studentized range for k means and df error degrees of freedom. */
+/**
+ * Quantile of the studentized range for k means and df error degrees of freedom. jstat's own
+ * inverse gives up ("failed to converge") at some tails and many means; then the quantile is
+ * found by bisection on its cdf, and accepted only when that cdf reproduces the upper tail to
+ * 0.1 % (otherwise NaN: the tail is beyond what the cdf resolves).
+ */
 export function studentizedRangeQuantile(p: number, k: number, df: number): number {
-  return jStat.tukey.inv(p, k, df);
+  try {
+    const q = jStat.tukey.inv(p, k, df);
+    if (Number.isFinite(q) && q > 0) return q;
+  } catch {
+    // fall through to bisection
+  }
+  const cdf = (q: number) => jStat.tukey.cdf(q, k, df);
+  let lo = 0;
+  let hi = 1;
+  while (!(cdf(hi) >= p)) {
+    hi *= 2;
+    if (hi > 1e6) return NaN;
+  }
+  for (let i = 0; i < 200 && hi - lo > 1e-12 * hi; i++) {
+    const mid = (lo + hi) / 2;
+    if (cdf(mid) < p) lo = mid;
+    else hi = mid;
+  }
+  const tail = 1 - cdf(hi);
+  return Math.abs(tail - (1 - p)) <= 1e-3 * (1 - p) ? hi : NaN;
+}
+
+/** Upper-tail probability of the studentized range (Tukey-adjusted p-values). */
+export function studentizedRangeUpperTail(q: number, k: number, df: number): number {
+  return 1 - jStat.tukey.cdf(q, k, df);
 }
 
 /** Upper-tail probability of the studentized range (Tukey-adjusted p-values). */

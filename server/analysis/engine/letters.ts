@@ -16,6 +16,27 @@ export function compactLetters(
   order: readonly number[],
   separated: (i: number, j: number) => boolean,
 ): string[] {
+  return compactLettersWithin(order, separated, Infinity)!;
+}
+
+/**
+ * The work of insert-and-absorb (group-set words compared) that letters may take; the number
+ * of groups can grow far faster than the number of entries, so a display is given up rather
+ * than let it run without end. About a second of work on one core (common practice, no source:
+ * measured here, not a published figure).
+ */
+export const LETTER_WORK_LIMIT = 200_000_000;
+
+/**
+ * Compact letters, or null when they would take more than `workLimit` units of work (one unit
+ * = one 32-entry word of a group compared or copied). Memory stays within the groups kept:
+ * nothing here holds a value per pair of entries.
+ */
+export function compactLettersWithin(
+  order: readonly number[],
+  separated: (i: number, j: number) => boolean,
+  workLimit: number = LETTER_WORK_LIMIT,
+): string[] | null {
   const k = order.length;
   const words = Math.ceil(k / 32) || 1;
   // Groups as bit sets over positions in `order` (position 0 = highest mean).
@@ -30,9 +51,17 @@ export function compactLetters(
     return true;
   };
 
+  let work = 0;
   for (let p = 0; p < k; p++) {
     for (let q = p + 1; q < k; q++) {
-      if (!separated(order[p]!, order[q]!)) continue;
+      // Testing a pair is a unit of work too, so the limit bounds the time as well.
+      if (!separated(order[p]!, order[q]!)) {
+        if (++work > workLimit) return null;
+        continue;
+      }
+      // Each split scans every group; each absorption check compares against every kept one.
+      work += groups.length * words;
+      if (work > workLimit) return null;
       const kept: Uint32Array[] = [];
       const fresh: Uint32Array[] = [];
       for (const g of groups) {
@@ -47,6 +76,8 @@ export function compactLetters(
       if (fresh.length === 0) continue;
       // Absorb: an untouched group can never lie inside a new one (it was not inside the
       // group that was split), so only new groups need checking, against everything kept.
+      work += fresh.length * (kept.length + fresh.length) * words;
+      if (work > workLimit) return null;
       const next = kept.slice();
       for (let a = 0; a < fresh.length; a++) {
         const g = fresh[a]!;

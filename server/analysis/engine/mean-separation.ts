@@ -9,7 +9,7 @@
  * single values are null.
  */
 import { studentTQuantile, studentizedRangeQuantile } from './distributions.js';
-import { compactLetters } from './letters.js';
+import { compactLettersWithin, LETTER_WORK_LIMIT } from './letters.js';
 
 export type SeparationMethod = 'lsd' | 'hsd';
 
@@ -39,6 +39,11 @@ export interface MeanSeparation {
   replicates: number | null;
   lsd: { value: number | null; df: number; t: number; protected: boolean };
   hsd: { value: number | null; q: number };
+  /**
+   * Why the letters are empty, when the letter display would have taken more than its work
+   * limit (many entries with many separations); null when they were computed.
+   */
+  lettersOmitted: string | null;
   /** Entries with rank (1 = highest mean) and letters for both tests, highest mean first. */
   ranked: {
     entry: string;
@@ -48,8 +53,22 @@ export interface MeanSeparation {
     lsdGroup: string;
     hsdGroup: string;
   }[];
-  pairs: PairComparison[];
+  /** Every pair, only when asked for (their number grows with the square of the entries). */
+  pairs?: PairComparison[];
   warnings: string[];
+}
+
+export interface SeparationOptions {
+  /**
+   * Standard error of the difference between means[i] and means[j] when it is not
+   * √(MS·(1/ni + 1/nj)) (adjusted means of a non-orthogonal layout); the single LSD and HSD
+   * values are then null.
+   */
+  pairSe?: (i: number, j: number) => number;
+  /** List every pairwise comparison in the result. */
+  includePairs?: boolean;
+  /** Work limit for each letter display (see compactLettersWithin). */
+  letterWorkLimit?: number;
 }
 
 /** Competition ranking: tied means share the best rank (1 = highest mean). */
@@ -66,9 +85,6 @@ export function rankDescending(values: readonly number[]): number[] {
 
 /**
  * @param varietyP p-value of the variety F test; LSD is "protected" only when it is < alpha.
- * @param pairSe standard error of the difference between means[i] and means[j] when it is
- *   not √(MS·(1/ni + 1/nj)) (adjusted means of a non-orthogonal layout); the single LSD and
- *   HSD values are then null.
  */
 export function separateMeans(
   means: readonly EntryMean[],
@@ -76,7 +92,7 @@ export function separateMeans(
   errorDf: number,
   alpha = 0.05,
   varietyP: number | null = null,
-  pairSe?: (i: number, j: number) => number,
+  options: SeparationOptions = {},
 ): MeanSeparation {
   if (!(alpha > 0 && alpha < 1))
     throw new RangeError(`alpha must be between 0 and 1, got ${alpha}`);
@@ -87,7 +103,14 @@ export function separateMeans(
 
   const t = studentTQuantile(1 - alpha / 2, errorDf);
   const q = studentizedRangeQuantile(1 - alpha, k, errorDf);
+  // With one error df the distribution functions give no value at all (HSD stays empty, as
+  // before); with more, a missing value means the alpha is beyond what they resolve.
+  if (!Number.isFinite(q) && errorDf >= 2)
+    throw new RangeError(
+      `the HSD critical value cannot be computed at alpha = ${alpha} for ${k} entries and ${errorDf} error degrees of freedom; choose an alpha between 0.001 and 0.2`,
+    );
   const n0 = means[0]!.n;
+  const pairSe = options.pairSe;
   const equal = !pairSe && means.every((m) => m.n === n0);
   const ms = Math.max(errorMs, 0);
   const lsdValue = equal ? t * Math.sqrt((2 * ms) / n0) : null;
@@ -103,43 +126,47 @@ export function separateMeans(
   const seOf =
     pairSe ?? ((i: number, j: number) => Math.sqrt(ms * (1 / means[i]!.n + 1 / means[j]!.n)));
 
-  const sepLsd: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
-  const sepHsd: boolean[][] = Array.from({ length: k }, () => new Array<boolean>(k).fill(false));
-  const pairs: PairComparison[] = [];
-  for (let i = 0; i < k; i++) {
-    for (let j = i + 1; j < k; j++) {
-      const a = means[i]!;
-      const b = means[j]!;
-      const se = seOf(i, j);
-      const diff = a.mean - b.mean;
-      const d = Math.abs(diff);
-      // Threshold form of the tests; a zero error MS separates any unequal means.
-      const lsdSep = d > t * se;
-      const hsdSep = d > (q * se) / Math.SQRT2;
-      sepLsd[i]![j] = sepLsd[j]![i] = lsdSep;
-      sepHsd[i]![j] = sepHsd[j]![i] = hsdSep;
-      pairs.push({
-        a: a.entry,
-        b: b.entry,
-        difference: diff,
-        se,
-        lsdSeparated: lsdSep,
-        hsdSeparated: hsdSep,
-      });
+  // Pairs are tested when asked, never stored as a k × k table: memory stays linear in k.
+  const se = seOf;
+  const d = (i: number, j: number) => Math.abs(means[i]!.mean - means[j]!.mean);
+  // Threshold form of the tests; a zero error MS separates any unequal means.
+  const lsdSeparated = (i: number, j: number) => d(i, j) > t * se(i, j);
+  const hsdSeparated = (i: number, j: number) => d(i, j) > (q * se(i, j)) / Math.SQRT2;
+
+  let pairs: PairComparison[] | undefined;
+  if (options.includePairs) {
+    pairs = [];
+    for (let i = 0; i < k; i++) {
+      for (let j = i + 1; j < k; j++) {
+        pairs.push({
+          a: means[i]!.entry,
+          b: means[j]!.entry,
+          difference: means[i]!.mean - means[j]!.mean,
+          se: se(i, j),
+          lsdSeparated: lsdSeparated(i, j),
+          hsdSeparated: hsdSeparated(i, j),
+        });
+      }
     }
   }
 
   const order = means.map((_, i) => i).sort((x, y) => means[y]!.mean - means[x]!.mean);
-  const lsdLetters = compactLetters(order, (i, j) => sepLsd[i]![j]!);
-  const hsdLetters = compactLetters(order, (i, j) => sepHsd[i]![j]!);
+  const workLimit = options.letterWorkLimit ?? LETTER_WORK_LIMIT;
+  const lsdLetters = compactLettersWithin(order, lsdSeparated, workLimit);
+  const hsdLetters = lsdLetters && compactLettersWithin(order, hsdSeparated, workLimit);
+  const lettersOmitted =
+    lsdLetters && hsdLetters
+      ? null
+      : `letters not computed: with ${k} entries the letter display needs more work than its limit; the means, ranks and critical differences stand`;
+  if (lettersOmitted) warnings.push(lettersOmitted);
   const ranks = rankDescending(means.map((m) => m.mean));
   const ranked = order.map((i) => ({
     entry: means[i]!.entry,
     mean: means[i]!.mean,
     n: means[i]!.n,
     rank: ranks[i]!,
-    lsdGroup: lsdLetters[i]!,
-    hsdGroup: hsdLetters[i]!,
+    lsdGroup: lsdLetters && hsdLetters ? lsdLetters[i]! : '',
+    hsdGroup: lsdLetters && hsdLetters ? hsdLetters[i]! : '',
   }));
 
   return {
@@ -149,8 +176,9 @@ export function separateMeans(
     replicates: equal ? n0 : null,
     lsd: { value: lsdValue, df: errorDf, t, protected: isProtected },
     hsd: { value: hsdValue, q },
+    lettersOmitted,
     ranked,
-    pairs,
+    ...(pairs ? { pairs } : {}),
     warnings,
   };
 }
