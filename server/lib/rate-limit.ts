@@ -39,11 +39,15 @@ export function rateLimit(db: DB, limit: RateLimit): RequestHandler {
     const { hits, retry_after } = rows[0]!;
     if (hits > limit.max) {
       const seconds = Math.max(1, Math.ceil(retry_after));
-      res.setHeader('Retry-After', String(seconds));
       throw new AppError(
         'rate_limited',
         `At most ${limit.max} requests of this kind per ${limit.windowSeconds} s; try again in ${seconds} s.`,
-        { limit: limit.bucket, max: limit.max, windowSeconds: limit.windowSeconds },
+        {
+          limit: limit.bucket,
+          max: limit.max,
+          windowSeconds: limit.windowSeconds,
+          retryAfterSeconds: seconds,
+        },
       );
     }
     next();
