@@ -315,6 +315,8 @@ export function studentTQuantile(p: number, df: number): number {
  * 0.1 % (otherwise NaN: the tail is beyond what the cdf resolves).
  */
 export function studentizedRangeQuantile(p: number, k: number, df: number): number {
+  // jstat's studentized range has no values below 2 error df.
+  if (!(df >= 2)) return NaN;
   try {
     const q = jStat.tukey.inv(p, k, df);
     if (Number.isFinite(q) && q > 0) return q;
