@@ -18,7 +18,7 @@ import { migrateToLatest } from '../../db/migrator';
 import { freePort, startPg, stopPg } from '../../db/pg-server';
 import { parseEnv } from '../../server/env';
 import { createRuntime, type Runtime } from '../../server/runtime';
-import { createUser, mintSessionCookie, TEST_ORIGIN, type TestApp } from '../support/test-app';
+import { createUser, mintSessionCookie, TEST_ORIGIN } from '../support/test-app';
 
 let base: string;
 let dataDir: string;
@@ -58,7 +58,7 @@ beforeAll(async () => {
     clientDir: '/nonexistent',
   });
   const user = await createUser(runtime.db);
-  cookie = await mintSessionCookie({ runtime } as TestApp, user);
+  cookie = await mintSessionCookie({ runtime, db: runtime.db }, user);
   server = runtime.app.listen(0, '127.0.0.1');
   // Longer than the client's own keep-alive, so a reused connection is never cut under it.
   server.keepAliveTimeout = 60_000;
