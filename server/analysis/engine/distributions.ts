@@ -343,8 +343,3 @@ export function studentizedRangeQuantile(p: number, k: number, df: number): numb
 export function studentizedRangeUpperTail(q: number, k: number, df: number): number {
   return 1 - jStat.tukey.cdf(q, k, df);
 }
-
-/** Upper-tail probability of the studentized range (Tukey-adjusted p-values). */
-export function studentizedRangeUpperTail(q: number, k: number, df: number): number {
-  return 1 - jStat.tukey.cdf(q, k, df);
-}
