@@ -1,5 +1,7 @@
+import { createColumnHelper } from '@tanstack/react-table';
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
+import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
@@ -7,6 +9,16 @@ import { useCompleteness } from '../api/record-api';
 import { FilterBar, FilterInput, SiteFilter } from '../components/record-log';
 import { RecordsNav } from '../components/records-nav';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+
+interface Row {
+  plotId: string;
+  plot: string;
+  entry: string;
+  harvests: number;
+  /** trait id -> records in the round */
+  counts: Record<string, number>;
+}
+const col = createColumnHelper<Row>();
 
 const isoDaysAgo = (n: number) => {
   const d = new Date();
@@ -29,6 +41,36 @@ export function Component() {
   const count = (plotId: string, traitId: string) =>
     data?.cells.find((c) => c.plotId === plotId && c.traitId === traitId)?.count ?? 0;
   const harvests = (plotId: string) => data?.harvests.find((h) => h.plotId === plotId)?.count ?? 0;
+  const rows: Row[] = (data?.plots ?? []).map((p) => ({
+    plotId: p.plotId,
+    plot: `${p.siteName} ${p.plotNumber}`,
+    entry: p.entryCode,
+    harvests: harvests(p.plotId),
+    counts: Object.fromEntries((data?.traits ?? []).map((t) => [t.id, count(p.plotId, t.id)])),
+  }));
+  const columns = [
+    col.accessor('plot', {
+      header: 'Plot',
+      // Numbers sort as numbers: plot 9 before plot 10.
+      sortingFn: (a, b) =>
+        a.original.plot.localeCompare(b.original.plot, undefined, { numeric: true }),
+    }),
+    col.accessor('entry', { header: 'Entry' }),
+    col.accessor('harvests', { header: 'Harvests', cell: (c) => c.getValue() || '—' }),
+    ...(data?.traits ?? []).map((t) =>
+      col.accessor((r) => r.counts[t.id] ?? 0, {
+        id: t.id,
+        header: t.label,
+        cell: (c) => (c.getValue() ? `✓ ${c.getValue()}` : 'missing'),
+        meta: {
+          cellClassName: (r: Row) =>
+            r.counts[t.id]
+              ? 'bg-leaf-50 text-leaf-900'
+              : 'bg-straw-100 font-semibold text-frost-600',
+        },
+      }),
+    ),
+  ];
   const missing = data
     ? data.plots.reduce(
         (a, p) => a + data.traits.filter((t) => count(p.plotId, t.id) === 0).length,
@@ -68,45 +110,14 @@ export function Component() {
             label="Records per plot and trait"
             className="rounded-lg bg-white shadow-sm"
           >
-            <table className="w-full text-left text-sm">
-              <caption className="sr-only">
-                Records per plot and trait between {from} and {to}
-              </caption>
-              <thead className="bg-leaf-50">
-                <tr>
-                  <th className="p-2">Plot</th>
-                  <th className="p-2">Entry</th>
-                  <th className="p-2">Harvests</th>
-                  {data.traits.map((t) => (
-                    <th key={t.id} className="p-2">
-                      {t.label}
-                    </th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {data.plots.map((p) => (
-                  <tr key={p.plotId} className="border-t border-leaf-50">
-                    <th scope="row" className="p-2 font-semibold">
-                      {p.siteName} {p.plotNumber}
-                    </th>
-                    <td className="p-2">{p.entryCode}</td>
-                    <td className="p-2">{harvests(p.plotId) || '—'}</td>
-                    {data.traits.map((t) => {
-                      const n = count(p.plotId, t.id);
-                      return (
-                        <td
-                          key={t.id}
-                          className={`p-2 ${n ? 'bg-leaf-50 text-leaf-900' : 'bg-straw-100 font-semibold text-frost-600'}`}
-                        >
-                          {n ? `✓ ${n}` : 'missing'}
-                        </td>
-                      );
-                    })}
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <DataTable
+              caption={`Records per plot and trait between ${from} and ${to}`}
+              data={rows}
+              columns={columns}
+              rowId={(r) => r.plotId}
+              rowHeader="plot"
+              chooseColumns
+            />
           </ScrollRegion>
         </>
       ) : null}
