@@ -477,3 +477,84 @@ export function storedUnitOf(kind: TraitRule['quantityKind']): string {
     date: 'date',
   }[kind];
 }
+
+// ---------- Field-log forms: what a grower types, before units are converted ----------
+
+/** A number typed into a form: blank is absent, and a decimal comma reads as a point. */
+export const typedNumber = <T extends z.ZodType>(schema: T) =>
+  z.preprocess((v) => {
+    if (typeof v !== 'string') return v;
+    const t = v.trim();
+    return t === '' ? undefined : Number(t.replace(',', '.'));
+  }, schema);
+
+/**
+ * One harvest round at a plot: marketable and cull in one save (either may be left blank,
+ * not both), mass in the unit chosen beside the field.
+ */
+export const harvestEntryForm = z
+  .object({
+    marketableCount: typedNumber(count('Marketable count', 100_000).optional()),
+    marketableMass: typedNumber(nonNegative('Marketable mass', 10_000_000).optional()),
+    cullCount: typedNumber(count('Cull count', 100_000).optional()),
+    cullMass: typedNumber(nonNegative('Cull mass', 10_000_000).optional()),
+    note: noteText,
+  })
+  .superRefine((v, ctx) => {
+    const pairs = [
+      ['marketableCount', 'marketableMass'],
+      ['cullCount', 'cullMass'],
+    ] as const;
+    for (const [c, m] of pairs) {
+      if (v[c] !== undefined && v[m] === undefined)
+        ctx.addIssue({ code: 'custom', path: [m], message: 'Enter the mass of these fruit too.' });
+      if (v[m] !== undefined && v[c] === undefined)
+        ctx.addIssue({ code: 'custom', path: [c], message: 'Enter how many fruit too.' });
+    }
+    if (v.marketableCount === undefined && v.marketableMass === undefined)
+      if (v.cullCount === undefined && v.cullMass === undefined)
+        ctx.addIssue({
+          code: 'custom',
+          path: ['marketableCount'],
+          message: 'Enter the marketable count and mass, the cull, or both.',
+        });
+  });
+export type HarvestEntryForm = z.output<typeof harvestEntryForm>;
+
+/** Values of one trait on sample plants, in the unit shown beside them; blanks are skipped. */
+export const measureEntryForm = (trait: TraitRule) =>
+  z.object({ values: z.array(typedNumber(finite('Value').optional())) }).superRefine((v, ctx) => {
+    v.values.forEach((value, i) => {
+      if (value === undefined) return;
+      // Units change a mass or a length, never its sign: the trait's rule reads typed values too.
+      const p = observationValueProblem(trait, value, null);
+      if (p) ctx.addIssue({ code: 'custom', path: ['values', i], message: p.message });
+    });
+    if (v.values.every((x) => x === undefined))
+      ctx.addIssue({ code: 'custom', path: ['values', 0], message: 'Enter at least one value.' });
+  });
+
+/** A plot score on the trait's scale. */
+export const scoreEntryForm = (trait: TraitRule) =>
+  z.object({
+    score: typedNumber(
+      z
+        .number({ error: `Choose a score from ${trait.scaleMin} to ${trait.scaleMax}.` })
+        .refine((s) => observationValueProblem(trait, s, null) === null, {
+          message: `${trait.label} is scored from ${trait.scaleMin} to ${trait.scaleMax}.`,
+        }),
+    ),
+  });
+
+/** Plants standing now, never more than were set. */
+export const standCountEntryForm = (plantsSet: number | null) =>
+  z.object({
+    plantsSurviving: typedNumber(
+      standCountBody.shape.plantsSurviving.refine((n) => plantsSet === null || n <= plantsSet, {
+        message: `The plot was set with ${plantsSet} plants; the stand cannot be more.`,
+      }),
+    ),
+  });
+
+/** A note about one plot. */
+export const plotNoteForm = z.object({ note: noteText.min(1, 'Write the note.') });

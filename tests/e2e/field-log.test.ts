@@ -99,7 +99,8 @@ describe('the field log on a phone', () => {
     const errors = watchErrors(page);
     await page.goto(`/t/${slug}/log`);
     await page.getByRole('heading', { level: 1, name: 'Field log' }).waitFor();
-    await page.getByRole('button', { name: 'Brookfold Allotment' }).click();
+    // The grower's only site is chosen for them.
+    await page.getByText('Site: Brookfold Allotment').waitFor();
     await page.getByRole('heading', { name: /^Plot 101 · Tallow Finger/ }).waitFor();
     // Okra: gloves and long sleeves, shown with the harvest form.
     await page
@@ -111,13 +112,23 @@ describe('the field log on a phone', () => {
     const plotNumbers = [101, 102, 103, 104, 105, 106, 201, 202, 203, 204, 205, 206];
     for (const [i, n] of plotNumbers.entries()) {
       await page.getByRole('heading', { name: new RegExp(`^Plot ${n} · `) }).waitFor();
-      await page.getByLabel('Fruit count').fill(String(10 + i));
-      await page.getByLabel(/^Mass \(g\)$/).fill(String(120 + i * 5.5));
+      await page.getByLabel('Marketable count').fill(String(10 + i));
+      await page.getByLabel('Marketable mass (g)').fill(String(120 + i * 5.5));
+      // The second plot also had culls: both grades go in one save.
+      if (i === 1) {
+        await page.getByLabel('Cull count').fill('2');
+        await page.getByLabel('Cull mass (g)').fill('31.5');
+      }
       await page.getByRole('button', { name: 'Save and next plot' }).click();
       await page
         .getByTestId('outbox-summary')
-        .getByText(`${i + 1} waiting`)
+        .getByText(`${i + (i >= 1 ? 2 : 1)} waiting`)
         .waitFor();
+      // The long caution was read once; from the next plot on it is one line.
+      if (i === 0)
+        await page
+          .getByText('Spiny or irritating plants: read the caution again', { exact: false })
+          .waitFor();
     }
     await page.getByText('That was the last plot at this site.', { exact: false }).waitFor();
     expect(
@@ -150,8 +161,8 @@ describe('the field log on a phone', () => {
       await route.continue();
     });
     await context.setOffline(false);
-    await page.getByTestId('outbox-summary').getByText('12 saved').waitFor({ timeout: 60_000 });
-    expect(deliveries).toBeGreaterThanOrEqual(24);
+    await page.getByTestId('outbox-summary').getByText('13 saved').waitFor({ timeout: 60_000 });
+    expect(deliveries).toBeGreaterThanOrEqual(26);
 
     const rows = await live.db
       .selectFrom('harvests as h')
@@ -159,15 +170,21 @@ describe('the field log on a phone', () => {
       .select(['p.plot_number', 'h.fruit_count', 'h.mass_g', 'h.grade', 'h.created_by'])
       .where('h.trial_id', '=', trialId)
       .orderBy('p.plot_number')
+      .orderBy('h.grade')
       .execute();
     expect(rows).toEqual(
-      plotNumbers.map((n, i) => ({
-        plot_number: n,
-        fruit_count: 10 + i,
-        mass_g: 120 + i * 5.5,
-        grade: 'marketable',
-        created_by: grower.id,
-      })),
+      plotNumbers.flatMap((n, i) => [
+        ...(n === 102
+          ? [{ plot_number: n, fruit_count: 2, mass_g: 31.5, grade: 'cull', created_by: grower.id }]
+          : []),
+        {
+          plot_number: n,
+          fruit_count: 10 + i,
+          mass_g: 120 + i * 5.5,
+          grade: 'marketable',
+          created_by: grower.id,
+        },
+      ]),
     );
     await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'field-log-saved-360');
@@ -181,7 +198,7 @@ describe('the field log on a phone', () => {
     const page = await context.newPage();
     const errors = watchErrors(page);
     await page.goto(`/t/${slug}/records/harvests`);
-    await page.getByText(/^12 harvests · /).waitFor();
+    await page.getByText(/^13 harvests · /).waitFor();
     await page.getByRole('button', { name: /^Edit harvest of plot 101 / }).click();
     // Meanwhile the grower corrects the same harvest from another phone.
     await live.db

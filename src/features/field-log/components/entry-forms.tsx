@@ -1,16 +1,27 @@
-import type { RecordPlot } from '@common/contracts/records';
-import { readNumberField } from '@common/decimal';
-import type { TrialWithPermissions } from '@/lib/trial';
+import {
+  harvestEntryForm,
+  measureEntryForm,
+  plotNoteForm,
+  type RecordPlot,
+  scoreEntryForm,
+  standCountEntryForm,
+} from '@common/contracts/records';
 import { type QuantityUnit, toStored, type UnitSystem } from '@common/units';
+import { zodResolver } from '@hookform/resolvers/zod';
 import { type ReactNode, useId, useState } from 'react';
-import type { OutboxItem } from '../api/outbox';
+import { useForm } from 'react-hook-form';
+import type { z } from 'zod';
+import type { TrialWithPermissions } from '@/lib/trial';
 import { clientId } from '../api/client-id';
+import type { OutboxItem } from '../api/outbox';
 
 export type QueuedEntry = Pick<
   OutboxItem,
   'id' | 'trialSlug' | 'kind' | 'method' | 'url' | 'body' | 'label'
 >;
 type Trait = TrialWithPermissions['traits'][number];
+/** A field's problem as react-hook-form reports it. */
+type Problem = { message?: string | undefined } | undefined;
 
 interface FormProps {
   slug: string;
@@ -22,11 +33,12 @@ interface FormProps {
   onSave: (entries: QueuedEntry[], next: boolean) => Promise<void>;
 }
 
-const inputClass = 'min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-3 text-lg';
+const inputClass = (invalid: boolean) =>
+  `min-h-11 w-full rounded-lg border bg-white px-3 text-lg ${invalid ? 'border-frost-600' : 'border-leaf-300'}`;
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
 const plotLabel = (p: RecordPlot) => `Plot ${p.plotNumber} (${p.entryCode})`;
-
-const readNumber = readNumberField;
+export const massUnitsOf = (units: UnitSystem): QuantityUnit[] =>
+  units === 'metric' ? ['g', 'kg'] : ['oz', 'lb'];
 
 function SaveButtons({ disabled }: { disabled?: boolean }) {
   return (
@@ -53,25 +65,41 @@ function SaveButtons({ disabled }: { disabled?: boolean }) {
   );
 }
 
-function FieldError({ id, message }: { id: string; message: string | null }) {
-  return message ? (
+/** The contract's message for a field, tied to its input. */
+function FieldMessage({ id, error }: { id: string; error: Problem }) {
+  return error?.message ? (
     <p id={id} role="alert" className="text-sm font-medium text-frost-600">
-      {message}
+      {error.message}
     </p>
   ) : null;
 }
 
-/** A label above its control. */
-function Field({ id, label, children }: { id: string; label: ReactNode; children: ReactNode }) {
+/** A label above its control, and the control's error below it. */
+function Field({
+  id,
+  label,
+  error,
+  children,
+}: {
+  id: string;
+  label: ReactNode;
+  error?: Problem;
+  children: ReactNode;
+}) {
   return (
     <div className="flex flex-col gap-1">
       <label htmlFor={id} className="font-medium">
         {label}
       </label>
       {children}
+      <FieldMessage id={`${id}-err`} error={error} />
     </div>
   );
 }
+
+/** aria attributes of an input whose error shows under it. */
+const invalidProps = (id: string, error: Problem) =>
+  error ? { 'aria-invalid': true as const, 'aria-describedby': `${id}-err` } : {};
 
 /**
  * A new record for the outbox. Its client-made id is also the outbox id, so a retry sends the
@@ -96,35 +124,41 @@ function newRecord(
   };
 }
 
-const submitterNext = (e: React.FormEvent<HTMLFormElement>) =>
-  ((e.nativeEvent as SubmitEvent).submitter as HTMLButtonElement | null)?.value !== 'no';
+/** Which save button was pressed: "Save and next plot" unless it was the plain "Save". */
+const submitterNext = (e: React.BaseSyntheticEvent | undefined) =>
+  ((e?.nativeEvent as SubmitEvent | undefined)?.submitter as HTMLButtonElement | null)?.value !==
+  'no';
 
+/** react-hook-form on a shared contract: typed text in, the contract's output out. */
+function useContractForm<S extends z.ZodType<Record<string, unknown>, Record<string, unknown>>>(
+  schema: S,
+  defaultValues: z.input<S>,
+) {
+  return useForm<z.input<S>, unknown, z.output<S>>({
+    // The resolver's generic types cannot follow a schema given as a parameter.
+    resolver: zodResolver(schema as never) as never,
+    defaultValues: defaultValues as never,
+  });
+}
+
+/** One harvest round at a plot: marketable and cull in one save. */
 export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
   const id = useId();
-  const massUnits: QuantityUnit[] = units === 'metric' ? ['g', 'kg'] : ['oz', 'lb'];
-  const [count, setCount] = useState('');
-  const [mass, setMass] = useState('');
+  const massUnits = massUnitsOf(units);
   const [unit, setUnit] = useState<QuantityUnit>(massUnits[0]!);
-  const [grade, setGrade] = useState<'marketable' | 'cull'>('marketable');
-  const [note, setNote] = useState('');
-  const [error, setError] = useState<string | null>(null);
+  const blank = { marketableCount: '', marketableMass: '', cullCount: '', cullMass: '', note: '' };
+  const form = useContractForm(harvestEntryForm, blank);
+  const { errors, isSubmitting } = form.formState;
 
-  return (
-    <form
-      aria-label="Harvest"
-      className="space-y-3"
-      onSubmit={async (e) => {
-        e.preventDefault();
-        const fruitCount = readNumber(count);
-        const massValue = readNumber(mass);
-        if (fruitCount === null || !Number.isInteger(fruitCount) || fruitCount < 0)
-          return setError('Enter the fruit count as a whole number, 0 or more.');
-        if (massValue === null || Number.isNaN(massValue) || massValue < 0)
-          return setError('Enter the mass as a number, 0 or more.');
-        setError(null);
-        const massG = toStored(massValue, unit);
-        await onSave(
-          [
+  const onSubmit = form.handleSubmit(async (v, e) => {
+    const grades = [
+      ['marketable', v.marketableCount, v.marketableMass],
+      ['cull', v.cullCount, v.cullMass],
+    ] as const;
+    const entries = grades.flatMap(([grade, fruitCount, mass]) =>
+      fruitCount === undefined || mass === undefined
+        ? []
+        : [
             newRecord(
               slug,
               'harvest',
@@ -133,132 +167,141 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
                 plotId: plot.plotId,
                 harvestedOn: date,
                 fruitCount,
-                massG,
+                massG: toStored(mass, unit),
                 grade,
-                note,
+                note: v.note,
               },
-              `${plotLabel(plot)} · ${date} · ${fruitCount} fruit, ${massValue} ${unit}, ${grade}`,
+              `${plotLabel(plot)} · ${date} · ${fruitCount} fruit, ${mass} ${unit}, ${grade}`,
             ),
           ],
-          submitterNext(e),
-        );
-        setCount('');
-        setMass('');
-        setNote('');
-      }}
-    >
-      <div className="grid grid-cols-2 gap-3">
-        <Field id={`${id}-c`} label="Fruit count">
+    );
+    await onSave(entries, submitterNext(e));
+    form.reset(blank);
+  });
+
+  const row = (grade: 'marketable' | 'cull', title: string) => {
+    const c = `${grade}Count` as const;
+    const m = `${grade}Mass` as const;
+    return (
+      <fieldset className="grid grid-cols-2 gap-3">
+        <legend className="mb-1 font-semibold text-leaf-900">{title}</legend>
+        <Field id={`${id}-${c}`} label={`${title} count`} error={errors[c]}>
           <input
-            id={`${id}-c`}
+            id={`${id}-${c}`}
             inputMode="numeric"
             pattern="[0-9]*"
             autoComplete="off"
-            value={count}
-            onChange={(e) => setCount(e.target.value)}
-            className={inputClass}
+            className={inputClass(!!errors[c])}
+            {...invalidProps(`${id}-${c}`, errors[c])}
+            {...form.register(c)}
           />
         </Field>
-        <Field id={`${id}-m`} label={<>Mass ({unit})</>}>
-          <div className="flex gap-1">
-            <input
-              id={`${id}-m`}
-              inputMode="decimal"
-              autoComplete="off"
-              value={mass}
-              onChange={(e) => setMass(e.target.value)}
-              className={inputClass}
-            />
-            <select
-              aria-label="Mass unit"
-              value={unit}
-              onChange={(e) => setUnit(e.target.value as QuantityUnit)}
-              className="min-h-11 rounded-lg border border-leaf-300 bg-white px-1"
-            >
-              {massUnits.map((u) => (
-                <option key={u}>{u}</option>
-              ))}
-            </select>
-          </div>
+        <Field id={`${id}-${m}`} label={`${title} mass (${unit})`} error={errors[m]}>
+          <input
+            id={`${id}-${m}`}
+            inputMode="decimal"
+            autoComplete="off"
+            className={inputClass(!!errors[m])}
+            {...invalidProps(`${id}-${m}`, errors[m])}
+            {...form.register(m)}
+          />
         </Field>
-      </div>
-      <fieldset className="flex gap-2">
-        <legend className="mb-1 font-medium">Grade</legend>
-        {(['marketable', 'cull'] as const).map((g) => (
-          <label
-            key={g}
-            className={`flex min-h-11 flex-1 cursor-pointer items-center justify-center rounded-lg border px-3 font-semibold ${
-              grade === g ? 'border-leaf-700 bg-leaf-700 text-white' : 'border-leaf-300 bg-white'
-            }`}
-          >
-            <input
-              type="radio"
-              name={`${id}-grade`}
-              value={g}
-              checked={grade === g}
-              onChange={() => setGrade(g)}
-              className="sr-only"
-            />
-            {g === 'marketable' ? 'Marketable' : 'Cull'}
-          </label>
-        ))}
       </fieldset>
-      <Field id={`${id}-n`} label="Note (optional)">
+    );
+  };
+
+  return (
+    <form aria-label="Harvest" className="space-y-3" noValidate onSubmit={onSubmit}>
+      {row('marketable', 'Marketable')}
+      {row('cull', 'Cull')}
+      <p className="text-sm text-loam-700">Leave cull blank when there was none.</p>
+      <div className="flex items-center gap-2">
+        <label htmlFor={`${id}-unit`} className="font-medium">
+          Mass unit
+        </label>
+        <select
+          id={`${id}-unit`}
+          value={unit}
+          onChange={(e) => setUnit(e.target.value as QuantityUnit)}
+          className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
+        >
+          {massUnits.map((u) => (
+            <option key={u}>{u}</option>
+          ))}
+        </select>
+      </div>
+      <Field id={`${id}-n`} label="Note (optional)" error={errors.note}>
         <input
           id={`${id}-n`}
-          value={note}
-          onChange={(e) => setNote(e.target.value)}
-          className={inputClass}
+          className={inputClass(!!errors.note)}
+          {...invalidProps(`${id}-n`, errors.note)}
+          {...form.register('note')}
         />
       </Field>
-      <FieldError id={`${id}-err`} message={error} />
-      <SaveButtons />
+      <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }
 
+/** The units a measured trait may be typed in, the first being the default. */
+function unitOptionsOf(trait: Trait, units: UnitSystem): QuantityUnit[] | null {
+  if (trait.quantityKind === 'length') return units === 'metric' ? ['cm', 'mm'] : ['in'];
+  if (trait.quantityKind === 'mass') return massUnitsOf(units);
+  return null;
+}
+
 /** Values of one trait for several sample plants at once (e.g. heights of 5 plants). */
-export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormProps) {
+export function MeasureForm(props: FormProps) {
   const id = useId();
-  const measurable = traits.filter((t) =>
-    ['length', 'mass', 'count', 'percent'].includes(t.quantityKind),
+  const measurable = props.traits.filter(
+    (t) => ['length', 'mass', 'count', 'percent'].includes(t.quantityKind) && t.basis !== 'harvest',
   );
   const [traitId, setTraitId] = useState(measurable[0]?.id ?? '');
   const trait = measurable.find((t) => t.id === traitId);
-  const unitOptions: QuantityUnit[] | null =
-    trait?.quantityKind === 'length'
-      ? units === 'metric'
-        ? ['mm', 'cm']
-        : ['in']
-      : trait?.quantityKind === 'mass'
-        ? units === 'metric'
-          ? ['g', 'kg']
-          : ['oz', 'lb']
-        : null;
-  const [unit, setUnit] = useState<QuantityUnit | null>(null);
-  const activeUnit = unit && unitOptions?.includes(unit) ? unit : (unitOptions?.[0] ?? null);
-  const [plants, setPlants] = useState(5);
-  const [values, setValues] = useState<string[]>([]);
-  const [error, setError] = useState<string | null>(null);
   if (!trait) return <p>This trial has no measured traits.</p>;
-  const suffix = activeUnit ?? (trait.quantityKind === 'percent' ? '%' : '');
-
   return (
-    <form
-      aria-label="Measurements"
-      className="space-y-3"
-      onSubmit={async (e) => {
-        e.preventDefault();
-        const entries: QueuedEntry[] = [];
-        for (let i = 0; i < plants; i++) {
-          const v = readNumber(values[i] ?? '');
-          if (v === null) continue;
-          if (Number.isNaN(v) || v < 0)
-            return setError(`Plant ${i + 1}: enter a number, 0 or more.`);
-          if (trait.quantityKind === 'count' && !Number.isInteger(v))
-            return setError(`Plant ${i + 1}: a count is a whole number.`);
-          const value = activeUnit ? toStored(v, activeUnit) : v;
-          entries.push(
+    <MeasureTraitForm key={trait.id} {...props} trait={trait}>
+      <Field id={`${id}-t`} label="Trait">
+        <select
+          id={`${id}-t`}
+          value={traitId}
+          onChange={(e) => setTraitId(e.target.value)}
+          className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
+        >
+          {measurable.map((t) => (
+            <option key={t.id} value={t.id}>
+              {t.label}
+            </option>
+          ))}
+        </select>
+      </Field>
+    </MeasureTraitForm>
+  );
+}
+
+function MeasureTraitForm({
+  slug,
+  plot,
+  date,
+  units,
+  onSave,
+  trait,
+  children,
+}: FormProps & { trait: Trait; children: ReactNode }) {
+  const id = useId();
+  const unitOptions = unitOptionsOf(trait, units);
+  const [unit, setUnit] = useState<QuantityUnit | null>(unitOptions?.[0] ?? null);
+  const [plants, setPlants] = useState(5);
+  const form = useContractForm(measureEntryForm(trait), { values: [] });
+  const { isSubmitting } = form.formState;
+  const valueErrors = (form.formState.errors.values ?? []) as Problem[];
+  const suffix = unit ?? (trait.quantityKind === 'percent' ? '%' : '');
+
+  const onSubmit = form.handleSubmit(async (v, e) => {
+    const entries = v.values.slice(0, plants).flatMap((typed, i) =>
+      typed === undefined
+        ? []
+        : [
             newRecord(
               slug,
               'observation',
@@ -267,34 +310,21 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
                 plotId: plot.plotId,
                 traitId: trait.id,
                 observedOn: date,
-                value,
+                value: unit ? toStored(typed, unit) : typed,
                 plantNumber: i + 1,
               },
-              `${plotLabel(plot)} · ${date} · ${trait.label}, plant ${i + 1}: ${v} ${suffix}`,
+              `${plotLabel(plot)} · ${date} · ${trait.label}, plant ${i + 1}: ${typed} ${suffix}`,
             ),
-          );
-        }
-        if (!entries.length) return setError('Enter at least one value.');
-        setError(null);
-        await onSave(entries, submitterNext(e));
-        setValues([]);
-      }}
-    >
+          ],
+    );
+    await onSave(entries, submitterNext(e));
+    form.reset({ values: [] });
+  });
+
+  return (
+    <form aria-label="Measurements" className="space-y-3" noValidate onSubmit={onSubmit}>
       <div className="grid grid-cols-2 gap-3">
-        <Field id={`${id}-t`} label="Trait">
-          <select
-            id={`${id}-t`}
-            value={traitId}
-            onChange={(e) => setTraitId(e.target.value)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          >
-            {measurable.map((t) => (
-              <option key={t.id} value={t.id}>
-                {t.label}
-              </option>
-            ))}
-          </select>
-        </Field>
+        {children}
         <Field id={`${id}-p`} label="Plants sampled">
           <input
             id={`${id}-p`}
@@ -304,7 +334,7 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
             max={50}
             value={plants}
             onChange={(e) => setPlants(Math.max(1, Math.min(50, Number(e.target.value) || 1)))}
-            className={inputClass}
+            className={inputClass(false)}
           />
         </Field>
       </div>
@@ -315,7 +345,7 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
           </label>
           <select
             id={`${id}-u`}
-            value={activeUnit ?? ''}
+            value={unit ?? ''}
             onChange={(e) => setUnit(e.target.value as QuantityUnit)}
             className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
           >
@@ -327,78 +357,42 @@ export function MeasureForm({ slug, plot, date, units, traits, onSave }: FormPro
       ) : null}
       <div className="grid grid-cols-2 gap-2 sm:grid-cols-5">
         {Array.from({ length: plants }, (_, i) => (
-          <div key={i} className="flex flex-col gap-1">
-            <label htmlFor={`${id}-v${i}`} className="text-sm font-medium">
-              Plant {i + 1} {suffix ? `(${suffix})` : ''}
-            </label>
+          <Field
+            key={i}
+            id={`${id}-v${i}`}
+            label={`Plant ${i + 1}${suffix ? ` (${suffix})` : ''}`}
+            error={valueErrors[i]}
+          >
             <input
               id={`${id}-v${i}`}
               inputMode={trait.quantityKind === 'count' ? 'numeric' : 'decimal'}
               autoComplete="off"
-              value={values[i] ?? ''}
-              onChange={(e) => {
-                const next = [...values];
-                next[i] = e.target.value;
-                setValues(next);
-              }}
-              className={inputClass}
+              className={inputClass(!!valueErrors[i])}
+              {...invalidProps(`${id}-v${i}`, valueErrors[i])}
+              {...form.register(`values.${i}`)}
             />
-          </div>
+          </Field>
         ))}
       </div>
-      <FieldError id={`${id}-err`} message={error} />
-      <SaveButtons />
+      <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }
 
-export function ScoreForm({ slug, plot, date, traits, onSave }: FormProps) {
+/** A plot score on the trait's scale, one tap per step. */
+export function ScoreForm(props: FormProps) {
   const id = useId();
-  const scored = traits.filter((t) => t.quantityKind === 'score');
+  const scored = props.traits.filter((t) => t.quantityKind === 'score');
   const [traitId, setTraitId] = useState(scored[0]?.id ?? '');
-  const [score, setScore] = useState<number | null>(null);
-  const [error, setError] = useState<string | null>(null);
   const trait = scored.find((t) => t.id === traitId);
   if (!trait) return <p>This trial has no scored traits.</p>;
-  const steps: number[] = [];
-  for (let s = trait.scaleMin!; s <= trait.scaleMax!; s++) steps.push(s);
   return (
-    <form
-      aria-label="Score"
-      className="space-y-3"
-      onSubmit={async (e) => {
-        e.preventDefault();
-        if (score === null)
-          return setError(`Choose a score from ${trait.scaleMin} to ${trait.scaleMax}.`);
-        setError(null);
-        await onSave(
-          [
-            newRecord(
-              slug,
-              'observation',
-              'observations',
-              {
-                plotId: plot.plotId,
-                traitId: trait.id,
-                observedOn: date,
-                value: score,
-              },
-              `${plotLabel(plot)} · ${date} · ${trait.label}: ${score}`,
-            ),
-          ],
-          submitterNext(e),
-        );
-        setScore(null);
-      }}
-    >
+    <ScoreTraitForm key={trait.id} {...props} trait={trait}>
       <Field id={`${id}-t`} label="Trait">
         <select
           id={`${id}-t`}
           value={traitId}
-          onChange={(e) => {
-            setTraitId(e.target.value);
-            setScore(null);
-          }}
+          onChange={(e) => setTraitId(e.target.value)}
           className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
         >
           {scored.map((t) => (
@@ -408,134 +402,148 @@ export function ScoreForm({ slug, plot, date, traits, onSave }: FormProps) {
           ))}
         </select>
       </Field>
-      <fieldset>
+    </ScoreTraitForm>
+  );
+}
+
+function ScoreTraitForm({
+  slug,
+  plot,
+  date,
+  onSave,
+  trait,
+  children,
+}: FormProps & { trait: Trait; children: ReactNode }) {
+  const id = useId();
+  const form = useContractForm(scoreEntryForm(trait), { score: '' });
+  const { errors, isSubmitting } = form.formState;
+  const chosen = form.watch('score');
+  const steps: number[] = [];
+  for (let s = trait.scaleMin!; s <= trait.scaleMax!; s++) steps.push(s);
+
+  const onSubmit = form.handleSubmit(async (v, e) => {
+    await onSave(
+      [
+        newRecord(
+          slug,
+          'observation',
+          'observations',
+          { plotId: plot.plotId, traitId: trait.id, observedOn: date, value: v.score },
+          `${plotLabel(plot)} · ${date} · ${trait.label}: ${v.score}`,
+        ),
+      ],
+      submitterNext(e),
+    );
+    form.reset({ score: '' });
+  });
+
+  return (
+    <form aria-label="Score" className="space-y-3" noValidate onSubmit={onSubmit}>
+      {children}
+      <fieldset aria-describedby={errors.score ? `${id}-err` : undefined}>
         <legend className="mb-1 font-medium">Score</legend>
         <div className="flex flex-wrap gap-2">
           {steps.map((s) => (
             <label
               key={s}
-              className={`flex min-h-12 min-w-12 cursor-pointer items-center justify-center rounded-lg border text-lg font-bold ${
-                score === s ? 'border-leaf-700 bg-leaf-700 text-white' : 'border-leaf-300 bg-white'
+              className={`flex min-h-12 min-w-12 cursor-pointer items-center justify-center rounded-lg border text-lg font-bold has-[:focus-visible]:ring-2 has-[:focus-visible]:ring-pod-500 ${
+                String(chosen) === String(s)
+                  ? 'border-leaf-700 bg-leaf-700 text-white'
+                  : 'border-leaf-300 bg-white'
               }`}
             >
-              <input
-                type="radio"
-                name={`${id}-score`}
-                value={s}
-                checked={score === s}
-                onChange={() => setScore(s)}
-                className="sr-only"
-              />
+              <input type="radio" value={s} className="sr-only" {...form.register('score')} />
               {s}
             </label>
           ))}
         </div>
       </fieldset>
-      <FieldError id={`${id}-err`} message={error} />
-      <SaveButtons />
+      <FieldMessage id={`${id}-err`} error={errors.score} />
+      <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }
 
 export function StandCountForm({ slug, plot, onSave }: FormProps) {
   const id = useId();
-  const [count, setCount] = useState('');
-  const [error, setError] = useState<string | null>(null);
+  const form = useContractForm(standCountEntryForm(plot.plantsSet), { plantsSurviving: '' });
+  const { errors, isSubmitting } = form.formState;
+  const onSubmit = form.handleSubmit(async (v, e) => {
+    await onSave(
+      [
+        {
+          id: clientId(),
+          trialSlug: slug,
+          kind: 'stand-count',
+          method: 'PUT',
+          url: `${base(slug)}/records/plots/${plot.plotId}/stand-count`,
+          body: { plantsSurviving: v.plantsSurviving },
+          label: `${plotLabel(plot)} · stand count ${v.plantsSurviving}`,
+        },
+      ],
+      submitterNext(e),
+    );
+    form.reset({ plantsSurviving: '' });
+  });
   return (
-    <form
-      aria-label="Stand count"
-      className="space-y-3"
-      onSubmit={async (e) => {
-        e.preventDefault();
-        const n = readNumber(count);
-        if (n === null || !Number.isInteger(n) || n < 0)
-          return setError('Enter the plants standing as a whole number.');
-        if (plot.plantsSet !== null && n > plot.plantsSet)
-          return setError(
-            `The plot was set with ${plot.plantsSet} plants; the stand cannot be more.`,
-          );
-        setError(null);
-        await onSave(
-          [
-            {
-              id: clientId(),
-              trialSlug: slug,
-              kind: 'stand-count',
-              method: 'PUT',
-              url: `${base(slug)}/records/plots/${plot.plotId}/stand-count`,
-              body: { plantsSurviving: n },
-              label: `${plotLabel(plot)} · stand count ${n}`,
-            },
-          ],
-          submitterNext(e),
-        );
-        setCount('');
-      }}
-    >
+    <form aria-label="Stand count" className="space-y-3" noValidate onSubmit={onSubmit}>
       <Field
         id={`${id}-c`}
         label={<>Plants standing{plot.plantsSet !== null ? ` (of ${plot.plantsSet} set)` : ''}</>}
+        error={errors.plantsSurviving}
       >
         <input
           id={`${id}-c`}
           inputMode="numeric"
           pattern="[0-9]*"
-          value={count}
-          onChange={(e) => setCount(e.target.value)}
-          className={inputClass}
+          className={inputClass(!!errors.plantsSurviving)}
+          {...invalidProps(`${id}-c`, errors.plantsSurviving)}
+          {...form.register('plantsSurviving')}
         />
       </Field>
-      <FieldError id={`${id}-err`} message={error} />
-      <SaveButtons />
+      <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }
 
 export function NoteForm({ slug, plot, date, onSave }: FormProps) {
   const id = useId();
-  const [text, setText] = useState('');
-  const [error, setError] = useState<string | null>(null);
+  const form = useContractForm(plotNoteForm, { note: '' });
+  const { errors, isSubmitting } = form.formState;
+  const onSubmit = form.handleSubmit(async (v, e) => {
+    await onSave(
+      [
+        newRecord(
+          slug,
+          'field-event',
+          'field-events',
+          {
+            siteId: plot.siteId,
+            plotId: plot.plotId,
+            kind: 'note',
+            occurredOn: date,
+            note: v.note,
+          },
+          `${plotLabel(plot)} · ${date} · note: ${v.note.slice(0, 60)}`,
+        ),
+      ],
+      submitterNext(e),
+    );
+    form.reset({ note: '' });
+  });
   return (
-    <form
-      aria-label="Plot note"
-      className="space-y-3"
-      onSubmit={async (e) => {
-        e.preventDefault();
-        if (!text.trim()) return setError('Write the note.');
-        setError(null);
-        await onSave(
-          [
-            newRecord(
-              slug,
-              'field-event',
-              'field-events',
-              {
-                siteId: plot.siteId,
-                plotId: plot.plotId,
-                kind: 'note',
-                occurredOn: date,
-                note: text.trim(),
-              },
-              `${plotLabel(plot)} · ${date} · note: ${text.trim().slice(0, 60)}`,
-            ),
-          ],
-          submitterNext(e),
-        );
-        setText('');
-      }}
-    >
-      <Field id={`${id}-t`} label="Note">
+    <form aria-label="Plot note" className="space-y-3" noValidate onSubmit={onSubmit}>
+      <Field id={`${id}-t`} label="Note" error={errors.note}>
         <textarea
           id={`${id}-t`}
           rows={3}
           maxLength={2000}
-          value={text}
-          onChange={(e) => setText(e.target.value)}
           className="rounded-lg border border-leaf-300 bg-white p-3 text-lg"
+          {...invalidProps(`${id}-t`, errors.note)}
+          {...form.register('note')}
         />
       </Field>
-      <FieldError id={`${id}-err`} message={error} />
-      <SaveButtons />
+      <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }

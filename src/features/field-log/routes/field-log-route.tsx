@@ -1,10 +1,10 @@
 import { isSpinyCrop } from '@common/cautions';
-import { useState } from 'react';
-import { Link, useParams } from 'react-router-dom';
+import { useEffect, useState } from 'react';
+import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { CautionNote } from '@/components/ui/caution-note';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { useUnitSystem } from '@/lib/session';
+import { useMe, useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { localToday } from '../api/client-id';
 import { useRecordPlots } from '../api/get-record-plots';
@@ -18,7 +18,9 @@ import {
   StandCountForm,
 } from '../components/entry-forms';
 import { OutboxPanel } from '../components/outbox-panel';
+import { CautionOnce } from '../components/caution-once';
 import { PlotPicker } from '../components/plot-picker';
+import { useCautionSeen, useRememberedSite } from '../api/field-log-memory';
 
 const forms = {
   harvest: { label: 'Harvest', Form: HarvestForm },
@@ -35,12 +37,26 @@ export function Component() {
   const trial = useTrial(slug);
   const plots = useRecordPlots(slug);
   const units = useUnitSystem();
+  const me = useMe();
   const outbox = useOutbox(slug);
-  const [siteId, setSiteId] = useState<string | null>(null);
+  const [search, setSearch] = useSearchParams();
+  const [rememberedSite, rememberSite] = useRememberedSite(slug, me.data?.id ?? null);
+  const [chosenSite, setSiteId] = useState<string | null>(null);
   const [plotId, setPlotId] = useState<string | null>(null);
+  const [spinySeen, markSpinySeen] = useCautionSeen(slug, 'spiny-crop');
   const [date, setDate] = useState(localToday);
   const [form, setForm] = useState<FormKey>('harvest');
   const [saved, setSaved] = useState<string | null>(null);
+
+  // A scanned plot label opens the log at that plot (?plot=<id>), at the plot's own site.
+  const wantedPlot = search.get('plot');
+  const scanned = wantedPlot ? plots.data?.plots.find((p) => p.plotId === wantedPlot) : undefined;
+  useEffect(() => {
+    if (!scanned) return;
+    setSiteId(scanned.siteId);
+    setPlotId(scanned.plotId);
+    setSearch({}, { replace: true });
+  }, [scanned, setSearch]);
 
   if (trial.isPending || plots.isPending) return <Spinner label="Loading the field log…" />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
@@ -48,10 +64,18 @@ export function Component() {
   const t = trial.data;
   // A grower limited to some sites sees only those; the server refuses the others anyway.
   const mySites = t.mySiteIds ? t.sites.filter((s) => t.mySiteIds!.includes(s.id)) : t.sites;
+  // The site chosen now, else the one remembered on this device, else the only one there is.
+  const siteId =
+    [chosenSite, rememberedSite].find((id) => id && mySites.some((s) => s.id === id)) ??
+    (mySites.length === 1 ? mySites[0]!.id : null);
+  const site = mySites.find((s) => s.id === siteId) ?? null;
+  const firstPlotOf = (id: string) => plots.data.plots.find((p) => p.siteId === id)?.plotId ?? null;
   const canWrite = t.permissions['records.write'];
   const canNote = t.permissions['notes.write'];
   const sitePlots = plots.data.plots.filter((p) => p.siteId === siteId);
-  const plot = sitePlots.find((p) => p.plotId === plotId) ?? null;
+  const plot =
+    sitePlots.find((p) => p.plotId === plotId) ??
+    (plotId === null && siteId ? (sitePlots[0] ?? null) : null);
   const spiny = isSpinyCrop(t.crop) || t.traits.some((tr) => tr.key === 'spines');
   const available = (Object.keys(forms) as FormKey[]).filter((k) =>
     k === 'note' ? canNote : canWrite,
@@ -59,7 +83,13 @@ export function Component() {
   const activeForm = available.includes(form) ? form : available[0];
 
   const onSave = async (entries: QueuedEntry[], next: boolean) => {
-    await outbox.add(entries);
+    try {
+      await outbox.add(entries);
+    } catch (err) {
+      setSaved(err instanceof Error ? err.message : 'Not kept: try again.');
+      return;
+    }
+    if (activeForm === 'harvest' && spiny) markSpinySeen();
     setSaved(`Kept on this device: ${entries.map((e) => e.label).join('; ')}`);
     if (next && plot) {
       const i = sitePlots.findIndex((p) => p.plotId === plot.plotId);
@@ -103,38 +133,45 @@ export function Component() {
         <CautionNote id="field-heat" />
       </details>
 
-      <section aria-labelledby="site-heading" className="rounded-xl bg-white p-3 shadow-sm">
-        <h2 id="site-heading" className="text-lg font-semibold text-leaf-900">
-          Site
-        </h2>
-        <div role="group" aria-label="Site" className="mt-2 flex flex-wrap gap-2">
-          {mySites.map((s) => (
-            <button
-              key={s.id}
-              type="button"
-              aria-pressed={s.id === siteId}
-              onClick={() => {
-                setSiteId(s.id);
-                setPlotId(plots.data.plots.find((p) => p.siteId === s.id)?.plotId ?? null);
-              }}
-              className={`min-h-11 rounded-lg border px-3 font-semibold ${
-                s.id === siteId
-                  ? 'border-leaf-700 bg-leaf-700 text-white'
-                  : 'border-leaf-300 bg-white'
-              }`}
-            >
-              {s.name}
-            </button>
-          ))}
-        </div>
-      </section>
+      {mySites.length === 1 && site ? (
+        <p className="text-sm text-loam-700">
+          Site: <span className="font-semibold text-leaf-900">{site.name}</span>
+        </p>
+      ) : (
+        <section aria-labelledby="site-heading" className="rounded-xl bg-white p-3 shadow-sm">
+          <h2 id="site-heading" className="text-lg font-semibold text-leaf-900">
+            Site
+          </h2>
+          <div role="group" aria-label="Site" className="mt-2 flex flex-wrap gap-2">
+            {mySites.map((s) => (
+              <button
+                key={s.id}
+                type="button"
+                aria-pressed={s.id === siteId}
+                onClick={() => {
+                  setSiteId(s.id);
+                  rememberSite(s.id);
+                  setPlotId(firstPlotOf(s.id));
+                }}
+                className={`min-h-11 rounded-lg border px-3 font-semibold ${
+                  s.id === siteId
+                    ? 'border-leaf-700 bg-leaf-700 text-white'
+                    : 'border-leaf-300 bg-white'
+                }`}
+              >
+                {s.name}
+              </button>
+            ))}
+          </div>
+        </section>
+      )}
 
       {siteId ? (
         <section aria-labelledby="plot-heading" className="rounded-xl bg-white p-3 shadow-sm">
           <h2 id="plot-heading" className="text-lg font-semibold text-leaf-900">
             Plot
           </h2>
-          <PlotPicker plots={sitePlots} currentId={plotId} onPick={setPlotId} />
+          <PlotPicker plots={sitePlots} currentId={plot?.plotId ?? null} onPick={setPlotId} />
         </section>
       ) : null}
 
@@ -181,7 +218,7 @@ export function Component() {
           </div>
           <div role="tabpanel" className="mt-3">
             {activeForm === 'harvest' && spiny ? (
-              <CautionNote id="spiny-crop" className="mb-3" />
+              <CautionOnce id="spiny-crop" seen={spinySeen} />
             ) : null}
             {activeForm
               ? (() => {
@@ -211,6 +248,7 @@ export function Component() {
       <OutboxPanel
         items={outbox.items}
         online={outbox.online}
+        accountId={outbox.account?.id ?? null}
         onRetry={() => void outbox.retryNow()}
         onDiscard={(id) => void outbox.discard(id)}
       />

@@ -1,0 +1,46 @@
+/**
+ * What the field log remembers on this device so a round takes fewer taps: the grower's site
+ * (per account and trial, for as long as the device keeps it) and which safety notes were
+ * already read in full (per trial, for this browser session only).
+ */
+import { useCallback, useState } from 'react';
+
+function read(storage: Storage, key: string): string | null {
+  try {
+    return storage.getItem(key);
+  } catch {
+    return null; // storage blocked (private mode): remember nothing
+  }
+}
+function write(storage: Storage, key: string, value: string) {
+  try {
+    storage.setItem(key, value);
+  } catch {
+    /* storage blocked or full: the grower just taps the site again */
+  }
+}
+
+/** The site this account last logged at in this trial, and a setter that remembers it. */
+export function useRememberedSite(slug: string, accountId: string | null) {
+  const key = accountId ? `rowtally.field-log.site.${accountId}.${slug}` : null;
+  const [site, setSite] = useState<string | null>(() => (key ? read(localStorage, key) : null));
+  const remember = useCallback(
+    (siteId: string) => {
+      setSite(siteId);
+      if (key) write(localStorage, key, siteId);
+    },
+    [key],
+  );
+  return [key ? (site ?? read(localStorage, key)) : null, remember] as const;
+}
+
+/** Whether a caution was already shown in full in this session for this trial. */
+export function useCautionSeen(slug: string, caution: string) {
+  const key = `rowtally.caution-seen.${slug}.${caution}`;
+  const [seen, setSeen] = useState(() => read(sessionStorage, key) === 'yes');
+  const markSeen = useCallback(() => {
+    setSeen(true);
+    write(sessionStorage, key, 'yes');
+  }, [key]);
+  return [seen, markSeen] as const;
+}
