@@ -10,9 +10,26 @@ import { OutboxPanel } from '../../src/features/field-log/components/outbox-pane
 
 let n = 0;
 const opened: Outbox[] = [];
-function outboxWith(replies: (() => Response | Promise<Response>)[]) {
+const wren = { id: 'acct-wren', name: 'Wren Alderby' };
+const hollis = { id: 'acct-hollis', name: 'Hollis Marchetti' };
+const me = (a: { id: string; name: string }) => ({
+  ...a,
+  email: `${a.id}@example.test`,
+  emailVerified: true,
+  unitSystem: 'metric',
+  isAdmin: false,
+});
+/**
+ * An outbox whose fetch answers the session question with `session.user` (the account the
+ * browser's cookie belongs to) and every record with the next of `replies`.
+ */
+function outboxWith(
+  replies: (() => Response | Promise<Response>)[],
+  session: { user: { id: string; name: string } | null } = { user: wren },
+) {
   const sent: { url: string; body: { id: string } }[] = [];
   const send = (async (url: string, init?: RequestInit) => {
+    if (url === '/api/session') return json(200, { user: session.user ? me(session.user) : null });
     sent.push({ url, body: JSON.parse(String(init?.body)) });
     const reply = replies.shift();
     if (!reply) throw new Error('no reply left');
@@ -20,7 +37,7 @@ function outboxWith(replies: (() => Response | Promise<Response>)[]) {
   }) as typeof fetch;
   const box = new Outbox(send, `outbox-test-${++n}`);
   opened.push(box);
-  return { box, sent };
+  return { box, sent, session };
 }
 afterEach(() => {
   for (const b of opened.splice(0)) b.close();
@@ -55,7 +72,7 @@ describe('the outbox', () => {
       },
       () => json(201, { id: 'a' }),
     ]);
-    await box.add([entry('a')]);
+    await box.add([entry('a')], wren);
     await box.flush();
     const [waiting] = await box.list('brookfold');
     expect(waiting).toMatchObject({ state: 'waiting', attempts: 1 });
@@ -76,7 +93,7 @@ describe('the outbox', () => {
           },
         }),
     ]);
-    await box.add([entry('b')]);
+    await box.add([entry('b')], wren);
     await box.flush();
     const [refused] = await box.list('brookfold');
     expect(refused).toMatchObject({ state: 'refused', message: 'Mass cannot be negative.' });
@@ -90,7 +107,7 @@ describe('the outbox', () => {
       () => json(401, { error: { code: 'unauthenticated', message: 'Sign in to do this.' } }),
       () => json(200, { id: 'c' }),
     ]);
-    await box.add([entry('c')]);
+    await box.add([entry('c')], wren);
     await box.flush();
     expect(await states(box)).toEqual({ c: 'waiting' });
     await box.retryNow();
@@ -102,11 +119,59 @@ describe('the outbox', () => {
 
   it('sends a round in the order it was entered', async () => {
     const { box, sent } = outboxWith(Array.from({ length: 5 }, () => () => json(201, {})));
-    for (const id of ['r1', 'r2', 'r3', 'r4', 'r5']) await box.add([entry(id)]);
+    for (const id of ['r1', 'r2', 'r3', 'r4', 'r5']) await box.add([entry(id)], wren);
     await box.flush();
     await box.flush();
     expect(sent.map((s) => s.body.id)).toEqual(['r1', 'r2', 'r3', 'r4', 'r5']);
     expect(Object.values(await states(box))).toEqual(['saved', 'saved', 'saved', 'saved', 'saved']);
+  });
+
+  it('never sends an entry under another account, and sends it when its grower signs in again', async () => {
+    const { box, sent, session } = outboxWith([() => json(201, {}), () => json(201, {})], {
+      user: wren,
+    });
+    // Wren queues with no signal, signs out; Hollis signs in on the same phone.
+    session.user = hollis;
+    await box.add([entry('w1')], wren);
+    await box.add([entry('h1')], hollis);
+    await box.flush();
+    await box.flush();
+    expect(sent.map((s) => s.body.id)).toEqual(['h1']);
+    expect(await states(box)).toEqual({ w1: 'waiting', h1: 'saved' });
+    const w1 = (await box.list('brookfold')).find((i) => i.id === 'w1')!;
+    expect(w1).toMatchObject({ accountId: 'acct-wren', accountName: 'Wren Alderby' });
+    expect(w1.message).toBe(
+      'Queued by Wren Alderby: kept on this device until Wren Alderby signs in again.',
+    );
+    // Signed out altogether: still waiting.
+    session.user = null;
+    await box.retryNow();
+    expect(sent).toHaveLength(1);
+    expect((await box.list('brookfold')).find((i) => i.id === 'w1')!.message).toBe(
+      'Signed out: sign in again and it will be sent.',
+    );
+    session.user = wren;
+    await box.retryNow();
+    expect(sent.map((s) => s.body.id)).toEqual(['h1', 'w1']);
+    expect(await states(box)).toEqual({ w1: 'saved', h1: 'saved' });
+  });
+
+  it('waits without sending when the session cannot be asked about', async () => {
+    const { box, sent } = outboxWith([() => json(201, {})]);
+    const quiet = new Outbox(
+      (async () => {
+        throw new TypeError('Failed to fetch');
+      }) as typeof fetch,
+      `outbox-test-${++n}`,
+    );
+    opened.push(quiet);
+    await quiet.add([entry('q')], wren);
+    await quiet.flush();
+    const [q] = await quiet.list('brookfold');
+    expect(q).toMatchObject({ state: 'waiting', attempts: 1 });
+    expect(q!.message).toMatch(/kept on this device/);
+    expect(sent).toHaveLength(0);
+    void box;
   });
 
   it('backs off 1, 2, 4 … seconds up to a minute (common practice, no source)', () => {
@@ -124,6 +189,8 @@ describe('the queue on screen', () => {
       method: 'POST',
       url: '',
       body: {},
+      accountId: 'acct-wren',
+      accountName: 'Wren Alderby',
       attempts: 1,
       nextTryAt: 0,
       createdAt: 0,
@@ -146,12 +213,54 @@ describe('the queue on screen', () => {
         message: 'Fruit count cannot be negative.',
       },
     ];
-    render(<OutboxPanel items={items} online={false} onRetry={() => {}} onDiscard={() => {}} />);
+    render(
+      <OutboxPanel
+        items={items}
+        online={false}
+        accountId="acct-wren"
+        onRetry={() => {}}
+        onDiscard={() => {}}
+      />,
+    );
     expect(screen.getByTestId('outbox-summary').textContent).toBe(
       'Offline: entries are kept here and sent when the signal returns · 1 waiting · 0 sending · 1 saved · 1 refused',
     );
     expect(screen.getByText('Fruit count cannot be negative.')).toBeTruthy();
     expect(screen.getByRole('button', { name: 'Dismiss' })).toBeTruthy();
     expect(screen.getByRole('button', { name: 'Send now' }).hasAttribute('disabled')).toBe(false);
+  });
+
+  it('says how many entries wait for another grower on this phone', () => {
+    const item = (id: string): OutboxItem => ({
+      id,
+      trialSlug: 'b',
+      kind: 'harvest',
+      method: 'POST',
+      url: '',
+      body: {},
+      label: `Plot 10${id}`,
+      accountId: 'acct-wren',
+      accountName: 'Wren Alderby',
+      state: 'waiting',
+      message: null,
+      attempts: 1,
+      nextTryAt: 0,
+      createdAt: 0,
+      savedAt: null,
+    });
+    render(
+      <OutboxPanel
+        items={[item('1'), item('2')]}
+        online
+        accountId="acct-hollis"
+        onRetry={() => {}}
+        onDiscard={() => {}}
+      />,
+    );
+    expect(
+      screen.getByText(
+        '2 entries wait for Wren Alderby to sign in again on this device; they are never sent under another account.',
+      ),
+    ).toBeTruthy();
   });
 });

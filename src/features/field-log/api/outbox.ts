@@ -3,11 +3,18 @@
  * then sent. A dropped connection leaves it waiting; it is sent again when the browser says it
  * is online, and on a back-off timer. The server treats a repeated id as the same record, so
  * sending twice never makes two.
+ *
+ * Each entry remembers the account that queued it and is sent only while that account is the
+ * one signed in (a phone shared by two growers): before sending, the outbox asks the server
+ * whose session this is. Photos wait in the same queue, their file kept as a Blob, and go up
+ * as multipart with upload progress.
  */
+import { apiErrorBodySchema } from '@common/api-error';
+import { sessionSchema } from '@common/contracts/me';
 import { type DBSchema, type IDBPDatabase, openDB } from 'idb';
 
 export type OutboxState = 'waiting' | 'sending' | 'saved' | 'refused';
-export type OutboxKind = 'harvest' | 'observation' | 'field-event' | 'stand-count';
+export type OutboxKind = 'harvest' | 'observation' | 'field-event' | 'stand-count' | 'photo';
 
 export interface OutboxItem {
   id: string;
@@ -15,16 +22,41 @@ export interface OutboxItem {
   kind: OutboxKind;
   method: 'POST' | 'PUT';
   url: string;
+  /** JSON body; for a photo, its multipart text fields */
   body: unknown;
+  /** a photo's file, sent as the multipart field `photo` */
+  file?: Blob;
+  fileName?: string;
   /** what the grower sees in the queue, e.g. "Plot 104 · harvest 12 fruit, 180 g" */
   label: string;
+  /** the account that queued it; it is sent only under that account's session */
+  accountId: string;
+  accountName: string;
   state: OutboxState;
   message: string | null;
   attempts: number;
   nextTryAt: number;
   createdAt: number;
   savedAt: number | null;
+  /** share of a photo's bytes sent so far (0–1), while it is being sent */
+  progress?: number;
 }
+
+export type NewOutboxItem = Pick<
+  OutboxItem,
+  'id' | 'trialSlug' | 'kind' | 'method' | 'url' | 'body' | 'label' | 'file' | 'fileName'
+>;
+export interface OutboxAccount {
+  id: string;
+  name: string;
+}
+
+/** Sends a multipart form, reporting upload progress (fetch reports none). */
+export type Upload = (
+  url: string,
+  form: FormData,
+  onProgress: (share: number) => void,
+) => Promise<Response>;
 
 interface OutboxDb extends DBSchema {
   outbox: { key: string; value: OutboxItem; indexes: { 'by-trial': string } };
@@ -34,6 +66,10 @@ const DB_NAME = 'rowtally-field-log';
 /** Saved entries stay listed for a day so a grower can see the round went through. */
 const KEEP_SAVED_MS = 24 * 60 * 60 * 1000;
 const MAX_BACKOFF_MS = 60_000;
+const NO_CONNECTION = 'No connection; kept on this device and sent when the signal returns.';
+const SIGNED_OUT = 'Signed out: sign in again and it will be sent.';
+const otherAccount = (name: string) =>
+  `Queued by ${name}: kept on this device until ${name} signs in again.`;
 
 /** Retry delay after `attempts` failures: 1 s, 2 s, 4 s … up to a minute. */
 export const backoffMs = (attempts: number) =>
@@ -43,6 +79,28 @@ export const backoffMs = (attempts: number) =>
 const retryable = (status: number) =>
   status === 401 || status === 408 || status === 429 || status >= 500;
 
+/** XMLHttpRequest behind the fetch-shaped answer, for its upload progress events. */
+export const xhrUpload: Upload = (url, form, onProgress) =>
+  new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', url);
+    xhr.withCredentials = true;
+    xhr.setRequestHeader('Accept', 'application/json');
+    xhr.upload.onprogress = (e) => {
+      if (e.lengthComputable && e.total > 0) onProgress(e.loaded / e.total);
+    };
+    xhr.onload = () =>
+      resolve(
+        new Response(xhr.status === 204 ? null : xhr.responseText, {
+          status: xhr.status,
+          headers: { 'Content-Type': xhr.getResponseHeader('Content-Type') ?? 'text/plain' },
+        }),
+      );
+    xhr.onerror = () => reject(new TypeError('The connection dropped.'));
+    xhr.onabort = () => reject(new TypeError('The upload was stopped.'));
+    xhr.send(form);
+  });
+
 export class Outbox {
   private db: Promise<IDBPDatabase<OutboxDb>>;
   private listeners = new Set<() => void>();
@@ -50,10 +108,12 @@ export class Outbox {
   private again = false;
   private timer: ReturnType<typeof setTimeout> | null = null;
   private onSaved = new Set<(item: OutboxItem) => void>();
+  private progress = new Map<string, number>();
 
   constructor(
     private readonly send: typeof fetch = (...args) => fetch(...args),
     name = DB_NAME,
+    private readonly upload: Upload = xhrUpload,
   ) {
     this.db = openDB<OutboxDb>(name, 1, {
       upgrade(db) {
@@ -79,19 +139,21 @@ export class Outbox {
 
   async list(trialSlug: string): Promise<OutboxItem[]> {
     const items = await (await this.db).getAllFromIndex('outbox', 'by-trial', trialSlug);
-    return items.sort((a, b) => b.createdAt - a.createdAt);
+    return items
+      .map((i) => (this.progress.has(i.id) ? { ...i, progress: this.progress.get(i.id)! } : i))
+      .sort((a, b) => b.createdAt - a.createdAt);
   }
 
-  /** Keeps the entry on the device first; only then tries to send it. */
-  async add(
-    items: Pick<OutboxItem, 'id' | 'trialSlug' | 'kind' | 'method' | 'url' | 'body' | 'label'>[],
-  ): Promise<void> {
+  /** Keeps the entry on the device first, under the account queuing it; then tries to send. */
+  async add(items: NewOutboxItem[], account: OutboxAccount): Promise<void> {
     const db = await this.db;
     const tx = db.transaction('outbox', 'readwrite');
     const now = Date.now();
     for (const item of items)
       await tx.store.put({
         ...item,
+        accountId: account.id,
+        accountName: account.name,
         state: 'waiting',
         message: null,
         attempts: 0,
@@ -104,7 +166,7 @@ export class Outbox {
     void this.flush();
   }
 
-  /** Sends now whatever is waiting (the online event and the "send now" button call this). */
+  /** Sends now whatever is waiting (the online event, sign-in and "send now" call this). */
   async retryNow(): Promise<void> {
     const db = await this.db;
     const tx = db.transaction('outbox', 'readwrite');
@@ -135,8 +197,35 @@ export class Outbox {
   }
 
   private async put(item: OutboxItem) {
-    await (await this.db).put('outbox', item);
+    const { progress: _, ...stored } = item;
+    await (await this.db).put('outbox', stored);
     this.emit();
+  }
+
+  /** Leaves an entry waiting, to be tried again after its back-off. */
+  private wait(item: OutboxItem, message: string) {
+    return this.put({
+      ...item,
+      state: 'waiting',
+      attempts: item.attempts + 1,
+      nextTryAt: Date.now() + backoffMs(item.attempts + 1),
+      message,
+    });
+  }
+
+  /** Whose session the browser holds now: an account, null when signed out, or no answer. */
+  private async signedIn(): Promise<OutboxAccount | null | 'no-answer'> {
+    try {
+      const response = await this.send('/api/session', {
+        credentials: 'same-origin',
+        headers: { Accept: 'application/json' },
+      });
+      if (!response.ok) return 'no-answer';
+      const parsed = sessionSchema.safeParse(await response.json());
+      return parsed.success ? parsed.data.user : 'no-answer';
+    } catch {
+      return 'no-answer';
+    }
   }
 
   private async run(): Promise<void> {
@@ -150,33 +239,50 @@ export class Outbox {
     const due = all
       .filter((i) => (i.state === 'waiting' || i.state === 'sending') && i.nextTryAt <= now)
       .sort((a, b) => a.createdAt - b.createdAt);
-    for (const item of due) {
-      const ok = await this.sendOne(item);
-      if (!ok) break; // the connection is down: the rest would fail the same way
+    if (due.length) {
+      const account = await this.signedIn();
+      for (const item of due) {
+        if (account === 'no-answer') await this.wait(item, NO_CONNECTION);
+        else if (account === null) await this.wait(item, SIGNED_OUT);
+        // (Entries kept before accounts were recorded with them go under whoever is signed in.)
+        else if (item.accountId && item.accountId !== account.id)
+          await this.wait(item, otherAccount(item.accountName));
+        else if (!(await this.sendOne(item))) break; // the connection is down: the rest would fail the same way
+      }
     }
     this.schedule();
+  }
+
+  private request(item: OutboxItem): Promise<Response> {
+    if (item.kind === 'photo' && item.file) {
+      const form = new FormData();
+      for (const [k, v] of Object.entries(item.body as Record<string, unknown>))
+        if (v !== undefined && v !== null) form.append(k, String(v));
+      form.append('photo', item.file, item.fileName ?? 'photo.jpg');
+      return this.upload(item.url, form, (share) => {
+        this.progress.set(item.id, share);
+        this.emit();
+      });
+    }
+    return this.send(item.url, {
+      method: item.method,
+      credentials: 'same-origin',
+      headers: { 'Content-Type': 'application/json', Accept: 'application/json' },
+      body: JSON.stringify(item.body),
+    });
   }
 
   private async sendOne(item: OutboxItem): Promise<boolean> {
     await this.put({ ...item, state: 'sending', attempts: item.attempts + 1 });
     let response: Response;
     try {
-      response = await this.send(item.url, {
-        method: item.method,
-        credentials: 'same-origin',
-        headers: { 'Content-Type': 'application/json', Accept: 'application/json' },
-        body: JSON.stringify(item.body),
-      });
+      response = await this.request(item);
     } catch {
-      await this.put({
-        ...item,
-        state: 'waiting',
-        attempts: item.attempts + 1,
-        nextTryAt: Date.now() + backoffMs(item.attempts + 1),
-        message: 'No connection; kept on this device and sent when the signal returns.',
-      });
+      this.progress.delete(item.id);
+      await this.wait(item, NO_CONNECTION);
       return false;
     }
+    this.progress.delete(item.id);
     if (response.ok) {
       const saved = {
         ...item,
@@ -189,22 +295,16 @@ export class Outbox {
       for (const l of this.onSaved) l(saved);
       return true;
     }
-    const payload = (await response.json().catch(() => null)) as {
-      error?: { message?: string; details?: { fields?: { message: string }[] } };
-    } | null;
+    const parsed = apiErrorBodySchema.safeParse(await response.json().catch(() => null));
+    const fields = parsed.success
+      ? ((parsed.data.error.details as { fields?: { message: string }[] } | undefined)?.fields ??
+        [])
+      : [];
     const message =
-      payload?.error?.details?.fields?.map((f) => f.message).join(' ') ||
-      payload?.error?.message ||
-      `The server answered ${response.status}.`;
+      fields.map((f) => f.message).join(' ') ||
+      (parsed.success ? parsed.data.error.message : `The server answered ${response.status}.`);
     if (retryable(response.status)) {
-      await this.put({
-        ...item,
-        state: 'waiting',
-        attempts: item.attempts + 1,
-        nextTryAt: Date.now() + backoffMs(item.attempts + 1),
-        message:
-          response.status === 401 ? 'Signed out: sign in again and it will be sent.' : message,
-      });
+      await this.wait(item, response.status === 401 ? SIGNED_OUT : message);
       return false;
     }
     await this.put({ ...item, state: 'refused', attempts: item.attempts + 1, message });

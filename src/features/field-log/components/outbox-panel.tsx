@@ -17,16 +17,28 @@ const stateClass: Record<OutboxItem['state'], string> = {
 export function OutboxPanel({
   items,
   online,
+  accountId,
   onRetry,
   onDiscard,
 }: {
   items: OutboxItem[];
   online: boolean;
+  /** the signed-in account: others' entries wait for their owner */
+  accountId?: string | null;
   onRetry: () => void;
   onDiscard: (id: string) => void;
 }) {
   const count = (s: OutboxItem['state']) => items.filter((i) => i.state === s).length;
   const pending = count('waiting') + count('sending');
+  // Entries queued by someone else on this phone, by name, with how many wait for each.
+  const othersWaiting = [
+    ...items
+      .filter((i) => i.state === 'waiting' && i.accountId && i.accountId !== accountId)
+      .reduce(
+        (m, i) => m.set(i.accountName, (m.get(i.accountName) ?? 0) + 1),
+        new Map<string, number>(),
+      ),
+  ];
   return (
     <section aria-labelledby="outbox-heading" className="rounded-xl bg-white p-3 shadow-sm">
       <div className="flex flex-wrap items-center justify-between gap-2">
@@ -47,6 +59,12 @@ export function OutboxPanel({
         {count('waiting')} waiting · {count('sending')} sending · {count('saved')} saved ·{' '}
         {count('refused')} refused
       </p>
+      {othersWaiting.map(([name, n]) => (
+        <p key={name} className="mt-1 rounded-lg bg-straw-100 p-2 text-sm text-loam-700">
+          {n} {n === 1 ? 'entry waits' : 'entries wait'} for {name} to sign in again on this device;{' '}
+          {n === 1 ? 'it is' : 'they are'} never sent under another account.
+        </p>
+      ))}
       {items.length ? (
         <ul
           aria-label="Entries on this device"
@@ -61,6 +79,16 @@ export function OutboxPanel({
                 {stateLabel[item.state]}
               </span>
               <span className="min-w-0 flex-1">{item.label}</span>
+              {item.state === 'sending' && item.progress !== undefined ? (
+                <progress
+                  max={1}
+                  value={item.progress}
+                  aria-label={`Sending ${item.label}`}
+                  className="w-full"
+                >
+                  {Math.round(item.progress * 100)}%
+                </progress>
+              ) : null}
               {item.message ? (
                 <span
                   className={`w-full ${item.state === 'refused' ? 'text-frost-600' : 'text-loam-700'}`}

@@ -186,6 +186,7 @@ export function Component() {
       <OutboxPanel
         items={outbox.items}
         online={outbox.online}
+        accountId={outbox.account?.id ?? null}
         onRetry={() => void outbox.retryNow()}
         onDiscard={(id) => void outbox.discard(id)}
       />
