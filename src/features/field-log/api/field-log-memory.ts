@@ -4,6 +4,8 @@
  * already read in full (per trial, for this browser session only).
  */
 import { useCallback, useState } from 'react';
+import { useMe } from '@/lib/session';
+import type { TrialWithPermissions } from '@/lib/trial';
 
 function read(storage: Storage, key: string): string | null {
   try {
@@ -43,4 +45,30 @@ export function useCautionSeen(slug: string, caution: string) {
     write(sessionStorage, key, 'yes');
   }, [key]);
   return [seen, markSeen] as const;
+}
+
+/** The sites this reader logs at: a grower limited to some sees only those (the server refuses the rest). */
+export const mySitesOf = (t: Pick<TrialWithPermissions, 'sites' | 'mySiteIds'>) =>
+  t.mySiteIds ? t.sites.filter((s) => t.mySiteIds!.includes(s.id)) : t.sites;
+
+/**
+ * The site of this round: the one chosen now, else the one remembered for this account on
+ * this device, else the only one there is. Choosing one remembers it.
+ */
+export function useRoundSite(slug: string, sites: { id: string }[] | undefined) {
+  const me = useMe();
+  const [remembered, remember] = useRememberedSite(slug, me.data?.id ?? null);
+  const [chosen, setChosen] = useState<string | null>(null);
+  const list = sites ?? [];
+  const siteId =
+    [chosen, remembered].find((id) => id && list.some((s) => s.id === id)) ??
+    (list.length === 1 ? list[0]!.id : null);
+  const choose = useCallback(
+    (id: string) => {
+      setChosen(id);
+      remember(id);
+    },
+    [remember],
+  );
+  return [siteId, choose] as const;
 }

@@ -250,32 +250,54 @@ function unitOptionsOf(trait: Trait, units: UnitSystem): QuantityUnit[] | null {
   return null;
 }
 
+/** A trait picked from a list; the form below it starts afresh for each trait. */
+function TraitChooser({
+  traits,
+  describe = (t) => t.label,
+  empty,
+  children,
+}: {
+  traits: Trait[];
+  describe?: (t: Trait) => string;
+  empty: string;
+  children: (trait: Trait, chooser: ReactNode) => ReactNode;
+}) {
+  const id = useId();
+  const [traitId, setTraitId] = useState(traits[0]?.id ?? '');
+  const trait = traits.find((t) => t.id === traitId);
+  if (!trait) return <p>{empty}</p>;
+  return children(
+    trait,
+    <Field id={`${id}-t`} label="Trait">
+      <select
+        id={`${id}-t`}
+        value={traitId}
+        onChange={(e) => setTraitId(e.target.value)}
+        className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
+      >
+        {traits.map((t) => (
+          <option key={t.id} value={t.id}>
+            {describe(t)}
+          </option>
+        ))}
+      </select>
+    </Field>,
+  );
+}
+
 /** Values of one trait for several sample plants at once (e.g. heights of 5 plants). */
 export function MeasureForm(props: FormProps) {
-  const id = useId();
   const measurable = props.traits.filter(
     (t) => ['length', 'mass', 'count', 'percent'].includes(t.quantityKind) && t.basis !== 'harvest',
   );
-  const [traitId, setTraitId] = useState(measurable[0]?.id ?? '');
-  const trait = measurable.find((t) => t.id === traitId);
-  if (!trait) return <p>This trial has no measured traits.</p>;
   return (
-    <MeasureTraitForm key={trait.id} {...props} trait={trait}>
-      <Field id={`${id}-t`} label="Trait">
-        <select
-          id={`${id}-t`}
-          value={traitId}
-          onChange={(e) => setTraitId(e.target.value)}
-          className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-        >
-          {measurable.map((t) => (
-            <option key={t.id} value={t.id}>
-              {t.label}
-            </option>
-          ))}
-        </select>
-      </Field>
-    </MeasureTraitForm>
+    <TraitChooser traits={measurable} empty="This trial has no measured traits.">
+      {(trait, chooser) => (
+        <MeasureTraitForm key={trait.id} {...props} trait={trait}>
+          {chooser}
+        </MeasureTraitForm>
+      )}
+    </TraitChooser>
   );
 }
 
@@ -381,28 +403,18 @@ function MeasureTraitForm({
 
 /** A plot score on the trait's scale, one tap per step. */
 export function ScoreForm(props: FormProps) {
-  const id = useId();
-  const scored = props.traits.filter((t) => t.quantityKind === 'score');
-  const [traitId, setTraitId] = useState(scored[0]?.id ?? '');
-  const trait = scored.find((t) => t.id === traitId);
-  if (!trait) return <p>This trial has no scored traits.</p>;
   return (
-    <ScoreTraitForm key={trait.id} {...props} trait={trait}>
-      <Field id={`${id}-t`} label="Trait">
-        <select
-          id={`${id}-t`}
-          value={traitId}
-          onChange={(e) => setTraitId(e.target.value)}
-          className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-        >
-          {scored.map((t) => (
-            <option key={t.id} value={t.id}>
-              {t.label} ({t.scaleMin}–{t.scaleMax})
-            </option>
-          ))}
-        </select>
-      </Field>
-    </ScoreTraitForm>
+    <TraitChooser
+      traits={props.traits.filter((t) => t.quantityKind === 'score')}
+      describe={(t) => `${t.label} (${t.scaleMin}–${t.scaleMax})`}
+      empty="This trial has no scored traits."
+    >
+      {(trait, chooser) => (
+        <ScoreTraitForm key={trait.id} {...props} trait={trait}>
+          {chooser}
+        </ScoreTraitForm>
+      )}
+    </TraitChooser>
   );
 }
 

@@ -13,6 +13,8 @@ import { useOutbox } from '../api/use-outbox';
 import { FieldEventForm } from '../components/field-event-form';
 import { OutboxPanel } from '../components/outbox-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { SiteChooser } from '../components/site-chooser';
+import { mySitesOf, useRoundSite } from '../api/field-log-memory';
 
 const kindWord: Record<FieldEvent['kind'], string> = {
   irrigation: 'Irrigation',
@@ -30,15 +32,14 @@ export function Component() {
   const trial = useTrial(slug);
   const units = useUnitSystem();
   const outbox = useOutbox(slug);
-  const [siteId, setSiteId] = useState<string | null>(null);
+  const mySites = trial.data ? mySitesOf(trial.data) : undefined;
+  const [siteId, setSiteId] = useRoundSite(slug, mySites);
   const [date, setDate] = useState(localToday);
   const events = useFieldEvents(slug, siteId ?? undefined);
 
   if (trial.isPending) return <Spinner label="Loading the trial…" />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
   const t = trial.data;
-  // A grower limited to some sites sees only those; the server refuses the others anyway.
-  const mySites = t.mySiteIds ? t.sites.filter((s) => t.mySiteIds!.includes(s.id)) : t.sites;
   const canWrite = t.permissions['records.write'];
   const list = events.data?.events ?? [];
   const weeks = weeklyWaterSummary(list);
@@ -73,23 +74,7 @@ export function Component() {
         </p>
         <h1 className="text-2xl font-semibold text-leaf-900">Field events and water</h1>
       </header>
-      <div role="group" aria-label="Site" className="flex flex-wrap gap-2">
-        {mySites.map((s) => (
-          <button
-            key={s.id}
-            type="button"
-            aria-pressed={s.id === siteId}
-            onClick={() => setSiteId(s.id)}
-            className={`min-h-11 rounded-lg border px-3 font-semibold ${
-              s.id === siteId
-                ? 'border-leaf-700 bg-leaf-700 text-white'
-                : 'border-leaf-300 bg-white'
-            }`}
-          >
-            {s.name}
-          </button>
-        ))}
-      </div>
+      <SiteChooser sites={mySites ?? []} siteId={siteId} onChoose={setSiteId} />
 
       {siteId && canWrite ? (
         <section aria-labelledby="event-heading" className="rounded-xl bg-white p-3 shadow-sm">

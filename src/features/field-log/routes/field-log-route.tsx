@@ -4,7 +4,7 @@ import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { CautionNote } from '@/components/ui/caution-note';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { useMe, useUnitSystem } from '@/lib/session';
+import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { localToday } from '../api/client-id';
 import { useRecordPlots } from '../api/get-record-plots';
@@ -20,7 +20,8 @@ import {
 import { OutboxPanel } from '../components/outbox-panel';
 import { CautionOnce } from '../components/caution-once';
 import { PlotPicker } from '../components/plot-picker';
-import { useCautionSeen, useRememberedSite } from '../api/field-log-memory';
+import { SiteChooser } from '../components/site-chooser';
+import { mySitesOf, useCautionSeen, useRoundSite } from '../api/field-log-memory';
 
 const forms = {
   harvest: { label: 'Harvest', Form: HarvestForm },
@@ -37,11 +38,10 @@ export function Component() {
   const trial = useTrial(slug);
   const plots = useRecordPlots(slug);
   const units = useUnitSystem();
-  const me = useMe();
   const outbox = useOutbox(slug);
   const [search, setSearch] = useSearchParams();
-  const [rememberedSite, rememberSite] = useRememberedSite(slug, me.data?.id ?? null);
-  const [chosenSite, setSiteId] = useState<string | null>(null);
+  const mySites = trial.data ? mySitesOf(trial.data) : undefined;
+  const [siteId, setSiteId] = useRoundSite(slug, mySites);
   const [plotId, setPlotId] = useState<string | null>(null);
   const [spinySeen, markSpinySeen] = useCautionSeen(slug, 'spiny-crop');
   const [date, setDate] = useState(localToday);
@@ -56,19 +56,12 @@ export function Component() {
     setSiteId(scanned.siteId);
     setPlotId(scanned.plotId);
     setSearch({}, { replace: true });
-  }, [scanned, setSearch]);
+  }, [scanned, setSearch, setSiteId]);
 
   if (trial.isPending || plots.isPending) return <Spinner label="Loading the field log…" />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
   if (plots.error) return <ErrorPanel error={plots.error} />;
   const t = trial.data;
-  // A grower limited to some sites sees only those; the server refuses the others anyway.
-  const mySites = t.mySiteIds ? t.sites.filter((s) => t.mySiteIds!.includes(s.id)) : t.sites;
-  // The site chosen now, else the one remembered on this device, else the only one there is.
-  const siteId =
-    [chosenSite, rememberedSite].find((id) => id && mySites.some((s) => s.id === id)) ??
-    (mySites.length === 1 ? mySites[0]!.id : null);
-  const site = mySites.find((s) => s.id === siteId) ?? null;
   const firstPlotOf = (id: string) => plots.data.plots.find((p) => p.siteId === id)?.plotId ?? null;
   const canWrite = t.permissions['records.write'];
   const canNote = t.permissions['notes.write'];
@@ -133,38 +126,14 @@ export function Component() {
         <CautionNote id="field-heat" />
       </details>
 
-      {mySites.length === 1 && site ? (
-        <p className="text-sm text-loam-700">
-          Site: <span className="font-semibold text-leaf-900">{site.name}</span>
-        </p>
-      ) : (
-        <section aria-labelledby="site-heading" className="rounded-xl bg-white p-3 shadow-sm">
-          <h2 id="site-heading" className="text-lg font-semibold text-leaf-900">
-            Site
-          </h2>
-          <div role="group" aria-label="Site" className="mt-2 flex flex-wrap gap-2">
-            {mySites.map((s) => (
-              <button
-                key={s.id}
-                type="button"
-                aria-pressed={s.id === siteId}
-                onClick={() => {
-                  setSiteId(s.id);
-                  rememberSite(s.id);
-                  setPlotId(firstPlotOf(s.id));
-                }}
-                className={`min-h-11 rounded-lg border px-3 font-semibold ${
-                  s.id === siteId
-                    ? 'border-leaf-700 bg-leaf-700 text-white'
-                    : 'border-leaf-300 bg-white'
-                }`}
-              >
-                {s.name}
-              </button>
-            ))}
-          </div>
-        </section>
-      )}
+      <SiteChooser
+        sites={mySites ?? []}
+        siteId={siteId}
+        onChoose={(id) => {
+          setSiteId(id);
+          setPlotId(firstPlotOf(id));
+        }}
+      />
 
       {siteId ? (
         <section aria-labelledby="plot-heading" className="rounded-xl bg-white p-3 shadow-sm">
