@@ -113,6 +113,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           lazy: () => import('@/features/field-log/routes/field-events-route'),
         },
         {
+          path: 't/:slug/log/labels',
+          lazy: () => import('@/features/field-log/routes/plot-labels-route'),
+        },
+        {
           path: 't/:slug/records/harvests',
           lazy: () => import('@/features/records/routes/harvest-log-route'),
         },

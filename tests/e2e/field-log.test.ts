@@ -231,7 +231,7 @@ describe('the field log on a phone', () => {
       await page.getByRole('heading', { level: 1, name: new RegExp(`^${heading}`) }).waitFor();
     }
     await page.goto(`/t/${slug}/log/events`);
-    await page.getByRole('button', { name: 'Brookfold Allotment' }).click();
+    await page.getByText('Site: Brookfold Allotment').waitFor();
     await page.getByLabel('Run time (min)').fill('45');
     await page.getByLabel('Emitter flow (L/h)').fill('2');
     await page.getByLabel('Emitter spacing (cm)').fill('30');

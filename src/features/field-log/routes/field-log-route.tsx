@@ -1,6 +1,6 @@
 import { isSpinyCrop } from '@common/cautions';
-import { useEffect, useState } from 'react';
-import { Link, useParams, useSearchParams } from 'react-router-dom';
+import { useCallback, useEffect, useState } from 'react';
+import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
 import { CautionNote } from '@/components/ui/caution-note';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
@@ -19,6 +19,7 @@ import {
 } from '../components/entry-forms';
 import { OutboxPanel } from '../components/outbox-panel';
 import { CautionOnce } from '../components/caution-once';
+import { LabelScanner } from '../components/label-scanner';
 import { PlotPicker } from '../components/plot-picker';
 import { SiteChooser } from '../components/site-chooser';
 import { mySitesOf, useCautionSeen, useRoundSite } from '../api/field-log-memory';
@@ -40,6 +41,8 @@ export function Component() {
   const units = useUnitSystem();
   const outbox = useOutbox(slug);
   const [search, setSearch] = useSearchParams();
+  const navigate = useNavigate();
+  const onScanned = useCallback((path: string) => navigate(path), [navigate]);
   const mySites = trial.data ? mySitesOf(trial.data) : undefined;
   const [siteId, setSiteId] = useRoundSite(slug, mySites);
   const [plotId, setPlotId] = useState<string | null>(null);
@@ -116,6 +119,13 @@ export function Component() {
           >
             Irrigation, rain and other field events
           </Link>
+          {' · '}
+          <Link
+            to={`/t/${slug}/log/labels`}
+            className="inline-flex min-h-11 items-center underline"
+          >
+            Plot labels
+          </Link>
         </p>
       </header>
 
@@ -140,6 +150,9 @@ export function Component() {
           <h2 id="plot-heading" className="text-lg font-semibold text-leaf-900">
             Plot
           </h2>
+          <div className="my-2">
+            <LabelScanner onFound={onScanned} />
+          </div>
           <PlotPicker plots={sitePlots} currentId={plot?.plotId ?? null} onPick={setPlotId} />
         </section>
       ) : null}
