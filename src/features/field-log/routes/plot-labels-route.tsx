@@ -2,6 +2,7 @@ import { labelPages, labelSheets, plotAddress } from '@common/plot-labels';
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
 import { mySitesOf } from '../api/field-log-memory';
@@ -99,11 +100,9 @@ export function Component() {
           {sitePlots.length} labels on {pages.length} {pages.length === 1 ? 'sheet' : 'sheets'}
         </p>
       </header>
-      <div
-        className="overflow-x-auto print:overflow-visible"
-        tabIndex={0}
-        role="region"
-        aria-label="Label sheets (scrolls sideways on a narrow screen)"
+      <ScrollRegion
+        label="Label sheets (scrolls sideways on a narrow screen)"
+        className="print:overflow-visible"
       >
         {pages.map((page, i) => (
           <div
@@ -144,7 +143,7 @@ export function Component() {
             ))}
           </div>
         ))}
-      </div>
+      </ScrollRegion>
     </article>
   );
 }
