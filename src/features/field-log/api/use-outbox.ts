@@ -28,7 +28,8 @@ export function useOutbox(trialSlug: string) {
     refresh();
     const unsubscribe = outbox.subscribe(refresh);
     const unsaved = outbox.whenSaved((item) => {
-      if (item.trialSlug === trialSlug) void invalidate(trialSlug, 'records');
+      if (item.trialSlug === trialSlug)
+        void invalidate(trialSlug, item.kind === 'photo' ? 'photos' : 'records');
     });
     const on = () => setOnline(true);
     const off = () => setOnline(false);

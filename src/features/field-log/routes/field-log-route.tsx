@@ -20,6 +20,7 @@ import {
 import { OutboxPanel } from '../components/outbox-panel';
 import { CautionOnce } from '../components/caution-once';
 import { LabelScanner } from '../components/label-scanner';
+import { PlotPhoto } from '../components/plot-photo';
 import { PlotPicker } from '../components/plot-picker';
 import { SiteChooser } from '../components/site-chooser';
 import { mySitesOf, useCautionSeen, useRoundSite } from '../api/field-log-memory';
@@ -223,6 +224,22 @@ export function Component() {
             <p role="status" className="mt-2 text-sm text-leaf-900">
               {saved}
             </p>
+          ) : null}
+          {t.permissions['photos.upload'] ? (
+            <PlotPhoto
+              key={plot.plotId}
+              slug={slug}
+              plot={plot}
+              date={date}
+              onQueue={async (items) => {
+                try {
+                  await outbox.add(items);
+                  setSaved(`Photo kept on this device: ${items.map((i) => i.label).join('; ')}`);
+                } catch (err) {
+                  setSaved(err instanceof Error ? err.message : 'Not kept: try again.');
+                }
+              }}
+            />
           ) : null}
         </section>
       ) : null}
