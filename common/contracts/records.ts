@@ -4,6 +4,7 @@
  * by the server to parse and by the client to build requests and read answers.
  */
 import { z } from 'zod';
+import { readNumberField } from '../decimal';
 
 export const harvestGrades = ['marketable', 'cull'] as const;
 export const fieldEventKinds = [
@@ -480,13 +481,9 @@ export function storedUnitOf(kind: TraitRule['quantityKind']): string {
 
 // ---------- Field-log forms: what a grower types, before units are converted ----------
 
-/** A number typed into a form: blank is absent, and a decimal comma reads as a point. */
+/** A number typed into a form, read by the one decimal-mark rule: blank is absent. */
 export const typedNumber = <T extends z.ZodType>(schema: T) =>
-  z.preprocess((v) => {
-    if (typeof v !== 'string') return v;
-    const t = v.trim();
-    return t === '' ? undefined : Number(t.replace(',', '.'));
-  }, schema);
+  z.preprocess((v) => (typeof v === 'string' ? (readNumberField(v) ?? undefined) : v), schema);
 
 /**
  * One harvest round at a plot: marketable and cull in one save (either may be left blank,
