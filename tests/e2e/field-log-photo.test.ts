@@ -76,7 +76,10 @@ describe('a photo from the plot', () => {
         .getByLabel('Add photo')
         .setInputFiles({ name: 'plot.jpg', mimeType: 'image/jpeg', buffer: jpeg });
       await page.getByTestId('outbox-summary').getByText('1 waiting').waitFor();
-      await page.getByText(`· photo: Leaf mottling at plot ${plotNumber}`).waitFor();
+      await page
+        .getByRole('listitem')
+        .getByText(`· photo: Leaf mottling at plot ${plotNumber}`)
+        .waitFor();
       const before = await live.db
         .selectFrom('photos')
         .select((eb) => eb.fn.countAll<number>().as('n'))
