@@ -2,7 +2,7 @@ import type { FieldEvent } from '@common/contracts/records';
 import { formatDepth, formatLength } from '@common/units';
 import { weeklyWaterSummary } from '@common/water';
 import { useState } from 'react';
-import { Link, useParams } from 'react-router-dom';
+import { useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
@@ -11,6 +11,7 @@ import { localToday } from '../api/client-id';
 import { useFieldEvents } from '../api/get-field-events';
 import { useOutbox } from '../api/use-outbox';
 import { FieldEventForm } from '../components/field-event-form';
+import { FieldLogCrumbs } from '../components/field-log-crumbs';
 import { OutboxPanel } from '../components/outbox-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { SiteChooser } from '../components/site-chooser';
@@ -63,15 +64,7 @@ export function Component() {
   return (
     <article className="mx-auto max-w-3xl space-y-4">
       <header>
-        <p className="text-sm uppercase tracking-wide text-loam-700">
-          <Link to={`/t/${slug}`} className="underline">
-            {t.title}
-          </Link>{' '}
-          ·{' '}
-          <Link to={`/t/${slug}/log`} className="underline">
-            Field log
-          </Link>
-        </p>
+        <FieldLogCrumbs slug={slug} title={t.title} />
         <h1 className="text-2xl font-semibold text-leaf-900">Field events and water</h1>
       </header>
       <SiteChooser sites={mySites ?? []} siteId={siteId} onChoose={setSiteId} />

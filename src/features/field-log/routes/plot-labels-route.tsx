@@ -1,12 +1,13 @@
 import { labelPages, labelSheets, plotAddress } from '@common/plot-labels';
 import { useState } from 'react';
-import { Link, useParams } from 'react-router-dom';
+import { useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
 import { mySitesOf } from '../api/field-log-memory';
 import { useRecordPlots } from '../api/get-record-plots';
+import { FieldLogCrumbs } from '../components/field-log-crumbs';
 import { QrCode } from '../components/qr-code';
 
 /** Stake labels for a site's plots on a label sheet: plot number, entry code, site, QR code. */
@@ -39,15 +40,7 @@ export function Component() {
       {/* The sheet's own size and no margin, for this page only: labels sit where the sheet has them. */}
       <style>{`@page { size: ${sheet.page}; margin: 0; }`}</style>
       <header className="no-print space-y-2">
-        <p className="text-sm uppercase tracking-wide text-loam-700">
-          <Link to={`/t/${slug}`} className="underline">
-            {t.title}
-          </Link>{' '}
-          ·{' '}
-          <Link to={`/t/${slug}/log`} className="underline">
-            Field log
-          </Link>
-        </p>
+        <FieldLogCrumbs slug={slug} title={t.title} />
         <h1 className="text-2xl font-semibold text-leaf-900">Plot labels</h1>
         <p className="max-w-prose text-sm">
           One label per plot for its stake. Scanning a label's code with a phone opens the field log
