@@ -21,6 +21,7 @@ import { meRouter, sessionRouter } from './me/me-router';
 import { photosRouter } from './photos/photos-router';
 import type { ObjectStorage } from './storage/object-storage';
 import { apiNotFound, errorHandler } from './lib/error-handler';
+import { refuseNul } from './lib/refuse-nul';
 import { trialsRouter } from './trials/trials-router';
 import { publicResultsRouter, resultsSheetRouter } from './results/results-router';
 import { shareMeta } from './results/share-meta';
@@ -110,9 +111,12 @@ export function createApp(deps: AppDeps) {
     next();
   });
 
-  // The sign-in library reads its own request bodies: mount it before the JSON parser.
-  app.all('/api/auth/*splat', toNodeHandler(deps.auth));
-  app.use(express.json({ limit: '1mb' }));
+  // The sign-in library reads a body we have parsed as the same JSON again, so it gets its
+  // JSON checked for NUL characters first like every other route.
+  const json = express.json({ limit: '1mb' });
+  app.all('/api/auth/*splat', json, refuseNul, toNodeHandler(deps.auth));
+  app.use(json);
+  app.use('/api', refuseNul);
   app.use('/api/health', healthRouter(deps));
   app.use('/api', sameOriginOnly([deps.baseUrl]));
   app.use('/api', resolveActor(deps.auth));

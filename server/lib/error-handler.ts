@@ -1,7 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { MulterError } from 'multer';
 import { z } from 'zod';
-import { AppError } from './app-error';
+import { AppError, type ErrorCode } from './app-error';
 import { issuesOf } from './endpoint';
 
 /** PostgreSQL's own refusals, mapped to what the client can act on. */
@@ -25,6 +25,9 @@ function fromDatabase(err: {
       );
     case '23514':
     case '23502':
+    // NUL or a character the database encoding cannot hold
+    case '22021':
+    case '22P05':
     case '22P02':
     case '22003':
     case '22007':
@@ -66,6 +69,18 @@ function databaseAway(err: unknown): boolean {
   return false;
 }
 
+const codeForStatus: Partial<Record<number, ErrorCode>> = {
+  400: 'validation_failed',
+  401: 'unauthenticated',
+  403: 'forbidden',
+  404: 'not_found',
+  409: 'conflict',
+  413: 'payload_too_large',
+  415: 'unsupported_media_type',
+  422: 'unprocessable',
+  429: 'rate_limited',
+};
+
 function toAppError(err: unknown): AppError {
   if (err instanceof AppError) return err;
   if (err instanceof z.ZodError) {
@@ -91,6 +106,17 @@ function toAppError(err: unknown): AppError {
       `The request body is larger than the limit of ${e.limit} bytes.`,
     );
   }
+  // Parser and router refusals (bad charset or Content-Encoding, a body that does not
+  // inflate, a malformed percent-escape in the path) carry their own 4xx status.
+  const status =
+    typeof e?.status === 'number' ? e.status : (e as { statusCode?: number })?.statusCode;
+  if (typeof status === 'number' && status >= 400 && status < 500)
+    return new AppError(
+      codeForStatus[status] ?? 'validation_failed',
+      (e as { expose?: boolean }).expose === false
+        ? 'The request could not be read.'
+        : `The request could not be read: ${(err as Error).message}`,
+    );
   if (databaseAway(err))
     return new AppError(
       'unavailable',

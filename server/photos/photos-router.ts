@@ -45,7 +45,15 @@ export function photosRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage'>) {
     );
 
   function translateMulterError(err: unknown) {
-    if (!(err instanceof MulterError)) return err;
+    if (err instanceof AppError) return err;
+    // Anything else the form parser stops on is the form itself: no boundary, a truncated
+    // body, a malformed part header.
+    if (!(err instanceof MulterError))
+      return new AppError(
+        'validation_failed',
+        `The upload is not a well-formed multipart form: ${(err as Error)?.message ?? 'unreadable'}.`,
+        { fields: [{ path: 'body', message: 'Not a well-formed multipart form.' }] },
+      );
     switch (err.code) {
       case 'LIMIT_FILE_SIZE':
         return new AppError(
