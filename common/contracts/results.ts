@@ -78,6 +78,9 @@ const meanLine = z.object({
   mean: z.number(),
   sd: z.number().nullable(),
   se: z.number().nullable(),
+  /** Least-squares mean and its SE, stored when the layout was unbalanced (rank and letters follow it). */
+  adjustedMean: z.number().optional(),
+  adjustedSe: z.number().nullable().optional(),
   rank: z.number(),
   group: z.string(),
 });

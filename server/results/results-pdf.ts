@@ -79,7 +79,9 @@ export function renderSheetPdf(
       );
     doc.fillColor('#1f2a1c').fontSize(10);
     for (const m of t.means)
-      doc.text(`${m.rank}. ${m.variety}   ${fmt(m.mean)} ± ${fmt(m.se)}   ${m.group}`);
+      doc.text(
+        `${m.rank}. ${m.variety}   ${fmt(m.mean)} ± ${fmt(m.se)}${m.adjustedMean === undefined ? '' : ` (adjusted ${fmt(m.adjustedMean)} ± ${fmt(m.adjustedSe ?? null)})`}   ${m.group}`,
+      );
     for (const w of t.warnings)
       doc.fontSize(8).fillColor('#a8631a').text(w).fillColor('#1f2a1c').fontSize(10);
     doc.moveDown(0.6);

@@ -146,15 +146,23 @@ export async function buildSnapshot(
       grandMean: result.grandMean,
       cvPercent: Number.isFinite(result.cvPercent) ? result.cvPercent : null,
       anova: result.anova,
-      means: result.means.map((m) => ({
-        variety: m.variety,
-        n: m.n,
-        mean: m.mean,
-        sd: m.sd,
-        se: m.se,
-        rank: m.rank,
-        group: m.group,
-      })),
+      means: result.means.map((m) => {
+        // Unbalanced layouts rank by the adjusted means; the sheet shows them beside the plain ones.
+        const adjusted =
+          result.method === 'least-squares'
+            ? result.adjustedMeans.find((a) => a.variety === m.variety)
+            : undefined;
+        return {
+          variety: m.variety,
+          n: m.n,
+          mean: m.mean,
+          sd: m.sd,
+          se: m.se,
+          ...(adjusted ? { adjustedMean: adjusted.mean, adjustedSe: adjusted.se } : {}),
+          rank: m.rank,
+          group: m.group,
+        };
+      }),
       lsd: result.lsd,
       hsd: result.hsd,
       warnings: result.warnings,

@@ -166,6 +166,14 @@ export function SheetView({
                     <td className="p-2 text-right tabular-nums">
                       {formatInUnit(m.mean, du(t))} ±{' '}
                       {formatNumber(m.se === null ? null : m.se * du(t).factor)}
+                      {m.adjustedMean === undefined ? null : (
+                        <span className="block text-xs text-loam-700">
+                          adjusted {formatInUnit(m.adjustedMean, du(t))}
+                          {m.adjustedSe == null
+                            ? ''
+                            : ` ± ${formatNumber(m.adjustedSe * du(t).factor)}`}
+                        </span>
+                      )}
                     </td>
                     <td className="p-2 font-mono">{m.group}</td>
                     <td className="p-2 text-right">{m.n}</td>
