@@ -203,3 +203,33 @@ export const followBody = z.object({
 export const followerTokenQuery = z.object({
   token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, 'This link is not valid.'),
 });
+
+/* GET /api/results: the public index of published sheets, newest first. */
+export const publishedSheetsQuery = z.object({
+  q: z.string().trim().max(100, 'Use at most 100 characters.').default(''),
+  page: z.coerce
+    .number()
+    .int('Pages are whole numbers.')
+    .min(1, 'Pages start at 1.')
+    .max(100_000)
+    .default(1),
+  pageSize: z.coerce.number().int().min(1).max(50, 'At most 50 per page.').default(20),
+});
+export type PublishedSheetsQuery = z.infer<typeof publishedSheetsQuery>;
+export const publishedSheetListSchema = z.object({
+  sheets: z.array(
+    z.object({
+      slug: z.string(),
+      title: z.string(),
+      crop: z.string(),
+      season: z.string(),
+      version: z.number().int(),
+      publishedAt: z.string(),
+      entryCount: z.number().int(),
+    }),
+  ),
+  page: z.number().int(),
+  pageSize: z.number().int(),
+  total: z.number().int(),
+});
+export type PublishedSheetList = z.infer<typeof publishedSheetListSchema>;

@@ -166,3 +166,57 @@ export function recordFollowRequest(
 export function forgetFollowRequestsBefore(db: DB, before: Date) {
   return db.deleteFrom('follow_requests').where('requested_at', '<', before).execute();
 }
+
+/** `%` and `_` typed by a reader are letters, not wildcards. */
+const likePattern = (text: string) => `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+
+/**
+ * Published trials whose crop, title or one of whose entries' variety names contains `q`
+ * (case-insensitive), newest latest version first, one page of them and the count of all.
+ */
+export async function listPublishedSheets(db: DB, q: string, page: number, pageSize: number) {
+  const latest = db
+    .selectFrom('result_versions')
+    .select(['trial_id', sql<number>`max(version)::int`.as('version')])
+    .select(sql<Date>`max(published_at)`.as('published_at'))
+    .groupBy('trial_id')
+    .as('v');
+  const base = db
+    .selectFrom('trials as t')
+    .innerJoin(latest, 'v.trial_id', 't.id')
+    .where('t.status', '=', 'published')
+    .$if(q !== '', (qb) =>
+      qb.where((eb) =>
+        eb.or([
+          eb('t.crop', 'ilike', likePattern(q)),
+          eb('t.title', 'ilike', likePattern(q)),
+          eb.exists(
+            eb
+              .selectFrom('entries as e')
+              .select('e.id')
+              .whereRef('e.trial_id', '=', 't.id')
+              .where('e.name', 'ilike', likePattern(q)),
+          ),
+        ]),
+      ),
+    );
+  const [rows, count] = await Promise.all([
+    base
+      .select([
+        't.slug',
+        't.title',
+        't.crop',
+        't.season',
+        'v.version',
+        'v.published_at',
+        sql<number>`(select count(*)::int from entries e where e.trial_id = t.id)`.as('entryCount'),
+      ])
+      .orderBy('v.published_at', 'desc')
+      .orderBy('t.slug')
+      .limit(pageSize)
+      .offset((page - 1) * pageSize)
+      .execute(),
+    base.select(sql<number>`count(*)::int`.as('n')).executeTakeFirstOrThrow(),
+  ]);
+  return { rows, total: count.n };
+}

@@ -3,6 +3,7 @@ import {
   followBody,
   followerTokenQuery,
   publishBody,
+  publishedSheetsQuery,
   resultSlugParams,
   resultVersionParams,
   saveSheetBody,
@@ -91,6 +92,13 @@ export function publicResultsRouter(deps: Deps) {
   const cache = (res: import('express').Response) =>
     res.setHeader('Cache-Control', 'public, max-age=300');
 
+  router.get(
+    '/',
+    // Not cached: a sheet published a minute ago belongs in the list now.
+    endpoint({ query: publishedSheetsQuery }, async ({ query }, _req, res) => {
+      res.json(await service.publishedSheets(deps.db, query));
+    }),
+  );
   router.post(
     '/unsubscribe',
     endpoint({ query: followerTokenQuery }, async ({ query }, _req, res) => {

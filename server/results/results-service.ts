@@ -5,6 +5,8 @@ import {
   resultSnapshotSchema,
   type SaveSheetBody,
   type SheetDraft,
+  type PublishedSheetList,
+  type PublishedSheetsQuery,
 } from '../../common/contracts/results';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
@@ -422,4 +424,26 @@ export async function sheetPhotosForPdf(db: DB, storage: ObjectStorage, snapshot
     }
   }
   return out;
+}
+
+/** The public index: anyone may list what is published. */
+export async function publishedSheets(
+  db: DB,
+  query: PublishedSheetsQuery,
+): Promise<PublishedSheetList> {
+  const { rows, total } = await repo.listPublishedSheets(db, query.q, query.page, query.pageSize);
+  return {
+    sheets: rows.map((r) => ({
+      slug: r.slug,
+      title: r.title,
+      crop: r.crop,
+      season: r.season,
+      version: r.version,
+      publishedAt: new Date(r.published_at).toISOString(),
+      entryCount: r.entryCount,
+    })),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  };
 }

@@ -28,6 +28,7 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           path: 't/:slug/photos/compare',
           lazy: () => import('@/features/photos/routes/photo-compare-route'),
         },
+        { path: 'r', lazy: () => import('@/features/results/routes/published-index-route') },
         { path: 'r/:slug', lazy: () => import('@/features/results/routes/public-sheet-route') },
         {
           path: 'r/:slug/v/:version',
@@ -73,6 +74,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
             },
             { path: 'account', lazy: () => import('@/features/account/routes/account-route') },
             {
+              path: 'analyze',
+              lazy: () => import('@/features/analysis/routes/analyze-spreadsheet-route'),
+            },
+            {
               path: 't/:slug/members',
               lazy: () => import('@/features/members/routes/members-route'),
             },
@@ -99,10 +104,6 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           lazy: () => import('@/features/invitations/routes/accept-invitation-route'),
         },
         { path: 'dev/mailbox', lazy: () => import('@/features/mailbox/routes/mailbox-route') },
-        {
-          path: 'analyze',
-          lazy: () => import('@/features/analysis/routes/analyze-spreadsheet-route'),
-        },
         {
           path: 't/:slug/analysis',
           lazy: () => import('@/features/analysis/routes/trial-analysis-route'),

@@ -31,6 +31,8 @@ const view = (slug: string, v: TrialView) => ['trial', slug, v] as const;
 export const trialKeys = {
   /** The list of trials (not under one trial's root: it reads all of them). */
   list: () => ['trials'] as const,
+  /** The public index of published sheets (every trial's, none in particular). */
+  publishedIndex: (q: object) => ['published-sheets', q] as const,
   root: (slug: string) => ['trial', slug] as const,
   view,
   detail: (slug: string) => view(slug, 'detail'),

@@ -2,10 +2,13 @@ import { Suspense } from 'react';
 import { Link, NavLink, Outlet, useNavigate, useNavigation, useParams } from 'react-router-dom';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrials } from '@/features/trials/api/get-trials';
+import { trialHref } from '@/features/trials/components/trial-href';
 import { useMe } from '@/lib/session';
+import { usePageTitle } from '../use-page-title';
 
 function TrialSwitcher() {
   const { data } = useTrials();
+  const { data: me } = useMe();
   const { slug } = useParams();
   const navigate = useNavigate();
   if (!data || data.trials.length === 0) return null;
@@ -15,7 +18,10 @@ function TrialSwitcher() {
       <select
         className="min-h-11 max-w-[12rem] rounded-lg border border-leaf-300 bg-white px-2 text-ink sm:max-w-xs"
         value={slug ?? ''}
-        onChange={(e) => e.target.value && navigate(`/t/${e.target.value}`)}
+        onChange={(e) => {
+          const trial = data.trials.find((t) => t.slug === e.target.value);
+          if (trial) navigate(trialHref(trial, me?.isAdmin ?? false));
+        }}
       >
         <option value="">Choose a trial…</option>
         {data.trials.map((t) => (
@@ -67,13 +73,19 @@ function UserMenu() {
   );
 }
 
-function NewTrialLink() {
+/** Analysis of one's own spreadsheet and new trials are for signed-in users. */
+function SignedInLinks() {
   const { data: me } = useMe();
   if (!me) return null;
   return (
-    <NavLink to="/trials/new" className={navClass}>
-      New trial
-    </NavLink>
+    <>
+      <NavLink to="/analyze" className={navClass}>
+        Analyze a spreadsheet
+      </NavLink>
+      <NavLink to="/trials/new" className={navClass}>
+        New trial
+      </NavLink>
+    </>
   );
 }
 
@@ -96,6 +108,7 @@ const navClass = ({ isActive }: { isActive: boolean }) =>
 
 export function AppShell() {
   const navigation = useNavigation();
+  usePageTitle();
   return (
     <div className="min-h-screen">
       <a
@@ -124,10 +137,10 @@ export function AppShell() {
           <NavLink to="/" end className={navClass}>
             Trials
           </NavLink>
-          <NavLink to="/analyze" className={navClass}>
-            Analyze a spreadsheet
+          <NavLink to="/r" end className={navClass}>
+            Published sheets
           </NavLink>
-          <NewTrialLink />
+          <SignedInLinks />
           <MembersLink />
         </div>
       </nav>

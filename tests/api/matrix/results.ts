@@ -89,6 +89,12 @@ export const rows: MatrixRow[] = [
   },
   {
     method: 'GET',
+    route: '/api/results',
+    request: () => ({ url: '/api/results?q=okra' }),
+    expect: everyone(200),
+  },
+  {
+    method: 'GET',
     route: '/api/results/:slug',
     request: async (w) => ({ url: `/api/results/${await trialCopy(w, true)}` }),
     expect: everyone(200),

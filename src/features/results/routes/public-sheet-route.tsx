@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
@@ -61,11 +61,6 @@ export function Component() {
   const number = version ? Number(version) : undefined;
   const { data: sheet, isPending, error } = usePublishedSheet(slug, number);
   const { data: versions } = useVersions(slug);
-
-  useEffect(() => {
-    if (!sheet) return;
-    document.title = `${sheet.trial.title} — results (v${sheet.version}) · Rowtally`;
-  }, [sheet]);
 
   if (isPending) return <Spinner label="Loading the results…" />;
   if (error) return <ErrorPanel error={error} title="These results are not available" />;

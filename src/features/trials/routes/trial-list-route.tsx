@@ -4,6 +4,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useMe } from '@/lib/session';
 import { useTrials } from '../api/get-trials';
+import { trialHref } from '../components/trial-href';
 
 export function Component() {
   const { data, isPending, error } = useTrials();
@@ -13,25 +14,30 @@ export function Component() {
   return (
     <section>
       <h1 className="text-3xl font-semibold text-leaf-900">Trials</h1>
+      {me ? null : (
+        <p className="mt-4 max-w-prose rounded-lg border border-leaf-100 bg-white p-4">
+          <Link to="/sign-in" className="font-semibold text-leaf-700 underline">
+            Sign in
+          </Link>{' '}
+          to see the trials you take part in.{' '}
+          <Link to="/r" className="font-semibold text-leaf-700 underline">
+            Published results sheets
+          </Link>{' '}
+          are open to everyone, searchable by crop and variety.
+        </p>
+      )}
       {data.trials.length === 0 ? (
-        <div className="mt-4 max-w-prose rounded-lg border border-leaf-100 bg-white p-4">
-          {me ? (
-            <p>You are not part of any trial yet. A trial lead can invite you by e-mail.</p>
-          ) : (
-            <p>
-              <Link to="/sign-in" className="font-semibold text-leaf-700 underline">
-                Sign in
-              </Link>{' '}
-              to see the trials you take part in. Published results sheets are open to everyone.
-            </p>
-          )}
-        </div>
+        me ? (
+          <p className="mt-4 max-w-prose rounded-lg border border-leaf-100 bg-white p-4">
+            You are not part of any trial yet. A trial lead can invite you by e-mail.
+          </p>
+        ) : null
       ) : (
         <ul className="mt-4 grid gap-3 sm:grid-cols-2">
           {data.trials.map((t) => (
             <li key={t.id}>
               <Link
-                to={`/t/${t.slug}`}
+                to={trialHref(t, me?.isAdmin ?? false)}
                 className="block rounded-xl border border-leaf-100 bg-white p-4 shadow-sm transition hover:border-leaf-500"
               >
                 <p className="text-sm uppercase tracking-wide text-loam-700">

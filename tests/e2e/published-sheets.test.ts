@@ -1,0 +1,129 @@
+/**
+ * A published sheet is reached by clicking: a signed-out visitor finds it from the home page
+ * through the public index (searched by a variety's name), and a signed-in reader who is not a
+ * member goes from the trial's card and from the header's trial switcher straight to it.
+ */
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoAccounts } from '../../db/seed/demo-season';
+import { publish } from '../../server/results/results-service';
+import {
+  closeBrowserSuite,
+  contextAs,
+  expectNoSeriousA11yViolations,
+  openBrowserSuite,
+  type LiveApp,
+  screenshot,
+  watchErrors,
+} from '../support/browser';
+import { createUser, type TestUser } from '../support/test-app';
+
+const SLUG = 'larkhaven-okra-2026';
+const TITLE = 'Larkhaven heirloom okra, three gardens';
+let live: LiveApp;
+let browser: Browser;
+let outsider: TestUser;
+const lead = demoAccounts.find((a) => a.key === 'lead')!;
+
+beforeAll(async () => {
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
+  const leadRow = await live.db
+    .selectFrom('users')
+    .select('id')
+    .where('email', '=', lead.email)
+    .executeTakeFirstOrThrow();
+  await publish(
+    { db: live.db, mailer: live.runtime.mailer, baseUrl: live.url, log: { error: () => {} } },
+    SLUG,
+    { userId: leadRow.id, isAdmin: false },
+    '',
+  );
+  outsider = await createUser(live.db, { name: 'Oswin Tarrant' });
+}, 120_000);
+afterAll(() => closeBrowserSuite(live, browser));
+
+const viewports = [
+  { width: 1280, height: 900 },
+  { width: 360, height: 780 },
+];
+
+async function expectFits(page: Page, width: number) {
+  const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
+  expect(scrollWidth).toBeLessThanOrEqual(width);
+}
+
+describe('reaching a published sheet', () => {
+  it('a signed-out visitor goes from the home page to the index, searches and opens it', async () => {
+    for (const viewport of viewports) {
+      const context = await contextAs(browser, live, null, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      await page.goto('/');
+      await page.getByRole('heading', { level: 1, name: 'Trials' }).waitFor();
+      await expect(page.title()).resolves.toBe('Trials · Rowtally');
+      // Analysing one's own spreadsheet is offered only after signing in.
+      await expect(page.getByRole('link', { name: 'Analyze a spreadsheet' }).count()).resolves.toBe(
+        0,
+      );
+      await page.getByRole('main').getByRole('link', { name: 'Published results sheets' }).click();
+      await page.getByRole('heading', { level: 1, name: 'Published results sheets' }).waitFor();
+      await page.getByRole('status').filter({ hasText: '1 sheet · page 1 of 1' }).waitFor();
+      await expect(page.title()).resolves.toBe('Published results sheets · Rowtally');
+      await expectNoSeriousA11yViolations(page);
+
+      // A variety of another crop finds nothing; one of the okra's varieties finds the sheet.
+      await page.getByLabel('Crop or variety').fill('bush bean');
+      await page.getByRole('button', { name: 'Search' }).click();
+      await page.getByText('No published sheet matches “bush bean”.').waitFor();
+      await page.getByLabel('Crop or variety').fill('mossbank');
+      await page.getByRole('button', { name: 'Search' }).click();
+      await page.getByText('1 sheet matching “mossbank” · page 1 of 1').waitFor();
+      expect(new URL(page.url()).search).toBe('?q=mossbank');
+      await expectFits(page, viewport.width);
+      await screenshot(page, `published-index-${viewport.width}`);
+
+      await page.getByRole('link', { name: new RegExp(TITLE) }).click();
+      await page.waitForURL(`**/r/${SLUG}`);
+      await page.getByRole('heading', { level: 1, name: TITLE }).waitFor();
+      await page.getByRole('heading', { name: 'Ranking' }).waitFor();
+      await expect(page.title()).resolves.toBe(`${TITLE} · Rowtally`);
+      await expectNoSeriousA11yViolations(page);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+
+  it('a reader who is not a member goes from the card and the switcher to the public sheet', async () => {
+    for (const viewport of viewports) {
+      const context = await contextAs(browser, live, outsider, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      await page.goto('/');
+      await page.getByRole('link', { name: new RegExp(TITLE) }).click();
+      await page.waitForURL(`**/r/${SLUG}`);
+      await page.getByRole('heading', { level: 1, name: TITLE }).waitFor();
+      await expect(page.getByText('Sign in to do this').count()).resolves.toBe(0);
+
+      await page.goto('/r');
+      await page.getByRole('heading', { level: 1, name: 'Published results sheets' }).waitFor();
+      await page.getByRole('combobox').selectOption({ label: TITLE });
+      await page.waitForURL(`**/r/${SLUG}`);
+      await page.getByRole('heading', { level: 1, name: TITLE }).waitFor();
+      await expectFits(page, viewport.width);
+      await expectNoSeriousA11yViolations(page);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+
+  it('the lead, a member, still goes from the card to the trial’s own page', async () => {
+    const context = await contextAs(browser, live, lead);
+    const page = await context.newPage();
+    await page.goto('/');
+    await page.getByRole('link', { name: new RegExp(TITLE) }).click();
+    await page.waitForURL(`**/t/${SLUG}`);
+    await page.getByRole('heading', { level: 1, name: TITLE }).waitFor();
+    await expect(page.title()).resolves.toBe(`${TITLE} · Rowtally`);
+    await context.close();
+  });
+});
