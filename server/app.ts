@@ -2,24 +2,19 @@ import fs from 'node:fs';
 import path from 'node:path';
 import express, { type Router } from 'express';
 import helmet from 'helmet';
-import type { Logger } from 'pino';
 import { pinoHttp } from 'pino-http';
 import { toNodeHandler } from 'better-auth/node';
-import type { DB } from '../db/database';
-import type { Env } from './env';
 import { projectRoot } from './env';
 import { resolveActor } from './auth/actor';
 import { sameOriginOnly } from './auth/origin-check';
-import { type Auth, CLIENT_IP_HEADER } from './auth/auth';
+import type { AppDeps } from './app-deps';
+import { CLIENT_IP_HEADER } from './auth/auth';
 import { healthRouter } from './health/health-router';
-import type { CaptureServer } from './mail/capture-server';
 import { mailboxInUse, mailboxRouter, thisMachineOnly } from './mail/mailbox-router';
-import type { Mailer } from './mail/mailer';
 import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
 import { membersRouter } from './members/members-router';
 import { meRouter, sessionRouter } from './me/me-router';
 import { photosRouter } from './photos/photos-router';
-import type { ObjectStorage } from './storage/object-storage';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { refuseNul } from './lib/refuse-nul';
 import { trialsRouter } from './trials/trials-router';
@@ -36,24 +31,6 @@ import {
   observationsRouter,
   recordsRouter,
 } from './records/records-router';
-
-export interface AppDeps {
-  db: DB;
-  env: Env;
-  logger: Logger;
-  version: string;
-  auth: Auth;
-  /** Outgoing mail (invitations); the sign-in library has its own reference. */
-  mailer: Mailer;
-  /** The address people reach the app at; links in mail are built from it. */
-  baseUrl: string;
-  /** Where photo files live; built from the environment (STORAGE_DRIVER) when not given. */
-  storage?: ObjectStorage;
-  /** The local capture server's messages, listed at /dev/mailbox outside production. */
-  mailbox?: CaptureServer;
-  /** Serve the built client from this folder (production). */
-  clientDir?: string;
-}
 
 /**
  * Every API router behind sign-in resolution, with its mount path. Routers mounted under a

@@ -4,7 +4,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import pino, { type Logger } from 'pino';
 import { createDb, createPool } from '../db/database';
-import { type AppDeps, createApp, defaultClientDir } from './app';
+import { createApp, defaultClientDir } from './app';
+import type { AppDeps } from './app-deps';
 import { createAuth } from './auth/auth';
 import { type Env, projectRoot } from './env';
 import type { CaptureServer } from './mail/capture-server';
@@ -80,7 +81,7 @@ export function createRuntime(opts: RuntimeOptions) {
     env.NODE_ENV === 'test'
       ? null
       : setInterval(() => {
-          purgeDeletedPhotos({ db, storage: deps.storage! }).catch((err: unknown) =>
+          purgeDeletedPhotos({ db, storage: deps.storage }).catch((err: unknown) =>
             logger.warn({ err }, 'removing deleted photos failed; will try again'),
           );
         }, PHOTO_PURGE_INTERVAL_MS).unref();

@@ -7,7 +7,7 @@ import {
   trialAnalysisQuery,
 } from '../../common/contracts/analysis';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
 import { endpoint, issuesOf } from '../lib/endpoint';

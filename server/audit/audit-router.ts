@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { auditQuery, restoreBody, slugParams } from '../../common/contracts/records';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './audit-service';

@@ -15,7 +15,7 @@ import {
   updateTrialBody,
 } from '../../common/contracts/design';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './design-service';

@@ -18,15 +18,12 @@ import { randomizeLayout } from '../../common/layout';
 import { plantsPerPlot } from '../../common/planting';
 import type { DB } from '../../db/database';
 import type { z } from 'zod';
-import { AppError } from '../lib/app-error';
+import { AppError, fieldError } from '../lib/app-error';
 import { trialForAction, trialHeading } from '../trials/trials-service';
 import * as repo from './design-repository';
 import type { Conn } from './design-repository';
 
 type Out<T extends z.ZodType> = z.output<T>;
-
-const fieldError = (path: string, message: string) =>
-  new AppError('validation_failed', message, { fields: [{ path, message }] });
 
 /** Turns a unique-key refusal into a message about the field that clashed. */
 async function unique<T>(work: Promise<T>, byConstraint: Record<string, [string, string]>) {

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { sql } from 'kysely';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 
 export function healthRouter({ db, version }: Pick<AppDeps, 'db' | 'version'>) {
   const router = Router();

@@ -7,7 +7,7 @@ import {
   invitationTokenBody,
 } from '../../common/contracts/invitations';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './invitations-service';

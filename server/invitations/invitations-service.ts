@@ -12,8 +12,12 @@ import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Mailer } from '../mail/mailer';
 import { AppError } from '../lib/app-error';
-import * as members from '../members/members-repository';
-import { assertSitesInTrial } from '../members/members-service';
+import {
+  accountByEmail,
+  assertSitesInTrial,
+  joinTrial,
+  trialSites,
+} from '../members/members-service';
 import { trialForAction } from '../trials/trials-service';
 import { invitationMail } from './invitation-mail';
 import { hashInvitationToken, newInvitationToken } from './invitation-token';
@@ -82,7 +86,7 @@ async function deliver(
 ) {
   const [inviter, siteRows] = await Promise.all([
     repo.userEmail(deps.db, inviterId),
-    members.listSites(deps.db, inv.trialId),
+    trialSites(deps.db, inv.trialId),
   ]);
   const chosen = new Set(await repo.invitationSiteIds(deps.db, inv.id));
   const mail = invitationMail({
@@ -217,7 +221,7 @@ export async function revokeInvitation(
 export async function previewInvitation(db: DB, token: string): Promise<InvitationPreview> {
   const row = await repo.findByTokenHash(db, hashInvitationToken(token));
   if (!row) throw notValid();
-  const account = await members.findUserByEmail(db, row.email);
+  const account = await accountByEmail(db, row.email);
   return {
     trial: { slug: row.slug, title: row.title, crop: row.crop },
     email: row.email,
@@ -258,18 +262,13 @@ async function join(
   inv: { id: string; trial_id: string; role: Invitation['role'] },
   userId: string,
 ) {
-  const locked = await members.lockMembers(trx, inv.trial_id);
-  const already = locked.some((m) => m.user_id === userId);
   // Someone already in the trial keeps their role: an invitation never demotes a lead.
-  if (!already) {
-    await members.setMembership(trx, {
-      trialId: inv.trial_id,
-      userId,
-      role: inv.role,
-      siteIds: await repo.invitationSiteIds(trx, inv.id),
-      by: null,
-    });
-  }
+  const already = await joinTrial(trx, {
+    trialId: inv.trial_id,
+    userId,
+    role: inv.role,
+    siteIds: await repo.invitationSiteIds(trx, inv.id),
+  });
   await repo.markAccepted(trx, inv.id, userId);
   return already;
 }
@@ -316,7 +315,7 @@ export async function signUpWithInvitation(db: DB, body: InvitationSignUpBody) {
   const userId = crypto.randomUUID();
   const result = await db.transaction().execute(async (trx) => {
     const inv = await usableInvitation(trx, body.token);
-    if (await members.findUserByEmail(trx, inv.email)) {
+    if (await accountByEmail(trx, inv.email)) {
       throw new AppError(
         'conflict',
         'An account already uses this address. Sign in with it to accept the invitation.',

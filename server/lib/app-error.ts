@@ -43,3 +43,7 @@ export class AppError extends Error {
     return new AppError('not_found', `${what} was not found.`);
   }
 }
+
+/** A 400 about one field, in the shape parsing failures have (`details.fields`). */
+export const fieldError = (path: string, message: string) =>
+  new AppError('validation_failed', message, { fields: [{ path, message }] });

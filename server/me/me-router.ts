@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { type Me, updateMeBody } from '../../common/contracts/me';
 import type { DB } from '../../db/database';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
 import { endpoint } from '../lib/endpoint';

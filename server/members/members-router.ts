@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { addMemberBody, memberParams, updateMemberBody } from '../../common/contracts/members';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './members-service';

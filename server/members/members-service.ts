@@ -150,3 +150,24 @@ async function memberOf(db: DB, slug: string, actor: Actor, userId: string) {
   if (!member) throw AppError.notFound('The member');
   return member;
 }
+
+/**
+ * Adds someone to a trial inside the caller's transaction, under the members' row lock.
+ * Someone already in the trial keeps their role (joining never demotes a lead); answers
+ * whether they were already in it.
+ */
+export async function joinTrial(
+  trx: DB,
+  m: { trialId: string; userId: string; role: TrialRole; siteIds: string[] },
+): Promise<boolean> {
+  const locked = await repo.lockMembers(trx, m.trialId);
+  if (locked.some((row) => row.user_id === m.userId)) return true;
+  await repo.setMembership(trx, { ...m, by: null });
+  return false;
+}
+
+/** The trial's sites, for an invitation's text. */
+export const trialSites = (db: DB, trialId: string) => repo.listSites(db, trialId);
+
+/** The account that uses this address (any case), if there is one. */
+export const accountByEmail = (db: DB, email: string) => repo.findUserByEmail(db, email);

@@ -9,11 +9,10 @@ import {
   uploadPhotoFields,
 } from '../../common/contracts/photos';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
 import { endpoint, issuesOf } from '../lib/endpoint';
-import { createStorage } from '../storage/create-storage';
 import { trialForAction } from '../trials/trials-service';
 import { defaultPhotoLimits } from './photo-processing';
 import * as service from './photos-service';
@@ -24,7 +23,7 @@ const megabytes = (bytes: number) => `${Math.round(bytes / (1024 * 1024))} MB`;
 export function photosRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage'>) {
   const photoDeps: service.PhotoDeps = {
     db: deps.db,
-    storage: deps.storage ?? createStorage(deps.env),
+    storage: deps.storage,
     limits: defaultPhotoLimits,
   };
   const limits = photoDeps.limits!;

@@ -5,7 +5,7 @@
  */
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
-import { latestEntry, snapshotAtVersion, writeAudit } from '../audit/audit-repository';
+import { latestEntry, snapshotAtVersion, writeAudit } from './record-audit-repository';
 import { AppError } from '../lib/app-error';
 import {
   insertIfNew,

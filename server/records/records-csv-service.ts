@@ -13,8 +13,8 @@ import {
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import { AppError } from '../lib/app-error';
-import type { LoadedTrial } from '../trials/trial-access';
-import { authorizeAtSite, loadForRecords } from './records-access';
+import { authorize, type LoadedTrial } from '../trials/trial-access';
+import { trialForAction } from '../trials/trials-service';
 import { createOnce } from './record-changes';
 import { fromSpreadsheetSafe, writeCsv } from '../../common/csv';
 import * as repo from './records-repository';
@@ -96,7 +96,7 @@ async function check(
   kind: ImportKind,
   csv: string,
 ): Promise<Checked> {
-  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
   const { lookups, plotSite } = await lookupsFor(db, loaded.trial.id);
   const rows = parseCsv(csv);
   const result =
@@ -106,7 +106,7 @@ async function check(
   const forbiddenRows: number[] = [];
   for (const r of result.records) {
     try {
-      authorizeAtSite(actor, 'records.write', loaded, plotSite.get(r.plot.id)!);
+      authorize(actor, 'records.write', loaded, plotSite.get(r.plot.id)!);
     } catch {
       forbiddenRows.push(r.row);
       errors.push({ row: r.row, column: 'site', message: 'You may not record at this site.' });
@@ -234,7 +234,7 @@ export async function exportDataset(
   actor: Actor | null,
   dataset: ExportDataset,
 ) {
-  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   const filename = `${trial.slug}-${dataset}.csv`;
   if (dataset === 'harvests') {
     const rows = await repo.listHarvests(db, trial.id, {});

@@ -18,7 +18,7 @@ import {
   updateObservationBody,
 } from '../../common/contracts/records';
 import type { DB } from '../../db/database';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as csv from './records-csv-service';

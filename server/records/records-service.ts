@@ -16,11 +16,11 @@ import {
 import type { Actor } from '../../common/policy';
 import { waterDepthMm, type IrrigationInputs } from '../../common/water';
 import type { DB } from '../../db/database';
-import { writeAudit } from '../audit/audit-repository';
+import { writeAudit } from './record-audit-repository';
 import { requireActorOf } from './records-actor';
-import { AppError } from '../lib/app-error';
-import type { LoadedTrial } from '../trials/trial-access';
-import { authorizeAtSite, fieldError, loadForRecords } from './records-access';
+import { AppError, fieldError } from '../lib/app-error';
+import { authorize, type LoadedTrial } from '../trials/trial-access';
+import { trialForAction } from '../trials/trials-service';
 import {
   applyUpdate,
   createOnce,
@@ -58,7 +58,7 @@ async function writablePlot(
   path?: string,
 ) {
   const plot = await plotAt(db, loaded, plotId, path);
-  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  authorize(actor, 'records.write', loaded, plot.site_id);
   return plot;
 }
 
@@ -81,7 +81,7 @@ async function editablePlotRecord(
 ) {
   const before = await lockedRecord(trx, table, loaded.trial.id, id);
   const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
-  authorizeAtSite(actor, 'records.write', loaded, plot.site_id);
+  authorize(actor, 'records.write', loaded, plot.site_id);
   if (before.deleted_at) throw new AppError('not_found', deletedMessages[table]);
   return before;
 }
@@ -89,7 +89,7 @@ async function editablePlotRecord(
 // ---------- Reads ----------
 
 export async function listHarvests(db: DB, slug: string, actor: Actor | null, q: Q) {
-  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   return { harvests: await repo.listHarvests(db, trial.id, filters(q)) };
 }
 
@@ -99,18 +99,18 @@ export async function listObservations(
   actor: Actor | null,
   q: Q & { traitId?: string },
 ) {
-  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   const rows = await repo.listObservations(db, trial.id, { ...filters(q), traitId: q.traitId });
   return { observations: rows.map(({ quantityKind: _k, ...o }) => o) };
 }
 
 export async function listFieldEvents(db: DB, slug: string, actor: Actor | null, q: Q) {
-  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   return { events: await repo.listFieldEvents(db, trial.id, filters(q)) };
 }
 
 export async function listPlots(db: DB, slug: string, actor: Actor | null, siteId?: string) {
-  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   return { plots: await repo.plotsOfTrial(db, trial.id, siteId) };
 }
 
@@ -120,7 +120,7 @@ export async function completeness(
   actor: Actor | null,
   q: { siteId?: string; from: string; to: string },
 ) {
-  const { trial } = await loadForRecords(db, slug, actor, 'trial.read');
+  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   if (q.from > q.to) throw fieldError('query.from', 'The round starts after it ends.');
   const [plots, traits, [cells, harvests]] = await Promise.all([
     repo.plotsOfTrial(db, trial.id, q.siteId),
@@ -156,7 +156,7 @@ export async function createHarvest(
   actor: Actor | null,
   body: z.output<typeof createHarvestBody>,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
   await writablePlot(db, loaded, actor, body.plotId);
   const { created } = await db.transaction().execute((trx) =>
     createOnce(
@@ -186,7 +186,7 @@ export async function updateHarvest(
   id: string,
   body: z.output<typeof updateHarvestBody>,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
   await db.transaction().execute(async (trx) => {
     const before = await editablePlotRecord(trx, loaded, actor, 'harvests', id);
     const values = givenColumns({
@@ -234,7 +234,7 @@ export async function createObservation(
   actor: Actor | null,
   body: z.output<typeof createObservationBody>,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
   await writablePlot(db, loaded, actor, body.plotId);
   checkValue(await traitFor(db, loaded.trial.id, body.traitId), body.value, body.valueDate);
   const { created } = await db.transaction().execute((trx) =>
@@ -266,7 +266,7 @@ export async function updateObservation(
   id: string,
   body: z.output<typeof updateObservationBody>,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
   await db.transaction().execute(async (trx) => {
     const before = await editablePlotRecord(trx, loaded, actor, 'observations', id);
     const values = givenColumns({
@@ -362,7 +362,7 @@ export async function createFieldEvent(
   body: z.output<typeof createFieldEventBody>,
 ) {
   const action = eventAction(body.kind);
-  const loaded = await loadForRecords(db, slug, actor, action);
+  const loaded = await trialForAction(db, slug, actor, action);
   const site = await repo.siteInTrial(db, loaded.trial.id, body.siteId);
   if (!site) throw fieldError('body.siteId', 'This site is not in the trial.');
   if (body.plotId) {
@@ -370,7 +370,7 @@ export async function createFieldEvent(
     if (plot.site_id !== body.siteId)
       throw fieldError('body.plotId', 'This plot is at another site.');
   }
-  authorizeAtSite(actor, action, loaded, body.siteId);
+  authorize(actor, action, loaded, body.siteId);
   const { created } = await db.transaction().execute((trx) =>
     createOnce(
       trx,
@@ -397,10 +397,10 @@ export async function updateFieldEvent(
   id: string,
   body: z.output<typeof updateFieldEventBody>,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'trial.read');
+  const loaded = await trialForAction(db, slug, actor, 'trial.read');
   await db.transaction().execute(async (trx) => {
     const before = await lockedRecord(trx, 'field_events', loaded.trial.id, id);
-    authorizeAtSite(actor, eventAction(before.kind as string), loaded, before.site_id as string);
+    authorize(actor, eventAction(before.kind as string), loaded, before.site_id as string);
     if (before.deleted_at) throw new AppError('not_found', 'This field event was deleted.');
     const { version, ...fields } = body;
     const input: FieldEventInput = { ...fields, kind: before.kind as FieldEventInput['kind'] };
@@ -435,7 +435,7 @@ async function lockedRecordForLifecycle(
 ) {
   const before = await lockedRecord(trx, table, loaded.trial.id, id);
   const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
-  authorizeAtSite(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+  authorize(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
   return before;
 }
 
@@ -446,7 +446,7 @@ export async function deleteRecord(
   table: repo.RecordTable,
   id: string,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'trial.read');
+  const loaded = await trialForAction(db, slug, actor, 'trial.read');
   await db.transaction().execute(async (trx) => {
     const before = await lockedRecordForLifecycle(trx, loaded, actor, table, id);
     await softDelete(trx, table, before, requireActorOf(actor));
@@ -462,7 +462,7 @@ export async function undoDelete(
   table: repo.RecordTable,
   id: string,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'trial.read');
+  const loaded = await trialForAction(db, slug, actor, 'trial.read');
   await db.transaction().execute(async (trx) => {
     const before = await lockedRecordForLifecycle(trx, loaded, actor, table, id);
     const me = requireActorOf(actor);
@@ -484,7 +484,7 @@ export async function leadRestore(
   table: repo.RecordTable,
   id: string,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'trial.edit');
+  const loaded = await trialForAction(db, slug, actor, 'trial.edit');
   const row = await db.transaction().execute(async (trx) => {
     const before = await lockedRecord(trx, table, loaded.trial.id, id);
     return restore(trx, table, before, requireActorOf(actor));
@@ -501,7 +501,7 @@ export async function setStandCount(
   plotId: string,
   body: z.output<typeof standCountBody>,
 ) {
-  const loaded = await loadForRecords(db, slug, actor, 'records.write');
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
   const plot = await writablePlot(db, loaded, actor, plotId, 'params.plotId');
   if (plot.plants_set !== null && body.plantsSurviving > plot.plants_set)
     throw fieldError(

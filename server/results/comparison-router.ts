@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { z } from 'zod';
 import { analysisBases, traitKey } from '../../common/contracts/analysis';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './comparison-service';

@@ -9,14 +9,13 @@ import {
   saveSheetBody,
 } from '../../common/contracts/results';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import { meansCsv, plotsCsv } from './results-csv';
 import { renderSheetPdf } from './results-pdf';
 import * as service from './results-service';
 import { z } from 'zod';
-import { createStorage } from '../storage/create-storage';
 
 type Deps = Pick<AppDeps, 'db' | 'logger' | 'env' | 'storage'> & {
   mailer: service.ResultsDeps['mailer'];
@@ -87,7 +86,7 @@ const downloadQuery = z.object({
 /** Public reading, downloads and following, under /api/results. Anyone may call these. */
 export function publicResultsRouter(deps: Deps) {
   const r = resultsDeps(deps);
-  const storage = deps.storage ?? createStorage(deps.env);
+  const { storage } = deps;
   const router = Router();
   const cache = (res: import('express').Response) =>
     res.setHeader('Cache-Control', 'public, max-age=300');

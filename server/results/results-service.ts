@@ -13,7 +13,6 @@ import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import { composeMail, type Mailer } from '../mail/mailer';
 import { trialForAction } from '../trials/trials-service';
-import { findTrialBySlug } from '../trials/trials-repository';
 import { variantKey } from '../photos/photos-service';
 import type { ObjectStorage } from '../storage/object-storage';
 import { hashToken, newToken } from './follower-tokens';
@@ -177,8 +176,11 @@ export async function unpublish(deps: ResultsDeps, slug: string, actor: Actor | 
 
 /** The public side: a published trial's versions. Unpublished (or never published) is 404. */
 async function publishedTrial(db: DB, slug: string): Promise<Trial> {
-  const trial = await findTrialBySlug(db, slug);
-  if (!trial || trial.status !== 'published') throw AppError.notFound('The results sheet');
+  // Read as nobody: only a published sheet is open to anyone, and anything else is 404.
+  const { trial } = await trialForAction(db, slug, null, 'results.read').catch((err: unknown) => {
+    if (err instanceof AppError) throw AppError.notFound('The results sheet');
+    throw err;
+  });
   return trial;
 }
 

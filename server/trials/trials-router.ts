@@ -1,14 +1,12 @@
 import { Router } from 'express';
 import { deleteTrialBody, trialSlugParams } from '../../common/contracts/trials';
-import { createStorage } from '../storage/create-storage';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './trials-service';
 
 export function trialsRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage' | 'logger'>) {
-  const { db } = deps;
-  const storage = deps.storage ?? createStorage(deps.env);
+  const { db, storage } = deps;
   const router = Router();
   router.get(
     '/',

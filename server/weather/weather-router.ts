@@ -7,7 +7,7 @@ import {
   weatherListQuery,
 } from '../../common/contracts/weather';
 import { trialSlugParams } from '../../common/contracts/trials';
-import type { AppDeps } from '../app';
+import type { AppDeps } from '../app-deps';
 import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './weather-service';
