@@ -72,7 +72,8 @@ export const entryMeanSchema = z.object({
   cvPercent: nullableNumber,
   min: z.number(),
   max: z.number(),
-  rank: z.number(),
+  /** 1 = best in the trait's direction; null when the trait has no preferred direction. */
+  rank: z.number().nullable(),
   group: z.string(),
   groupLsd: z.string(),
   groupHsd: z.string(),

@@ -81,7 +81,8 @@ const meanLine = z.object({
   /** Least-squares mean and its SE, stored when the layout was unbalanced (rank and letters follow it). */
   adjustedMean: z.number().optional(),
   adjustedSe: z.number().nullable().optional(),
-  rank: z.number(),
+  /** Versions published before ranks followed the direction hold a number here for every trait. */
+  rank: z.number().nullable(),
   group: z.string(),
 });
 

@@ -149,6 +149,7 @@ async function analyseTrait(
       alpha: options.alpha,
       design: trial.design,
       letters: options.letters,
+      direction: trait.direction,
     },
   });
   const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));

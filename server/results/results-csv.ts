@@ -1,18 +1,23 @@
 import { writeCsv } from '../../common/csv';
 import type { ResultSnapshot } from '../../common/contracts/results';
+import { rankMeans } from '../../common/ranking';
 
-/** Entry means per trait, one row each, units in the header. */
+/**
+ * Entry means per trait, one row each, best first; rank 1 = best in the trait's direction and
+ * empty for a trait with no preferred direction.
+ */
 export function meansCsv(s: ResultSnapshot): string {
   const rows = s.traits.flatMap((t) =>
-    t.means.map((m) => ({
+    rankMeans(t.means, t.direction).map((m) => ({
       trait: t.key,
       unit: t.unit,
+      direction: t.direction,
       variety: m.variety,
       n: m.n,
       mean: m.mean,
       se: m.se ?? '',
       group: m.group,
-      rank: m.rank,
+      rank: m.rank ?? '',
       alpha: s.alpha,
       version: s.version,
       license: s.license,
@@ -43,6 +48,7 @@ export function plotsCsv(s: ResultSnapshot, trait?: string): string {
 const MEANS_COLUMNS = [
   'trait',
   'unit',
+  'direction',
   'variety',
   'n',
   'mean',

@@ -2,6 +2,7 @@
 import PDFDocument from 'pdfkit';
 import { licenseLabels, type ResultSnapshot } from '../../common/contracts/results';
 import { designLabels } from '../../common/contracts/trials';
+import { directionWords, rankMeans } from '../../common/ranking';
 
 const fmt = (x: number | null | undefined, digits = 1) =>
   x === null || x === undefined || !Number.isFinite(x)
@@ -69,7 +70,7 @@ export function renderSheetPdf(
   doc.moveDown();
 
   for (const t of s.traits) {
-    doc.font('Helvetica-Bold').fontSize(12).text(`${t.label} (${t.unit})`);
+    doc.font('Helvetica-Bold').fontSize(12).text(`${t.label} (${t.unit}), ${directionWords[t.direction]}`);
     doc
       .font('Helvetica')
       .fontSize(9)
@@ -78,9 +79,9 @@ export function renderSheetPdf(
         `Grand mean ${fmt(t.grandMean)} ${t.unit}; CV ${fmt(t.cvPercent)} %; ${s.letters === 'hsd' ? `Tukey HSD ${fmt(t.hsd.value)}` : `LSD ${fmt(t.lsd.value)}`} (α = ${s.alpha})`,
       );
     doc.fillColor('#1f2a1c').fontSize(10);
-    for (const m of t.means)
+    for (const m of rankMeans(t.means, t.direction))
       doc.text(
-        `${m.rank}. ${m.variety}   ${fmt(m.mean)} ± ${fmt(m.se)}${m.adjustedMean === undefined ? '' : ` (adjusted ${fmt(m.adjustedMean)} ± ${fmt(m.adjustedSe ?? null)})`}   ${m.group}`,
+        `${m.rank === null ? '' : `${m.rank}. `}${m.variety}   ${fmt(m.mean)} ± ${fmt(m.se)}${m.adjustedMean === undefined ? '' : ` (adjusted ${fmt(m.adjustedMean)} ± ${fmt(m.adjustedSe ?? null)})`}   ${m.group}`,
       );
     for (const w of t.warnings)
       doc.fontSize(8).fillColor('#a8631a').text(w).fillColor('#1f2a1c').fontSize(10);

@@ -241,7 +241,7 @@ describe('the results sheet', () => {
     );
     const means = (await as(null).get(`/api/results/${SLUG}/v/2/means.csv`)).text;
     expect(means.split('\n')[0]).toBe(
-      'trait,unit,variety,n,mean,se,group,rank,alpha,version,license',
+      'trait,unit,direction,variety,n,mean,se,group,rank,alpha,version,license',
     );
     expect(means).toContain('CC-BY-4.0');
   });

@@ -19,6 +19,7 @@ import { accurateMean } from './linear-model.js';
 import { adjustedMeans, NotConnectedError, type AdjustedMeans } from './adjusted-means.js';
 import { studentTTwoSided, studentizedRangeUpperTail } from './distributions.js';
 import { separateMeans, type SeparationMethod } from './mean-separation.js';
+import { rankMeans, type TraitDirection } from '../../../common/ranking';
 
 export type { Design } from './anova.js';
 
@@ -80,6 +81,11 @@ export interface AnalyzeOptions {
   limits?: AnalysisLimits;
   /** Work limit for each letter display (see compactLettersWithin). */
   letterWorkLimit?: number;
+  /**
+   * Which way is better, for ranks and order (default "higher", the spreadsheet's reading).
+   * "lower" ranks the smallest mean 1; "none" gives no ranks and orders by mean.
+   */
+  direction?: TraitDirection;
 }
 
 export interface EntrySummary {
@@ -95,8 +101,8 @@ export interface EntrySummary {
   cvPercent: number | null;
   min: number;
   max: number;
-  /** 1 = highest adjusted mean; ties share the best rank. */
-  rank: number;
+  /** 1 = best in the trait's direction (by adjusted mean where there is one); ties share the best rank; null with no direction. */
+  rank: number | null;
   /** Letters from the chosen test (see `letters`). */
   group: string;
   groupLsd: string;
@@ -459,7 +465,7 @@ export function analyzePlotRows(
 
   const indexOf = new Map(entry.levels.map((n, i) => [n, i]));
   const lettersFrom = options.letters ?? 'hsd';
-  const means: EntrySummary[] = sep.ranked.map((r) => {
+  const unranked = sep.ranked.map((r) => {
     const d = descs[indexOf.get(r.entry)!]!;
     const mean = addOffset(centred.offset, d.mean);
     return {
@@ -471,12 +477,19 @@ export function analyzePlotRows(
       cvPercent: d.sd === null || mean === 0 ? null : (100 * d.sd) / Math.abs(mean),
       min: addOffset(centred.offset, d.min),
       max: addOffset(centred.offset, d.max),
-      rank: r.rank,
       group: lettersFrom === 'lsd' ? r.lsdGroup : r.hsdGroup,
       groupLsd: r.lsdGroup,
       groupHsd: r.hsdGroup,
     };
   });
+  // Ranks in the trait's direction, by the adjusted means (equal to the arithmetic ones when
+  // balanced).
+  const adjustedOf = (variety: string) =>
+    addOffset(centred.offset, adjusted.mean[indexOf.get(variety)!]!);
+  const means: EntrySummary[] = rankMeans(
+    unranked.map((row) => ({ row, mean: adjustedOf(row.variety) })),
+    options.direction ?? 'higher',
+  ).map(({ row, rank }) => ({ ...row, rank }));
 
   const grandMean = addOffset(centred.offset, accurateMean(y));
   const result: AnalysisResult = {
@@ -501,14 +514,11 @@ export function analyzePlotRows(
     },
     method: av.method,
     model: 'anova',
-    adjustedMeans: sep.ranked.map((r) => {
-      const i = indexOf.get(r.entry)!;
-      return {
-        variety: r.entry,
-        mean: addOffset(centred.offset, adjusted.mean[i]!),
-        se: adjusted.se[i]!,
-      };
-    }),
+    adjustedMeans: means.map((m) => ({
+      variety: m.variety,
+      mean: adjustedOf(m.variety),
+      se: adjusted.se[indexOf.get(m.variety)!]!,
+    })),
     counts: {
       entries: entry.levels.length,
       sites: design === 'multisite' ? site.levels.length : hasSite ? site.levels.length : 0,

@@ -10,6 +10,7 @@
  */
 import { studentTQuantile, studentizedRangeQuantile } from './distributions.js';
 import { compactLettersWithin, LETTER_WORK_LIMIT } from './letters.js';
+import { rankDescending } from '../../../common/ranking';
 
 export type SeparationMethod = 'lsd' | 'hsd';
 
@@ -69,18 +70,6 @@ export interface SeparationOptions {
   includePairs?: boolean;
   /** Work limit for each letter display (see compactLettersWithin). */
   letterWorkLimit?: number;
-}
-
-/** Competition ranking: tied means share the best rank (1 = highest mean). */
-export function rankDescending(values: readonly number[]): number[] {
-  const order = values.map((_, i) => i).sort((a, b) => values[b]! - values[a]!);
-  const ranks = new Array<number>(values.length);
-  order.forEach((idx, pos) => {
-    const prev = order[pos - 1];
-    ranks[idx] =
-      pos > 0 && prev !== undefined && values[prev] === values[idx] ? ranks[prev]! : pos + 1;
-  });
-  return ranks;
 }
 
 /**

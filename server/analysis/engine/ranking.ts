@@ -2,9 +2,14 @@
  * Ranking entries across traits: a weighted index of standardised entry means and a
  * rank-sum alternative, with each trait's contribution per entry.
  */
-import { rankDescending } from './mean-separation.js';
+import {
+  directionSign,
+  rankByDirection,
+  rankDescending,
+  type TraitDirection,
+} from '../../../common/ranking';
 
-export type TraitDirection = 'higher' | 'lower' | 'none';
+export type { TraitDirection };
 
 export interface TraitEntryMeans {
   trait: string;
@@ -70,9 +75,8 @@ export function rankAcrossTraits(
       values.length > 1
         ? Math.sqrt(values.reduce((s, v) => s + (v - mean) ** 2, 0) / (values.length - 1))
         : 0;
-    const sign = t.direction === 'higher' ? 1 : t.direction === 'lower' ? -1 : 0;
-    // Rank 1 = best: rank the signed values from highest.
-    const ranks = sign === 0 ? null : rankDescending(values.map((v) => sign * v));
+    const sign = directionSign(t.direction);
+    const ranks = rankByDirection(values, t.direction);
     return { t, values, mean, sd, sign, ranks };
   });
 
@@ -84,7 +88,7 @@ export function rankAcrossTraits(
         mean: values[i]!,
         z,
         contribution: sign === 0 || weightSum === 0 ? 0 : (t.weight * sign * z) / weightSum,
-        rank: ranks ? ranks[i]! : null,
+        rank: ranks[i]!,
       };
     });
     return {

@@ -130,8 +130,8 @@ describe('adjusted means against R emmeans', () => {
     expect(arith.A).toBeCloseTo(6.066666666666666, 12);
     const adj = Object.fromEntries(res.adjustedMeans.map((m) => [m.variety, m.mean]));
     expect(adj.B).toBeGreaterThan(adj.A!);
-    expect(res.means.find((m) => m.variety === 'B')!.rank).toBeLessThan(
-      res.means.find((m) => m.variety === 'A')!.rank,
+    expect(res.means.find((m) => m.variety === 'B')!.rank!).toBeLessThan(
+      res.means.find((m) => m.variety === 'A')!.rank!,
     );
     expect(res.warnings.some((w) => w.includes('adjusted (least-squares) means'))).toBe(true);
     // The missing-plot row is named.

@@ -197,7 +197,7 @@ export function MeansTable({
         <tbody>
           {result.means.map((m) => (
             <tr key={m.variety} className="border-t border-leaf-50">
-              <td className={`${td} text-right`}>{m.rank}</td>
+              <td className={`${td} text-right`}>{m.rank ?? '—'}</td>
               <th scope="row" className="p-2 font-medium">
                 {codes?.[m.variety] ? (
                   <span className="mr-1 font-mono text-xs text-loam-700">{codes[m.variety]}</span>

@@ -1,3 +1,4 @@
+import { directionWords } from '@common/ranking';
 import {
   type AnalysisBasis,
   analysisBases,
@@ -169,7 +170,7 @@ export function Component() {
           <h2 id={`${id}-result`} className="text-2xl font-semibold text-leaf-900">
             {result.traitLabel}{' '}
             <span className="text-base font-normal text-loam-700">
-              {basisLabels[result.basis]}, {unit.label}
+              {basisLabels[result.basis]}, {unit.label}, {directionWords[result.direction]}
             </span>
           </h2>
           <p className="text-sm text-loam-700">Plot value: {result.valueNote}.</p>

@@ -10,12 +10,7 @@ import {
 } from '@/lib/display-units';
 import { useUnitSystem } from '@/lib/session';
 import { ScrollRegion } from '@/components/ui/scroll-region';
-
-const directionText = {
-  higher: 'higher is better',
-  lower: 'lower is better',
-  none: 'no preference',
-} as const;
+import { directionWords, rankMeans } from '@common/ranking';
 
 function photoUrl(s: ResultSnapshot, photoId: string, variant: 'thumb' | 'display') {
   return `/api/results/${s.trial.slug}/v/${s.version}/photos/${photoId}/${variant}`;
@@ -123,7 +118,7 @@ export function SheetView({
             {t.label}
           </h2>
           <p className="text-sm text-loam-700">
-            {directionText[t.direction]} · grand mean {formatInUnit(t.grandMean, du(t))} · CV{' '}
+            {directionWords[t.direction]} · grand mean {formatInUnit(t.grandMean, du(t))} · CV{' '}
             {t.cvPercent === null ? '—' : `${t.cvPercent.toFixed(1)} %`} ·{' '}
             {sheet.letters === 'hsd'
               ? `HSD ${formatInUnit(t.hsd.value, du(t))}`
@@ -135,13 +130,16 @@ export function SheetView({
           >
             <table className="w-full min-w-[20rem] text-left text-sm">
               <caption className="sr-only">
-                {t.label}: entry means with standard errors, letter groups and ranks
+                {t.label}: entry means with standard errors and letter groups
+                {t.direction === 'none' ? '' : `, ranked best first (${directionWords[t.direction]})`}
               </caption>
               <thead className="bg-leaf-50">
                 <tr>
-                  <th scope="col" className="p-2">
-                    Rank
-                  </th>
+                  {t.direction === 'none' ? null : (
+                    <th scope="col" className="p-2">
+                      Rank
+                    </th>
+                  )}
                   <th scope="col" className="p-2">
                     Variety
                   </th>
@@ -157,9 +155,9 @@ export function SheetView({
                 </tr>
               </thead>
               <tbody>
-                {t.means.map((m) => (
+                {rankMeans(t.means, t.direction).map((m) => (
                   <tr key={m.variety} className="border-t border-leaf-50">
-                    <td className="p-2">{m.rank}</td>
+                    {m.rank === null ? null : <td className="p-2">{m.rank}</td>}
                     <th scope="row" className="p-2 font-medium">
                       {m.variety}
                     </th>

@@ -28,6 +28,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
+import { directionSign, directionWords, type TraitDirection } from '@common/ranking';
 import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparison';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
@@ -48,6 +49,20 @@ type Row = {
   cells: Record<string, TrialAnalysis['means'][number] | undefined>;
 };
 const column = createColumnHelper<Row>();
+
+/** Trait columns sort best first on the first press; a trait with no direction, highest first. */
+function sortText(direction: TraitDirection, sorted: false | 'asc' | 'desc') {
+  if (!sorted) return '';
+  if (direction === 'none') return sorted === 'desc' ? ' ▼' : ' ▲';
+  return sorted === 'desc' ? ' (best first)' : ' (worst first)';
+}
+
+/** aria-sort describes the shown means, which run opposite to "best" when lower is better. */
+function ariaSort(direction: TraitDirection | undefined, sorted: false | 'asc' | 'desc') {
+  if (!sorted) return 'none' as const;
+  const flip = direction === 'lower';
+  return (sorted === 'desc') !== flip ? ('descending' as const) : ('ascending' as const);
+}
 
 export function Component() {
   const { slug = '' } = useParams();
@@ -86,12 +101,17 @@ export function Component() {
         cell: (c) => <span className="font-medium">{c.getValue()}</span>,
       }),
       ...visible.map((k) => {
-        const label = trial.data?.traits.find((t) => t.key === k)?.label ?? k;
+        const trait = trial.data?.traits.find((t) => t.key === k);
+        const label = trait?.label ?? k;
+        const direction = trait?.direction ?? 'none';
         const analysis = byKey.get(k);
         const du = displayUnit(analysis?.unit ?? '', units, analysis?.grandMean ?? 0);
-        return column.accessor((r) => r.cells[k]?.mean ?? null, {
+        // Sorted by how good the mean is, so "descending" always puts the best entry first.
+        const goodness = directionSign(direction) || 1;
+        return column.accessor((r) => (r.cells[k] ? goodness * r.cells[k].mean : null), {
           id: k,
           header: label,
+          sortDescFirst: true,
           sortUndefined: 'last',
           cell: (c) => {
             const m = c.row.original.cells[k];
@@ -99,8 +119,10 @@ export function Component() {
             return (
               <span className="tabular-nums">
                 {formatInUnit(m.mean, du)} ± {formatNumber(m.se === null ? null : m.se * du.factor)}{' '}
-                <span className="font-mono text-leaf-700">{m.group}</span>{' '}
-                <span className="text-xs text-loam-700">#{m.rank}</span>
+                <span className="font-mono text-leaf-700">{m.group}</span>
+                {m.rank === null ? null : (
+                  <span className="text-xs text-loam-700"> #{m.rank}</span>
+                )}
               </span>
             );
           },
@@ -119,6 +141,7 @@ export function Component() {
     getSortedRowModel: getSortedRowModel(),
   });
 
+  const directionOf = (key: string) => trial.data?.traits.find((t) => t.key === key)?.direction;
   if (trial.isPending) return <Spinner label="Loading the trial…" />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
   const loading = analyses.some((a) => a.isPending);
@@ -185,7 +208,8 @@ export function Component() {
         <table className="w-full min-w-[28rem] text-left text-sm">
           <caption className="p-2 text-left text-xs text-loam-700">
             Mean ± SE, letter group (same letter: not significantly different, Tukey's HSD at α =
-            0.05) and rank. Select a header to sort.
+            0.05) and rank (#1 = best in the trait's direction; traits with no preferred direction
+            are not ranked). Select a header to sort, best first.
           </caption>
           <thead className="bg-leaf-50">
             {table.getHeaderGroups().map((hg) => (
@@ -195,13 +219,7 @@ export function Component() {
                     key={h.id}
                     scope="col"
                     className="p-2"
-                    aria-sort={
-                      h.column.getIsSorted() === 'asc'
-                        ? 'ascending'
-                        : h.column.getIsSorted() === 'desc'
-                          ? 'descending'
-                          : 'none'
-                    }
+                    aria-sort={ariaSort(directionOf(h.column.id), h.column.getIsSorted())}
                   >
                     <button
                       type="button"
@@ -209,11 +227,12 @@ export function Component() {
                       onClick={h.column.getToggleSortingHandler()}
                     >
                       {flexRender(h.column.columnDef.header, h.getContext())}
-                      {h.column.getIsSorted() === 'asc'
-                        ? ' ▲'
-                        : h.column.getIsSorted() === 'desc'
-                          ? ' ▼'
-                          : ''}
+                      {directionOf(h.column.id) ? (
+                        <span className="block text-xs font-normal text-loam-700">
+                          {directionWords[directionOf(h.column.id)!]}
+                        </span>
+                      ) : null}
+                      {sortText(directionOf(h.column.id) ?? 'none', h.column.getIsSorted())}
                     </button>
                   </th>
                 ))}
