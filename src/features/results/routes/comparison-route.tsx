@@ -15,9 +15,6 @@ import {
   CartesianGrid,
   ComposedChart,
   ErrorBar,
-  Legend,
-  Line,
-  LineChart,
   ResponsiveContainer,
   Scatter,
   Tooltip,
@@ -31,17 +28,8 @@ import { useTrial } from '@/lib/trial';
 import { directionSign, directionWords, type TraitDirection } from '@common/ranking';
 import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparison';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { EntrySiteChart, HarvestCurveChart } from '../components/comparison-charts';
 
-const palette = [
-  '#2f5d3a',
-  '#d98e2b',
-  '#6b4f36',
-  '#4a8a57',
-  '#a8631a',
-  '#8fbf98',
-  '#1b3822',
-  '#c7ad92',
-];
 
 type Row = {
   variety: string;
@@ -165,7 +153,6 @@ export function Component() {
     units,
     entrySite.data?.cells[0]?.mean ?? 0,
   );
-  const sites = [...new Set(entrySite.data?.cells.map((c) => c.site) ?? [])];
 
   return (
     <div>
@@ -310,28 +297,7 @@ export function Component() {
           <ErrorPanel error={curve.error} />
         ) : (
           <figure className="mt-2 h-80 rounded-lg bg-white p-2 shadow-sm">
-            <ResponsiveContainer width="100%" height="100%">
-              <LineChart margin={{ left: 8, right: 8 }}>
-                <CartesianGrid strokeDasharray="3 3" />
-                <XAxis dataKey="date" type="category" allowDuplicatedCategory={false} />
-                <YAxis label={{ value: massUnit.label, angle: -90, position: 'insideLeft' }} />
-                <Tooltip />
-                <Legend />
-                {curve.data.entries.map((e, i) => (
-                  <Line
-                    key={e.entry}
-                    data={e.points.map((p) => ({
-                      date: p.date,
-                      value: p.cumulativeMassG * massUnit.factor,
-                    }))}
-                    dataKey="value"
-                    name={e.entry}
-                    stroke={palette[i % palette.length]}
-                    dot={false}
-                  />
-                ))}
-              </LineChart>
-            </ResponsiveContainer>
+            <HarvestCurveChart curve={curve.data} unit={massUnit} />
             <figcaption className="sr-only">
               Mean marketable mass harvested per plot up to each date, one line per entry.
             </figcaption>
@@ -350,38 +316,7 @@ export function Component() {
             <ErrorPanel error={entrySite.error} />
           ) : (
             <figure className="mt-2 h-80 rounded-lg bg-white p-2 shadow-sm">
-              <ResponsiveContainer width="100%" height="100%">
-                <LineChart margin={{ left: 8, right: 8 }}>
-                  <CartesianGrid strokeDasharray="3 3" />
-                  <XAxis dataKey="site" type="category" allowDuplicatedCategory={false} />
-                  <YAxis
-                    label={{
-                      value: siteUnit.label,
-                      angle: -90,
-                      position: 'insideLeft',
-                    }}
-                  />
-                  <Tooltip />
-                  <Legend />
-                  {[...new Set(entrySite.data.cells.map((c) => c.entry))].map((entry, i) => (
-                    <Line
-                      key={entry}
-                      data={sites.map((site) => {
-                        const cell = entrySite.data.cells.find(
-                          (c) => c.entry === entry && c.site === site,
-                        );
-                        return {
-                          site,
-                          value: cell ? cell.mean * siteUnit.factor : null,
-                        };
-                      })}
-                      dataKey="value"
-                      name={entry}
-                      stroke={palette[i % palette.length]}
-                    />
-                  ))}
-                </LineChart>
-              </ResponsiveContainer>
+              <EntrySiteChart data={entrySite.data} unit={siteUnit} />
               <figcaption className="sr-only">
                 Entry means at each site; crossing lines show entries that rank differently by site.
               </figcaption>
