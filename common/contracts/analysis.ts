@@ -150,6 +150,8 @@ export const trialAnalysisSchema = analysisResultSchema.extend({
   basis: z.enum(analysisBases),
   /** SI unit of every value, mean, SE, LSD and HSD (SS and MS are in its square). */
   unit: z.string(),
+  /** Decimals (in `unit`) to show or export plot values and means with: common/precision.ts. */
+  decimals: z.object({ plotValue: z.number().int(), mean: z.number().int() }),
   /** How the plot value was built, in words. */
   valueNote: z.string(),
   plotValues: z.array(plotValueSchema),

@@ -3,6 +3,7 @@
  * A published snapshot is what readers see, print and download; it never changes.
  */
 import { z } from 'zod';
+import { decimalsFor, recordedDecimals } from '../precision';
 import { analysisBases } from './analysis';
 import { entryTypes, traitDirections, trialDesigns } from './trials';
 
@@ -94,6 +95,8 @@ export const snapshotTraitSchema = z.object({
   basis: z.enum(analysisBases),
   direction: z.enum(traitDirections),
   weight: z.number(),
+  /** Decimals to show plot values and means with (versions before it: from the plot values). */
+  decimals: z.object({ plotValue: z.number().int(), mean: z.number().int() }).optional(),
   design: z.enum(trialDesigns),
   n: z.number(),
   grandMean: z.number(),
@@ -234,3 +237,15 @@ export const publishedSheetListSchema = z.object({
   total: z.number().int(),
 });
 export type PublishedSheetList = z.infer<typeof publishedSheetListSchema>;
+
+/** Decimals for a published trait's plot values and means (common/precision.ts). */
+export function sheetTraitDecimals(
+  s: Pick<ResultSnapshot, 'plotValues'>,
+  t: Pick<SnapshotTrait, 'key' | 'decimals'>,
+): { plotValue: number; mean: number } {
+  if (t.decimals) return t.decimals;
+  const plotValue = recordedDecimals(
+    s.plotValues.filter((v) => v.trait === t.key).map((v) => v.value),
+  );
+  return { plotValue, mean: decimalsFor('mean', plotValue) };
+}

@@ -162,6 +162,7 @@ async function analyseTrait(
     direction: trait.direction,
     basis,
     unit: built.unit,
+    decimals: built.decimals,
     valueNote: built.valueNote,
     plotValues: built.values.map(({ plot, value }) => ({
       plotId: plot.id,

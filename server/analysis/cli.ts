@@ -1,6 +1,6 @@
 /**
  * npm run --silent analyze -- FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite]
- *                                      [--letters hsd|lsd]
+ *                                      [--letters hsd|lsd] [--direction higher|lower|none]
  * Prints one JSON object on stdout; on bad input exits 1 with one line on stderr.
  */
 import { readFileSync } from 'node:fs';
@@ -13,7 +13,7 @@ import {
 } from './engine/analyze.js';
 
 const USAGE =
-  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd]';
+  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none]';
 
 function fail(message: string, code = 1): never {
   process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
@@ -32,6 +32,7 @@ function main(): void {
         alpha: { type: 'string' },
         design: { type: 'string' },
         letters: { type: 'string' },
+        direction: { type: 'string' },
       },
     });
   } catch (err) {
@@ -59,6 +60,12 @@ function main(): void {
     if (values.letters !== 'hsd' && values.letters !== 'lsd')
       fail(`option --letters: "${values.letters}" is not hsd or lsd`, 2);
     options.letters = values.letters;
+  }
+  if (values.direction !== undefined) {
+    // Which way is better: rank 1 goes to the best mean (default higher).
+    if (!['higher', 'lower', 'none'].includes(values.direction))
+      fail(`option --direction: "${values.direction}" is not higher, lower or none`, 2);
+    options.direction = values.direction as 'higher' | 'lower' | 'none';
   }
   const file = positionals[0]!;
   let text: string;

@@ -4,6 +4,7 @@
  * plot scores averaged; then normalised per plant, per metre of row or per area. Pure.
  */
 import type { AnalysisBasis, DerivedTraitKey } from '../../common/contracts/analysis';
+import { recordedDecimals, roundTo } from '../../common/precision';
 import { daysBetween } from './engine/dates';
 import {
   plotObservationMeans,
@@ -76,6 +77,14 @@ export interface BuiltPlotValues {
   unit: string;
   valueNote: string;
   warnings: string[];
+  /** Decimals to show and export plot values and means with (common/precision.ts). */
+  decimals: { plotValue: number; mean: number };
+}
+
+/** A sum keeps the recorded decimals; an average or ratio gets one more; means one more again. */
+function decimalsFrom(recorded: number, plotValueIs: 'sum' | 'average') {
+  const plotValue = recorded + (plotValueIs === 'average' ? 1 : 0);
+  return { plotValue, mean: plotValue + 1 };
 }
 
 const SQUARE_METRES_PER_HECTARE = 10_000;
@@ -163,9 +172,11 @@ function fromObservations(
     );
   }
   const unit = baseUnitOf[source.quantityKind] ?? '';
+  const recorded = recordedDecimals(readings.map((r) => r.value));
   return {
     values,
     unit,
+    decimals: decimalsFrom(recorded, multi > 0 ? 'average' : 'sum'),
     valueNote:
       source.quantityKind === 'date'
         ? `days from ${startWord(frame)} to the recorded date, averaged per plot`
@@ -218,6 +229,8 @@ function fromHarvests(
   let unit: string;
   let note: string;
   let pick: (s: PlotHarvestSummary) => number | null;
+  let plotValueIs: 'sum' | 'average' = 'average';
+  let recorded = 0;
 
   if (source.kind === 'derived' && source.key === 'days_to_first_harvest') {
     if (!startOf(frame))
@@ -225,11 +238,13 @@ function fromHarvests(
         'Days to first harvest needs the trial’s sowing or transplant date.',
       );
     unit = 'd';
+    plotValueIs = 'sum';
     note = `days from ${startWord(frame)} to the first harvest of the plot`;
     pick = (s) =>
       frame.transplantDate ? s.daysFromTransplantToFirstHarvest : s.daysFromSowingToFirstHarvest;
   } else if (source.kind === 'derived') {
     unit = 'g';
+    recorded = recordedDecimals(harvests.map((h) => h.mass_g));
     note = 'marketable mass ÷ marketable fruit count over the season';
     pick = (s) => s.meanFruitMassG.marketable;
   } else if (source.quantityKind === 'percent') {
@@ -239,6 +254,8 @@ function fromHarvests(
   } else if (source.quantityKind === 'mass' || source.quantityKind === 'count') {
     const isMass = source.quantityKind === 'mass';
     unit = areaUnit(isMass ? 'g' : 'count', basis);
+    recorded = isMass ? recordedDecimals(harvests.map((h) => h.mass_g)) : 0;
+    if (basis === 'plot') plotValueIs = 'sum';
     note = `season total of marketable ${isMass ? 'mass' : 'fruit count'} per plot${
       basis === 'plot'
         ? ''
@@ -279,7 +296,9 @@ function fromHarvests(
       noSize++;
       return;
     }
-    values.push({ plot: plots[i]!, value: v });
+    // A season total of recorded amounts is exact at the recorded decimals: what is beyond
+    // them is binary float noise from the summing, not data.
+    values.push({ plot: plots[i]!, value: plotValueIs === 'sum' ? roundTo(v, recorded) : v });
   });
   if (noHarvest > 0)
     warnings.push(
@@ -302,5 +321,5 @@ function fromHarvests(
       'query.basis',
     );
   }
-  return { values, unit, valueNote: note, warnings };
+  return { values, unit, valueNote: note, warnings, decimals: decimalsFrom(recorded, plotValueIs) };
 }

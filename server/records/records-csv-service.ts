@@ -1,4 +1,5 @@
 import { parse } from 'csv-parse/sync';
+import { decimalsFor, exportNumber, recordedDecimals } from '../../common/precision';
 import type { ExportDataset, ImportKind, ImportPreview } from '../../common/contracts/records';
 import { storedUnitOf } from '../../common/contracts/records';
 import {
@@ -341,6 +342,19 @@ export async function exportDataset(
     repo.traitsOfTrial(db, trial.id),
   ]);
   const numeric = traits.filter((t) => t.quantity_kind !== 'date');
+  // Sums keep the recorded decimals, plot means one more (common/precision.ts).
+  const massDecimals = recordedDecimals(harvests.map((h) => h.massG));
+  const traitDecimals = new Map(
+    numeric.map((t) => [
+      t.id,
+      decimalsFor(
+        'mean',
+        recordedDecimals(
+          observations.filter((o) => o.traitId === t.id && o.value !== null).map((o) => o.value!),
+        ),
+      ),
+    ]),
+  );
   const columns = [
     'site',
     'plot_number',
@@ -368,7 +382,13 @@ export async function exportDataset(
         .filter((o) => o.plotId === p.plotId && o.traitId === t.id && o.value !== null)
         .map((o) => o.value!);
       return values.length
-        ? [values.reduce((a, v) => a + v, 0) / values.length, values.length]
+        ? [
+            exportNumber(
+              values.reduce((a, v) => a + v, 0) / values.length,
+              traitDecimals.get(t.id) ?? 0,
+            ),
+            values.length,
+          ]
         : ['', 0];
     });
     return [
@@ -382,9 +402,9 @@ export async function exportDataset(
       hs.length,
       sum('marketable', (h) => h.fruitCount),
       sum('cull', (h) => h.fruitCount),
-      massM,
-      massC,
-      massM + massC,
+      exportNumber(massM, massDecimals),
+      exportNumber(massC, massDecimals),
+      exportNumber(massM + massC, massDecimals),
       ...traitCells,
     ];
   });

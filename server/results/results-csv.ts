@@ -1,5 +1,6 @@
 import { writeCsv } from '../../common/csv';
-import type { ResultSnapshot } from '../../common/contracts/results';
+import { sheetTraitDecimals, type ResultSnapshot } from '../../common/contracts/results';
+import { exportNumber } from '../../common/precision';
 import { rankMeans } from '../../common/ranking';
 
 /**
@@ -7,22 +8,23 @@ import { rankMeans } from '../../common/ranking';
  * empty for a trait with no preferred direction.
  */
 export function meansCsv(s: ResultSnapshot): string {
-  const rows = s.traits.flatMap((t) =>
-    rankMeans(t.means, t.direction).map((m) => ({
+  const rows = s.traits.flatMap((t) => {
+    const d = sheetTraitDecimals(s, t).mean;
+    return rankMeans(t.means, t.direction).map((m) => ({
       trait: t.key,
       unit: t.unit,
       direction: t.direction,
       variety: m.variety,
       n: m.n,
-      mean: m.mean,
-      se: m.se ?? '',
+      mean: exportNumber(m.mean, d),
+      se: exportNumber(m.se, d),
       group: m.group,
       rank: m.rank ?? '',
       alpha: s.alpha,
       version: s.version,
       license: s.license,
-    })),
-  );
+    }));
+  });
   return csvOf(MEANS_COLUMNS, rows);
 }
 
@@ -31,6 +33,7 @@ export function meansCsv(s: ResultSnapshot): string {
  * (variety, site, block, plot, value): one file per trait re-imports to the same analysis.
  */
 export function plotsCsv(s: ResultSnapshot, trait?: string): string {
+  const decimals = new Map(s.traits.map((t) => [t.key, sheetTraitDecimals(s, t).plotValue]));
   const rows = s.plotValues
     .filter((v) => !trait || v.trait === trait)
     .map((v) => ({
@@ -40,7 +43,7 @@ export function plotsCsv(s: ResultSnapshot, trait?: string): string {
       site: v.site ?? '',
       block: v.block ?? '',
       plot: v.plot ?? '',
-      value: v.value,
+      value: exportNumber(v.value, decimals.get(v.trait) ?? 0),
     }));
   return csvOf(PLOT_COLUMNS, rows);
 }

@@ -1,13 +1,15 @@
 /** The published sheet as a PDF (A4 or US Letter), generated on the server with pdfkit. */
 import PDFDocument from 'pdfkit';
-import { licenseLabels, type ResultSnapshot } from '../../common/contracts/results';
+import {
+  licenseLabels,
+  sheetTraitDecimals,
+  type ResultSnapshot,
+} from '../../common/contracts/results';
+import { displayNumber } from '../../common/precision';
 import { designLabels } from '../../common/contracts/trials';
 import { directionWords, rankMeans } from '../../common/ranking';
 
-const fmt = (x: number | null | undefined, digits = 1) =>
-  x === null || x === undefined || !Number.isFinite(x)
-    ? '—'
-    : x.toLocaleString('en', { maximumFractionDigits: digits, minimumFractionDigits: digits });
+const fmt = displayNumber;
 
 const beyondWinAnsi: Record<string, string> = {
   α: 'alpha',
@@ -70,18 +72,22 @@ export function renderSheetPdf(
   doc.moveDown();
 
   for (const t of s.traits) {
-    doc.font('Helvetica-Bold').fontSize(12).text(`${t.label} (${t.unit}), ${directionWords[t.direction]}`);
+    const d = sheetTraitDecimals(s, t).mean;
+    doc
+      .font('Helvetica-Bold')
+      .fontSize(12)
+      .text(`${t.label} (${t.unit}), ${directionWords[t.direction]}`);
     doc
       .font('Helvetica')
       .fontSize(9)
       .fillColor('#6b4f36')
       .text(
-        `Grand mean ${fmt(t.grandMean)} ${t.unit}; CV ${fmt(t.cvPercent)} %; ${s.letters === 'hsd' ? `Tukey HSD ${fmt(t.hsd.value)}` : `LSD ${fmt(t.lsd.value)}`} (α = ${s.alpha})`,
+        `Grand mean ${fmt(t.grandMean, d)} ${t.unit}; CV ${fmt(t.cvPercent, 1)} %; ${s.letters === 'hsd' ? `Tukey HSD ${fmt(t.hsd.value, d)}` : `LSD ${fmt(t.lsd.value, d)}`} (α = ${s.alpha})`,
       );
     doc.fillColor('#1f2a1c').fontSize(10);
     for (const m of rankMeans(t.means, t.direction))
       doc.text(
-        `${m.rank === null ? '' : `${m.rank}. `}${m.variety}   ${fmt(m.mean)} ± ${fmt(m.se)}${m.adjustedMean === undefined ? '' : ` (adjusted ${fmt(m.adjustedMean)} ± ${fmt(m.adjustedSe ?? null)})`}   ${m.group}`,
+        `${m.rank === null ? '' : `${m.rank}. `}${m.variety}   ${fmt(m.mean, d)} ± ${fmt(m.se, d)}${m.adjustedMean === undefined ? '' : ` (adjusted ${fmt(m.adjustedMean, d)} ± ${fmt(m.adjustedSe ?? null, d)})`}   ${m.group}`,
       );
     for (const w of t.warnings)
       doc.fontSize(8).fillColor('#a8631a').text(w).fillColor('#1f2a1c').fontSize(10);

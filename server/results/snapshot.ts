@@ -141,6 +141,7 @@ export async function buildSnapshot(
       basis: choice.basis,
       direction: trait.direction,
       weight: choice.weight,
+      decimals: result.decimals,
       design: result.design,
       n: result.n,
       grandMean: result.grandMean,

@@ -4,6 +4,7 @@
  * by it and sums of squares by its square; F and p never change. Factors: common/units.ts.
  */
 import type { UnitSystem } from '@common/contracts/me';
+import { decimalsInUnit, displayNumber } from '@common/precision';
 import { G_PER_OUNCE, G_PER_POUND, M2_PER_ACRE, M2_PER_HECTARE, MM_PER_INCH } from '@common/units';
 
 export interface DisplayUnit {
@@ -57,6 +58,8 @@ export function formatNumber(value: number | null | undefined, significant = 4):
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
   if (value === 0) return '0';
   const abs = Math.abs(value);
+  // Far below the digits shown elsewhere in a table: a zero with float noise, not a value.
+  if (abs < 1e-9) return '0';
   if (abs >= 10 ** significant) return value.toLocaleString('en', { maximumFractionDigits: 0 });
   return value.toLocaleString('en', { maximumSignificantDigits: significant });
 }
@@ -81,8 +84,29 @@ export function formatDegreeDays(dd: number, system: UnitSystem): string {
   return system === 'metric' ? `${Math.round(dd)} °C·d` : `${Math.round((dd * 9) / 5)} °F·d`;
 }
 
-/** A value in a chosen display unit, with its label. */
-export function formatInUnit(value: number | null | undefined, unit: DisplayUnit): string {
+/**
+ * A value in a chosen display unit, with its label. With `decimals` (of the stored value, from
+ * common/precision.ts) the same absolute precision is kept in the shown unit.
+ */
+export function formatInUnit(
+  value: number | null | undefined,
+  unit: DisplayUnit,
+  decimals?: number,
+): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return unit.label ? `${formatNumber(value * unit.factor)} ${unit.label}` : formatNumber(value);
+  const shown =
+    decimals === undefined
+      ? formatNumber(value * unit.factor)
+      : displayNumber(value * unit.factor, decimalsInUnit(decimals, unit.factor));
+  return unit.label ? `${shown} ${unit.label}` : shown;
+}
+
+/** A bare number in a display unit (the unit named once in the column heading). */
+export function formatScaled(
+  value: number | null | undefined,
+  unit: DisplayUnit,
+  decimals: number,
+): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  return displayNumber(value * unit.factor, decimalsInUnit(decimals, unit.factor));
 }

@@ -155,6 +155,8 @@ describe('the API and the analyze command give the same numbers', () => {
         'value',
         '--design',
         'multisite',
+        '--direction',
+        'lower',
       ],
       { encoding: 'utf8', timeout: 60_000 },
     );

@@ -50,7 +50,10 @@ const expected: Record<string, string[]> = {};
 beforeAll(async () => {
   t = await createTestApp();
   await seedDemo(t.db);
-  lead = await mintSessionCookie(t, demoAccounts.find((a) => a.key === 'lead')!);
+  lead = await mintSessionCookie(
+    t,
+    demoAccounts.find((a) => a.key === 'lead')!,
+  );
   const podCount = await t.db
     .selectFrom('traits as tr')
     .innerJoin('trials as t', 't.id', 'tr.trial_id')
@@ -186,5 +189,66 @@ describe('ranks follow the trait’s direction', () => {
       expect(counts).toMatch(/not ranked/);
       expect(counts.split('Means followed')[0]).not.toMatch(/^\s*1\. /m);
     });
+  });
+});
+
+// Float noise: 1700.4 + 242.2 is 1942.6000000000001 in IEEE 754 doubles (any JavaScript
+// engine); the exports show what was recorded (common/precision.ts, common practice, no source).
+describe('no float noise in the exports', () => {
+  let plotNumber: number;
+  let siteName: string;
+  beforeAll(async () => {
+    const plot = await t.db
+      .selectFrom('plots as p')
+      .innerJoin('trials as t', 't.id', 'p.trial_id')
+      .innerJoin('sites as s', 's.id', 'p.site_id')
+      .select(['p.id', 'p.trial_id', 'p.plot_number', 's.name'])
+      .where('t.slug', '=', SLUG)
+      .orderBy('p.plot_number')
+      .executeTakeFirstOrThrow();
+    plotNumber = plot.plot_number;
+    siteName = plot.name;
+    await t.db.deleteFrom('harvests').where('plot_id', '=', plot.id).execute();
+    for (const mass_g of [1700.4, 242.2])
+      await t.db
+        .insertInto('harvests')
+        .values({
+          trial_id: plot.trial_id,
+          plot_id: plot.id,
+          harvested_on: '2026-08-14',
+          fruit_count: 60,
+          mass_g,
+          grade: 'marketable',
+        })
+        .execute();
+    const pub = await send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
+      changeNote: 'One plot re-weighed.',
+    });
+    expect(pub.status).toBe(201);
+  });
+
+  it('plot totals export the season total as recorded: 1942.6', async () => {
+    const csv = (await get(`/api/trials/${SLUG}/records/export/plot-totals`)).text;
+    const [head, ...rows] = csv.trim().split('\n');
+    const cols = head!.split(',');
+    const row = rows
+      .map((r) => r.split(','))
+      .find(
+        (r) =>
+          r[cols.indexOf('site')] === siteName &&
+          r[cols.indexOf('plot_number')] === String(plotNumber),
+      )!;
+    expect(row[cols.indexOf('mass_marketable_g')]).toBe('1942.6');
+    expect(csv).not.toMatch(/\d\.\d*0000000\d/);
+  });
+
+  it('plots.csv and means.csv carry no float noise', async () => {
+    const plots = (
+      await request(t.app).get(`/api/results/${SLUG}/v/2/plots.csv?trait=marketable_yield`)
+    ).text;
+    expect(plots).toContain(',1942.6\n');
+    expect(plots).not.toMatch(/\d\.\d*0000000\d/);
+    const means = (await request(t.app).get(`/api/results/${SLUG}/v/2/means.csv`)).text;
+    expect(means).not.toMatch(/\d\.\d{7,}/);
   });
 });

@@ -47,7 +47,6 @@ describe('cumulative harvest chart', () => {
     expect(table.rows.map((r) => r.e0)).toEqual([0, 100, 100, 250]);
     expect(table.rows.map((r) => r.e1)).toEqual([40, 40, 90, 90]);
   });
-
 });
 
 describe('entries at each site chart', () => {

@@ -3,7 +3,8 @@ import { useEffect, useId, useState } from 'react';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useRanking } from '../api/get-ranking';
-import { formatNumber, formatP } from '@/lib/display-units';
+import { displayNumber } from '@common/precision';
+import { formatP } from '@/lib/display-units';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };
@@ -118,15 +119,15 @@ export function RankingPanel({ trial, alpha }: { trial: TrialWithPermissions; al
                       {e.entry}
                     </th>
                     <td className="p-2 text-right font-semibold tabular-nums">
-                      {e.index.toFixed(2)}
+                      {displayNumber(e.index, 2)}
                     </td>
                     <td className="p-2 text-right tabular-nums">
                       {e.rankSumRank} <span className="text-xs text-loam-700">({e.rankSum})</span>
                     </td>
                     {e.contributions.map((c) => (
                       <td key={c.trait} className="p-2 text-right tabular-nums">
-                        {c.contribution >= 0 ? '+' : ''}
-                        {formatNumber(c.contribution, 2)}
+                        {/* z-scale figures: 2 decimals (common/precision.ts), no "-0.00" */}
+                        {displayNumber(c.contribution, 2).replace(/^(?!-)/, '+')}
                       </td>
                     ))}
                   </tr>

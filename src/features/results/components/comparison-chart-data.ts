@@ -47,4 +47,3 @@ export function entrySiteTable(data: EntrySite, factor: number): ChartTable {
   });
   return { rows, series };
 }
-

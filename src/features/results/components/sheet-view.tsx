@@ -1,11 +1,12 @@
-import { licenseLabels, type ResultSnapshot } from '@common/contracts/results';
+import { licenseLabels, sheetTraitDecimals, type ResultSnapshot } from '@common/contracts/results';
+import { displayNumber } from '@common/precision';
 import { designLabels } from '@common/contracts/trials';
 import { formatDepth } from '@common/units';
 import {
   displayUnit,
   formatDegreeDays,
   formatInUnit,
-  formatNumber,
+  formatScaled,
   formatTemperature,
 } from '@/lib/display-units';
 import { useUnitSystem } from '@/lib/session';
@@ -27,6 +28,7 @@ export function SheetView({
   const units = useUnitSystem();
   // One display unit per trait, chosen by the size of its grand mean.
   const du = (t: ResultSnapshot['traits'][number]) => displayUnit(t.unit, units, t.grandMean);
+  const dm = (t: ResultSnapshot['traits'][number]) => sheetTraitDecimals(sheet, t).mean;
   const photos = sheet.entries.filter((e) => e.photo);
   return (
     <article className="sheet mx-auto max-w-4xl">
@@ -91,12 +93,12 @@ export function SheetView({
                   <th scope="row" className="p-2 font-medium">
                     {r.variety}
                   </th>
-                  <td className="p-2 text-right tabular-nums">{r.index.toFixed(2)}</td>
+                  <td className="p-2 text-right tabular-nums">{displayNumber(r.index, 2)}</td>
                   {sheet.traits.map((t) => {
                     const m = t.means.find((x) => x.variety === r.variety);
                     return (
                       <td key={t.key} className="p-2 text-right tabular-nums">
-                        {m ? `${formatInUnit(m.mean, du(t))} ${m.group}` : '—'}
+                        {m ? `${formatInUnit(m.mean, du(t), dm(t))} ${m.group}` : '—'}
                       </td>
                     );
                   })}
@@ -118,11 +120,11 @@ export function SheetView({
             {t.label}
           </h2>
           <p className="text-sm text-loam-700">
-            {directionWords[t.direction]} · grand mean {formatInUnit(t.grandMean, du(t))} · CV{' '}
-            {t.cvPercent === null ? '—' : `${t.cvPercent.toFixed(1)} %`} ·{' '}
+            {directionWords[t.direction]} · grand mean {formatInUnit(t.grandMean, du(t), dm(t))} ·
+            CV {t.cvPercent === null ? '—' : `${t.cvPercent.toFixed(1)} %`} ·{' '}
             {sheet.letters === 'hsd'
-              ? `HSD ${formatInUnit(t.hsd.value, du(t))}`
-              : `LSD ${formatInUnit(t.lsd.value, du(t))}`}
+              ? `HSD ${formatInUnit(t.hsd.value, du(t), dm(t))}`
+              : `LSD ${formatInUnit(t.lsd.value, du(t), dm(t))}`}
           </p>
           <ScrollRegion
             label={`${t.label}: entry means`}
@@ -131,7 +133,9 @@ export function SheetView({
             <table className="w-full min-w-[20rem] text-left text-sm">
               <caption className="sr-only">
                 {t.label}: entry means with standard errors and letter groups
-                {t.direction === 'none' ? '' : `, ranked best first (${directionWords[t.direction]})`}
+                {t.direction === 'none'
+                  ? ''
+                  : `, ranked best first (${directionWords[t.direction]})`}
               </caption>
               <thead className="bg-leaf-50">
                 <tr>
@@ -162,14 +166,13 @@ export function SheetView({
                       {m.variety}
                     </th>
                     <td className="p-2 text-right tabular-nums">
-                      {formatInUnit(m.mean, du(t))} ±{' '}
-                      {formatNumber(m.se === null ? null : m.se * du(t).factor)}
+                      {formatInUnit(m.mean, du(t), dm(t))} ± {formatScaled(m.se, du(t), dm(t))}
                       {m.adjustedMean === undefined ? null : (
                         <span className="block text-xs text-loam-700">
-                          adjusted {formatInUnit(m.adjustedMean, du(t))}
+                          adjusted {formatInUnit(m.adjustedMean, du(t), dm(t))}
                           {m.adjustedSe == null
                             ? ''
-                            : ` ± ${formatNumber(m.adjustedSe * du(t).factor)}`}
+                            : ` ± ${formatScaled(m.adjustedSe, du(t), dm(t))}`}
                         </span>
                       )}
                     </td>

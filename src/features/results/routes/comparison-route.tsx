@@ -30,7 +30,6 @@ import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparis
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { EntrySiteChart, HarvestCurveChart } from '../components/comparison-charts';
 
-
 type Row = {
   variety: string;
   code: string;
@@ -108,9 +107,7 @@ export function Component() {
               <span className="tabular-nums">
                 {formatInUnit(m.mean, du)} ± {formatNumber(m.se === null ? null : m.se * du.factor)}{' '}
                 <span className="font-mono text-leaf-700">{m.group}</span>
-                {m.rank === null ? null : (
-                  <span className="text-xs text-loam-700"> #{m.rank}</span>
-                )}
+                {m.rank === null ? null : <span className="text-xs text-loam-700"> #{m.rank}</span>}
               </span>
             );
           },
