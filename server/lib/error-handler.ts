@@ -25,8 +25,7 @@ function fromDatabase(err: {
       );
     case '23514':
     case '23502':
-    // NUL or a character the database encoding cannot hold
-    case '22021':
+    case '22021': // NUL, or a character the database encoding cannot hold
     case '22P05':
     case '22P02':
     case '22003':

@@ -23,8 +23,9 @@ function findNul(value: unknown, path: string, depth = 0): string | null {
  */
 export const refuseNul: RequestHandler = (req, _res, next) => {
   const url = req.originalUrl;
-  const place = /%00|\u0000/i.test(url)
-    ? url.split('?')[0]!.match(/%00|\u0000/i)
+  const hasNul = (text: string) => text.includes('\0') || /%00/i.test(text);
+  const place = hasNul(url)
+    ? hasNul(url.split('?')[0]!)
       ? 'path'
       : 'query'
     : findNul(req.body, 'body');
