@@ -127,10 +127,11 @@ describe('fresh numbers after a write', () => {
       await page.getByRole('link', { name: `Hollowmere runner beans ${viewport.width}` }).click();
       await page.getByRole('link', { name: 'Field log', exact: true }).click();
       await page.getByRole('heading', { level: 1, name: 'Field log' }).waitFor();
-      await page.getByRole('button', { name: 'Hollowmere Plot Ground' }).click();
+      // The trial's only site is chosen without a tap.
+      await page.getByText('Site: Hollowmere Plot Ground').waitFor();
       await page.getByRole('heading', { name: /^Plot 101 · Lantern Scarlet/ }).waitFor();
-      await page.getByLabel('Fruit count').fill('11');
-      await page.getByLabel(/^Mass \(g\)$/).fill('1240');
+      await page.getByLabel('Marketable count').fill('11');
+      await page.getByLabel('Marketable mass (g)').fill('1240');
       await page.getByRole('button', { name: 'Save and next plot' }).click();
       await page.getByTestId('outbox-summary').getByText('1 saved').waitFor();
 
