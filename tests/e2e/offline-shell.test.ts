@@ -64,8 +64,8 @@ describe('the field log with no signal', () => {
     await page.getByRole('heading', { level: 1, name: 'Field log' }).waitFor();
     await page.getByRole('button', { name: 'Quarry Lane Allotment' }).click();
     await page.getByRole('heading', { name: /^Plot 101 · / }).waitFor();
-    await page.getByLabel('Fruit count').fill('17');
-    await page.getByLabel(/^Mass \(g\)$/).fill('240');
+    await page.getByLabel('Marketable count').fill('17');
+    await page.getByLabel('Marketable mass (g)').fill('240');
     await page.getByRole('button', { name: 'Save and next plot' }).click();
     await page.getByTestId('outbox-summary').getByText('1 waiting').waitFor();
     await expectNoSeriousA11yViolations(page);
