@@ -15,7 +15,7 @@ import {
   watchErrors,
 } from '../support/browser';
 import { createUser, type TestUser } from '../support/test-app';
-import { insertBlocksTrial, type SmallTrial } from '../support/trial-fixture';
+import { insertBlocksTrial, type SmallTrial, vigorScoreTrait } from '../support/trial-fixture';
 
 let live: LiveApp;
 let browser: Browser;
@@ -32,15 +32,7 @@ beforeAll(async () => {
     siteName: 'Quillby Orchard Plot',
     entryNames: ['Butterlamp', 'Greyling Scallop'],
     blocks: 2,
-    trait: {
-      key: 'vigor',
-      label: 'Vigor',
-      quantity_kind: 'score',
-      basis: 'plot',
-      direction: 'higher',
-      scale_min: 1,
-      scale_max: 5,
-    },
+    trait: vigorScoreTrait,
   });
   await live.db
     .insertInto('trial_members')

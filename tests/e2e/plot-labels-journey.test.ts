@@ -19,7 +19,7 @@ import {
   watchErrors,
 } from '../support/browser';
 import { createUser, type TestUser } from '../support/test-app';
-import { insertBlocksTrial, type SmallTrial } from '../support/trial-fixture';
+import { insertBlocksTrial, type SmallTrial, vigorScoreTrait } from '../support/trial-fixture';
 
 let live: LiveApp;
 let browser: Browser;
@@ -39,15 +39,7 @@ beforeAll(async () => {
     siteName: 'Sallowmere West',
     entryNames: ['Gilded Runner', 'Mossback', 'Pennywhistle'],
     blocks: 2,
-    trait: {
-      key: 'vigor',
-      label: 'Vigor',
-      quantity_kind: 'score',
-      basis: 'plot',
-      direction: 'higher',
-      scale_min: 1,
-      scale_max: 5,
-    },
+    trait: vigorScoreTrait,
   });
   const east = await db
     .insertInto('sites')

@@ -15,6 +15,17 @@ export interface SmallTrial {
   plotIds: Record<number, string>;
 }
 
+/** A plot vigor score on a 1–5 scale, higher is better: the trait most small trials need. */
+export const vigorScoreTrait = {
+  key: 'vigor',
+  label: 'Vigor',
+  quantity_kind: 'score',
+  basis: 'plot',
+  direction: 'higher',
+  scale_min: 1,
+  scale_max: 5,
+} as const satisfies Omit<Insertable<Database['traits']>, 'trial_id'>;
+
 export async function insertBlocksTrial(
   db: DB,
   opts: {

@@ -5,7 +5,7 @@
  */
 import { memberRead, recordWrite, type MatrixRow } from './matrix-types';
 import type { MatrixWorld } from './matrix-world';
-import { insertBlocksTrial } from '../../support/trial-fixture';
+import { insertBlocksTrial, vigorScoreTrait } from '../../support/trial-fixture';
 
 const analysisTrials = new WeakMap<MatrixWorld, Promise<string>>();
 
@@ -20,15 +20,7 @@ function analysisTrial(w: MatrixWorld): Promise<string> {
         siteName: 'Only site',
         entryNames: ['Ash Pod', 'Birch Pod', 'Cedar Pod'],
         blocks: 2,
-        trait: {
-          key: 'vigor',
-          label: 'Vigor',
-          quantity_kind: 'score',
-          basis: 'plot',
-          direction: 'higher',
-          scale_min: 1,
-          scale_max: 5,
-        },
+        trait: vigorScoreTrait,
       });
       const scores = [
         [3, 4],
