@@ -3,7 +3,13 @@ import { type MigrationResultSet, Migrator } from 'kysely';
 import { migrations } from './migrations/index';
 
 export function createMigrator(db: Kysely<any>): Migrator {
-  return new Migrator({ db, provider: { getMigrations: async () => migrations } });
+  // Branches merged in parallel can land a migration that sorts before one a database already
+  // ran; each migration is independent of its neighbours by rule, so run it rather than refuse.
+  return new Migrator({
+    db,
+    provider: { getMigrations: async () => migrations },
+    allowUnorderedMigrations: true,
+  });
 }
 
 function check({ error, results }: MigrationResultSet): void {
