@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import express, { type Router } from 'express';
 import helmet from 'helmet';
+import compression from 'compression';
 import { pinoHttp } from 'pino-http';
 import { toNodeHandler } from 'better-auth/node';
 import { projectRoot } from './env';
@@ -82,6 +83,9 @@ export function createApp(deps: AppDeps) {
       },
     }),
   );
+  // Text answers (the app's JS and CSS, JSON, CSV) go out compressed; a phone in a field pays
+  // for every byte. Images and PDFs are already compressed and are left as they are.
+  app.use(compression());
   // Rate limits key on the caller's address: the socket's, or the one a loopback proxy forwards.
   app.use((req, _res, next) => {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
@@ -108,9 +112,13 @@ export function createApp(deps: AppDeps) {
       express.static(clientDir, {
         index: false,
         maxAge: '1h',
-        // The service worker and manifest must be re-checked on every visit to pick up a release.
         setHeaders: (res, file) => {
-          if (/(?:sw\.js|workbox-[\w-]+\.js|manifest\.webmanifest)$/.test(file))
+          // Built assets carry a hash of their content in the name: a new release has new names,
+          // so a copy can be kept for a year without asking again.
+          if (file.includes(`${path.sep}assets${path.sep}`))
+            res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+          // The service worker and manifest must be re-checked on every visit to pick up a release.
+          else if (/(?:sw\.js|workbox-[\w-]+\.js|manifest\.webmanifest)$/.test(file))
             res.setHeader('Cache-Control', 'no-cache');
         },
       }),
