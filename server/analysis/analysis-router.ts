@@ -10,7 +10,7 @@ import { trialSlugParams } from '../../common/contracts/trials';
 import type { AppDeps } from '../app-deps';
 import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
-import { endpoint, issuesOf } from '../lib/endpoint';
+import { endpoint, parseOr400 } from '../lib/endpoint';
 import { rateLimit } from '../lib/rate-limit';
 import * as service from './analysis-service';
 
@@ -77,19 +77,9 @@ export function analyzeRouter(deps: Pick<AppDeps, 'db' | 'env'>) {
             fields: [{ path: 'body', message: 'The spreadsheet is empty.' }],
           });
       } else if (req.is('application/json')) {
-        const body = analyzeJsonBody.safeParse(req.body ?? {});
-        if (!body.success) {
-          const fields = issuesOf(body.error, 'body');
-          throw new AppError(
-            'validation_failed',
-            `Check ${fields[0]!.path}: ${fields[0]!.message}`,
-            {
-              fields,
-            },
-          );
-        }
-        csv = body.data.csv;
-        raw = body.data;
+        const body = parseOr400(analyzeJsonBody, req.body ?? {}, 'body');
+        csv = body.csv;
+        raw = body;
         part = 'body';
       } else {
         throw new AppError(
@@ -97,14 +87,8 @@ export function analyzeRouter(deps: Pick<AppDeps, 'db' | 'env'>) {
           'Send the spreadsheet as text/csv (or JSON with a "csv" field).',
         );
       }
-      const options = analyzeOptions.safeParse(raw);
-      if (!options.success) {
-        const fields = issuesOf(options.error, part);
-        throw new AppError('validation_failed', `Check ${fields[0]!.path}: ${fields[0]!.message}`, {
-          fields,
-        });
-      }
-      res.json(await service.analyzeSpreadsheet(csv, options.data));
+      const options = parseOr400(analyzeOptions, raw, part);
+      res.json(await service.analyzeSpreadsheet(csv, options));
     },
   );
   return router;

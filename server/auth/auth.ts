@@ -6,6 +6,7 @@ import type pg from 'pg';
 import type { Logger } from 'pino';
 import type { DB } from '../../db/database';
 import type { Env } from '../env';
+import { checkInput, describe } from '../lib/endpoint';
 import { composeMail, type Mailer } from '../mail/mailer';
 import { authRateLimitTable, authSchemaOptions } from './auth-schema';
 import { admitSignIn, clearSignInThrottle, waitInWords } from './sign-in-throttle';
@@ -45,15 +46,15 @@ function checkBody(path: string, body: unknown) {
   const schema = bodyChecks[path];
   if (!schema) return;
   const input = path === '/update-user' ? (body as { name?: unknown } | undefined)?.name : body;
-  const result = schema.safeParse(input ?? {});
-  if (result.success) return;
-  const fields = result.error.issues.map((i) => ({
-    path: path === '/update-user' ? 'name' : i.path.map(String).join('.'),
-    message: i.message,
-  }));
+  const checked = checkInput(schema, input ?? {}, '');
+  if (checked.ok) return;
+  const fields = checked.problems.map((f) =>
+    path === '/update-user' ? { ...f, path: 'name' } : f,
+  );
+  // The library answers its own routes, so the same 400 goes out as its error.
   throw new APIError('BAD_REQUEST', {
     code: 'VALIDATION_FAILED',
-    message: `Check ${fields[0]!.path}: ${fields[0]!.message}`,
+    message: describe(fields),
     fields,
   });
 }

@@ -2,7 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { MulterError } from 'multer';
 import { z } from 'zod';
 import { AppError, type ErrorCode } from './app-error';
-import { issuesOf } from './endpoint';
+import { issuesOf, validationFailed } from './endpoint';
 
 /** PostgreSQL's own refusals, mapped to what the client can act on. */
 function fromDatabase(err: {
@@ -82,10 +82,7 @@ const codeForStatus: Partial<Record<number, ErrorCode>> = {
 
 function toAppError(err: unknown): AppError {
   if (err instanceof AppError) return err;
-  if (err instanceof z.ZodError) {
-    const fields = issuesOf(err, '');
-    return new AppError('validation_failed', fields[0]?.message ?? 'Invalid input.', { fields });
-  }
+  if (err instanceof z.ZodError) return validationFailed(issuesOf(err, ''));
   if (err instanceof MulterError) {
     if (
       err.code === 'LIMIT_FILE_SIZE' ||

@@ -12,7 +12,7 @@ import { trialSlugParams } from '../../common/contracts/trials';
 import type { AppDeps } from '../app-deps';
 import { actorOf, requireActor } from '../auth/actor';
 import { AppError } from '../lib/app-error';
-import { endpoint, issuesOf } from '../lib/endpoint';
+import { endpoint, parseOr400 } from '../lib/endpoint';
 import { trialForAction } from '../trials/trials-service';
 import { defaultPhotoLimits } from './photo-processing';
 import * as service from './photos-service';
@@ -106,20 +106,14 @@ export function photosRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage'>) {
       const loaded = await trialForAction(deps.db, params.slug, actor, 'photos.upload');
       await receive(req, res);
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-      const parsed = uploadPhotoFields.safeParse(req.body ?? {});
-      if (!parsed.success) {
-        const fields = issuesOf(parsed.error, 'body');
-        throw new AppError('validation_failed', `Check ${fields[0]!.path}: ${fields[0]!.message}`, {
-          fields,
-        });
-      }
+      const fields = parseOr400(uploadPhotoFields, req.body ?? {}, 'body');
       const photos = await service.uploadPhotos(
         photoDeps,
         loaded,
         requireActor(res),
         params.slug,
         files,
-        parsed.data,
+        fields,
       );
       res.status(201).json({ photos });
     }),
