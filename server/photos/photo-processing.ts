@@ -140,18 +140,27 @@ export async function processPhoto(
     );
   }
   const captured = captureTimeOf(meta.exif);
-  // rotate() with no angle applies the EXIF orientation; output keeps no metadata by default.
-  const base = () =>
-    sharp(input, { limitInputPixels: limits.maxPixels, failOn: 'error', animated: false }).rotate();
-
   try {
+    // One decode: rotate() with no angle applies the EXIF orientation, and the upright pixels
+    // feed every stored size. Encoding from pixels keeps no metadata.
+    const decoded = await sharp(input, {
+      limitInputPixels: limits.maxPixels,
+      failOn: 'error',
+      animated: false,
+    })
+      .rotate()
+      .toColourspace('srgb')
+      .raw()
+      .toBuffer({ resolveWithObject: true });
+    const { width, height, channels } = decoded.info;
+    const upright = () => sharp(decoded.data, { raw: { width, height, channels } });
     const [original, display, thumb] = await Promise.all([
-      encodeOriginal(base(), type),
-      base()
+      encodeOriginal(upright(), type),
+      upright()
         .resize(PHOTO_DISPLAY_EDGE, PHOTO_DISPLAY_EDGE, { fit: 'inside', withoutEnlargement: true })
         .webp({ quality: 82 })
         .toBuffer({ resolveWithObject: true }),
-      base()
+      upright()
         .resize(PHOTO_THUMB_EDGE, PHOTO_THUMB_EDGE, { fit: 'inside', withoutEnlargement: true })
         .webp({ quality: 75 })
         .toBuffer({ resolveWithObject: true }),
@@ -181,6 +190,13 @@ export async function processPhoto(
 function variant(out: { data: Buffer; info: OutputInfo }, contentType: string): ProcessedVariant {
   return { buffer: out.data, width: out.info.width, height: out.info.height, contentType };
 }
+
+/**
+ * The full-size JPEG's encoder: the standard (libjpeg-turbo) path at quality 90. The trellis
+ * encoder made files about a quarter smaller at three to four times the time, with fidelity
+ * no better: the tests hold this copy's PSNR against the upload within 0.25 dB of that encoder's.
+ */
+export const FULL_SIZE_JPEG = { quality: 90 } as const;
 
 /**
  * The full-size copy in its own format, upright and without metadata. HEIC becomes JPEG, which
@@ -215,7 +231,7 @@ async function encodeOriginal(
     default:
       return {
         ...variant(
-          await pipeline.jpeg({ quality: 92, mozjpeg: true }).toBuffer({ resolveWithObject: true }),
+          await pipeline.jpeg(FULL_SIZE_JPEG).toBuffer({ resolveWithObject: true }),
           'image/jpeg',
         ),
         ext: 'jpg',
