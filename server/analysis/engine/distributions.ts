@@ -315,6 +315,21 @@ export function studentTQuantile(p: number, df: number): number {
  * 0.1 % (otherwise NaN: the tail is beyond what the cdf resolves).
  */
 export function studentizedRangeQuantile(p: number, k: number, df: number): number {
+  // A trial asks for the same few (level, means, df) again and again, and each costs milliseconds
+  // of numerical integration: remember them.
+  const key = `${p}|${k}|${df}`;
+  let q = rangeQuantiles.get(key);
+  if (q === undefined) {
+    q = computeStudentizedRangeQuantile(p, k, df);
+    if (rangeQuantiles.size >= 512) rangeQuantiles.delete(rangeQuantiles.keys().next().value!);
+    rangeQuantiles.set(key, q);
+  }
+  return q;
+}
+
+const rangeQuantiles = new Map<string, number>();
+
+function computeStudentizedRangeQuantile(p: number, k: number, df: number): number {
   // jstat's studentized range has no values below 2 error df.
   if (!(df >= 2)) return NaN;
   try {
