@@ -22,13 +22,20 @@ export async function createDatabaseIfMissing(serverUrl: string, name: string): 
   }
 }
 
+/** `owner`: see `PgServerOptions.owner` (who stops the server again when they end). */
 export async function ensureDatabase(
   env: Env,
   log: (m: string) => void = console.log,
+  owner?: string,
 ): Promise<{ url: string; startedHere: boolean }> {
   if (env.DATABASE_URL) return { url: env.DATABASE_URL, startedHere: false };
-  const server = await startPg({ dataDir: dataDirOf(env), port: env.ROWTALLY_DB_PORT, log });
-  if (server.started)
+  const server = await startPg({
+    dataDir: dataDirOf(env),
+    port: env.ROWTALLY_DB_PORT,
+    log,
+    owner,
+  });
+  if (server.started && !server.reclaimed)
     log(`PostgreSQL started on 127.0.0.1:${server.port} (data in ${server.dataDir}).`);
   await createDatabaseIfMissing(server.url(), APP_DATABASE);
   return { url: server.url(APP_DATABASE), startedHere: server.started };

@@ -95,14 +95,60 @@ export interface PgServerOptions {
   /** Throwaway clusters (tests) skip fsync; a real season's records never do. */
   throwaway?: boolean;
   log?: (msg: string) => void;
+  /**
+   * Who starts the server and stops it again when they end (`npm start`). A server this owner
+   * started and left running (the process was killed) counts as started here on the next start.
+   * Without an owner (`npm run db:start`) the server is left running on purpose.
+   */
+  owner?: string;
 }
 
 export interface RunningPg {
   url: (database?: string) => string;
   port: number;
   dataDir: string;
-  /** True when this call started the server (false: it was already running). */
+  /**
+   * True when this call started the server, or when `owner` had started this very server
+   * earlier and did not stop it (false: someone else's server, already running).
+   */
   started: boolean;
+  /** Started by `owner` on an earlier run and found still running. */
+  reclaimed?: boolean;
+}
+
+/** Beside the data folder, not in it: PostgreSQL owns the folder and its contents. */
+const ownerFile = (dataDir: string) => `${dataDir}.started-by.json`;
+
+/** The running postmaster's process id, from the first line of its pid file. */
+function postmasterPid(dataDir: string): number | null {
+  const pidFile = path.join(dataDir, 'postmaster.pid');
+  if (!fs.existsSync(pidFile)) return null;
+  const pid = Number(fs.readFileSync(pidFile, 'utf8').split('\n')[0]);
+  return Number.isInteger(pid) && pid > 0 ? pid : null;
+}
+
+function writeOwner(dataDir: string, owner: string | undefined) {
+  const file = ownerFile(dataDir);
+  const pid = postmasterPid(dataDir);
+  if (!owner || pid === null) {
+    fs.rmSync(file, { force: true });
+    return;
+  }
+  fs.writeFileSync(file, JSON.stringify({ owner, postmasterPid: pid }));
+}
+
+/** Did `owner` start the server running in `dataDir` now (same postmaster, not a later one)? */
+function startedBy(dataDir: string, owner: string | undefined): boolean {
+  if (!owner) return false;
+  try {
+    const mark = JSON.parse(fs.readFileSync(ownerFile(dataDir), 'utf8')) as {
+      owner?: unknown;
+      postmasterPid?: unknown;
+    };
+    return mark.owner === owner && mark.postmasterPid === postmasterPid(dataDir);
+  } catch {
+    return false;
+  }
 }
 
 function isRunning(bin: string, dataDir: string): boolean {
@@ -133,12 +179,17 @@ export async function startPg(opts: PgServerOptions): Promise<RunningPg> {
 
   if (isRunning(bin, dataDir)) {
     const port = runningPort(dataDir) ?? opts.port;
-    if (port !== opts.port) {
+    const ours = startedBy(dataDir, opts.owner);
+    if (ours) {
+      log(
+        `PostgreSQL in ${dataDir} is still running from an earlier ${opts.owner} that did not stop it; reusing it and stopping it on exit.`,
+      );
+    } else if (port !== opts.port) {
       log(
         `PostgreSQL in ${dataDir} is already running on port ${port} (asked for ${opts.port}); reusing it.`,
       );
     }
-    return { url: url(port), port, dataDir, started: false };
+    return { url: url(port), port, dataDir, started: ours, reclaimed: ours };
   }
 
   const parent = path.dirname(dataDir);
@@ -195,6 +246,7 @@ export async function startPg(opts: PgServerOptions): Promise<RunningPg> {
       : '';
     throw new PgServerError(`PostgreSQL did not start: ${started.stderr.trim()}\n${tail}`);
   }
+  writeOwner(dataDir, opts.owner);
   return { url: url(opts.port), port: opts.port, dataDir, started: true };
 }
 
@@ -214,6 +266,7 @@ export function stopPg(
     return false;
   }
   asServerUser(path.join(bin, 'pg_ctl'), ['-D', dir, '-m', mode, '-w', 'stop']);
+  fs.rmSync(ownerFile(dir), { force: true });
   log(`PostgreSQL in ${dir} stopped.`);
   return true;
 }

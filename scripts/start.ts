@@ -2,7 +2,7 @@
  * npm start: our own database (installed and started when needed), migrations, the demo season
  * when the database is empty, a local mail capture server, the client build, then the server.
  */
-import { spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import type { Server } from 'node:http';
 import { createDb, createPool } from '../db/database';
 import { dataDirOf, ensureDatabase } from '../db/ensure-database';
@@ -17,37 +17,121 @@ import { createRuntime } from '../server/runtime';
 import { createStorage } from '../server/storage/create-storage';
 import { ensureSystemPackages } from './system-packages';
 
-async function main() {
-  const env = parseEnv();
-  if (!env.DATABASE_URL) ensureSystemPackages(['postgresql']);
-  const { url: databaseUrl, startedHere } = await ensureDatabase(env);
-  {
-    const pool = createPool(databaseUrl, 2);
-    const db = createDb(pool);
-    const applied = await migrateToLatest(db);
-    if (applied.length) console.log(`Migrations applied: ${applied.length}`);
-    if (await seedDemoIfEmpty(db, createStorage(env)))
-      console.log('Loaded the demo season (Larkhaven Seed Library).');
-    await db.destroy();
-  }
+/** Marks the PostgreSQL server this command starts, so a later `npm start` knows it as its own. */
+const OWNER = 'npm start';
+/** How long the app may take to close before the database is stopped regardless. */
+const CLOSE_GRACE_MS = 10_000;
 
-  let mailbox: CaptureServer | undefined;
-  if (env.NODE_ENV !== 'production' && env.SMTP_HOST === '127.0.0.1' && !env.SMTP_USER) {
-    mailbox = await startCaptureServer(env.SMTP_PORT);
-  }
+/** What is running so far; whatever is set is closed on the way out, the database last. */
+const running: {
+  dataDir?: string;
+  build?: ReturnType<typeof spawn>;
+  server?: Server;
+  mailbox?: CaptureServer;
+  closeRuntime?: () => Promise<void>;
+} = {};
+let stopping = false;
 
-  if (!process.argv.includes('--no-build')) {
-    console.log('Building the client…');
-    const build = spawnSync(
+/**
+ * Stops what this command started, on Ctrl+C (SIGINT), SIGTERM or a failed start: the build,
+ * the web server, the mail capture, the app's connections, then our own PostgreSQL. A second
+ * signal skips the waiting but still stops the database.
+ */
+async function shutdown(code: number) {
+  if (stopping) {
+    stopDatabase();
+    process.exit(code);
+  }
+  stopping = true;
+  running.build?.kill('SIGTERM');
+  const closing = (async () => {
+    if (running.server) {
+      const server = running.server;
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeAllConnections();
+      });
+    }
+    await running.mailbox?.close();
+    await running.closeRuntime?.();
+  })().catch((err: unknown) => console.error(err instanceof Error ? err.message : err));
+  await Promise.race([closing, new Promise((resolve) => setTimeout(resolve, CLOSE_GRACE_MS))]);
+  stopDatabase();
+  process.exit(code);
+}
+
+function stopDatabase() {
+  const dataDir = running.dataDir;
+  running.dataDir = undefined;
+  if (dataDir) stopPg(dataDir);
+}
+
+/** `vite build` with a line every few seconds, so a slow machine does not look stuck. */
+function buildClient(): Promise<void> {
+  console.log('Building the client…');
+  const began = Date.now();
+  const seconds = () => Math.round((Date.now() - began) / 1000);
+  return new Promise((resolve, reject) => {
+    const build = spawn(
       process.execPath,
       ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'],
       { stdio: 'inherit' },
     );
-    if (build.status !== 0) throw new Error('The client build failed.');
+    running.build = build;
+    const ticker = setInterval(
+      () => console.log(`  still building the client… ${seconds()} s`),
+      5000,
+    );
+    build.once('exit', (status, signal) => {
+      clearInterval(ticker);
+      running.build = undefined;
+      if (status === 0) {
+        console.log(`Client built in ${seconds()} s.`);
+        resolve();
+      } else reject(new Error(`The client build failed (${signal ?? `exit ${status}`}).`));
+    });
+    build.once('error', (err) => {
+      clearInterval(ticker);
+      reject(err);
+    });
+  });
+}
+
+async function main() {
+  // Before anything is started, so an interruption at any step stops what was started.
+  process.on('SIGINT', () => void shutdown(130));
+  process.on('SIGTERM', () => void shutdown(143));
+
+  const env = parseEnv();
+  if (!env.DATABASE_URL) ensureSystemPackages(['postgresql']);
+  const { url: databaseUrl, startedHere } = await ensureDatabase(env, console.log, OWNER);
+  if (startedHere) running.dataDir = dataDirOf(env);
+  if (stopping) return;
+  {
+    const pool = createPool(databaseUrl, 2);
+    const db = createDb(pool);
+    try {
+      const applied = await migrateToLatest(db);
+      if (applied.length) console.log(`Migrations applied: ${applied.length}`);
+      if (await seedDemoIfEmpty(db, createStorage(env)))
+        console.log('Loaded the demo season (Larkhaven Seed Library).');
+    } finally {
+      await db.destroy();
+    }
   }
+  if (stopping) return;
+
+  if (env.NODE_ENV !== 'production' && env.SMTP_HOST === '127.0.0.1' && !env.SMTP_USER) {
+    running.mailbox = await startCaptureServer(env.SMTP_PORT);
+  }
+  const mailbox = running.mailbox;
+
+  if (!process.argv.includes('--no-build')) await buildClient();
+  if (stopping) return;
 
   const runtime = createRuntime({ env, databaseUrl, mailbox });
-  const server: Server = await new Promise((resolve, reject) => {
+  running.closeRuntime = runtime.close;
+  running.server = await new Promise<Server>((resolve, reject) => {
     const s = runtime.app.listen(env.PORT, env.HOST, () => resolve(s));
     s.once('error', (err: NodeJS.ErrnoException) =>
       reject(
@@ -65,19 +149,10 @@ async function main() {
   for (const a of demoAccounts)
     console.log(`  ${a.key.padEnd(12)} ${a.email.padEnd(36)} ${a.password}`);
   console.log('\nPress Ctrl+C to stop.');
-
-  const stop = async () => {
-    server.close();
-    await mailbox?.close();
-    await runtime.close();
-    if (startedHere) stopPg(dataDirOf(env), () => {});
-    process.exit(0);
-  };
-  process.once('SIGINT', stop);
-  process.once('SIGTERM', stop);
 }
 
 main().catch((err: unknown) => {
+  if (stopping) return;
   console.error(err instanceof Error ? err.message : err);
-  process.exit(1);
+  void shutdown(1);
 });

@@ -77,6 +77,8 @@ export function createApp(deps: AppDeps) {
     pinoHttp({
       logger: deps.logger,
       autoLogging: { ignore: (req) => req.url === '/api/health' },
+      // A line per request only at debug level; a failure (5xx) is always logged.
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'debug'),
       serializers: {
         req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
         res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
