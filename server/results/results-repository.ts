@@ -61,6 +61,16 @@ export function insertVersion(
     .executeTakeFirstOrThrow();
 }
 
+/** The number and publication time of one version, or of the latest when none is named. */
+export function versionStamp(db: DB, trialId: string, version?: number) {
+  let q = db
+    .selectFrom('result_versions')
+    .select(['version', 'published_at'])
+    .where('trial_id', '=', trialId);
+  if (version !== undefined) q = q.where('version', '=', version);
+  return q.orderBy('version', 'desc').limit(1).executeTakeFirst();
+}
+
 export function findVersion(db: DB, trialId: string, version: number) {
   return db
     .selectFrom('result_versions')

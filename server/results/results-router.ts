@@ -1,4 +1,4 @@
-import { Router } from 'express';
+import { type Request, type Response, Router } from 'express';
 import {
   followBody,
   followerTokenQuery,
@@ -83,6 +83,21 @@ const downloadQuery = z.object({
   trait: z.string().optional(),
 });
 
+/**
+ * A published version's JSON as stored, with its strong ETag: a reader who has it gets 304 and
+ * no body (RFC 9110 §13.1.2, If-None-Match).
+ */
+function sendFrozen(req: Request, res: Response, frozen: service.FrozenVersion) {
+  res.setHeader('Cache-Control', 'public, max-age=300');
+  res.setHeader('ETag', frozen.etag);
+  const asked = req.headers['if-none-match'];
+  if (asked && asked.split(',').some((t) => t.trim() === frozen.etag)) {
+    res.status(304).end();
+    return;
+  }
+  res.type('application/json').send(frozen.json);
+}
+
 /** Public reading, downloads and following, under /api/results. Anyone may call these. */
 export function publicResultsRouter(deps: Deps) {
   const r = resultsDeps(deps);
@@ -112,9 +127,8 @@ export function publicResultsRouter(deps: Deps) {
   );
   router.get(
     '/:slug',
-    endpoint({ params: resultSlugParams }, async ({ params }, _req, res) => {
-      cache(res);
-      res.json(await service.publicVersion(deps.db, params.slug));
+    endpoint({ params: resultSlugParams }, async ({ params }, req, res) => {
+      sendFrozen(req, res, await service.frozenVersion(deps.db, params.slug));
     }),
   );
   router.get(
@@ -135,9 +149,8 @@ export function publicResultsRouter(deps: Deps) {
   );
   router.get(
     '/:slug/v/:version',
-    endpoint({ params: resultVersionParams }, async ({ params }, _req, res) => {
-      cache(res);
-      res.json(await service.publicVersion(deps.db, params.slug, params.version));
+    endpoint({ params: resultVersionParams }, async ({ params }, req, res) => {
+      sendFrozen(req, res, await service.frozenVersion(deps.db, params.slug, params.version));
     }),
   );
   router.get(

@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import sharp from 'sharp';
 import type { Actor } from '../../common/policy';
 import {
@@ -184,19 +185,53 @@ async function publishedTrial(db: DB, slug: string): Promise<Trial> {
   return trial;
 }
 
+/** A published version as it is sent: the checked snapshot, its JSON text and a strong ETag. */
+export interface FrozenVersion {
+  snapshot: ResultSnapshot;
+  json: string;
+  etag: string;
+}
+
+/**
+ * Published versions never change once written, so each is checked and serialised once per
+ * process and kept (the most recent few hundred). The key holds the version's row identity and
+ * publication time, so a republished or deleted trial can never be answered from it; whether
+ * the trial is still published is asked of the database on every request.
+ */
+const frozenVersions = new Map<string, FrozenVersion>();
+const FROZEN_VERSIONS_KEPT = 200;
+
+export async function frozenVersion(
+  db: DB,
+  slug: string,
+  version?: number,
+): Promise<FrozenVersion> {
+  const trial = await publishedTrial(db, slug);
+  const meta = await repo.versionStamp(db, trial.id, version);
+  if (!meta) throw AppError.notFound(`Version ${version ?? 1} of the results sheet`);
+  const key = `${trial.id}:${meta.version}:${meta.published_at.getTime()}`;
+  const kept = frozenVersions.get(key);
+  if (kept) return kept;
+  const row = await repo.findVersion(db, trial.id, meta.version);
+  if (!row) throw AppError.notFound(`Version ${meta.version} of the results sheet`);
+  const parsed = resultSnapshotSchema.safeParse(row.snapshot);
+  if (!parsed.success)
+    throw new AppError('internal', 'This version of the results sheet could not be read.');
+  const json = JSON.stringify(parsed.data);
+  const etag = `"${crypto.createHash('sha256').update(key).update(json).digest('base64url').slice(0, 27)}"`;
+  const frozen = { snapshot: parsed.data, json, etag };
+  if (frozenVersions.size >= FROZEN_VERSIONS_KEPT)
+    frozenVersions.delete(frozenVersions.keys().next().value!);
+  frozenVersions.set(key, frozen);
+  return frozen;
+}
+
 export async function publicVersion(
   db: DB,
   slug: string,
   version?: number,
 ): Promise<ResultSnapshot> {
-  const trial = await publishedTrial(db, slug);
-  const number = version ?? (await repo.latestVersionNumber(db, trial.id));
-  const row = await repo.findVersion(db, trial.id, number);
-  if (!row) throw AppError.notFound(`Version ${number} of the results sheet`);
-  const parsed = resultSnapshotSchema.safeParse(row.snapshot);
-  if (!parsed.success)
-    throw new AppError('internal', 'This version of the results sheet could not be read.');
-  return parsed.data;
+  return (await frozenVersion(db, slug, version)).snapshot;
 }
 
 export async function publicVersions(db: DB, slug: string) {

@@ -312,6 +312,40 @@ describe('the results sheet', () => {
     expect((await as(null).get(`/api/results/${SLUG}/v/1`)).status).toBe(200);
   });
 
+  it('answers a reader who has the version with 304 by its strong ETag, never after it changed', async () => {
+    // Conditional requests: RFC 9110 §8.8.3 (strong ETag) and §13.1.2 (If-None-Match).
+    const first = await as(null).get(`/api/results/${SLUG}`);
+    expect(first.status).toBe(200);
+    const etag = first.headers.etag as string;
+    expect(etag).toMatch(/^"[^"]+"$/);
+    const again = await as(null).get(`/api/results/${SLUG}`).set('If-None-Match', etag);
+    expect(again.status).toBe(304);
+    expect(again.text).toBe('');
+    // The same version at its own address has the same tag; an older one has another.
+    const same = await as(null).get(`/api/results/${SLUG}/v/${first.body.version}`);
+    expect(same.headers.etag).toBe(etag);
+    expect(same.body).toEqual(first.body);
+    const older = await as(null).get(`/api/results/${SLUG}/v/1`);
+    expect(older.headers.etag).not.toBe(etag);
+
+    await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
+      changeNote: 'One more picking added.',
+    });
+    const next = await as(null).get(`/api/results/${SLUG}`).set('If-None-Match', etag);
+    expect(next.status).toBe(200);
+    expect(next.body.version).toBe(first.body.version + 1);
+    expect(next.headers.etag).not.toBe(etag);
+
+    await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/unpublish`);
+    const hidden = await as(null)
+      .get(`/api/results/${SLUG}`)
+      .set('If-None-Match', next.headers.etag);
+    expect(hidden.status).toBe(404);
+    await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
+      changeNote: 'Back online again.',
+    });
+  });
+
   it('serves the photos a version names to anyone, and no others', async () => {
     const sharp = (await import('sharp')).default;
     const contributor = await mintSessionCookie(t, account('contributor'));
