@@ -339,7 +339,7 @@ describe('the results sheet', () => {
     await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/unpublish`);
     const hidden = await as(null)
       .get(`/api/results/${SLUG}`)
-      .set('If-None-Match', next.headers.etag);
+      .set('If-None-Match', next.headers.etag as string);
     expect(hidden.status).toBe(404);
     await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
       changeNote: 'Back online again.',
