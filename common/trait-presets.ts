@@ -5,14 +5,14 @@
  */
 import type { CautionId } from './cautions';
 
-export type PresetQuantityKind = 'mass' | 'length' | 'count' | 'score' | 'date' | 'percent';
+import type { quantityKinds, traitBases, traitDirections } from './contracts/trials';
 
 export interface TraitPreset {
   key: string;
   label: string;
-  quantityKind: PresetQuantityKind;
-  basis: 'plant' | 'plot' | 'harvest';
-  direction: 'higher' | 'lower' | 'none';
+  quantityKind: (typeof quantityKinds)[number];
+  basis: (typeof traitBases)[number];
+  direction: (typeof traitDirections)[number];
   scaleMin: number | null;
   scaleMax: number | null;
   /** What the grower is asked to record, in a sentence. */

@@ -3,6 +3,30 @@
  * the real migrated schema, so this file cannot drift from db/migrations.
  */
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+// Enumerations come from the one list each in common/contracts (the database's checks match them).
+import type { letterMethods } from '../common/contracts/analysis';
+import type {
+  fertilizerPolicies,
+  irrigationMethods as siteIrrigationMethods,
+} from '../common/contracts/design';
+import type { mailStatuses } from '../common/contracts/invitations';
+import type { unitSystems } from '../common/contracts/me';
+import type { photoSubjects } from '../common/contracts/photos';
+import type {
+  auditActions,
+  auditTables,
+  fieldEventKinds,
+  harvestGrades,
+} from '../common/contracts/records';
+import type {
+  entryTypes,
+  quantityKinds,
+  traitBases,
+  traitDirections,
+  trialDesigns,
+  trialRoles,
+  trialStatuses,
+} from '../common/contracts/trials';
 
 type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
 /** `date` columns travel as 'YYYY-MM-DD' text (see the pg type parser in db/database.ts). */
@@ -23,7 +47,7 @@ export interface UsersTable {
   image: string | null;
   created_at: Timestamp;
   updated_at: Timestamp;
-  unit_system: Generated<'metric' | 'us'>;
+  unit_system: Generated<(typeof unitSystems)[number]>;
   is_admin: Generated<boolean>;
 }
 
@@ -70,8 +94,8 @@ export interface RateLimitsTable {
   last_request: ColumnType<string, number | string, number | string>;
 }
 
-export type TrialDesign = 'crd' | 'rcbd' | 'multisite';
-export type TrialStatus = 'draft' | 'active' | 'closed' | 'published';
+export type TrialDesign = (typeof trialDesigns)[number];
+export type TrialStatus = (typeof trialStatuses)[number];
 
 export interface TrialsTable extends Written {
   id: Generated<string>;
@@ -96,7 +120,7 @@ export interface TrialsTable extends Written {
 }
 
 /** The lead's planned fertilizer use; what was applied is in the field log. */
-export type FertilizerPolicy = 'none_applied' | 'per_entry' | 'as_recorded';
+export type FertilizerPolicy = (typeof fertilizerPolicies)[number];
 
 export interface SitesTable extends Written {
   id: Generated<string>;
@@ -104,7 +128,7 @@ export interface SitesTable extends Written {
   name: string;
   region: Generated<string>;
   soil_texture: string | null;
-  irrigation_method: 'drip' | 'overhead' | 'furrow' | 'hand' | 'none' | null;
+  irrigation_method: (typeof siteIrrigationMethods)[number] | null;
   notes: Generated<string>;
 }
 
@@ -115,7 +139,7 @@ export interface EntriesTable extends Written {
   code: string;
   seed_source: Generated<string>;
   seed_lot: Generated<string>;
-  entry_type: 'heirloom' | 'open_pollinated' | 'hybrid';
+  entry_type: (typeof entryTypes)[number];
   days_to_maturity_claimed: number | null;
   notes: Generated<string>;
   in_row_spacing_mm: number | null;
@@ -139,9 +163,9 @@ export interface PlotsTable extends Written {
   planted_note: Generated<string>;
 }
 
-export type QuantityKind = 'mass' | 'length' | 'count' | 'score' | 'date' | 'percent';
-export type TraitBasis = 'plant' | 'plot' | 'harvest';
-export type TraitDirection = 'higher' | 'lower' | 'none';
+export type QuantityKind = (typeof quantityKinds)[number];
+export type TraitBasis = (typeof traitBases)[number];
+export type TraitDirection = (typeof traitDirections)[number];
 
 export interface TraitsTable extends Written {
   id: Generated<string>;
@@ -168,7 +192,7 @@ export interface HarvestsTable extends Written, Versioned {
   harvested_on: DateText;
   fruit_count: number;
   mass_g: number;
-  grade: 'marketable' | 'cull';
+  grade: (typeof harvestGrades)[number];
   note: Generated<string>;
 }
 
@@ -184,8 +208,7 @@ export interface ObservationsTable extends Written, Versioned {
   note: Generated<string>;
 }
 
-export type FieldEventKind =
-  'irrigation' | 'rainfall' | 'fertilizer' | 'thinning' | 'pruning' | 'transplanting' | 'note';
+export type FieldEventKind = (typeof fieldEventKinds)[number];
 
 export interface FieldEventsTable extends Written, Versioned {
   id: Generated<string>;
@@ -212,8 +235,8 @@ export interface FieldEventsTable extends Written, Versioned {
   wetted_area_m2: number | null;
 }
 
-export type AuditTable = 'harvests' | 'observations' | 'field_events' | 'plots';
-export type AuditAction = 'create' | 'update' | 'delete' | 'restore';
+export type AuditTable = (typeof auditTables)[number];
+export type AuditAction = (typeof auditActions)[number];
 
 export interface AuditLogTable {
   id: Generated<number>;
@@ -234,7 +257,7 @@ export interface PhotosTable extends Written {
   plot_id: string | null;
   taken_on: DateText | null;
   caption: string;
-  subject: 'plant' | 'fruit' | 'leaf' | 'damage' | 'measurement' | null;
+  subject: (typeof photoSubjects)[number] | null;
   storage_key: string;
   width: number | null;
   height: number | null;
@@ -257,7 +280,7 @@ export interface PhotosTable extends Written {
 
 export type PhotoMimeType = 'image/jpeg' | 'image/png' | 'image/webp' | 'image/avif';
 
-export type TrialRole = 'lead' | 'grower' | 'contributor' | 'viewer';
+export type TrialRole = (typeof trialRoles)[number];
 
 export interface TrialMembersTable extends Written {
   trial_id: string;
@@ -287,7 +310,7 @@ export interface InvitationsTable {
   revoked_by: string | null;
   last_sent_at: Timestamp | null;
   send_attempts: Generated<number>;
-  mail_status: Generated<'pending' | 'sent' | 'failed'>;
+  mail_status: Generated<(typeof mailStatuses)[number]>;
   last_send_error: string | null;
   created_at: Generated<Date>;
   updated_at: Generated<Date>;
@@ -308,7 +331,7 @@ export interface ResultsSheetsTable {
   entry_notes: ColumnType<unknown, string | undefined, string>;
   cover_photos: ColumnType<unknown, string | undefined, string>;
   alpha: Generated<number>;
-  letters: Generated<'hsd' | 'lsd'>;
+  letters: Generated<(typeof letterMethods)[number]>;
   license: Generated<string>;
   created_at: Timestamp;
   updated_at: Timestamp;

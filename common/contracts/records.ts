@@ -18,9 +18,13 @@ export const fieldEventKinds = [
 ] as const;
 export type FieldEventKind = (typeof fieldEventKinds)[number];
 export const irrigationMethods = ['drip', 'overhead', 'hand'] as const;
-export const auditTables = ['harvests', 'observations', 'field_events', 'plots'] as const;
+/** The kinds of field record, each its own table. */
+export const recordTables = ['harvests', 'observations', 'field_events'] as const;
+export type RecordTable = (typeof recordTables)[number];
+/** What the audit log follows: every record, and a plot's stand count. */
+export const auditTables = [...recordTables, 'plots'] as const;
 export type AuditTableName = (typeof auditTables)[number];
-export const restorableTables = ['harvests', 'observations', 'field_events'] as const;
+export const restorableTables = recordTables;
 export const auditActions = ['create', 'update', 'delete', 'restore'] as const;
 
 const DAY_MS = 86_400_000;

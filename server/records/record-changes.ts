@@ -8,11 +8,13 @@ import type { DB } from '../../db/database';
 import { latestEntry, snapshotAtVersion, writeAudit } from './record-audit-repository';
 import { AppError } from '../lib/app-error';
 import {
-  insertIfNew,
-  type RawRow,
+  insertRecordIfNew,
+  type NewRecord,
+  type RecordChange,
+  recordById,
+  type RecordRow,
   type RecordTable,
-  rawById,
-  updateRaw,
+  updateRecord,
 } from './records-repository';
 
 const camel = (s: string) => s.replace(/_([a-z0-9])/g, (_m, c: string) => c.toUpperCase());
@@ -34,21 +36,16 @@ export const camelRecord = (row: Record<string, unknown>) =>
     Object.entries(row).map(([k, v]) => [camel(k), v instanceof Date ? v.toISOString() : v]),
   );
 
-export async function createOnce(
+export async function createOnce<T extends RecordTable>(
   trx: DB,
-  table: RecordTable,
+  table: T,
   trialId: string,
-  values: Record<string, unknown> & { id: string },
+  values: NewRecord<T>,
   actor: Actor,
   /** columns that identify what the record is about; a reused id must match them */
-  anchor: string[],
-): Promise<{ row: RawRow; created: boolean }> {
-  const row = await insertIfNew(trx, table, {
-    ...values,
-    trial_id: trialId,
-    created_by: actor.userId,
-    updated_by: actor.userId,
-  });
+  anchor: (keyof NewRecord<T> & keyof RecordRow<T>)[],
+): Promise<{ row: RecordRow<T>; created: boolean }> {
+  const row = await insertRecordIfNew(trx, table, values, { trialId, actorId: actor.userId });
   if (row) {
     await writeAudit(trx, {
       trialId,
@@ -61,7 +58,7 @@ export async function createOnce(
     });
     return { row, created: true };
   }
-  const existing = (await rawById(trx, table, values.id))!;
+  const existing = (await recordById(trx, table, values.id))!;
   if (existing.trial_id !== trialId || anchor.some((k) => !same(existing[k], values[k]))) {
     throw new AppError('conflict', 'This record id is already used by a different record.', {
       fields: [{ path: 'body.id', message: 'Make a new id for a new record.' }],
@@ -71,8 +68,13 @@ export async function createOnce(
   return { row: existing, created: false };
 }
 
-export async function lockedRecord(trx: DB, table: RecordTable, trialId: string, id: string) {
-  const row = await rawById(trx, table, id, true);
+export async function lockedRecord<T extends RecordTable>(
+  trx: DB,
+  table: T,
+  trialId: string,
+  id: string,
+) {
+  const row = await recordById(trx, table, id, true);
   if (!row || row.trial_id !== trialId) throw AppError.notFound('The record');
   return row;
 }
@@ -80,7 +82,7 @@ export async function lockedRecord(trx: DB, table: RecordTable, trialId: string,
 /** 409 with the stored record and what changed since the version the caller read. */
 export async function staleVersion(
   db: DB,
-  current: RawRow,
+  current: RecordRow,
   yourVersion: number,
   proposed: Record<string, unknown>,
 ): Promise<never> {
@@ -95,15 +97,15 @@ export async function staleVersion(
   );
 }
 
-export async function applyUpdate(
+export async function applyUpdate<T extends RecordTable>(
   trx: DB,
-  table: RecordTable,
-  before: RawRow,
-  values: Record<string, unknown>,
+  table: T,
+  before: RecordRow<T>,
+  values: RecordChange<T>,
   actor: Actor,
-): Promise<RawRow> {
+): Promise<RecordRow<T>> {
   if (differingFields(before, { ...before, ...values }).length === 0) return before;
-  const after = await updateRaw(trx, table, before.id, { ...values, updated_by: actor.userId });
+  const after = await updateRecord(trx, table, before.id, values, actor.userId);
   await writeAudit(trx, {
     trialId: before.trial_id,
     table,
@@ -116,17 +118,21 @@ export async function applyUpdate(
   return after;
 }
 
-export async function softDelete(trx: DB, table: RecordTable, before: RawRow, actor: Actor) {
-  if (before.deleted_at) return before;
-  const after = await updateRaw(trx, table, before.id, {
-    deleted_at: new Date(),
-    updated_by: actor.userId,
-  });
+/** Soft delete (`deletedAt` set) or restore (cleared), with its audit entry. */
+async function setDeleted<T extends RecordTable>(
+  trx: DB,
+  table: T,
+  before: RecordRow<T>,
+  actor: Actor,
+  action: 'delete' | 'restore',
+) {
+  const deletedAt = action === 'delete' ? new Date() : null;
+  const after = await updateRecord(trx, table, before.id, { deleted_at: deletedAt }, actor.userId);
   await writeAudit(trx, {
     trialId: before.trial_id,
     table,
     recordId: before.id,
-    action: 'delete',
+    action,
     before,
     after,
     actorId: actor.userId,
@@ -134,22 +140,24 @@ export async function softDelete(trx: DB, table: RecordTable, before: RawRow, ac
   return after;
 }
 
-export async function restore(trx: DB, table: RecordTable, before: RawRow, actor: Actor) {
+export async function softDelete<T extends RecordTable>(
+  trx: DB,
+  table: T,
+  before: RecordRow<T>,
+  actor: Actor,
+) {
+  if (before.deleted_at) return before;
+  return setDeleted(trx, table, before, actor, 'delete');
+}
+
+export async function restore<T extends RecordTable>(
+  trx: DB,
+  table: T,
+  before: RecordRow<T>,
+  actor: Actor,
+) {
   if (!before.deleted_at) throw new AppError('conflict', 'This record is not deleted.');
-  const after = await updateRaw(trx, table, before.id, {
-    deleted_at: null,
-    updated_by: actor.userId,
-  });
-  await writeAudit(trx, {
-    trialId: before.trial_id,
-    table,
-    recordId: before.id,
-    action: 'restore',
-    before,
-    after,
-    actorId: actor.userId,
-  });
-  return after;
+  return setDeleted(trx, table, before, actor, 'restore');
 }
 
 /** Undo of one's own deletion lasts this long; after that the lead restores it. */

@@ -1,45 +1,158 @@
-import { type Kysely, sql } from 'kysely';
+import { type Insertable, type Selectable, type Updateable, sql } from 'kysely';
+import type { RecordTable } from '../../common/contracts/records';
 import type { DB } from '../../db/database';
+import type { Database, PlotsTable } from '../../db/schema';
 
-export type RecordTable = 'harvests' | 'observations' | 'field_events';
-export type RawRow = Record<string, unknown> & {
+type Rows = { [T in RecordTable]: Selectable<Database[T]> };
+type NewRows = { [T in RecordTable]: Insertable<Database[T]> & { id: string } };
+type Changes = { [T in RecordTable]: Updateable<Database[T]> };
+
+/** What every record table has, named so generic code can read it. */
+type RecordBase = {
   id: string;
   trial_id: string;
+  /** a field event may concern a whole site */
+  plot_id: string | null;
   version: number;
   deleted_at: Date | null;
 };
+/** A stored record as its table holds it. */
+export type { RecordTable };
+export type RecordRow<T extends RecordTable = RecordTable> = Rows[T] & RecordBase;
+/** A new record as a service gives it; the trial and who made it are added on insert. */
+export type NewRecord<T extends RecordTable> = Omit<
+  NewRows[T],
+  'trial_id' | 'created_by' | 'updated_by'
+>;
+/** Values a service changes on an edit. */
+export type RecordChange<T extends RecordTable> = Changes[T];
+/** What every record's life changes besides its values: deleted or not, and who did it. */
+export type Stamps = { trialId: string; actorId: string };
+type Lifecycle = { deleted_at?: Date | null };
 
-// The three record tables share id, version and deleted_at; these helpers work on any of them.
-const anyDb = (db: DB) => db as unknown as Kysely<any>;
-
-export async function rawById(db: DB, table: RecordTable | 'plots', id: string, lock = false) {
-  const q = anyDb(db).selectFrom(table).selectAll().where('id', '=', id);
-  return (lock ? q.forUpdate() : q).executeTakeFirst() as Promise<RawRow | undefined>;
+interface RecordQueries<T extends RecordTable> {
+  byId(db: DB, id: string, lock: boolean): Promise<RecordRow<T> | undefined>;
+  /** The new row, or undefined when the id is taken. */
+  insertIfNew(db: DB, values: NewRecord<T>, stamps: Stamps): Promise<RecordRow<T> | undefined>;
+  /** Applies the change and moves the version on by one. */
+  update(
+    db: DB,
+    id: string,
+    values: RecordChange<T> | Lifecycle,
+    actorId: string,
+  ): Promise<RecordRow<T>>;
 }
 
-/** Inserts unless the id is taken; returns the new row, or undefined when it already existed. */
-export async function insertIfNew(db: DB, table: RecordTable, values: Record<string, unknown>) {
-  return (await anyDb(db)
-    .insertInto(table)
-    .values(values)
-    .onConflict((oc) => oc.column('id').doNothing())
-    .returningAll()
-    .executeTakeFirst()) as RawRow | undefined;
+const stamped = (stamps: Stamps) => ({
+  trial_id: stamps.trialId,
+  created_by: stamps.actorId,
+  updated_by: stamps.actorId,
+});
+
+// The three record tables share id, version and deleted_at but Kysely types a query on one
+// named table at a time, so each table has its own (identical) statements.
+const queries: { [T in RecordTable]: RecordQueries<T> } = {
+  harvests: {
+    byId: (db, id, lock) => {
+      const q = db.selectFrom('harvests').selectAll().where('id', '=', id);
+      return (lock ? q.forUpdate() : q).executeTakeFirst();
+    },
+    insertIfNew: (db, values, stamps) =>
+      db
+        .insertInto('harvests')
+        .values({ ...values, ...stamped(stamps) })
+        .onConflict((oc) => oc.column('id').doNothing())
+        .returningAll()
+        .executeTakeFirst(),
+    update: (db, id, values, actorId) =>
+      db
+        .updateTable('harvests')
+        .set((eb) => ({ ...values, updated_by: actorId, version: eb('version', '+', 1) }))
+        .where('id', '=', id)
+        .returningAll()
+        .executeTakeFirstOrThrow(),
+  },
+  observations: {
+    byId: (db, id, lock) => {
+      const q = db.selectFrom('observations').selectAll().where('id', '=', id);
+      return (lock ? q.forUpdate() : q).executeTakeFirst();
+    },
+    insertIfNew: (db, values, stamps) =>
+      db
+        .insertInto('observations')
+        .values({ ...values, ...stamped(stamps) })
+        .onConflict((oc) => oc.column('id').doNothing())
+        .returningAll()
+        .executeTakeFirst(),
+    update: (db, id, values, actorId) =>
+      db
+        .updateTable('observations')
+        .set((eb) => ({ ...values, updated_by: actorId, version: eb('version', '+', 1) }))
+        .where('id', '=', id)
+        .returningAll()
+        .executeTakeFirstOrThrow(),
+  },
+  field_events: {
+    byId: (db, id, lock) => {
+      const q = db.selectFrom('field_events').selectAll().where('id', '=', id);
+      return (lock ? q.forUpdate() : q).executeTakeFirst();
+    },
+    insertIfNew: (db, values, stamps) =>
+      db
+        .insertInto('field_events')
+        .values({ ...values, ...stamped(stamps) })
+        .onConflict((oc) => oc.column('id').doNothing())
+        .returningAll()
+        .executeTakeFirst(),
+    update: (db, id, values, actorId) =>
+      db
+        .updateTable('field_events')
+        .set((eb) => ({ ...values, updated_by: actorId, version: eb('version', '+', 1) }))
+        .where('id', '=', id)
+        .returningAll()
+        .executeTakeFirstOrThrow(),
+  },
+};
+
+export function recordById<T extends RecordTable>(db: DB, table: T, id: string, lock = false) {
+  return queries[table].byId(db, id, lock);
 }
 
-export async function updateRaw(
+export function insertRecordIfNew<T extends RecordTable>(
   db: DB,
-  table: RecordTable | 'plots',
-  id: string,
-  values: Record<string, unknown>,
-  bumpVersion = true,
+  table: T,
+  values: NewRecord<T>,
+  stamps: Stamps,
 ) {
-  return (await anyDb(db)
-    .updateTable(table)
-    .set(bumpVersion ? { ...values, version: sql`version + 1` } : values)
+  return queries[table].insertIfNew(db, values, stamps);
+}
+
+export function updateRecord<T extends RecordTable>(
+  db: DB,
+  table: T,
+  id: string,
+  values: RecordChange<T> | Lifecycle,
+  actorId: string,
+) {
+  return queries[table].update(db, id, values, actorId);
+}
+
+export function plotForUpdate(db: DB, id: string) {
+  return db.selectFrom('plots').selectAll().where('id', '=', id).forUpdate().executeTakeFirst();
+}
+
+/** The stand count and who changed it; a plot has no record version. */
+export function updatePlotStand(
+  db: DB,
+  id: string,
+  values: Pick<Updateable<PlotsTable>, 'plants_surviving' | 'updated_by'>,
+) {
+  return db
+    .updateTable('plots')
+    .set(values)
     .where('id', '=', id)
     .returningAll()
-    .executeTakeFirstOrThrow()) as RawRow;
+    .executeTakeFirstOrThrow();
 }
 
 export function plotsOfTrial(db: DB, trialId: string, siteId?: string) {
@@ -281,11 +394,12 @@ export function completenessCounts(
 }
 
 /** Ids among `ids` that already exist, with the trial they belong to. */
-export function existingIds(db: DB, table: RecordTable, ids: string[]) {
-  if (ids.length === 0) return Promise.resolve([] as { id: string; trial_id: string }[]);
-  return anyDb(db)
-    .selectFrom(table)
-    .select(['id', 'trial_id'])
-    .where('id', 'in', ids)
-    .execute() as Promise<{ id: string; trial_id: string }[]>;
+export async function existingIds(
+  db: DB,
+  table: RecordTable,
+  ids: string[],
+): Promise<{ id: string; trial_id: string }[]> {
+  if (ids.length === 0) return [];
+  // Only the columns every record table has in common, so one statement serves all three.
+  return db.selectFrom(table).select(['id', 'trial_id']).where('id', 'in', ids).execute();
 }

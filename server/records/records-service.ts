@@ -72,15 +72,17 @@ const deletedMessages = {
 };
 
 /** A plot's record locked for an edit at a site the actor may write; a deleted one is refused. */
-async function editablePlotRecord(
+async function editablePlotRecord<T extends keyof typeof deletedMessages>(
   trx: DB,
   loaded: LoadedTrial,
   actor: Actor | null,
-  table: keyof typeof deletedMessages,
+  table: T,
   id: string,
 ) {
   const before = await lockedRecord(trx, table, loaded.trial.id, id);
-  const plot = (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id as string))!;
+  // Harvests and observations always have a plot (NOT NULL).
+  const plot = before.plot_id && (await repo.plotInTrial(trx, loaded.trial.id, before.plot_id));
+  if (!plot) throw AppError.notFound('The plot');
   authorize(actor, 'records.write', loaded, plot.site_id);
   if (before.deleted_at) throw new AppError('not_found', deletedMessages[table]);
   return before;
@@ -279,9 +281,9 @@ export async function updateObservation(
     if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
     const merged = { ...before, ...values };
     checkValue(
-      await traitFor(trx, loaded.trial.id, before.trait_id as string),
-      merged.value as number | null,
-      merged.value_date as string | null,
+      await traitFor(trx, loaded.trial.id, before.trait_id),
+      merged.value,
+      merged.value_date,
     );
     await applyUpdate(trx, 'observations', before, values, requireActorOf(actor));
   });
@@ -400,10 +402,10 @@ export async function updateFieldEvent(
   const loaded = await trialForAction(db, slug, actor, 'trial.read');
   await db.transaction().execute(async (trx) => {
     const before = await lockedRecord(trx, 'field_events', loaded.trial.id, id);
-    authorize(actor, eventAction(before.kind as string), loaded, before.site_id as string);
+    authorize(actor, eventAction(before.kind), loaded, before.site_id);
     if (before.deleted_at) throw new AppError('not_found', 'This field event was deleted.');
     const { version, ...fields } = body;
-    const input: FieldEventInput = { ...fields, kind: before.kind as FieldEventInput['kind'] };
+    const input: FieldEventInput = { ...fields, kind: before.kind };
     const problems = fieldEventProblems(input);
     if (problems.length) {
       const fields = problems.map((p) => ({ path: `body.${p.path}`, message: p.message }));
@@ -420,11 +422,6 @@ export async function updateFieldEvent(
 
 const readers = { harvests: oneHarvest, observations: oneObservation, field_events: oneEvent };
 
-async function siteOfRecord(trx: DB, trialId: string, table: repo.RecordTable, row: repo.RawRow) {
-  if (table === 'field_events') return row.site_id as string;
-  return (await repo.plotInTrial(trx, trialId, row.plot_id as string))!.site_id;
-}
-
 /** Any record locked for deletion or undo, once the actor may change it at its site. */
 async function lockedRecordForLifecycle(
   trx: DB,
@@ -433,9 +430,14 @@ async function lockedRecordForLifecycle(
   table: repo.RecordTable,
   id: string,
 ) {
-  const before = await lockedRecord(trx, table, loaded.trial.id, id);
-  const action = table === 'field_events' ? eventAction(before.kind as string) : 'records.write';
-  authorize(actor, action, loaded, await siteOfRecord(trx, loaded.trial.id, table, before));
+  const before: repo.RecordRow = await lockedRecord(trx, table, loaded.trial.id, id);
+  if ('kind' in before) {
+    authorize(actor, eventAction(before.kind), loaded, before.site_id);
+  } else {
+    const plot = await repo.plotInTrial(trx, loaded.trial.id, before.plot_id);
+    if (!plot) throw AppError.notFound('The plot');
+    authorize(actor, 'records.write', loaded, plot.site_id);
+  }
   return before;
 }
 
@@ -509,15 +511,13 @@ export async function setStandCount(
       `The plot was set with ${plot.plants_set} plants; the stand cannot be more.`,
     );
   await db.transaction().execute(async (trx) => {
-    const before = (await repo.rawById(trx, 'plots', plotId, true))!;
+    const before = await repo.plotForUpdate(trx, plotId);
+    if (!before) throw AppError.notFound('The plot');
     if (before.plants_surviving === body.plantsSurviving) return;
-    const after = await repo.updateRaw(
-      trx,
-      'plots',
-      plotId,
-      { plants_surviving: body.plantsSurviving, updated_by: requireActorOf(actor).userId },
-      false,
-    );
+    const after = await repo.updatePlotStand(trx, plotId, {
+      plants_surviving: body.plantsSurviving,
+      updated_by: requireActorOf(actor).userId,
+    });
     await writeAudit(trx, {
       trialId: loaded.trial.id,
       table: 'plots',
