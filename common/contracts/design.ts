@@ -1,6 +1,8 @@
 /** The lead's design of a trial: settings, entries, sites, traits, layout, what was planted. */
 import { z } from 'zod';
+import { type QuantityUnit, toStored } from '../units';
 import { entryTypes, quantityKinds, traitBases, traitDirections, trialDesigns } from './trials';
+import { blankAsAbsent, blankAsNull, typedNumber } from './typed-input';
 
 export const soilTextures = [
   'sand',
@@ -58,42 +60,65 @@ export const traitIdParams = z.object({
 });
 
 /* POST /api/trials */
+const transplantAfterSowing = (b: { sowingDate?: string | null; transplantDate?: string | null }) =>
+  !b.sowingDate || !b.transplantDate || b.transplantDate >= b.sowingDate;
+const transplantMessage = {
+  path: ['transplantDate'],
+  message: 'Transplanting comes after sowing.',
+};
+const createTrialFields = {
+  title: required(200, 'title'),
+  crop: required(80, 'crop'),
+  season: required(40, 'season'),
+  design: z.enum(trialDesigns, 'Choose a design.'),
+  description: text(5000, 'description').default(''),
+  sowingDate: isoDate.nullable().default(null),
+  transplantDate: isoDate.nullable().default(null),
+  /** Instance administrators only: the account that will lead the trial. */
+  leadEmail: z.email('Enter the lead’s e-mail address.').optional(),
+};
 export const createTrialBody = z
-  .object({
-    title: required(200, 'title'),
-    crop: required(80, 'crop'),
-    season: required(40, 'season'),
-    design: z.enum(trialDesigns, 'Choose a design.'),
-    description: text(5000, 'description').default(''),
-    sowingDate: isoDate.nullable().default(null),
-    transplantDate: isoDate.nullable().default(null),
-    /** Instance administrators only: the account that will lead the trial. */
-    leadEmail: z.email('Enter the lead’s e-mail address.').optional(),
-  })
-  .refine((b) => !b.sowingDate || !b.transplantDate || b.transplantDate >= b.sowingDate, {
-    path: ['transplantDate'],
-    message: 'Transplanting comes after sowing.',
-  });
+  .object(createTrialFields)
+  .refine(transplantAfterSowing, transplantMessage);
 export type CreateTrialBody = z.input<typeof createTrialBody>;
+/** The new-trial form: dates and the lead's e-mail may be left blank. */
+export const createTrialForm = z
+  .object({
+    ...createTrialFields,
+    sowingDate: blankAsNull(createTrialFields.sowingDate),
+    transplantDate: blankAsNull(createTrialFields.transplantDate),
+    leadEmail: blankAsAbsent(createTrialFields.leadEmail),
+  })
+  .refine(transplantAfterSowing, transplantMessage);
 export const createTrialResponse = z.object({ id: z.uuid(), slug: z.string() });
 
 /* PATCH /api/trials/:slug */
+const trialSettingsFields = {
+  title: required(200, 'title'),
+  crop: required(80, 'crop'),
+  season: required(40, 'season'),
+  design: z.enum(trialDesigns, 'Choose a design.'),
+  status: z.enum(editableStatuses, 'Choose draft, active or closed.'),
+  description: text(5000, 'description'),
+  sowingDate: isoDate.nullable(),
+  transplantDate: isoDate.nullable(),
+  fertilizerPolicy: z.enum(fertilizerPolicies, 'Choose a fertilizer policy.'),
+  fertilizerNotes: text(2000, 'fertilizer notes'),
+};
 export const updateTrialBody = z
-  .object({
-    title: required(200, 'title'),
-    crop: required(80, 'crop'),
-    season: required(40, 'season'),
-    design: z.enum(trialDesigns, 'Choose a design.'),
-    status: z.enum(editableStatuses, 'Choose draft, active or closed.'),
-    description: text(5000, 'description'),
-    sowingDate: isoDate.nullable(),
-    transplantDate: isoDate.nullable(),
-    fertilizerPolicy: z.enum(fertilizerPolicies, 'Choose a fertilizer policy.'),
-    fertilizerNotes: text(2000, 'fertilizer notes'),
-  })
+  .object(trialSettingsFields)
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one setting.');
 export type UpdateTrialBody = z.input<typeof updateTrialBody>;
+/** The settings form: every setting at once (a published trial's status is not the form's). */
+export const trialSettingsForm = z
+  .object({
+    ...trialSettingsFields,
+    status: trialSettingsFields.status.optional(),
+    sowingDate: blankAsNull(trialSettingsFields.sowingDate),
+    transplantDate: blankAsNull(trialSettingsFields.transplantDate),
+  })
+  .refine(transplantAfterSowing, transplantMessage);
 
 /* Entries */
 const entryFields = {
@@ -106,7 +131,7 @@ const entryFields = {
   seedLot: text(80, 'seed lot'),
   entryType: z.enum(entryTypes, 'Choose the type.'),
   daysToMaturityClaimed: z
-    .number()
+    .number('Enter the days as a number.')
     .int('Use whole days.')
     .min(1, 'Use 1 to 400 days.')
     .max(400, 'Use 1 to 400 days.')
@@ -130,6 +155,16 @@ export const entryUpdateBody = z
   .object(entryFields)
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
+/** The entry form: days and spacing may be blank; spacing is typed in `spacingUnit` (cm, in). */
+export const entryForm = (spacingUnit: QuantityUnit) =>
+  z.object({
+    ...entryFields,
+    daysToMaturityClaimed: typedNumber(entryFields.daysToMaturityClaimed, { blank: null }),
+    inRowSpacingMm: typedNumber(entryFields.inRowSpacingMm, {
+      blank: null,
+      toStored: (v) => toStored(v, spacingUnit),
+    }),
+  });
 
 /* Sites: a town or region only, never exact coordinates (sites show on public pages). */
 const coordinates = /-?\d{1,3}\.\d{3,}\s*[,;\s]\s*-?\d{1,3}\.\d{3,}|\d+\s*°/;
@@ -158,6 +193,12 @@ export const siteUpdateBody = z
   .object(siteFields)
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
+/** The site form: "Not recorded" is a blank choice. */
+export const siteForm = z.object({
+  ...siteFields,
+  soilTexture: blankAsNull(siteFields.soilTexture),
+  irrigationMethod: blankAsNull(siteFields.irrigationMethod),
+});
 
 /* Traits */
 const traitFields = {
@@ -172,8 +213,8 @@ const traitFields = {
   quantityKind: z.enum(quantityKinds, 'Choose what is measured.'),
   basis: z.enum(traitBases, 'Choose per plant, per plot or per harvest.'),
   direction: z.enum(traitDirections, 'Choose which direction is better.'),
-  scaleMin: z.number().finite().nullable(),
-  scaleMax: z.number().finite().nullable(),
+  scaleMin: z.number('Enter the lowest score as a number.').finite().nullable(),
+  scaleMax: z.number('Enter the highest score as a number.').finite().nullable(),
   sortOrder: z.number().int().min(0).max(999),
 };
 function scaleRule(b: {
@@ -199,6 +240,29 @@ export const traitBody = z
   })
   .refine(scaleRule, scaleMessage);
 export type TraitBody = z.input<typeof traitBody>;
+/** A short key for exported files from a trait's name: "Pod length (cm)" → pod_length_cm. */
+export const traitKeyFrom = (label: string) =>
+  label
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '_')
+    .replace(/^_+|_+$/g, '')
+    .replace(/^([0-9])/, 't_$1')
+    .slice(0, 40);
+/** The custom-trait form: the key is made from the name when left blank; scales only for scores. */
+export const customTraitForm = z
+  .object({
+    ...traitFields,
+    key: blankAsAbsent(traitFields.key.optional()),
+    scaleMin: typedNumber(traitFields.scaleMin, { blank: null }),
+    scaleMax: typedNumber(traitFields.scaleMax, { blank: null }),
+    sortOrder: traitFields.sortOrder.optional(),
+  })
+  .transform(({ key, ...b }) => ({
+    ...b,
+    key: key ?? traitKeyFrom(b.label),
+    ...(b.quantityKind === 'score' ? {} : { scaleMin: null, scaleMax: null }),
+  }))
+  .refine(scaleRule, scaleMessage);
 export const traitUpdateBody = z
   .object(traitFields)
   .partial()
@@ -226,6 +290,20 @@ export const layoutBody = z.object({
   inRowSpacingMm: lengthMm('in-row spacing').nullable().default(null),
 });
 export type LayoutBody = z.input<typeof layoutBody>;
+/** The layout form: lengths typed in the units shown beside them; a blank seed draws a new one. */
+export const layoutForm = (units: { rowLength: QuantityUnit; spacing: QuantityUnit }) => {
+  const f = layoutBody.shape;
+  const length = <T extends z.ZodType>(schema: T, unit: QuantityUnit, blank?: null) =>
+    typedNumber(schema, { blank, toStored: (v) => toStored(v, unit) });
+  return z.object({
+    replicates: typedNumber(f.replicates),
+    seed: typedNumber(f.seed),
+    rowsPerPlot: typedNumber(f.rowsPerPlot),
+    rowLengthMm: length(f.rowLengthMm, units.rowLength),
+    rowSpacingMm: length(f.rowSpacingMm, units.spacing),
+    inRowSpacingMm: length(f.inRowSpacingMm, units.spacing, null),
+  });
+};
 
 /* PUT /api/trials/:slug/layout/planting */
 const count = (what: string) =>
@@ -235,27 +313,44 @@ const count = (what: string) =>
     .min(0, `The ${what} cannot be negative.`)
     .max(100_000, `The ${what} is more than this form accepts.`)
     .nullable();
-export const plantingRow = z
-  .object({
-    plotId: z.uuid('Not a plot id.'),
-    plantsSet: count('plants set'),
-    plantsSurviving: count('survivors'),
-    gaps: count('gaps'),
-    note: text(2000, 'note').default(''),
-  })
-  .refine(
-    (r) => r.plantsSurviving == null || r.plantsSet == null || r.plantsSurviving <= r.plantsSet,
-    {
-      path: ['plantsSurviving'],
-      message: 'Survivors cannot outnumber the plants set.',
-    },
-  )
-  .refine((r) => r.gaps == null || r.plantsSet == null || r.gaps <= r.plantsSet, {
-    path: ['gaps'],
-    message: 'Gaps cannot outnumber the plants set.',
-  });
+const plantingRowFields = {
+  plotId: z.uuid('Not a plot id.'),
+  plantsSet: count('plants set'),
+  plantsSurviving: count('survivors'),
+  gaps: count('gaps'),
+  note: text(2000, 'note').default(''),
+};
+type PlantingCounts = {
+  plantsSet: number | null;
+  plantsSurviving: number | null;
+  gaps: number | null;
+};
+const plantingRules = <T extends z.ZodType<PlantingCounts>>(row: T) =>
+  row
+    .refine(
+      (r) => r.plantsSurviving == null || r.plantsSet == null || r.plantsSurviving <= r.plantsSet,
+      { path: ['plantsSurviving'], message: 'Survivors cannot outnumber the plants set.' },
+    )
+    .refine((r) => r.gaps == null || r.plantsSet == null || r.gaps <= r.plantsSet, {
+      path: ['gaps'],
+      message: 'Gaps cannot outnumber the plants set.',
+    });
+export const plantingRow = plantingRules(z.object(plantingRowFields));
 export const plantingBody = z.object({
   plots: z.array(plantingRow).min(1, 'Send at least one plot.').max(5000),
+});
+/** The planting table: one row of typed counts per plot, blank for "not counted". */
+export const plantingForm = z.object({
+  plots: z.array(
+    plantingRules(
+      z.object({
+        ...plantingRowFields,
+        plantsSet: typedNumber(plantingRowFields.plantsSet, { blank: null }),
+        plantsSurviving: typedNumber(plantingRowFields.plantsSurviving, { blank: null }),
+        gaps: typedNumber(plantingRowFields.gaps, { blank: null }),
+      }),
+    ),
+  ),
 });
 export type PlantingBody = z.input<typeof plantingBody>;
 export const plantingResponse = z.object({ updated: z.number().int() });

@@ -4,7 +4,7 @@
  * by the server to parse and by the client to build requests and read answers.
  */
 import { z } from 'zod';
-import { readNumberField } from '../decimal';
+import { typedNumber } from './typed-input';
 
 export const harvestGrades = ['marketable', 'cull'] as const;
 export const fieldEventKinds = [
@@ -484,10 +484,6 @@ export function storedUnitOf(kind: TraitRule['quantityKind']): string {
 }
 
 // ---------- Field-log forms: what a grower types, before units are converted ----------
-
-/** A number typed into a form, read by the one decimal-mark rule: blank is absent. */
-export const typedNumber = <T extends z.ZodType>(schema: T) =>
-  z.preprocess((v) => (typeof v === 'string' ? (readNumberField(v) ?? undefined) : v), schema);
 
 /**
  * One harvest round at a plot: marketable and cull in one save (either may be left blank,

@@ -46,14 +46,10 @@ export function useDeletePart(slug: string, part: Part) {
   });
 }
 
-/** Adds a new part, or saves the one being edited; `mutation` is whichever of the two applies. */
+/** Adds a new part, or saves the one being edited. */
 export function useSavePart<P extends Part>(slug: string, part: P, editingId: string | null) {
   const create = useCreatePart(slug, part);
   const update = useUpdatePart(slug, part);
-  const mutation = editingId ? update : create;
-  const save = (body: BodyOf[P], onSuccess: () => void) => {
-    if (editingId) update.mutate({ id: editingId, body }, { onSuccess });
-    else create.mutate(body, { onSuccess });
-  };
-  return { mutation, save };
+  return (body: BodyOf[P]): Promise<unknown> =>
+    editingId ? update.mutateAsync({ id: editingId, body }) : create.mutateAsync(body);
 }

@@ -1,6 +1,6 @@
 import type { FormEvent, ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
-import { FormError } from './form-fields';
+import { FormMessage } from '@/components/ui/text-field';
 
 /** The add-or-edit form of an entry or site; a new key per record resets its fields. */
 export function PartForm({
@@ -30,22 +30,22 @@ export function PartForm({
 
 /** A refusal not tied to one field, then submit, and Cancel while editing. */
 export function PartFormActions({
-  mutation,
-  errors,
+  refusal,
+  pending,
   submitLabel,
   onCancel,
 }: {
-  mutation: { error: unknown; isPending: boolean };
-  errors: Record<string, string>;
+  refusal: string | undefined;
+  pending: boolean;
   submitLabel: string;
   onCancel?: () => void;
 }) {
   return (
     <>
-      <FormError error={Object.keys(errors).length ? null : mutation.error} />
+      {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={mutation.isPending}>
-          {mutation.isPending ? 'Saving…' : submitLabel}
+        <Button type="submit" disabled={pending}>
+          {pending ? 'Saving…' : submitLabel}
         </Button>
         {onCancel ? (
           <Button type="button" variant="ghost" onClick={onCancel}>

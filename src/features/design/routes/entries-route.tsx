@@ -1,18 +1,12 @@
-import { type Design, type DesignEntry, type EntryBody } from '@common/contracts/design';
+import { type Design, type DesignEntry, entryForm } from '@common/contracts/design';
 import { entryTypes } from '@common/contracts/trials';
-import { formatLength, toStored } from '@common/units';
+import { formatLength } from '@common/units';
 import { useState } from 'react';
+import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUnitSystem } from '@/lib/session';
 import { useDeletePart, useSavePart } from '../api/design-parts';
 import { DesignPage } from '../components/design-page';
-import {
-  fieldErrors,
-  FormError,
-  numberOrNull,
-  SelectField,
-  TextArea,
-  TextField,
-} from '../components/form-fields';
 import { PartActions, PartForm, PartFormActions } from '../components/part-editing';
 import { lengthInput, spacingUnit } from '../components/units';
 
@@ -35,30 +29,25 @@ function EntryForm({
 }) {
   const system = useUnitSystem();
   const unit = spacingUnit(system);
-  const { mutation, save } = useSavePart(slug, 'entries', editing?.id ?? null);
-  const errors = fieldErrors(mutation.error);
-
-  function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const form = e.currentTarget;
-    const f = new FormData(form);
-    const spacing = numberOrNull(f.get('spacing'));
-    const body: EntryBody = {
-      code: String(f.get('code') ?? ''),
-      name: String(f.get('name') ?? ''),
-      seedSource: String(f.get('seedSource') ?? ''),
-      seedLot: String(f.get('seedLot') ?? ''),
-      entryType: String(f.get('entryType')) as EntryBody['entryType'],
-      daysToMaturityClaimed: numberOrNull(f.get('days')),
-      inRowSpacingMm: spacing === null ? null : toStored(spacing, unit),
-      noFertilizer: f.get('noFertilizer') === 'on',
-      notes: String(f.get('notes') ?? ''),
-    };
-    save(body, () => {
-      form.reset();
-      onDone();
-    });
-  }
+  const save = useSavePart(slug, 'entries', editing?.id ?? null);
+  const blank = {
+    code: editing?.code ?? '',
+    name: editing?.name ?? '',
+    seedSource: editing?.seedSource ?? '',
+    seedLot: editing?.seedLot ?? '',
+    entryType: editing?.entryType ?? 'heirloom',
+    daysToMaturityClaimed: editing?.daysToMaturityClaimed?.toString() ?? '',
+    inRowSpacingMm: lengthInput(editing?.inRowSpacingMm, unit),
+    noFertilizer: editing?.noFertilizer ?? false,
+    notes: editing?.notes ?? '',
+  };
+  const form = useContractForm(entryForm(unit), blank);
+  const { errors, isSubmitting } = form.formState;
+  const onSubmit = submitTo(form, async (body) => {
+    await save(body);
+    form.reset(blank);
+    onDone();
+  });
 
   return (
     <PartForm
@@ -69,81 +58,59 @@ function EntryForm({
       <div className="grid gap-3 sm:grid-cols-3">
         <TextField
           label="Code"
-          name="code"
-          defaultValue={editing?.code}
           maxLength={6}
           hint="1–6 letters or digits, shown on the map"
-          error={errors.code}
+          error={errors.code?.message}
+          {...form.register('code')}
         />
         <TextField
           label="Variety name"
-          name="name"
-          defaultValue={editing?.name}
           className="sm:col-span-2"
-          error={errors.name}
+          error={errors.name?.message}
+          {...form.register('name')}
         />
       </div>
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField
           label="Seed source"
-          name="seedSource"
-          defaultValue={editing?.seedSource}
-          error={errors.seedSource}
+          error={errors.seedSource?.message}
+          {...form.register('seedSource')}
         />
-        <TextField
-          label="Seed lot"
-          name="seedLot"
-          defaultValue={editing?.seedLot}
-          error={errors.seedLot}
-        />
+        <TextField label="Seed lot" error={errors.seedLot?.message} {...form.register('seedLot')} />
       </div>
       <div className="grid gap-3 sm:grid-cols-3">
         <SelectField
           label="Type"
-          name="entryType"
-          defaultValue={editing?.entryType ?? 'heirloom'}
-          error={errors.entryType}
+          error={errors.entryType?.message}
           options={entryTypes.map((t) => [t, entryTypeLabels[t]] as const)}
+          {...form.register('entryType')}
         />
         <TextField
           label="Days to maturity (seed source’s claim)"
-          name="days"
-          type="number"
           inputMode="numeric"
-          min={1}
-          max={400}
           suffix="days"
-          defaultValue={editing?.daysToMaturityClaimed ?? ''}
-          error={errors.daysToMaturityClaimed}
+          error={errors.daysToMaturityClaimed?.message}
+          {...form.register('daysToMaturityClaimed')}
         />
         <TextField
           label="In-row spacing"
-          name="spacing"
-          type="number"
           inputMode="decimal"
-          step="any"
-          min={0}
           suffix={unit}
           hint="Between plants in the row; a bushy dwarf may need three times a pruned tall one."
-          defaultValue={lengthInput(editing?.inRowSpacingMm, unit)}
-          error={errors.inRowSpacingMm}
+          error={errors.inRowSpacingMm?.message}
+          {...form.register('inRowSpacingMm')}
         />
       </div>
       {design.fertilizerPolicy === 'per_entry' ? (
         <label className="flex min-h-11 items-center gap-2">
-          <input
-            type="checkbox"
-            name="noFertilizer"
-            defaultChecked={editing?.noFertilizer}
-            className="h-5 w-5"
-          />
+          <input type="checkbox" className="h-5 w-5" {...form.register('noFertilizer')} />
           No fertilizer for this entry
         </label>
       ) : null}
-      <TextArea label="Notes" name="notes" defaultValue={editing?.notes} error={errors.notes} />
+      <TextArea label="Notes" error={errors.notes?.message} {...form.register('notes')} />
       <PartFormActions
-        mutation={mutation}
-        errors={errors}
+        refusal={formRefusal(form)}
+        pending={isSubmitting}
         submitLabel={editing ? 'Save entry' : 'Add entry'}
         onCancel={editing ? onDone : undefined}
       />
@@ -202,10 +169,11 @@ function Entries({ design, slug }: { design: Design; slug: string }) {
             </li>
           ))}
         </ul>
-        <FormError error={remove.error} />
+        {remove.error ? <FormMessage tone="error">{remove.error.message}</FormMessage> : null}
       </section>
       {design.canEdit && (editing || !layoutExists) ? (
         <EntryForm
+          key={editing?.id ?? 'new'}
           slug={slug}
           design={design}
           editing={editing}

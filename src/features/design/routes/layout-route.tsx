@@ -1,54 +1,51 @@
-import { type Design, MAX_LAYOUT_SEED } from '@common/contracts/design';
+import { type Design, layoutForm, MAX_LAYOUT_SEED } from '@common/contracts/design';
 import { designLabels } from '@common/contracts/trials';
-import { formatLength, toStored } from '@common/units';
+import { formatLength } from '@common/units';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
+import { ScrollRegion } from '@/components/ui/scroll-region';
+import { FormMessage, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUnitSystem } from '@/lib/session';
 import { useClearLayout, useGenerateLayout } from '../api/layout';
 import { DesignPage } from '../components/design-page';
-import { fieldErrors, FormError, numberOrNull, TextField } from '../components/form-fields';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
 import { lengthInput, rowLengthUnit, spacingUnit } from '../components/units';
-import { ScrollRegion } from '@/components/ui/scroll-region';
+
+/** Which button sent the form: "Re-randomize" asks for a fresh seed. */
+const wantsFreshSeed = (e: React.BaseSyntheticEvent | undefined) =>
+  ((e?.nativeEvent as SubmitEvent | undefined)?.submitter as HTMLButtonElement | null)?.value ===
+  'fresh';
 
 function LayoutForm({ design, slug }: { design: Design; slug: string }) {
   const system = useUnitSystem();
   const generate = useGenerateLayout(slug);
   const clear = useClearLayout(slug);
-  const errors = fieldErrors(generate.error);
-  const [seed, setSeed] = useState(design.layout.seed?.toString() ?? '');
   const { locked, lockedReason } = design.layout;
   const hasPlots = design.plots.length > 0;
   const lengthUnit = rowLengthUnit(system);
   const spaceUnit = spacingUnit(system);
   const unspaced = design.entries.filter((e) => e.inRowSpacingMm == null);
-
-  function submit(form: HTMLFormElement, fresh: boolean) {
-    const f = new FormData(form);
-    const rowLength = numberOrNull(f.get('rowLength'));
-    const rowSpacing = numberOrNull(f.get('rowSpacing'));
-    const inRow = numberOrNull(f.get('inRowSpacing'));
-    const typedSeed = numberOrNull(f.get('seed'));
-    generate.mutate(
-      {
-        replicates: numberOrNull(f.get('replicates')) ?? Number.NaN,
-        rowsPerPlot: numberOrNull(f.get('rowsPerPlot')) ?? 1,
-        rowLengthMm: rowLength === null ? Number.NaN : toStored(rowLength, lengthUnit),
-        rowSpacingMm: rowSpacing === null ? Number.NaN : toStored(rowSpacing, spaceUnit),
-        inRowSpacingMm: inRow === null ? null : toStored(inRow, spaceUnit),
-        ...(fresh || typedSeed === null ? {} : { seed: typedSeed }),
-      },
-      { onSuccess: (r) => setSeed(String(r.seed)) },
-    );
-  }
+  const form = useContractForm(layoutForm({ rowLength: lengthUnit, spacing: spaceUnit }), {
+    replicates: String(design.layout.replicates ?? 3),
+    rowsPerPlot: String(design.layout.rowsPerPlot),
+    rowLengthMm: lengthInput(design.layout.rowLengthMm, lengthUnit),
+    rowSpacingMm: lengthInput(design.layout.rowSpacingMm, spaceUnit),
+    inRowSpacingMm: lengthInput(design.layout.inRowSpacingMm, spaceUnit),
+    seed: design.layout.seed?.toString() ?? '',
+  });
+  const { errors, isSubmitting } = form.formState;
+  const onSubmit = submitTo(form, async ({ seed, ...body }, e) => {
+    const fresh = wantsFreshSeed(e);
+    const r = await generate.mutateAsync(fresh || seed === undefined ? body : { ...body, seed });
+    form.setValue('seed', String(r.seed));
+  });
+  const refusal = formRefusal(form);
 
   return (
     <form
-      onSubmit={(e) => {
-        e.preventDefault();
-        submit(e.currentTarget, false);
-      }}
+      onSubmit={onSubmit}
       noValidate
       aria-label="Layout"
       className="space-y-3 rounded-xl bg-white p-4 shadow-sm"
@@ -61,88 +58,61 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
         <div className="grid gap-3 sm:grid-cols-2">
           <TextField
             label={design.design === 'crd' ? 'Plots per entry (replicates)' : 'Blocks (replicates)'}
-            name="replicates"
-            type="number"
             inputMode="numeric"
-            min={1}
-            max={99}
-            defaultValue={design.layout.replicates ?? 3}
-            error={errors.replicates}
+            error={errors.replicates?.message}
+            {...form.register('replicates')}
           />
           <TextField
             label="Rows per plot"
-            name="rowsPerPlot"
-            type="number"
             inputMode="numeric"
-            min={1}
-            max={12}
-            defaultValue={design.layout.rowsPerPlot}
-            error={errors.rowsPerPlot}
+            error={errors.rowsPerPlot?.message}
+            {...form.register('rowsPerPlot')}
           />
           <TextField
             label="Row length"
-            name="rowLength"
-            type="number"
             inputMode="decimal"
-            step="any"
             suffix={lengthUnit}
-            defaultValue={lengthInput(design.layout.rowLengthMm, lengthUnit)}
-            error={errors.rowLengthMm}
+            error={errors.rowLengthMm?.message}
+            {...form.register('rowLengthMm')}
           />
           <TextField
             label="Between-row spacing"
-            name="rowSpacing"
-            type="number"
             inputMode="decimal"
-            step="any"
             suffix={spaceUnit}
-            defaultValue={lengthInput(design.layout.rowSpacingMm, spaceUnit)}
-            error={errors.rowSpacingMm}
+            error={errors.rowSpacingMm?.message}
+            {...form.register('rowSpacingMm')}
           />
           <TextField
             label="In-row spacing for entries without their own"
-            name="inRowSpacing"
-            type="number"
             inputMode="decimal"
-            step="any"
             suffix={spaceUnit}
             hint={
               unspaced.length
                 ? `Needed for ${unspaced.map((e) => e.code).join(', ')}.`
                 : 'Every entry has its own spacing.'
             }
-            defaultValue={lengthInput(design.layout.inRowSpacingMm, spaceUnit)}
-            error={errors.inRowSpacingMm}
+            error={errors.inRowSpacingMm?.message}
+            {...form.register('inRowSpacingMm')}
           />
           <TextField
             label="Seed"
-            name="seed"
-            type="number"
             inputMode="numeric"
-            min={0}
-            max={MAX_LAYOUT_SEED}
-            value={seed}
-            onChange={(e) => setSeed(e.target.value)}
-            hint="The same seed with the same entries and sites gives the same plan. Leave blank for a new one."
-            error={errors.seed}
+            hint={`The same seed with the same entries and sites gives the same plan. Leave blank for a new one (0 to ${MAX_LAYOUT_SEED}).`}
+            error={errors.seed?.message}
+            {...form.register('seed')}
           />
         </div>
-        <FormError error={Object.keys(errors).length ? null : generate.error} />
+        {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
         <div className="flex flex-wrap gap-2">
-          <Button type="submit" disabled={generate.isPending}>
-            {generate.isPending
+          <Button type="submit" value="seed" disabled={isSubmitting}>
+            {isSubmitting
               ? 'Laying out plots…'
               : hasPlots
                 ? 'Generate with this seed'
                 : 'Generate layout'}
           </Button>
           {hasPlots ? (
-            <Button
-              type="button"
-              variant="secondary"
-              disabled={generate.isPending}
-              onClick={(e) => submit(e.currentTarget.form!, true)}
-            >
+            <Button type="submit" value="fresh" variant="secondary" disabled={isSubmitting}>
               Re-randomize (new seed)
             </Button>
           ) : null}
@@ -160,14 +130,14 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
             </Button>
           ) : null}
         </div>
-        <FormError error={clear.error} />
+        {clear.error ? <FormMessage tone="error">{clear.error.message}</FormMessage> : null}
       </fieldset>
       {locked ? (
         <p role="note" className="rounded-lg bg-straw-100 p-3 text-sm">
           {lockedReason}
         </p>
       ) : null}
-      {generate.isPending ? (
+      {isSubmitting ? (
         <div
           role="progressbar"
           aria-label="Laying out plots"

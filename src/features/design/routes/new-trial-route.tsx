@@ -1,23 +1,27 @@
-import { createTrialBody, type CreateTrialBody } from '@common/contracts/design';
+import { createTrialForm } from '@common/contracts/design';
 import { designLabels, trialDesigns } from '@common/contracts/trials';
-import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
+import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useMe } from '@/lib/session';
 import { useCreateTrial } from '../api/create-trial';
-import {
-  fieldErrors,
-  FormError,
-  SelectField,
-  TextArea,
-  TextField,
-} from '../components/form-fields';
 
 export function Component() {
   const { data: me, isPending } = useMe();
   const create = useCreateTrial();
   const navigate = useNavigate();
-  const [local, setLocal] = useState<Record<string, string>>({});
+  const form = useContractForm(createTrialForm, {
+    title: '',
+    crop: '',
+    season: '',
+    design: 'rcbd',
+    description: '',
+    sowingDate: '',
+    transplantDate: '',
+    leadEmail: '',
+  });
+  const { errors, isSubmitting } = form.formState;
   if (isPending) return null;
   if (!me)
     return (
@@ -28,29 +32,12 @@ export function Component() {
         to create a trial.
       </p>
     );
-  const errors = { ...fieldErrors(create.error), ...local };
 
-  function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const body: CreateTrialBody = {
-      title: String(f.get('title') ?? ''),
-      crop: String(f.get('crop') ?? ''),
-      season: String(f.get('season') ?? ''),
-      design: String(f.get('design')) as CreateTrialBody['design'],
-      description: String(f.get('description') ?? ''),
-      sowingDate: String(f.get('sowingDate') ?? '') || null,
-      transplantDate: String(f.get('transplantDate') ?? '') || null,
-      ...(f.get('leadEmail') ? { leadEmail: String(f.get('leadEmail')) } : {}),
-    };
-    const parsed = createTrialBody.safeParse(body);
-    if (!parsed.success) {
-      setLocal(Object.fromEntries(parsed.error.issues.map((i) => [i.path.join('.'), i.message])));
-      return;
-    }
-    setLocal({});
-    create.mutate(body, { onSuccess: (r) => navigate(`/t/${r.slug}/entries`) });
-  }
+  const onSubmit = submitTo(form, async (body) => {
+    const r = await create.mutateAsync(body);
+    navigate(`/t/${r.slug}/entries`);
+  });
+  const refusal = formRefusal(form);
 
   return (
     <section className="max-w-2xl">
@@ -63,51 +50,66 @@ export function Component() {
         noValidate
         className="mt-4 space-y-4 rounded-xl bg-white p-4 shadow-sm"
       >
-        <TextField label="Title" name="title" required error={errors.title} />
+        <TextField
+          label="Title"
+          required
+          error={errors.title?.message}
+          {...form.register('title')}
+        />
         <div className="grid gap-4 sm:grid-cols-2">
-          <TextField label="Crop" name="crop" required placeholder="Okra" error={errors.crop} />
+          <TextField
+            label="Crop"
+            required
+            placeholder="Okra"
+            error={errors.crop?.message}
+            {...form.register('crop')}
+          />
           <TextField
             label="Season"
-            name="season"
             required
             placeholder="2027"
-            error={errors.season}
+            error={errors.season?.message}
+            {...form.register('season')}
           />
         </div>
         <SelectField
           label="Design"
-          name="design"
-          defaultValue="rcbd"
-          error={errors.design}
+          error={errors.design?.message}
           hint="Blocks: every block holds each entry once, in its own random order. Several sites: the blocks are repeated at each site."
           options={trialDesigns.map((d) => [d, designLabels[d]] as const)}
+          {...form.register('design')}
         />
         <div className="grid gap-4 sm:grid-cols-2">
-          <TextField label="Sowing date" name="sowingDate" type="date" error={errors.sowingDate} />
+          <TextField
+            label="Sowing date"
+            type="date"
+            error={errors.sowingDate?.message}
+            {...form.register('sowingDate')}
+          />
           <TextField
             label="Transplant date (if transplanted)"
-            name="transplantDate"
             type="date"
-            error={errors.transplantDate}
+            error={errors.transplantDate?.message}
+            {...form.register('transplantDate')}
           />
         </div>
-        <TextArea label="Description" name="description" error={errors.description} />
+        <TextArea
+          label="Description"
+          error={errors.description?.message}
+          {...form.register('description')}
+        />
         {me.isAdmin ? (
           <TextField
             label="Lead’s e-mail (administrators: create the trial for someone else)"
-            name="leadEmail"
             type="email"
             hint="Leave blank to lead it yourself."
-            error={errors.leadEmail}
+            error={errors.leadEmail?.message}
+            {...form.register('leadEmail')}
           />
         ) : null}
-        <FormError
-          error={
-            create.error && !Object.keys(fieldErrors(create.error)).length ? create.error : null
-          }
-        />
-        <Button type="submit" disabled={create.isPending}>
-          {create.isPending ? 'Creating…' : 'Create trial'}
+        {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? 'Creating…' : 'Create trial'}
         </Button>
       </form>
     </section>

@@ -1,72 +1,64 @@
-import type { Design, DesignPlot } from '@common/contracts/design';
+import { type Design, type DesignPlot, plantingForm } from '@common/contracts/design';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
+import { ScrollRegion } from '@/components/ui/scroll-region';
+import { FormMessage } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useRecordPlanting } from '../api/layout';
 import { DesignPage } from '../components/design-page';
-import { fieldErrors, FormError, numberOrNull } from '../components/form-fields';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
-import { ScrollRegion } from '@/components/ui/scroll-region';
 
-type Row = { plantsSet: string; plantsSurviving: string; gaps: string; note: string };
-const rowOf = (p: DesignPlot): Row => ({
+const rowOf = (p: DesignPlot) => ({
+  plotId: p.id,
   plantsSet: p.plantsSet?.toString() ?? '',
   plantsSurviving: p.plantsSurviving?.toString() ?? '',
   gaps: p.gaps?.toString() ?? '',
   note: p.plantedNote,
 });
+const countLabels = {
+  plantsSet: 'Plants set',
+  plantsSurviving: 'Survivors',
+  gaps: 'Gaps',
+} as const;
 
-const cellInput = 'min-h-11 w-20 rounded border border-leaf-300 bg-white px-2';
+const cellInput = (invalid: boolean) =>
+  `min-h-11 w-20 rounded border bg-white px-2 ${invalid ? 'border-frost-600' : 'border-leaf-300'}`;
 
-function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
-  const [siteId, setSiteId] = useState(firstSiteWithPlots(design));
-  const [rows, setRows] = useState<Record<string, Row>>(() =>
-    Object.fromEntries(design.plots.map((p) => [p.id, rowOf(p)])),
-  );
-  const [saved, setSaved] = useState(false);
+/** The plots of one site, one row of counts each; saving sends this site's rows. */
+function SitePlanting({
+  design,
+  slug,
+  plots,
+}: {
+  design: Design;
+  slug: string;
+  plots: DesignPlot[];
+}) {
   const save = useRecordPlanting(slug);
-  const plots = design.plots.filter((p) => p.siteId === siteId);
+  const form = useContractForm(plantingForm, { plots: plots.map(rowOf) });
+  const { errors, isSubmitting, isSubmitSuccessful } = form.formState;
   const entry = new Map(design.entries.map((e) => [e.id, e]));
-  const errors = fieldErrors(save.error);
-  if (design.plots.length === 0)
-    return <p className="rounded-lg bg-white p-4 shadow-sm">No plots yet.</p>;
-
-  const set = (id: string, key: keyof Row, value: string) => {
-    setSaved(false);
-    setRows((r) => ({ ...r, [id]: { ...r[id]!, [key]: value } }));
-  };
-  const body = plots.map((p) => ({
-    plotId: p.id,
-    plantsSet: numberOrNull(rows[p.id]!.plantsSet),
-    plantsSurviving: numberOrNull(rows[p.id]!.plantsSurviving),
-    gaps: numberOrNull(rows[p.id]!.gaps),
-    note: rows[p.id]!.note,
-  }));
-  const errorFor = (i: number) =>
-    Object.entries(errors)
-      .filter(([k]) => k.startsWith(`plots.${i}.`))
-      .map(([, m]) => m)
+  const onSubmit = submitTo(form, (body) => save.mutateAsync(body));
+  const refusal = formRefusal(form);
+  const rowErrors = errors.plots ?? [];
+  const problemAt = (i: number) =>
+    (['plantsSet', 'plantsSurviving', 'gaps', 'note'] as const)
+      .map((k) => rowErrors[i]?.[k]?.message)
+      .filter(Boolean)
       .join(' ');
+  const anyRowProblem = plots.some((_, i) => problemAt(i));
 
   return (
-    <form
-      noValidate
-      aria-label="What was planted"
-      onSubmit={(e) => {
-        e.preventDefault();
-        save.mutate({ plots: body }, { onSuccess: () => setSaved(true) });
-      }}
-      className="space-y-3"
-    >
+    <form noValidate aria-label="What was planted" onSubmit={onSubmit} className="space-y-3">
       <div className="flex flex-wrap items-center gap-3">
-        <SitePicker design={design} value={siteId} onChange={setSiteId} />
         <Button
           type="button"
           variant="secondary"
           disabled={!design.canEdit}
           onClick={() =>
-            plots.forEach((p) => {
-              if (p.plannedPlants != null && rows[p.id]!.plantsSet === '')
-                set(p.id, 'plantsSet', String(p.plannedPlants));
+            plots.forEach((p, i) => {
+              if (p.plannedPlants != null && form.getValues(`plots.${i}.plantsSet`) === '')
+                form.setValue(`plots.${i}.plantsSet`, String(p.plannedPlants));
             })
           }
         >
@@ -93,8 +85,7 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
             </thead>
             <tbody>
               {plots.map((p, i) => {
-                const r = rows[p.id]!;
-                const problem = errorFor(i);
+                const problem = problemAt(i);
                 return (
                   <tr key={p.id} className="border-t border-leaf-50 align-top">
                     <th scope="row" className="p-2">
@@ -105,13 +96,11 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
                     {(['plantsSet', 'plantsSurviving', 'gaps'] as const).map((k) => (
                       <td key={k} className="p-2">
                         <input
-                          aria-label={`${{ plantsSet: 'Plants set', plantsSurviving: 'Survivors', gaps: 'Gaps' }[k]}, plot ${p.plotNumber}`}
-                          type="number"
+                          aria-label={`${countLabels[k]}, plot ${p.plotNumber}`}
                           inputMode="numeric"
-                          min={0}
-                          className={cellInput}
-                          value={r[k]}
-                          onChange={(e) => set(p.id, k, e.target.value)}
+                          aria-invalid={rowErrors[i]?.[k] ? true : undefined}
+                          className={cellInput(!!rowErrors[i]?.[k])}
+                          {...form.register(`plots.${i}.${k}`)}
                         />
                       </td>
                     ))}
@@ -119,8 +108,7 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
                       <input
                         aria-label={`Note, plot ${p.plotNumber}`}
                         className="min-h-11 w-48 rounded border border-leaf-300 bg-white px-2"
-                        value={r.note}
-                        onChange={(e) => set(p.id, 'note', e.target.value)}
+                        {...form.register(`plots.${i}.note`)}
                       />
                       {problem ? <p className="mt-1 text-frost-600">{problem}</p> : null}
                     </td>
@@ -131,24 +119,39 @@ function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
           </table>
         </ScrollRegion>
       </fieldset>
-      <FormError
-        error={
-          Object.keys(errors).length
-            ? new Error('Check the marked plots; nothing was saved.')
-            : save.error
-        }
-      />
-      {saved ? (
+      {anyRowProblem ? (
+        <FormMessage tone="error">Check the marked plots; nothing was saved.</FormMessage>
+      ) : refusal ? (
+        <FormMessage tone="error">{refusal}</FormMessage>
+      ) : null}
+      {isSubmitSuccessful && !refusal ? (
         <p role="status" className="text-leaf-700">
           Saved {plots.length} plots.
         </p>
       ) : null}
       {design.canEdit ? (
-        <Button type="submit" disabled={save.isPending}>
-          {save.isPending ? 'Saving…' : 'Save what was planted'}
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? 'Saving…' : 'Save what was planted'}
         </Button>
       ) : null}
     </form>
+  );
+}
+
+function PlantingEditor({ design, slug }: { design: Design; slug: string }) {
+  const [siteId, setSiteId] = useState(firstSiteWithPlots(design));
+  if (design.plots.length === 0)
+    return <p className="rounded-lg bg-white p-4 shadow-sm">No plots yet.</p>;
+  return (
+    <div className="space-y-3">
+      <SitePicker design={design} value={siteId} onChange={setSiteId} />
+      <SitePlanting
+        key={siteId}
+        design={design}
+        slug={slug}
+        plots={design.plots.filter((p) => p.siteId === siteId)}
+      />
+    </div>
   );
 }
 

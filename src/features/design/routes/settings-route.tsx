@@ -3,50 +3,38 @@ import {
   type Design,
   fertilizerPolicies,
   fertilizerPolicyLabels,
-  type UpdateTrialBody,
+  trialSettingsForm,
 } from '@common/contracts/design';
 import { designLabels, trialDesigns } from '@common/contracts/trials';
-import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { CautionNote } from '@/components/ui/caution-note';
+import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUpdateTrial } from '../api/update-trial';
 import { DeleteTrialSection } from '../components/delete-trial-section';
 import { DesignPage } from '../components/design-page';
-import {
-  fieldErrors,
-  FormError,
-  SelectField,
-  TextArea,
-  TextField,
-} from '../components/form-fields';
 
 const statusLabels = { draft: 'Draft', active: 'Active (in the field)', closed: 'Closed' } as const;
 
 function SettingsForm({ design, slug }: { design: Design; slug: string }) {
   const update = useUpdateTrial(slug);
-  const [saved, setSaved] = useState(false);
-  const errors = fieldErrors(update.error);
   const hasPlots = design.plots.length > 0;
-
-  function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const body: UpdateTrialBody = {
-      title: String(f.get('title')),
-      crop: String(f.get('crop')),
-      season: String(f.get('season')),
-      design: String(f.get('design')) as Design['design'],
-      description: String(f.get('description') ?? ''),
-      sowingDate: String(f.get('sowingDate') ?? '') || null,
-      transplantDate: String(f.get('transplantDate') ?? '') || null,
-      fertilizerPolicy: String(f.get('fertilizerPolicy')) as Design['fertilizerPolicy'],
-      fertilizerNotes: String(f.get('fertilizerNotes') ?? ''),
-    };
-    if (design.status !== 'published')
-      body.status = String(f.get('status')) as (typeof editableStatuses)[number];
-    setSaved(false);
-    update.mutate(body, { onSuccess: () => setSaved(true) });
-  }
+  const published = design.status === 'published';
+  const form = useContractForm(trialSettingsForm, {
+    title: design.title,
+    crop: design.crop,
+    season: design.season,
+    design: design.design,
+    ...(design.status === 'published' ? {} : { status: design.status }),
+    description: design.description,
+    sowingDate: design.sowingDate ?? '',
+    transplantDate: design.transplantDate ?? '',
+    fertilizerPolicy: design.fertilizerPolicy,
+    fertilizerNotes: design.fertilizerNotes,
+  });
+  const { errors, isSubmitting, isSubmitSuccessful } = form.formState;
+  const onSubmit = submitTo(form, (body) => update.mutateAsync(body));
+  const refusal = formRefusal(form);
 
   return (
     <form
@@ -55,83 +43,71 @@ function SettingsForm({ design, slug }: { design: Design; slug: string }) {
       className="max-w-2xl space-y-4 rounded-xl bg-white p-4 shadow-sm"
     >
       <fieldset disabled={!design.canEdit} className="space-y-4">
-        <TextField label="Title" name="title" defaultValue={design.title} error={errors.title} />
+        <TextField label="Title" error={errors.title?.message} {...form.register('title')} />
         <div className="grid gap-4 sm:grid-cols-2">
-          <TextField label="Crop" name="crop" defaultValue={design.crop} error={errors.crop} />
-          <TextField
-            label="Season"
-            name="season"
-            defaultValue={design.season}
-            error={errors.season}
-          />
+          <TextField label="Crop" error={errors.crop?.message} {...form.register('crop')} />
+          <TextField label="Season" error={errors.season?.message} {...form.register('season')} />
         </div>
         <div className="grid gap-4 sm:grid-cols-2">
           <SelectField
             label="Design"
-            name="design"
-            defaultValue={design.design}
             disabled={hasPlots}
             hint={hasPlots ? 'Clear the layout to change the design.' : undefined}
-            error={errors.design}
+            error={errors.design?.message}
             options={trialDesigns.map((d) => [d, designLabels[d]] as const)}
+            {...form.register('design')}
           />
-          {design.status === 'published' ? (
+          {published ? (
             <p className="text-sm">Published: the results sheet is public.</p>
           ) : (
             <SelectField
               label="Status"
-              name="status"
-              defaultValue={design.status}
-              error={errors.status}
+              error={errors.status?.message}
               options={editableStatuses.map((s) => [s, statusLabels[s]] as const)}
+              {...form.register('status')}
             />
           )}
         </div>
         <div className="grid gap-4 sm:grid-cols-2">
           <TextField
             label="Sowing date"
-            name="sowingDate"
             type="date"
-            defaultValue={design.sowingDate ?? ''}
-            error={errors.sowingDate}
+            error={errors.sowingDate?.message}
+            {...form.register('sowingDate')}
           />
           <TextField
             label="Transplant date"
-            name="transplantDate"
             type="date"
-            defaultValue={design.transplantDate ?? ''}
-            error={errors.transplantDate}
+            error={errors.transplantDate?.message}
+            {...form.register('transplantDate')}
           />
         </div>
         <TextArea
           label="Description"
-          name="description"
-          defaultValue={design.description}
-          error={errors.description}
+          error={errors.description?.message}
+          {...form.register('description')}
         />
         <SelectField
           label="Planned fertilizer use"
-          name="fertilizerPolicy"
-          defaultValue={design.fertilizerPolicy}
           hint="The plan; growers record what was applied in the field log."
-          error={errors.fertilizerPolicy}
+          error={errors.fertilizerPolicy?.message}
           options={fertilizerPolicies.map((p) => [p, fertilizerPolicyLabels[p]] as const)}
+          {...form.register('fertilizerPolicy')}
         />
         <TextArea
           label="Fertility notes (amendments before planting, compost, cover crop)"
-          name="fertilizerNotes"
-          defaultValue={design.fertilizerNotes}
-          error={errors.fertilizerNotes}
+          error={errors.fertilizerNotes?.message}
+          {...form.register('fertilizerNotes')}
         />
         <CautionNote id="fertilizer-handling" />
-        <FormError error={update.error} />
-        {saved ? (
+        {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
+        {isSubmitSuccessful && !refusal ? (
           <p role="status" className="text-leaf-700">
             Settings saved.
           </p>
         ) : null}
-        <Button type="submit" disabled={update.isPending}>
-          {update.isPending ? 'Saving…' : 'Save settings'}
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? 'Saving…' : 'Save settings'}
         </Button>
       </fieldset>
     </form>

@@ -2,20 +2,15 @@ import {
   type Design,
   type DesignSite,
   irrigationMethods,
-  type SiteBody,
+  siteForm,
   soilTextures,
 } from '@common/contracts/design';
 import { useState } from 'react';
 import { CautionNote } from '@/components/ui/caution-note';
+import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useDeletePart, useSavePart } from '../api/design-parts';
 import { DesignPage } from '../components/design-page';
-import {
-  fieldErrors,
-  FormError,
-  SelectField,
-  TextArea,
-  TextField,
-} from '../components/form-fields';
 import { PartActions, PartForm, PartFormActions } from '../components/part-editing';
 
 const irrigationLabels: Record<(typeof irrigationMethods)[number], string> = {
@@ -35,28 +30,22 @@ function SiteForm({
   editing: DesignSite | null;
   onDone: () => void;
 }) {
-  const { mutation, save } = useSavePart(slug, 'sites', editing?.id ?? null);
-  const errors = fieldErrors(mutation.error);
-  const [irrigation, setIrrigation] = useState(editing?.irrigationMethod ?? '');
-
-  function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const form = e.currentTarget;
-    const f = new FormData(form);
-    const body: SiteBody = {
-      name: String(f.get('name') ?? ''),
-      region: String(f.get('region') ?? ''),
-      soilTexture: (String(f.get('soilTexture') ?? '') || null) as SiteBody['soilTexture'],
-      irrigationMethod: (String(f.get('irrigationMethod') ?? '') ||
-        null) as SiteBody['irrigationMethod'],
-      notes: String(f.get('notes') ?? ''),
-    };
-    save(body, () => {
-      form.reset();
-      setIrrigation('');
-      onDone();
-    });
-  }
+  const save = useSavePart(slug, 'sites', editing?.id ?? null);
+  const blank = {
+    name: editing?.name ?? '',
+    region: editing?.region ?? '',
+    soilTexture: editing?.soilTexture ?? '',
+    irrigationMethod: editing?.irrigationMethod ?? '',
+    notes: editing?.notes ?? '',
+  };
+  const form = useContractForm(siteForm, blank);
+  const { errors, isSubmitting } = form.formState;
+  const irrigation = form.watch('irrigationMethod');
+  const onSubmit = submitTo(form, async (body) => {
+    await save(body);
+    form.reset(blank);
+    onDone();
+  });
 
   return (
     <PartForm
@@ -64,44 +53,39 @@ function SiteForm({
       title={editing ? `Edit ${editing.name}` : 'Add a site'}
       onSubmit={onSubmit}
     >
-      <TextField label="Site name" name="name" defaultValue={editing?.name} error={errors.name} />
+      <TextField label="Site name" error={errors.name?.message} {...form.register('name')} />
       <TextField
         label="Town or region"
-        name="region"
-        defaultValue={editing?.region}
         hint="No street address or map coordinates: sites appear on the published results sheet."
-        error={errors.region}
+        error={errors.region?.message}
+        {...form.register('region')}
       />
       <div className="grid gap-3 sm:grid-cols-2">
         <SelectField
           label="Soil texture (USDA class)"
-          name="soilTexture"
-          defaultValue={editing?.soilTexture ?? ''}
-          error={errors.soilTexture}
+          error={errors.soilTexture?.message}
           options={[['', 'Not recorded'], ...soilTextures.map((s) => [s, s] as const)]}
+          {...form.register('soilTexture')}
         />
         <SelectField
           label="Irrigation"
-          name="irrigationMethod"
-          value={irrigation}
-          onChange={(e) => setIrrigation(e.target.value)}
-          error={errors.irrigationMethod}
+          error={errors.irrigationMethod?.message}
           options={[
             ['', 'Not recorded'],
             ...irrigationMethods.map((m) => [m, irrigationLabels[m]] as const),
           ]}
+          {...form.register('irrigationMethod')}
         />
       </div>
       {irrigation && irrigation !== 'none' ? <CautionNote id="irrigation-backflow" /> : null}
       <TextArea
         label="Fertility and other notes"
-        name="notes"
-        defaultValue={editing?.notes}
-        error={errors.notes}
+        error={errors.notes?.message}
+        {...form.register('notes')}
       />
       <PartFormActions
-        mutation={mutation}
-        errors={errors}
+        refusal={formRefusal(form)}
+        pending={isSubmitting}
         submitLabel={editing ? 'Save site' : 'Add site'}
         onCancel={editing ? onDone : undefined}
       />
@@ -150,7 +134,7 @@ function Sites({ design, slug }: { design: Design; slug: string }) {
             </li>
           ))}
         </ul>
-        <FormError error={remove.error} />
+        {remove.error ? <FormMessage tone="error">{remove.error.message}</FormMessage> : null}
       </section>
       {design.canEdit && (editing || !layoutExists) ? (
         <SiteForm

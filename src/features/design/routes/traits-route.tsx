@@ -1,18 +1,12 @@
-import { type Design, type TraitBody } from '@common/contracts/design';
+import { customTraitForm, type Design } from '@common/contracts/design';
 import { quantityKinds, traitBases, traitDirections } from '@common/contracts/trials';
 import { presetByKey, traitPresets } from '@common/trait-presets';
-import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { CautionNote } from '@/components/ui/caution-note';
+import { FormMessage, SelectField, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useCreatePart, useDeletePart } from '../api/design-parts';
 import { DesignPage } from '../components/design-page';
-import {
-  fieldErrors,
-  FormError,
-  numberOrNull,
-  SelectField,
-  TextField,
-} from '../components/form-fields';
 
 const kindLabels: Record<(typeof quantityKinds)[number], string> = {
   mass: 'Mass',
@@ -35,34 +29,23 @@ const directionLabels: Record<(typeof traitDirections)[number], string> = {
 
 function CustomTraitForm({ slug }: { slug: string }) {
   const create = useCreatePart(slug, 'traits');
-  const [kind, setKind] = useState<TraitBody['quantityKind']>('count');
-  const errors = fieldErrors(create.error);
-  function onSubmit(e: React.FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const form = e.currentTarget;
-    const f = new FormData(form);
-    const label = String(f.get('label') ?? '');
-    const key =
-      String(f.get('key') ?? '').trim() ||
-      label
-        .toLowerCase()
-        .replace(/[^a-z0-9]+/g, '_')
-        .replace(/^_+|_+$/g, '')
-        .replace(/^([0-9])/, 't_$1')
-        .slice(0, 40);
-    create.mutate(
-      {
-        key,
-        label,
-        quantityKind: kind,
-        basis: String(f.get('basis')) as TraitBody['basis'],
-        direction: String(f.get('direction')) as TraitBody['direction'],
-        scaleMin: kind === 'score' ? numberOrNull(f.get('scaleMin')) : null,
-        scaleMax: kind === 'score' ? numberOrNull(f.get('scaleMax')) : null,
-      },
-      { onSuccess: () => form.reset() },
-    );
-  }
+  const blank = {
+    label: '',
+    key: '',
+    quantityKind: 'count',
+    basis: 'plot',
+    direction: 'higher',
+    scaleMin: '1',
+    scaleMax: '5',
+  } as const;
+  const form = useContractForm(customTraitForm, blank);
+  const { errors, isSubmitting } = form.formState;
+  const kind = form.watch('quantityKind');
+  const onSubmit = submitTo(form, async (body) => {
+    await create.mutateAsync(body);
+    form.reset(blank);
+  });
+  const refusal = formRefusal(form);
   return (
     <form
       onSubmit={onSubmit}
@@ -72,55 +55,52 @@ function CustomTraitForm({ slug }: { slug: string }) {
     >
       <h2 className="text-xl font-semibold text-leaf-900">Add a custom trait</h2>
       <div className="grid gap-3 sm:grid-cols-2">
-        <TextField label="Trait name" name="label" error={errors.label} />
+        <TextField label="Trait name" error={errors.label?.message} {...form.register('label')} />
         <TextField
           label="Key (optional)"
-          name="key"
           hint="Short name in exported files; made from the name when blank."
-          error={errors.key}
+          error={errors.key?.message}
+          {...form.register('key')}
         />
       </div>
       <div className="grid gap-3 sm:grid-cols-3">
         <SelectField
           label="What is recorded"
-          name="quantityKind"
-          value={kind}
-          onChange={(e) => setKind(e.target.value as TraitBody['quantityKind'])}
+          error={errors.quantityKind?.message}
           options={quantityKinds.map((k) => [k, kindLabels[k]] as const)}
+          {...form.register('quantityKind')}
         />
         <SelectField
           label="Basis"
-          name="basis"
-          defaultValue="plot"
+          error={errors.basis?.message}
           options={traitBases.map((b) => [b, basisLabels[b]] as const)}
+          {...form.register('basis')}
         />
         <SelectField
           label="Direction"
-          name="direction"
-          defaultValue="higher"
+          error={errors.direction?.message}
           options={traitDirections.map((d) => [d, directionLabels[d]] as const)}
+          {...form.register('direction')}
         />
       </div>
       {kind === 'score' ? (
         <div className="grid grid-cols-2 gap-3">
           <TextField
             label="Scale from"
-            name="scaleMin"
-            type="number"
-            defaultValue="1"
-            error={errors.scaleMin}
+            inputMode="numeric"
+            error={errors.scaleMin?.message}
+            {...form.register('scaleMin')}
           />
           <TextField
             label="Scale to"
-            name="scaleMax"
-            type="number"
-            defaultValue="5"
-            error={errors.scaleMax}
+            inputMode="numeric"
+            error={errors.scaleMax?.message}
+            {...form.register('scaleMax')}
           />
         </div>
       ) : null}
-      <FormError error={Object.keys(errors).length ? null : create.error} />
-      <Button type="submit" disabled={create.isPending}>
+      {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
+      <Button type="submit" disabled={isSubmitting}>
         Add trait
       </Button>
     </form>
@@ -172,7 +152,7 @@ function Traits({ design, slug }: { design: Design; slug: string }) {
             </li>
           ))}
         </ul>
-        <FormError error={remove.error} />
+        {remove.error ? <FormMessage tone="error">{remove.error.message}</FormMessage> : null}
         {cautionIds.map((id) => (
           <CautionNote key={id} id={id!} className="mt-3" />
         ))}
@@ -198,7 +178,7 @@ function Traits({ design, slug }: { design: Design; slug: string }) {
                 </li>
               ))}
             </ul>
-            <FormError error={create.error} />
+            {create.error ? <FormMessage tone="error">{create.error.message}</FormMessage> : null}
           </section>
           <CustomTraitForm slug={slug} />
         </div>
