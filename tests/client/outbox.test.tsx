@@ -4,8 +4,14 @@
  * is shown with its message; a retried entry carries the same id.
  */
 import { render, screen } from '@testing-library/react';
-import { afterEach, describe, expect, it } from 'vitest';
-import { backoffMs, Outbox, type OutboxItem } from '../../src/features/field-log/api/outbox';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { ApiError } from '../../src/lib/api-client';
+import {
+  backoffMs,
+  Outbox,
+  type OutboxItem,
+  type Upload,
+} from '../../src/features/field-log/api/outbox';
 import { OutboxPanel } from '../../src/features/field-log/components/outbox-panel';
 
 let n = 0;
@@ -41,7 +47,15 @@ function outboxWith(
 }
 afterEach(() => {
   for (const b of opened.splice(0)) b.close();
+  vi.unstubAllGlobals();
 });
+/** The multipart fields a form was given, in order: name, value and the file's name. */
+class RecordingForm {
+  parts: [string, string, string?][] = [];
+  append(name: string, value: unknown, fileName?: string) {
+    this.parts.push(fileName === undefined ? [name, String(value)] : [name, '(file)', fileName]);
+  }
+}
 
 const entry = (id: string, label = `Plot 101 · harvest ${id}`) => ({
   id,
@@ -172,6 +186,67 @@ describe('the outbox', () => {
     expect(q!.message).toMatch(/kept on this device/);
     expect(sent).toHaveLength(0);
     void box;
+  });
+
+  it('sends a photo through the upload path with progress, and reads its refusal like any answer', async () => {
+    const shares: (number | undefined)[] = [];
+    const uploads: { url: string; fields: Record<string, string>; file: string }[] = [];
+    let box: Outbox | null = null;
+    const upload = (async (url, _schema, options) => {
+      const form = options.body as unknown as RecordingForm;
+      uploads.push({
+        url,
+        fields: Object.fromEntries(form.parts.filter((p) => p[0] !== 'photo')),
+        file: form.parts.find((p) => p[0] === 'photo')![2]!,
+      });
+      options.onProgress?.({ loaded: 50, total: 200 });
+      shares.push((await box!.list('brookfold'))[0]!.progress);
+      if (uploads.length === 1)
+        throw new ApiError(413, 'too_large', 'Too large.', {
+          fields: [{ path: 'photo', message: 'The photo is larger than 15 MB.' }],
+        });
+      return {};
+    }) as Upload;
+    // jsdom's FormData refuses the Blob that comes back from the in-memory IndexedDB (a jsdom
+    // limitation; a browser keeps it a Blob), so the form the outbox builds is recorded instead.
+    vi.stubGlobal('FormData', RecordingForm);
+    const send = (async () => json(200, { user: me(wren) })) as typeof fetch;
+    box = new Outbox(send, `outbox-test-${++n}`, upload);
+    opened.push(box);
+    const photo = (id: string) => ({
+      id,
+      trialSlug: 'brookfold',
+      kind: 'photo' as const,
+      method: 'POST' as const,
+      url: '/api/trials/brookfold/photos',
+      body: { caption: 'Plot 101', takenOn: '2026-07-01', skipped: null },
+      file: new Blob(['jpeg bytes'], { type: 'image/jpeg' }),
+      fileName: `${id}.jpg`,
+      label: `Plot 101 · photo ${id}`,
+    });
+    await box.add([photo('ph1')], wren);
+    await box.flush();
+    expect(await box.list('brookfold')).toMatchObject([
+      { state: 'refused', message: 'The photo is larger than 15 MB.' },
+    ]);
+    await box.add([photo('ph2')], wren);
+    await box.flush();
+    expect(await states(box)).toEqual({ ph1: 'refused', ph2: 'saved' });
+    expect(uploads).toEqual([
+      {
+        url: '/api/trials/brookfold/photos',
+        fields: { caption: 'Plot 101', takenOn: '2026-07-01' },
+        file: 'ph1.jpg',
+      },
+      {
+        url: '/api/trials/brookfold/photos',
+        fields: { caption: 'Plot 101', takenOn: '2026-07-01' },
+        file: 'ph2.jpg',
+      },
+    ]);
+    // A quarter of the bytes sent shows as 0.25 while the upload runs, and is gone after.
+    expect(shares).toEqual([0.25, 0.25]);
+    expect((await box.list('brookfold')).every((i) => i.progress === undefined)).toBe(true);
   });
 
   it('backs off 1, 2, 4 … seconds up to a minute (common practice, no source)', () => {

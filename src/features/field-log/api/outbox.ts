@@ -7,11 +7,13 @@
  * Each entry remembers the account that queued it and is sent only while that account is the
  * one signed in (a phone shared by two growers): before sending, the outbox asks the server
  * whose session this is. Photos wait in the same queue, their file kept as a Blob, and go up
- * as multipart with upload progress.
+ * as multipart with upload progress. Every request goes through the app's API client, so an
+ * answer is read, and a refusal explained, exactly as everywhere else.
  */
-import { apiErrorBodySchema } from '@common/api-error';
 import { sessionSchema } from '@common/contracts/me';
 import { type DBSchema, type IDBPDatabase, openDB } from 'idb';
+import { z } from 'zod';
+import { ApiError, apiUpload, createApiClient, type FetchLike } from '@/lib/api-client';
 
 export type OutboxState = 'waiting' | 'sending' | 'saved' | 'refused';
 export type OutboxKind = 'harvest' | 'observation' | 'field-event' | 'stand-count' | 'photo';
@@ -51,12 +53,8 @@ export interface OutboxAccount {
   name: string;
 }
 
-/** Sends a multipart form, reporting upload progress (fetch reports none). */
-export type Upload = (
-  url: string,
-  form: FormData,
-  onProgress: (share: number) => void,
-) => Promise<Response>;
+/** Sends a multipart form with upload progress, read as `api` reads answers (`apiUpload`). */
+export type Upload = typeof apiUpload;
 
 interface OutboxDb extends DBSchema {
   outbox: { key: string; value: OutboxItem; indexes: { 'by-trial': string } };
@@ -79,28 +77,6 @@ export const backoffMs = (attempts: number) =>
 const retryable = (status: number) =>
   status === 401 || status === 408 || status === 429 || status >= 500;
 
-/** XMLHttpRequest behind the fetch-shaped answer, for its upload progress events. */
-export const xhrUpload: Upload = (url, form, onProgress) =>
-  new Promise((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', url);
-    xhr.withCredentials = true;
-    xhr.setRequestHeader('Accept', 'application/json');
-    xhr.upload.onprogress = (e) => {
-      if (e.lengthComputable && e.total > 0) onProgress(e.loaded / e.total);
-    };
-    xhr.onload = () =>
-      resolve(
-        new Response(xhr.status === 204 ? null : xhr.responseText, {
-          status: xhr.status,
-          headers: { 'Content-Type': xhr.getResponseHeader('Content-Type') ?? 'text/plain' },
-        }),
-      );
-    xhr.onerror = () => reject(new TypeError('The connection dropped.'));
-    xhr.onabort = () => reject(new TypeError('The upload was stopped.'));
-    xhr.send(form);
-  });
-
 export class Outbox {
   private db: Promise<IDBPDatabase<OutboxDb>>;
   private listeners = new Set<() => void>();
@@ -109,12 +85,14 @@ export class Outbox {
   private timer: ReturnType<typeof setTimeout> | null = null;
   private onSaved = new Set<(item: OutboxItem) => void>();
   private progress = new Map<string, number>();
+  private readonly api: ReturnType<typeof createApiClient>;
 
   constructor(
-    private readonly send: typeof fetch = (...args) => fetch(...args),
+    send?: FetchLike,
     name = DB_NAME,
-    private readonly upload: Upload = xhrUpload,
+    private readonly upload: Upload = apiUpload,
   ) {
+    this.api = createApiClient(send);
     this.db = openDB<OutboxDb>(name, 1, {
       upgrade(db) {
         const store = db.createObjectStore('outbox', { keyPath: 'id' });
@@ -216,13 +194,7 @@ export class Outbox {
   /** Whose session the browser holds now: an account, null when signed out, or no answer. */
   private async signedIn(): Promise<OutboxAccount | null | 'no-answer'> {
     try {
-      const response = await this.send('/api/session', {
-        credentials: 'same-origin',
-        headers: { Accept: 'application/json' },
-      });
-      if (!response.ok) return 'no-answer';
-      const parsed = sessionSchema.safeParse(await response.json());
-      return parsed.success ? parsed.data.user : 'no-answer';
+      return (await this.api('/api/session', sessionSchema)).user;
     } catch {
       return 'no-answer';
     }
@@ -253,61 +225,71 @@ export class Outbox {
     this.schedule();
   }
 
-  private request(item: OutboxItem): Promise<Response> {
+  private request(item: OutboxItem): Promise<unknown> {
     if (item.kind === 'photo' && item.file) {
       const form = new FormData();
       for (const [k, v] of Object.entries(item.body as Record<string, unknown>))
         if (v !== undefined && v !== null) form.append(k, String(v));
       form.append('photo', item.file, item.fileName ?? 'photo.jpg');
-      return this.upload(item.url, form, (share) => {
-        this.progress.set(item.id, share);
-        this.emit();
+      return this.upload(item.url, z.unknown(), {
+        body: form,
+        method: item.method,
+        onProgress: ({ loaded, total }) => {
+          if (total <= 0) return;
+          this.progress.set(item.id, loaded / total);
+          this.emit();
+        },
       });
     }
-    return this.send(item.url, {
-      method: item.method,
-      credentials: 'same-origin',
-      headers: { 'Content-Type': 'application/json', Accept: 'application/json' },
-      body: JSON.stringify(item.body),
-    });
+    return this.api(item.url, null, { method: item.method, body: item.body });
   }
 
+  /** Sends one entry; false when the connection is down, so the rest of the round waits too. */
   private async sendOne(item: OutboxItem): Promise<boolean> {
     await this.put({ ...item, state: 'sending', attempts: item.attempts + 1 });
-    let response: Response;
     try {
-      response = await this.request(item);
-    } catch {
+      await this.request(item);
+    } catch (err) {
       this.progress.delete(item.id);
-      await this.wait(item, NO_CONNECTION);
-      return false;
-    }
-    this.progress.delete(item.id);
-    if (response.ok) {
-      const saved = {
+      const refusal = err instanceof ApiError ? err : null;
+      if (refusal === null) {
+        // Not an answer at all (say, a photo's file the browser no longer holds): sending it
+        // again would fail the same way.
+        const why = err instanceof Error ? err.message : String(err);
+        await this.put({
+          ...item,
+          state: 'refused',
+          attempts: item.attempts + 1,
+          message: `Could not be sent from this device: ${why}`,
+        });
+        return true;
+      }
+      if (refusal.status === 0) {
+        await this.wait(item, NO_CONNECTION);
+        return false;
+      }
+      if (retryable(refusal.status)) {
+        await this.wait(item, refusal.status === 401 ? SIGNED_OUT : refusal.summary);
+        return false;
+      }
+      await this.put({
         ...item,
-        state: 'saved' as const,
-        message: null,
-        savedAt: Date.now(),
+        state: 'refused',
         attempts: item.attempts + 1,
-      };
-      await this.put(saved);
-      for (const l of this.onSaved) l(saved);
+        message: refusal.summary,
+      });
       return true;
     }
-    const parsed = apiErrorBodySchema.safeParse(await response.json().catch(() => null));
-    const fields = parsed.success
-      ? ((parsed.data.error.details as { fields?: { message: string }[] } | undefined)?.fields ??
-        [])
-      : [];
-    const message =
-      fields.map((f) => f.message).join(' ') ||
-      (parsed.success ? parsed.data.error.message : `The server answered ${response.status}.`);
-    if (retryable(response.status)) {
-      await this.wait(item, response.status === 401 ? SIGNED_OUT : message);
-      return false;
-    }
-    await this.put({ ...item, state: 'refused', attempts: item.attempts + 1, message });
+    this.progress.delete(item.id);
+    const saved = {
+      ...item,
+      state: 'saved' as const,
+      message: null,
+      savedAt: Date.now(),
+      attempts: item.attempts + 1,
+    };
+    await this.put(saved);
+    for (const l of this.onSaved) l(saved);
     return true;
   }
 
