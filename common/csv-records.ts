@@ -8,9 +8,15 @@ import {
   observationValueProblem,
   storedUnitOf,
   type ImportRowError,
-  type TraitRule,
 } from './contracts/records';
 import { readDecimal } from './decimal';
+import {
+  readSheetColumn,
+  type SheetColumn,
+  type SheetTrait,
+  sheetLeadColumns,
+  sheetNoteColumn,
+} from './recording-sheet';
 import { type QuantityUnit, toStored } from './units';
 
 export const harvestCsvColumns = [
@@ -56,14 +62,13 @@ export interface CsvPlot {
   entryCode: string;
   label: string;
 }
-export interface CsvTrait extends TraitRule {
-  id: string;
-  key: string;
-}
+export type CsvTrait = SheetTrait;
 export interface CsvLookups {
   siteNames: string[];
   plot(siteName: string, plotNumber: number): CsvPlot | undefined;
   trait?(key: string): CsvTrait | undefined;
+  /** every trait of the trial, for a recording sheet's columns */
+  traits?: readonly CsvTrait[];
   today?: string;
 }
 
@@ -76,6 +81,8 @@ export interface ParsedHarvestRow {
   massG: number;
   grade: 'marketable' | 'cull';
   note: string;
+  /** on a recording sheet, the column(s) the record was read from */
+  source?: string;
 }
 export interface ParsedObservationRow {
   row: number;
@@ -87,6 +94,7 @@ export interface ParsedObservationRow {
   value: number | null;
   valueDate: string | null;
   note: string;
+  source?: string;
 }
 
 export interface CsvCheck<T> {
@@ -386,4 +394,150 @@ export function checkObservationCsv(
     });
   });
   return { columns: head.names, records, errors };
+}
+
+// ---------- The recording sheet, typed in ----------
+
+/** A typed-in cell as a number, or the row's problem with it. */
+function sheetNumber(text: string, column: SheetColumn): number | string {
+  const n = readDecimal(text);
+  if (n === null) return `${column.heading}: enter a number.`;
+  return n;
+}
+
+/**
+ * A recording sheet typed into a spreadsheet: each plot row becomes its harvests (marketable
+ * and cull, count and mass together) and one observation per filled trait cell, in stored
+ * units. Rows with no value typed are plots not recorded this round, and are skipped.
+ */
+export function checkRecordingSheetCsv(
+  rows: string[][],
+  lookups: CsvLookups,
+): CsvCheck<ParsedHarvestRow | ParsedObservationRow> {
+  const errors: ImportRowError[] = [];
+  const today = lookups.today ?? latestRecordDate();
+  const traits = lookups.traits ?? [];
+  if (rows.length === 0) {
+    errors.push({ row: 1, column: '', message: 'The file has no header row.' });
+    return { columns: [], records: [], errors };
+  }
+  const { names, col } = headerIndex(rows[0]!);
+  const fixed: readonly string[] = [...sheetLeadColumns, sheetNoteColumn];
+  for (const name of ['plot_number', 'recorded_on'])
+    if (col(name) < 0)
+      errors.push({ row: 1, column: name, message: `The header has no ${name} column.` });
+  const columns: SheetColumn[] = [];
+  names.forEach((name) => {
+    if (!name || fixed.includes(name)) return;
+    const read = readSheetColumn(name, traits);
+    if ('problem' in read) errors.push({ row: 1, column: name, message: read.problem });
+    else if (columns.some((c) => c.name === name))
+      errors.push({ row: 1, column: name, message: `The column ${name} appears twice.` });
+    else columns.push(read);
+  });
+  if (!errors.length && columns.length === 0)
+    errors.push({ row: 1, column: '', message: 'The header has no column to record in.' });
+  if (errors.length) return { columns: names, records: [], errors };
+
+  const records: (ParsedHarvestRow | ParsedObservationRow)[] = [];
+  const rowOfPlotDate = new Map<string, number>();
+  rows.slice(1).forEach((row, i) => {
+    const rowNo = i + 2;
+    const cell = cellsOf(row, col);
+    const filled = columns.filter((c) => cell(c.name) !== '');
+    if (filled.length === 0 && !cell(sheetNoteColumn)) return; // a plot not recorded this round
+    const before = errors.length;
+    const problem = (column: string, message: string) =>
+      errors.push({ row: rowNo, column, message });
+    const plot = plotOf(cell, rowNo, lookups, errors);
+    const date = cell('recorded_on');
+    const dateProblem = date ? checkDate(date, today) : 'Enter the date the plot was recorded.';
+    if (dateProblem) problem('recorded_on', dateProblem);
+    const note = cell(sheetNoteColumn);
+    if (note.length > 2000) problem(sheetNoteColumn, 'Use at most 2000 characters.');
+    const earlier = plot && !dateProblem ? rowOfPlotDate.get(`${plot.id}#${date}`) : undefined;
+    if (earlier)
+      problem(
+        'plot_number',
+        `Row ${earlier} already records this plot on ${date}: join the two rows.`,
+      );
+    else if (plot && !dateProblem) rowOfPlotDate.set(`${plot.id}#${date}`, rowNo);
+    if (filled.length === 0)
+      problem(
+        sheetNoteColumn,
+        'A note needs a value beside it; write plot notes in the field log.',
+      );
+    const found: (ParsedHarvestRow | ParsedObservationRow)[] = [];
+    for (const grade of ['marketable', 'cull'] as const) {
+      const countCol = columns.find((c) => c.kind === 'harvest-count' && c.grade === grade);
+      const massCol = columns.find((c) => c.kind === 'harvest-mass' && c.grade === grade);
+      const countText = countCol ? cell(countCol.name) : '';
+      const massText = massCol ? cell(massCol.name) : '';
+      if (!countText && !massText) continue;
+      if (!countText || !massText) {
+        const missing = countText ? massCol : countCol;
+        problem(
+          missing?.name ?? `${grade}_count`,
+          countText ? 'Enter the mass of these fruit too.' : 'Enter how many fruit too.',
+        );
+        continue;
+      }
+      const count = sheetNumber(countText, countCol!);
+      const mass = sheetNumber(massText, massCol!);
+      if (typeof count === 'string') problem(countCol!.name, count);
+      else if (!Number.isInteger(count) || count < 0)
+        problem(countCol!.name, 'The count must be a whole number, 0 or more.');
+      if (typeof mass === 'string') problem(massCol!.name, mass);
+      else if (mass < 0) problem(massCol!.name, 'The mass cannot be negative.');
+      if (typeof count === 'string' || typeof mass === 'string' || massCol?.kind !== 'harvest-mass')
+        continue;
+      found.push({
+        row: rowNo,
+        id: null,
+        plot: plot!,
+        harvestedOn: date,
+        fruitCount: count,
+        massG: toStored(mass, massCol.valueUnit),
+        grade,
+        note,
+        source: `${countCol!.name}+${massCol.name}`,
+      });
+    }
+    for (const c of filled) {
+      if (c.kind !== 'trait') continue;
+      const text = cell(c.name);
+      const t = c.trait;
+      let value: number | null = null;
+      let valueDate: string | null = null;
+      if (t.quantityKind === 'date') {
+        const p = checkDate(text, today);
+        if (p) problem(c.name, p);
+        valueDate = text;
+      } else {
+        const typed = sheetNumber(text, c);
+        if (typeof typed === 'string') {
+          problem(c.name, typed);
+          continue;
+        }
+        value = c.valueUnit ? toStored(typed, c.valueUnit) : typed;
+        const p = observationValueProblem(t, value, null);
+        if (p) problem(c.name, p.message);
+      }
+      found.push({
+        row: rowNo,
+        id: null,
+        plot: plot!,
+        trait: t,
+        observedOn: date,
+        plantNumber: c.plant,
+        value,
+        valueDate,
+        note,
+        source: c.name,
+      });
+    }
+    if (errors.length > before || !plot) return;
+    records.push(...found);
+  });
+  return { columns: names, records, errors };
 }

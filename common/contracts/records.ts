@@ -380,10 +380,11 @@ export const auditListSchema = z.object({
 
 // ---------- CSV import and export ----------
 
-export const importKinds = ['harvests', 'observations'] as const;
+/** A recording sheet ("sheet") carries harvests and observations of one round, a plot a row. */
+export const importKinds = ['harvests', 'observations', 'sheet'] as const;
 export type ImportKind = (typeof importKinds)[number];
 export const importBody = z.object({
-  kind: z.enum(importKinds, { error: 'Choose harvests or observations.' }),
+  kind: z.enum(importKinds, { error: 'Choose harvests, observations or a recording sheet.' }),
   csv: z
     .string()
     .min(1, 'The file is empty.')

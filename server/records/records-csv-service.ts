@@ -1,13 +1,18 @@
+import { createHash } from 'node:crypto';
 import { parse } from 'csv-parse/sync';
 import { decimalsFor, exportNumber, recordedDecimals } from '../../common/precision';
 import type { ExportDataset, ImportKind, ImportPreview } from '../../common/contracts/records';
 import { storedUnitOf } from '../../common/contracts/records';
 import {
+  type CsvCheck,
   type CsvLookups,
+  type ParsedHarvestRow,
+  type ParsedObservationRow,
   type CsvPlot,
   type CsvTrait,
   checkHarvestCsv,
   checkObservationCsv,
+  checkRecordingSheetCsv,
   harvestCsvColumns,
   observationCsvColumns,
 } from '../../common/csv-records';
@@ -20,6 +25,18 @@ import { createOnce } from './record-changes';
 import { fromSpreadsheetSafe, writeCsv } from '../../common/csv';
 import * as repo from './records-repository';
 import { requireActorOf } from './records-actor';
+
+/**
+ * A record id made from the trial, plot, date and sheet column: stable across imports of the
+ * same sheet. Formatted as a version-8 UUID (RFC 9562, custom bits).
+ */
+export function sheetRecordId(trialId: string, plotId: string, date: string, column: string) {
+  const h = createHash('sha256')
+    .update(`recording-sheet\n${trialId}\n${plotId}\n${date}\n${column}`)
+    .digest('hex');
+  const variant = ((parseInt(h[16]!, 16) & 0x3) | 0x8).toString(16);
+  return `${h.slice(0, 8)}-${h.slice(8, 12)}-8${h.slice(13, 16)}-${variant}${h.slice(17, 20)}-${h.slice(20, 32)}`;
+}
 
 function parseCsv(text: string): string[][] {
   try {
@@ -68,6 +85,7 @@ async function lookupsFor(
         key: t.key,
         label: t.label,
         quantityKind: t.quantity_kind,
+        basis: t.basis,
         scaleMin: t.scale_min,
         scaleMax: t.scale_max,
       },
@@ -78,10 +96,14 @@ async function lookupsFor(
       siteNames: sites.map((s) => s.name),
       plot: (site, n) => byKey.get(`${site.toLowerCase()}#${n}`),
       trait: (key) => traitByKey.get(key.toLowerCase()),
+      traits: [...traitByKey.values()],
     },
     plotSite,
   };
 }
+
+/** Counts and scores are numbers without a unit. */
+const unitless = new Set(['count', 'score']);
 
 interface Checked {
   loaded: LoadedTrial;
@@ -100,8 +122,22 @@ async function check(
   const loaded = await trialForAction(db, slug, actor, 'records.write');
   const { lookups, plotSite } = await lookupsFor(db, loaded.trial.id);
   const rows = parseCsv(csv);
-  const result =
-    kind === 'harvests' ? checkHarvestCsv(rows, lookups) : checkObservationCsv(rows, lookups);
+  const result: CsvCheck<ParsedHarvestRow | ParsedObservationRow> =
+    kind === 'harvests'
+      ? checkHarvestCsv(rows, lookups)
+      : kind === 'observations'
+        ? checkObservationCsv(rows, lookups)
+        : checkRecordingSheetCsv(rows, lookups);
+  // A sheet's records have no ids of their own: each gets one from where it was written, so the
+  // same sheet imported twice is recorded once.
+  for (const r of result.records)
+    if (r.id === null && r.source)
+      r.id = sheetRecordId(
+        loaded.trial.id,
+        r.plot.id,
+        'harvestedOn' in r ? r.harvestedOn : r.observedOn,
+        r.source,
+      );
   const errors = [...result.errors];
   // Growers import only at their own sites; the whole file is refused otherwise.
   const forbiddenRows: number[] = [];
@@ -113,34 +149,42 @@ async function check(
       errors.push({ row: r.row, column: 'site', message: 'You may not record at this site.' });
     }
   }
-  const table = kind === 'harvests' ? 'harvests' : 'observations';
-  const ids = result.records.map((r) => r.id).filter((id): id is string => id !== null);
-  const existing = new Map((await repo.existingIds(db, table, ids)).map((e) => [e.id, e.trial_id]));
-  const already = new Set<number>();
+  const idsIn = (harvests: boolean) =>
+    result.records
+      .filter((r) => 'harvestedOn' in r === harvests)
+      .map((r) => r.id)
+      .filter((id): id is string => id !== null);
+  const existing = new Map(
+    [
+      ...(await repo.existingIds(db, 'harvests', idsIn(true))),
+      ...(await repo.existingIds(db, 'observations', idsIn(false))),
+    ].map((e) => [e.id, e.trial_id]),
+  );
+  const already = new Set<(typeof result.records)[number]>();
   for (const r of result.records) {
     if (!r.id || !existing.has(r.id)) continue;
-    if (existing.get(r.id) === loaded.trial.id) already.add(r.row);
+    if (existing.get(r.id) === loaded.trial.id) already.add(r);
     else r.id = null; // an id from another trial's export: a new record here
   }
   const errorRows = new Set(errors.map((e) => e.row));
   const describe = (r: (typeof result.records)[number]) =>
     'harvestedOn' in r
       ? `${r.harvestedOn}: ${r.fruitCount} fruit, ${Math.round(r.massG * 10) / 10} g, ${r.grade}`
-      : `${r.observedOn}: ${r.trait.label}${r.plantNumber ? ` plant ${r.plantNumber}` : ''} = ${r.value ?? r.valueDate}${r.value !== null ? ` ${storedUnitOf(r.trait.quantityKind)}` : ''}`;
+      : `${r.observedOn}: ${r.trait.label}${r.plantNumber ? ` plant ${r.plantNumber}` : ''} = ${r.value ?? r.valueDate}${r.value !== null && !unitless.has(r.trait.quantityKind) ? ` ${storedUnitOf(r.trait.quantityKind)}` : ''}`;
   const preview: ImportPreview = {
     kind,
     columns: result.columns,
     rows: result.records.map((r) => ({
       row: r.row,
-      status: errorRows.has(r.row) ? 'error' : already.has(r.row) ? 'already_recorded' : 'new',
+      status: errorRows.has(r.row) ? 'error' : already.has(r) ? 'already_recorded' : 'new',
       plotLabel: r.plot.label,
       summary: describe(r),
     })),
     errors: errors.sort((a, b) => a.row - b.row),
-    newCount: result.records.filter((r) => !already.has(r.row) && !errorRows.has(r.row)).length,
+    newCount: result.records.filter((r) => !already.has(r) && !errorRows.has(r.row)).length,
     alreadyRecordedCount: already.size,
   };
-  const fresh = result.records.filter((r) => !already.has(r.row));
+  const fresh = result.records.filter((r) => !already.has(r));
   return {
     loaded,
     forbiddenRows,
@@ -209,12 +253,14 @@ export async function commitImport(
   csv: string,
 ) {
   const { preview, write, forbiddenRows } = await check(db, slug, actor, kind, csv);
-  if (forbiddenRows.length)
+  if (forbiddenRows.length) {
+    const rows = [...new Set(forbiddenRows)];
     throw new AppError(
       'forbidden',
-      `Rows ${forbiddenRows.join(', ')} are at a site where you may not record; nothing was imported.`,
+      `${rows.length === 1 ? 'Row' : 'Rows'} ${rows.join(', ')} ${rows.length === 1 ? 'is' : 'are'} at a site where you may not record; nothing was imported.`,
       { rows: preview.errors },
     );
+  }
   if (preview.errors.length) {
     const rowsWithErrors = [...new Set(preview.errors.map((e) => e.row))];
     throw new AppError(
