@@ -1,5 +1,4 @@
-import type { Kysely } from 'kysely';
-import { type MigrationResultSet, Migrator } from 'kysely';
+import { type Kysely, type MigrationResultSet, Migrator, sql } from 'kysely';
 import { migrations } from './migrations/index';
 
 export function createMigrator(db: Kysely<any>): Migrator {
@@ -20,10 +19,25 @@ function check({ error, results }: MigrationResultSet): void {
   }
 }
 
+/** Our own key for "migrating Rowtally's schema" among PostgreSQL's session advisory locks. */
+const MIGRATION_LOCK = sql.lit(0x526f7754); // 'RowT'
+
+/**
+ * Migrate to the latest schema, once however many servers start together: the whole run,
+ * including creating the migrator's own tables, holds one advisory lock on one connection, so
+ * the others wait and then find nothing left to do.
+ */
 export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
-  const result = await createMigrator(db).migrateToLatest();
-  check(result);
-  return (result.results ?? []).map((r) => r.migrationName);
+  return db.connection().execute(async (conn) => {
+    await sql`select pg_advisory_lock(${MIGRATION_LOCK})`.execute(conn);
+    try {
+      const result = await createMigrator(conn).migrateToLatest();
+      check(result);
+      return (result.results ?? []).map((r) => r.migrationName);
+    } finally {
+      await sql`select pg_advisory_unlock(${MIGRATION_LOCK})`.execute(conn);
+    }
+  });
 }
 
 /** Undo every migration, newest first. */

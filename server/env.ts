@@ -1,8 +1,17 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
 
-export const projectRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+/** The folder holding package.json: found upwards, so source (server/) and build (dist/server/) agree. */
+function findProjectRoot(from: string): string {
+  for (let dir = from; ; dir = path.dirname(dir)) {
+    if (fs.existsSync(path.join(dir, 'package.json'))) return dir;
+    if (path.dirname(dir) === dir) return path.resolve(from, '..');
+  }
+}
+
+export const projectRoot = findProjectRoot(path.dirname(fileURLToPath(import.meta.url)));
 
 const port = z.coerce.number().int().min(1).max(65535);
 
@@ -21,6 +30,8 @@ const envSchema = z.object({
   /** Longest one analysis may run before it is stopped and answered 422. */
   ANALYSIS_TIME_LIMIT_MS: z.coerce.number().int().min(50).max(600_000).default(10_000),
   AUTH_SECRET: z.string().min(32).optional(),
+  /** `off` sends no mail at all (links are shown only in the log); production must say so. */
+  MAIL_DRIVER: z.enum(['smtp', 'off']).default('smtp'),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: port.default(2525),
   SMTP_USER: z.string().optional(),
@@ -34,6 +45,8 @@ const envSchema = z.object({
   S3_REGION: z.string().default('us-east-1'),
   S3_ACCESS_KEY_ID: z.string().optional(),
   S3_SECRET_ACCESS_KEY: z.string().optional(),
+  /** How many app servers share this database; more than one needs the shared bucket. */
+  INSTANCE_COUNT: z.coerce.number().int().min(1).max(64).default(1),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -47,4 +60,27 @@ export function parseEnv(source: NodeJS.ProcessEnv = process.env): Env {
     throw new Error(`Invalid configuration in the environment:\n${lines.join('\n')}`);
   }
   return result.data;
+}
+
+/**
+ * What a production start refuses to run without, each with the variable to set. A production
+ * server never falls back to a generated secret, the loopback mail capture, or photo files in
+ * one host's folder when several hosts answer.
+ */
+export function productionProblems(env: Env, source: NodeJS.ProcessEnv = process.env): string[] {
+  const problems: string[] = [];
+  if (!env.AUTH_SECRET)
+    problems.push(
+      'AUTH_SECRET: set a random secret of 32+ characters, the same on every instance.',
+    );
+  if (!env.PUBLIC_URL)
+    problems.push('PUBLIC_URL: set the address people reach the app at (links in mail use it).');
+  if (!env.DATABASE_URL) problems.push('DATABASE_URL: set the PostgreSQL connection string.');
+  if (env.MAIL_DRIVER === 'smtp' && !source.SMTP_HOST)
+    problems.push('SMTP_HOST: name the mail relay, or set MAIL_DRIVER=off to send no mail.');
+  if (env.INSTANCE_COUNT > 1 && env.STORAGE_DRIVER !== 's3')
+    problems.push(
+      `STORAGE_DRIVER: ${env.INSTANCE_COUNT} instances need STORAGE_DRIVER=s3, so every instance sees every photo.`,
+    );
+  return problems;
 }

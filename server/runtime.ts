@@ -9,7 +9,7 @@ import type { AppDeps } from './app-deps';
 import { createAuth } from './auth/auth';
 import { type Env, projectRoot } from './env';
 import type { CaptureServer } from './mail/capture-server';
-import { createSmtpMailer, type Mailer } from './mail/mailer';
+import { createMailer, type Mailer } from './mail/mailer';
 import { purgeDeletedPhotos } from './photos/photos-service';
 import { closeAnalysisPool, setAnalysisTimeLimit } from './analysis/analysis-pool';
 import { createStorage } from './storage/create-storage';
@@ -61,7 +61,7 @@ export function createRuntime(opts: RuntimeOptions) {
   );
   const db = createDb(pool);
   setAnalysisTimeLimit(env.ANALYSIS_TIME_LIMIT_MS);
-  const mailer = opts.mailer ?? createSmtpMailer(env, logger);
+  const mailer = opts.mailer ?? createMailer(env, logger);
   const baseUrl = opts.baseUrl ?? env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
   const auth = createAuth({ pool, db, env, mailer, logger, baseUrl, secret: authSecret(env) });
   const deps: AppDeps = {

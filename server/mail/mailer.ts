@@ -15,6 +15,20 @@ export interface Mailer {
   send(mail: OutgoingMail): Promise<void>;
 }
 
+/** The mailer the environment names: SMTP, or none (MAIL_DRIVER=off: logged, never sent). */
+export function createMailer(env: Env, logger: Logger): Mailer {
+  if (env.MAIL_DRIVER === 'off')
+    return {
+      async send(mail) {
+        logger.info(
+          { to: mail.to, subject: mail.subject },
+          'mail is off (MAIL_DRIVER=off): not sent',
+        );
+      },
+    };
+  return createSmtpMailer(env, logger);
+}
+
 const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 /** nodemailer over SMTP. A failed send is retried with back-off, then reported to the caller. */

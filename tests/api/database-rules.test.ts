@@ -7,7 +7,9 @@ import {
   type TestDatabase,
 } from '../support/test-database';
 import { databaseColumns } from '../../db/schema';
+import { createDb, createPool } from '../../db/database';
 import { migrateDownAll, migrateToLatest } from '../../db/migrator';
+import { migrations } from '../../db/migrations/index';
 import { createAuth } from '../../server/auth/auth';
 import { parseEnv } from '../../server/env';
 import pino from 'pino';
@@ -32,6 +34,25 @@ describe('migrations', () => {
       expect(tables.map((t) => t.name).filter((n) => !n.startsWith('kysely_'))).toEqual([]);
       expect(await migrateToLatest(e.db)).toEqual(up);
     } finally {
+      await e.drop();
+    }
+  });
+
+  it('run once when several servers start together on an empty database', async () => {
+    const e = await createEmptyDatabase();
+    const others = [createPool(e.url, 2), createPool(e.url, 2)].map((pool) => createDb(pool));
+    try {
+      const runs = await Promise.all([e.db, ...others].map((db) => migrateToLatest(db)));
+      // One server applied everything; the others waited on the lock and found nothing to do.
+      const all = Object.keys(migrations).sort();
+      expect(runs.map((r) => r.length).sort((a, b) => a - b)).toEqual([0, 0, all.length]);
+      expect(runs.flat().sort()).toEqual(all);
+      const applied = await sql<{
+        n: number;
+      }>`select count(*)::int as n from kysely_migration`.execute(e.db);
+      expect(applied.rows[0]!.n).toBe(all.length);
+    } finally {
+      await Promise.all(others.map((db) => db.destroy()));
       await e.drop();
     }
   });

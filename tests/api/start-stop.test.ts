@@ -51,8 +51,8 @@ function kill(child: ChildProcess, signal: NodeJS.Signals) {
 }
 
 /**
- * Starts `npm start -- --no-build`, or without npm the command it runs (`node --import tsx
- * scripts/start.ts`); resolves once it says it is running.
+ * Starts `npm start -- --no-build` (the built dist/server/start.js), or without npm the same
+ * script from source (`node --import tsx scripts/start.ts`); resolves once it says it is running.
  */
 async function start(via: 'npm' | 'node' = 'npm') {
   const [cmd, args] =
