@@ -117,6 +117,8 @@ export interface TrialsTable extends Written {
   layout_generated_at: Timestamp | null;
   fertilizer_policy: Generated<FertilizerPolicy>;
   fertilizer_notes: Generated<string>;
+  /** The trial this one was copied from for a new season. */
+  copied_from_trial_id: Generated<string | null>;
 }
 
 /** The lead's planned fertilizer use; what was applied is in the field log. */
@@ -500,6 +502,7 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     layout_generated_at: true,
     fertilizer_policy: true,
     fertilizer_notes: true,
+    copied_from_trial_id: true,
     created_at: true,
     updated_at: true,
     created_by: true,

@@ -92,6 +92,17 @@ export const createTrialForm = z
   .refine(transplantAfterSowing, transplantMessage);
 export const createTrialResponse = z.object({ id: z.uuid(), slug: z.string() });
 
+/* POST /api/trials/:slug/copy — next season's trial from this one's design, without records. */
+export const copyTrialBody = z.object({
+  title: required(200, 'title'),
+  season: required(40, 'season'),
+});
+export type CopyTrialBody = z.input<typeof copyTrialBody>;
+export const copyTrialResponse = createTrialResponse.extend({
+  /** The new layout's seed, or null when the trial copied had no layout. */
+  seed: z.number().int().nullable(),
+});
+
 /* PATCH /api/trials/:slug */
 const trialSettingsFields = {
   title: required(200, 'title'),

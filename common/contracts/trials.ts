@@ -77,6 +77,19 @@ export const trialDetailSchema = trialSummarySchema.extend({
   observationCount: z.number().int(),
   /** The sites a grower is limited to; null when the caller may record at every site. */
   mySiteIds: z.array(z.uuid()).nullable(),
+  /**
+   * The trial this one was copied from, if the caller may see it: `view` says where to link
+   * (its design page for members, its public results sheet once published).
+   */
+  copiedFrom: z
+    .object({
+      slug: z.string(),
+      title: z.string(),
+      season: z.string(),
+      view: z.enum(['trial', 'sheet']),
+    })
+    .nullable()
+    .optional(),
 });
 export type TrialDetail = z.infer<typeof trialDetailSchema>;
 

@@ -227,3 +227,44 @@ export function updatePlanting(
     .returning('id')
     .executeTakeFirst();
 }
+
+/** Columns a copied row takes over as they are; the rest are the copy's own. */
+const ownColumns = ['id', 'trial_id', 'created_at', 'updated_at', 'created_by', 'updated_by'];
+
+/**
+ * Copies every entry, site or trait of one trial into another, column for column (read from
+ * the database, so a column added later is copied too), with new ids.
+ */
+export async function copyTrialParts(
+  db: Conn,
+  table: 'entries' | 'sites' | 'traits',
+  fromTrialId: string,
+  toTrialId: string,
+  by: string,
+) {
+  const { rows } = await sql<{ column_name: string }>`
+    select column_name from information_schema.columns
+    where table_schema = current_schema() and table_name = ${table}
+    order by ordinal_position`.execute(db);
+  const columns = rows.map((r) => r.column_name).filter((c) => !ownColumns.includes(c));
+  const refs = sql.join(columns.map((c) => sql.ref(c)));
+  await sql`
+    insert into ${sql.table(table)} (trial_id, created_by, updated_by, ${refs})
+    select ${toTrialId}, ${by}, ${by}, ${refs} from ${sql.table(table)}
+    where trial_id = ${fromTrialId}`.execute(db);
+}
+
+/** The in-row spacing most of a trial's plots were planted at (mm), or null. */
+export async function commonPlotSpacing(db: Conn, trialId: string): Promise<number | null> {
+  const row = await db
+    .selectFrom('plots')
+    .select('in_row_spacing_mm')
+    .where('trial_id', '=', trialId)
+    .where('in_row_spacing_mm', 'is not', null)
+    .groupBy('in_row_spacing_mm')
+    .orderBy(sql`count(*)`, 'desc')
+    .orderBy('in_row_spacing_mm')
+    .limit(1)
+    .executeTakeFirst();
+  return row?.in_row_spacing_mm ?? null;
+}

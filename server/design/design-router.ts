@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import {
+  copyTrialBody,
   createTrialBody,
   entryBody,
   entryIdParams,
@@ -37,6 +38,15 @@ export function designRouter({ db }: Pick<AppDeps, 'db'>) {
       async ({ params, body }, _req, res) => {
         await service.updateTrial(db, params.slug, actorOf(res), body);
         res.status(204).end();
+      },
+    ),
+  );
+  router.post(
+    '/:slug/copy',
+    endpoint(
+      { params: trialSlugParams, body: copyTrialBody },
+      async ({ params, body }, _req, res) => {
+        res.status(201).json(await service.copyTrial(db, params.slug, actorOf(res), body));
       },
     ),
   );

@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import { type Actor, can, canInstance } from '../../common/policy';
 import {
+  type copyTrialBody,
   type createTrialBody,
   type Design,
   type entryBody,
@@ -85,26 +86,32 @@ export async function createTrial(
     if (!lead) throw fieldError('body.leadEmail', 'No account uses this e-mail address.');
     leadId = lead.id;
   }
-  // Two new trials may draw the same address (about one chance in 900 million): draw again.
+  return withFreshSlug(body.title, (slug) =>
+    db.transaction().execute(async (trx) => {
+      const trial = await repo.insertTrial(trx, {
+        slug,
+        title: body.title,
+        crop: body.crop,
+        season: body.season,
+        design: body.design,
+        description: body.description,
+        sowing_date: body.sowingDate,
+        transplant_date: body.transplantDate,
+        created_by: actor.userId,
+        updated_by: actor.userId,
+      });
+      await repo.insertLead(trx, trial.id, leadId, actor.userId);
+      return trial;
+    }),
+  );
+}
+
+/** Runs `create` with a new trial address, drawing again when two new trials drew the same. */
+async function withFreshSlug<T>(title: string, create: (slug: string) => Promise<T>): Promise<T> {
+  // About one chance in 900 million per draw.
   for (let attempt = 0; attempt < 5; attempt++) {
     try {
-      return await db.transaction().execute(async (trx) => {
-        const slug = newTrialSlug(body.title);
-        const trial = await repo.insertTrial(trx, {
-          slug,
-          title: body.title,
-          crop: body.crop,
-          season: body.season,
-          design: body.design,
-          description: body.description,
-          sowing_date: body.sowingDate,
-          transplant_date: body.transplantDate,
-          created_by: actor.userId,
-          updated_by: actor.userId,
-        });
-        await repo.insertLead(trx, trial.id, leadId, actor.userId);
-        return trial;
-      });
+      return await create(newTrialSlug(title));
     } catch (err) {
       const e = err as { code?: string; constraint?: string };
       if (e.code === '23505' && e.constraint === 'trials_slug_key') continue;
@@ -114,6 +121,64 @@ export async function createTrial(
   throw new AppError(
     'conflict',
     'Could not find a free address for this title; try another title.',
+  );
+}
+
+/**
+ * Next season in one step: a new trial with the entries, sites, traits and settings of this
+ * one (no records, members, photos or results), led by whoever copies it, linked back to it.
+ * When this trial has a layout, the copy gets one of the same shape from a new seed.
+ */
+export async function copyTrial(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  body: Out<typeof copyTrialBody>,
+): Promise<{ id: string; slug: string; seed: number | null }> {
+  const { trial: source } = await trialForAction(db, slug, actor, 'trial.edit');
+  const userId = actor!.userId;
+  const hadLayout =
+    (await repo.countPlots(db, source.id)) > 0 &&
+    source.replicates !== null &&
+    source.row_length_mm !== null &&
+    source.row_spacing_mm !== null;
+  return withFreshSlug(body.title, (newSlug) =>
+    db.transaction().execute(async (trx) => {
+      const copy = await repo.insertTrial(trx, {
+        slug: newSlug,
+        title: body.title,
+        crop: source.crop,
+        season: body.season,
+        design: source.design,
+        description: source.description,
+        fertilizer_policy: source.fertilizer_policy,
+        fertilizer_notes: source.fertilizer_notes,
+        replicates: source.replicates,
+        rows_per_plot: source.rows_per_plot,
+        row_length_mm: source.row_length_mm,
+        row_spacing_mm: source.row_spacing_mm,
+        in_row_spacing_mm: source.in_row_spacing_mm,
+        copied_from_trial_id: source.id,
+        created_by: userId,
+        updated_by: userId,
+      });
+      await repo.insertLead(trx, copy.id, userId, userId);
+      for (const part of ['entries', 'sites', 'traits'] as const)
+        await repo.copyTrialParts(trx, part, source.id, copy.id, userId);
+      if (!hadLayout) return { ...copy, seed: null };
+      let seed = crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
+      if (seed === source.layout_seed) seed = (seed + 1) % (MAX_LAYOUT_SEED + 1);
+      const laid = await layOutPlots(trx, { id: copy.id, design: source.design }, userId, {
+        replicates: source.replicates!,
+        seed,
+        rowsPerPlot: source.rows_per_plot,
+        rowLengthMm: source.row_length_mm!,
+        rowSpacingMm: source.row_spacing_mm!,
+        // Entries without a spacing of their own were planted at the old plots' spacing.
+        inRowSpacingMm: source.in_row_spacing_mm ?? (await repo.commonPlotSpacing(trx, source.id)),
+      });
+      return { ...copy, seed: laid.seed };
+    }),
   );
 }
 
@@ -531,6 +596,72 @@ async function assertLayoutOpen(trx: Conn, trialId: string) {
   if (reason) throw new AppError('conflict', reason);
 }
 
+/** Randomizes the plots of a locked trial (the caller holds the transaction and the lock). */
+async function layOutPlots(
+  trx: Conn,
+  trial: { id: string; design: 'crd' | 'rcbd' | 'multisite' },
+  userId: string,
+  b: Out<typeof layoutBody>,
+): Promise<{ seed: number; plots: number }> {
+  const trialId = trial.id;
+  const [entries, sites] = await Promise.all([
+    repo.listEntries(trx, trialId),
+    repo.listSites(trx, trialId),
+  ]);
+  if (entries.length < 2)
+    throw new AppError('unprocessable', 'Add at least two entries before laying out plots.');
+  if (sites.length < 1) throw new AppError('unprocessable', 'Add a site before laying out plots.');
+  if (trial.design !== 'multisite' && sites.length > 1)
+    throw new AppError(
+      'unprocessable',
+      `This design lays out one site, but the trial has ${sites.length}. Choose “Blocks at several sites” in the settings, or remove the extra sites.`,
+    );
+  const unspaced = entries.filter((e) => e.in_row_spacing_mm == null).map((e) => e.code);
+  if (unspaced.length > 0 && b.inRowSpacingMm == null)
+    throw fieldError(
+      'body.inRowSpacingMm',
+      `Give an in-row spacing for the entries without their own (${unspaced.join(', ')}).`,
+    );
+  const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
+  const planned = randomizeLayout({
+    design: trial.design,
+    // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
+    entryIds: entries.map((e) => e.id),
+    replicates: b.replicates,
+    siteIds: sites.map((s) => s.id),
+    seed,
+  });
+  const spacing = new Map(entries.map((e) => [e.id, e.in_row_spacing_mm ?? b.inRowSpacingMm!]));
+  await repo.deletePlots(trx, trialId);
+  await repo.insertPlots(
+    trx,
+    planned.map((p) => ({
+      trial_id: trialId,
+      site_id: p.siteId,
+      entry_id: p.entryId,
+      block: p.block,
+      position: p.position,
+      plot_number: p.plotNumber,
+      in_row_spacing_mm: spacing.get(p.entryId)!,
+      row_length_mm: b.rowLengthMm,
+      row_spacing_mm: b.rowSpacingMm,
+      created_by: userId,
+      updated_by: userId,
+    })),
+  );
+  await repo.updateTrial(trx, trialId, {
+    layout_seed: seed,
+    replicates: b.replicates,
+    rows_per_plot: b.rowsPerPlot,
+    row_length_mm: b.rowLengthMm,
+    row_spacing_mm: b.rowSpacingMm,
+    in_row_spacing_mm: b.inRowSpacingMm,
+    layout_generated_at: new Date(),
+    updated_by: userId,
+  });
+  return { seed, plots: planned.length };
+}
+
 export async function generateLayout(
   db: DB,
   slug: string,
@@ -541,63 +672,7 @@ export async function generateLayout(
   return db.transaction().execute(async (trx) => {
     const trial = await repo.lockTrial(trx, trialId);
     await assertLayoutOpen(trx, trialId);
-    const [entries, sites] = await Promise.all([
-      repo.listEntries(trx, trialId),
-      repo.listSites(trx, trialId),
-    ]);
-    if (entries.length < 2)
-      throw new AppError('unprocessable', 'Add at least two entries before laying out plots.');
-    if (sites.length < 1)
-      throw new AppError('unprocessable', 'Add a site before laying out plots.');
-    if (trial.design !== 'multisite' && sites.length > 1)
-      throw new AppError(
-        'unprocessable',
-        `This design lays out one site, but the trial has ${sites.length}. Choose “Blocks at several sites” in the settings, or remove the extra sites.`,
-      );
-    const unspaced = entries.filter((e) => e.in_row_spacing_mm == null).map((e) => e.code);
-    if (unspaced.length > 0 && b.inRowSpacingMm == null)
-      throw fieldError(
-        'body.inRowSpacingMm',
-        `Give an in-row spacing for the entries without their own (${unspaced.join(', ')}).`,
-      );
-    const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
-    const planned = randomizeLayout({
-      design: trial.design,
-      // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
-      entryIds: entries.map((e) => e.id),
-      replicates: b.replicates,
-      siteIds: sites.map((s) => s.id),
-      seed,
-    });
-    const spacing = new Map(entries.map((e) => [e.id, e.in_row_spacing_mm ?? b.inRowSpacingMm!]));
-    await repo.deletePlots(trx, trialId);
-    await repo.insertPlots(
-      trx,
-      planned.map((p) => ({
-        trial_id: trialId,
-        site_id: p.siteId,
-        entry_id: p.entryId,
-        block: p.block,
-        position: p.position,
-        plot_number: p.plotNumber,
-        in_row_spacing_mm: spacing.get(p.entryId)!,
-        row_length_mm: b.rowLengthMm,
-        row_spacing_mm: b.rowSpacingMm,
-        created_by: userId,
-        updated_by: userId,
-      })),
-    );
-    await repo.updateTrial(trx, trialId, {
-      layout_seed: seed,
-      replicates: b.replicates,
-      rows_per_plot: b.rowsPerPlot,
-      row_length_mm: b.rowLengthMm,
-      row_spacing_mm: b.rowSpacingMm,
-      in_row_spacing_mm: b.inRowSpacingMm,
-      layout_generated_at: new Date(),
-      updated_by: userId,
-    });
-    return { seed, plots: planned.length };
+    return layOutPlots(trx, trial, userId, b);
   });
 }
 

@@ -33,6 +33,10 @@ export function listTrials(db: DB, userId: string | null, isAdmin: boolean) {
     .execute();
 }
 
+export function findTrialById(db: DB, id: string) {
+  return db.selectFrom('trials').selectAll().where('id', '=', id).executeTakeFirst();
+}
+
 export function findTrialBySlug(db: DB, slug: string) {
   return db.selectFrom('trials').selectAll().where('slug', '=', slug).executeTakeFirst();
 }

@@ -1,4 +1,4 @@
-import { type Actor, permissionsFor } from '../../common/policy';
+import { type Actor, can, permissionsFor } from '../../common/policy';
 import type { TrialDetail, TrialSummary } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
@@ -35,6 +35,7 @@ export async function trialDetail(
   const { sites, entries, traits, tallies } = await repo.trialParts(db, trial.id);
   return {
     ...trialHeading(trial),
+    copiedFrom: await copiedFrom(db, trial, actor),
     myRole: access.role,
     mySiteIds: access.growerSiteIds,
     ...tallies,
@@ -67,6 +68,23 @@ export async function trialDetail(
     })),
     permissions: permissionsFor(actor, access),
   };
+}
+
+/**
+ * The trial this one was copied from, when the caller may see it: its design for its members,
+ * its results sheet for everyone once published; otherwise nothing, not even its title.
+ */
+async function copiedFrom(db: DB, trial: Trial, actor: Actor | null) {
+  if (!trial.copied_from_trial_id) return null;
+  const source = await repo.findTrialById(db, trial.copied_from_trial_id);
+  if (!source) return null;
+  const { access } = await loadTrialAccess(db, source, actor);
+  const view = can(actor, 'trial.read', access)
+    ? ('trial' as const)
+    : can(actor, 'results.read', access)
+      ? ('sheet' as const)
+      : null;
+  return view && { slug: source.slug, title: source.title, season: source.season, view };
 }
 
 /**

@@ -108,6 +108,15 @@ export const rows: MatrixRow[] = [
     expect: leadOnly(204),
   },
   {
+    method: 'POST',
+    route: '/api/trials/:slug/copy',
+    request: (w, caller) => ({
+      url: `/api/trials/${w.trial.slug}/copy`,
+      body: { title: `Copied by ${caller}`, season: '2027' },
+    }),
+    expect: leadOnly(201),
+  },
+  {
     method: 'GET',
     route: '/api/trials/:slug/design',
     request: (w) => ({ url: `/api/trials/${w.trial.slug}/design` }),

@@ -11,6 +11,7 @@ import { CautionNote } from '@/components/ui/caution-note';
 import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUpdateTrial } from '../api/update-trial';
+import { CopyTrialSection } from '../components/copy-trial-section';
 import { DeleteTrialSection } from '../components/delete-trial-section';
 import { DesignPage } from '../components/design-page';
 
@@ -120,6 +121,9 @@ export function Component() {
       {(design, slug) => (
         <>
           <SettingsForm key={design.id} design={design} slug={slug} />
+          {design.canEdit ? (
+            <CopyTrialSection slug={slug} title={design.title} season={design.season} />
+          ) : null}
           <DeleteTrialSection slug={slug} />
         </>
       )}

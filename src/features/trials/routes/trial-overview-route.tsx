@@ -22,6 +22,21 @@ export function Component() {
         {trial.crop} · {trial.season} · {designLabels[trial.design]}
       </p>
       <h1 className="mt-1 text-3xl font-semibold text-leaf-900">{trial.title}</h1>
+      {trial.copiedFrom ? (
+        <p className="mt-1 text-sm text-loam-700">
+          Copied from{' '}
+          <Link
+            className="font-medium text-leaf-700 underline"
+            to={
+              trial.copiedFrom.view === 'trial'
+                ? `/t/${trial.copiedFrom.slug}`
+                : `/r/${trial.copiedFrom.slug}`
+            }
+          >
+            {trial.copiedFrom.title} ({trial.copiedFrom.season})
+          </Link>
+        </p>
+      ) : null}
       <p className="mt-2 max-w-prose">{trial.description}</p>
       {trial.permissions['trial.edit'] ? (
         <nav aria-label="Design the trial" className="mt-3 flex flex-wrap gap-2">

@@ -1,0 +1,218 @@
+/**
+ * Next season in one step: copying a trial carries its entries, sites, traits and settings into
+ * a new trial with a new layout seed, and no records; the copy links back to the trial it came
+ * from, but only for someone allowed to see that trial. The checks compare the copy with the
+ * demo season's okra trial it is made from, and the new layout with the layout generator run
+ * again on the seed the copy reports.
+ */
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { randomizeLayout } from '../../common/layout';
+import { demoAccounts } from '../../db/seed/demo-season';
+import { seedDemoIfEmpty } from '../../db/seed/seed';
+import {
+  createTestApp,
+  createUser,
+  mintSessionCookie,
+  TEST_ORIGIN,
+  type TestApp,
+} from '../support/test-app';
+
+const SLUG = 'larkhaven-okra-2026';
+let t: TestApp;
+
+beforeAll(async () => {
+  t = await createTestApp();
+  await seedDemoIfEmpty(t.db);
+}, 60_000);
+afterAll(async () => {
+  await t.close();
+});
+
+const cookieOf = (key: string) =>
+  mintSessionCookie(
+    t,
+    demoAccounts.find((a) => a.key === key)!,
+  );
+const copy = async (key: string, body: object, slug = SLUG) =>
+  request(t.app)
+    .post(`/api/trials/${slug}/copy`)
+    .set('Origin', TEST_ORIGIN)
+    .set('Cookie', await cookieOf(key))
+    .send(body);
+
+async function trialBySlug(slug: string) {
+  return t.db.selectFrom('trials').selectAll().where('slug', '=', slug).executeTakeFirstOrThrow();
+}
+const withoutOwnColumns = <R extends Record<string, unknown>>(rows: R[]) =>
+  rows.map(
+    ({
+      id: _i,
+      trial_id: _t,
+      created_at: _c,
+      updated_at: _u,
+      created_by: _cb,
+      updated_by: _ub,
+      ...rest
+    }) => rest,
+  );
+
+async function parts(trialId: string) {
+  const [entries, sites, traits] = await Promise.all([
+    t.db
+      .selectFrom('entries')
+      .selectAll()
+      .where('trial_id', '=', trialId)
+      .orderBy('code')
+      .execute(),
+    t.db.selectFrom('sites').selectAll().where('trial_id', '=', trialId).orderBy('name').execute(),
+    t.db.selectFrom('traits').selectAll().where('trial_id', '=', trialId).orderBy('key').execute(),
+  ]);
+  return {
+    entries: withoutOwnColumns(entries),
+    sites: withoutOwnColumns(sites),
+    traits: withoutOwnColumns(traits),
+  };
+}
+
+const count = async (
+  table: 'harvests' | 'observations' | 'field_events' | 'photos' | 'plots' | 'trial_members',
+  trialId: string,
+) =>
+  Number(
+    (
+      await t.db
+        .selectFrom(table)
+        .select((eb) => eb.fn.countAll().as('n'))
+        .where('trial_id', '=', trialId)
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
+
+describe('copying a trial to next season', () => {
+  it('carries entries, sites, traits and settings, no records, and lays out plots from a new seed', async () => {
+    const source = await trialBySlug(SLUG);
+    expect(await count('harvests', source.id)).toBeGreaterThan(0);
+    const res = await copy('lead', { title: 'Larkhaven okra 2027', season: '2027' });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const made = await trialBySlug(res.body.slug);
+
+    expect(made).toMatchObject({
+      title: 'Larkhaven okra 2027',
+      season: '2027',
+      crop: source.crop,
+      design: source.design,
+      description: source.description,
+      fertilizer_policy: source.fertilizer_policy,
+      fertilizer_notes: source.fertilizer_notes,
+      replicates: source.replicates,
+      rows_per_plot: source.rows_per_plot,
+      row_length_mm: source.row_length_mm,
+      row_spacing_mm: source.row_spacing_mm,
+      status: 'draft',
+      copied_from_trial_id: source.id,
+      sowing_date: null,
+      transplant_date: null,
+    });
+    expect(await parts(made.id)).toEqual(await parts(source.id));
+
+    // No records, photos or members come along: the one who copied leads the new trial.
+    for (const table of ['harvests', 'observations', 'field_events', 'photos'] as const)
+      expect(await count(table, made.id)).toBe(0);
+    const members = await t.db
+      .selectFrom('trial_members')
+      .select(['user_id', 'role'])
+      .where('trial_id', '=', made.id)
+      .execute();
+    const lead = demoAccounts.find((a) => a.key === 'lead')!;
+    const leadUser = await t.db
+      .selectFrom('users')
+      .select('id')
+      .where('email', '=', lead.email)
+      .executeTakeFirstOrThrow();
+    expect(members).toEqual([{ user_id: leadUser.id, role: 'lead' }]);
+
+    // A layout of the same shape from a different seed, exactly as the generator makes it.
+    expect(res.body.seed).toBe(made.layout_seed);
+    expect(made.layout_seed).not.toBe(source.layout_seed);
+    expect(await count('plots', made.id)).toBe(await count('plots', source.id));
+    const [entries, sites, plots] = await Promise.all([
+      t.db
+        .selectFrom('entries')
+        .select(['id', 'code', 'name'])
+        .where('trial_id', '=', made.id)
+        .orderBy('code')
+        .orderBy('name')
+        .execute(),
+      t.db
+        .selectFrom('sites')
+        .select(['id', 'name'])
+        .where('trial_id', '=', made.id)
+        .orderBy('name')
+        .orderBy('id')
+        .execute(),
+      t.db
+        .selectFrom('plots')
+        .select(['site_id', 'entry_id', 'block', 'position', 'plot_number'])
+        .where('trial_id', '=', made.id)
+        .execute(),
+    ]);
+    const expected = randomizeLayout({
+      design: made.design,
+      entryIds: entries.map((e) => e.id),
+      siteIds: sites.map((s) => s.id),
+      replicates: made.replicates!,
+      seed: made.layout_seed!,
+    });
+    const key = (p: {
+      site_id?: string;
+      siteId?: string;
+      plot_number?: number;
+      plotNumber?: number;
+    }) => `${p.site_id ?? p.siteId}#${p.plot_number ?? p.plotNumber}`;
+    const stored = new Map(plots.map((p) => [key(p), p.entry_id]));
+    expect(stored.size).toBe(expected.length);
+    for (const p of expected) expect(stored.get(key(p))).toBe(p.entryId);
+
+    // The new trial links back to the old one.
+    const detail = await request(t.app)
+      .get(`/api/trials/${made.slug}`)
+      .set('Cookie', await cookieOf('lead'));
+    expect(detail.status).toBe(200);
+    expect(detail.body.copiedFrom).toEqual({
+      slug: SLUG,
+      title: source.title,
+      season: source.season,
+      view: 'trial',
+    });
+  });
+
+  it('names the old trial only to someone who may see it', async () => {
+    const res = await copy('lead', { title: 'Larkhaven okra, second copy', season: '2027' });
+    const made = await trialBySlug(res.body.slug);
+    const outsider = await createUser(t.db);
+    await t.db
+      .insertInto('trial_members')
+      .values({ trial_id: made.id, user_id: outsider.id, role: 'viewer' })
+      .execute();
+    const detail = await request(t.app)
+      .get(`/api/trials/${made.slug}`)
+      .set('Cookie', await mintSessionCookie(t, outsider));
+    expect(detail.status).toBe(200);
+    expect(detail.body.copiedFrom).toBeNull();
+  });
+
+  it('is for the lead, and a bad body is refused by field with nothing written', async () => {
+    const before = await t.db.selectFrom('trials').select('id').execute();
+    const byViewer = await copy('viewer', { title: 'Not mine', season: '2027' });
+    expect(byViewer.status).toBe(403);
+    const bad = await copy('lead', { title: '   ', season: '' });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.code).toBe('validation_failed');
+    expect(bad.body.error.details.fields.map((f: { path: string }) => f.path).sort()).toEqual([
+      'body.season',
+      'body.title',
+    ]);
+    expect(await t.db.selectFrom('trials').select('id').execute()).toHaveLength(before.length);
+  });
+});
