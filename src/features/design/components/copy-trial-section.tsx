@@ -1,13 +1,9 @@
-import { type CopyTrialBody, copyTrialBody } from '@common/contracts/design';
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
-import { useForm } from 'react-hook-form';
+import { copyTrialBody } from '@common/contracts/design';
 import { useNavigate } from 'react-router-dom';
-import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
-import { showServerErrors } from '@/lib/form-errors';
+import { FormMessage, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useCopyTrial } from '../api/copy-trial';
-import { TextField } from './form-fields';
 
 /** A season named by its year ("2026") is followed by the next year; any other name is kept. */
 export function nextSeason(season: string): string {
@@ -32,22 +28,16 @@ export function CopyTrialSection({
 }) {
   const copy = useCopyTrial(slug);
   const navigate = useNavigate();
-  const [problem, setProblem] = useState<string | null>(null);
-  const form = useForm<z.input<typeof copyTrialBody>, unknown, CopyTrialBody>({
-    resolver: zodResolver(copyTrialBody),
-    defaultValues: { title: nextTitle(title, season), season: nextSeason(season) },
+  const form = useContractForm(copyTrialBody, {
+    title: nextTitle(title, season),
+    season: nextSeason(season),
   });
   const { errors, isSubmitting } = form.formState;
-  const onSubmit = form.handleSubmit(async (body) => {
-    setProblem(null);
-    try {
-      const made = await copy.mutateAsync(body);
-      navigate(`/t/${made.slug}`);
-    } catch (err) {
-      if (!showServerErrors(err, form.setError))
-        setProblem(err instanceof Error ? err.message : 'The trial could not be copied.');
-    }
+  const onSubmit = submitTo(form, async (body) => {
+    const made = await copy.mutateAsync(body);
+    navigate(`/t/${made.slug}`);
   });
+  const refusal = formRefusal(form);
   return (
     <section
       aria-labelledby="copy-heading"
@@ -61,7 +51,7 @@ export function CopyTrialSection({
         layout. Records, photos, members and results stay with this trial; you lead the copy and
         invite its growers again. The copy links back here.
       </p>
-      <form noValidate onSubmit={(e) => void onSubmit(e)} className="mt-3 space-y-3">
+      <form noValidate onSubmit={onSubmit} className="mt-3 space-y-3">
         <div className="grid gap-4 sm:grid-cols-2">
           <TextField
             label="New trial title"
@@ -70,11 +60,7 @@ export function CopyTrialSection({
           />
           <TextField label="Season" error={errors.season?.message} {...form.register('season')} />
         </div>
-        {problem ? (
-          <p role="alert" className="text-sm text-frost-600">
-            {problem}
-          </p>
-        ) : null}
+        {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
         <Button type="submit" disabled={isSubmitting}>
           {isSubmitting ? 'Copying…' : 'Copy the trial'}
         </Button>
