@@ -23,6 +23,7 @@ import type {
   quantityKinds,
   traitBases,
   traitDirections,
+  traitDisplayUnits,
   trialDesigns,
   trialRoles,
   trialStatuses,
@@ -168,6 +169,7 @@ export interface PlotsTable extends Written {
 export type QuantityKind = (typeof quantityKinds)[number];
 export type TraitBasis = (typeof traitBases)[number];
 export type TraitDirection = (typeof traitDirections)[number];
+export type TraitDisplayUnit = (typeof traitDisplayUnits)[number];
 
 export interface TraitsTable extends Written {
   id: Generated<string>;
@@ -180,6 +182,11 @@ export interface TraitsTable extends Written {
   scale_min: number | null;
   scale_max: number | null;
   sort_order: Generated<number>;
+  /** The lead's unit for showing and typing the trait; null: chosen from its kind. */
+  display_unit: TraitDisplayUnit | null;
+  /** Values outside are asked about before saving and flagged in tables, never refused. */
+  plausible_min: number | null;
+  plausible_max: number | null;
 }
 
 interface Versioned {
@@ -569,6 +576,9 @@ export const databaseColumns: { [T in keyof Database]: { [C in keyof Database[T]
     scale_min: true,
     scale_max: true,
     sort_order: true,
+    display_unit: true,
+    plausible_min: true,
+    plausible_max: true,
     created_at: true,
     updated_at: true,
     created_by: true,

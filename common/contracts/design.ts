@@ -1,7 +1,15 @@
 /** The lead's design of a trial: settings, entries, sites, traits, layout, what was planted. */
 import { z } from 'zod';
 import { type QuantityUnit, toStored } from '../units';
-import { entryTypes, quantityKinds, traitBases, traitDirections, trialDesigns } from './trials';
+import {
+  displayUnitsOfKind,
+  entryTypes,
+  quantityKinds,
+  traitBases,
+  traitDirections,
+  traitDisplayUnits,
+  trialDesigns,
+} from './trials';
 import { blankAsAbsent, blankAsNull, typedNumber } from './typed-input';
 
 export const soilTextures = [
@@ -227,18 +235,54 @@ const traitFields = {
   scaleMin: z.number('Enter the lowest score as a number.').finite().nullable(),
   scaleMax: z.number('Enter the highest score as a number.').finite().nullable(),
   sortOrder: z.number().int().min(0).max(999),
+  /** null: the unit is chosen from the kind (common/display-units.ts). */
+  displayUnit: z.enum(traitDisplayUnits, 'Choose a unit.').nullable(),
+  /** In stored units (g, mm); a harvest mass per fruit, a harvest count per harvest. */
+  plausibleMin: z.number('Enter the lowest plausible value as a number.').finite().nullable(),
+  plausibleMax: z.number('Enter the highest plausible value as a number.').finite().nullable(),
 };
-function scaleRule(b: {
+
+/** The settings of a trait that its rules look at together (after an edit, the merged ones). */
+export interface TraitRuleFields {
   quantityKind?: string;
   scaleMin?: number | null;
   scaleMax?: number | null;
-}) {
+  displayUnit?: string | null;
+  plausibleMin?: number | null;
+  plausibleMax?: number | null;
+}
+
+/** A lead's unit must measure what the trait records: cm for a length, kg for a mass. */
+export function unitFitsKind(b: TraitRuleFields) {
+  if (b.displayUnit == null || b.quantityKind === undefined) return true;
+  const fits = displayUnitsOfKind[b.quantityKind as keyof typeof displayUnitsOfKind] as
+    readonly string[] | undefined;
+  return fits?.includes(b.displayUnit) ?? false;
+}
+export const unitMessage = {
+  path: ['displayUnit'],
+  message: 'Only a length or a mass has a unit to choose, and it must measure that quantity.',
+};
+
+/** A plausible range runs from a lower to a higher value; dates and scores have none. */
+export function rangeRule(b: TraitRuleFields) {
+  if (b.plausibleMin == null && b.plausibleMax == null) return true;
+  if (b.quantityKind === 'score' || b.quantityKind === 'date') return false;
+  return b.plausibleMin == null || b.plausibleMax == null || b.plausibleMin < b.plausibleMax;
+}
+export const rangeMessage = {
+  path: ['plausibleMax'],
+  message:
+    'The plausible range runs from a lower to a higher value (a score has its scale, a date none).',
+};
+
+export function scaleRule(b: TraitRuleFields) {
   if (b.quantityKind === undefined) return true;
   if (b.quantityKind === 'score')
     return b.scaleMin != null && b.scaleMax != null && b.scaleMin < b.scaleMax;
   return b.scaleMin == null && b.scaleMax == null;
 }
-const scaleMessage = {
+export const scaleMessage = {
   path: ['scaleMax'],
   message: 'A score needs a scale from a lower to a higher number; other kinds have none.',
 };
@@ -248,8 +292,13 @@ export const traitBody = z
     scaleMin: traitFields.scaleMin.default(null),
     scaleMax: traitFields.scaleMax.default(null),
     sortOrder: traitFields.sortOrder.optional(),
+    displayUnit: traitFields.displayUnit.default(null),
+    plausibleMin: traitFields.plausibleMin.default(null),
+    plausibleMax: traitFields.plausibleMax.default(null),
   })
-  .refine(scaleRule, scaleMessage);
+  .refine(scaleRule, scaleMessage)
+  .refine(unitFitsKind, unitMessage)
+  .refine(rangeRule, rangeMessage);
 export type TraitBody = z.input<typeof traitBody>;
 /** A short key for exported files from a trait's name: "Pod length (cm)" → pod_length_cm. */
 export const traitKeyFrom = (label: string) =>
@@ -278,7 +327,19 @@ export const traitUpdateBody = z
   .object(traitFields)
   .partial()
   .refine(scaleRule, scaleMessage)
+  .refine(unitFitsKind, unitMessage)
+  .refine(rangeRule, rangeMessage)
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
+export type TraitUpdateBody = z.input<typeof traitUpdateBody>;
+
+/* PATCH /api/trials/:slug/traits/:traitId answers what the edit means for the public sheet. */
+export const traitUpdateResponse = z.object({
+  /** The newest published version, which keeps showing the trait as it was. */
+  publishedVersion: z.number().int().nullable(),
+  /** True when the edit changes what a new version would show (names, units, ranks). */
+  altersPublished: z.boolean(),
+});
+export type TraitUpdateResponse = z.infer<typeof traitUpdateResponse>;
 
 /* POST /api/trials/:slug/layout */
 export const layoutBody = z.object({
@@ -399,6 +460,9 @@ export const designTraitSchema = z.object({
   scaleMin: z.number().nullable(),
   scaleMax: z.number().nullable(),
   sortOrder: z.number().int(),
+  displayUnit: z.enum(traitDisplayUnits).nullable(),
+  plausibleMin: z.number().nullable(),
+  plausibleMax: z.number().nullable(),
   observationCount: z.number().int(),
 });
 export type DesignTrait = z.infer<typeof designTraitSchema>;

@@ -21,8 +21,8 @@ export const irrigationMethods = ['drip', 'overhead', 'hand'] as const;
 /** The kinds of field record, each its own table. */
 export const recordTables = ['harvests', 'observations', 'field_events'] as const;
 export type RecordTable = (typeof recordTables)[number];
-/** What the audit log follows: every record, and a plot's stand count. */
-export const auditTables = [...recordTables, 'plots'] as const;
+/** What the audit log follows: every record, a plot's stand count and the lead's trait edits. */
+export const auditTables = [...recordTables, 'plots', 'traits'] as const;
 export type AuditTableName = (typeof auditTables)[number];
 export const restorableTables = recordTables;
 export const auditActions = ['create', 'update', 'delete', 'restore'] as const;

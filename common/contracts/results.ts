@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import { decimalsFor, recordedDecimals } from '../precision';
 import { analysisBases } from './analysis';
-import { entryTypes, traitDirections, trialDesigns } from './trials';
+import { entryTypes, traitDirections, traitDisplayUnits, trialDesigns } from './trials';
 
 export const licenses = ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'all-rights-reserved'] as const;
 export const licenseLabels: Record<(typeof licenses)[number], string> = {
@@ -91,6 +91,8 @@ export const snapshotTraitSchema = z.object({
   key: z.string(),
   label: z.string(),
   unit: z.string(),
+  /** The lead's unit for the trait when published (versions before it: chosen by size). */
+  displayUnit: z.enum(traitDisplayUnits).optional(),
   quantityKind: z.string(),
   basis: z.enum(analysisBases),
   direction: z.enum(traitDirections),

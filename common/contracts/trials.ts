@@ -6,6 +6,13 @@ export const entryTypes = ['heirloom', 'open_pollinated', 'hybrid'] as const;
 export const quantityKinds = ['mass', 'length', 'count', 'score', 'date', 'percent'] as const;
 export const traitBases = ['plant', 'plot', 'harvest'] as const;
 export const traitDirections = ['higher', 'lower', 'none'] as const;
+/** Units a lead may show a length or mass trait in (US customary readers see in/ft, oz/lb). */
+export const traitDisplayUnits = ['mm', 'cm', 'm', 'g', 'kg'] as const;
+export type TraitDisplayUnit = (typeof traitDisplayUnits)[number];
+export const displayUnitsOfKind = {
+  length: ['cm', 'mm', 'm'],
+  mass: ['g', 'kg'],
+} as const satisfies Record<'length' | 'mass', readonly TraitDisplayUnit[]>;
 export const trialRoles = ['lead', 'grower', 'contributor', 'viewer'] as const;
 
 export const designLabels: Record<(typeof trialDesigns)[number], string> = {
@@ -64,6 +71,9 @@ export const traitSchema = z.object({
   direction: z.enum(traitDirections),
   scaleMin: z.number().nullable(),
   scaleMax: z.number().nullable(),
+  displayUnit: z.enum(traitDisplayUnits).nullable(),
+  plausibleMin: z.number().nullable(),
+  plausibleMax: z.number().nullable(),
 });
 
 export const trialDetailSchema = trialSummarySchema.extend({

@@ -6,6 +6,7 @@ import type { DB } from '../database';
 import { seedDemoPhotos } from './demo-photos';
 import { demoAccounts, demoTrials, generateSeason } from './demo-season';
 import { generateDemoWeather } from './demo-weather';
+import { defaultPlausibleRange } from '../../common/trait-presets';
 
 async function isEmpty(db: DB): Promise<boolean> {
   const row = await db
@@ -136,6 +137,8 @@ export async function seedDemo(db: DB): Promise<void> {
             direction: tr.direction,
             scale_min: tr.scaleMin ?? null,
             scale_max: tr.scaleMax ?? null,
+            plausible_min: defaultPlausibleRange(tr).plausibleMin,
+            plausible_max: defaultPlausibleRange(tr).plausibleMax,
             sort_order: order,
             ...by,
           })

@@ -1,5 +1,9 @@
 import type { z } from 'zod';
-import type { auditQuery, restoreBody } from '../../common/contracts/records';
+import {
+  type auditQuery,
+  restorableTables,
+  type restoreBody,
+} from '../../common/contracts/records';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import { camelRecord, differingFields } from '../records/record-changes';
@@ -28,7 +32,8 @@ export async function auditLog(
       actorId: r.actor_id,
       actorName: r.actor_name,
       at: new Date(r.at).toISOString(),
-      restorable: r.is_latest_delete && r.table_name !== 'plots',
+      restorable:
+        r.is_latest_delete && (restorableTables as readonly string[]).includes(r.table_name),
     })),
     nextBeforeId: rows.length > q.limit ? page.at(-1)!.id : null,
   };

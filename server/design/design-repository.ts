@@ -267,4 +267,28 @@ export async function commonPlotSpacing(db: Conn, trialId: string): Promise<numb
     .limit(1)
     .executeTakeFirst();
   return row?.in_row_spacing_mm ?? null;
+
+/** The trait as stored, locked until the caller's transaction ends (an edit reads then writes). */
+export function lockTrait(db: Conn, trialId: string, traitId: string) {
+  return db
+    .selectFrom('traits')
+    .selectAll()
+    .where('id', '=', traitId)
+    .where('trial_id', '=', trialId)
+    .forUpdate()
+    .executeTakeFirst();
+}
+
+/** The results sheet names its traits by key: follow a trait's new key there. */
+export function renameSheetTraitKey(db: Conn, trialId: string, from: string, to: string) {
+  return db
+    .updateTable('results_sheets')
+    .set({
+      traits: sql<string>`(
+        select coalesce(jsonb_agg(case when e->>'key' = ${from}
+          then jsonb_set(e, '{key}', to_jsonb(${to}::text)) else e end order by n), '[]'::jsonb)
+        from jsonb_array_elements(traits) with ordinality as x(e, n))`,
+    })
+    .where('trial_id', '=', trialId)
+    .execute();
 }

@@ -116,8 +116,7 @@ export function designRouter({ db }: Pick<AppDeps, 'db'>) {
     endpoint(
       { params: traitIdParams, body: traitUpdateBody },
       async ({ params, body }, _req, res) => {
-        await service.updateTrait(db, params.slug, actorOf(res), params.traitId, body);
-        res.status(204).end();
+        res.json(await service.updateTrait(db, params.slug, actorOf(res), params.traitId, body));
       },
     ),
   );

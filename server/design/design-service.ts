@@ -11,16 +11,28 @@ import {
   type plantingBody,
   type siteBody,
   type siteUpdateBody,
+  rangeMessage,
+  rangeRule,
+  scaleMessage,
+  scaleRule,
   type traitBody,
+  type TraitRuleFields,
   type traitUpdateBody,
+  type TraitUpdateResponse,
+  unitFitsKind,
+  unitMessage,
   type updateTrialBody,
 } from '../../common/contracts/design';
 import { randomizeLayout } from '../../common/layout';
 import { plantsPerPlot } from '../../common/planting';
 import type { DB } from '../../db/database';
+import type { TraitsTable } from '../../db/schema';
+import type { Selectable } from 'kysely';
+import { writeAudit } from '../records/records-service';
+import { latestPublishedVersion } from '../results/results-service';
 import type { z } from 'zod';
 import { AppError, fieldError } from '../lib/app-error';
-import { trialForAction, trialHeading } from '../trials/trials-service';
+import { trialForAction, trialHeading, traitView } from '../trials/trials-service';
 import * as repo from './design-repository';
 import type { Conn } from './design-repository';
 
@@ -284,14 +296,7 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
       notes: s.notes,
     })),
     traits: traits.map((t) => ({
-      id: t.id,
-      key: t.key,
-      label: t.label,
-      quantityKind: t.quantity_kind,
-      basis: t.basis,
-      direction: t.direction,
-      scaleMin: t.scale_min,
-      scaleMax: t.scale_max,
+      ...traitView(t),
       sortOrder: t.sort_order,
       observationCount: t.observation_count,
     })),
@@ -522,6 +527,9 @@ export async function createTrait(
         direction: b.direction,
         scale_min: b.scaleMin,
         scale_max: b.scaleMax,
+        display_unit: b.displayUnit,
+        plausible_min: b.plausibleMin,
+        plausible_max: b.plausibleMax,
         sort_order: sortOrder,
         created_by: userId,
         updated_by: userId,
@@ -531,48 +539,133 @@ export async function createTrait(
   });
 }
 
+/** What a stored trait looks like to the contract's rules. */
+const ruleFields = (t: Selectable<TraitsTable>): TraitRuleFields => ({
+  quantityKind: t.quantity_kind,
+  scaleMin: t.scale_min,
+  scaleMax: t.scale_max,
+  displayUnit: t.display_unit,
+  plausibleMin: t.plausible_min,
+  plausibleMax: t.plausible_max,
+});
+
+/** Settings a published sheet shows: changing one means the next version will differ. */
+const publishedSettings = ['key', 'label', 'basis', 'direction', 'display_unit'] as const;
+
+/**
+ * Edits a trait. Its name, unit, direction and plausible range can always change (the
+ * records are stored in SI units, so a unit changes only what people read and type); its key,
+ * kind and scale only before any measurement uses it, and its basis only between per plant
+ * and per plot once measurements exist. The audit log keeps the trait as it was; published
+ * versions keep showing the old trait until the lead publishes a new one.
+ */
 export async function updateTrait(
   db: DB,
   slug: string,
   actor: Actor | null,
   traitId: string,
   b: Out<typeof traitUpdateBody>,
-) {
+): Promise<TraitUpdateResponse> {
   const { trialId, userId } = await editing(db, slug, actor);
-  await db.transaction().execute(async (trx) => {
-    if (!(await repo.findPart(trx, 'traits', trialId, traitId)))
-      throw AppError.notFound('The trait');
-    const changesMeaning =
-      b.key !== undefined ||
-      b.quantityKind !== undefined ||
-      b.basis !== undefined ||
-      b.scaleMin !== undefined ||
-      b.scaleMax !== undefined;
-    if (changesMeaning) {
-      const n = await repo.countTraitObservations(trx, traitId);
-      if (n > 0)
+  return db.transaction().execute(async (trx) => {
+    const before = await repo.lockTrait(trx, trialId, traitId);
+    if (!before) throw AppError.notFound('The trait');
+    const kind = b.quantityKind ?? before.quantity_kind;
+    // a kind without a scale or unit clears the old one with the kind
+    const scaled = kind === 'score';
+    const rangeless = b.quantityKind !== undefined && (scaled || kind === 'date');
+    const values = {
+      key: b.key,
+      label: b.label,
+      quantity_kind: b.quantityKind,
+      basis: b.basis,
+      direction: b.direction,
+      scale_min: b.quantityKind && !scaled ? null : b.scaleMin,
+      scale_max: b.quantityKind && !scaled ? null : b.scaleMax,
+      display_unit:
+        b.quantityKind && b.quantityKind !== before.quantity_kind && b.displayUnit === undefined
+          ? null
+          : b.displayUnit,
+      plausible_min: b.plausibleMin !== undefined ? b.plausibleMin : rangeless ? null : undefined,
+      plausible_max: b.plausibleMax !== undefined ? b.plausibleMax : rangeless ? null : undefined,
+      sort_order: b.sortOrder,
+    };
+    const merged = { ...ruleFields(before), ...definedOnly(ruleFieldsOfBody(values)) };
+    for (const [rule, { path, message }] of [
+      [scaleRule, scaleMessage],
+      [unitFitsKind, unitMessage],
+      [rangeRule, rangeMessage],
+    ] as const) {
+      if (!rule(merged)) throw fieldError(`body.${path[0]}`, message);
+    }
+
+    const n = await repo.countTraitObservations(trx, traitId);
+    if (n > 0) {
+      const locked = (['key', 'quantity_kind', 'scale_min', 'scale_max'] as const).filter(
+        (c) => values[c] !== undefined && values[c] !== before[c],
+      );
+      if (locked.length)
         throw new AppError(
           'conflict',
-          `${n} measurements already use this trait: its key, kind, basis and scale can no longer change (its name and direction still can).`,
+          `${n} measurements already use this trait: its key, kind and scale can no longer change (its name, unit, direction, basis and plausible range still can).`,
+        );
+      if (values.basis === 'harvest' && before.basis !== 'harvest')
+        throw new AppError(
+          'conflict',
+          `${n} measurements already use this trait: it cannot switch to harvest records.`,
         );
     }
-    await unique(
-      repo.updatePart(trx, 'traits', trialId, traitId, {
-        key: b.key,
-        label: b.label,
-        quantity_kind: b.quantityKind,
-        basis: b.basis,
-        direction: b.direction,
-        // a count, length or mass has no score scale: clear the old one with the kind
-        scale_min: b.quantityKind && b.quantityKind !== 'score' ? null : b.scaleMin,
-        scale_max: b.quantityKind && b.quantityKind !== 'score' ? null : b.scaleMax,
-        sort_order: b.sortOrder,
-        updated_by: userId,
-      }),
+    const after = await unique(
+      repo.updatePart(trx, 'traits', trialId, traitId, { ...values, updated_by: userId }),
       traitUnique,
     );
+    if (!after) throw AppError.notFound('The trait');
+    const stored = (await repo.lockTrait(trx, trialId, traitId))!;
+    if (stored.key !== before.key)
+      await repo.renameSheetTraitKey(trx, trialId, before.key, stored.key);
+    const changed = Object.keys(stored).filter(
+      (c) =>
+        c !== 'updated_at' &&
+        c !== 'updated_by' &&
+        JSON.stringify(stored[c as keyof typeof stored]) !==
+          JSON.stringify(before[c as keyof typeof before]),
+    );
+    if (changed.length)
+      await writeAudit(trx, {
+        trialId,
+        table: 'traits',
+        recordId: traitId,
+        action: 'update',
+        before,
+        after: stored,
+        actorId: userId,
+      });
+    const published = await latestPublishedVersion(trx, trialId);
+    return {
+      publishedVersion: published || null,
+      altersPublished: published > 0 && publishedSettings.some((c) => changed.includes(c)),
+    };
   });
 }
+
+const ruleFieldsOfBody = (v: {
+  quantity_kind?: string | undefined;
+  scale_min?: number | null | undefined;
+  scale_max?: number | null | undefined;
+  display_unit?: string | null | undefined;
+  plausible_min?: number | null | undefined;
+  plausible_max?: number | null | undefined;
+}): TraitRuleFields => ({
+  quantityKind: v.quantity_kind,
+  scaleMin: v.scale_min,
+  scaleMax: v.scale_max,
+  displayUnit: v.display_unit,
+  plausibleMin: v.plausible_min,
+  plausibleMax: v.plausible_max,
+});
+
+const definedOnly = <T extends object>(o: T): Partial<T> =>
+  Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as Partial<T>;
 
 export async function deleteTrait(db: DB, slug: string, actor: Actor | null, traitId: string) {
   const { trialId } = await editing(db, slug, actor);

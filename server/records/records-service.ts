@@ -90,6 +90,9 @@ async function editablePlotRecord<T extends keyof typeof deletedMessages>(
 
 // ---------- Reads ----------
 
+/** Other features note their own changes in the trial's audit log the same way. */
+export { writeAudit } from './record-audit-repository';
+
 export async function listHarvests(db: DB, slug: string, actor: Actor | null, q: Q) {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   return { harvests: await repo.listHarvests(db, trial.id, filters(q)) };

@@ -43,6 +43,11 @@ async function currentSheet(db: DB, trial: Trial): Promise<SaveSheetBody> {
   };
 }
 
+/** The newest published version's number, 0 when nothing is published. */
+export function latestPublishedVersion(db: DB, trialId: string) {
+  return repo.latestVersionNumber(db, trialId);
+}
+
 export async function getDraft(
   deps: ResultsDeps,
   slug: string,

@@ -137,6 +137,7 @@ export async function buildSnapshot(
       key: trait.key,
       label: trait.label,
       unit: result.unit,
+      ...(trait.display_unit ? { displayUnit: trait.display_unit } : {}),
       quantityKind: trait.quantity_kind,
       basis: choice.basis,
       direction: trait.direction,

@@ -1,7 +1,8 @@
 import { type Actor, can, permissionsFor } from '../../common/policy';
 import type { TrialDetail, TrialSummary } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
-import type { Trial } from '../../db/schema';
+import type { Trial, TraitsTable } from '../../db/schema';
+import type { Selectable } from 'kysely';
 import { AppError } from '../lib/app-error';
 import type { ObjectStorage } from '../storage/object-storage';
 import { authorize, loadTrialAccess } from './trial-access';
@@ -56,16 +57,7 @@ export async function trialDetail(
       daysToMaturityClaimed: e.days_to_maturity_claimed,
       notes: e.notes,
     })),
-    traits: traits.map((t) => ({
-      id: t.id,
-      key: t.key,
-      label: t.label,
-      quantityKind: t.quantity_kind,
-      basis: t.basis,
-      direction: t.direction,
-      scaleMin: t.scale_min,
-      scaleMax: t.scale_max,
-    })),
+    traits: traits.map(traitView),
     permissions: permissionsFor(actor, access),
   };
 }
@@ -127,5 +119,22 @@ export function trialHeading(trial: Trial) {
     description: trial.description,
     sowingDate: trial.sowing_date,
     transplantDate: trial.transplant_date,
+  };
+}
+
+/** A trait as the API shows it (the trial page, the design page and the field log read it). */
+export function traitView(t: Selectable<TraitsTable>) {
+  return {
+    id: t.id,
+    key: t.key,
+    label: t.label,
+    quantityKind: t.quantity_kind,
+    basis: t.basis,
+    direction: t.direction,
+    scaleMin: t.scale_min,
+    scaleMax: t.scale_max,
+    displayUnit: t.display_unit,
+    plausibleMin: t.plausible_min,
+    plausibleMax: t.plausible_max,
   };
 }

@@ -553,7 +553,7 @@ describe('entries, sites and traits', () => {
           label: 'Height at first flower',
         })
       ).status,
-    ).toBe(204);
+    ).toBe(200);
   });
 
   it('edits the settings and the planned fertilizer policy', async () => {

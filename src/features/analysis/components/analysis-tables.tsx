@@ -1,5 +1,5 @@
 import type { AnalysisResult } from '@common/contracts/analysis';
-import { type DisplayUnit, formatF, formatNumber, formatP } from '@/lib/display-units';
+import { type DisplayUnit, formatF, formatNumber, formatP } from '@common/display-units';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const designWords = {

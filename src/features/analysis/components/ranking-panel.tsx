@@ -4,7 +4,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useRanking } from '../api/get-ranking';
 import { displayNumber } from '@common/precision';
-import { formatP } from '@/lib/display-units';
+import { formatP } from '@common/display-units';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };

@@ -4,7 +4,7 @@ import { useId } from 'react';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useSeason } from '../api/get-season';
-import { cToF, formatDegreeDays, formatNumber } from '@/lib/display-units';
+import { cToF, formatDegreeDays, formatNumber } from '@common/display-units';
 import { WeatherDayForm } from './weather-day-form';
 import { WeatherImport } from './weather-import';
 import { ScrollRegion } from '@/components/ui/scroll-region';

@@ -20,7 +20,7 @@ import {
   SeparationSummary,
   WarningsList,
 } from '../components/analysis-tables';
-import { displayUnit, formatNumber } from '@/lib/display-units';
+import { displayUnit, formatNumber } from '@common/display-units';
 import { downloadCsv, downloadJson } from '../components/download';
 import { RankingPanel } from '../components/ranking-panel';
 import { SeasonPanel } from '../components/season-panel';

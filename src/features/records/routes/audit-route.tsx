@@ -12,6 +12,7 @@ const tableWord: Record<AuditEntry['table'], string> = {
   observations: 'Observation',
   field_events: 'Field event',
   plots: 'Plot stand count',
+  traits: 'Trait',
 };
 const actionWord: Record<AuditEntry['action'], string> = {
   create: 'created',
@@ -52,6 +53,7 @@ export function Component() {
             <option value="observations">Observations</option>
             <option value="field_events">Field events</option>
             <option value="plots">Stand counts</option>
+            <option value="traits">Traits</option>
           </select>
         </label>
         <label className="flex flex-col gap-1 text-sm font-medium">
@@ -133,7 +135,7 @@ export function Component() {
                     .join(' · ')}
                 </p>
               )}
-              {e.restorable && isLead && e.table !== 'plots' ? (
+              {e.restorable && isLead && e.table !== 'plots' && e.table !== 'traits' ? (
                 <button
                   type="button"
                   disabled={restore.isPending}

@@ -11,7 +11,7 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
-import type { DisplayUnit } from '@/lib/display-units';
+import type { DisplayUnit } from '@common/display-units';
 import { entrySiteTable, harvestCurveTable, type ChartTable } from './comparison-chart-data';
 
 const chartPalette = [

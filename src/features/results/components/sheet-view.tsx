@@ -8,7 +8,7 @@ import {
   formatInUnit,
   formatScaled,
   formatTemperature,
-} from '@/lib/display-units';
+} from '@common/display-units';
 import { useUnitSystem } from '@/lib/session';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { directionWords, rankMeans } from '@common/ranking';

@@ -1,5 +1,5 @@
 import type { TrialAnalysis } from '@common/contracts/analysis';
-import { type DisplayUnit, displayUnit, formatInUnit, formatNumber } from '@/lib/display-units';
+import { type DisplayUnit, displayUnit, formatInUnit, formatNumber } from '@common/display-units';
 import {
   createColumnHelper,
   flexRender,
