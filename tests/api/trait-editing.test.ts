@@ -19,6 +19,16 @@ const send = (method: 'post' | 'put' | 'patch', url: string, body: object, who =
   request(t.app)[method](url).set('Origin', TEST_ORIGIN).set('Cookie', who).send(body);
 const patchHeight = (body: object, who = lead) =>
   send('patch', `/api/trials/${SLUG}/traits/${heightId}`, body, who);
+const traitIdOf = async (key: string) =>
+  (
+    await t.db
+      .selectFrom('traits as tr')
+      .innerJoin('trials as t', 't.id', 'tr.trial_id')
+      .select('tr.id')
+      .where('t.slug', '=', SLUG)
+      .where('tr.key', '=', key)
+      .executeTakeFirstOrThrow()
+  ).id;
 const storedHeight = () =>
   t.db.selectFrom('traits').selectAll().where('id', '=', heightId).executeTakeFirstOrThrow();
 
@@ -33,14 +43,7 @@ beforeAll(async () => {
     t,
     demoAccounts.find((a) => a.key === 'grower2')!,
   );
-  const row = await t.db
-    .selectFrom('traits as tr')
-    .innerJoin('trials as t', 't.id', 'tr.trial_id')
-    .select('tr.id')
-    .where('t.slug', '=', SLUG)
-    .where('tr.key', '=', 'plant_height')
-    .executeTakeFirstOrThrow();
-  heightId = row.id;
+  heightId = await traitIdOf('plant_height');
 }, 60_000);
 afterAll(async () => {
   await t.close();
@@ -125,14 +128,7 @@ describe('a trait with measurements', () => {
   });
 
   it('gives a score no plausible range (its scale is the rule)', async () => {
-    const vigor = await t.db
-      .selectFrom('traits as tr')
-      .innerJoin('trials as t', 't.id', 'tr.trial_id')
-      .select('tr.id')
-      .where('t.slug', '=', SLUG)
-      .where('tr.key', '=', 'vigor')
-      .executeTakeFirstOrThrow();
-    const res = await send('patch', `/api/trials/${SLUG}/traits/${vigor.id}`, {
+    const res = await send('patch', `/api/trials/${SLUG}/traits/${await traitIdOf('vigor')}`, {
       plausibleMin: 0,
       plausibleMax: 9,
     });
@@ -210,15 +206,9 @@ describe('a trait on a published sheet', () => {
   });
 
   it('carries a new key into the saved sheet, so the next version still shows the trait', async () => {
-    const yieldTrait = await t.db
-      .selectFrom('traits as tr')
-      .innerJoin('trials as t', 't.id', 'tr.trial_id')
-      .select('tr.id')
-      .where('t.slug', '=', SLUG)
-      .where('tr.key', '=', 'marketable_yield')
-      .executeTakeFirstOrThrow();
     // harvest traits have no measurements of their own, so their key can still change
-    const res = await send('patch', `/api/trials/${SLUG}/traits/${yieldTrait.id}`, {
+    const yieldId = await traitIdOf('marketable_yield');
+    const res = await send('patch', `/api/trials/${SLUG}/traits/${yieldId}`, {
       key: 'marketable_mass',
     });
     expect(res.status).toBe(200);
