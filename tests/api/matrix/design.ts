@@ -200,7 +200,7 @@ export const rows: MatrixRow[] = [
       url: `/api/trials/${w.trial.slug}/traits/${w.traitId}`,
       body: { label: 'Plant height' },
     }),
-    expect: leadOnly(204),
+    expect: leadOnly(200),
   },
   {
     method: 'DELETE',
