@@ -29,6 +29,9 @@ export const derivedTraits = {
 export type DerivedTraitKey = keyof typeof derivedTraits;
 
 export const designs = ['crd', 'rcbd', 'multisite'] as const;
+/** The classical analysis of variance, or REML with gardens and blocks random. */
+export const analysisModels = ['anova', 'mixed'] as const;
+export const varianceSources = ['site', 'site:block', 'block', 'site:variety', 'residual'] as const;
 export const letterMethods = ['hsd', 'lsd'] as const;
 
 const alpha = z.coerce
@@ -100,7 +103,7 @@ export const analysisResultSchema = z.object({
   }),
   method: z.enum(['means', 'least-squares']),
   /** Which model the ranks and letters come from. */
-  model: z.enum(['anova', 'mixed']),
+  model: z.enum(analysisModels),
   /** Least-squares means in rank order (equal to the arithmetic means on balanced layouts). */
   adjustedMeans: z.array(z.object({ variety: z.string(), mean: z.number(), se: nullableNumber })),
   counts: z.object({
@@ -112,6 +115,33 @@ export const analysisResultSchema = z.object({
   }),
   /** Why the letters are empty (too many entries for the letter display), else null. */
   lettersOmitted: z.string().nullable().optional(),
+  /** Mixed model only: REML variance components with an asymptotic SE (null at zero). */
+  varianceComponents: z
+    .array(
+      z.object({
+        source: z.enum(varianceSources),
+        variance: z.number(),
+        se: nullableNumber,
+      }),
+    )
+    .optional(),
+  /** Mixed model only: Wald F test for varieties with Satterthwaite's denominator df. */
+  fixedTest: z
+    .object({
+      source: z.literal('variety'),
+      numDf: z.number(),
+      denDf: z.number(),
+      f: z.number(),
+      p: z.number(),
+      method: z.enum(['satterthwaite', 'kenward-roger']),
+    })
+    .optional(),
+  /** Mixed model only: REML log-likelihood. */
+  logLik: z.number().optional(),
+  /** Mixed model only: a variance component was estimated as zero. */
+  boundary: z.boolean().optional(),
+  /** Mixed model only: how the variation splits between gardens, blocks and residual. */
+  varianceSummary: z.string().optional(),
   pairs: z
     .array(
       z.object({

@@ -1,6 +1,7 @@
 /**
  * npm run --silent analyze -- FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite]
  *                                      [--letters hsd|lsd] [--direction higher|lower|none]
+ *                                      [--model anova|mixed]
  * Prints one JSON object on stdout; on bad input exits 1 with one line on stderr.
  */
 import { readFileSync } from 'node:fs';
@@ -13,7 +14,7 @@ import {
 } from './engine/analyze.js';
 
 const USAGE =
-  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none]';
+  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none] [--model anova|mixed]';
 
 function fail(message: string, code = 1): never {
   process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
@@ -33,6 +34,7 @@ function main(): void {
         design: { type: 'string' },
         letters: { type: 'string' },
         direction: { type: 'string' },
+        model: { type: 'string' },
       },
     });
   } catch (err) {
@@ -66,6 +68,11 @@ function main(): void {
     if (!['higher', 'lower', 'none'].includes(values.direction))
       fail(`option --direction: "${values.direction}" is not higher, lower or none`, 2);
     options.direction = values.direction as 'higher' | 'lower' | 'none';
+  }
+  if (values.model !== undefined) {
+    if (values.model !== 'anova' && values.model !== 'mixed')
+      fail(`option --model: "${values.model}" is not anova or mixed`, 2);
+    options.model = values.model;
   }
   const file = positionals[0]!;
   let text: string;

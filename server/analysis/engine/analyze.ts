@@ -19,6 +19,7 @@ import { accurateMean } from './linear-model.js';
 import { adjustedMeans, NotConnectedError, type AdjustedMeans } from './adjusted-means.js';
 import { studentTTwoSided, studentizedRangeUpperTail } from './distributions.js';
 import { separateMeans, type SeparationMethod } from './mean-separation.js';
+import { mixedVarietyAnalysis, type MixedVarietyAnalysis, type VarianceSource } from './mixed-analysis.js';
 import { rankMeans, type TraitDirection } from '../../../common/ranking';
 
 export type { Design } from './anova.js';
@@ -86,7 +87,15 @@ export interface AnalyzeOptions {
    * "lower" ranks the smallest mean 1; "none" gives no ranks and orders by mean.
    */
   direction?: TraitDirection;
+  /**
+   * "anova" (default): the classical analysis of variance with least-squares means.
+   * "mixed": REML with gardens, blocks (and site × variety where estimable) random; means,
+   * ranks and letters from the BLUEs of the variety means.
+   */
+  model?: AnalysisModel;
 }
+
+export type AnalysisModel = 'anova' | 'mixed';
 
 export interface EntrySummary {
   variety: string;
@@ -139,6 +148,16 @@ export interface AnalysisResult {
   adjustedMeans: { variety: string; mean: number; se: number }[];
   /** Why `group` letters are empty (too many entries to display within the limit), else null. */
   lettersOmitted: string | null;
+  /** With the mixed model: REML variance components (σ², with an asymptotic SE where defined). */
+  varianceComponents?: { source: VarianceSource; variance: number; se: number | null }[];
+  /** With the mixed model: Wald F test for varieties, Satterthwaite denominator df. */
+  fixedTest?: MixedVarietyAnalysis['fixedTest'];
+  /** With the mixed model: the REML log-likelihood. */
+  logLik?: number;
+  /** With the mixed model: a variance component was estimated as zero and kept there. */
+  boundary?: boolean;
+  /** With the mixed model: how the variation splits between the random sources, in words. */
+  varianceSummary?: string;
   pairs?: {
     a: string;
     b: string;
@@ -398,7 +417,7 @@ export function analyzePlotRows(
       'unbalanced: varieties occur unequally often across blocks; sequential (type I) sums of squares',
     );
   }
-  if (design === 'multisite' && !orthogonal) {
+  if (design === 'multisite' && !orthogonal && options.model !== 'mixed') {
     warnings.push('with missing plots, the variety test against site:variety is approximate');
   }
 
@@ -408,6 +427,25 @@ export function analyzePlotRows(
   for (let i = 0; i < y.length; i++) groups[entry.codes[i]!]!.push(y[i]!);
   const descs = groups.map((g) => describe(g));
   const varietyLine = av.lines.find((l) => l.source === 'variety');
+  const model = options.model ?? 'anova';
+  let mixed: MixedVarietyAnalysis | null = null;
+  if (model === 'mixed') {
+    const fitted = mixedVarietyAnalysis({
+      y,
+      entry: entry.codes,
+      entries: entry.levels.length,
+      ...(hasSite ? { site: { cells: site.codes, levels: site.levels.length } } : {}),
+      ...(design === 'crd' ? {} : { block: { cells: block.codes, levels: block.levels.length } }),
+    });
+    if (typeof fitted === 'string') throw new AnalysisInputError(fitted);
+    mixed = fitted;
+    if (mixed.boundary) {
+      const zero = mixed.varianceComponents.filter((c) => c.variance === 0).map((c) => c.source);
+      warnings.push(
+        `mixed model at the boundary: the ${zero.join(' and ')} variance was estimated as zero and kept at zero`,
+      );
+    }
+  }
   let adjusted: AdjustedMeans;
   let adjustedOk = true;
   const adjustedInput = {
@@ -421,7 +459,9 @@ export function analyzePlotRows(
       : { block: block.codes, blocks: block.levels.length, siteOfBlock: siteOfEachBlock() }),
   };
   try {
-    adjusted = adjustedMeans(adjustedInput);
+    adjusted = mixed
+      ? { mean: mixed.mean, se: mixed.se, pairSe: (i, j) => mixed.pair(i, j).se }
+      : adjustedMeans(adjustedInput);
   } catch (err) {
     if (!(err instanceof NotConnectedError)) throw err;
     // Entries and blocks fall apart into unlinked groups: no common scale to adjust to.
@@ -431,15 +471,18 @@ export function analyzePlotRows(
       'blocks and varieties are not connected (some varieties never share a block with the others): adjusted means cannot be estimated; ranks and letters use arithmetic means',
     );
   }
-  const modelBased = adjustedOk && !orthogonal;
+  const modelBased = mixed !== null || (adjustedOk && !orthogonal);
+  // Mixed model: letters on the pairwise standard errors with the variety test's
+  // denominator df (Satterthwaite).
+  const separationDf = mixed ? mixed.fixedTest.denDf : av.error.df;
   let sep: ReturnType<typeof separateMeans>;
   try {
     sep = separateMeans(
       entry.levels.map((name, i) => ({ entry: name, mean: adjusted.mean[i]!, n: descs[i]!.n })),
       av.error.ms,
-      av.error.df,
+      separationDf,
       alpha,
-      varietyLine?.p ?? null,
+      mixed ? mixed.fixedTest.p : (varietyLine?.p ?? null),
       {
         ...(modelBased ? { pairSe: adjusted.pairSe } : {}),
         includePairs: options.includePairs ?? false,
@@ -505,7 +548,7 @@ export function analyzePlotRows(
     anova: av.lines,
     means,
     lsd: sep.lsd,
-    hsd: { ...sep.hsd, df: av.error.df },
+    hsd: { ...sep.hsd, df: separationDf },
     letters: lettersFrom,
     errorTerm: {
       source: av.error.source as 'residual' | 'site:variety',
@@ -513,7 +556,7 @@ export function analyzePlotRows(
       ms: av.error.ms,
     },
     method: av.method,
-    model: 'anova',
+    model,
     adjustedMeans: means.map((m) => ({
       variety: m.variety,
       mean: adjustedOf(m.variety),
@@ -527,17 +570,30 @@ export function analyzePlotRows(
       missingPlots,
     },
     lettersOmitted: sep.lettersOmitted,
+    ...(mixed
+      ? {
+          varianceComponents: mixed.varianceComponents,
+          fixedTest: mixed.fixedTest,
+          logLik: mixed.logLik,
+          boundary: mixed.boundary,
+          varianceSummary: mixed.summary,
+        }
+      : {}),
     warnings,
   };
   if (sep.pairs) {
     const k = entry.levels.length;
     result.pairs = sep.pairs.map((pair) => {
       const t = pair.se > 0 ? pair.difference / pair.se : pair.difference === 0 ? 0 : Infinity;
+      // Mixed model: each difference on its own Satterthwaite df, as emmeans gives.
+      const pairDf = mixed
+        ? mixed.pair(indexOf.get(pair.a)!, indexOf.get(pair.b)!).df
+        : av.error.df;
       return {
         ...pair,
         t,
-        p: studentTTwoSided(t, av.error.df),
-        pTukey: Math.min(1, studentizedRangeUpperTail(Math.abs(t) * Math.SQRT2, k, av.error.df)),
+        p: studentTTwoSided(t, pairDf),
+        pTukey: Math.min(1, studentizedRangeUpperTail(Math.abs(t) * Math.SQRT2, k, separationDf)),
       };
     });
   }

@@ -1,0 +1,142 @@
+/**
+ * The variety analysis as a mixed model: varieties fixed, the layout's gardens (sites), blocks
+ * within them and, where the data can tell it from the residual, site × variety random.
+ *   - a network of gardens (site column, no blocks):  y ~ variety + (1|site)
+ *   - one site in blocks:                             y ~ variety + (1|block)
+ *   - several sites in blocks:                        y ~ variety + (1|site) + (1|site:block)
+ *                                                       [+ (1|site:variety) when plots repeat
+ *                                                        within site × variety cells]
+ * Means are the BLUEs of the variety means (intercept + variety effect, equal to emmeans'
+ * estimated marginal means for this model) with their standard errors; the variety test is a
+ * Wald F with Satterthwaite's denominator degrees of freedom.
+ */
+import { fitReml, sequentialContrasts, type RandomTerm } from './mixed-model.js';
+import type { varianceSources } from '../../../common/contracts/analysis';
+
+export interface MixedLayout {
+  /** Plot values (deviations from an offset are fine). */
+  y: Float64Array;
+  entry: Int32Array;
+  entries: number;
+  site?: { cells: Int32Array; levels: number };
+  /** Global block codes (a block at one site differs from the same label at another). */
+  block?: { cells: Int32Array; levels: number };
+}
+
+export type VarianceSource = (typeof varianceSources)[number];
+
+export interface MixedVarietyAnalysis {
+  varianceComponents: { source: VarianceSource; variance: number; se: number | null }[];
+  fixedTest: {
+    source: 'variety';
+    numDf: number;
+    denDf: number;
+    f: number;
+    p: number;
+    method: 'satterthwaite';
+  };
+  logLik: number;
+  boundary: boolean;
+  /** BLUE of each entry's mean (per entry code, on the scale of `y`). */
+  mean: Float64Array;
+  se: Float64Array;
+  /** Standard error and Satterthwaite df of the difference between entries i and j. */
+  pair(i: number, j: number): { se: number; df: number };
+  /** How much of the variation each source holds, in words. */
+  summary: string;
+}
+
+const SOURCE_WORDS: Record<VarianceSource, string> = {
+  site: 'gardens (sites)',
+  'site:block': 'blocks within gardens',
+  block: 'blocks',
+  'site:variety': 'varieties doing differently in different gardens',
+  residual: 'plot-to-plot (residual)',
+};
+
+export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis | string {
+  const { y, entry, entries: k } = layout;
+  const n = y.length;
+  const random: RandomTerm[] = [];
+  const sites = layout.site && layout.site.levels >= 2 ? layout.site : null;
+  if (sites) random.push({ source: 'site', cells: sites.cells, levels: sites.levels });
+  if (layout.block) {
+    random.push({
+      source: sites ? 'site:block' : 'block',
+      cells: layout.block.cells,
+      levels: layout.block.levels,
+    });
+  }
+  if (sites && layout.block) {
+    const cells = new Int32Array(n);
+    const seen = new Map<number, number>();
+    for (let i = 0; i < n; i++) {
+      const key = sites.cells[i]! * k + entry[i]!;
+      let c = seen.get(key);
+      if (c === undefined) seen.set(key, (c = seen.size));
+      cells[i] = c;
+    }
+    // Only estimable apart from the residual when some cell holds more than one plot.
+    if (seen.size < n) random.push({ source: 'site:variety', cells, levels: seen.size });
+  }
+  if (random.length === 0)
+    return 'the mixed model needs a site or block column (gardens or blocks to treat as random)';
+
+  const fixed: Float64Array[] = [new Float64Array(n).fill(1)];
+  for (let e = 1; e < k; e++) fixed.push(Float64Array.from(entry, (c) => (c === e ? 1 : 0)));
+  const fit = fitReml({ y, fixed, random });
+
+  const test = fit.waldF(sequentialContrasts(fixed, 1, k));
+  const mean = new Float64Array(k);
+  const se = new Float64Array(k);
+  for (let e = 0; e < k; e++) {
+    const l = new Float64Array(k);
+    l[0] = 1;
+    if (e > 0) l[e] = 1;
+    const c = fit.contrast(l);
+    mean[e] = c.estimate;
+    se[e] = c.se;
+  }
+  const pairCache = new Map<number, { se: number; df: number }>();
+  const pair = (i: number, j: number) => {
+    const key = Math.min(i, j) * k + Math.max(i, j);
+    let hit = pairCache.get(key);
+    if (!hit) {
+      const l = new Float64Array(k);
+      if (i > 0) l[i] = 1;
+      if (j > 0) l[j] = -1;
+      const c = fit.contrast(l);
+      hit = { se: c.se, df: c.df };
+      pairCache.set(key, hit);
+    }
+    return hit;
+  };
+
+  const components = fit.varianceComponents.map((c) => ({
+    source: c.source as VarianceSource,
+    variance: c.variance,
+    se: c.se,
+  }));
+  const total = components.reduce((s, c) => s + c.variance, 0);
+  const share = components
+    .map((c) => ({ c, pct: total > 0 ? (100 * c.variance) / total : 0 }))
+    .sort((a, b) => b.pct - a.pct)
+    .map(({ c, pct }) => `${SOURCE_WORDS[c.source]} ${pct < 0.5 && pct > 0 ? '<1' : Math.round(pct)} %`);
+  const zero = components.filter((c) => c.variance === 0).map((c) => SOURCE_WORDS[c.source]);
+  const summary =
+    `Of the variation left once varieties are accounted for: ${share.join(', ')}.` +
+    (zero.length > 0
+      ? ` The data show no variation of their own for ${zero.join(' and ')} (estimated as zero).`
+      : '');
+
+  return {
+    varianceComponents: components,
+    fixedTest: { source: 'variety', ...test, method: 'satterthwaite' },
+    logLik: fit.logLik,
+    boundary: fit.boundary,
+    mean,
+    se,
+    pair,
+    summary,
+  };
+}

@@ -1,0 +1,585 @@
+/**
+ * Linear mixed models fitted by restricted maximum likelihood (REML):
+ *   y = Xβ + Σ_k Z_k u_k + e,  u_k ~ N(0, σ_k² I),  e ~ N(0, σ² I),
+ * where each random term is a classification of the plots (garden, block within garden,
+ * garden × variety, …) and X holds the fixed effects (full column rank).
+ *
+ * The REML criterion is profiled over σ² and optimised over the relative standard deviations
+ * θ_k = σ_k/σ, as the standard packages do, using the penalised system
+ *   M(θ) = [ΛZ'ZΛ + I, ΛZ'X; X'ZΛ, X'X],  Λ = diag(θ),
+ *   −2 REML log-likelihood = log|M(θ)| + (n − p)(1 + log(2π r²(θ)/(n − p))),
+ * r² the penalised residual sum of squares. The deviance depends on θ only through θ², so the
+ * search runs over all of ℝᴷ and a component at zero is an ordinary point (the boundary).
+ *
+ * The random term with the most levels has a diagonal block in M (each plot is in one of its
+ * cells), so it is absorbed level by level; what is left — the other random terms and the fixed
+ * effects — is one small dense Cholesky factorisation per evaluation.
+ *
+ * Denominator degrees of freedom for Wald tests by Satterthwaite's method as lmerTest
+ * computes it: the asymptotic covariance of the variance parameters (θ, σ) is twice the
+ * inverse Hessian of the REML deviance, and the gradient of Var(Lβ̂) comes from numerical
+ * derivatives; a multi-degree-of-freedom F is split along the eigenvectors of L Var(β̂) L'.
+ */
+import { fUpperTail, studentTTwoSided } from './distributions.js';
+import { hessian, jacobian } from './numeric-derivatives.js';
+import { symmetricEigen } from './symmetric-eigen.js';
+
+export interface RandomTerm {
+  /** Name reported with its variance, e.g. "site", "site:block". */
+  source: string;
+  /** Level of each observation, 0 … levels − 1. */
+  cells: Int32Array;
+  levels: number;
+}
+
+export interface MixedModelInput {
+  y: Float64Array;
+  /** Fixed-effect columns (each of length n), full column rank; the first is usually 1. */
+  fixed: Float64Array[];
+  random: RandomTerm[];
+}
+
+/** Statistic for one linear combination or a set of them. */
+export interface WaldTest {
+  numDf: number;
+  denDf: number;
+  f: number;
+  p: number;
+}
+
+export interface MixedFit {
+  /** Relative standard deviations σ_k/σ at the optimum (≥ 0), in input order. */
+  theta: number[];
+  sigma2: number;
+  varianceComponents: { source: string; variance: number; se: number | null }[];
+  /** Fixed-effect estimates (BLUEs). */
+  beta: Float64Array;
+  /** Var(β̂), p × p row-major. */
+  vcovBeta: Float64Array;
+  /** Predicted random effects (BLUPs), one array per random term. */
+  blups: Float64Array[];
+  logLik: number;
+  remlCriterion: number;
+  /** True when a variance component was estimated as zero (θ_k below 1e-4). */
+  boundary: boolean;
+  /** Asymptotic covariance of (θ_1 … θ_K, σ) from the REML Hessian (row-major). */
+  vcovVarpar: Float64Array;
+  /** l'β̂ with its SE and Satterthwaite df. */
+  contrast(l: ArrayLike<number>): { estimate: number; se: number; df: number };
+  /** Wald F test of Lβ = 0 with Satterthwaite denominator df (lmerTest's method). */
+  waldF(rows: readonly ArrayLike<number>[]): WaldTest;
+}
+
+/** Lower Cholesky factor in place (row-major m × m); returns log determinant, or NaN. */
+function cholesky(a: Float64Array, m: number): number {
+  let logdet = 0;
+  for (let j = 0; j < m; j++) {
+    let d = a[j * m + j]!;
+    for (let k = 0; k < j; k++) d -= a[j * m + k]! ** 2;
+    if (!(d > 0)) return NaN;
+    const root = Math.sqrt(d);
+    a[j * m + j] = root;
+    logdet += 2 * Math.log(root);
+    for (let i = j + 1; i < m; i++) {
+      let s = a[i * m + j]!;
+      for (let k = 0; k < j; k++) s -= a[i * m + k]! * a[j * m + k]!;
+      a[i * m + j] = s / root;
+    }
+  }
+  return logdet;
+}
+
+interface Evaluation {
+  deviance: number;
+  /** Penalised residual sum of squares r²(θ). */
+  r2: number;
+  logdet: number;
+  /** Cholesky factor of the absorbed system (rest × rest). */
+  l: Float64Array;
+  /** Forward-solved right-hand side L⁻¹ rhs. */
+  c: Float64Array;
+  /** Absorbed-level quantities for the BLUPs of the largest term. */
+  d: Float64Array;
+}
+
+/** Precomputed cross-products; everything per θ is cheap from here. */
+class RemlProblem {
+  readonly n: number;
+  readonly p: number;
+  readonly k: number;
+  /** Random term absorbed level by level (the one with most levels). */
+  readonly big: number;
+  /** First column of each random term in the rest system (−1 for the absorbed one). */
+  readonly offset: number[];
+  /** Size of the rest system: the other random terms' levels + p. */
+  readonly m: number;
+  readonly fixedStart: number;
+  private readonly rest0: Float64Array;
+  private readonly rhs0: Float64Array;
+  private readonly yy: number;
+  private readonly bigN: Float64Array;
+  private readonly bigZy: Float64Array;
+  /** Sparse rows of the absorbed term's cross-products with the rest. */
+  private readonly bigCols: Int32Array[];
+  private readonly bigVals: Float64Array[];
+  /** Term of each rest column (−1 for fixed). */
+  private readonly termOf: Int32Array;
+
+  constructor(readonly input: MixedModelInput) {
+    const { y, fixed, random } = input;
+    this.n = y.length;
+    this.p = fixed.length;
+    this.k = random.length;
+    let big = 0;
+    random.forEach((t, i) => {
+      if (t.levels > random[big]!.levels) big = i;
+    });
+    this.big = big;
+    let m = 0;
+    this.offset = random.map((t, i) => {
+      if (i === big) return -1;
+      const o = m;
+      m += t.levels;
+      return o;
+    });
+    this.fixedStart = m;
+    m += this.p;
+    this.m = m;
+    this.termOf = new Int32Array(m).fill(-1);
+    random.forEach((t, i) => {
+      if (i !== big) for (let l = 0; l < t.levels; l++) this.termOf[this.offset[i]! + l] = i;
+    });
+
+    const rest0 = new Float64Array(m * m);
+    const rhs0 = new Float64Array(m);
+    const bigTerm = random[big]!;
+    const qb = bigTerm.levels;
+    this.bigN = new Float64Array(qb);
+    this.bigZy = new Float64Array(qb);
+    const bigRows: Map<number, number>[] = Array.from({ length: qb }, () => new Map());
+    let yy = 0;
+    const cols = new Int32Array(m);
+    const vals = new Float64Array(m);
+    for (let i = 0; i < this.n; i++) {
+      // The rest row of observation i: one indicator per other term, then the fixed values.
+      let nz = 0;
+      random.forEach((t, r) => {
+        if (r === big) return;
+        cols[nz] = this.offset[r]! + t.cells[i]!;
+        vals[nz++] = 1;
+      });
+      for (let f = 0; f < this.p; f++) {
+        const v = fixed[f]![i]!;
+        if (v !== 0) {
+          cols[nz] = this.fixedStart + f;
+          vals[nz++] = v;
+        }
+      }
+      const yi = y[i]!;
+      yy += yi * yi;
+      for (let a = 0; a < nz; a++) {
+        rhs0[cols[a]!]! += vals[a]! * yi;
+        for (let b = 0; b < nz; b++) rest0[cols[a]! * m + cols[b]!]! += vals[a]! * vals[b]!;
+      }
+      const j = bigTerm.cells[i]!;
+      this.bigN[j]! += 1;
+      this.bigZy[j]! += yi;
+      const row = bigRows[j]!;
+      for (let a = 0; a < nz; a++) row.set(cols[a]!, (row.get(cols[a]!) ?? 0) + vals[a]!);
+    }
+    this.rest0 = rest0;
+    this.rhs0 = rhs0;
+    this.yy = yy;
+    this.bigCols = bigRows.map((r) => Int32Array.from(r.keys()));
+    this.bigVals = bigRows.map((r) => Float64Array.from(r.values()));
+  }
+
+  private scale(theta: readonly number[]): Float64Array {
+    const s = new Float64Array(this.m);
+    for (let c = 0; c < this.m; c++) {
+      const t = this.termOf[c]!;
+      s[c] = t < 0 ? 1 : theta[t]!;
+    }
+    return s;
+  }
+
+  evaluate(theta: readonly number[]): Evaluation {
+    const { m, n, p } = this;
+    const s = this.scale(theta);
+    const a = new Float64Array(m * m);
+    const rhs = new Float64Array(m);
+    for (let i = 0; i < m; i++) {
+      rhs[i] = s[i]! * this.rhs0[i]!;
+      for (let j = 0; j <= i; j++) a[i * m + j] = s[i]! * s[j]! * this.rest0[i * m + j]!;
+      if (i < this.fixedStart) a[i * m + i]! += 1;
+    }
+    const tb2 = theta[this.big]! ** 2;
+    let logdet = 0;
+    let yy = this.yy;
+    const d = new Float64Array(this.bigN.length);
+    for (let j = 0; j < this.bigN.length; j++) {
+      const dj = tb2 * this.bigN[j]! + 1;
+      d[j] = dj;
+      logdet += Math.log(dj);
+      if (tb2 === 0) continue;
+      const w = tb2 / dj;
+      const cols = this.bigCols[j]!;
+      const vals = this.bigVals[j]!;
+      const zy = this.bigZy[j]!;
+      yy -= w * zy * zy;
+      for (let x = 0; x < cols.length; x++) {
+        const cx = cols[x]!;
+        const vx = s[cx]! * vals[x]!;
+        rhs[cx]! -= w * vx * zy;
+        for (let z = 0; z < cols.length; z++) {
+          const cz = cols[z]!;
+          if (cz > cx) continue;
+          a[cx * m + cz]! -= w * vx * s[cz]! * vals[z]!;
+        }
+      }
+    }
+    const ld = cholesky(a, m);
+    const c = new Float64Array(m);
+    let cc = 0;
+    for (let i = 0; i < m; i++) {
+      let v = rhs[i]!;
+      for (let k = 0; k < i; k++) v -= a[i * m + k]! * c[k]!;
+      c[i] = v / a[i * m + i]!;
+      cc += c[i]! * c[i]!;
+    }
+    logdet += ld;
+    // Guard against cancellation leaving a tiny negative residual.
+    const r2 = Math.max(yy - cc, 1e-300);
+    const nu = n - p;
+    const deviance = logdet + nu * (1 + Math.log((2 * Math.PI * r2) / nu));
+    return { deviance: Number.isFinite(ld) ? deviance : Infinity, r2, logdet, l: a, c, d };
+  }
+
+  /** REML deviance at given (θ, σ) — not profiled — as lmerTest defines it. */
+  devianceAt(varpar: readonly number[]): number {
+    const theta = varpar.slice(0, this.k);
+    const sigma2 = varpar[this.k]! ** 2;
+    const e = this.evaluate(theta);
+    return e.logdet + e.r2 / sigma2 + (this.n - this.p) * Math.log(2 * Math.PI * sigma2);
+  }
+
+  /** Var(β̂) = σ² (L_ff L_ff')⁻¹ from the trailing block of the factor. */
+  vcovBeta(theta: readonly number[], sigma2: number, e = this.evaluate(theta)): Float64Array {
+    const { m, p, fixedStart: f0 } = this;
+    // Inverse of the lower-triangular trailing block.
+    const li = new Float64Array(p * p);
+    for (let j = 0; j < p; j++) {
+      li[j * p + j] = 1 / e.l[(f0 + j) * m + f0 + j]!;
+      for (let i = j + 1; i < p; i++) {
+        let s = 0;
+        for (let k = j; k < i; k++) s -= e.l[(f0 + i) * m + f0 + k]! * li[k * p + j]!;
+        li[i * p + j] = s / e.l[(f0 + i) * m + f0 + i]!;
+      }
+    }
+    const v = new Float64Array(p * p);
+    for (let i = 0; i < p; i++) {
+      for (let j = 0; j <= i; j++) {
+        let s = 0;
+        for (let k = i; k < p; k++) s += li[k * p + i]! * li[k * p + j]!;
+        v[i * p + j] = sigma2 * s;
+        v[j * p + i] = sigma2 * s;
+      }
+    }
+    return v;
+  }
+
+  /** Solution of the full penalised system: β̂ and the spherical random effects. */
+  solve(theta: readonly number[], e: Evaluation): { beta: Float64Array; blups: Float64Array[] } {
+    const { m } = this;
+    const x = new Float64Array(m);
+    for (let i = m - 1; i >= 0; i--) {
+      let v = e.c[i]!;
+      for (let k = i + 1; k < m; k++) v -= e.l[k * m + i]! * x[k]!;
+      x[i] = v / e.l[i * m + i]!;
+    }
+    const s = this.scale(theta);
+    const beta = x.slice(this.fixedStart);
+    const blups = this.input.random.map((t, r) => {
+      const u = new Float64Array(t.levels);
+      if (r === this.big) {
+        const tb = theta[r]!;
+        for (let j = 0; j < t.levels; j++) {
+          let dot = 0;
+          const cols = this.bigCols[j]!;
+          const vals = this.bigVals[j]!;
+          for (let z = 0; z < cols.length; z++) dot += s[cols[z]!]! * vals[z]! * x[cols[z]!]!;
+          u[j] = (tb * (tb * this.bigZy[j]! - tb * dot)) / e.d[j]!;
+        }
+      } else {
+        for (let j = 0; j < t.levels; j++) u[j] = theta[r]! * x[this.offset[r]! + j]!;
+      }
+      return u;
+    });
+    return { beta, blups };
+  }
+}
+
+/** Nelder–Mead on a small unconstrained problem, restarted until a restart gains nothing. */
+function nelderMead(f: (x: number[]) => number, start: number[]): { x: number[]; f: number } {
+  const k = start.length;
+  let best = { x: [...start], f: f(start) };
+  for (let restart = 0; restart < 20; restart++) {
+    const simplex = [best.x];
+    for (let i = 0; i < k; i++) {
+      const v = [...best.x];
+      v[i] = v[i]! + (Math.abs(v[i]!) > 1e-3 ? 0.1 * Math.abs(v[i]!) : 0.05) * (restart === 0 ? 2 : 1);
+      simplex.push(v);
+    }
+    const fs = simplex.map(f);
+    for (let iter = 0; iter < 2000 * k; iter++) {
+      const order = fs.map((_, i) => i).sort((a, b) => fs[a]! - fs[b]!);
+      const pts = order.map((i) => simplex[i]!);
+      const vals = order.map((i) => fs[i]!);
+      simplex.splice(0, simplex.length, ...pts);
+      fs.splice(0, fs.length, ...vals);
+      const spread = Math.abs(fs[k]! - fs[0]!);
+      let size = 0;
+      for (let i = 1; i <= k; i++)
+        for (let j = 0; j < k; j++) size = Math.max(size, Math.abs(simplex[i]![j]! - simplex[0]![j]!));
+      if (spread <= 1e-14 * (1 + Math.abs(fs[0]!)) && size < 1e-9) break;
+      const centroid = new Array<number>(k).fill(0);
+      for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) centroid[j]! += simplex[i]![j]! / k;
+      const along = (t: number) => centroid.map((c, j) => c + t * (simplex[k]![j]! - c));
+      const xr = along(-1);
+      const fr = f(xr);
+      if (fr < fs[0]!) {
+        const xe = along(-2);
+        const fe = f(xe);
+        if (fe < fr) {
+          simplex[k] = xe;
+          fs[k] = fe;
+        } else {
+          simplex[k] = xr;
+          fs[k] = fr;
+        }
+      } else if (fr < fs[k - 1]!) {
+        simplex[k] = xr;
+        fs[k] = fr;
+      } else {
+        const outside = fr < fs[k]!;
+        const xc = along(outside ? -0.5 : 0.5);
+        const fc = f(xc);
+        if (fc < (outside ? fr : fs[k]!)) {
+          simplex[k] = xc;
+          fs[k] = fc;
+        } else {
+          for (let i = 1; i <= k; i++) {
+            simplex[i] = simplex[i]!.map((v, j) => simplex[0]![j]! + 0.5 * (v - simplex[0]![j]!));
+            fs[i] = f(simplex[i]!);
+          }
+        }
+      }
+    }
+    let bi = 0;
+    for (let i = 1; i <= k; i++) if (fs[i]! < fs[bi]!) bi = i;
+    const gained = best.f - fs[bi]!;
+    if (fs[bi]! <= best.f) best = { x: [...simplex[bi]!], f: fs[bi]! };
+    if (restart > 0 && gained <= 1e-13 * (1 + Math.abs(best.f))) break;
+  }
+  return best;
+}
+
+/** θ below this (relative SD) is reported as a variance at the boundary (zero), as lme4 does. */
+const BOUNDARY_THETA = 1e-4;
+
+export function fitReml(input: MixedModelInput): MixedFit {
+  const problem = new RemlProblem(input);
+  const k = problem.k;
+  const profiled = (theta: readonly number[]) => problem.evaluate(theta).deviance;
+  let opt = nelderMead((t) => profiled(t), new Array<number>(k).fill(1));
+  let theta = opt.x.map(Math.abs);
+  // A component near zero: fix it at zero and re-optimise the others; keep it there when the
+  // deviance is no worse (a boundary optimum), as the bounded optimisers in the packages end.
+  const small = theta.map((t, i) => (t < 1e-3 ? i : -1)).filter((i) => i >= 0);
+  if (small.length > 0) {
+    const free = theta.map((_, i) => i).filter((i) => !small.includes(i));
+    const expand = (x: number[]) => {
+      const full = new Array<number>(k).fill(0);
+      free.forEach((i, j) => (full[i] = x[j]!));
+      return full;
+    };
+    const sub =
+      free.length > 0
+        ? nelderMead((x) => profiled(expand(x)), free.map((i) => theta[i]!))
+        : { x: [], f: profiled(expand([])) };
+    if (sub.f <= opt.f + 1e-10 * (1 + Math.abs(opt.f))) {
+      theta = expand(sub.x).map(Math.abs);
+      opt = { x: theta, f: sub.f };
+    }
+  }
+  const e = problem.evaluate(theta);
+  const nu = problem.n - problem.p;
+  const sigma2 = e.r2 / nu;
+  const { beta, blups } = problem.solve(theta, e);
+  const vcovBeta = problem.vcovBeta(theta, sigma2, e);
+  const boundary = theta.some((t) => t < BOUNDARY_THETA);
+
+  // Covariance of the variance parameters (θ, σ): 2 × pseudo-inverse of the REML Hessian,
+  // eigenvalues within 1e-8 of zero left out (as lmerTest does).
+  const varpar = [...theta, Math.sqrt(sigma2)];
+  const q = varpar.length;
+  const h = hessian((x) => problem.devianceAt(x), varpar);
+  const eig = symmetricEigen(h, q);
+  const vcovVarpar = new Float64Array(q * q);
+  eig.values.forEach((val, mIdx) => {
+    if (!(val > 1e-8)) return;
+    const v = eig.vectors[mIdx]!;
+    for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) vcovVarpar[i * q + j]! += (2 * v[i]! * v[j]!) / val;
+  });
+  // ∂Var(β̂)/∂(θ_i, σ): one p × p matrix per variance parameter.
+  const jac = jacobian(
+    (x) => problem.vcovBeta(x.slice(0, k), x[k]! ** 2),
+    varpar,
+  );
+  const p = problem.p;
+  const qform = (l: ArrayLike<number>, mat: Float64Array) => {
+    let s = 0;
+    for (let i = 0; i < p; i++) {
+      if (l[i] === 0) continue;
+      let r = 0;
+      for (let j = 0; j < p; j++) r += mat[i * p + j]! * l[j]!;
+      s += l[i]! * r;
+    }
+    return s;
+  };
+  const satterthwaite = (l: ArrayLike<number>, variance: number) => {
+    const g = jac.map((jm) => qform(l, jm));
+    let gag = 0;
+    for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) gag += g[i]! * vcovVarpar[i * q + j]! * g[j]!;
+    return (2 * variance * variance) / gag;
+  };
+  const dot = (l: ArrayLike<number>) => {
+    let s = 0;
+    for (let i = 0; i < p; i++) s += l[i]! * beta[i]!;
+    return s;
+  };
+
+  const varianceComponents = input.random.map((t, i) => {
+    // Delta method from (θ_i, σ) to σ_i² = θ_i² σ².
+    const g = new Array<number>(q).fill(0);
+    g[i] = 2 * theta[i]! * sigma2;
+    g[k] = 2 * theta[i]! ** 2 * Math.sqrt(sigma2);
+    return { source: t.source, variance: theta[i]! ** 2 * sigma2, se: deltaSe(g) };
+  });
+  const gRes = new Array<number>(q).fill(0);
+  gRes[k] = 2 * Math.sqrt(sigma2);
+  varianceComponents.push({ source: 'residual', variance: sigma2, se: deltaSe(gRes) });
+
+  function deltaSe(g: number[]): number | null {
+    let v = 0;
+    for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) v += g[i]! * vcovVarpar[i * q + j]! * g[j]!;
+    return v > 0 ? Math.sqrt(v) : null;
+  }
+
+  return {
+    theta,
+    sigma2,
+    varianceComponents,
+    beta,
+    vcovBeta,
+    blups,
+    logLik: -e.deviance / 2,
+    remlCriterion: e.deviance,
+    boundary,
+    vcovVarpar,
+    contrast(l) {
+      const variance = qform(l, vcovBeta);
+      return { estimate: dot(l), se: Math.sqrt(variance), df: satterthwaite(l, variance) };
+    },
+    waldF(rows) {
+      const r = rows.length;
+      const lvl = new Float64Array(r * r);
+      for (let a = 0; a < r; a++) {
+        for (let b = 0; b <= a; b++) {
+          let s = 0;
+          for (let i = 0; i < p; i++) {
+            if (rows[a]![i] === 0) continue;
+            let t = 0;
+            for (let j = 0; j < p; j++) t += vcovBeta[i * p + j]! * rows[b]![j]!;
+            s += rows[a]![i]! * t;
+          }
+          lvl[a * r + b] = s;
+          lvl[b * r + a] = s;
+        }
+      }
+      const eg = symmetricEigen(lvl, r);
+      const tol = Math.max(Math.sqrt(2.220446049250313e-16) * eg.values[0]!, 0);
+      const dirs: { l: Float64Array; d: number }[] = [];
+      eg.values.forEach((d, mIdx) => {
+        if (!(d > tol)) return;
+        const pv = eg.vectors[mIdx]!;
+        const l = new Float64Array(p);
+        for (let a = 0; a < r; a++) for (let i = 0; i < p; i++) l[i]! += pv[a]! * rows[a]![i]!;
+        dirs.push({ l, d });
+      });
+      const numDf = dirs.length;
+      let f = 0;
+      for (const { l, d } of dirs) f += dot(l) ** 2 / d;
+      f /= numDf;
+      const nus = dirs.map(({ l, d }) => satterthwaite(l, d));
+      let denDf: number;
+      if (nus.length === 1) denDf = nus[0]!;
+      else if (nus.every((v) => Math.abs(v - nus[0]!) < 1e-8)) denDf = nus.reduce((a, b) => a + b) / nus.length;
+      else if (nus.some((v) => v <= 2)) denDf = 2;
+      else {
+        const sum = nus.reduce((acc, v) => acc + v / (v - 2), 0);
+        denDf = (2 * sum) / (sum - nus.length);
+      }
+      return { numDf, denDf, f, p: fUpperTail(f, numDf, denDf) };
+    },
+  };
+}
+
+/**
+ * Rows of the sequential (type I) hypothesis for the fixed columns from..to−1: the rows of the
+ * unit upper-triangular factor of X'X = U'DU (Gaussian elimination without pivoting), the
+ * contrasts lmerTest builds for its F tests. A column aliased with earlier ones gives no row.
+ */
+export function sequentialContrasts(
+  fixed: readonly Float64Array[],
+  from: number,
+  to: number,
+): Float64Array[] {
+  const p = fixed.length;
+  const x = new Float64Array(p * p);
+  for (let i = 0; i < p; i++)
+    for (let j = 0; j <= i; j++) {
+      let s = 0;
+      const a = fixed[i]!;
+      const b = fixed[j]!;
+      for (let r = 0; r < a.length; r++) s += a[r]! * b[r]!;
+      x[i * p + j] = s;
+      x[j * p + i] = s;
+    }
+  const u = new Float64Array(p * p);
+  for (let i = 0; i < p; i++) {
+    for (let j = i; j < p; j++) {
+      let s = x[i * p + j]!;
+      for (let k = 0; k < i; k++) {
+        const ukk = u[k * p + k]!;
+        if (ukk !== 0) s -= (u[k * p + i]! * u[k * p + j]!) / ukk;
+      }
+      u[i * p + j] = s;
+    }
+    if (Math.abs(u[i * p + i]!) < 1e-6 * Math.max(1, x[i * p + i]!)) for (let j = i; j < p; j++) u[i * p + j] = 0;
+  }
+  const rows: Float64Array[] = [];
+  for (let i = from; i < to; i++) {
+    const d = u[i * p + i]!;
+    if (d === 0) continue;
+    const row = new Float64Array(p);
+    for (let j = i; j < p; j++) row[j] = u[i * p + j]! / d;
+    rows.push(row);
+  }
+  return rows;
+}
+
+/** Two-sided p of a contrast's t on its Satterthwaite df. */
+export function contrastP(estimate: number, se: number, df: number): number {
+  return studentTTwoSided(estimate / se, df);
+}
