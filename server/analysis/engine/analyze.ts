@@ -19,7 +19,11 @@ import { accurateMean } from './linear-model.js';
 import { adjustedMeans, NotConnectedError, type AdjustedMeans } from './adjusted-means.js';
 import { studentTTwoSided, studentizedRangeUpperTail } from './distributions.js';
 import { separateMeans, type SeparationMethod } from './mean-separation.js';
-import { mixedVarietyAnalysis, type MixedVarietyAnalysis, type VarianceSource } from './mixed-analysis.js';
+import {
+  mixedVarietyAnalysis,
+  type MixedVarietyAnalysis,
+  type VarianceSource,
+} from './mixed-analysis.js';
 import { rankMeans, type TraitDirection } from '../../../common/ranking';
 
 export type { Design } from './anova.js';
@@ -460,7 +464,7 @@ export function analyzePlotRows(
   };
   try {
     adjusted = mixed
-      ? { mean: mixed.mean, se: mixed.se, pairSe: (i, j) => mixed.pair(i, j).se }
+      ? { mean: mixed.mean, se: mixed.se, pairSe: mixed.pairSe }
       : adjustedMeans(adjustedInput);
   } catch (err) {
     if (!(err instanceof NotConnectedError)) throw err;
@@ -586,9 +590,7 @@ export function analyzePlotRows(
     result.pairs = sep.pairs.map((pair) => {
       const t = pair.se > 0 ? pair.difference / pair.se : pair.difference === 0 ? 0 : Infinity;
       // Mixed model: each difference on its own Satterthwaite df, as emmeans gives.
-      const pairDf = mixed
-        ? mixed.pair(indexOf.get(pair.a)!, indexOf.get(pair.b)!).df
-        : av.error.df;
+      const pairDf = mixed ? mixed.pairDf(indexOf.get(pair.a)!, indexOf.get(pair.b)!) : av.error.df;
       return {
         ...pair,
         t,

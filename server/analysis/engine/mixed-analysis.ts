@@ -10,7 +10,7 @@
  * estimated marginal means for this model) with their standard errors; the variety test is a
  * Wald F with Satterthwaite's denominator degrees of freedom.
  */
-import { fitReml, sequentialContrasts, type RandomTerm } from './mixed-model.js';
+import { fitReml, varietyTestContrasts, type RandomTerm } from './mixed-model.js';
 import type { varianceSources } from '../../../common/contracts/analysis';
 
 export interface MixedLayout {
@@ -40,8 +40,10 @@ export interface MixedVarietyAnalysis {
   /** BLUE of each entry's mean (per entry code, on the scale of `y`). */
   mean: Float64Array;
   se: Float64Array;
-  /** Standard error and Satterthwaite df of the difference between entries i and j. */
-  pair(i: number, j: number): { se: number; df: number };
+  /** Standard error of the difference between entries i and j. */
+  pairSe(i: number, j: number): number;
+  /** Satterthwaite df of that difference. */
+  pairDf(i: number, j: number): number;
   /** How much of the variation each source holds, in words. */
   summary: string;
 }
@@ -82,34 +84,25 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
   if (random.length === 0)
     return 'the mixed model needs a site or block column (gardens or blocks to treat as random)';
 
-  const fixed: Float64Array[] = [new Float64Array(n).fill(1)];
-  for (let e = 1; e < k; e++) fixed.push(Float64Array.from(entry, (c) => (c === e ? 1 : 0)));
-  const fit = fitReml({ y, fixed, random });
-
-  const test = fit.waldF(sequentialContrasts(fixed, 1, k));
-  const mean = new Float64Array(k);
+  const fit = fitReml({ y, fixedCells: entry, fixedLevels: k, random });
+  const counts = new Float64Array(k);
+  for (let i = 0; i < n; i++) counts[entry[i]!]! += 1;
+  const test = fit.waldF(varietyTestContrasts(counts));
+  // β̂ are the variety means themselves (BLUEs).
+  const mean = Float64Array.from(fit.beta);
   const se = new Float64Array(k);
-  for (let e = 0; e < k; e++) {
+  for (let e = 0; e < k; e++) se[e] = Math.sqrt(fit.vcovBeta[e * k + e]!);
+  // Differences' SEs straight from Var(β̂) (cheap, needed for every letter decision); their
+  // Satterthwaite df only when a pair's p is asked for.
+  const v = fit.vcovBeta;
+  const pairSe = (i: number, j: number) => {
+    return Math.sqrt(Math.max(v[i * k + i]! + v[j * k + j]! - 2 * v[i * k + j]!, 0));
+  };
+  const pairDf = (i: number, j: number) => {
     const l = new Float64Array(k);
-    l[0] = 1;
-    if (e > 0) l[e] = 1;
-    const c = fit.contrast(l);
-    mean[e] = c.estimate;
-    se[e] = c.se;
-  }
-  const pairCache = new Map<number, { se: number; df: number }>();
-  const pair = (i: number, j: number) => {
-    const key = Math.min(i, j) * k + Math.max(i, j);
-    let hit = pairCache.get(key);
-    if (!hit) {
-      const l = new Float64Array(k);
-      if (i > 0) l[i] = 1;
-      if (j > 0) l[j] = -1;
-      const c = fit.contrast(l);
-      hit = { se: c.se, df: c.df };
-      pairCache.set(key, hit);
-    }
-    return hit;
+    l[i] = 1;
+    l[j] = -1;
+    return fit.contrast(l).df;
   };
 
   const components = fit.varianceComponents.map((c) => ({
@@ -121,7 +114,10 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
   const share = components
     .map((c) => ({ c, pct: total > 0 ? (100 * c.variance) / total : 0 }))
     .sort((a, b) => b.pct - a.pct)
-    .map(({ c, pct }) => `${SOURCE_WORDS[c.source]} ${pct < 0.5 && pct > 0 ? '<1' : Math.round(pct)} %`);
+    .map(
+      ({ c, pct }) =>
+        `${SOURCE_WORDS[c.source]} ${pct < 0.5 && pct > 0 ? '<1' : Math.round(pct)} %`,
+    );
   const zero = components.filter((c) => c.variance === 0).map((c) => SOURCE_WORDS[c.source]);
   const summary =
     `Of the variation left once varieties are accounted for: ${share.join(', ')}.` +
@@ -136,7 +132,8 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
     boundary: fit.boundary,
     mean,
     se,
-    pair,
+    pairSe,
+    pairDf,
     summary,
   };
 }

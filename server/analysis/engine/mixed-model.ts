@@ -2,7 +2,7 @@
  * Linear mixed models fitted by restricted maximum likelihood (REML):
  *   y = Xβ + Σ_k Z_k u_k + e,  u_k ~ N(0, σ_k² I),  e ~ N(0, σ² I),
  * where each random term is a classification of the plots (garden, block within garden,
- * garden × variety, …) and X holds the fixed effects (full column rank).
+ * garden × variety, …) and X holds the fixed effects as cell means (one column per cell).
  *
  * The REML criterion is profiled over σ² and optimised over the relative standard deviations
  * θ_k = σ_k/σ, as the standard packages do, using the penalised system
@@ -11,9 +11,9 @@
  * r² the penalised residual sum of squares. The deviance depends on θ only through θ², so the
  * search runs over all of ℝᴷ and a component at zero is an ordinary point (the boundary).
  *
- * The random term with the most levels has a diagonal block in M (each plot is in one of its
- * cells), so it is absorbed level by level; what is left — the other random terms and the fixed
- * effects — is one small dense Cholesky factorisation per evaluation.
+ * Every classification (each random term, the fixed cells) has a diagonal block in M, so the
+ * one with most levels is absorbed level by level; what is left is one small dense Cholesky
+ * factorisation per evaluation.
  *
  * Denominator degrees of freedom for Wald tests by Satterthwaite's method as lmerTest
  * computes it: the asymptotic covariance of the variance parameters (θ, σ) is twice the
@@ -34,8 +34,12 @@ export interface RandomTerm {
 
 export interface MixedModelInput {
   y: Float64Array;
-  /** Fixed-effect columns (each of length n), full column rank; the first is usually 1. */
-  fixed: Float64Array[];
+  /**
+   * The fixed effects as cell means of one classification (the variety, or the variety ×
+   * treatment cell): β is one mean per cell, so X has full rank and X'X is diagonal.
+   */
+  fixedCells: Int32Array;
+  fixedLevels: number;
   random: RandomTerm[];
 }
 
@@ -98,143 +102,141 @@ interface Evaluation {
   l: Float64Array;
   /** Forward-solved right-hand side L⁻¹ rhs. */
   c: Float64Array;
-  /** Absorbed-level quantities for the BLUPs of the largest term. */
+  /** Diagonal of the absorbed classification's block. */
   d: Float64Array;
+  /** Column scales (θ of the column's term, 1 for fixed). */
+  s: Float64Array;
+  /** Scale of the absorbed classification. */
+  sa: number;
 }
 
-/** Precomputed cross-products; everything per θ is cheap from here. */
+/**
+ * Precomputed cross-products; everything per θ is cheap from here.
+ *
+ * The model's columns come in classifications: one per random term and the fixed cells. Each
+ * plot lies in exactly one level of each, so any one classification's block of the system is
+ * diagonal; the one with most levels is absorbed level by level and the others form a small
+ * dense system ("rest": random terms first, fixed cells last when they are not absorbed).
+ */
 class RemlProblem {
   readonly n: number;
   readonly p: number;
   readonly k: number;
-  /** Random term absorbed level by level (the one with most levels). */
-  readonly big: number;
-  /** First column of each random term in the rest system (−1 for the absorbed one). */
+  /** Absorbed classification: a random term's index, or k for the fixed cells. */
+  readonly absorbed: number;
+  /** First rest column of each classification (random terms 0…k−1, fixed k); −1 if absorbed. */
   readonly offset: number[];
-  /** Size of the rest system: the other random terms' levels + p. */
+  /** Size of the rest system. */
   readonly m: number;
-  readonly fixedStart: number;
   private readonly rest0: Float64Array;
   private readonly rhs0: Float64Array;
   private readonly yy: number;
-  private readonly bigN: Float64Array;
-  private readonly bigZy: Float64Array;
-  /** Sparse rows of the absorbed term's cross-products with the rest. */
-  private readonly bigCols: Int32Array[];
-  private readonly bigVals: Float64Array[];
-  /** Term of each rest column (−1 for fixed). */
-  private readonly termOf: Int32Array;
+  private readonly absN: Float64Array;
+  private readonly absZy: Float64Array;
+  /** Sparse rows of the absorbed classification's cross-products with the rest. */
+  private readonly absCols: Int32Array[];
+  private readonly absVals: Float64Array[];
+  /** Classification of each rest column (k = fixed). */
+  private readonly groupOf: Int32Array;
 
   constructor(readonly input: MixedModelInput) {
-    const { y, fixed, random } = input;
+    const { y, random } = input;
     this.n = y.length;
-    this.p = fixed.length;
+    this.p = input.fixedLevels;
     this.k = random.length;
-    let big = 0;
-    random.forEach((t, i) => {
-      if (t.levels > random[big]!.levels) big = i;
+    const groups = [
+      ...random.map((t) => ({ cells: t.cells, levels: t.levels })),
+      { cells: input.fixedCells, levels: input.fixedLevels },
+    ];
+    let absorbed = 0;
+    groups.forEach((g, i) => {
+      if (g.levels > groups[absorbed]!.levels) absorbed = i;
     });
-    this.big = big;
+    this.absorbed = absorbed;
     let m = 0;
-    this.offset = random.map((t, i) => {
-      if (i === big) return -1;
+    this.offset = groups.map((g, i) => {
+      if (i === absorbed) return -1;
       const o = m;
-      m += t.levels;
+      m += g.levels;
       return o;
     });
-    this.fixedStart = m;
-    m += this.p;
     this.m = m;
-    this.termOf = new Int32Array(m).fill(-1);
-    random.forEach((t, i) => {
-      if (i !== big) for (let l = 0; l < t.levels; l++) this.termOf[this.offset[i]! + l] = i;
+    this.groupOf = new Int32Array(m);
+    groups.forEach((g, i) => {
+      if (i !== absorbed) for (let l = 0; l < g.levels; l++) this.groupOf[this.offset[i]! + l] = i;
     });
 
     const rest0 = new Float64Array(m * m);
     const rhs0 = new Float64Array(m);
-    const bigTerm = random[big]!;
-    const qb = bigTerm.levels;
-    this.bigN = new Float64Array(qb);
-    this.bigZy = new Float64Array(qb);
-    const bigRows: Map<number, number>[] = Array.from({ length: qb }, () => new Map());
+    const abs = groups[absorbed]!;
+    this.absN = new Float64Array(abs.levels);
+    this.absZy = new Float64Array(abs.levels);
+    const absRows: Map<number, number>[] = Array.from({ length: abs.levels }, () => new Map());
     let yy = 0;
-    const cols = new Int32Array(m);
-    const vals = new Float64Array(m);
+    const cols = new Int32Array(groups.length);
     for (let i = 0; i < this.n; i++) {
-      // The rest row of observation i: one indicator per other term, then the fixed values.
       let nz = 0;
-      random.forEach((t, r) => {
-        if (r === big) return;
-        cols[nz] = this.offset[r]! + t.cells[i]!;
-        vals[nz++] = 1;
+      groups.forEach((g, r) => {
+        if (r !== absorbed) cols[nz++] = this.offset[r]! + g.cells[i]!;
       });
-      for (let f = 0; f < this.p; f++) {
-        const v = fixed[f]![i]!;
-        if (v !== 0) {
-          cols[nz] = this.fixedStart + f;
-          vals[nz++] = v;
-        }
-      }
       const yi = y[i]!;
       yy += yi * yi;
       for (let a = 0; a < nz; a++) {
-        rhs0[cols[a]!]! += vals[a]! * yi;
-        for (let b = 0; b < nz; b++) rest0[cols[a]! * m + cols[b]!]! += vals[a]! * vals[b]!;
+        rhs0[cols[a]!]! += yi;
+        for (let b = 0; b < nz; b++) rest0[cols[a]! * m + cols[b]!]! += 1;
       }
-      const j = bigTerm.cells[i]!;
-      this.bigN[j]! += 1;
-      this.bigZy[j]! += yi;
-      const row = bigRows[j]!;
-      for (let a = 0; a < nz; a++) row.set(cols[a]!, (row.get(cols[a]!) ?? 0) + vals[a]!);
+      const j = abs.cells[i]!;
+      this.absN[j]! += 1;
+      this.absZy[j]! += yi;
+      const row = absRows[j]!;
+      for (let a = 0; a < nz; a++) row.set(cols[a]!, (row.get(cols[a]!) ?? 0) + 1);
     }
     this.rest0 = rest0;
     this.rhs0 = rhs0;
     this.yy = yy;
-    this.bigCols = bigRows.map((r) => Int32Array.from(r.keys()));
-    this.bigVals = bigRows.map((r) => Float64Array.from(r.values()));
-  }
-
-  private scale(theta: readonly number[]): Float64Array {
-    const s = new Float64Array(this.m);
-    for (let c = 0; c < this.m; c++) {
-      const t = this.termOf[c]!;
-      s[c] = t < 0 ? 1 : theta[t]!;
-    }
-    return s;
+    this.absCols = absRows.map((r) => Int32Array.from(r.keys()));
+    this.absVals = absRows.map((r) => Float64Array.from(r.values()));
   }
 
   evaluate(theta: readonly number[]): Evaluation {
-    const { m, n, p } = this;
-    const s = this.scale(theta);
+    const { m, n, p, k } = this;
+    const s = new Float64Array(m);
+    for (let c = 0; c < m; c++) {
+      const g = this.groupOf[c]!;
+      s[c] = g === k ? 1 : theta[g]!;
+    }
     const a = new Float64Array(m * m);
     const rhs = new Float64Array(m);
     for (let i = 0; i < m; i++) {
       rhs[i] = s[i]! * this.rhs0[i]!;
       for (let j = 0; j <= i; j++) a[i * m + j] = s[i]! * s[j]! * this.rest0[i * m + j]!;
-      if (i < this.fixedStart) a[i * m + i]! += 1;
+      if (this.groupOf[i]! < k) a[i * m + i]! += 1;
     }
-    const tb2 = theta[this.big]! ** 2;
+    const fixedAbsorbed = this.absorbed === k;
+    const sa = fixedAbsorbed ? 1 : theta[this.absorbed]!;
+    const sa2 = sa * sa;
     let logdet = 0;
     let yy = this.yy;
-    const d = new Float64Array(this.bigN.length);
-    for (let j = 0; j < this.bigN.length; j++) {
-      const dj = tb2 * this.bigN[j]! + 1;
+    const d = new Float64Array(this.absN.length);
+    for (let j = 0; j < this.absN.length; j++) {
+      const dj = sa2 * this.absN[j]! + (fixedAbsorbed ? 0 : 1);
       d[j] = dj;
       logdet += Math.log(dj);
-      if (tb2 === 0) continue;
-      const w = tb2 / dj;
-      const cols = this.bigCols[j]!;
-      const vals = this.bigVals[j]!;
-      const zy = this.bigZy[j]!;
+      if (sa2 === 0) continue;
+      const w = sa2 / dj;
+      const cols = this.absCols[j]!;
+      const vals = this.absVals[j]!;
+      const zy = this.absZy[j]!;
       yy -= w * zy * zy;
       for (let x = 0; x < cols.length; x++) {
         const cx = cols[x]!;
-        const vx = s[cx]! * vals[x]!;
-        rhs[cx]! -= w * vx * zy;
+        const vx = w * s[cx]! * vals[x]!;
+        if (vx === 0) continue;
+        rhs[cx]! -= vx * zy;
+        const row = cx * m;
         for (let z = 0; z < cols.length; z++) {
           const cz = cols[z]!;
-          if (cz > cx) continue;
-          a[cx * m + cz]! -= w * vx * s[cz]! * vals[z]!;
+          if (cz <= cx) a[row + cz]! -= vx * s[cz]! * vals[z]!;
         }
       }
     }
@@ -243,8 +245,9 @@ class RemlProblem {
     let cc = 0;
     for (let i = 0; i < m; i++) {
       let v = rhs[i]!;
-      for (let k = 0; k < i; k++) v -= a[i * m + k]! * c[k]!;
-      c[i] = v / a[i * m + i]!;
+      const row = i * m;
+      for (let q = 0; q < i; q++) v -= a[row + q]! * c[q]!;
+      c[i] = v / a[row + i]!;
       cc += c[i]! * c[i]!;
     }
     logdet += ld;
@@ -252,7 +255,7 @@ class RemlProblem {
     const r2 = Math.max(yy - cc, 1e-300);
     const nu = n - p;
     const deviance = logdet + nu * (1 + Math.log((2 * Math.PI * r2) / nu));
-    return { deviance: Number.isFinite(ld) ? deviance : Infinity, r2, logdet, l: a, c, d };
+    return { deviance: Number.isFinite(ld) ? deviance : Infinity, r2, logdet, l: a, c, d, s, sa };
   }
 
   /** REML deviance at given (θ, σ) — not profiled — as lmerTest defines it. */
@@ -263,24 +266,50 @@ class RemlProblem {
     return e.logdet + e.r2 / sigma2 + (this.n - this.p) * Math.log(2 * Math.PI * sigma2);
   }
 
-  /** Var(β̂) = σ² (L_ff L_ff')⁻¹ from the trailing block of the factor. */
+  /** Var(β̂) = σ² × the fixed cells' block of M⁻¹. */
   vcovBeta(theta: readonly number[], sigma2: number, e = this.evaluate(theta)): Float64Array {
-    const { m, p, fixedStart: f0 } = this;
-    // Inverse of the lower-triangular trailing block.
-    const li = new Float64Array(p * p);
+    const { m, p } = this;
+    const v = new Float64Array(p * p);
+    if (this.absorbed !== this.k) {
+      // Fixed cells last in the rest: the inverse of the trailing block of the factor.
+      const f0 = this.offset[this.k]!;
+      const li = new Float64Array(p * p);
+      for (let j = 0; j < p; j++) {
+        li[j * p + j] = 1 / e.l[(f0 + j) * m + f0 + j]!;
+        for (let i = j + 1; i < p; i++) {
+          let s = 0;
+          for (let q = j; q < i; q++) s -= e.l[(f0 + i) * m + f0 + q]! * li[q * p + j]!;
+          li[i * p + j] = s / e.l[(f0 + i) * m + f0 + i]!;
+        }
+      }
+      for (let i = 0; i < p; i++) {
+        for (let j = 0; j <= i; j++) {
+          let s = 0;
+          for (let q = i; q < p; q++) s += li[q * p + i]! * li[q * p + j]!;
+          v[i * p + j] = sigma2 * s;
+          v[j * p + i] = sigma2 * s;
+        }
+      }
+      return v;
+    }
+    // Fixed cells absorbed: D⁻¹ + D⁻¹ B' S⁻¹ B D⁻¹ with B the cross-products with the rest.
+    const w = new Float64Array(p * m);
     for (let j = 0; j < p; j++) {
-      li[j * p + j] = 1 / e.l[(f0 + j) * m + f0 + j]!;
-      for (let i = j + 1; i < p; i++) {
-        let s = 0;
-        for (let k = j; k < i; k++) s -= e.l[(f0 + i) * m + f0 + k]! * li[k * p + j]!;
-        li[i * p + j] = s / e.l[(f0 + i) * m + f0 + i]!;
+      const col = new Float64Array(m);
+      const cols = this.absCols[j]!;
+      const vals = this.absVals[j]!;
+      for (let z = 0; z < cols.length; z++) col[cols[z]!] = (e.s[cols[z]!]! * vals[z]!) / e.d[j]!;
+      // Forward substitution: W_j = L⁻¹ (B_j / D_j).
+      for (let i = 0; i < m; i++) {
+        let t = col[i]!;
+        for (let q = 0; q < i; q++) t -= e.l[i * m + q]! * w[j * m + q]!;
+        w[j * m + i] = t / e.l[i * m + i]!;
       }
     }
-    const v = new Float64Array(p * p);
     for (let i = 0; i < p; i++) {
       for (let j = 0; j <= i; j++) {
-        let s = 0;
-        for (let k = i; k < p; k++) s += li[k * p + i]! * li[k * p + j]!;
+        let s = i === j ? 1 / e.d[i]! : 0;
+        for (let q = 0; q < m; q++) s += w[i * m + q]! * w[j * m + q]!;
         v[i * p + j] = sigma2 * s;
         v[j * p + i] = sigma2 * s;
       }
@@ -288,33 +317,28 @@ class RemlProblem {
     return v;
   }
 
-  /** Solution of the full penalised system: β̂ and the spherical random effects. */
+  /** Solution of the full penalised system: β̂ (fixed cells) and the random effects (BLUPs). */
   solve(theta: readonly number[], e: Evaluation): { beta: Float64Array; blups: Float64Array[] } {
-    const { m } = this;
+    const { m, k } = this;
     const x = new Float64Array(m);
     for (let i = m - 1; i >= 0; i--) {
       let v = e.c[i]!;
-      for (let k = i + 1; k < m; k++) v -= e.l[k * m + i]! * x[k]!;
+      for (let q = i + 1; q < m; q++) v -= e.l[q * m + i]! * x[q]!;
       x[i] = v / e.l[i * m + i]!;
     }
-    const s = this.scale(theta);
-    const beta = x.slice(this.fixedStart);
-    const blups = this.input.random.map((t, r) => {
-      const u = new Float64Array(t.levels);
-      if (r === this.big) {
-        const tb = theta[r]!;
-        for (let j = 0; j < t.levels; j++) {
-          let dot = 0;
-          const cols = this.bigCols[j]!;
-          const vals = this.bigVals[j]!;
-          for (let z = 0; z < cols.length; z++) dot += s[cols[z]!]! * vals[z]! * x[cols[z]!]!;
-          u[j] = (tb * (tb * this.bigZy[j]! - tb * dot)) / e.d[j]!;
-        }
-      } else {
-        for (let j = 0; j < t.levels; j++) u[j] = theta[r]! * x[this.offset[r]! + j]!;
-      }
-      return u;
-    });
+    // The absorbed classification from the rest: x_j = (s_a z'y_j − s_a Σ s_c b_jc x_c) / D_j.
+    const absorbedX = new Float64Array(this.absN.length);
+    for (let j = 0; j < absorbedX.length; j++) {
+      let dot = 0;
+      const cols = this.absCols[j]!;
+      const vals = this.absVals[j]!;
+      for (let z = 0; z < cols.length; z++) dot += e.s[cols[z]!]! * vals[z]! * x[cols[z]!]!;
+      absorbedX[j] = (e.sa * (this.absZy[j]! - dot)) / e.d[j]!;
+    }
+    const groupX = (g: number, levels: number) =>
+      g === this.absorbed ? absorbedX : x.slice(this.offset[g]!, this.offset[g]! + levels);
+    const beta = groupX(k, this.p);
+    const blups = this.input.random.map((t, r) => groupX(r, t.levels).map((b) => theta[r]! * b));
     return { beta, blups };
   }
 }
@@ -327,7 +351,8 @@ function nelderMead(f: (x: number[]) => number, start: number[]): { x: number[];
     const simplex = [best.x];
     for (let i = 0; i < k; i++) {
       const v = [...best.x];
-      v[i] = v[i]! + (Math.abs(v[i]!) > 1e-3 ? 0.1 * Math.abs(v[i]!) : 0.05) * (restart === 0 ? 2 : 1);
+      v[i] =
+        v[i]! + (Math.abs(v[i]!) > 1e-3 ? 0.1 * Math.abs(v[i]!) : 0.05) * (restart === 0 ? 2 : 1);
       simplex.push(v);
     }
     const fs = simplex.map(f);
@@ -340,8 +365,9 @@ function nelderMead(f: (x: number[]) => number, start: number[]): { x: number[];
       const spread = Math.abs(fs[k]! - fs[0]!);
       let size = 0;
       for (let i = 1; i <= k; i++)
-        for (let j = 0; j < k; j++) size = Math.max(size, Math.abs(simplex[i]![j]! - simplex[0]![j]!));
-      if (spread <= 1e-14 * (1 + Math.abs(fs[0]!)) && size < 1e-9) break;
+        for (let j = 0; j < k; j++)
+          size = Math.max(size, Math.abs(simplex[i]![j]! - simplex[0]![j]!));
+      if (spread <= 1e-12 * (1 + Math.abs(fs[0]!)) && size < 1e-7) break;
       const centroid = new Array<number>(k).fill(0);
       for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) centroid[j]! += simplex[i]![j]! / k;
       const along = (t: number) => centroid.map((c, j) => c + t * (simplex[k]![j]! - c));
@@ -379,7 +405,7 @@ function nelderMead(f: (x: number[]) => number, start: number[]): { x: number[];
     for (let i = 1; i <= k; i++) if (fs[i]! < fs[bi]!) bi = i;
     const gained = best.f - fs[bi]!;
     if (fs[bi]! <= best.f) best = { x: [...simplex[bi]!], f: fs[bi]! };
-    if (restart > 0 && gained <= 1e-13 * (1 + Math.abs(best.f))) break;
+    if (restart > 0 && gained <= 1e-11 * (1 + Math.abs(best.f))) break;
   }
   return best;
 }
@@ -405,7 +431,10 @@ export function fitReml(input: MixedModelInput): MixedFit {
     };
     const sub =
       free.length > 0
-        ? nelderMead((x) => profiled(expand(x)), free.map((i) => theta[i]!))
+        ? nelderMead(
+            (x) => profiled(expand(x)),
+            free.map((i) => theta[i]!),
+          )
         : { x: [], f: profiled(expand([])) };
     if (sub.f <= opt.f + 1e-10 * (1 + Math.abs(opt.f))) {
       theta = expand(sub.x).map(Math.abs);
@@ -429,13 +458,11 @@ export function fitReml(input: MixedModelInput): MixedFit {
   eig.values.forEach((val, mIdx) => {
     if (!(val > 1e-8)) return;
     const v = eig.vectors[mIdx]!;
-    for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) vcovVarpar[i * q + j]! += (2 * v[i]! * v[j]!) / val;
+    for (let i = 0; i < q; i++)
+      for (let j = 0; j < q; j++) vcovVarpar[i * q + j]! += (2 * v[i]! * v[j]!) / val;
   });
   // ∂Var(β̂)/∂(θ_i, σ): one p × p matrix per variance parameter.
-  const jac = jacobian(
-    (x) => problem.vcovBeta(x.slice(0, k), x[k]! ** 2),
-    varpar,
-  );
+  const jac = jacobian((x) => problem.vcovBeta(x.slice(0, k), x[k]! ** 2), varpar);
   const p = problem.p;
   const qform = (l: ArrayLike<number>, mat: Float64Array) => {
     let s = 0;
@@ -450,7 +477,8 @@ export function fitReml(input: MixedModelInput): MixedFit {
   const satterthwaite = (l: ArrayLike<number>, variance: number) => {
     const g = jac.map((jm) => qform(l, jm));
     let gag = 0;
-    for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) gag += g[i]! * vcovVarpar[i * q + j]! * g[j]!;
+    for (let i = 0; i < q; i++)
+      for (let j = 0; j < q; j++) gag += g[i]! * vcovVarpar[i * q + j]! * g[j]!;
     return (2 * variance * variance) / gag;
   };
   const dot = (l: ArrayLike<number>) => {
@@ -472,7 +500,8 @@ export function fitReml(input: MixedModelInput): MixedFit {
 
   function deltaSe(g: number[]): number | null {
     let v = 0;
-    for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) v += g[i]! * vcovVarpar[i * q + j]! * g[j]!;
+    for (let i = 0; i < q; i++)
+      for (let j = 0; j < q; j++) v += g[i]! * vcovVarpar[i * q + j]! * g[j]!;
     return v > 0 ? Math.sqrt(v) : null;
   }
 
@@ -524,7 +553,8 @@ export function fitReml(input: MixedModelInput): MixedFit {
       const nus = dirs.map(({ l, d }) => satterthwaite(l, d));
       let denDf: number;
       if (nus.length === 1) denDf = nus[0]!;
-      else if (nus.every((v) => Math.abs(v - nus[0]!) < 1e-8)) denDf = nus.reduce((a, b) => a + b) / nus.length;
+      else if (nus.every((v) => Math.abs(v - nus[0]!) < 1e-8))
+        denDf = nus.reduce((a, b) => a + b) / nus.length;
       else if (nus.some((v) => v <= 2)) denDf = 2;
       else {
         const sum = nus.reduce((acc, v) => acc + v / (v - 2), 0);
@@ -536,37 +566,29 @@ export function fitReml(input: MixedModelInput): MixedFit {
 }
 
 /**
- * Rows of the sequential (type I) hypothesis for the fixed columns from..to−1: the rows of the
- * unit upper-triangular factor of X'X = U'DU (Gaussian elimination without pivoting), the
- * contrasts lmerTest builds for its F tests. A column aliased with earlier ones gives no row.
+ * Rows of the sequential (type I) hypothesis for columns from…to−1 of a model with cross-product
+ * matrix X'X (p × p): the rows of the unit upper-triangular factor of X'X = U'DU (Gaussian
+ * elimination without pivoting), the contrasts lmerTest builds for its F tests. A column
+ * aliased with earlier ones gives no row.
  */
 export function sequentialContrasts(
-  fixed: readonly Float64Array[],
+  xtx: Float64Array,
+  p: number,
   from: number,
   to: number,
 ): Float64Array[] {
-  const p = fixed.length;
-  const x = new Float64Array(p * p);
-  for (let i = 0; i < p; i++)
-    for (let j = 0; j <= i; j++) {
-      let s = 0;
-      const a = fixed[i]!;
-      const b = fixed[j]!;
-      for (let r = 0; r < a.length; r++) s += a[r]! * b[r]!;
-      x[i * p + j] = s;
-      x[j * p + i] = s;
-    }
   const u = new Float64Array(p * p);
   for (let i = 0; i < p; i++) {
     for (let j = i; j < p; j++) {
-      let s = x[i * p + j]!;
-      for (let k = 0; k < i; k++) {
-        const ukk = u[k * p + k]!;
-        if (ukk !== 0) s -= (u[k * p + i]! * u[k * p + j]!) / ukk;
+      let s = xtx[i * p + j]!;
+      for (let q = 0; q < i; q++) {
+        const uqq = u[q * p + q]!;
+        if (uqq !== 0) s -= (u[q * p + i]! * u[q * p + j]!) / uqq;
       }
       u[i * p + j] = s;
     }
-    if (Math.abs(u[i * p + i]!) < 1e-6 * Math.max(1, x[i * p + i]!)) for (let j = i; j < p; j++) u[i * p + j] = 0;
+    if (Math.abs(u[i * p + i]!) < 1e-6 * Math.max(1, xtx[i * p + i]!))
+      for (let j = i; j < p; j++) u[i * p + j] = 0;
   }
   const rows: Float64Array[] = [];
   for (let i = from; i < to; i++) {
@@ -577,6 +599,34 @@ export function sequentialContrasts(
     rows.push(row);
   }
   return rows;
+}
+
+/**
+ * The variety F test's contrasts on cell means, in the basis lmerTest uses: sequential rows for
+ * the treatment-coded model (intercept, variety 2…k), mapped to the cell means m by
+ * μ = m₁, τ_i = m_i − m₁. (The F statistic does not depend on the basis; Satterthwaite's df
+ * for a multi-df test does, so the basis is the packages'.)
+ */
+export function varietyTestContrasts(counts: ArrayLike<number>): Float64Array[] {
+  const k = counts.length;
+  const xtx = new Float64Array(k * k);
+  let total = 0;
+  for (let i = 0; i < k; i++) total += counts[i]!;
+  xtx[0] = total;
+  for (let i = 1; i < k; i++) {
+    xtx[i] = counts[i]!;
+    xtx[i * k] = counts[i]!;
+    xtx[i * k + i] = counts[i]!;
+  }
+  return sequentialContrasts(xtx, k, 1, k).map((row) => {
+    const cell = new Float64Array(k);
+    cell[0] = row[0]!;
+    for (let i = 1; i < k; i++) {
+      cell[i] = row[i]!;
+      cell[0] -= row[i]!;
+    }
+    return cell;
+  });
 }
 
 /** Two-sided p of a contrast's t on its Satterthwaite df. */

@@ -55,7 +55,11 @@ export function jacobian(
 }
 
 /** Hessian of a scalar f (row-major, symmetric). */
-export function hessian(f: (x: readonly number[]) => number, x: readonly number[], d = 0.1): Float64Array {
+export function hessian(
+  f: (x: readonly number[]) => number,
+  x: readonly number[],
+  d = 0.1,
+): Float64Array {
   const k = x.length;
   const at = (shift: readonly number[]) => f(x.map((v, i) => v + shift[i]!));
   const f0 = f(x);

@@ -87,6 +87,27 @@ describe('analyze command', { timeout: 60_000 }, () => {
     expect(JSON.parse(r.stdout).design).toBe('rcbd');
   });
 
+  it('--model mixed adds the REML fields beside the present ones (lme4/lmerTest fixture)', () => {
+    // Reference: fixtures/analysis/mixed-network.json (R lme4 + lmerTest, call stored there).
+    const ref = JSON.parse(readFileSync(path.join(repoRoot, fx('mixed-network.json')), 'utf8'));
+    const r = run(fx('mixed-network.csv'), '--model', 'mixed');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.model).toBe('mixed');
+    expect(out.fixedTest.method).toBe('satterthwaite');
+    expect(Math.abs(out.fixedTest.denDf - ref.fixedTest.denDf) / ref.fixedTest.denDf).toBeLessThan(
+      1e-4,
+    );
+    expect(Math.abs(out.logLik - ref.logLik)).toBeLessThan(1e-6);
+    expect(out.boundary).toBe(false);
+    expect(out.varianceComponents.map((c: { source: string }) => c.source)).toEqual([
+      'site',
+      'residual',
+    ]);
+    expect(out.means).toHaveLength(12);
+    expect(out.anova.map((l: { source: string }) => l.source)).toContain('variety');
+  });
+
   it('names the rows left out for having no value', () => {
     const r = run(fx('cli/missing-values.csv'));
     expect(r.code).toBe(0);
@@ -111,6 +132,16 @@ describe('analyze command', { timeout: 60_000 }, () => {
     ['unknown option', [fx('plantgrowth.csv'), '--colour', 'red'], /Unknown option '--colour'/],
     ['bad --alpha', [fx('plantgrowth.csv'), '--alpha', '2'], /--alpha/],
     ['bad --design', [fx('plantgrowth.csv'), '--design', 'latin'], /--design/],
+    [
+      'bad --model',
+      [fx('plantgrowth.csv'), '--model', 'bayes'],
+      /--model: "bayes" is not anova or mixed/,
+    ],
+    [
+      'a mixed model with no gardens or blocks',
+      [fx('plantgrowth.csv'), '--model', 'mixed'],
+      /needs a site or block column/,
+    ],
     [
       'rcbd without blocks',
       [fx('plantgrowth.csv'), '--design', 'rcbd'],

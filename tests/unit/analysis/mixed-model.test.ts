@@ -7,11 +7,8 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
-import {
-  AnalysisInputError,
-  analyzeCsv,
-} from '../../../server/analysis/engine/analyze.js';
-import { fitReml, sequentialContrasts } from '../../../server/analysis/engine/mixed-model.js';
+import { AnalysisInputError, analyzeCsv } from '../../../server/analysis/engine/analyze.js';
+import { fitReml, varietyTestContrasts } from '../../../server/analysis/engine/mixed-model.js';
 import { repoRoot } from './nist.js';
 
 interface Ref {
@@ -49,15 +46,25 @@ function fitFixture(ref: Ref, csv: string) {
   };
   const y = Float64Array.from(rows, (r) => Number(r.value));
   const variety = code(rows.map((r) => r.variety!));
-  const fixed = [new Float64Array(y.length).fill(1)];
-  for (let e = 1; e < variety.levels; e++)
-    fixed.push(Float64Array.from(variety.cells, (c) => (c === e ? 1 : 0)));
+  const counts = new Array<number>(variety.levels).fill(0);
+  for (const c of variety.cells) counts[c]!++;
   const sources = [...ref.formula.matchAll(/\(1 \| ([a-z:]+)\)/g)].map((m) => m[1]!);
   const random = sources.map((source) => {
-    const c = code(rows.map((r) => source.split(':').map((col) => r[col]).join('\u0000')));
+    const c = code(
+      rows.map((r) =>
+        source
+          .split(':')
+          .map((col) => r[col])
+          .join('\u0000'),
+      ),
+    );
     return { source, cells: c.cells, levels: c.levels };
   });
-  return { fit: fitReml({ y, fixed, random }), fixed, variety };
+  return {
+    fit: fitReml({ y, fixedCells: variety.cells, fixedLevels: variety.levels, random }),
+    counts,
+    variety,
+  };
 }
 
 const cases = [
@@ -73,7 +80,7 @@ describe('REML fits against lme4 / lmerTest / emmeans', () => {
   for (const name of cases) {
     const { ref, csv } = load(name);
     describe(`${name}: ${ref.formula} (${ref.source})`, () => {
-      const { fit, fixed, variety } = fitFixture(ref, csv);
+      const { fit, counts, variety } = fitFixture(ref, csv);
 
       it('variance components (VarCorr) to 5 significant digits, REML log-likelihood, boundary', () => {
         for (const c of ref.varianceComponents) {
@@ -85,7 +92,7 @@ describe('REML fits against lme4 / lmerTest / emmeans', () => {
         expect(fit.boundary).toBe(ref.boundary);
       });
 
-      it('SEs of the variance components from lmerTest\'s vcov_varpar (delta method)', () => {
+      it("SEs of the variance components from lmerTest's vcov_varpar (delta method)", () => {
         // R's vcov_varpar is over (theta in VarCorr order, sigma); σ_k² = θ_k² σ².
         const k = ref.theta.length;
         const s = ref.sigma;
@@ -106,10 +113,8 @@ describe('REML fits against lme4 / lmerTest / emmeans', () => {
 
       it('BLUEs of the variety means and SEs (emmeans) to 6 digits, their Satterthwaite df to 4', () => {
         for (const m of ref.adjustedMeans) {
-          const e = variety.names.indexOf(m.variety);
-          const l = new Float64Array(fixed.length);
-          l[0] = 1;
-          if (e > 0) l[e] = 1;
+          const l = new Float64Array(variety.levels);
+          l[variety.names.indexOf(m.variety)] = 1;
           const c = fit.contrast(l);
           expect(rel(c.estimate, m.mean)).toBeLessThan(1e-6);
           expect(rel(c.se, m.se)).toBeLessThan(1e-6);
@@ -118,7 +123,7 @@ describe('REML fits against lme4 / lmerTest / emmeans', () => {
       });
 
       it('variety F test (anova, ddf = "Satterthwaite"): F, df and p', () => {
-        const t = fit.waldF(sequentialContrasts(fixed, 1, fixed.length));
+        const t = fit.waldF(varietyTestContrasts(counts));
         expect(ref.fixedTest.method).toBe('satterthwaite');
         expect(t.numDf).toBe(ref.fixedTest.numDf);
         expect(rel(t.f, ref.fixedTest.f)).toBeLessThan(1e-6);
@@ -166,7 +171,9 @@ describe('analyze --model mixed picks the model from the layout and reports it',
       const order = [...ref.adjustedMeans].sort((a, b) => b.mean - a.mean).map((m) => m.variety);
       expect(res.means.find((m) => m.rank === 1)!.variety).toBe(order[0]);
       expect(res.adjustedMeans.map((m) => m.variety)).toEqual(order);
-      expect(res.varianceSummary).toMatch(/^Of the variation left once varieties are accounted for/);
+      expect(res.varianceSummary).toMatch(
+        /^Of the variation left once varieties are accounted for/,
+      );
     });
   }
 
