@@ -5,46 +5,12 @@
  *   npm run bench:analysis
  */
 import { analyzePlotRows, type PlotRow } from '../server/analysis/engine/analyze.js';
+import { fictionalTrialRows } from './fictional-trial.js';
 
 const TARGET_MS = 20;
 const ENTRIES = 100;
 const BLOCKS = 4;
 const SITES = 6;
-
-/** Small seeded generator (mulberry32) so every run analyses the same data. */
-function seeded(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function trialRows(seed: number): PlotRow[] {
-  const rnd = seeded(seed);
-  const normal = () => Math.sqrt(-2 * Math.log(1 - rnd())) * Math.cos(2 * Math.PI * rnd());
-  const entryEffect = Array.from({ length: ENTRIES }, () => 3 * normal());
-  const rows: PlotRow[] = [];
-  for (let s = 0; s < SITES; s++) {
-    const siteEffect = 5 * normal();
-    for (let b = 0; b < BLOCKS; b++) {
-      const blockEffect = normal();
-      for (let e = 0; e < ENTRIES; e++) {
-        const v = 40 + siteEffect + blockEffect + entryEffect[e]! + 0.8 * normal() + 2 * normal();
-        rows.push({
-          site: `Site ${s + 1}`,
-          block: `${b + 1}`,
-          variety: `Trial line ${e + 1}`,
-          value: v.toFixed(1),
-        });
-      }
-    }
-  }
-  return rows;
-}
 
 function percentile(sorted: number[], p: number): number {
   const i = Math.min(sorted.length - 1, Math.ceil(p * sorted.length) - 1);
@@ -73,7 +39,7 @@ function time(label: string, data: PlotRow[], runs: number, warmUp: number): voi
   );
 }
 
-const rows = trialRows(20240611);
+const rows = fictionalTrialRows({ entries: ENTRIES, blocks: BLOCKS, sites: SITES, seed: 20240611 });
 console.log(
   `multisite analysis, ${ENTRIES} entries × ${BLOCKS} blocks × ${SITES} sites (median time per trait analysis)`,
 );

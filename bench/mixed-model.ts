@@ -10,8 +10,9 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { fitReml, varietyTestContrasts } from '../server/analysis/engine/mixed-model.js';
-import { analyzePlotRows, type PlotRow } from '../server/analysis/engine/analyze.js';
+import { analyzePlotRows } from '../server/analysis/engine/analyze.js';
 import { writeCsv } from '../common/csv.js';
+import { fictionalTrialRows } from './fictional-trial.js';
 
 const TARGET_MS = 300;
 const ENTRIES = 100;
@@ -20,45 +21,15 @@ const SITES = 6;
 const MISSING = 0.05;
 const RUNS = 9;
 
-/** Small seeded generator (mulberry32) so every run fits the same data. */
-function seeded(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function trialRows(seed: number): PlotRow[] {
-  const rnd = seeded(seed);
-  const normal = () => Math.sqrt(-2 * Math.log(1 - rnd())) * Math.cos(2 * Math.PI * rnd());
-  const entryEffect = Array.from({ length: ENTRIES }, () => 3 * normal());
-  const rows: PlotRow[] = [];
-  for (let s = 0; s < SITES; s++) {
-    const siteEffect = 5 * normal();
-    for (let b = 0; b < BLOCKS; b++) {
-      const blockEffect = normal();
-      for (let e = 0; e < ENTRIES; e++) {
-        const v = 40 + siteEffect + blockEffect + entryEffect[e]! + 2 * normal();
-        if (rnd() < MISSING) continue;
-        rows.push({
-          site: `Site ${s + 1}`,
-          block: `${s + 1}-${b + 1}`,
-          variety: `Line ${e + 1}`,
-          value: v.toFixed(1),
-        });
-      }
-    }
-  }
-  return rows;
-}
-
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 
-const rows = trialRows(20261202);
+const rows = fictionalTrialRows({
+  entries: ENTRIES,
+  blocks: BLOCKS,
+  sites: SITES,
+  seed: 20261202,
+  missing: MISSING,
+});
 const code = (values: string[]) => {
   const map = new Map<string, number>();
   return {
@@ -70,7 +41,7 @@ const code = (values: string[]) => {
 };
 const variety = code(rows.map((r) => r.variety));
 const site = code(rows.map((r) => r.site!));
-const block = code(rows.map((r) => r.block!));
+const block = code(rows.map((r) => `${r.site}\u0000${r.block}`));
 const y = Float64Array.from(rows, (r) => Number(r.value) - 40);
 const input = {
   y,
