@@ -118,6 +118,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           lazy: () => import('@/features/field-log/routes/plot-labels-route'),
         },
         {
+          path: 't/:slug/log/sheet',
+          lazy: () => import('@/features/field-log/routes/recording-sheet-route'),
+        },
+        {
           path: 't/:slug/records/harvests',
           lazy: () => import('@/features/records/routes/harvest-log-route'),
         },

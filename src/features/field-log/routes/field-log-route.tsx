@@ -127,6 +127,10 @@ export function Component() {
           >
             Plot labels
           </Link>
+          {' · '}
+          <Link to={`/t/${slug}/log/sheet`} className="inline-flex min-h-11 items-center underline">
+            Recording sheet
+          </Link>
         </p>
       </header>
 

@@ -1,7 +1,8 @@
 import type { ImportKind, ImportPreview } from '@common/contracts/records';
 import { harvestCsvColumns, observationCsvColumns } from '@common/csv-records';
+import { sheetLeadColumns, sheetNoteColumn } from '@common/recording-sheet';
 import { useState } from 'react';
-import { useParams } from 'react-router-dom';
+import { Link, useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { ApiError } from '@/lib/api-client';
@@ -35,7 +36,12 @@ export function Component() {
   if (trial.isPending) return <Spinner />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
   const canWrite = trial.data.permissions['records.write'];
-  const columns = kind === 'harvests' ? harvestCsvColumns : observationCsvColumns;
+  const columns =
+    kind === 'harvests'
+      ? harvestCsvColumns
+      : kind === 'observations'
+        ? observationCsvColumns
+        : [...sheetLeadColumns, '…', sheetNoteColumn];
 
   const check = async () => {
     setChecking(true);
@@ -87,7 +93,12 @@ export function Component() {
             Columns: <code className="break-all">{columns.join(', ')}</code>. Harvest files may give
             mass as mass_kg, mass_oz or mass_lb instead of mass_g; observation files may name a unit
             (mm, cm, in, g, kg, oz, lb). Rows are counted as a spreadsheet shows them, the header
-            being row 1. A file with any problem is refused whole.
+            being row 1. A file with any problem is refused whole. A recording sheet keeps the
+            columns it was printed with (download them from the field log&rsquo;s{' '}
+            <Link to={`/t/${slug}/log/sheet`} className="underline">
+              Recording sheet
+            </Link>
+            ); plots left blank are skipped.
           </p>
           <div className="mt-2 flex flex-wrap items-end gap-2">
             <label className="flex flex-col gap-1 font-medium">
@@ -102,6 +113,7 @@ export function Component() {
               >
                 <option value="harvests">Harvests</option>
                 <option value="observations">Observations</option>
+                <option value="sheet">Recording sheet (typed in)</option>
               </select>
             </label>
             <label className="flex flex-col gap-1 font-medium">
@@ -212,7 +224,7 @@ export function Component() {
                   </table>
                 </ScrollRegion>
               ) : null}
-              <div className="max-h-80 overflow-auto">
+              <ScrollRegion label="Rows read" className="max-h-80 overflow-y-auto">
                 <table className="w-full text-left text-sm">
                   <caption className="text-left font-semibold">Rows read</caption>
                   <thead className="bg-leaf-50">
@@ -224,8 +236,8 @@ export function Component() {
                     </tr>
                   </thead>
                   <tbody>
-                    {preview.rows.map((r) => (
-                      <tr key={r.row} className="border-t border-leaf-50">
+                    {preview.rows.map((r, i) => (
+                      <tr key={i} className="border-t border-leaf-50">
                         <td className="p-2">{r.row}</td>
                         <td className="p-2">{r.plotLabel}</td>
                         <td className="p-2">{r.summary}</td>
@@ -240,7 +252,7 @@ export function Component() {
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </ScrollRegion>
             </div>
           ) : null}
         </section>
