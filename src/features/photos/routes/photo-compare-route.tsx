@@ -31,7 +31,11 @@ const localToday = () => {
 export function Component() {
   const { slug = '' } = useParams();
   const [params, setParams] = useSearchParams();
-  const from = weekStart(params.get('week') ?? localToday());
+  const asked = params.get('week');
+  // Without a week asked for, the latest week that has photos (newest first from the server).
+  const all = usePhotos(slug);
+  const latest = all.data?.photos.find((p) => p.takenOn)?.takenOn ?? null;
+  const from = weekStart(asked ?? latest ?? localToday());
   const to = addDays(from, 6);
   const chosen = (params.get('entries') ?? '').split(',').filter(Boolean).slice(0, MAX_ENTRIES);
   const tagging = usePhotoTagging(slug);
@@ -44,7 +48,7 @@ export function Component() {
     setParams(next, { replace: true });
   };
 
-  if (tagging.isPending) return <Spinner label="Loading entries…" />;
+  if (tagging.isPending || (!asked && all.isPending)) return <Spinner label="Loading entries…" />;
   if (tagging.error) return <ErrorPanel error={tagging.error} />;
   const t = tagging.data;
   const columns = chosen

@@ -1,6 +1,6 @@
 import { licenseLabels, licenses, type SaveSheetBody } from '@common/contracts/results';
 import { basisLabels, analysisBases } from '@common/contracts/analysis';
-import { useEffect, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
@@ -47,7 +47,16 @@ export function Component() {
   const [ownMethods, setOwnMethods] = useState(false);
   const [changeNote, setChangeNote] = useState('');
   const [showPreview, setShowPreview] = useState(false);
+  // Counts the clicks on Preview: each one brings the preview into view, below a long form.
+  const [previewAsked, setPreviewAsked] = useState(0);
+  const previewRef = useRef<HTMLElement>(null);
   const preview = useSheetPreview(slug, showPreview);
+  useEffect(() => {
+    if (previewAsked === 0) return;
+    const section = previewRef.current;
+    section?.scrollIntoView?.({ behavior: 'smooth', block: 'start' });
+    section?.focus({ preventScroll: true });
+  }, [previewAsked]);
 
   useEffect(() => {
     if (draft.data && !form) {
@@ -336,7 +345,14 @@ export function Component() {
           <Button type="submit" disabled={save.isPending}>
             {save.isPending ? 'Saving…' : 'Save the draft'}
           </Button>
-          <Button type="button" variant="secondary" onClick={() => setShowPreview(true)}>
+          <Button
+            type="button"
+            variant="secondary"
+            onClick={() => {
+              setShowPreview(true);
+              setPreviewAsked((n) => n + 1);
+            }}
+          >
             Preview
           </Button>
         </div>
@@ -400,7 +416,12 @@ export function Component() {
       </section>
 
       {showPreview ? (
-        <section className="mt-8 border-t-4 border-pod-500 pt-4" aria-label="Preview">
+        <section
+          ref={previewRef}
+          tabIndex={-1}
+          className="mt-8 scroll-mt-4 border-t-4 border-pod-500 pt-4 focus:outline-none"
+          aria-label="Preview"
+        >
           {preview.isPending ? (
             <Spinner label="Computing the analysis for the preview…" />
           ) : preview.error ? (
