@@ -267,6 +267,7 @@ export async function commonPlotSpacing(db: Conn, trialId: string): Promise<numb
     .limit(1)
     .executeTakeFirst();
   return row?.in_row_spacing_mm ?? null;
+}
 
 /** The trait as stored, locked until the caller's transaction ends (an edit reads then writes). */
 export function lockTrait(db: Conn, trialId: string, traitId: string) {
