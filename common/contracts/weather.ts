@@ -3,6 +3,8 @@
  * client converts °F and inches at the edges.
  */
 import { z } from 'zod';
+import { MM_PER_INCH, type UnitSystem } from '../units';
+import { typedNumber } from './typed-input';
 
 const isoDate = z
   .string()
@@ -46,27 +48,51 @@ export const weatherDayParams = z.object({
 });
 
 /** One day typed in by hand (°C and mm). */
+const weatherDayFields = {
+  tminC: temperature.nullable(),
+  tmaxC: temperature.nullable(),
+  rainMm: z
+    .number({ error: 'Enter the rain in mm.' })
+    .min(0, 'Rain cannot be below 0.')
+    .max(MAX_DAILY_RAIN_MM, `Use at most ${MAX_DAILY_RAIN_MM} mm in a day.`)
+    .nullable(),
+};
+type WeatherValues = { tminC: number | null; tmaxC: number | null; rainMm: number | null };
+function weatherDayRules(d: WeatherValues, ctx: z.RefinementCtx) {
+  if (d.tminC !== null && d.tmaxC !== null && d.tminC > d.tmaxC)
+    ctx.addIssue({
+      code: 'custom',
+      path: ['tminC'],
+      message: 'The low is above the high: swap them?',
+    });
+  if (d.tminC === null && d.tmaxC === null && d.rainMm === null)
+    ctx.addIssue({ code: 'custom', path: ['tmaxC'], message: 'Enter at least one value.' });
+}
 export const weatherDayBody = z
   .object({
-    tminC: temperature.nullable().default(null),
-    tmaxC: temperature.nullable().default(null),
-    rainMm: z
-      .number({ error: 'Enter the rain in mm.' })
-      .min(0, 'Rain cannot be below 0.')
-      .max(MAX_DAILY_RAIN_MM, `Use at most ${MAX_DAILY_RAIN_MM} mm in a day.`)
-      .nullable()
-      .default(null),
+    tminC: weatherDayFields.tminC.default(null),
+    tmaxC: weatherDayFields.tmaxC.default(null),
+    rainMm: weatherDayFields.rainMm.default(null),
   })
-  .superRefine((d, ctx) => {
-    if (d.tminC !== null && d.tmaxC !== null && d.tminC > d.tmaxC)
-      ctx.addIssue({
-        code: 'custom',
-        path: ['tminC'],
-        message: 'The low is above the high: swap them?',
-      });
-    if (d.tminC === null && d.tmaxC === null && d.rainMm === null)
-      ctx.addIssue({ code: 'custom', path: ['tmaxC'], message: 'Enter at least one value.' });
-  });
+  .superRefine(weatherDayRules);
+/**
+ * The one-day form: the site, the date, and values typed in the reader's units (°F and inches
+ * for US customary; °C = (°F − 32) × 5/9), blank for "not read".
+ */
+export const weatherDayForm = (system: UnitSystem) => {
+  const us = system === 'us';
+  const celsius = (v: number) => (us ? ((v - 32) * 5) / 9 : v);
+  const mm = (v: number) => (us ? v * MM_PER_INCH : v);
+  return z
+    .object({
+      siteId: z.uuid('Choose a site.'),
+      date: isoDate,
+      tminC: typedNumber(weatherDayFields.tminC, { blank: null, toStored: celsius }),
+      tmaxC: typedNumber(weatherDayFields.tmaxC, { blank: null, toStored: celsius }),
+      rainMm: typedNumber(weatherDayFields.rainMm, { blank: null, toStored: mm }),
+    })
+    .superRefine(weatherDayRules);
+};
 export type WeatherDayBody = z.input<typeof weatherDayBody>;
 
 /** Largest weather CSV accepted (a home station's years of daily rows fit easily). */

@@ -1,5 +1,5 @@
 /**
- * The design forms' contracts: typed text becomes the body the server takes, lengths typed in
+ * The lead's forms' contracts (design, one day of weather): typed text becomes the body the server takes, lengths typed in
  * the unit shown beside the field arrive in millimetres, blanks mean "none", and each problem
  * carries the contract's own message on the field the form shows.
  * Inch: exactly 25.4 mm (international yard and pound agreement of 1959; NIST SP 811, B.8);
@@ -15,6 +15,7 @@ import {
   siteForm,
   trialSettingsForm,
 } from '../../common/contracts/design';
+import { weatherDayForm } from '../../common/contracts/weather';
 
 const problems = (r: {
   success: boolean;
@@ -203,5 +204,42 @@ describe('the site, trait and planting forms', () => {
     expect(
       problems(plantingForm.safeParse({ plots: [row, { ...row, plantsSurviving: '11' }] })),
     ).toEqual([['plots.1.plantsSurviving', 'Survivors cannot outnumber the plants set.']]);
+  });
+});
+
+describe('the one-day weather form', () => {
+  const day = {
+    siteId: '5f0c6d2e-8b1a-4c3e-9d7f-1a2b3c4d5e6f',
+    date: '2026-10-02',
+    tminC: '',
+    tmaxC: '',
+    rainMm: '',
+  };
+
+  it('stores °F and inches as °C and mm, blanks as not read', () => {
+    // 50 °F = 10 °C and 86 °F = 30 °C (°C = (°F − 32) × 5/9); 0.5 in = 12.7 mm (NIST SP 811).
+    const body = weatherDayForm('us').parse({ ...day, tminC: '50', tmaxC: '86', rainMm: '0,5' });
+    expect(body.tminC).toBeCloseTo(10, 9);
+    expect(body.tmaxC).toBeCloseTo(30, 9);
+    expect(body.rainMm).toBeCloseTo(12.7, 9);
+    expect(weatherDayForm('metric').parse({ ...day, rainMm: '4' })).toMatchObject({
+      tminC: null,
+      tmaxC: null,
+      rainMm: 4,
+    });
+  });
+
+  it('answers with the contract’s messages', () => {
+    expect(problems(weatherDayForm('metric').safeParse(day))).toEqual([
+      ['tmaxC', 'Enter at least one value.'],
+    ]);
+    expect(
+      problems(
+        weatherDayForm('metric').safeParse({ ...day, tminC: '25', tmaxC: '12', rainMm: '-1' }),
+      ),
+    ).toEqual([
+      ['rainMm', 'Rain cannot be below 0.'],
+      ['tminC', 'The low is above the high: swap them?'],
+    ]);
   });
 });
