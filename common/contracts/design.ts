@@ -316,13 +316,18 @@ export const customTraitForm = z
     scaleMin: typedNumber(traitFields.scaleMin, { blank: null }),
     scaleMax: typedNumber(traitFields.scaleMax, { blank: null }),
     sortOrder: traitFields.sortOrder.optional(),
+    displayUnit: blankAsNull(traitFields.displayUnit.default(null)),
+    plausibleMin: typedNumber(traitFields.plausibleMin.default(null), { blank: null }),
+    plausibleMax: typedNumber(traitFields.plausibleMax.default(null), { blank: null }),
   })
   .transform(({ key, ...b }) => ({
     ...b,
     key: key ?? traitKeyFrom(b.label),
     ...(b.quantityKind === 'score' ? {} : { scaleMin: null, scaleMax: null }),
   }))
-  .refine(scaleRule, scaleMessage);
+  .refine(scaleRule, scaleMessage)
+  .refine(unitFitsKind, unitMessage)
+  .refine(rangeRule, rangeMessage);
 export const traitUpdateBody = z
   .object(traitFields)
   .partial()

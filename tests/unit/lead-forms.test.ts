@@ -181,6 +181,8 @@ describe('the site, trait and planting forms', () => {
       key: 'pod_length_cm',
       scaleMin: null,
       scaleMax: null,
+      displayUnit: null,
+      plausibleMin: null,
     });
     expect(
       problems(customTraitForm.safeParse({ ...trait, quantityKind: 'score', scaleMax: '1' })),
