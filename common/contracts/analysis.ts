@@ -31,6 +31,7 @@ export type DerivedTraitKey = keyof typeof derivedTraits;
 export const designs = ['crd', 'rcbd', 'multisite'] as const;
 /** The classical analysis of variance, or REML with gardens and blocks random. */
 export const analysisModels = ['anova', 'mixed'] as const;
+export type AnalysisModel = (typeof analysisModels)[number];
 export const varianceSources = ['site', 'site:block', 'block', 'site:variety', 'residual'] as const;
 export const letterMethods = ['hsd', 'lsd'] as const;
 
@@ -49,6 +50,7 @@ export const trialAnalysisQuery = z.object({
   basis: z.enum(analysisBases).default('plot'),
   alpha,
   letters: z.enum(letterMethods).default('hsd'),
+  model: z.enum(analysisModels).default('anova'),
 });
 export type TrialAnalysisQuery = z.input<typeof trialAnalysisQuery>;
 
@@ -278,6 +280,7 @@ export const analyzeOptions = z.object({
   alpha,
   design: z.enum(designs).optional(),
   letters: z.enum(letterMethods).default('hsd'),
+  model: z.enum(analysisModels).default('anova'),
   variety: columnName.optional(),
   site: columnName.optional(),
   block: columnName.optional(),

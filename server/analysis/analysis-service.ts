@@ -1,5 +1,6 @@
 import {
   derivedTraits,
+  type AnalysisModel,
   type AnalysisResult,
   type AnalyzeOptionsInput,
   type Ranking,
@@ -103,7 +104,7 @@ async function analyseTrait(
   trial: Trial,
   trait: ResolvedTrait,
   basis: Basis,
-  options: { alpha: number; letters: 'hsd' | 'lsd' },
+  options: { alpha: number; letters: 'hsd' | 'lsd'; model?: AnalysisModel },
 ): Promise<TrialAnalysis> {
   const [plots, harvests, observations] = await Promise.all([
     repo.trialPlots(db, trial.id),
@@ -150,6 +151,7 @@ async function analyseTrait(
       design: trial.design,
       letters: options.letters,
       direction: trait.direction,
+      model: options.model ?? 'anova',
     },
   });
   const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));
@@ -181,7 +183,13 @@ export async function trialAnalysis(
   db: DB,
   slug: string,
   actor: Actor | null,
-  query: { trait: string; basis: Basis; alpha: number; letters: 'hsd' | 'lsd' },
+  query: {
+    trait: string;
+    basis: Basis;
+    alpha: number;
+    letters: 'hsd' | 'lsd';
+    model?: AnalysisModel;
+  },
 ): Promise<TrialAnalysis> {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   return analyseTrialTrait(db, trial, query);
@@ -191,7 +199,13 @@ export async function trialAnalysis(
 export async function analyseTrialTrait(
   db: DB,
   trial: Trial,
-  query: { trait: string; basis: Basis; alpha: number; letters: 'hsd' | 'lsd' },
+  query: {
+    trait: string;
+    basis: Basis;
+    alpha: number;
+    letters: 'hsd' | 'lsd';
+    model?: AnalysisModel;
+  },
 ): Promise<TrialAnalysis> {
   const trait = await resolveTrait(db, trial.id, query.trait);
   return analyseTrait(db, trial, trait, query.basis, query);
@@ -281,9 +295,10 @@ export async function trialRanking(
 /** The spreadsheet analysis: nothing is read from or written to the database. */
 export async function analyzeSpreadsheet(
   csv: string,
-  options: Omit<AnalyzeOptionsInput, 'alpha' | 'letters'> & {
+  options: Omit<AnalyzeOptionsInput, 'alpha' | 'letters' | 'model'> & {
     alpha: number;
     letters: 'hsd' | 'lsd';
+    model?: AnalysisModel;
   },
 ): Promise<AnalysisResult> {
   const columns: Record<string, string> = {};
@@ -298,6 +313,7 @@ export async function analyzeSpreadsheet(
       options: {
         alpha: options.alpha,
         letters: options.letters,
+        model: options.model ?? 'anova',
         ...(options.design ? { design: options.design } : {}),
         ...(options.value ? { trait: options.value } : {}),
         columns,

@@ -387,6 +387,39 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
     expect(r.body).toEqual(JSON.parse(JSON.stringify(analyzeCsv(fixture('npk-rcbd')))));
   });
 
+  it('model=mixed gives lme4/lmerTest REML figures (fixtures/analysis/mixed-network.json); a sheet with no gardens or blocks is 422', async () => {
+    const ref = JSON.parse(
+      readFileSync(path.join('fixtures/analysis', 'mixed-network.json'), 'utf8'),
+    ) as { logLik: number; fixedTest: { denDf: number; p: number } };
+    const r = await request(t.app)
+      .post('/api/analyze?model=mixed')
+      .set('Cookie', lead)
+      .set('Content-Type', 'text/csv')
+      .send(fixture('mixed-network'));
+    expect(r.status).toBe(200);
+    expect(r.body.model).toBe('mixed');
+    expect(Math.abs(r.body.logLik - ref.logLik)).toBeLessThan(1e-6);
+    expect(
+      Math.abs(r.body.fixedTest.denDf - ref.fixedTest.denDf) / ref.fixedTest.denDf,
+    ).toBeLessThan(1e-4);
+    expect(r.body).toEqual(
+      JSON.parse(JSON.stringify(analyzeCsv(fixture('mixed-network'), { model: 'mixed' }))),
+    );
+    const refused = await request(t.app)
+      .post('/api/analyze?model=mixed')
+      .set('Cookie', lead)
+      .set('Content-Type', 'text/csv')
+      .send(fixture('plantgrowth'));
+    expect(refused.status).toBe(422);
+    expect(refused.body.error.message).toMatch(/needs a site or block column/);
+    const badModel = await request(t.app)
+      .post('/api/analyze?model=bayes')
+      .set('Cookie', lead)
+      .set('Content-Type', 'text/csv')
+      .send(fixture('plantgrowth'));
+    expect(badModel.status).toBe(400);
+  });
+
   it('chosen columns read a sheet with its own header names', async () => {
     const renamed = fixture('multisite').replace(
       /^site,block,variety,value/,

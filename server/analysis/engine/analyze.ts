@@ -25,6 +25,7 @@ import {
   type VarianceSource,
 } from './mixed-analysis.js';
 import { rankMeans, type TraitDirection } from '../../../common/ranking';
+import type { AnalysisModel } from '../../../common/contracts/analysis';
 
 export type { Design } from './anova.js';
 
@@ -99,7 +100,7 @@ export interface AnalyzeOptions {
   model?: AnalysisModel;
 }
 
-export type AnalysisModel = 'anova' | 'mixed';
+export type { AnalysisModel };
 
 export interface EntrySummary {
   variety: string;
