@@ -466,9 +466,15 @@ export function observationValueProblem(
       if (value < 0 || value > 100)
         return { field: 'value', message: `${trait.label} is a percentage from 0 to 100.` };
       return null;
-    default:
+    case 'mass':
+    case 'length':
       if (value < 0) return { field: 'value', message: `${trait.label} cannot be negative.` };
       return null;
+    default: {
+      // Every kind is handled above; a new kind in quantityKinds stops the build here.
+      const unhandled: never = trait.quantityKind;
+      throw new Error(`No value rule for the quantity kind ${String(unhandled)}.`);
+    }
   }
 }
 
