@@ -5,11 +5,11 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
 // Enumerations come from the one list each in common/contracts (the database's checks match them).
 import type { letterMethods } from '../common/contracts/analysis';
+import type { MailKind, MailStatus } from '../common/contracts/mail';
 import type {
   fertilizerPolicies,
   irrigationMethods as siteIrrigationMethods,
 } from '../common/contracts/design';
-import type { mailStatuses } from '../common/contracts/invitations';
 import type { unitSystems } from '../common/contracts/me';
 import type { photoSubjects } from '../common/contracts/photos';
 import type {
@@ -317,10 +317,7 @@ export interface InvitationsTable {
   accepted_by: string | null;
   revoked_at: Timestamp | null;
   revoked_by: string | null;
-  last_sent_at: Timestamp | null;
   send_attempts: Generated<number>;
-  mail_status: Generated<(typeof mailStatuses)[number]>;
-  last_send_error: string | null;
   created_at: Generated<Date>;
   updated_at: Generated<Date>;
 }
@@ -398,6 +395,29 @@ export interface DailyWeatherTable extends Written {
   note: Generated<string>;
 }
 
+/** Every message the app sends, queued (server/mail/mail-queue.ts) and its outcome kept. */
+export interface OutgoingMailTable {
+  id: Generated<string>;
+  kind: MailKind;
+  trial_id: string | null;
+  invitation_id: string | null;
+  recipient: string;
+  subject: string;
+  /** The message until it is sent or given up; null after. */
+  body: ColumnType<QueuedMailBody | null, string | null, string | null>;
+  status: Generated<MailStatus>;
+  attempts: Generated<number>;
+  last_error: string | null;
+  created_at: Generated<Date>;
+  sent_at: Timestamp | null;
+}
+
+export interface QueuedMailBody {
+  text: string;
+  html: string;
+  headers?: Record<string, string>;
+}
+
 /** Request counts per caller and fixed window, for rate limits (server/lib/rate-limit.ts). */
 export interface RequestRateWindowsTable {
   bucket: string;
@@ -433,6 +453,7 @@ export interface Database {
   audit_log: AuditLogTable;
   daily_weather: DailyWeatherTable;
   request_rate_windows: RequestRateWindowsTable;
+  outgoing_mail: OutgoingMailTable;
 }
 
 export type Trial = Selectable<TrialsTable>;

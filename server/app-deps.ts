@@ -7,7 +7,7 @@ import type { DB } from '../db/database';
 import type { Auth } from './auth/auth';
 import type { Env } from './env';
 import type { CaptureServer } from './mail/capture-server';
-import type { Mailer } from './mail/mailer';
+import type { MailQueue } from './mail/mail-queue';
 import type { ObjectStorage } from './storage/object-storage';
 
 export interface AppDeps {
@@ -16,8 +16,8 @@ export interface AppDeps {
   logger: Logger;
   version: string;
   auth: Auth;
-  /** Outgoing mail (invitations); the sign-in library has its own reference. */
-  mailer: Mailer;
+  /** Outgoing mail, queued in the database; the sign-in library has its own reference. */
+  mail: MailQueue;
   /** The address people reach the app at; links in mail are built from it. */
   baseUrl: string;
   /** Where photo files live (server/storage: the local folder or S3, from STORAGE_DRIVER). */

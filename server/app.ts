@@ -12,6 +12,7 @@ import type { AppDeps } from './app-deps';
 import { CLIENT_IP_HEADER } from './auth/auth';
 import { healthRouter } from './health/health-router';
 import { mailboxInUse, mailboxRouter, thisMachineOnly } from './mail/mailbox-router';
+import { trialMailRouter } from './mail/trial-mail-router';
 import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
 import { membersRouter } from './members/members-router';
 import { meRouter, sessionRouter } from './me/me-router';
@@ -46,6 +47,7 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
     ['/api/trials/:slug/photos', photosRouter(deps)],
     ['/api/trials/:slug/members', membersRouter(deps)],
     ['/api/trials/:slug/invitations', trialInvitationsRouter(deps)],
+    ['/api/trials/:slug/mail', trialMailRouter(deps)],
     ['/api/invitations', invitationLinksRouter(deps)],
     ['/api/trials', designRouter(deps)],
     ['/api/trials/:slug', trialAnalysisRouter(deps)],

@@ -38,6 +38,10 @@ const envSchema = z.object({
   SMTP_PASSWORD: z.string().optional(),
   SMTP_SECURE: z.stringbool().default(false),
   MAIL_FROM: z.string().default('Rowtally <no-reply@rowtally.local>'),
+  /** Retries of a message the relay refused or could not take, before it is marked failed. */
+  MAIL_RETRY_LIMIT: z.coerce.number().int().min(0).max(50).default(10),
+  /** Wait before the first retry; each later one waits about twice as long (with jitter). */
+  MAIL_RETRY_DELAY_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
   UPLOADS_DIR: z.string().default(path.join(projectRoot, 'uploads')),
   STORAGE_DRIVER: z.enum(['local', 's3']).default('local'),
   S3_ENDPOINT: z.url().optional(),

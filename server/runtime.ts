@@ -9,6 +9,7 @@ import type { AppDeps } from './app-deps';
 import { createAuth } from './auth/auth';
 import { type Env, projectRoot } from './env';
 import type { CaptureServer } from './mail/capture-server';
+import { createMailQueue } from './mail/mail-queue';
 import { createMailer, type Mailer } from './mail/mailer';
 import { purgeDeletedPhotos } from './photos/photos-service';
 import { closeAnalysisPool, setAnalysisTimeLimit } from './analysis/analysis-pool';
@@ -37,7 +38,10 @@ export interface RuntimeOptions {
   env: Env;
   databaseUrl: string;
   logger?: Logger;
+  /** What hands mail to the relay (SMTP from the environment by default). */
   mailer?: Mailer;
+  /** Send queued mail from this process (default); off, it only writes to the queue. */
+  mailWorker?: boolean;
   mailbox?: CaptureServer;
   baseUrl?: string;
   clientDir?: string;
@@ -61,16 +65,23 @@ export function createRuntime(opts: RuntimeOptions) {
   );
   const db = createDb(pool);
   setAnalysisTimeLimit(env.ANALYSIS_TIME_LIMIT_MS);
-  const mailer = opts.mailer ?? createMailer(env, logger);
+  const mail = createMailQueue({
+    pool,
+    db,
+    env,
+    logger,
+    transport: opts.mailer ?? createMailer(env, logger),
+    work: opts.mailWorker,
+  });
   const baseUrl = opts.baseUrl ?? env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`;
-  const auth = createAuth({ pool, db, env, mailer, logger, baseUrl, secret: authSecret(env) });
+  const auth = createAuth({ pool, db, env, mail, logger, baseUrl, secret: authSecret(env) });
   const deps: AppDeps = {
     db,
     env,
     logger,
     version: appVersion,
     auth,
-    mailer,
+    mail,
     baseUrl,
     mailbox: opts.mailbox,
     clientDir: opts.clientDir ?? defaultClientDir,
@@ -91,10 +102,12 @@ export function createRuntime(opts: RuntimeOptions) {
     pool,
     db,
     auth,
-    mailer,
+    mail,
     baseUrl,
+    /** Stops the mail worker (letting a message being sent finish), then the rest. */
     close: async () => {
       if (purgeTimer) clearInterval(purgeTimer);
+      await mail.stop();
       await closeAnalysisPool();
       await db.destroy();
     },

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { emailSchema, passwordSchema, personNameSchema } from './auth';
+import { mailStatuses } from './mail';
 import { siteIdsSchema } from './members';
 import { trialRoles, trialSlugParams } from './trials';
 
@@ -7,7 +8,6 @@ import { trialRoles, trialSlugParams } from './trials';
 export const invitationLifetimeDays = 7;
 
 export const invitationStates = ['pending', 'expired', 'accepted', 'revoked'] as const;
-export const mailStatuses = ['pending', 'sent', 'failed'] as const;
 
 export const invitationParams = trialSlugParams.extend({
   invitationId: z.uuid('Not an invitation id.'),

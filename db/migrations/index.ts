@@ -14,6 +14,7 @@ import * as results from './2026-12-01T0500-results';
 import * as requestRateWindows from './2026-12-02T1300-request-rate-windows';
 import * as followRequests from './2026-12-02T1400-follow-requests';
 import * as signInThrottles from './2026-12-02T1410-sign-in-throttles';
+import * as outgoingMail from './2026-12-02T2000-outgoing-mail';
 import * as traitUnitsAndRanges from './2026-12-02T2100-trait-units-and-ranges';
 import * as trialCopiedFrom from './2026-12-02T2200-trial-copied-from';
 
@@ -29,6 +30,7 @@ export const migrations: Record<string, Migration> = {
   '2026-12-02T1300-request-rate-windows': requestRateWindows,
   '2026-12-02T1400-follow-requests': followRequests,
   '2026-12-02T1410-sign-in-throttles': signInThrottles,
+  '2026-12-02T2000-outgoing-mail': outgoingMail,
   '2026-12-02T2100-trait-units-and-ranges': traitUnitsAndRanges,
   '2026-12-02T2200-trial-copied-from': trialCopiedFrom,
 };

@@ -7,7 +7,9 @@ import type { Logger } from 'pino';
 import type { DB } from '../../db/database';
 import type { Env } from '../env';
 import { checkInput, describe } from '../lib/endpoint';
-import { composeMail, type Mailer } from '../mail/mailer';
+import type { MailKind } from '../../common/contracts/mail';
+import type { MailQueue } from '../mail/mail-queue';
+import { composeMail } from '../mail/mailer';
 import { authRateLimitTable, authSchemaOptions } from './auth-schema';
 import { admitSignIn, clearSignInThrottle, waitInWords } from './sign-in-throttle';
 
@@ -19,16 +21,16 @@ export interface AuthDeps {
   /** The same database through Kysely, for our own sign-in throttling. */
   db: DB;
   env: Env;
-  mailer: Mailer;
+  mail: MailQueue;
   logger: Logger;
   baseUrl: string;
   secret: string;
 }
 
-/** Mail is sent in the background so the response time does not reveal whether an account exists. */
-function sendLater(deps: AuthDeps, mail: Parameters<typeof composeMail>[0]) {
-  void deps.mailer.send(composeMail(mail)).catch((err: unknown) => {
-    deps.logger.error({ err, to: mail.to }, 'account mail could not be sent after retries');
+/** Queued in the background so the response time does not reveal whether an account exists. */
+function sendLater(deps: AuthDeps, kind: MailKind, mail: Parameters<typeof composeMail>[0]) {
+  void deps.mail.enqueue(deps.db, composeMail(mail), { kind }).catch((err: unknown) => {
+    deps.logger.error({ err, kind }, 'account mail could not be queued');
   });
 }
 
@@ -85,7 +87,7 @@ export function createAuth(deps: AuthDeps) {
       // Sign-up with a taken address answers like a new one (no account discovery); the owner
       // is told by mail instead.
       onExistingUserSignUp: async ({ user }) => {
-        sendLater(deps, {
+        sendLater(deps, 'sign_up_attempt', {
           to: user.email,
           subject: 'Someone tried to sign up to Rowtally with your address',
           lines: [
@@ -97,7 +99,7 @@ export function createAuth(deps: AuthDeps) {
         });
       },
       sendResetPassword: async ({ user, url }) => {
-        sendLater(deps, {
+        sendLater(deps, 'password_reset', {
           to: user.email,
           subject: 'Reset your Rowtally password',
           lines: [
@@ -116,7 +118,7 @@ export function createAuth(deps: AuthDeps) {
       autoSignInAfterVerification: true,
       expiresIn: 60 * 60 * 24,
       sendVerificationEmail: async ({ user, url }) => {
-        sendLater(deps, {
+        sendLater(deps, 'email_verification', {
           to: user.email,
           subject: 'Confirm your e-mail address for Rowtally',
           lines: [

@@ -17,10 +17,15 @@ function selectInvitations(db: DB) {
       'i.expires_at',
       'i.accepted_at',
       'i.revoked_at',
-      'i.last_sent_at',
       'i.send_attempts',
-      'i.mail_status',
       'i.created_at',
+      // The letter's fate is the queue's (server/mail): the newest letter's state.
+      sql<'pending' | 'sent' | 'failed'>`coalesce((select m.status from outgoing_mail m
+        where m.invitation_id = i.id order by m.created_at desc limit 1), 'pending')`.as(
+        'mail_status',
+      ),
+      sql<Date | null>`(select max(m.sent_at) from outgoing_mail m
+        where m.invitation_id = i.id)`.as('last_sent_at'),
       'by.name as invited_by_name',
       siteIds.as('site_ids'),
     ]);
@@ -132,25 +137,25 @@ export function invitationSiteIds(db: DB, invitationId: string) {
 export function replaceToken(trx: DB, id: string, tokenHash: string, expiresAt: Date) {
   return trx
     .updateTable('invitations')
-    .set({ token_hash: tokenHash, expires_at: expiresAt, mail_status: 'pending' })
+    .set({ token_hash: tokenHash, expires_at: expiresAt })
     .where('id', '=', id)
     .execute();
 }
 
-export function recordSend(
-  db: DB,
-  id: string,
-  outcome: { ok: true } | { ok: false; error: string },
-) {
-  return db
+export function countLetter(trx: DB, id: string) {
+  return trx
     .updateTable('invitations')
-    .set((eb) => ({
-      send_attempts: eb('send_attempts', '+', 1),
-      ...(outcome.ok
-        ? { mail_status: 'sent' as const, last_sent_at: new Date(), last_send_error: null }
-        : { mail_status: 'failed' as const, last_send_error: outcome.error.slice(0, 500) }),
-    }))
+    .set((eb) => ({ send_attempts: eb('send_attempts', '+', 1) }))
     .where('id', '=', id)
+    .execute();
+}
+
+/** Letters still queued for an invitation carry a link that no longer works (or should not). */
+export function dropQueuedLetters(trx: DB, id: string) {
+  return trx
+    .deleteFrom('outgoing_mail')
+    .where('invitation_id', '=', id)
+    .where('status', '=', 'pending')
     .execute();
 }
 

@@ -12,7 +12,7 @@ import { actorOf } from '../auth/actor';
 import { endpoint } from '../lib/endpoint';
 import * as service from './invitations-service';
 
-type Deps = Pick<AppDeps, 'db' | 'mailer' | 'logger' | 'baseUrl' | 'auth'>;
+type Deps = Pick<AppDeps, 'db' | 'mail' | 'baseUrl' | 'auth'>;
 
 /** /api/trials/:slug/invitations — a lead's open invitations. */
 export function trialInvitationsRouter(deps: Deps) {

@@ -1,6 +1,5 @@
 import { hashPassword } from 'better-auth/crypto';
 import crypto from 'node:crypto';
-import type { Logger } from 'pino';
 import {
   type CreateInvitationBody,
   type Invitation,
@@ -10,7 +9,7 @@ import {
 } from '../../common/contracts/invitations';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
-import type { Mailer } from '../mail/mailer';
+import type { MailQueue } from '../mail/mail-queue';
 import { AppError } from '../lib/app-error';
 import {
   accountByEmail,
@@ -25,8 +24,7 @@ import * as repo from './invitations-repository';
 
 export interface InvitationDeps {
   db: DB;
-  mailer: Mailer;
-  logger: Logger;
+  mail: MailQueue;
   baseUrl: string;
 }
 
@@ -74,21 +72,20 @@ export async function listInvitations(deps: InvitationDeps, slug: string, actor:
 }
 
 /**
- * Sends (or re-sends) the letter. The mailer retries; when it still fails, the row records the
- * failure and the invitation stays, for the lead to resend. Never throws.
+ * Queues the letter in the caller's transaction (so an invitation never exists without its
+ * letter); the queue sends it, retries, and records whether it went.
  */
-async function deliver(
+async function queueLetter(
   deps: InvitationDeps,
+  trx: DB,
   inv: { id: string; trialId: string; email: string; role: Invitation['role']; expiresAt: Date },
   token: string,
   trialTitle: string,
   inviterId: string,
 ) {
-  const [inviter, siteRows] = await Promise.all([
-    repo.userEmail(deps.db, inviterId),
-    trialSites(deps.db, inv.trialId),
-  ]);
-  const chosen = new Set(await repo.invitationSiteIds(deps.db, inv.id));
+  const inviter = await repo.userEmail(trx, inviterId);
+  const siteRows = await trialSites(trx, inv.trialId);
+  const chosen = await repo.invitationSiteIds(trx, inv.id);
   const mail = invitationMail({
     to: inv.email,
     baseUrl: deps.baseUrl,
@@ -96,20 +93,16 @@ async function deliver(
     trialTitle,
     inviterName: inviter?.name ?? null,
     role: inv.role,
-    siteNames: siteRows.filter((s) => chosen.has(s.id)).map((s) => s.name),
+    siteNames: siteRows.filter((s) => chosen.includes(s.id)).map((s) => s.name),
     expiresAt: inv.expiresAt,
   });
-  try {
-    await deps.mailer.send(mail);
-    await repo.recordSend(deps.db, inv.id, { ok: true });
-  } catch (err) {
-    const message = err instanceof Error ? err.message : String(err);
-    deps.logger.error(
-      { err, invitationId: inv.id },
-      'invitation mail could not be sent; kept for resending',
-    );
-    await repo.recordSend(deps.db, inv.id, { ok: false, error: message });
-  }
+  await repo.dropQueuedLetters(trx, inv.id);
+  await repo.countLetter(trx, inv.id);
+  await deps.mail.enqueue(trx, mail, {
+    kind: 'invitation',
+    trialId: inv.trialId,
+    invitationId: inv.id,
+  });
 }
 
 export async function createInvitation(
@@ -130,8 +123,8 @@ export async function createInvitation(
   const expiresAt = new Date(Date.now() + lifetimeMs);
   let id: string;
   try {
-    id = await deps.db.transaction().execute((trx) =>
-      repo.insertInvitation(trx, {
+    id = await deps.db.transaction().execute(async (trx) => {
+      const newId = await repo.insertInvitation(trx, {
         trialId: trial.id,
         email: body.email,
         role: body.role,
@@ -139,8 +132,17 @@ export async function createInvitation(
         invitedBy: me.userId,
         expiresAt,
         siteIds: body.siteIds,
-      }),
-    );
+      });
+      await queueLetter(
+        deps,
+        trx,
+        { id: newId, trialId: trial.id, email: body.email, role: body.role, expiresAt },
+        token,
+        trial.title,
+        me.userId,
+      );
+      return newId;
+    });
   } catch (err) {
     if ((err as { constraint?: string }).constraint === 'invitations_open_per_address') {
       throw new AppError(
@@ -151,13 +153,6 @@ export async function createInvitation(
     }
     throw err;
   }
-  await deliver(
-    deps,
-    { id, trialId: trial.id, email: body.email, role: body.role, expiresAt },
-    token,
-    trial.title,
-    me.userId,
-  );
   return toInvitation((await repo.findInvitation(deps.db, trial.id, id))!);
 }
 
@@ -183,15 +178,16 @@ export async function resendInvitation(
       );
     }
     await repo.replaceToken(trx, found.id, hash, expiresAt);
+    await queueLetter(
+      deps,
+      trx,
+      { id: found.id, trialId: trial.id, email: found.email, role: found.role, expiresAt },
+      token,
+      trial.title,
+      me.userId,
+    );
     return found;
   });
-  await deliver(
-    deps,
-    { id: row.id, trialId: trial.id, email: row.email, role: row.role, expiresAt },
-    token,
-    trial.title,
-    me.userId,
-  );
   return toInvitation((await repo.findInvitation(deps.db, trial.id, row.id))!);
 }
 
@@ -215,6 +211,7 @@ export async function revokeInvitation(
         },
       );
     if (!found.revoked_at) await repo.markRevoked(trx, found.id, me.userId);
+    await repo.dropQueuedLetters(trx, found.id);
   });
 }
 

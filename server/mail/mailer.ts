@@ -11,6 +11,7 @@ export interface OutgoingMail {
   headers?: Record<string, string>;
 }
 
+/** Hands one message to the relay; the queue (mail-queue.ts) retries and records the outcome. */
 export interface Mailer {
   send(mail: OutgoingMail): Promise<void>;
 }
@@ -26,17 +27,11 @@ export function createMailer(env: Env, logger: Logger): Mailer {
         );
       },
     };
-  return createSmtpMailer(env, logger);
+  return createSmtpMailer(env);
 }
 
-const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
-
-/** nodemailer over SMTP. A failed send is retried with back-off, then reported to the caller. */
-export function createSmtpMailer(
-  env: Env,
-  logger: Logger,
-  retryDelaysMs = [200, 1000, 3000],
-): Mailer {
+/** nodemailer over SMTP, one attempt per call. */
+export function createSmtpMailer(env: Env): Mailer {
   const transport = nodemailer.createTransport({
     host: env.SMTP_HOST,
     port: env.SMTP_PORT,
@@ -44,23 +39,14 @@ export function createSmtpMailer(
     auth: env.SMTP_USER ? { user: env.SMTP_USER, pass: env.SMTP_PASSWORD ?? '' } : undefined,
     // Plain local capture servers offer no TLS; real relays should.
     ignoreTLS: env.SMTP_HOST === '127.0.0.1' && !env.SMTP_SECURE,
+    // Well inside the queue's two minutes for one send.
+    connectionTimeout: 30_000,
+    greetingTimeout: 30_000,
+    socketTimeout: 60_000,
   });
   return {
     async send(mail) {
-      for (let attempt = 0; ; attempt++) {
-        try {
-          await transport.sendMail({ from: env.MAIL_FROM, ...mail });
-          return;
-        } catch (err) {
-          const delay = retryDelaysMs[attempt];
-          logger.warn(
-            { err, to: mail.to, subject: mail.subject, attempt: attempt + 1 },
-            'mail send failed',
-          );
-          if (delay === undefined) throw err;
-          await wait(delay);
-        }
-      }
+      await transport.sendMail({ from: env.MAIL_FROM, ...mail });
     },
   };
 }

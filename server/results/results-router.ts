@@ -18,15 +18,14 @@ import * as service from './results-service';
 import { z } from 'zod';
 
 type Deps = Pick<AppDeps, 'db' | 'logger' | 'env' | 'storage'> & {
-  mailer: service.ResultsDeps['mailer'];
+  mail: service.ResultsDeps['mail'];
   baseUrl: string;
 };
 
 const resultsDeps = (deps: Deps): service.ResultsDeps => ({
   db: deps.db,
-  mailer: deps.mailer,
+  mail: deps.mail,
   baseUrl: deps.baseUrl,
-  log: deps.logger,
 });
 
 /** The lead's side, under /api/trials/:slug/results-sheet. */

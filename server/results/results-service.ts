@@ -12,7 +12,8 @@ import {
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
-import { composeMail, type Mailer } from '../mail/mailer';
+import type { MailQueue } from '../mail/mail-queue';
+import { composeMail } from '../mail/mailer';
 import { trialForAction } from '../trials/trials-service';
 import { variantKey } from '../photos/photos-service';
 import type { ObjectStorage } from '../storage/object-storage';
@@ -22,9 +23,8 @@ import { buildSnapshot, defaultSheet, generatedMethods } from './snapshot';
 
 export interface ResultsDeps {
   db: DB;
-  mailer: Mailer;
+  mail: MailQueue;
   baseUrl: string;
-  log: { error: (obj: object, msg: string) => void };
 }
 
 /** The lead's saved sheet, or the default one for a trial that has none yet. */
@@ -167,9 +167,10 @@ export async function publish(
       userId: actor!.userId,
     });
     await repo.setTrialStatus(trx, trial.id, 'published', actor!.userId);
+    // Queued with the version: a notice goes out exactly when the version exists.
+    await notifyFollowers(deps, trx, trial, row.version, changeNote);
     return { version: row.version, snapshot };
   });
-  await notifyFollowers(deps, trial, published.version, changeNote);
   return { version: published.version, url: `${deps.baseUrl}/r/${trial.slug}` };
 }
 
@@ -314,6 +315,22 @@ export async function follow(deps: ResultsDeps, slug: string, email: string, cli
         })
         .execute();
     }
+    await deps.mail.enqueue(
+      trx,
+      composeMail({
+        to: email,
+        subject: `Confirm: follow the results of ${trial.title}`,
+        lines: [
+          `Someone (we hope you) asked to be told by e-mail when new results of "${trial.title}" are published on Rowtally.`,
+          'Nothing will be sent until you confirm. If it was not you, ignore this message.',
+        ],
+        action: {
+          label: 'Confirm and follow',
+          url: `${deps.baseUrl}/r/${trial.slug}/follow?token=${confirm.token}`,
+        },
+      }),
+      { kind: 'follow_confirmation', trialId: trial.id },
+    );
     return { mail: true } as const;
   });
   if ('retryAfterSeconds' in outcome) {
@@ -321,21 +338,6 @@ export async function follow(deps: ResultsDeps, slug: string, email: string, cli
       retryAfterSeconds: outcome.retryAfterSeconds,
     });
   }
-  if (!outcome.mail) return;
-  await deps.mailer.send(
-    composeMail({
-      to: email,
-      subject: `Confirm: follow the results of ${trial.title}`,
-      lines: [
-        `Someone (we hope you) asked to be told by e-mail when new results of "${trial.title}" are published on Rowtally.`,
-        'Nothing will be sent until you confirm. If it was not you, ignore this message.',
-      ],
-      action: {
-        label: 'Confirm and follow',
-        url: `${deps.baseUrl}/r/${trial.slug}/follow?token=${confirm.token}`,
-      },
-    }),
-  );
 }
 
 export async function confirmFollow(db: DB, token: string) {
@@ -377,11 +379,12 @@ export async function unsubscribe(db: DB, token: string) {
 
 async function notifyFollowers(
   deps: ResultsDeps,
+  trx: DB,
   trial: Trial,
   version: number,
   changeNote: string,
 ) {
-  const followers = await repo.confirmedFollowers(deps.db, trial.id);
+  const followers = await repo.confirmedFollowers(trx, trial.id);
   for (const f of followers) {
     const unsubscribeUrl = `${deps.baseUrl}/api/results/unsubscribe?token=${f.unsubscribe_token}`;
     const unsubscribePage = `${deps.baseUrl}/unsubscribe?token=${f.unsubscribe_token}`;
@@ -408,11 +411,7 @@ async function notifyFollowers(
         'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click',
       },
     };
-    await deps.mailer
-      .send(withHeaders)
-      .catch((err: unknown) =>
-        deps.log.error({ err, to: f.email }, 'follower mail failed after retries'),
-      );
+    await deps.mail.enqueue(trx, withHeaders, { kind: 'publish_notice', trialId: trial.id });
   }
 }
 

@@ -203,7 +203,7 @@ describe('sign-in', () => {
       db: t.db,
       env: parseEnv({ NODE_ENV: 'test' }),
       logger: pino({ level: 'silent' }),
-      mailer: { send: async () => {} },
+      mail: { enqueue: async () => '', stop: async () => {} },
       baseUrl: 'https://trials.example',
       secret: 'x'.repeat(40),
     });

@@ -111,7 +111,7 @@ describe('migrations', () => {
       logger,
       baseUrl: 'http://127.0.0.1:1',
       secret: 'x'.repeat(40),
-      mailer: { send: async () => {} },
+      mail: { enqueue: async () => '', stop: async () => {} },
     });
     const { toBeCreated, toBeAdded } = await getMigrations(auth.options);
     expect(toBeCreated).toEqual([]);

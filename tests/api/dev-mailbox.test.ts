@@ -29,12 +29,16 @@ beforeAll(async () => {
   );
   t = await createTestApp({ clientDir });
   // One message with a link in it, as a reset or an invitation would carry.
-  await t.runtime.mailer.send({
-    to: 'owner@larkhaven.example',
-    subject: 'Reset your Rowtally password',
-    text: 'Choose a new password: http://127.0.0.1:3999/reset-password?token=secret-reset-token',
-    html: '',
-  });
+  await t.runtime.mail.enqueue(
+    t.db,
+    {
+      to: 'owner@larkhaven.example',
+      subject: 'Reset your Rowtally password',
+      text: 'Choose a new password: http://127.0.0.1:3999/reset-password?token=secret-reset-token',
+      html: '',
+    },
+    { kind: 'password_reset' },
+  );
   await t.mailbox.waitFor((m) => m.to.includes('owner@larkhaven.example'));
 });
 afterAll(async () => {

@@ -33,7 +33,7 @@ beforeAll(async () => {
     .where('email', '=', lead.email)
     .executeTakeFirstOrThrow();
   await publish(
-    { db: live.db, mailer: live.runtime.mailer, baseUrl: live.url, log: { error: () => {} } },
+    { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
     SLUG,
     { userId: leadRow.id, isAdmin: false },
     '',

@@ -16,6 +16,7 @@ import { createDb, createPool } from '../../db/database';
 import { createDatabaseIfMissing } from '../../db/ensure-database';
 import { migrateToLatest } from '../../db/migrator';
 import { freePort, startPg, stopPg } from '../../db/pg-server';
+import { installMailQueue } from '../../server/mail/mail-queue';
 
 export const TEMPLATE_DB = 'rowtally_template';
 
@@ -47,8 +48,11 @@ function startOnce(): SharedCluster {
       log: () => {},
     });
     await createDatabaseIfMissing(server.url(), TEMPLATE_DB);
-    const db = createDb(createPool(server.url(TEMPLATE_DB), 2));
+    const pool = createPool(server.url(TEMPLATE_DB), 2);
+    const db = createDb(pool);
     await migrateToLatest(db);
+    // The mail queue's own tables, made once here rather than by every test app at its start.
+    await installMailQueue(pool);
     await db.destroy();
     return server.url();
   })();

@@ -9,7 +9,6 @@ import request from 'supertest';
 import type { DB } from '../../db/database';
 import { parseEnv } from '../../server/env';
 import { type CaptureServer, startCaptureServer } from '../../server/mail/capture-server';
-import { createSmtpMailer } from '../../server/mail/mailer';
 import { createRuntime, type Runtime } from '../../server/runtime';
 import type { ObjectStorage } from '../../server/storage/object-storage';
 import { createTestDatabase, type TestDatabase } from './test-database';
@@ -45,6 +44,9 @@ export async function createTestApp(
     SMTP_PORT: String(mailbox.port),
     PORT: String(opts.port ?? 3999),
     UPLOADS_DIR: uploadsDir,
+    // A refused message is retried after about a second, twice, then marked failed.
+    MAIL_RETRY_DELAY_SECONDS: '1',
+    MAIL_RETRY_LIMIT: '2',
     ...opts.env,
   });
   const logger = pino({ level: 'silent' });
@@ -52,7 +54,6 @@ export async function createTestApp(
     env,
     databaseUrl: database.url,
     logger,
-    mailer: createSmtpMailer(env, logger, [50, 100]),
     mailbox,
     baseUrl: opts.baseUrl ?? TEST_ORIGIN,
     clientDir: opts.clientDir ?? '/nonexistent',
@@ -65,6 +66,7 @@ export async function createTestApp(
     database,
     mailbox,
     async close() {
+      await runtime.mail.stop();
       await mailbox.close();
       await runtime.pool.end().catch(() => {});
       await database.drop();

@@ -22,12 +22,7 @@ const everyone = (status: number): Record<Caller, number> => ({
 async function trialCopy(w: MatrixWorld, published: boolean): Promise<string> {
   const { slug } = await trialWithWorldMembers(w, 'copy');
   if (published) {
-    const deps = {
-      db: w.t.db,
-      mailer: w.t.runtime.mailer,
-      baseUrl: 'http://127.0.0.1:3999',
-      log: { error: () => {} },
-    };
+    const deps = { db: w.t.db, mail: w.t.runtime.mail, baseUrl: 'http://127.0.0.1:3999' };
     await publish(deps, slug, { userId: w.users.lead.id, isAdmin: false }, '');
   }
   return slug;
