@@ -60,6 +60,8 @@ export const trialKeys = {
   photoTagging: (slug: string) => [...view(slug, 'photos'), 'tagging'] as const,
   members: (slug: string) => [...view(slug, 'members'), 'list'] as const,
   invitations: (slug: string) => [...view(slug, 'members'), 'invitations'] as const,
+  /** The mail the trial caused (invitations, follow confirmations, results notices). */
+  mail: (slug: string, q: object = {}) => [...view(slug, 'members'), 'mail', q] as const,
   sheetDraft: (slug: string) => [...view(slug, 'results'), 'draft'] as const,
   sheetPreview: (slug: string) => [...view(slug, 'results'), 'preview'] as const,
   sheetPhotos: (slug: string) => [...view(slug, 'results'), 'photos'] as const,
@@ -105,7 +107,8 @@ export const trialChanges: Record<TrialChange, readonly TrialView[]> = {
   weather: ['season', 'weather', 'results'],
   photos: ['photos', 'results'],
   sheet: ['results'],
-  publishing: ['detail', 'results'],
+  // Publishing queues a notice to each follower (the members page lists the trial's mail).
+  publishing: ['detail', 'results', 'members'],
   members: ['detail', 'members'],
 };
 

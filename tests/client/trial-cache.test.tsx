@@ -180,9 +180,11 @@ describe('invalidateTrial', () => {
     );
   });
 
-  it('publishing refreshes the published sheet and the list of trials', async () => {
-    const { client } = seeded([...featureKeys(slug), trialKeys.list()]);
+  it('publishing refreshes the published sheet, the list of trials and the trial’s mail', async () => {
+    const { client } = seeded([...featureKeys(slug), trialKeys.list(), trialKeys.mail(slug)]);
     await invalidateTrial(client, slug, 'publishing');
+    // A publish queues a notice to each follower.
+    expect(client.getQueryState(trialKeys.mail(slug))!.isInvalidated).toBe(true);
     expect(client.getQueryState(trialKeys.publishedSheet(slug, 'latest'))!.isInvalidated).toBe(
       true,
     );

@@ -51,10 +51,14 @@ describe('inviting a grower', () => {
     await inviteForm.getByRole('button', { name: 'Send invitation' }).click();
     await leadPage
       .getByRole('status')
-      .filter({ hasText: `Invitation sent to ${inviteeEmail}.` })
+      .filter({ hasText: `Invitation to ${inviteeEmail} saved; the mail is on its way.` })
       .waitFor();
     await leadPage.getByRole('heading', { name: 'Open invitations' }).waitFor();
-    await leadPage.getByText(inviteeEmail, { exact: true }).waitFor();
+    await leadPage.getByText(inviteeEmail, { exact: true }).first().waitFor();
+    // The queue sends it; the lead sees that it went.
+    const mailPanel = leadPage.getByRole('region', { name: 'Mail from this trial' });
+    await mailPanel.getByText('0 waiting · 1 sent · 0 not sent').waitFor({ timeout: 20_000 });
+    await mailPanel.getByText(/^Sent /).waitFor();
     await expectNoSeriousA11yViolations(leadPage);
     await screenshot(leadPage, 'members-after-invite-1280');
     expect(leadErrors).toEqual([]);

@@ -96,6 +96,12 @@ export const rows: MatrixRow[] = [
     expect: leadOnly(200),
   },
   {
+    method: 'GET',
+    route: '/api/trials/:slug/mail',
+    request: (w) => ({ url: `/api/trials/${w.trial.slug}/mail` }),
+    expect: leadOnly(200),
+  },
+  {
     method: 'POST',
     route: '/api/trials/:slug/invitations',
     request: (w) => ({

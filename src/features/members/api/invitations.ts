@@ -23,7 +23,7 @@ export const resendInvitation = (slug: string, id: string) =>
 export const revokeInvitation = (slug: string, id: string) =>
   api(`${base(slug)}/${id}`, null, { method: 'DELETE' });
 
-function useInvitationMutation<A>(slug: string, fn: (a: A) => Promise<unknown>) {
+function useInvitationMutation<A, R>(slug: string, fn: (a: A) => Promise<R>) {
   const invalidate = useInvalidateTrial();
   return useMutation({
     mutationFn: fn,

@@ -9,8 +9,8 @@ const day = (iso: string) =>
 
 function status(inv: Invitation) {
   if (inv.state === 'expired') return `Expired on ${day(inv.expiresAt)}`;
-  if (inv.mailStatus === 'failed') return 'The mail could not be sent';
-  if (inv.mailStatus === 'pending') return 'Sending…';
+  if (inv.mailStatus === 'failed') return 'The mail could not be delivered; send it again';
+  if (inv.mailStatus === 'pending') return 'Mail waiting to be sent';
   return `Sent${inv.lastSentAt ? ` ${day(inv.lastSentAt)}` : ''} · link valid until ${day(inv.expiresAt)}`;
 }
 

@@ -6,6 +6,7 @@ import { useMembers } from '../api/get-members';
 import { InviteForm } from '../components/invite-form';
 import { MemberCard } from '../components/member-card';
 import { PendingInvitations } from '../components/pending-invitations';
+import { TrialMail } from '../components/trial-mail';
 
 export function Component() {
   const { slug = '' } = useParams();
@@ -63,6 +64,7 @@ export function Component() {
         <div className="flex flex-col gap-6">
           <InviteForm slug={slug} sites={data.sites} />
           <PendingInvitations slug={slug} sites={data.sites} />
+          <TrialMail slug={slug} />
         </div>
       </div>
     </div>
