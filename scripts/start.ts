@@ -13,14 +13,16 @@ import { seedDemoIfEmpty } from '../db/seed/seed';
 import { parseEnv } from '../server/env';
 import { type CaptureServer, startCaptureServer } from '../server/mail/capture-server';
 import { mailboxBanner } from '../server/mail/mailbox-router';
-import { createRuntime } from '../server/runtime';
+import { createRuntime, type Runtime } from '../server/runtime';
 import { createStorage } from '../server/storage/create-storage';
 import { ensureSystemPackages } from './system-packages';
 
 /** Marks the PostgreSQL server this command starts, so a later `npm start` knows it as its own. */
 const OWNER = 'npm start';
+/** Requests in flight get this long to finish when the command is stopped. */
+const REQUEST_GRACE_MS = 10_000;
 /** How long the app may take to close before the database is stopped regardless. */
-const CLOSE_GRACE_MS = 10_000;
+const CLOSE_GRACE_MS = 25_000;
 
 /** What is running so far; whatever is set is closed on the way out, the database last. */
 const running: {
@@ -28,13 +30,14 @@ const running: {
   build?: ReturnType<typeof spawn>;
   server?: Server;
   mailbox?: CaptureServer;
-  closeRuntime?: () => Promise<void>;
+  runtime?: Runtime;
 } = {};
 let stopping = false;
 
 /**
  * Stops what this command started, on Ctrl+C (SIGINT), SIGTERM or a failed start: the build,
- * the web server, the mail capture, the app's connections, then our own PostgreSQL. A second
+ * the web server (letting requests in flight finish), the mail worker (letting the message it
+ * sends finish), the mail capture, the app's connections, then our own PostgreSQL. A second
  * signal skips the waiting but still stops the database.
  */
 async function shutdown(code: number) {
@@ -45,15 +48,9 @@ async function shutdown(code: number) {
   stopping = true;
   running.build?.kill('SIGTERM');
   const closing = (async () => {
-    if (running.server) {
-      const server = running.server;
-      await new Promise<void>((resolve) => {
-        server.close(() => resolve());
-        server.closeAllConnections();
-      });
-    }
+    // Requests in flight and the mail being sent finish first; the capture server after them.
+    await running.runtime?.shutdown(running.server, REQUEST_GRACE_MS);
     await running.mailbox?.close();
-    await running.closeRuntime?.();
   })().catch((err: unknown) => console.error(err instanceof Error ? err.message : err));
   await Promise.race([closing, new Promise((resolve) => setTimeout(resolve, CLOSE_GRACE_MS))]);
   stopDatabase();
@@ -130,7 +127,7 @@ async function main() {
   if (stopping) return;
 
   const runtime = createRuntime({ env, databaseUrl, mailbox });
-  running.closeRuntime = runtime.close;
+  running.runtime = runtime;
   running.server = await new Promise<Server>((resolve, reject) => {
     const s = runtime.app.listen(env.PORT, env.HOST, () => resolve(s));
     s.once('error', (err: NodeJS.ErrnoException) =>

@@ -24,6 +24,8 @@ export interface AppDeps {
   storage: ObjectStorage;
   /** The local capture server's messages, listed at /dev/mailbox outside production. */
   mailbox?: CaptureServer;
+  /** Set while the process shuts down: /api/ready answers 503 so no new work is routed here. */
+  lifecycle: { draining: boolean };
   /** Serve the built client from this folder (production). */
   clientDir?: string;
 }

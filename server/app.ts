@@ -10,7 +10,7 @@ import { resolveActor } from './auth/actor';
 import { sameOriginOnly } from './auth/origin-check';
 import type { AppDeps } from './app-deps';
 import { CLIENT_IP_HEADER } from './auth/auth';
-import { healthRouter } from './health/health-router';
+import { healthRouter, readyRouter } from './health/health-router';
 import { mailboxInUse, mailboxRouter, thisMachineOnly } from './mail/mailbox-router';
 import { trialMailRouter } from './mail/trial-mail-router';
 import { invitationLinksRouter, trialInvitationsRouter } from './invitations/invitations-router';
@@ -78,7 +78,7 @@ export function createApp(deps: AppDeps) {
   app.use(
     pinoHttp({
       logger: deps.logger,
-      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      autoLogging: { ignore: (req) => req.url === '/api/health' || req.url === '/api/ready' },
       // A line per request only at debug level; a failure (5xx) is always logged.
       customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : 'debug'),
       serializers: {
@@ -90,6 +90,16 @@ export function createApp(deps: AppDeps) {
   // Text answers (the app's JS and CSS, JSON, CSV) go out compressed; a phone in a field pays
   // for every byte. Images and PDFs are already compressed and are left as they are.
   app.use(compression());
+  // While shutting down, each answer (also one to a request that came before) closes its
+  // connection, so the client opens its next one elsewhere.
+  app.use((_req, res, next) => {
+    const writeHead = res.writeHead;
+    res.writeHead = function (this: typeof res, ...args: Parameters<typeof writeHead>) {
+      if (deps.lifecycle.draining) this.shouldKeepAlive = false;
+      return writeHead.apply(this, args);
+    } as typeof writeHead;
+    next();
+  });
   // Rate limits key on the caller's address: the socket's, or the one a loopback proxy forwards.
   app.use((req, _res, next) => {
     req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
@@ -103,6 +113,7 @@ export function createApp(deps: AppDeps) {
   app.use(json);
   app.use('/api', refuseNul);
   app.use('/api/health', healthRouter(deps));
+  app.use('/api/ready', readyRouter(deps));
   app.use('/api', sameOriginOnly([deps.baseUrl]));
   app.use('/api', resolveActor(deps.auth));
   const mailbox = mailboxInUse(deps.env, deps.mailbox) ? deps.mailbox : undefined;

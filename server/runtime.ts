@@ -4,7 +4,9 @@ import fs from 'node:fs';
 import path from 'node:path';
 import pino, { type Logger } from 'pino';
 import { createDb, createPool } from '../db/database';
+import type { Server } from 'node:http';
 import { createApp, defaultClientDir } from './app';
+import { drainHttp } from './lib/drain-http';
 import type { AppDeps } from './app-deps';
 import { createAuth } from './auth/auth';
 import { type Env, projectRoot } from './env';
@@ -84,6 +86,7 @@ export function createRuntime(opts: RuntimeOptions) {
     mail,
     baseUrl,
     mailbox: opts.mailbox,
+    lifecycle: { draining: false },
     clientDir: opts.clientDir ?? defaultClientDir,
     storage: opts.storage ?? createStorage(env),
   };
@@ -96,6 +99,12 @@ export function createRuntime(opts: RuntimeOptions) {
             logger.warn({ err }, 'removing deleted photos failed; will try again'),
           );
         }, PHOTO_PURGE_INTERVAL_MS).unref();
+  const close = async () => {
+    if (purgeTimer) clearInterval(purgeTimer);
+    await mail.stop();
+    await closeAnalysisPool();
+    await db.destroy();
+  };
   return {
     deps,
     app: createApp(deps),
@@ -105,11 +114,16 @@ export function createRuntime(opts: RuntimeOptions) {
     mail,
     baseUrl,
     /** Stops the mail worker (letting a message being sent finish), then the rest. */
-    close: async () => {
-      if (purgeTimer) clearInterval(purgeTimer);
-      await mail.stop();
-      await closeAnalysisPool();
-      await db.destroy();
+    close,
+    /**
+     * On SIGTERM: /api/ready answers 503 at once, the web server takes no new connections and
+     * lets requests in flight finish (up to `graceMs`), then the mail worker finishes the
+     * message it is sending, and the connections close.
+     */
+    async shutdown(server: Server | undefined, graceMs = 10_000) {
+      deps.lifecycle.draining = true;
+      if (server) await drainHttp(server, graceMs);
+      await close();
     },
   };
 }

@@ -82,5 +82,9 @@ export function localStorage(root: string): ObjectStorage {
       await walk(root, '');
       return out.sort();
     },
+    async check() {
+      await fsp.mkdir(root, { recursive: true });
+      await fsp.access(root, fs.constants.R_OK | fs.constants.W_OK);
+    },
   };
 }

@@ -15,6 +15,8 @@ export interface ObjectStorage {
   delete(key: string): Promise<void>;
   /** Every key that starts with `prefix` (for housekeeping and tests). */
   list(prefix: string): Promise<string[]>;
+  /** Resolves when the folder or bucket can be reached (and, for the folder, written). */
+  check(): Promise<void>;
 }
 
 export interface StoredObject {

@@ -2,6 +2,7 @@ import type { Readable } from 'node:stream';
 import {
   DeleteObjectCommand,
   GetObjectCommand,
+  HeadBucketCommand,
   ListObjectsV2Command,
   NoSuchKey,
   PutObjectCommand,
@@ -67,6 +68,9 @@ export function s3Storage(opts: S3Options): ObjectStorage & { client: S3Client }
         token = res.IsTruncated ? res.NextContinuationToken : undefined;
       } while (token);
       return keys.sort();
+    },
+    async check() {
+      await client.send(new HeadBucketCommand({ Bucket }));
     },
   };
 }

@@ -132,6 +132,7 @@ describe('the analysis rate limit, per account and shared by app processes', () 
     });
   });
   afterAll(async () => {
+    await second.mail.stop();
     await second.pool.end();
   });
 

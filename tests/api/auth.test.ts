@@ -376,7 +376,8 @@ describe('forgotten password', () => {
       redirectTo: '/reset-password',
     });
     expect(res.status).toBe(200);
-    await new Promise((r) => setTimeout(r, 300));
+    await new Promise((r) => setTimeout(r, 100));
+    await t.mailSettled();
     expect(t.mailbox.messages().filter((m) => m.to.includes(email))).toEqual([]);
   });
 });

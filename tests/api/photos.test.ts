@@ -460,6 +460,7 @@ describe('a failed storage write', () => {
       get: (key) => holder.storage!.get(key),
       delete: (key) => holder.storage!.delete(key),
       list: (prefix) => holder.storage!.list(prefix),
+      check: () => holder.storage!.check(),
     };
     t = await createTestApp({ storage: failing });
     inner = localStorage(t.runtime.deps.env.UPLOADS_DIR);

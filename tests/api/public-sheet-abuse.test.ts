@@ -47,8 +47,8 @@ const follow = (slug: string, email: string, ip = '198.51.100.7') =>
 const confirmationsTo = (email: string) =>
   t.mailbox.messages().filter((m) => m.to.includes(email) && m.subject.startsWith('Confirm'));
 
-/** Lets the mail that a request may have sent arrive before counting. */
-const settle = () => new Promise((r) => setTimeout(r, 300));
+/** Lets the mail that a request may have queued arrive before counting. */
+const settle = () => t.mailSettled();
 
 describe('the share metadata of a published sheet', () => {
   it('carries a title with $ signs as typed (no replacement patterns expanded)', async () => {

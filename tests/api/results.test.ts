@@ -291,7 +291,7 @@ describe('the results sheet', () => {
     await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
       changeNote: 'Another correction.',
     });
-    await new Promise((r) => setTimeout(r, 500));
+    await t.mailSettled();
     expect(
       t.mailbox.messages().filter((m) => m.to.includes(email) && m.subject.includes('version 4')),
     ).toEqual([]);

@@ -21,6 +21,8 @@ export interface TestApp {
   db: DB;
   database: TestDatabase;
   mailbox: CaptureServer;
+  /** Resolves once the mail queue holds nothing waiting (so every message sent has arrived). */
+  mailSettled(timeoutMs?: number): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -65,6 +67,19 @@ export async function createTestApp(
     db: runtime.db,
     database,
     mailbox,
+    async mailSettled(timeoutMs = 10_000) {
+      const until = Date.now() + timeoutMs;
+      for (;;) {
+        const { n } = await runtime.db
+          .selectFrom('outgoing_mail')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .where('status', '=', 'pending')
+          .executeTakeFirstOrThrow();
+        if (Number(n) === 0) return;
+        if (Date.now() > until) throw new Error(`${n} messages still waiting in the mail queue.`);
+        await new Promise((resolve) => setTimeout(resolve, 100));
+      }
+    },
     async close() {
       await runtime.mail.stop();
       await mailbox.close();
