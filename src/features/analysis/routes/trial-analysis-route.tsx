@@ -68,7 +68,10 @@ export function Component() {
   const t = trial.data;
   const result = analysis.data;
   const typical = result ? result.grandMean : 0;
-  const unit = result ? displayUnit(result.unit, system, typical) : { label: '', factor: 1 };
+  const chosen = t.traits.find((x) => x.key === result?.traitKey)?.displayUnit;
+  const unit = result
+    ? displayUnit(result.unit, system, typical, chosen)
+    : { label: '', factor: 1 };
   const basisChoices = analysisBases.filter((b) => (system === 'us' ? b !== 'ha' : b !== 'acre'));
 
   return (

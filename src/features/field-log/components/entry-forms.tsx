@@ -6,6 +6,7 @@ import {
   scoreEntryForm,
   standCountEntryForm,
 } from '@common/contracts/records';
+import { entryUnitsFor } from '@common/display-units';
 import { type QuantityUnit, toStored, type UnitSystem } from '@common/units';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { type ReactNode, useId, useState } from 'react';
@@ -245,9 +246,7 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
 
 /** The units a measured trait may be typed in, the first being the default. */
 function unitOptionsOf(trait: Trait, units: UnitSystem): QuantityUnit[] | null {
-  if (trait.quantityKind === 'length') return units === 'metric' ? ['cm', 'mm'] : ['in'];
-  if (trait.quantityKind === 'mass') return massUnitsOf(units);
-  return null;
+  return entryUnitsFor(trait.quantityKind, units, trait.displayUnit);
 }
 
 /** A trait picked from a list; the form below it starts afresh for each trait. */

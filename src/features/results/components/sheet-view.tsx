@@ -26,8 +26,9 @@ export function SheetView({
   preview?: boolean;
 }) {
   const units = useUnitSystem();
-  // One display unit per trait, chosen by the size of its grand mean.
-  const du = (t: ResultSnapshot['traits'][number]) => displayUnit(t.unit, units, t.grandMean);
+  // One display unit per trait: the lead's when published with one, else by its grand mean's size.
+  const du = (t: ResultSnapshot['traits'][number]) =>
+    displayUnit(t.unit, units, t.grandMean, t.displayUnit);
   const dm = (t: ResultSnapshot['traits'][number]) => sheetTraitDecimals(sheet, t).mean;
   const photos = sheet.entries.filter((e) => e.photo);
   return (
