@@ -52,5 +52,6 @@ export default defineConfig({
     // The API runs beside the dev server; the browser only ever talks to one origin.
     proxy: { '/api': `http://127.0.0.1:${apiPort}` },
   },
-  build: { outDir: 'dist/client', sourcemap: true },
+  // The manifest lets a test add up what each page loads first (tests/e2e/bundle-size.test.ts).
+  build: { outDir: 'dist/client', sourcemap: true, manifest: true },
 });

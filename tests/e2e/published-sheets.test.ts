@@ -88,6 +88,10 @@ describe('reaching a published sheet', () => {
       await page.getByRole('heading', { name: 'Ranking' }).waitFor();
       await expect(page.title()).resolves.toBe(`${TITLE} · Rowtally`);
       await expectNoSeriousA11yViolations(page);
+      // A reader who is not signed in is not sent the whole app to keep for offline use.
+      await expect(
+        page.evaluate(async () => (await navigator.serviceWorker.getRegistrations()).length),
+      ).resolves.toBe(0);
       expect(errors).toEqual([]);
       await context.close();
     }

@@ -1,8 +1,9 @@
-import { Suspense } from 'react';
+import { Suspense, useEffect } from 'react';
 import { Link, NavLink, Outlet, useNavigate, useNavigation, useParams } from 'react-router-dom';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrials } from '@/features/trials/api/get-trials';
 import { trialHref } from '@/features/trials/components/trial-href';
+import { keepAppOnDevice } from '@/lib/offline-shell';
 import { useMe } from '@/lib/session';
 import { usePageTitle } from '../use-page-title';
 
@@ -109,6 +110,10 @@ const navClass = ({ isActive }: { isActive: boolean }) =>
 export function AppShell() {
   const navigation = useNavigation();
   usePageTitle();
+  const { data: me } = useMe();
+  useEffect(() => {
+    if (me) keepAppOnDevice();
+  }, [me]);
   return (
     <div className="min-h-screen">
       <a

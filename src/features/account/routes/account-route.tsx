@@ -15,7 +15,8 @@ import {
 import { FormMessage } from '@/components/ui/text-field';
 import { ApiError } from '@/lib/api-client';
 import { showServerErrors } from '@/lib/form-errors';
-import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { authClient } from '@/lib/auth-client';
+import { authErrorMessage } from '@/lib/auth-error-message';
 import { useMe } from '@/lib/session';
 import { useUpdateMe } from '../api/update-me';
 

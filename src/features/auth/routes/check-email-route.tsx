@@ -2,7 +2,8 @@ import { useState } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { FormMessage } from '@/components/ui/text-field';
-import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { authClient } from '@/lib/auth-client';
+import { authErrorMessage } from '@/lib/auth-error-message';
 import { AuthCard } from '../components/auth-card';
 
 /** After sign-up: the address must be confirmed before the first sign-in. */

@@ -7,7 +7,8 @@ import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { ConfirmPasswordField, NewPasswordField } from '@/components/ui/account-fields';
 import { FormMessage } from '@/components/ui/text-field';
-import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { authClient } from '@/lib/auth-client';
+import { authErrorMessage } from '@/lib/auth-error-message';
 import { AuthCard } from '../components/auth-card';
 
 /** Where the reset link lands: ?token=… (or ?error=INVALID_TOKEN when it has expired). */

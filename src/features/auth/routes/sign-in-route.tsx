@@ -1,15 +1,17 @@
 import { type SignInBody, safeNextPath, signInBody } from '@common/contracts/auth';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { EmailField, PasswordField } from '@/components/ui/account-fields';
 import { FormMessage } from '@/components/ui/text-field';
-import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { authErrorMessage } from '@/lib/auth-error-message';
 import { useSessionChanged } from '@/lib/session';
 import { AuthCard } from '../components/auth-card';
+
+const loadAuthClient = () => import('@/lib/auth-client');
 
 export function Component() {
   const [params] = useSearchParams();
@@ -22,10 +24,13 @@ export function Component() {
     defaultValues: { email: params.get('email') ?? '', password: '' },
   });
   const { errors, isSubmitting } = form.formState;
+  // The sign-in library's client is fetched while the person types, not before the page shows.
+  useEffect(() => void loadAuthClient(), []);
 
   const onSubmit = form.handleSubmit(async (values) => {
     setProblem(null);
     // No callbackURL here: the library's client would follow it instead of `next`.
+    const { authClient } = await loadAuthClient();
     const { error } = await authClient.signIn.email(values);
     if (error) {
       setProblem(authErrorMessage(error));

@@ -2,7 +2,8 @@ import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { FormMessage } from '@/components/ui/text-field';
-import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { authClient } from '@/lib/auth-client';
+import { authErrorMessage } from '@/lib/auth-error-message';
 import { useMe, useSessionChanged } from '@/lib/session';
 import { AuthCard } from '../components/auth-card';
 

@@ -13,7 +13,8 @@ import { NameField, NewPasswordField, PasswordField } from '@/components/ui/acco
 import { FormMessage } from '@/components/ui/text-field';
 import { ApiError } from '@/lib/api-client';
 import { showServerErrors } from '@/lib/form-errors';
-import { authClient, authErrorMessage } from '@/lib/auth-client';
+import { authClient } from '@/lib/auth-client';
+import { authErrorMessage } from '@/lib/auth-error-message';
 import { useMe, useSessionChanged } from '@/lib/session';
 import {
   acceptInvitation,
