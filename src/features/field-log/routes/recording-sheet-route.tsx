@@ -19,6 +19,7 @@ import { CautionNote } from '@/components/ui/caution-note';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
+import { SelectField } from '@/components/ui/text-field';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { mySitesOf } from '../api/field-log-memory';
@@ -194,38 +195,20 @@ export function Component() {
         ) : null}
         <div className="flex flex-wrap gap-3">
           {weighs ? (
-            <div className="flex flex-col gap-1">
-              <label htmlFor="sheet-mass" className="font-medium">
-                Mass unit
-              </label>
-              <select
-                id="sheet-mass"
-                value={massUnit}
-                onChange={(e) => setMassUnit(e.target.value as SheetMassUnit)}
-                className={selectClass}
-              >
-                {sheetMassUnits.map((u) => (
-                  <option key={u}>{u}</option>
-                ))}
-              </select>
-            </div>
+            <SelectField
+              label="Mass unit"
+              value={massUnit}
+              onChange={(e) => setMassUnit(e.target.value as SheetMassUnit)}
+              options={sheetMassUnits.map((u) => [u, u] as const)}
+            />
           ) : null}
           {measures ? (
-            <div className="flex flex-col gap-1">
-              <label htmlFor="sheet-length" className="font-medium">
-                Length unit
-              </label>
-              <select
-                id="sheet-length"
-                value={lengthUnit}
-                onChange={(e) => setLengthUnit(e.target.value as SheetLengthUnit)}
-                className={selectClass}
-              >
-                {sheetLengthUnits.map((u) => (
-                  <option key={u}>{u}</option>
-                ))}
-              </select>
-            </div>
+            <SelectField
+              label="Length unit"
+              value={lengthUnit}
+              onChange={(e) => setLengthUnit(e.target.value as SheetLengthUnit)}
+              options={sheetLengthUnits.map((u) => [u, u] as const)}
+            />
           ) : null}
         </div>
         <div className="flex flex-wrap gap-2 sm:col-span-2">
