@@ -42,11 +42,8 @@ async function main() {
   const stop = () => {
     if (stopping) return;
     stopping = true;
-    // Finish the requests in flight, then let go of the database.
-    server.close(() => {
-      void runtime.close().finally(() => process.exit(0));
-    });
-    server.closeIdleConnections();
+    // Not ready from now on; finish the requests in flight and the mail being sent, then exit.
+    void runtime.shutdown(server).finally(() => process.exit(0));
   };
   process.on('SIGTERM', stop);
   process.on('SIGINT', stop);

@@ -18,6 +18,7 @@ describe('processPhoto', () => {
 
     const trellis = await sharp(upload).rotate().jpeg({ quality: 92, mozjpeg: true }).toBuffer();
     const stored = await psnr(upload, photo.original.buffer);
+    // A quarter decibel: our own margin, far below a visible difference (common practice, no source).
     expect(stored).toBeGreaterThanOrEqual((await psnr(upload, trellis)) - 0.25);
     // 40 dB: commonly taken as no visible loss for 8-bit photos (common practice, no source).
     expect(stored).toBeGreaterThan(40);
@@ -40,6 +41,8 @@ describe('processPhoto', () => {
       .resize(PHOTO_THUMB_EDGE, PHOTO_THUMB_EDGE, { fit: 'inside' })
       .png()
       .toBuffer();
+    // 30 dB against a plain resize: resampling filters differ, so the bar is below the full-size
+    // copy's (common practice, no source).
     expect(await psnr(expected, await sharp(photo.thumb.buffer).png().toBuffer())).toBeGreaterThan(
       30,
     );

@@ -1,19 +1,9 @@
 import type { AnalysisResult } from '@common/contracts/analysis';
 import { writeCsvSections } from '@common/csv';
-
-function save(name: string, type: string, text: string) {
-  const url = URL.createObjectURL(new Blob([text], { type }));
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  document.body.append(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
-}
+import { saveText } from '@/lib/save-text';
 
 export function downloadJson(name: string, result: unknown) {
-  save(`${name}.json`, 'application/json', JSON.stringify(result, null, 2));
+  saveText(`${name}.json`, 'application/json', JSON.stringify(result, null, 2));
 }
 
 /** The ANOVA and the means as one CSV (two sections), values in the analysis units. */
@@ -37,5 +27,5 @@ export function downloadCsv(name: string, result: AnalysisResult) {
       ]),
     },
   ]);
-  save(`${name}.csv`, 'text/csv', text);
+  saveText(`${name}.csv`, 'text/csv', text);
 }

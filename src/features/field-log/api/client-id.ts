@@ -8,6 +8,3 @@ export function clientId(): string {
   const h = [...b].map((x) => x.toString(16).padStart(2, '0')).join('');
   return `${h.slice(0, 8)}-${h.slice(8, 12)}-${h.slice(12, 16)}-${h.slice(16, 20)}-${h.slice(20)}`;
 }
-
-/** Today on the device's calendar, YYYY-MM-DD. */
-export const localToday = () => new Date().toLocaleDateString('en-CA');

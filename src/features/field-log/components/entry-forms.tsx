@@ -8,10 +8,8 @@ import {
 } from '@common/contracts/records';
 import { entryUnitsFor } from '@common/display-units';
 import { type QuantityUnit, toStored, type UnitSystem } from '@common/units';
-import { zodResolver } from '@hookform/resolvers/zod';
 import { type ReactNode, useId, useState } from 'react';
-import { useForm } from 'react-hook-form';
-import type { z } from 'zod';
+import { useContractForm } from '@/lib/contract-form';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { clientId } from '../api/client-id';
 import type { OutboxItem } from '../api/outbox';
@@ -38,9 +36,6 @@ const inputClass = (invalid: boolean) =>
   `min-h-11 w-full rounded-lg border bg-white px-3 text-lg ${invalid ? 'border-frost-600' : 'border-leaf-300'}`;
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
 const plotLabel = (p: RecordPlot) => `Plot ${p.plotNumber} (${p.entryCode})`;
-export const massUnitsOf = (units: UnitSystem): QuantityUnit[] =>
-  units === 'metric' ? ['g', 'kg'] : ['oz', 'lb'];
-
 function SaveButtons({ disabled }: { disabled?: boolean }) {
   return (
     <div className="flex flex-wrap gap-2 pt-1">
@@ -130,22 +125,10 @@ const submitterNext = (e: React.BaseSyntheticEvent | undefined) =>
   ((e?.nativeEvent as SubmitEvent | undefined)?.submitter as HTMLButtonElement | null)?.value !==
   'no';
 
-/** react-hook-form on a shared contract: typed text in, the contract's output out. */
-function useContractForm<S extends z.ZodType<Record<string, unknown>, Record<string, unknown>>>(
-  schema: S,
-  defaultValues: z.input<S>,
-) {
-  return useForm<z.input<S>, unknown, z.output<S>>({
-    // The resolver's generic types cannot follow a schema given as a parameter.
-    resolver: zodResolver(schema as never) as never,
-    defaultValues: defaultValues as never,
-  });
-}
-
 /** One harvest round at a plot: marketable and cull in one save. */
 export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
   const id = useId();
-  const massUnits = massUnitsOf(units);
+  const massUnits = entryUnitsFor('mass', units)!;
   const [unit, setUnit] = useState<QuantityUnit>(massUnits[0]!);
   const blank = { marketableCount: '', marketableMass: '', cullCount: '', cullMass: '', note: '' };
   const form = useContractForm(harvestEntryForm, blank);

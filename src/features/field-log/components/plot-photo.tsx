@@ -1,6 +1,7 @@
 import type { RecordPlot } from '@common/contracts/records';
 import { useId, useState } from 'react';
-import { clientId, localToday } from '../api/client-id';
+import { localToday } from '@/lib/local-date';
+import { clientId } from '../api/client-id';
 import type { NewOutboxItem } from '../api/outbox';
 
 /**

@@ -7,7 +7,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
-import { localToday } from '../api/client-id';
+import { localToday } from '@/lib/local-date';
 import { useFieldEvents } from '../api/get-field-events';
 import { useOutbox } from '../api/use-outbox';
 import { FieldEventForm } from '../components/field-event-form';

@@ -20,6 +20,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
 import { SelectField } from '@/components/ui/text-field';
+import { saveText } from '@/lib/save-text';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { mySitesOf } from '../api/field-log-memory';
@@ -28,15 +29,7 @@ import { FieldLogCrumbs } from '../components/field-log-crumbs';
 
 const selectClass = 'min-h-11 rounded-lg border border-leaf-300 bg-white px-2';
 
-/** Saves text as a file the browser downloads. */
-function download(name: string, text: string) {
-  const url = URL.createObjectURL(new Blob([text], { type: 'text/csv;charset=utf-8' }));
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  a.click();
-  setTimeout(() => URL.revokeObjectURL(url), 0);
-}
+const download = (name: string, text: string) => saveText(name, 'text/csv;charset=utf-8', text);
 
 /**
  * The paper backup of a round: one site's plots in field order with blank columns for the

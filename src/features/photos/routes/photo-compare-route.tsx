@@ -6,6 +6,7 @@ import { usePhotoTagging } from '../api/get-photo-tagging';
 import { usePhotos } from '../api/get-photos';
 import { PhotoBrowser } from '../components/photo-browser';
 import { PhotoThumb } from '../components/photo-thumb';
+import { localToday } from '@/lib/local-date';
 
 const MAX_ENTRIES = 4;
 
@@ -21,11 +22,6 @@ const addDays = (day: string, n: number) => {
   const d = new Date(`${day}T00:00:00Z`);
   d.setUTCDate(d.getUTCDate() + n);
   return d.toISOString().slice(0, 10);
-};
-
-const localToday = () => {
-  const d = new Date();
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
 };
 
 export function Component() {

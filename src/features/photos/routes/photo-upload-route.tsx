@@ -9,6 +9,7 @@ import { ApiError } from '@/lib/api-client';
 import { usePhotoTagging } from '../api/get-photo-tagging';
 import { useUploadPhoto } from '../api/upload-photo';
 import { emptyTags, type PhotoTags, PhotoTagFields } from '../components/photo-tag-fields';
+import { localToday } from '@/lib/local-date';
 
 type Status = 'ready' | 'waiting' | 'sending' | 'done' | 'failed' | 'cancelled';
 
@@ -26,11 +27,6 @@ interface Item {
 
 const megabytes = (bytes: number) =>
   `${(bytes / (1024 * 1024)).toLocaleString('en', { maximumFractionDigits: 1, minimumFractionDigits: 1 })} MB`;
-
-const localToday = () => {
-  const d = new Date();
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-};
 
 const statusText: Record<Status, string> = {
   ready: 'Ready',
