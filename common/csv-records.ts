@@ -3,8 +3,8 @@
  * trial's plots and traits. Pure: the caller parses the file into rows of text and supplies
  * the lookups. Row numbers count the header as row 1, as a spreadsheet shows them.
  */
+import { DATE_HINT, isCalendarDate, latestRecordDate } from './calendar-date';
 import {
-  latestRecordDate,
   observationValueProblem,
   storedUnitOf,
   type ImportRowError,
@@ -104,13 +104,8 @@ export interface CsvCheck<T> {
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-const DATE = /^\d{4}-\d{2}-\d{2}$/;
-
 function checkDate(text: string, today: string): string | null {
-  if (!DATE.test(text)) return 'Use a date like 2026-07-14.';
-  const d = new Date(`${text}T00:00:00Z`);
-  if (Number.isNaN(d.getTime()) || d.toISOString().slice(0, 10) !== text)
-    return 'Not a calendar date.';
+  if (!isCalendarDate(text)) return DATE_HINT;
   if (text > today) return 'The date is in the future.';
   if (text < '1900-01-01') return 'The date is too far in the past.';
   return null;

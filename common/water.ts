@@ -3,6 +3,7 @@
  * Depth in millimetres is litres per square metre (1 L spread over 1 m² stands 1 mm deep), so
  * every method reduces to litres applied ÷ wetted area, or a rate in mm/h × hours.
  */
+import { dateOfDayNumber, dayNumber, weekStartOf } from './calendar-date';
 import { LITRES_PER_US_GALLON, MM_PER_FOOT, MM_PER_INCH } from './units';
 
 export type IrrigationInputs =
@@ -85,17 +86,6 @@ export interface WaterWeek {
   irrigationEvents: number;
 }
 
-const DAY_MS = 86_400_000;
-const dayNumber = (isoDate: string) => Date.parse(`${isoDate}T00:00:00Z`) / DAY_MS;
-const isoOf = (day: number) => new Date(day * DAY_MS).toISOString().slice(0, 10);
-
-/** The Monday on or before a calendar date. */
-export function weekStartOf(isoDate: string): string {
-  const day = dayNumber(isoDate);
-  if (!Number.isFinite(day)) throw new RangeError(`Not a date: ${isoDate}`);
-  const weekday = (new Date(day * DAY_MS).getUTCDay() + 6) % 7; // Monday 0 … Sunday 6
-  return isoOf(day - weekday);
-}
 
 /**
  * Rain plus irrigation depth per week, every week from the first event to the last (weeks
@@ -111,7 +101,7 @@ export function weeklyWaterSummary(events: readonly WaterEvent[]): WaterWeek[] {
   const byWeek = new Map<string, WaterWeek>();
   const starts = water.map((e) => weekStartOf(e.occurredOn)).sort();
   for (let d = dayNumber(starts[0]!); d <= dayNumber(starts.at(-1)!); d += 7) {
-    const weekStart = isoOf(d);
+    const weekStart = dateOfDayNumber(d);
     byWeek.set(weekStart, {
       weekStart,
       rainMm: 0,

@@ -1,5 +1,6 @@
 /** The lead's design of a trial: settings, entries, sites, traits, layout, what was planted. */
 import { z } from 'zod';
+import { calendarDate } from '../calendar-date';
 import { type QuantityUnit, toStored } from '../units';
 import {
   displayUnitsOfKind,
@@ -47,7 +48,7 @@ const required = (max: number, what: string) =>
     .trim()
     .min(1, `Enter the ${what}.`)
     .max(max, `Use at most ${max} characters for the ${what}.`);
-const isoDate = z.iso.date('Use a date like 2026-05-01.');
+const isoDate = calendarDate();
 const lengthMm = (what: string, max = 10_000) =>
   z
     .number(`Enter the ${what} as a number.`)

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { calendarDate } from '../calendar-date';
 
 /** What a photo shows; "measurement" means a ruler or scale is in view. */
 export const photoSubjects = ['plant', 'fruit', 'leaf', 'damage', 'measurement'] as const;
@@ -29,7 +30,7 @@ export const photoLimitsSchema = z.object({
 });
 export type PhotoLimits = z.infer<typeof photoLimitsSchema>;
 
-const isoDate = z.iso.date({ message: 'Use a date like 2026-07-14.' });
+const isoDate = calendarDate();
 const caption = z
   .string()
   .trim()

@@ -4,6 +4,7 @@
  * by the server to parse and by the client to build requests and read answers.
  */
 import { z } from 'zod';
+import { calendarDate, latestRecordDate } from '../calendar-date';
 import { typedNumber } from './typed-input';
 
 export const harvestGrades = ['marketable', 'cull'] as const;
@@ -27,22 +28,7 @@ export type AuditTableName = (typeof auditTables)[number];
 export const restorableTables = recordTables;
 export const auditActions = ['create', 'update', 'delete', 'restore'] as const;
 
-const DAY_MS = 86_400_000;
-/**
- * The latest calendar day a record may carry: tomorrow in UTC, because a phone in the field
- * may be a time zone ahead of the server. Anything later is a typing slip.
- */
-export function latestRecordDate(now: Date = new Date()): string {
-  return new Date(now.getTime() + DAY_MS).toISOString().slice(0, 10);
-}
-
-export const isoDate = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-07-14.')
-  .refine((s) => {
-    const d = new Date(`${s}T00:00:00Z`);
-    return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
-  }, 'Not a calendar date.');
+const isoDate = calendarDate();
 
 /** A field date: real, not before 1900, and not in the future. */
 export const fieldDate = isoDate

@@ -3,16 +3,11 @@
  * client converts °F and inches at the edges.
  */
 import { z } from 'zod';
+import { calendarDate } from '../calendar-date';
 import { MM_PER_INCH, type UnitSystem } from '../units';
 import { typedNumber } from './typed-input';
 
-const isoDate = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-06-01.')
-  .refine((d) => {
-    const t = new Date(`${d}T00:00:00Z`);
-    return !Number.isNaN(t.getTime()) && t.toISOString().slice(0, 10) === d;
-  }, 'Not a calendar date.');
+const isoDate = calendarDate();
 
 /** Plausible surface air temperatures (°C); outside this is a typing or unit slip. */
 export const TEMPERATURE_RANGE_C = { min: -60, max: 60 } as const;

@@ -3,6 +3,7 @@
  * compare invented okra and bush bean varieties. Every person, place and variety is fictional.
  * Pure: the same seed gives the same season; db/seed/seed.ts writes it.
  */
+import { addDays } from '../../common/calendar-date';
 import { randomizeLayout } from '../../common/layout';
 import { createRandom, type Random } from '../../common/random';
 
@@ -460,12 +461,6 @@ export const demoTrials: DemoTrial[] = [
     ],
   },
 ];
-
-export function addDays(isoDate: string, days: number): string {
-  const d = new Date(`${isoDate}T00:00:00Z`);
-  d.setUTCDate(d.getUTCDate() + days);
-  return d.toISOString().slice(0, 10);
-}
 
 const round = (x: number, digits = 0) => Math.round(x * 10 ** digits) / 10 ** digits;
 const clamp = (x: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, x));

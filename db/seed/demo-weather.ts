@@ -4,7 +4,8 @@
  * (so the two sources agree). Pure and deterministic; no real station or place.
  */
 import { createRandom } from '../../common/random';
-import { addDays, DEMO_SEED, type DemoTrial, type GeneratedEvent } from './demo-season';
+import { addDays } from '../../common/calendar-date';
+import { DEMO_SEED, type DemoTrial, type GeneratedEvent } from './demo-season';
 
 export interface GeneratedWeatherDay {
   siteKey: string;

@@ -5,7 +5,7 @@
  */
 import type { AnalysisBasis, DerivedTraitKey } from '../../common/contracts/analysis';
 import { recordedDecimals, roundTo } from '../../common/precision';
-import { daysBetween } from './engine/dates';
+import { daysBetween } from '../../common/calendar-date';
 import {
   plotObservationMeans,
   summariseHarvests,

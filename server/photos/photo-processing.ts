@@ -3,6 +3,7 @@
  * Every output is re-encoded from pixels, so no EXIF, XMP or GPS block survives; the capture
  * time is read first and returned for the database.
  */
+import { utcDateOf } from '../../common/calendar-date';
 import crypto from 'node:crypto';
 import exifReader from 'exif-reader';
 import sharp, { type Metadata, type OutputInfo, type Sharp } from 'sharp';
@@ -96,7 +97,7 @@ export function captureTimeOf(exif: Buffer | undefined): { at: Date | null; on: 
   const wall =
     parsed.Photo?.DateTimeOriginal ?? parsed.Photo?.DateTimeDigitized ?? parsed.Image?.DateTime;
   if (!(wall instanceof Date) || Number.isNaN(wall.getTime())) return { at: null, on: null };
-  const on = wall.toISOString().slice(0, 10);
+  const on = utcDateOf(wall);
   const offset = (parsed.Photo as Record<string, unknown> | undefined)?.OffsetTimeOriginal;
   const m = typeof offset === 'string' ? /^([+-])(\d{2}):(\d{2})$/.exec(offset) : null;
   const minutes = m ? (m[1] === '-' ? -1 : 1) * (Number(m[2]) * 60 + Number(m[3])) : 0;

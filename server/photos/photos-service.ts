@@ -1,4 +1,5 @@
 import crypto from 'node:crypto';
+import { localToday } from '../../common/calendar-date';
 import type { Insertable } from 'kysely';
 import type { z } from 'zod';
 import type {
@@ -252,7 +253,8 @@ export async function uploadPhotos(
       rows.push({
         trial_id: loaded.trial.id,
         ...tags,
-        taken_on: fields.takenOn ?? photo.capturedOn ?? fields.today ?? utcToday(),
+        // The device sends its own calendar day; only a client too old to send it gets ours.
+        taken_on: fields.takenOn ?? photo.capturedOn ?? fields.today ?? localToday(),
         captured_at: photo.capturedAt,
         caption: fields.caption,
         subject: fields.subject ?? null,
@@ -289,7 +291,6 @@ export async function uploadPhotos(
   }
 }
 
-const utcToday = () => new Date().toISOString().slice(0, 10);
 
 async function editablePhoto(
   deps: PhotoDeps,

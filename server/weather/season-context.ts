@@ -4,7 +4,7 @@
  * Pure: records in, summary out.
  */
 import type { SeasonSite } from '../../common/contracts/weather';
-import { dateOfDayNumber, dayNumber, daysBetween } from '../analysis/engine/dates';
+import { daysBetween, weekStartOf } from '../../common/calendar-date';
 import {
   accumulateDegreeDays,
   CROP_THRESHOLDS,
@@ -49,10 +49,6 @@ export function thresholdsForCrop(crop: string): CropThresholds & { matched: str
   };
 }
 
-const mondayOf = (date: string) => {
-  const day = dayNumber(date);
-  return dateOfDayNumber(day - ((((day + 3) % 7) + 7) % 7));
-};
 
 export function siteSeason(input: {
   siteId: string;
@@ -119,7 +115,7 @@ export function siteSeason(input: {
 
   const weekExtra = new Map<string, { gdd: number; hot: number; tmax: number[]; tmin: number[] }>();
   const extra = (date: string) => {
-    const key = mondayOf(date);
+    const key = weekStartOf(date);
     let w = weekExtra.get(key);
     if (!w) {
       w = { gdd: 0, hot: 0, tmax: [], tmin: [] };

@@ -3,6 +3,7 @@
  * rain. Every problem is reported with its line number; the caller writes nothing unless the
  * whole file is clean. Pure.
  */
+import { isCalendarDate } from '../../common/calendar-date';
 import { parse } from 'csv-parse/sync';
 import {
   MAX_DAILY_RAIN_MM,
@@ -37,8 +38,7 @@ function isoDate(text: string): string | null {
   const m = /^(\d{4})[-/](\d{1,2})[-/](\d{1,2})$/.exec(text.trim());
   if (!m) return null;
   const iso = `${m[1]}-${m[2]!.padStart(2, '0')}-${m[3]!.padStart(2, '0')}`;
-  const t = new Date(`${iso}T00:00:00Z`);
-  return !Number.isNaN(t.getTime()) && t.toISOString().slice(0, 10) === iso ? iso : null;
+  return isCalendarDate(iso) ? iso : null;
 }
 
 export function parseWeatherCsv(

@@ -9,9 +9,9 @@ import {
   inchesPerHourToMmPerHour,
   squareFeetToSquareMetres,
   waterDepthMm,
-  weekStartOf,
   weeklyWaterSummary,
 } from '../../common/water';
+import { weekStartOf } from '../../common/calendar-date';
 
 const inchesOf = (mm: number) => mm / MM_PER_INCH;
 

@@ -1,7 +1,7 @@
 /**
  * Season context: growing degree days, hot days and water received, lined up against harvests.
  */
-import { dateOfDayNumber, dayNumber } from './dates.js';
+import { dateOfDayNumber, dayNumber } from '../../../common/calendar-date';
 
 /**
  * Degree-day method used throughout: daily average with horizontal cutoff. Tmax is capped at

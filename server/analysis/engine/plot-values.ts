@@ -3,7 +3,7 @@
  * averaged per plot, and normalisation per plant, per metre of row and per area.
  * Units in are SI: grams, metres, square metres.
  */
-import { daysBetween, dayNumber } from './dates.js';
+import { daysBetween, dayNumber } from '../../../common/calendar-date';
 
 /** Square metres in a hectare. */
 export const SQUARE_METRES_PER_HECTARE = 10_000;

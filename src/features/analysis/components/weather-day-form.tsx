@@ -1,6 +1,8 @@
 import type { UnitSystem } from '@common/contracts/me';
 import { weatherDayForm } from '@common/contracts/weather';
+import { localToday } from '@common/calendar-date';
 import { Button } from '@/components/ui/button';
+import { TODAY_HINT } from '@/components/ui/field-date';
 import { FormMessage, SelectField, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { usePutWeatherDay } from '../api/put-weather-day';
@@ -18,7 +20,7 @@ export function WeatherDayForm({
   const save = usePutWeatherDay(slug);
   const form = useContractForm(weatherDayForm(system), {
     siteId: sites[0]?.id ?? '',
-    date: new Date().toISOString().slice(0, 10),
+    date: localToday(),
     tminC: '',
     tmaxC: '',
     rainMm: '',
@@ -49,6 +51,7 @@ export function WeatherDayForm({
         <TextField
           label="Date"
           type="date"
+          hint={TODAY_HINT}
           required
           error={errors.date?.message}
           {...form.register('date')}

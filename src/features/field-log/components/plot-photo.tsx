@@ -1,6 +1,6 @@
 import type { RecordPlot } from '@common/contracts/records';
 import { useId, useState } from 'react';
-import { localToday } from '@/lib/local-date';
+import { localToday } from '@common/calendar-date';
 import { clientId } from '../api/client-id';
 import type { NewOutboxItem } from '../api/outbox';
 

@@ -7,7 +7,8 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
-import { localToday } from '@/lib/local-date';
+import { localToday } from '@common/calendar-date';
+import { FieldDate } from '@/components/ui/field-date';
 import { useFieldEvents } from '../api/get-field-events';
 import { useOutbox } from '../api/use-outbox';
 import { FieldEventForm } from '../components/field-event-form';
@@ -74,19 +75,7 @@ export function Component() {
           <h2 id="event-heading" className="text-lg font-semibold text-leaf-900">
             Record an event
           </h2>
-          <div className="my-2 flex flex-col gap-1">
-            <label htmlFor="event-date" className="font-medium">
-              Date
-            </label>
-            <input
-              id="event-date"
-              type="date"
-              value={date}
-              max={localToday()}
-              onChange={(e) => setDate(e.target.value || localToday())}
-              className="min-h-11 w-48 rounded-lg border border-leaf-300 bg-white px-3"
-            />
-          </div>
+          <FieldDate date={date} onChange={setDate} className="my-2 w-56" />
           <FieldEventForm
             key={siteId}
             slug={slug}

@@ -6,7 +6,8 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
-import { localToday } from '@/lib/local-date';
+import { localToday } from '@common/calendar-date';
+import { FieldDate } from '@/components/ui/field-date';
 import { useRecordPlots } from '../api/get-record-plots';
 import { useOutbox } from '../api/use-outbox';
 import {
@@ -174,19 +175,7 @@ export function Component() {
               ({plot.entryCode}, block {plot.block})
             </span>
           </h2>
-          <div className="mt-2 flex flex-col gap-1">
-            <label htmlFor="log-date" className="font-medium">
-              Date
-            </label>
-            <input
-              id="log-date"
-              type="date"
-              value={date}
-              max={localToday()}
-              onChange={(e) => setDate(e.target.value || localToday())}
-              className="min-h-11 w-48 rounded-lg border border-leaf-300 bg-white px-3"
-            />
-          </div>
+          <FieldDate date={date} onChange={setDate} className="mt-2 w-56" />
           <div role="tablist" aria-label="What to record" className="mt-3 flex flex-wrap gap-1">
             {available.map((k) => (
               <button

@@ -6,23 +6,10 @@ import { usePhotoTagging } from '../api/get-photo-tagging';
 import { usePhotos } from '../api/get-photos';
 import { PhotoBrowser } from '../components/photo-browser';
 import { PhotoThumb } from '../components/photo-thumb';
-import { localToday } from '@/lib/local-date';
+import { addDays, isCalendarDate, localToday, weekStartOf } from '@common/calendar-date';
 
 const MAX_ENTRIES = 4;
 
-/** Monday of the ISO week holding `day` (ISO 8601 weeks start on Monday). */
-function weekStart(day: string): string {
-  const d = new Date(`${day}T00:00:00Z`);
-  const back = (d.getUTCDay() + 6) % 7;
-  d.setUTCDate(d.getUTCDate() - back);
-  return d.toISOString().slice(0, 10);
-}
-
-const addDays = (day: string, n: number) => {
-  const d = new Date(`${day}T00:00:00Z`);
-  d.setUTCDate(d.getUTCDate() + n);
-  return d.toISOString().slice(0, 10);
-};
 
 export function Component() {
   const { slug = '' } = useParams();
@@ -31,7 +18,7 @@ export function Component() {
   // Without a week asked for, the latest week that has photos (newest first from the server).
   const all = usePhotos(slug);
   const latest = all.data?.photos.find((p) => p.takenOn)?.takenOn ?? null;
-  const from = weekStart(asked ?? latest ?? localToday());
+  const from = weekStartOf(asked && isCalendarDate(asked) ? asked : (latest ?? localToday()));
   const to = addDays(from, 6);
   const chosen = (params.get('entries') ?? '').split(',').filter(Boolean).slice(0, MAX_ENTRIES);
   const tagging = usePhotoTagging(slug);

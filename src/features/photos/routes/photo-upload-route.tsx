@@ -9,7 +9,7 @@ import { ApiError } from '@/lib/api-client';
 import { usePhotoTagging } from '../api/get-photo-tagging';
 import { useUploadPhoto } from '../api/upload-photo';
 import { emptyTags, type PhotoTags, PhotoTagFields } from '../components/photo-tag-fields';
-import { localToday } from '@/lib/local-date';
+import { localToday } from '@common/calendar-date';
 
 type Status = 'ready' | 'waiting' | 'sending' | 'done' | 'failed' | 'cancelled';
 
