@@ -1,6 +1,8 @@
 /**
  * npm start: our own database (installed and started when needed), migrations, the demo season
  * when the database is empty, a local mail capture server, the client build, then the server.
+ * With NODE_ENV=production it is the production start instead (server/production.ts): none of
+ * the above, and the same refusals as `npm run start:prod`.
  */
 import { spawn } from 'node:child_process';
 import type { Server } from 'node:http';
@@ -13,6 +15,7 @@ import { seedDemoIfEmpty } from '../db/seed/seed';
 import { parseEnv } from '../server/env';
 import { type CaptureServer, startCaptureServer } from '../server/mail/capture-server';
 import { mailboxBanner } from '../server/mail/mailbox-router';
+import { runProduction } from '../server/production';
 import { createRuntime, type Runtime } from '../server/runtime';
 import { createStorage } from '../server/storage/create-storage';
 import { ensureSystemPackages } from './system-packages';
@@ -148,8 +151,11 @@ async function main() {
   console.log('\nPress Ctrl+C to stop.');
 }
 
-main().catch((err: unknown) => {
+if (process.env.NODE_ENV === 'production') runProduction();
+else main().catch(failedStart);
+
+function failedStart(err: unknown) {
   if (stopping) return;
   console.error(err instanceof Error ? err.message : err);
   void shutdown(1);
-});
+}
