@@ -54,4 +54,17 @@ export default defineConfig({
   },
   // The manifest lets a test add up what each page loads first (tests/e2e/bundle-size.test.ts).
   build: { outDir: 'dist/client', sourcemap: true, manifest: true },
+  // `vite build` also builds the server-side renderer of the published results sheet
+  // (server/results/sheet-html.ts loads it), so the two can never come from different releases.
+  builder: {},
+  environments: {
+    ssr: {
+      build: {
+        outDir: 'dist/sheet-html',
+        manifest: false,
+        copyPublicDir: false,
+        rollupOptions: { input: { 'entry-sheet-html': 'src/entry-sheet-html.tsx' } },
+      },
+    },
+  },
 });

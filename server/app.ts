@@ -22,6 +22,7 @@ import { refuseNul } from './lib/refuse-nul';
 import { trialsRouter } from './trials/trials-router';
 import { publicResultsRouter, resultsSheetRouter } from './results/results-router';
 import { shareMeta } from './results/share-meta';
+import { sheetPageMarkup } from './results/sheet-page';
 import { comparisonRouter } from './results/comparison-router';
 import { designRouter } from './design/design-router';
 import { analyzeRouter, trialAnalysisRouter } from './analysis/analysis-router';
@@ -144,9 +145,14 @@ export function createApp(deps: AppDeps) {
     const shell = fs.readFileSync(path.join(clientDir, 'index.html'), 'utf8');
     app.get('/{*splat}', async (req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
-      const meta = await shareMeta(deps.db, req.path, deps.baseUrl);
-      // A replacer function: a string would expand `$&`, `$'` and the like from a trial's title.
-      res.type('html').send(meta ? shell.replace(/<title>[^<]*<\/title>/, () => meta) : shell);
+      const [meta, sheet] = await Promise.all([
+        shareMeta(deps.db, req.path, deps.baseUrl),
+        sheetPageMarkup(deps.db, req.path, clientDir),
+      ]);
+      // Replacer functions: a string would expand `$&`, `$'` and the like from a trial's title.
+      let page = meta ? shell.replace(/<title>[^<]*<\/title>/, () => meta) : shell;
+      if (sheet) page = page.replace('<div id="root"></div>', (root) => root + sheet);
+      res.type('html').send(page);
     });
   }
   app.use(errorHandler);

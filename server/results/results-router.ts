@@ -15,9 +15,10 @@ import { endpoint } from '../lib/endpoint';
 import { meansCsv, plotsCsv } from './results-csv';
 import { renderSheetPdf } from './results-pdf';
 import * as service from './results-service';
+import { sheetPageMarkup } from './sheet-page';
 import { z } from 'zod';
 
-type Deps = Pick<AppDeps, 'db' | 'logger' | 'env' | 'storage'> & {
+type Deps = Pick<AppDeps, 'db' | 'logger' | 'env' | 'storage' | 'clientDir'> & {
   mail: service.ResultsDeps['mail'];
   baseUrl: string;
 };
@@ -59,6 +60,11 @@ export function resultsSheetRouter(deps: Deps) {
       { params: trialSlugParams, body: publishBody },
       async ({ params, body }, _req, res) => {
         res.status(201).json(await service.publish(r, params.slug, actorOf(res), body.changeNote));
+        // Draw the new version's page now, so its first reader does not wait for it.
+        if (deps.clientDir)
+          sheetPageMarkup(deps.db, `/r/${params.slug}`, deps.clientDir).catch((err: unknown) =>
+            deps.logger.warn({ err }, 'The published sheet could not be drawn ahead'),
+          );
       },
     ),
   );

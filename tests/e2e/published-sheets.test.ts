@@ -131,3 +131,55 @@ describe('reaching a published sheet', () => {
     await context.close();
   });
 });
+
+describe('the sheet drawn on the server', () => {
+  it('arrives as HTML with its numbers embedded, readable with no script at all', async () => {
+    const answer = await fetch(`${live.url}/r/${SLUG}`);
+    expect(answer.status).toBe(200);
+    const html = await answer.text();
+    expect(html).toContain('id="sheet-prerender"');
+    expect(html).toContain(TITLE);
+    const data = /<script type="application\/json" id="sheet-data">([^]*?)<\/script>/.exec(html);
+    expect(data).not.toBeNull();
+    // No "<" inside the embedded JSON: nothing in a title or note can close the script element.
+    expect(data![1]).not.toContain('<');
+    const embedded = JSON.parse(data![1]!) as { trial: { slug: string }; version: number };
+    expect(embedded.trial.slug).toBe(SLUG);
+    expect(embedded.version).toBe(1);
+    // A version's own address is drawn too; one that does not exist gets the plain page.
+    await expect(fetch(`${live.url}/r/${SLUG}/v/1`).then((r) => r.text())).resolves.toContain(
+      'id="sheet-prerender"',
+    );
+    await expect(fetch(`${live.url}/r/${SLUG}/v/9`).then((r) => r.text())).resolves.not.toContain(
+      'id="sheet-prerender"',
+    );
+
+    const context = await browser.newContext({ baseURL: live.url, javaScriptEnabled: false });
+    const page = await context.newPage();
+    await page.goto(`/r/${SLUG}`);
+    await expect(page.getByRole('heading', { level: 1, name: TITLE }).count()).resolves.toBe(1);
+    await expect(page.getByRole('table').count()).resolves.toBeGreaterThan(0);
+    await context.close();
+  });
+
+  it('the client takes over with the embedded numbers: one sheet, no second fetch', async () => {
+    for (const viewport of viewports) {
+      const context = await contextAs(browser, live, null, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      const sheetRequests: string[] = [];
+      page.on('request', (r) => {
+        if (new URL(r.url()).pathname === `/api/results/${SLUG}`) sheetRequests.push(r.url());
+      });
+      await page.goto(`/r/${SLUG}`);
+      // The live page's own controls show once the client has mounted the sheet.
+      await page.getByRole('button', { name: 'Print' }).waitFor();
+      await expect(page.locator('#sheet-prerender').count()).resolves.toBe(0);
+      await expect(page.getByRole('heading', { level: 1, name: TITLE }).count()).resolves.toBe(1);
+      expect(sheetRequests).toEqual([]);
+      await expectFits(page, viewport.width);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+});

@@ -1,9 +1,18 @@
-import { Suspense, useEffect } from 'react';
-import { Link, NavLink, Outlet, useNavigate, useNavigation, useParams } from 'react-router-dom';
+import { Suspense, useEffect, useState } from 'react';
+import {
+  Link,
+  NavLink,
+  Outlet,
+  useLocation,
+  useNavigate,
+  useNavigation,
+  useParams,
+} from 'react-router-dom';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrials } from '@/features/trials/api/get-trials';
 import { trialHref } from '@/features/trials/components/trial-href';
 import { keepAppOnDevice } from '@/lib/offline-shell';
+import { removePrerenderedSheet } from '@/lib/prerendered-sheet';
 import { useMe } from '@/lib/session';
 import { usePageTitle } from '../use-page-title';
 
@@ -114,6 +123,12 @@ export function AppShell() {
   useEffect(() => {
     if (me) keepAppOnDevice();
   }, [me]);
+  // A results sheet drawn by the server belongs to the first page only.
+  const { pathname } = useLocation();
+  const [firstPath] = useState(pathname);
+  useEffect(() => {
+    if (pathname !== firstPath) removePrerenderedSheet();
+  }, [pathname, firstPath]);
   return (
     <div className="min-h-screen">
       <a

@@ -1,6 +1,7 @@
 import { resultSnapshotSchema } from '@common/contracts/results';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import { takeEmbeddedSheet } from '@/lib/prerendered-sheet';
 import { trialKeys } from '@/lib/trial-keys';
 
 export const getPublishedSheet = (slug: string, version?: number) =>
@@ -17,5 +18,15 @@ export const publishedSheetQueryOptions = (slug: string, version?: number) =>
     staleTime: version ? Infinity : 60_000,
   });
 
+/** The sheet the server embedded in the page, when it is the one asked for. */
+function embeddedSheet(slug: string, version?: number) {
+  const parsed = resultSnapshotSchema.safeParse(takeEmbeddedSheet());
+  if (!parsed.success || parsed.data.trial.slug !== slug) return undefined;
+  return version === undefined || parsed.data.version === version ? parsed.data : undefined;
+}
+
 export const usePublishedSheet = (slug: string, version?: number) =>
-  useQuery(publishedSheetQueryOptions(slug, version));
+  useQuery({
+    ...publishedSheetQueryOptions(slug, version),
+    initialData: () => embeddedSheet(slug, version),
+  });

@@ -1,9 +1,10 @@
-import { useState } from 'react';
+import { useLayoutEffect, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { ApiError } from '@/lib/api-client';
+import { removePrerenderedSheet } from '@/lib/prerendered-sheet';
 import { useFollowResults } from '../api/follow-results';
 import { usePublishedSheet } from '../api/get-published-sheet';
 import { useVersions } from '../api/get-versions';
@@ -61,6 +62,12 @@ export function Component() {
   const number = version ? Number(version) : undefined;
   const { data: sheet, isPending, error } = usePublishedSheet(slug, number);
   const { data: versions } = useVersions(slug);
+  // The server's drawing of the sheet goes once this page shows the sheet (or why it cannot).
+  const settled = !isPending;
+  useLayoutEffect(() => {
+    if (settled) removePrerenderedSheet();
+  }, [settled]);
+  useLayoutEffect(() => removePrerenderedSheet, []);
 
   if (isPending) return <Spinner label="Loading the results…" />;
   if (error) return <ErrorPanel error={error} title="These results are not available" />;
