@@ -519,18 +519,40 @@ const irrigationRateMmPerHour: Record<'drip' | 'overhead' | 'hand', number> = {
   hand: 15,
 };
 
+const byText = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+
+/**
+ * The demo trial's plot plan as the design page lays it out from the stored seed: entries in
+ * code order and sites in name order (entry codes and site keys stand in for the row ids).
+ */
+export function demoLayout(trial: DemoTrial, seed = DEMO_SEED) {
+  return randomizeLayout({
+    design: trial.design,
+    entryIds: trial.entries.map((e) => e.code).sort(byText),
+    replicates: trial.blocks,
+    siteIds: [...trial.sites].sort((a, b) => byText(a.name, b.name)).map((s) => s.key),
+    seed,
+  });
+}
+
 export function generateSeason(trial: DemoTrial, seed = DEMO_SEED): GeneratedSeason {
   const random: Random = createRandom(seed + trial.slug.length * 7919);
   // Scores with no variety effect come from a stream of their own: what they draw never shifts
   // the rest of the season's records.
   const nullTraitRandom: Random = createRandom(HEAT_SCORE_SEED + trial.slug.length);
-  const layout = randomizeLayout({
+  // The season's numbers are drawn plot by plot in the order the demo was first written in, so
+  // they stay the same; the plot numbers are the plan the app itself makes from the stored seed.
+  const drawOrder = randomizeLayout({
     design: trial.design,
     entryIds: trial.entries.map((e) => e.code),
     replicates: trial.blocks,
     siteIds: trial.sites.map((s) => s.key),
     seed,
   });
+  const plan = new Map(
+    demoLayout(trial, seed).map((p) => [`${p.siteId}:${p.block}:${p.entryId}`, p]),
+  );
+  const layout = drawOrder.map((p) => plan.get(`${p.siteId}:${p.block}:${p.entryId}`)!);
   const entryByCode = new Map(trial.entries.map((e) => [e.code, e]));
   const siteByKey = new Map(trial.sites.map((s) => [s.key, s]));
   const plots: GeneratedPlot[] = [];

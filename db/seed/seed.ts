@@ -4,7 +4,8 @@ import crypto from 'node:crypto';
 import type { ObjectStorage } from '../../server/storage/object-storage';
 import type { DB } from '../database';
 import { seedDemoPhotos } from './demo-photos';
-import { demoAccounts, demoTrials, generateSeason } from './demo-season';
+import { addDays, DEMO_SEED, demoAccounts, demoTrials, generateSeason } from './demo-season';
+import { publishDemoSheet } from './demo-sheet';
 import { generateDemoWeather } from './demo-weather';
 import { defaultPlausibleRange } from '../../common/trait-presets';
 
@@ -25,6 +26,7 @@ export async function seedDemoIfEmpty(db: DB, storage?: ObjectStorage): Promise<
   if (!(await isEmpty(db))) return false;
   await seedDemo(db);
   if (storage) await seedDemoPhotos(db, storage);
+  await publishDemoSheet(db);
   return true;
 }
 
@@ -82,6 +84,9 @@ export async function seedDemo(db: DB): Promise<void> {
           sowing_date: t.sowingDate,
           transplant_date: t.transplantDate,
           replicates: t.blocks,
+          // The seed the plot plan below was randomized from (see demoLayout).
+          layout_seed: DEMO_SEED,
+          layout_generated_at: new Date(`${addDays(t.sowingDate, -14)}T09:00:00Z`),
           row_length_mm: t.rowLengthMm,
           row_spacing_mm: t.rowSpacingMm,
           fertilizer_policy: 'none' in t.fertilizer ? 'none_applied' : 'as_recorded',

@@ -2,27 +2,32 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import sharp from 'sharp';
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { randomizeLayout } from '../../common/layout';
+import { DEMO_SEED } from '../../db/seed/demo-season';
+import { DEMO_PUBLISHED_SLUG, DEMO_VERSION_NOTE } from '../../db/seed/demo-sheet';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
 import { localStorage } from '../../server/storage/local-storage';
-import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { createTestApp, type TestApp } from '../support/test-app';
 
-let d: TestDatabase;
+let t: TestApp;
 const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-demo-photos-'));
+const storage = localStorage(folder);
+let seeded: boolean[] = [];
 beforeAll(async () => {
-  d = await createTestDatabase();
-});
+  t = await createTestApp();
+  seeded = [await seedDemoIfEmpty(t.db, storage), await seedDemoIfEmpty(t.db, storage)];
+}, 120_000);
 afterAll(async () => {
-  await d.drop();
+  await t.close();
   fs.rmSync(folder, { recursive: true, force: true });
 });
 
 describe('the demo season', () => {
   it('loads once into an empty database, with a cover drawing per okra entry stored like an upload', async () => {
-    const storage = localStorage(folder);
-    expect(await seedDemoIfEmpty(d.db, storage)).toBe(true);
-    expect(await seedDemoIfEmpty(d.db, storage)).toBe(false);
-    const photos = await d.db
+    expect(seeded).toEqual([true, false]);
+    const photos = await t.db
       .selectFrom('photos as p')
       .innerJoin('entries as e', 'e.id', 'p.entry_id')
       .select(['p.storage_key', 'p.is_cover', 'e.code', 'p.caption'])
@@ -36,5 +41,100 @@ describe('the demo season', () => {
     expect(meta.format).toBe('webp');
     expect(meta.exif).toBeUndefined();
     expect(Math.max(meta.width!, meta.height!)).toBeLessThanOrEqual(1600);
+  });
+
+  it('stores each trial’s layout seed, and the plots are the plan the design page makes from it', async () => {
+    const trials = await t.db
+      .selectFrom('trials')
+      .select(['id', 'slug', 'design', 'replicates', 'layout_seed', 'layout_generated_at'])
+      .execute();
+    expect(trials).toHaveLength(2);
+    for (const trial of trials) {
+      expect(trial.layout_seed).toBe(DEMO_SEED);
+      expect(trial.layout_generated_at).toBeInstanceOf(Date);
+      // The design service's order: entries by code, sites by name.
+      const entries = await t.db
+        .selectFrom('entries')
+        .select('id')
+        .where('trial_id', '=', trial.id)
+        .orderBy('code')
+        .execute();
+      const sites = await t.db
+        .selectFrom('sites')
+        .select('id')
+        .where('trial_id', '=', trial.id)
+        .orderBy('name')
+        .execute();
+      const planned = randomizeLayout({
+        design: trial.design,
+        entryIds: entries.map((e) => e.id),
+        replicates: trial.replicates!,
+        siteIds: sites.map((s) => s.id),
+        seed: trial.layout_seed!,
+      });
+      const stored = await t.db
+        .selectFrom('plots')
+        .select(['site_id', 'entry_id', 'block', 'position', 'plot_number'])
+        .where('trial_id', '=', trial.id)
+        .execute();
+      const key = (p: { siteId: string; entryId: string; block: number; plotNumber: number }) =>
+        `${p.siteId}:${p.block}:${p.plotNumber}:${p.entryId}`;
+      expect(
+        stored
+          .map((p) =>
+            key({
+              siteId: p.site_id,
+              entryId: p.entry_id,
+              block: p.block,
+              plotNumber: p.plot_number,
+            }),
+          )
+          .sort(),
+      ).toEqual(planned.map(key).sort());
+    }
+  });
+
+  it('publishes the bean trial’s sheet as version 1 with a note, so the public index is not empty', async () => {
+    const index = await request(t.app).get('/api/results');
+    expect(index.status).toBe(200);
+    expect(index.body.sheets.map((s: { slug: string }) => s.slug)).toEqual([DEMO_PUBLISHED_SLUG]);
+    const versions = await request(t.app).get(`/api/results/${DEMO_PUBLISHED_SLUG}/versions`);
+    expect(versions.body.versions).toEqual([
+      expect.objectContaining({ version: 1, changeNote: DEMO_VERSION_NOTE }),
+    ]);
+    // The okra trial stays for the lead to publish.
+    expect((await request(t.app).get('/api/results/larkhaven-okra-2026')).status).toBe(404);
+  });
+
+  it('ranks the sheet’s traits by their direction, as its summary says', async () => {
+    const sheet = (await request(t.app).get(`/api/results/${DEMO_PUBLISHED_SLUG}`)).body as {
+      summary: string;
+      ranking: { variety: string }[];
+      traits: {
+        key: string;
+        direction: string;
+        means: { variety: string; mean: number; rank: number | null; group: string }[];
+      }[];
+    };
+    const byRank = (key: string) => {
+      const trait = sheet.traits.find((x) => x.key === key)!;
+      return [...trait.means].sort((a, b) => a.rank! - b.rank!);
+    };
+    // Plant height is lower-is-better: rank 1 is the smallest mean.
+    const heights = byRank('plant_height');
+    expect(heights.map((m) => m.mean)).toEqual(
+      [...heights.map((m) => m.mean)].sort((a, b) => a - b),
+    );
+    expect(heights[0]!.variety).toBe('Inkdrop Black');
+    // Marketable yield is higher-is-better: rank 1 is the largest mean.
+    const yields = byRank('marketable_yield');
+    expect(yields.map((m) => m.mean)).toEqual([...yields.map((m) => m.mean)].sort((a, b) => b - a));
+    expect(yields[0]!.variety).toBe('Marrowfield Flat');
+    expect(sheet.ranking[0]!.variety).toBe('Marrowfield Flat');
+    // Every pod count shares one letter group.
+    const counts = sheet.traits.find((x) => x.key === 'pod_count')!.means;
+    expect(new Set(counts.map((m) => m.group))).toEqual(new Set(['a']));
+    expect(sheet.summary).toContain('Marrowfield Flat gave the heaviest marketable harvest');
+    expect(sheet.summary).toContain('Inkdrop Black stayed the shortest');
   });
 });
