@@ -3,12 +3,12 @@
  * stored through the same upload path growers use, and chosen as each entry's cover.
  */
 import sharp from 'sharp';
-import type { Actor } from '../../common/policy';
 import { setCover, uploadPhotos } from '../../server/photos/photos-service';
 import type { ObjectStorage } from '../../server/storage/object-storage';
 import { trialForAction } from '../../server/trials/trials-service';
 import type { DB } from '../database';
-import { demoAccounts, demoTrials } from './demo-season';
+import { demoLeadActor } from './demo-lead';
+import { demoTrials } from './demo-season';
 
 /** Pod colours and shapes per demo entry code (invented, to tell the drawings apart). */
 const look: Record<string, { pod: string; ridge: string; length: number; width: number }> = {
@@ -45,13 +45,7 @@ function podDrawing(code: string, name: string): Buffer {
 
 export async function seedDemoPhotos(db: DB, storage: ObjectStorage): Promise<number> {
   const trial = demoTrials.find((t) => t.crop === 'Okra')!;
-  const leadAccount = demoAccounts.find((a) => a.key === 'lead')!;
-  const lead = await db
-    .selectFrom('users')
-    .select('id')
-    .where('email', '=', leadAccount.email)
-    .executeTakeFirstOrThrow();
-  const actor: Actor = { userId: lead.id, isAdmin: false };
+  const actor = await demoLeadActor(db);
   const loaded = await trialForAction(db, trial.slug, actor, 'photos.upload');
   const entries = await db
     .selectFrom('entries')

@@ -4,11 +4,11 @@
  * frozen sheet at /r. The okra trial stays unpublished for the lead to publish.
  */
 import { saveSheetBody } from '../../common/contracts/results';
-import type { Actor } from '../../common/policy';
 import type { MailQueue } from '../../server/mail/mail-queue';
 import { getDraft, publish, saveDraft } from '../../server/results/results-service';
 import type { DB } from '../database';
-import { demoAccounts, demoTrials } from './demo-season';
+import { demoLeadActor } from './demo-lead';
+import { demoTrials } from './demo-season';
 
 export const DEMO_PUBLISHED_SLUG = 'fennick-bush-beans-2026';
 export const DEMO_VERSION_NOTE =
@@ -24,13 +24,7 @@ const nobodyToTell: MailQueue = {
 
 export async function publishDemoSheet(db: DB): Promise<number> {
   const trial = demoTrials.find((t) => t.slug === DEMO_PUBLISHED_SLUG)!;
-  const leadAccount = demoAccounts.find((a) => a.key === 'lead')!;
-  const lead = await db
-    .selectFrom('users')
-    .select('id')
-    .where('email', '=', leadAccount.email)
-    .executeTakeFirstOrThrow();
-  const actor: Actor = { userId: lead.id, isAdmin: false };
+  const actor = await demoLeadActor(db);
   const deps = { db, mail: nobodyToTell, baseUrl: '' };
   // The default sheet (every trait with a direction, alpha 0.05, HSD letters) with the lead's words.
   const draft = await getDraft(deps, trial.slug, actor);
