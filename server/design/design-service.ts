@@ -29,7 +29,7 @@ import type { DB } from '../../db/database';
 import type { TraitsTable } from '../../db/schema';
 import type { Selectable } from 'kysely';
 import { writeAudit } from '../records/records-service';
-import { latestPublishedVersion } from '../results/results-service';
+import { copySheetSettings, latestPublishedVersion } from '../results/results-service';
 import type { z } from 'zod';
 import { AppError, fieldError } from '../lib/app-error';
 import { trialForAction, trialHeading, traitView } from '../trials/trials-service';
@@ -138,7 +138,8 @@ async function withFreshSlug<T>(title: string, create: (slug: string) => Promise
 
 /**
  * Next season in one step: a new trial with the entries, sites, traits and settings of this
- * one (no records, members, photos or results), led by whoever copies it, linked back to it.
+ * one, its results-sheet settings included (no records, members, photos or results), led by
+ * whoever copies it, linked back to it.
  * When this trial has a layout, the copy gets one of the same shape from a new seed.
  */
 export async function copyTrial(
@@ -177,6 +178,7 @@ export async function copyTrial(
       await repo.insertLead(trx, copy.id, userId, userId);
       for (const part of ['entries', 'sites', 'traits'] as const)
         await repo.copyTrialParts(trx, part, source.id, copy.id, userId);
+      await copySheetSettings(trx, source.id, copy.id, userId);
       if (!hadLayout) return { ...copy, seed: null };
       let seed = crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
       if (seed === source.layout_seed) seed = (seed + 1) % (MAX_LAYOUT_SEED + 1);

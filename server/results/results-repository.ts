@@ -29,6 +29,35 @@ export async function upsertSheet(db: DB, trialId: string, body: SaveSheetBody, 
     .execute();
 }
 
+/**
+ * Next season's trial starts with this one's sheet settings: the traits shown (with basis,
+ * weight and order), alpha, the letters method and the licence. The summary, methods, entry
+ * notes and cover photos speak of this season's results and stay behind. Trait keys carry over
+ * with the traits, so the choice still names the copy's own traits.
+ */
+export async function copySheetSettings(
+  db: DB,
+  fromTrialId: string,
+  toTrialId: string,
+  by: string,
+) {
+  const from = await findSheet(db, fromTrialId);
+  if (!from) return;
+  await db
+    .insertInto('results_sheets')
+    .values({
+      trial_id: toTrialId,
+      traits: JSON.stringify(from.traits),
+      alpha: from.alpha,
+      letters: from.letters,
+      license: from.license,
+      methods: null,
+      created_by: by,
+      updated_by: by,
+    })
+    .execute();
+}
+
 export async function latestVersionNumber(db: DB, trialId: string): Promise<number> {
   const row = await db
     .selectFrom('result_versions')

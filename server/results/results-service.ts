@@ -48,6 +48,11 @@ export function latestPublishedVersion(db: DB, trialId: string) {
   return repo.latestVersionNumber(db, trialId);
 }
 
+/** Gives a trial copied for next season this trial's sheet settings (see the repository). */
+export function copySheetSettings(db: DB, fromTrialId: string, toTrialId: string, by: string) {
+  return repo.copySheetSettings(db, fromTrialId, toTrialId, by);
+}
+
 export async function getDraft(
   deps: ResultsDeps,
   slug: string,

@@ -1,7 +1,7 @@
 /**
- * Next season in one step: copying a trial carries its entries, sites, traits and settings into
- * a new trial with a new layout seed, and no records; the copy links back to the trial it came
- * from, but only for someone allowed to see that trial. The checks compare the copy with the
+ * Next season in one step: copying a trial carries its entries, sites, traits and settings (the
+ * results sheet's too) into a new trial with a new layout seed, and no records; the copy links
+ * back to the trial it came from, but only for someone allowed to see that trial. The checks compare the copy with the
  * demo season's okra trial it is made from, and the new layout with the layout generator run
  * again on the seed the copy reports.
  */
@@ -174,6 +174,15 @@ describe('copying a trial to next season', () => {
     expect(stored.size).toBe(expected.length);
     for (const p of expected) expect(stored.get(key(p))).toBe(p.entryId);
 
+    // The okra trial has no saved sheet, so neither has its copy (it starts from the default).
+    expect(
+      await t.db
+        .selectFrom('results_sheets')
+        .select('trial_id')
+        .where('trial_id', 'in', [source.id, made.id])
+        .execute(),
+    ).toEqual([]);
+
     // The new trial links back to the old one.
     const detail = await request(t.app)
       .get(`/api/trials/${made.slug}`)
@@ -185,6 +194,80 @@ describe('copying a trial to next season', () => {
       season: source.season,
       view: 'trial',
     });
+  });
+
+  it('carries the results-sheet settings, not last season’s words, notes or photos', async () => {
+    const lead = await cookieOf('lead');
+    const source = await trialBySlug(SLUG);
+    const anEntry = await t.db
+      .selectFrom('entries')
+      .select('id')
+      .where('trial_id', '=', source.id)
+      .executeTakeFirstOrThrow();
+    const settings = {
+      traits: [
+        { key: 'plant_height', basis: 'plot', weight: 2 },
+        { key: 'marketable_yield', basis: 'm2', weight: 1 },
+      ],
+      alpha: 0.01,
+      letters: 'lsd',
+      license: 'CC-BY-SA-4.0',
+    };
+    const saved = await request(t.app)
+      .put(`/api/trials/${SLUG}/results-sheet`)
+      .set('Origin', TEST_ORIGIN)
+      .set('Cookie', lead)
+      .send({
+        ...settings,
+        summary: 'Tallow Creek Green led this year.',
+        methods: 'Sown 4 May in the cold frame.',
+        entryNotes: { [anEntry.id]: 'Tough after three days.' },
+        coverPhotos: {},
+      });
+    expect(saved.status, JSON.stringify(saved.body)).toBe(200);
+
+    const res = await copy('lead', { title: 'Larkhaven okra with its sheet', season: '2027' });
+    expect(res.status).toBe(201);
+    const draft = await request(t.app)
+      .get(`/api/trials/${res.body.slug}/results-sheet`)
+      .set('Cookie', lead);
+    expect(draft.status).toBe(200);
+    expect(draft.body).toMatchObject({
+      ...settings,
+      summary: '',
+      methods: null,
+      entryNotes: {},
+      coverPhotos: {},
+      publishedVersion: null,
+      isPublic: false,
+    });
+    // The chosen traits are the copy's own: its preview analyses them.
+    const preview = await request(t.app)
+      .get(`/api/trials/${res.body.slug}/results-sheet/preview`)
+      .set('Cookie', lead);
+    expect(preview.status, JSON.stringify(preview.body)).toBe(200);
+  });
+
+  it('copies a published sheet’s settings as a draft of the new trial, unpublished', async () => {
+    const lead = await cookieOf('lead');
+    const beans = 'fennick-bush-beans-2026';
+    const old = await request(t.app).get(`/api/trials/${beans}/results-sheet`).set('Cookie', lead);
+    expect(old.body.publishedVersion).toBe(1);
+    const res = await copy('lead', { title: 'Fennick beans again', season: '2027' }, beans);
+    expect(res.status).toBe(201);
+    const draft = await request(t.app)
+      .get(`/api/trials/${res.body.slug}/results-sheet`)
+      .set('Cookie', lead);
+    expect(draft.body).toMatchObject({
+      traits: old.body.traits,
+      alpha: old.body.alpha,
+      letters: old.body.letters,
+      license: old.body.license,
+      summary: '',
+      publishedVersion: null,
+      isPublic: false,
+    });
+    expect((await request(t.app).get(`/api/results/${res.body.slug}`)).status).toBe(404);
   });
 
   it('names the old trial only to someone who may see it', async () => {

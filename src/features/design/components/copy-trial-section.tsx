@@ -47,9 +47,10 @@ export function CopyTrialSection({
         Copy this trial to next season
       </h2>
       <p className="mt-1 text-sm">
-        A new trial with the same entries, sites, traits and settings, and a freshly randomized
-        layout. Records, photos, members and results stay with this trial; you lead the copy and
-        invite its growers again. The copy links back here.
+        A new trial with the same entries, sites, traits and settings (the results sheet's traits,
+        alpha, letters and licence too), and a freshly randomized layout. Records, photos, members
+        and results stay with this trial; you lead the copy and invite its growers again. The copy
+        links back here.
       </p>
       <form noValidate onSubmit={onSubmit} className="mt-3 space-y-3">
         <div className="grid gap-4 sm:grid-cols-2">
