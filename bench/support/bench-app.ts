@@ -29,6 +29,8 @@ const BENCH_PASSWORD_HASH =
 
 export interface BenchDatabase {
   url: string;
+  /** The cluster's folder (its server.log is there). */
+  dataDir: string;
   db: DB;
   stop(): Promise<void>;
 }
@@ -46,6 +48,7 @@ export async function startBenchDatabase(): Promise<BenchDatabase> {
   await installMailQueue(pool);
   return {
     url,
+    dataDir,
     db,
     async stop() {
       await db.destroy();
@@ -72,7 +75,11 @@ export async function startBenchServer(
 ): Promise<BenchServer> {
   const child: ChildProcess = spawn(
     process.execPath,
-    [path.join(projectRoot, 'dist/server/main.js')],
+    // BENCH_NODE_ARGS="--cpu-prof --cpu-prof-dir=/tmp/prof" profiles the server under load.
+    [
+      ...(process.env.BENCH_NODE_ARGS?.split(' ').filter(Boolean) ?? []),
+      path.join(projectRoot, 'dist/server/main.js'),
+    ],
     {
       cwd: projectRoot,
       env: {

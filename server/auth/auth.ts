@@ -139,6 +139,11 @@ export function createAuth(deps: AuthDeps) {
       ...authSchemaOptions.session,
       expiresIn: 60 * 60 * 24 * 30,
       updateAge: 60 * 60 * 24,
+      // No cookie cache: it would let a signed-out device keep acting for the cache's life.
+      // "Sign out everywhere" and a password change (or reset) must end a lost phone's session
+      // at its next request, and the cache is only re-checked against the database when it
+      // expires. The session and its user are read in one query instead (`joins` below).
+      cookieCache: { enabled: false },
     },
     rateLimit: {
       enabled: true,
@@ -154,6 +159,8 @@ export function createAuth(deps: AuthDeps) {
       },
     },
     advanced: {
+      // The session and its user in one joined query per request, not two.
+      database: { joins: true },
       cookiePrefix: 'rowtally',
       useSecureCookies: secure,
       defaultCookieAttributes: { sameSite: 'lax', httpOnly: true, secure },

@@ -45,19 +45,9 @@ export async function createOnce<T extends RecordTable>(
   /** columns that identify what the record is about; a reused id must match them */
   anchor: (keyof NewRecord<T> & keyof RecordRow<T>)[],
 ): Promise<{ row: RecordRow<T>; created: boolean }> {
+  // The insert writes its audit entry in the same statement.
   const row = await insertRecordIfNew(trx, table, values, { trialId, actorId: actor.userId });
-  if (row) {
-    await writeAudit(trx, {
-      trialId,
-      table,
-      recordId: row.id,
-      action: 'create',
-      before: null,
-      after: row,
-      actorId: actor.userId,
-    });
-    return { row, created: true };
-  }
+  if (row) return { row, created: true };
   const existing = (await recordById(trx, table, values.id))!;
   if (existing.trial_id !== trialId || anchor.some((k) => !same(existing[k], values[k]))) {
     throw new AppError('conflict', 'This record id is already used by a different record.', {

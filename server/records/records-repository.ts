@@ -32,7 +32,7 @@ type Lifecycle = { deleted_at?: Date | null };
 
 interface RecordQueries<T extends RecordTable> {
   byId(db: DB, id: string, lock: boolean): Promise<RecordRow<T> | undefined>;
-  /** The new row, or undefined when the id is taken. */
+  /** The new row with its audit entry written, or undefined when the id is taken. */
   insertIfNew(db: DB, values: NewRecord<T>, stamps: Stamps): Promise<RecordRow<T> | undefined>;
   /** Applies the change and moves the version on by one. */
   update(
@@ -49,6 +49,26 @@ const stamped = (stamps: Stamps) => ({
   updated_by: stamps.actorId,
 });
 
+/** A timestamp as JSON.stringify writes a Date (ISO 8601, milliseconds, UTC). */
+const isoText = (column: string) =>
+  sql`to_char(${sql.ref(column)} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`;
+
+/**
+ * The audit entry of the record the same statement inserted as `r` (the record as stored, as
+ * JSON with its timestamps written the way the audit writer writes them): an insert and its
+ * audit row in one round trip, atomic without a transaction of their own.
+ */
+const createdAudit = (table: RecordTable, actorId: string) => sql<{ id: number }>`(
+  insert into audit_log (trial_id, table_name, record_id, action, before, after, actor_id)
+  select r.trial_id, ${table}, r.id, 'create', null,
+    to_jsonb(r) || jsonb_build_object(
+      'created_at', ${isoText('r.created_at')},
+      'updated_at', ${isoText('r.updated_at')},
+      'deleted_at', ${isoText('r.deleted_at')}),
+    ${actorId}
+  from r
+  returning id)`;
+
 // The three record tables share id, version and deleted_at but Kysely types a query on one
 // named table at a time, so each table has its own (identical) statements.
 const queries: { [T in RecordTable]: RecordQueries<T> } = {
@@ -59,10 +79,16 @@ const queries: { [T in RecordTable]: RecordQueries<T> } = {
     },
     insertIfNew: (db, values, stamps) =>
       db
-        .insertInto('harvests')
-        .values({ ...values, ...stamped(stamps) })
-        .onConflict((oc) => oc.column('id').doNothing())
-        .returningAll()
+        .with('r', (q) =>
+          q
+            .insertInto('harvests')
+            .values({ ...values, ...stamped(stamps) })
+            .onConflict((oc) => oc.column('id').doNothing())
+            .returningAll(),
+        )
+        .with('audit', () => createdAudit('harvests', stamps.actorId))
+        .selectFrom('r')
+        .selectAll()
         .executeTakeFirst(),
     update: (db, id, values, actorId) =>
       db
@@ -79,10 +105,16 @@ const queries: { [T in RecordTable]: RecordQueries<T> } = {
     },
     insertIfNew: (db, values, stamps) =>
       db
-        .insertInto('observations')
-        .values({ ...values, ...stamped(stamps) })
-        .onConflict((oc) => oc.column('id').doNothing())
-        .returningAll()
+        .with('r', (q) =>
+          q
+            .insertInto('observations')
+            .values({ ...values, ...stamped(stamps) })
+            .onConflict((oc) => oc.column('id').doNothing())
+            .returningAll(),
+        )
+        .with('audit', () => createdAudit('observations', stamps.actorId))
+        .selectFrom('r')
+        .selectAll()
         .executeTakeFirst(),
     update: (db, id, values, actorId) =>
       db
@@ -99,10 +131,16 @@ const queries: { [T in RecordTable]: RecordQueries<T> } = {
     },
     insertIfNew: (db, values, stamps) =>
       db
-        .insertInto('field_events')
-        .values({ ...values, ...stamped(stamps) })
-        .onConflict((oc) => oc.column('id').doNothing())
-        .returningAll()
+        .with('r', (q) =>
+          q
+            .insertInto('field_events')
+            .values({ ...values, ...stamped(stamps) })
+            .onConflict((oc) => oc.column('id').doNothing())
+            .returningAll(),
+        )
+        .with('audit', () => createdAudit('field_events', stamps.actorId))
+        .selectFrom('r')
+        .selectAll()
         .executeTakeFirst(),
     update: (db, id, values, actorId) =>
       db

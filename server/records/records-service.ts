@@ -1,4 +1,5 @@
 import type {
+  Harvest,
   createFieldEventBody,
   createHarvestBody,
   createObservationBody,
@@ -161,27 +162,45 @@ export async function createHarvest(
   actor: Actor | null,
   body: z.output<typeof createHarvestBody>,
 ) {
-  const loaded = await trialForAction(db, slug, actor, 'records.write');
-  await writablePlot(db, loaded, actor, body.plotId);
-  const { created } = await db.transaction().execute((trx) =>
-    createOnce(
-      trx,
-      'harvests',
-      loaded.trial.id,
-      {
-        id: body.id,
-        plot_id: body.plotId,
-        harvested_on: body.harvestedOn,
-        fruit_count: body.fruitCount,
-        mass_g: body.massG,
-        grade: body.grade,
-        note: body.note,
-      },
-      requireActorOf(actor),
-      ['plot_id'],
-    ),
+  const { trial, plot, actorName } = await trialForAction(db, slug, actor, 'records.write', {
+    plotId: body.plotId,
+    field: 'body.plotId',
+  });
+  // One statement (the record and its audit entry), so no transaction of its own.
+  const { created, row } = await createOnce(
+    db,
+    'harvests',
+    trial.id,
+    {
+      id: body.id,
+      plot_id: body.plotId,
+      harvested_on: body.harvestedOn,
+      fruit_count: body.fruitCount,
+      mass_g: body.massG,
+      grade: body.grade,
+      note: body.note,
+    },
+    requireActorOf(actor),
+    ['plot_id'],
   );
-  return { created, record: await oneHarvest(db, loaded.trial.id, body.id) };
+  if (!created) return { created, record: await oneHarvest(db, trial.id, body.id) };
+  // Answered from what was stored and where the plot lies: no read-back.
+  const record: Harvest = {
+    ...plot,
+    id: row.id,
+    version: row.version,
+    deletedAt: null,
+    createdAt: row.created_at.toISOString(),
+    updatedAt: row.updated_at.toISOString(),
+    createdByName: actorName,
+    updatedByName: actorName,
+    harvestedOn: row.harvested_on,
+    fruitCount: row.fruit_count,
+    massG: row.mass_g,
+    grade: row.grade,
+    note: row.note,
+  };
+  return { created, record };
 }
 
 export async function updateHarvest(

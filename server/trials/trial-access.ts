@@ -2,10 +2,30 @@ import { type Actor, type TrialAccess, type TrialAction, can } from '../../commo
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
+import { type PlotPlace, trialWithAccess } from './trials-repository';
 
 export interface LoadedTrial {
   trial: Trial;
   access: TrialAccess;
+}
+
+type TrialWithAccess = NonNullable<Awaited<ReturnType<typeof trialWithAccess>>>;
+
+/** The trial row and the actor's part in it, as `trialWithAccess` read them together. */
+export function accessOf(
+  row: TrialWithAccess,
+  actor: Actor | null,
+): LoadedTrial & { plot: PlotPlace | null; actorName: string | null } {
+  const { member_role, member_site_ids, plot, actor_name, ...trial } = row;
+  const role = actor ? (member_role ?? null) : null;
+  const growerSiteIds =
+    role === 'grower' && member_site_ids && member_site_ids.length ? member_site_ids : null;
+  return {
+    trial,
+    access: { status: trial.status, role, growerSiteIds },
+    plot,
+    actorName: actor_name,
+  };
 }
 
 export async function loadTrialAccess(
@@ -13,24 +33,10 @@ export async function loadTrialAccess(
   trial: Trial,
   actor: Actor | null,
 ): Promise<LoadedTrial> {
-  if (!actor) return { trial, access: { status: trial.status, role: null, growerSiteIds: null } };
-  const member = await db
-    .selectFrom('trial_members')
-    .select('role')
-    .where('trial_id', '=', trial.id)
-    .where('user_id', '=', actor.userId)
-    .executeTakeFirst();
-  let growerSiteIds: string[] | null = null;
-  if (member?.role === 'grower') {
-    const rows = await db
-      .selectFrom('trial_member_sites')
-      .select('site_id')
-      .where('trial_id', '=', trial.id)
-      .where('user_id', '=', actor.userId)
-      .execute();
-    growerSiteIds = rows.length ? rows.map((r) => r.site_id) : null;
-  }
-  return { trial, access: { status: trial.status, role: member?.role ?? null, growerSiteIds } };
+  const row = await trialWithAccess(db, { id: trial.id }, actor?.userId ?? null);
+  if (!row) return { trial, access: { status: trial.status, role: null, growerSiteIds: null } };
+  const { plot: _plot, actorName: _name, ...loaded } = accessOf(row, actor);
+  return loaded;
 }
 
 /**

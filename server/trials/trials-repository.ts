@@ -37,6 +37,68 @@ export function findTrialById(db: DB, id: string) {
   return db.selectFrom('trials').selectAll().where('id', '=', id).executeTakeFirst();
 }
 
+/** Where a plot lies and what grows in it, as record answers name it. */
+export interface PlotPlace {
+  plotId: string;
+  siteId: string;
+  siteName: string;
+  plotNumber: number;
+  block: number;
+  entryId: string;
+  entryCode: string;
+  entryName: string;
+}
+
+/**
+ * A trial by its address with the actor's part in it — role and, for a grower, the sites they
+ * keep — and optionally where one of its plots lies, in one query.
+ */
+export function trialWithAccess(
+  db: DB,
+  where: { slug: string } | { id: string },
+  userId: string | null,
+  plotId?: string,
+) {
+  return db
+    .selectFrom('trials as t')
+    .selectAll('t')
+    .select((eb) => [
+      eb
+        .selectFrom('trial_members as m')
+        .select('m.role')
+        .whereRef('m.trial_id', '=', 't.id')
+        .where('m.user_id', '=', userId ?? '')
+        .as('member_role'),
+      eb
+        .selectFrom('trial_member_sites as ms')
+        .select(sql<string[] | null>`array_agg(ms.site_id order by ms.site_id)`.as('ids'))
+        .whereRef('ms.trial_id', '=', 't.id')
+        .where('ms.user_id', '=', userId ?? '')
+        .as('member_site_ids'),
+      plotId === undefined
+        ? sql<PlotPlace | null>`null::json`.as('plot')
+        : eb
+            .selectFrom('plots as p')
+            .innerJoin('sites as s', 's.id', 'p.site_id')
+            .innerJoin('entries as e', 'e.id', 'p.entry_id')
+            .select(
+              sql<PlotPlace>`json_build_object('plotId', p.id, 'siteId', p.site_id, 'siteName', s.name,
+                'plotNumber', p.plot_number, 'block', p.block, 'entryId', p.entry_id,
+                'entryCode', e.code, 'entryName', e.name)`.as('place'),
+            )
+            .whereRef('p.trial_id', '=', 't.id')
+            .where('p.id', '=', plotId)
+            .as('plot'),
+      // Who acts, named as records name their writers; read only with a plot (a record's write).
+      plotId === undefined || userId === null
+        ? sql<string | null>`null::text`.as('actor_name')
+        : eb.selectFrom('users as u').select('u.name').where('u.id', '=', userId).as('actor_name'),
+    ])
+    .$if('slug' in where, (q) => q.where('t.slug', '=', (where as { slug: string }).slug))
+    .$if('id' in where, (q) => q.where('t.id', '=', (where as { id: string }).id))
+    .executeTakeFirst();
+}
+
 export function findTrialBySlug(db: DB, slug: string) {
   return db.selectFrom('trials').selectAll().where('slug', '=', slug).executeTakeFirst();
 }

@@ -1,30 +1,55 @@
-import { type Actor, can, permissionsFor } from '../../common/policy';
+import { type Actor, type TrialAction, can, permissionsFor } from '../../common/policy';
 import type { TrialDetail, TrialSummary } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
 import type { Trial, TraitsTable } from '../../db/schema';
 import type { Selectable } from 'kysely';
-import { AppError } from '../lib/app-error';
+import { AppError, fieldError } from '../lib/app-error';
 import type { ObjectStorage } from '../storage/object-storage';
-import { authorize, loadTrialAccess } from './trial-access';
+import { accessOf, authorize, type LoadedTrial, loadTrialAccess } from './trial-access';
 import * as repo from './trials-repository';
 
 export async function listVisibleTrials(db: DB, actor: Actor | null): Promise<TrialSummary[]> {
   return repo.listTrials(db, actor?.userId ?? null, actor?.isAdmin ?? false);
 }
 
-/** Loads a trial by its address and checks the action; the one entry point for trial routes. */
+/**
+ * Loads a trial by its address and checks the action; the one entry point for trial routes.
+ * Given a plot (`{ plotId, field }`), the same query finds the plot's site: a plot outside the
+ * trial is a 400 on `field`, and the action is checked at the plot's site.
+ */
 export async function trialForAction(
   db: DB,
   slug: string,
   actor: Actor | null,
-  action: Parameters<typeof authorize>[1],
+  action: TrialAction,
   siteId?: string,
+): Promise<LoadedTrial>;
+export async function trialForAction(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  action: TrialAction,
+  at: { plotId: string; field: string },
+): Promise<LoadedTrial & { plot: repo.PlotPlace; actorName: string | null }>;
+export async function trialForAction(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  action: TrialAction,
+  at?: string | { plotId: string; field: string },
 ) {
-  const trial = await repo.findTrialBySlug(db, slug);
-  if (!trial) throw AppError.notFound('The trial');
-  const loaded = await loadTrialAccess(db, trial, actor);
-  authorize(actor, action, loaded, siteId);
-  return loaded;
+  const plot = typeof at === 'object' ? at : undefined;
+  const row = await repo.trialWithAccess(db, { slug }, actor?.userId ?? null, plot?.plotId);
+  if (!row) throw AppError.notFound('The trial');
+  const { plot: place, actorName, ...loaded } = accessOf(row, actor);
+  if (!plot) {
+    authorize(actor, action, loaded, at as string | undefined);
+    return loaded;
+  }
+  authorize(actor, action, loaded);
+  if (!place) throw fieldError(plot.field, 'This plot is not in the trial.');
+  authorize(actor, action, loaded, place.siteId);
+  return { ...loaded, plot: place, actorName };
 }
 
 export async function trialDetail(
