@@ -133,6 +133,34 @@ export function entryUnitsFor(
   return [first, ...others.filter((u) => u !== first)];
 }
 
+/** A column's typical size, its median: one giant fruit does not turn a column of grams into kg. */
+export function typicalOf(values: readonly number[]): number {
+  if (values.length === 0) return 0;
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+}
+
+/**
+ * The one unit a column of a trait's values is shown and edited in (record tables): chosen once
+ * from the column's values, never row by row; `unit` is null for a count, a score or a percent.
+ */
+export function columnUnit(
+  quantityKind: string,
+  system: UnitSystem,
+  values: readonly number[],
+  chosen?: TraitDisplayUnit | null,
+): { unit: QuantityUnit | null; shown: DisplayUnit } {
+  if (quantityKind !== 'length' && quantityKind !== 'mass')
+    return { unit: null, shown: { label: quantityKind === 'percent' ? '%' : '', factor: 1 } };
+  const base = quantityKind === 'length' ? 'mm' : 'g';
+  const typical = typicalOf(values);
+  return {
+    unit: traitUnit(base, system, typical, chosen),
+    shown: displayUnit(base, system, typical, chosen),
+  };
+}
+
 /** One trait value with its unit, for a table whose rows mix traits (the observation log). */
 export function formatTraitValue(
   value: number,

@@ -7,8 +7,10 @@ import {
   standCountEntryForm,
 } from '@common/contracts/records';
 import { entryUnitsFor } from '@common/display-units';
+import { harvestChecks, harvestDoubts, observationDoubt } from '@common/plausibility';
 import { type QuantityUnit, toStored, type UnitSystem } from '@common/units';
-import { type ReactNode, useId, useState } from 'react';
+import { type ReactNode, useEffect, useId, useRef, useState } from 'react';
+import { SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { useContractForm } from '@/lib/contract-form';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { clientId } from '../api/client-id';
@@ -19,8 +21,6 @@ export type QueuedEntry = Pick<
   'id' | 'trialSlug' | 'kind' | 'method' | 'url' | 'body' | 'label'
 >;
 type Trait = TrialWithPermissions['traits'][number];
-/** A field's problem as react-hook-form reports it. */
-type Problem = { message?: string | undefined } | undefined;
 
 interface FormProps {
   slug: string;
@@ -32,8 +32,6 @@ interface FormProps {
   onSave: (entries: QueuedEntry[], next: boolean) => Promise<void>;
 }
 
-const inputClass = (invalid: boolean) =>
-  `min-h-11 w-full rounded-lg border bg-white px-3 text-lg ${invalid ? 'border-frost-600' : 'border-leaf-300'}`;
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
 const plotLabel = (p: RecordPlot) => `Plot ${p.plotNumber} (${p.entryCode})`;
 function SaveButtons({ disabled }: { disabled?: boolean }) {
@@ -61,41 +59,93 @@ function SaveButtons({ disabled }: { disabled?: boolean }) {
   );
 }
 
-/** The contract's message for a field, tied to its input. */
-function FieldMessage({ id, error }: { id: string; error: Problem }) {
-  return error?.message ? (
-    <p id={id} role="alert" className="text-sm font-medium text-frost-600">
-      {error.message}
-    </p>
-  ) : null;
+/** A save held back until the grower says the values outside their plausible range are right. */
+interface HeldSave {
+  doubts: string[];
+  save: () => Promise<void>;
 }
 
-/** A label above its control, and the control's error below it. */
-function Field({
-  id,
-  label,
-  error,
-  children,
+/**
+ * "Are you sure?" inside the form: values outside a trait's plausible range are asked about
+ * before they are saved, never refused (common/plausibility.ts). Changing any value drops the
+ * question; the form asks again on the next save.
+ */
+function useSureCheck(form: { watch: (cb: () => void) => { unsubscribe: () => void } }) {
+  const [held, setHeld] = useState<HeldSave | null>(null);
+  useEffect(() => {
+    const sub = form.watch(() => setHeld(null));
+    return () => sub.unsubscribe();
+  }, [form]);
+  return {
+    held,
+    drop: () => setHeld(null),
+    /** Saves at once when nothing is in doubt, else holds the save for the question. */
+    saveOrAsk: async (doubts: string[], save: () => Promise<void>) => {
+      if (doubts.length === 0) await save();
+      else setHeld({ doubts, save });
+    },
+  };
+}
+
+/** The question itself: focused when it appears, both answers reachable by keyboard. */
+function SureCheck({
+  held,
+  onChange,
+  onDone,
 }: {
-  id: string;
-  label: ReactNode;
-  error?: Problem;
-  children: ReactNode;
+  held: HeldSave;
+  onChange: () => void;
+  onDone: () => void;
 }) {
+  const id = useId();
+  const ref = useRef<HTMLDivElement>(null);
+  const [busy, setBusy] = useState(false);
+  useEffect(() => ref.current?.focus(), [held]);
   return (
-    <div className="flex flex-col gap-1">
-      <label htmlFor={id} className="font-medium">
-        {label}
-      </label>
-      {children}
-      <FieldMessage id={`${id}-err`} error={error} />
+    <div
+      ref={ref}
+      tabIndex={-1}
+      role="group"
+      aria-labelledby={`${id}-q`}
+      aria-describedby={`${id}-why`}
+      className="space-y-2 rounded-lg border-2 border-pod-500 bg-straw-50 p-3 focus:outline-none focus-visible:ring-2 focus-visible:ring-pod-500"
+    >
+      <p id={`${id}-q`} className="font-semibold text-loam-700">
+        <span aria-hidden="true">⚠ </span>Are you sure?
+      </p>
+      <ul id={`${id}-why`} className="list-disc pl-5 text-ink">
+        {held.doubts.map((d) => (
+          <li key={d}>{d}</li>
+        ))}
+      </ul>
+      <div className="flex flex-wrap gap-2">
+        <button
+          type="button"
+          disabled={busy}
+          onClick={async () => {
+            setBusy(true);
+            try {
+              await held.save();
+              onDone();
+            } finally {
+              setBusy(false);
+            }
+          }}
+          className="min-h-11 rounded-lg bg-leaf-700 px-4 font-semibold text-white disabled:bg-leaf-300"
+        >
+          Yes, save as typed
+        </button>
+        <button
+          type="button"
+          onClick={onChange}
+          className="min-h-11 rounded-lg border border-leaf-700 bg-white px-4 font-semibold text-leaf-700"
+        >
+          No, let me change it
+        </button>
+      </div>
     </div>
   );
 }
-
-/** aria attributes of an input whose error shows under it. */
-const invalidProps = (id: string, error: Problem) =>
-  error ? { 'aria-invalid': true as const, 'aria-describedby': `${id}-err` } : {};
 
 /**
  * A new record for the outbox. Its client-made id is also the outbox id, so a retry sends the
@@ -126,41 +176,41 @@ const submitterNext = (e: React.BaseSyntheticEvent | undefined) =>
   'no';
 
 /** One harvest round at a plot: marketable and cull in one save. */
-export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
-  const id = useId();
-  const massUnits = entryUnitsFor('mass', units)!;
+export function HarvestForm({ slug, plot, date, units, traits, onSave }: FormProps) {
+  const checks = harvestChecks(traits);
+  const massUnits = entryUnitsFor('mass', units, checks.massUnit)!;
   const [unit, setUnit] = useState<QuantityUnit>(massUnits[0]!);
   const blank = { marketableCount: '', marketableMass: '', cullCount: '', cullMass: '', note: '' };
   const form = useContractForm(harvestEntryForm, blank);
+  const sure = useSureCheck(form);
   const { errors, isSubmitting } = form.formState;
 
   const onSubmit = form.handleSubmit(async (v, e) => {
     const grades = [
-      ['marketable', v.marketableCount, v.marketableMass],
-      ['cull', v.cullCount, v.cullMass],
+      ['marketable', 'Marketable', v.marketableCount, v.marketableMass],
+      ['cull', 'Cull', v.cullCount, v.cullMass],
     ] as const;
-    const entries = grades.flatMap(([grade, fruitCount, mass]) =>
-      fruitCount === undefined || mass === undefined
-        ? []
-        : [
-            newRecord(
-              slug,
-              'harvest',
-              'harvests',
-              {
-                plotId: plot.plotId,
-                harvestedOn: date,
-                fruitCount,
-                massG: toStored(mass, unit),
-                grade,
-                note: v.note,
-              },
-              `${plotLabel(plot)} · ${date} · ${fruitCount} fruit, ${mass} ${unit}, ${grade}`,
-            ),
-          ],
-    );
-    await onSave(entries, submitterNext(e));
-    form.reset(blank);
+    const doubts: string[] = [];
+    const entries = grades.flatMap(([grade, title, fruitCount, mass]) => {
+      if (fruitCount === undefined || mass === undefined) return [];
+      const massG = toStored(mass, unit);
+      for (const d of harvestDoubts({ fruitCount, massG }, traits, units))
+        doubts.push(`${title}: ${d}`);
+      return [
+        newRecord(
+          slug,
+          'harvest',
+          'harvests',
+          { plotId: plot.plotId, harvestedOn: date, fruitCount, massG, grade, note: v.note },
+          `${plotLabel(plot)} · ${date} · ${fruitCount} fruit, ${mass} ${unit}, ${grade}`,
+        ),
+      ];
+    });
+    const next = submitterNext(e);
+    await sure.saveOrAsk(doubts, async () => {
+      await onSave(entries, next);
+      form.reset(blank);
+    });
   });
 
   const row = (grade: 'marketable' | 'cull', title: string) => {
@@ -169,27 +219,21 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
     return (
       <fieldset className="grid grid-cols-2 gap-3">
         <legend className="mb-1 font-semibold text-leaf-900">{title}</legend>
-        <Field id={`${id}-${c}`} label={`${title} count`} error={errors[c]}>
-          <input
-            id={`${id}-${c}`}
-            inputMode="numeric"
-            pattern="[0-9]*"
-            autoComplete="off"
-            className={inputClass(!!errors[c])}
-            {...invalidProps(`${id}-${c}`, errors[c])}
-            {...form.register(c)}
-          />
-        </Field>
-        <Field id={`${id}-${m}`} label={`${title} mass (${unit})`} error={errors[m]}>
-          <input
-            id={`${id}-${m}`}
-            inputMode="decimal"
-            autoComplete="off"
-            className={inputClass(!!errors[m])}
-            {...invalidProps(`${id}-${m}`, errors[m])}
-            {...form.register(m)}
-          />
-        </Field>
+        <TextField
+          label={`${title} count`}
+          error={errors[c]?.message}
+          inputMode="numeric"
+          pattern="[0-9]*"
+          autoComplete="off"
+          {...form.register(c)}
+        />
+        <TextField
+          label={`${title} mass (${unit})`}
+          error={errors[m]?.message}
+          inputMode="decimal"
+          autoComplete="off"
+          {...form.register(m)}
+        />
       </fieldset>
     );
   };
@@ -199,37 +243,30 @@ export function HarvestForm({ slug, plot, date, units, onSave }: FormProps) {
       {row('marketable', 'Marketable')}
       {row('cull', 'Cull')}
       <p className="text-sm text-loam-700">Leave cull blank when there was none.</p>
-      <div className="flex items-center gap-2">
-        <label htmlFor={`${id}-unit`} className="font-medium">
-          Mass unit
-        </label>
-        <select
-          id={`${id}-unit`}
-          value={unit}
-          onChange={(e) => setUnit(e.target.value as QuantityUnit)}
-          className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-        >
-          {massUnits.map((u) => (
-            <option key={u}>{u}</option>
-          ))}
-        </select>
-      </div>
-      <Field id={`${id}-n`} label="Note (optional)" error={errors.note}>
-        <input
-          id={`${id}-n`}
-          className={inputClass(!!errors.note)}
-          {...invalidProps(`${id}-n`, errors.note)}
-          {...form.register('note')}
+      <SelectField
+        label="Mass unit"
+        className="w-32"
+        value={unit}
+        onChange={(e) => {
+          setUnit(e.target.value as QuantityUnit);
+          sure.drop();
+        }}
+        options={massUnits.map((u) => [u, u] as const)}
+      />
+      <TextField label="Note (optional)" error={errors.note?.message} {...form.register('note')} />
+      {sure.held ? (
+        <SureCheck
+          held={sure.held}
+          onDone={sure.drop}
+          onChange={() => {
+            sure.drop();
+            form.setFocus('marketableCount');
+          }}
         />
-      </Field>
+      ) : null}
       <SaveButtons disabled={isSubmitting} />
     </form>
   );
-}
-
-/** The units a measured trait may be typed in, the first being the default. */
-function unitOptionsOf(trait: Trait, units: UnitSystem): QuantityUnit[] | null {
-  return entryUnitsFor(trait.quantityKind, units, trait.displayUnit);
 }
 
 /** A trait picked from a list; the form below it starts afresh for each trait. */
@@ -244,26 +281,17 @@ function TraitChooser({
   empty: string;
   children: (trait: Trait, chooser: ReactNode) => ReactNode;
 }) {
-  const id = useId();
   const [traitId, setTraitId] = useState(traits[0]?.id ?? '');
   const trait = traits.find((t) => t.id === traitId);
   if (!trait) return <p>{empty}</p>;
   return children(
     trait,
-    <Field id={`${id}-t`} label="Trait">
-      <select
-        id={`${id}-t`}
-        value={traitId}
-        onChange={(e) => setTraitId(e.target.value)}
-        className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-      >
-        {traits.map((t) => (
-          <option key={t.id} value={t.id}>
-            {describe(t)}
-          </option>
-        ))}
-      </select>
-    </Field>,
+    <SelectField
+      label="Trait"
+      value={traitId}
+      onChange={(e) => setTraitId(e.target.value)}
+      options={traits.map((t) => [t.id, describe(t)] as const)}
+    />,
   );
 }
 
@@ -292,92 +320,87 @@ function MeasureTraitForm({
   trait,
   children,
 }: FormProps & { trait: Trait; children: ReactNode }) {
-  const id = useId();
-  const unitOptions = unitOptionsOf(trait, units);
+  const unitOptions = entryUnitsFor(trait.quantityKind, units, trait.displayUnit);
   const [unit, setUnit] = useState<QuantityUnit | null>(unitOptions?.[0] ?? null);
   const [plants, setPlants] = useState(5);
   const form = useContractForm(measureEntryForm(trait), { values: [] });
+  const sure = useSureCheck(form);
   const { isSubmitting } = form.formState;
-  const valueErrors = (form.formState.errors.values ?? []) as Problem[];
+  const valueErrors = (form.formState.errors.values ?? []) as ({ message?: string } | undefined)[];
   const suffix = unit ?? (trait.quantityKind === 'percent' ? '%' : '');
 
   const onSubmit = form.handleSubmit(async (v, e) => {
-    const entries = v.values.slice(0, plants).flatMap((typed, i) =>
-      typed === undefined
-        ? []
-        : [
-            newRecord(
-              slug,
-              'observation',
-              'observations',
-              {
-                plotId: plot.plotId,
-                traitId: trait.id,
-                observedOn: date,
-                value: unit ? toStored(typed, unit) : typed,
-                plantNumber: i + 1,
-              },
-              `${plotLabel(plot)} · ${date} · ${trait.label}, plant ${i + 1}: ${typed} ${suffix}`,
-            ),
-          ],
-    );
-    await onSave(entries, submitterNext(e));
-    form.reset({ values: [] });
+    const doubts: string[] = [];
+    const entries = v.values.slice(0, plants).flatMap((typed, i) => {
+      if (typed === undefined) return [];
+      const value = unit ? toStored(typed, unit) : typed;
+      const doubt = observationDoubt(value, trait, units);
+      if (doubt) doubts.push(`Plant ${i + 1}: ${doubt}`);
+      return [
+        newRecord(
+          slug,
+          'observation',
+          'observations',
+          { plotId: plot.plotId, traitId: trait.id, observedOn: date, value, plantNumber: i + 1 },
+          `${plotLabel(plot)} · ${date} · ${trait.label}, plant ${i + 1}: ${typed} ${suffix}`,
+        ),
+      ];
+    });
+    const next = submitterNext(e);
+    await sure.saveOrAsk(doubts, async () => {
+      await onSave(entries, next);
+      form.reset({ values: [] });
+    });
   });
 
   return (
     <form aria-label="Measurements" className="space-y-3" noValidate onSubmit={onSubmit}>
       <div className="grid grid-cols-2 gap-3">
         {children}
-        <Field id={`${id}-p`} label="Plants sampled">
-          <input
-            id={`${id}-p`}
-            inputMode="numeric"
-            type="number"
-            min={1}
-            max={50}
-            value={plants}
-            onChange={(e) => setPlants(Math.max(1, Math.min(50, Number(e.target.value) || 1)))}
-            className={inputClass(false)}
-          />
-        </Field>
+        <TextField
+          label="Plants sampled"
+          inputMode="numeric"
+          type="number"
+          min={1}
+          max={50}
+          value={plants}
+          onChange={(e) => setPlants(Math.max(1, Math.min(50, Number(e.target.value) || 1)))}
+        />
       </div>
       {unitOptions && unitOptions.length > 1 ? (
-        <div className="flex items-center gap-2">
-          <label htmlFor={`${id}-u`} className="font-medium">
-            Unit
-          </label>
-          <select
-            id={`${id}-u`}
-            value={unit ?? ''}
-            onChange={(e) => setUnit(e.target.value as QuantityUnit)}
-            className="min-h-11 rounded-lg border border-leaf-300 bg-white px-2"
-          >
-            {unitOptions.map((u) => (
-              <option key={u}>{u}</option>
-            ))}
-          </select>
-        </div>
+        <SelectField
+          label="Unit"
+          className="w-32"
+          value={unit ?? ''}
+          onChange={(e) => {
+            setUnit(e.target.value as QuantityUnit);
+            sure.drop();
+          }}
+          options={unitOptions.map((u) => [u, u] as const)}
+        />
       ) : null}
       <div className="grid grid-cols-2 gap-2 sm:grid-cols-5">
         {Array.from({ length: plants }, (_, i) => (
-          <Field
+          <TextField
             key={i}
-            id={`${id}-v${i}`}
             label={`Plant ${i + 1}${suffix ? ` (${suffix})` : ''}`}
-            error={valueErrors[i]}
-          >
-            <input
-              id={`${id}-v${i}`}
-              inputMode={trait.quantityKind === 'count' ? 'numeric' : 'decimal'}
-              autoComplete="off"
-              className={inputClass(!!valueErrors[i])}
-              {...invalidProps(`${id}-v${i}`, valueErrors[i])}
-              {...form.register(`values.${i}`)}
-            />
-          </Field>
+            error={valueErrors[i]?.message}
+            inputMode={trait.quantityKind === 'count' ? 'numeric' : 'decimal'}
+            autoComplete="off"
+            {...form.register(`values.${i}`)}
+          />
         ))}
       </div>
+      {sure.held ? (
+        <SureCheck
+          held={sure.held}
+          onDone={sure.drop}
+          onChange={() => {
+            sure.drop();
+            form.setFocus('values.0');
+          }}
+        />
+      ) : null}
       <SaveButtons disabled={isSubmitting} />
     </form>
   );
@@ -452,14 +475,17 @@ function ScoreTraitForm({
           ))}
         </div>
       </fieldset>
-      <FieldMessage id={`${id}-err`} error={errors.score} />
+      {errors.score?.message ? (
+        <p id={`${id}-err`} role="alert" className="text-sm font-medium text-frost-600">
+          {errors.score.message}
+        </p>
+      ) : null}
       <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }
 
 export function StandCountForm({ slug, plot, onSave }: FormProps) {
-  const id = useId();
   const form = useContractForm(standCountEntryForm(plot.plantsSet), { plantsSurviving: '' });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (v, e) => {
@@ -481,27 +507,19 @@ export function StandCountForm({ slug, plot, onSave }: FormProps) {
   });
   return (
     <form aria-label="Stand count" className="space-y-3" noValidate onSubmit={onSubmit}>
-      <Field
-        id={`${id}-c`}
+      <TextField
         label={<>Plants standing{plot.plantsSet !== null ? ` (of ${plot.plantsSet} set)` : ''}</>}
-        error={errors.plantsSurviving}
-      >
-        <input
-          id={`${id}-c`}
-          inputMode="numeric"
-          pattern="[0-9]*"
-          className={inputClass(!!errors.plantsSurviving)}
-          {...invalidProps(`${id}-c`, errors.plantsSurviving)}
-          {...form.register('plantsSurviving')}
-        />
-      </Field>
+        error={errors.plantsSurviving?.message}
+        inputMode="numeric"
+        pattern="[0-9]*"
+        {...form.register('plantsSurviving')}
+      />
       <SaveButtons disabled={isSubmitting} />
     </form>
   );
 }
 
 export function NoteForm({ slug, plot, date, onSave }: FormProps) {
-  const id = useId();
   const form = useContractForm(plotNoteForm, { note: '' });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = form.handleSubmit(async (v, e) => {
@@ -527,16 +545,12 @@ export function NoteForm({ slug, plot, date, onSave }: FormProps) {
   });
   return (
     <form aria-label="Plot note" className="space-y-3" noValidate onSubmit={onSubmit}>
-      <Field id={`${id}-t`} label="Note" error={errors.note}>
-        <textarea
-          id={`${id}-t`}
-          rows={3}
-          maxLength={2000}
-          className="rounded-lg border border-leaf-300 bg-white p-3 text-lg"
-          {...invalidProps(`${id}-t`, errors.note)}
-          {...form.register('note')}
-        />
-      </Field>
+      <TextArea
+        label="Note"
+        maxLength={2000}
+        error={errors.note?.message}
+        {...form.register('note')}
+      />
       <SaveButtons disabled={isSubmitting} />
     </form>
   );

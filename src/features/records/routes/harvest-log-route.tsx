@@ -1,6 +1,9 @@
 import type { Harvest } from '@common/contracts/records';
-import { formatMass, fromStored, G_PER_OUNCE, toStored } from '@common/units';
+import { fromStored, toStored } from '@common/units';
 import { readNumberField } from '@common/decimal';
+import { columnUnit, formatInUnit, formatScaled } from '@common/display-units';
+import { harvestChecks, harvestDoubts } from '@common/plausibility';
+import { decimalsInUnit, exportNumber, recordedDecimals } from '@common/precision';
 import {
   type ColumnDef,
   flexRender,
@@ -17,6 +20,7 @@ import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { useHarvests, useUpdateHarvest } from '../api/record-api';
 import {
+  DoubtFlag,
   EditActions,
   editCell,
   FilterInput,
@@ -43,7 +47,6 @@ export function Component() {
   const { slug = '' } = useParams();
   const trial = useTrial(slug);
   const units = useUnitSystem();
-  const massUnit = units === 'metric' ? 'g' : 'oz';
   const [siteId, setSiteId] = useState('');
   const [from, setFrom] = useState('');
   const [to, setTo] = useState('');
@@ -59,6 +62,15 @@ export function Component() {
   const update = useUpdateHarvest(slug);
   const log = useRecordLog<Harvest>(slug, 'harvests');
   const canWrite = trial.data?.permissions['records.write'] ?? false;
+  const traits = useMemo(() => trial.data?.traits ?? [], [trial.data]);
+  // One mass unit and precision for the whole column, chosen from all the harvests shown.
+  const { massUnit, shown, decimals } = useMemo(() => {
+    const masses = (harvests.data?.harvests ?? []).map((h) => h.massG);
+    const col = columnUnit('mass', units, masses, harvestChecks(traits).massUnit);
+    return { massUnit: col.unit!, shown: col.shown, decimals: recordedDecimals(masses) };
+  }, [harvests.data, units, traits]);
+  const typedMass = (g: number) =>
+    exportNumber(fromStored(g, massUnit), decimalsInUnit(decimals, shown.factor));
 
   const startEdit = (h: Harvest) => {
     log.setConflict(null);
@@ -68,7 +80,7 @@ export function Component() {
       version: h.version,
       harvestedOn: h.harvestedOn,
       fruitCount: String(h.fruitCount),
-      mass: String(Math.round(fromStored(h.massG, massUnit) * 100) / 100),
+      mass: typedMass(h.massG),
       grade: h.grade,
       note: h.note,
     });
@@ -104,14 +116,19 @@ export function Component() {
       { accessorKey: 'fruitCount', header: 'Fruit' },
       {
         accessorKey: 'massG',
-        header: `Mass`,
-        cell: (c) => formatMass(c.getValue<number>(), units),
+        header: `Mass (${shown.label})`,
+        cell: (c) => (
+          <>
+            {formatScaled(c.getValue<number>(), shown, decimals)}
+            <DoubtFlag doubts={harvestDoubts(c.row.original, traits, units)} />
+          </>
+        ),
       },
       { accessorKey: 'grade', header: 'Grade' },
       { accessorKey: 'note', header: 'Note', enableSorting: false },
       { accessorKey: 'updatedByName', header: 'By' },
     ],
-    [units],
+    [units, shown, decimals, traits],
   );
   // Filtered here rather than by the table's filter model, which re-rendered without end
   // once a row was in edit mode.
@@ -175,7 +192,7 @@ export function Component() {
           version: conflict.currentVersion,
           harvestedOn: String(c.harvestedOn),
           fruitCount: String(c.fruitCount),
-          mass: String(Math.round(fromStored(Number(c.massG), massUnit) * 100) / 100),
+          mass: typedMass(Number(c.massG)),
           grade: c.grade,
           note: String(c.note ?? ''),
         });
@@ -186,8 +203,7 @@ export function Component() {
     >
       <table className="w-full min-w-[48rem] text-left text-sm">
         <caption className="p-2 text-left text-loam-700">
-          {rows.length} harvests · {formatMass(total, units)} in total
-          {units === 'us' ? ` (${Math.round(total / G_PER_OUNCE)} oz)` : ''}
+          {rows.length} harvests · {formatInUnit(total, shown, decimals)} in total
         </caption>
         <thead className="bg-leaf-50">
           {table.getHeaderGroups().map((hg) => (

@@ -1,5 +1,8 @@
 import type { Observation } from '@common/contracts/records';
-import { formatLength, formatMass, fromStored, type QuantityUnit, toStored } from '@common/units';
+import { columnUnit, formatScaled } from '@common/display-units';
+import { observationDoubt } from '@common/plausibility';
+import { decimalsInUnit, exportNumber, recordedDecimals } from '@common/precision';
+import { fromStored, type QuantityUnit, toStored } from '@common/units';
 import {
   type ColumnDef,
   flexRender,
@@ -16,6 +19,7 @@ import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { useObservations, useUpdateObservation } from '../api/record-api';
 import {
+  DoubtFlag,
   EditActions,
   editCell,
   FilterInput,
@@ -45,24 +49,45 @@ export function Component() {
   const observations = useObservations(slug, { siteId: siteId || undefined });
   const update = useUpdateObservation(slug);
   const log = useRecordLog<Observation>(slug, 'observations');
-  const kindOf = useMemo(
-    () => new Map((trial.data?.traits ?? []).map((t) => [t.id, t.quantityKind])),
-    [trial.data],
-  );
-  const editUnit = (traitOf: string): QuantityUnit | null => {
-    const k = kindOf.get(traitOf);
-    if (k === 'length') return units === 'metric' ? 'mm' : 'in';
-    if (k === 'mass') return units === 'metric' ? 'g' : 'oz';
-    return null;
-  };
+  /**
+   * Each trait's one unit and precision in this table, chosen from all its values shown (a
+   * height in cm on every row, never cm on one row and m on the next).
+   */
+  const traitColumns = useMemo(() => {
+    const all = observations.data?.observations ?? [];
+    return new Map(
+      (trial.data?.traits ?? []).map((t) => {
+        const values = all.flatMap((o) =>
+          o.traitId === t.id && o.value !== null ? [o.value] : [],
+        );
+        const col = columnUnit(t.quantityKind, units, values, t.displayUnit);
+        return [t.id, { trait: t, ...col, decimals: recordedDecimals(values) }] as const;
+      }),
+    );
+  }, [trial.data, observations.data, units]);
+  const editUnit = (traitOf: string): QuantityUnit | null =>
+    traitColumns.get(traitOf)?.unit ?? null;
+  const unitLabel = (traitOf: string) => traitColumns.get(traitOf)?.shown.label ?? '';
   const show = (o: Observation) => {
     if (o.valueDate) return o.valueDate;
-    const k = kindOf.get(o.traitId);
-    if (o.value === null) return '—';
-    if (k === 'length') return formatLength(o.value, units, 0);
-    if (k === 'mass') return formatMass(o.value, units);
-    if (k === 'percent') return `${o.value} %`;
-    return String(o.value);
+    const col = traitColumns.get(o.traitId);
+    if (o.value === null || !col) return '—';
+    return (
+      <>
+        {formatScaled(o.value, col.shown, col.decimals)}
+        <DoubtFlag
+          doubts={[observationDoubt(o.value, col.trait, units)].filter((d) => d !== null)}
+        />
+      </>
+    );
+  };
+  const typedValue = (value: number, traitOf: string) => {
+    const col = traitColumns.get(traitOf);
+    if (!col?.unit) return String(value);
+    return exportNumber(
+      fromStored(value, col.unit),
+      decimalsInUnit(col.decimals, col.shown.factor),
+    );
   };
 
   const columns = useMemo<ColumnDef<Observation>[]>(
@@ -71,19 +96,27 @@ export function Component() {
       { accessorKey: 'siteName', header: 'Site' },
       { accessorKey: 'plotNumber', header: 'Plot' },
       { id: 'entry', accessorFn: (o) => `${o.entryName} (${o.entryCode})`, header: 'Entry' },
-      { accessorKey: 'traitLabel', header: 'Trait' },
+      {
+        accessorKey: 'traitLabel',
+        header: 'Trait',
+        cell: (c) => {
+          const label = unitLabel(c.row.original.traitId);
+          return label ? `${c.getValue<string>()} (${label})` : c.getValue<string>();
+        },
+      },
       { accessorKey: 'plantNumber', header: 'Plant' },
       {
         id: 'value',
         accessorFn: (o) => o.value ?? o.valueDate,
-        header: 'Value',
+        // With one trait shown, the heading names its unit once.
+        header: traitId && unitLabel(traitId) ? `Value (${unitLabel(traitId)})` : 'Value',
         cell: (c) => show(c.row.original),
       },
       { accessorKey: 'note', header: 'Note', enableSorting: false },
       { accessorKey: 'updatedByName', header: 'By' },
     ],
     // eslint-disable-next-line react-hooks/exhaustive-deps
-    [units, kindOf],
+    [units, traitColumns, traitId],
   );
   const data = useMemo(() => {
     const q = search.trim().toLowerCase();
@@ -162,15 +195,12 @@ export function Component() {
           note: string;
           traitId: string;
         };
-        const unit = editUnit(current.traitId);
         setDraft({
           ...draft!,
           version: conflict.currentVersion,
           value:
             current.valueDate ??
-            String(
-              unit && current.value !== null ? fromStored(current.value, unit) : current.value,
-            ),
+            (current.value === null ? '' : typedValue(current.value, current.traitId)),
           note: current.note,
         });
       }}
@@ -241,13 +271,7 @@ export function Component() {
                             version: o.version,
                             value:
                               o.valueDate ??
-                              String(
-                                o.value === null
-                                  ? ''
-                                  : unit
-                                    ? Math.round(fromStored(o.value, unit) * 100) / 100
-                                    : o.value,
-                              ),
+                              (o.value === null ? '' : typedValue(o.value, o.traitId)),
                             note: o.note,
                           })
                         }
