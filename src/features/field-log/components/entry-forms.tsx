@@ -70,21 +70,58 @@ interface HeldSave {
  * before they are saved, never refused (common/plausibility.ts). Changing any value drops the
  * question; the form asks again on the next save.
  */
-function useSureCheck(form: { watch: (cb: () => void) => { unsubscribe: () => void } }) {
+function useSureCheck(
+  form: { watch: (cb: () => void) => { unsubscribe: () => void } },
+  /** where "let me change it" puts the cursor */
+  refocus: () => void,
+) {
   const [held, setHeld] = useState<HeldSave | null>(null);
   useEffect(() => {
     const sub = form.watch(() => setHeld(null));
     return () => sub.unsubscribe();
   }, [form]);
+  const drop = () => setHeld(null);
   return {
-    held,
-    drop: () => setHeld(null),
+    drop,
     /** Saves at once when nothing is in doubt, else holds the save for the question. */
     saveOrAsk: async (doubts: string[], save: () => Promise<void>) => {
       if (doubts.length === 0) await save();
       else setHeld({ doubts, save });
     },
+    question: held ? (
+      <SureCheck
+        held={held}
+        onDone={drop}
+        onChange={() => {
+          drop();
+          refocus();
+        }}
+      />
+    ) : null,
   };
+}
+
+/** The unit a mass or length is typed in; changing it drops any question about the values. */
+function UnitSelect({
+  label,
+  value,
+  units,
+  onChange,
+}: {
+  label: string;
+  value: QuantityUnit;
+  units: QuantityUnit[];
+  onChange: (unit: QuantityUnit) => void;
+}) {
+  return (
+    <SelectField
+      label={label}
+      className="w-32"
+      value={value}
+      onChange={(e) => onChange(e.target.value as QuantityUnit)}
+      options={units.map((u) => [u, u] as const)}
+    />
+  );
 }
 
 /** The question itself: focused when it appears, both answers reachable by keyboard. */
@@ -182,7 +219,7 @@ export function HarvestForm({ slug, plot, date, units, traits, onSave }: FormPro
   const [unit, setUnit] = useState<QuantityUnit>(massUnits[0]!);
   const blank = { marketableCount: '', marketableMass: '', cullCount: '', cullMass: '', note: '' };
   const form = useContractForm(harvestEntryForm, blank);
-  const sure = useSureCheck(form);
+  const sure = useSureCheck(form, () => form.setFocus('marketableCount'));
   const { errors, isSubmitting } = form.formState;
 
   const onSubmit = form.handleSubmit(async (v, e) => {
@@ -243,27 +280,17 @@ export function HarvestForm({ slug, plot, date, units, traits, onSave }: FormPro
       {row('marketable', 'Marketable')}
       {row('cull', 'Cull')}
       <p className="text-sm text-loam-700">Leave cull blank when there was none.</p>
-      <SelectField
+      <UnitSelect
         label="Mass unit"
-        className="w-32"
         value={unit}
-        onChange={(e) => {
-          setUnit(e.target.value as QuantityUnit);
+        units={massUnits}
+        onChange={(u) => {
+          setUnit(u);
           sure.drop();
         }}
-        options={massUnits.map((u) => [u, u] as const)}
       />
       <TextField label="Note (optional)" error={errors.note?.message} {...form.register('note')} />
-      {sure.held ? (
-        <SureCheck
-          held={sure.held}
-          onDone={sure.drop}
-          onChange={() => {
-            sure.drop();
-            form.setFocus('marketableCount');
-          }}
-        />
-      ) : null}
+      {sure.question}
       <SaveButtons disabled={isSubmitting} />
     </form>
   );
@@ -324,7 +351,7 @@ function MeasureTraitForm({
   const [unit, setUnit] = useState<QuantityUnit | null>(unitOptions?.[0] ?? null);
   const [plants, setPlants] = useState(5);
   const form = useContractForm(measureEntryForm(trait), { values: [] });
-  const sure = useSureCheck(form);
+  const sure = useSureCheck(form, () => form.setFocus('values.0'));
   const { isSubmitting } = form.formState;
   const valueErrors = (form.formState.errors.values ?? []) as ({ message?: string } | undefined)[];
   const suffix = unit ?? (trait.quantityKind === 'percent' ? '%' : '');
@@ -368,15 +395,14 @@ function MeasureTraitForm({
         />
       </div>
       {unitOptions && unitOptions.length > 1 ? (
-        <SelectField
+        <UnitSelect
           label="Unit"
-          className="w-32"
-          value={unit ?? ''}
-          onChange={(e) => {
-            setUnit(e.target.value as QuantityUnit);
+          value={unit!}
+          units={unitOptions}
+          onChange={(u) => {
+            setUnit(u);
             sure.drop();
           }}
-          options={unitOptions.map((u) => [u, u] as const)}
         />
       ) : null}
       <div className="grid grid-cols-2 gap-2 sm:grid-cols-5">
@@ -391,16 +417,7 @@ function MeasureTraitForm({
           />
         ))}
       </div>
-      {sure.held ? (
-        <SureCheck
-          held={sure.held}
-          onDone={sure.drop}
-          onChange={() => {
-            sure.drop();
-            form.setFocus('values.0');
-          }}
-        />
-      ) : null}
+      {sure.question}
       <SaveButtons disabled={isSubmitting} />
     </form>
   );
