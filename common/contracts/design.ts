@@ -338,6 +338,33 @@ export const traitUpdateBody = z
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
 export type TraitUpdateBody = z.input<typeof traitUpdateBody>;
 
+/**
+ * The trait edit form: name, direction, basis, the lead's unit and the plausible range. The range
+ * is typed in `rangeUnit` (cm for a height, g per fruit for a harvest mass) and sent stored (mm, g);
+ * a blank end has no limit. Key, kind and scale are not offered: they stay once records use them.
+ */
+export const traitEditForm = (
+  quantityKind: (typeof quantityKinds)[number],
+  rangeUnit: QuantityUnit | null,
+) => {
+  const range = <T extends z.ZodType>(schema: T) =>
+    typedNumber(schema, {
+      blank: null,
+      toStored: rangeUnit ? (v) => toStored(v, rangeUnit) : undefined,
+    });
+  return z
+    .object({
+      label: traitFields.label,
+      direction: traitFields.direction,
+      basis: traitFields.basis,
+      displayUnit: blankAsNull(traitFields.displayUnit),
+      plausibleMin: range(traitFields.plausibleMin),
+      plausibleMax: range(traitFields.plausibleMax),
+    })
+    .refine((b) => unitFitsKind({ ...b, quantityKind }), unitMessage)
+    .refine((b) => rangeRule({ ...b, quantityKind }), rangeMessage);
+};
+
 /* PATCH /api/trials/:slug/traits/:traitId answers what the edit means for the public sheet. */
 export const traitUpdateResponse = z.object({
   /** The newest published version, which keeps showing the trait as it was. */

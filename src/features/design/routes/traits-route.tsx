@@ -1,12 +1,16 @@
 import { customTraitForm, type Design } from '@common/contracts/design';
 import { quantityKinds, traitBases, traitDirections } from '@common/contracts/trials';
+import { describeRange } from '@common/plausibility';
 import { presetByKey, traitPresets } from '@common/trait-presets';
+import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { CautionNote } from '@/components/ui/caution-note';
 import { FormMessage, SelectField, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
+import { useUnitSystem } from '@/lib/session';
 import { useCreatePart, useDeletePart } from '../api/design-parts';
 import { DesignPage } from '../components/design-page';
+import { basisLabels, directionLabels, TraitEditForm } from '../components/trait-edit-form';
 
 const kindLabels: Record<(typeof quantityKinds)[number], string> = {
   mass: 'Mass',
@@ -15,16 +19,6 @@ const kindLabels: Record<(typeof quantityKinds)[number], string> = {
   score: 'Score on a scale',
   date: 'Date',
   percent: 'Percent',
-};
-const basisLabels: Record<(typeof traitBases)[number], string> = {
-  plant: 'Per plant',
-  plot: 'Per plot',
-  harvest: 'Per harvest',
-};
-const directionLabels: Record<(typeof traitDirections)[number], string> = {
-  higher: 'Higher is better',
-  lower: 'Lower is better',
-  none: 'No preference',
 };
 
 function CustomTraitForm({ slug }: { slug: string }) {
@@ -110,6 +104,8 @@ function CustomTraitForm({ slug }: { slug: string }) {
 function Traits({ design, slug }: { design: Design; slug: string }) {
   const create = useCreatePart(slug, 'traits');
   const remove = useDeletePart(slug, 'traits');
+  const units = useUnitSystem();
+  const [editingId, setEditingId] = useState<string | null>(null);
   const have = new Set(design.traits.map((t) => t.key));
   const missing = traitPresets.filter((p) => !have.has(p.key));
   const cautionIds = [
@@ -134,20 +130,49 @@ function Traits({ design, slug }: { design: Design; slug: string }) {
                 {basisLabels[t.basis]} · {directionLabels[t.direction]}
                 {t.observationCount ? ` · ${t.observationCount} measurements` : ''}
               </p>
+              {t.plausibleMin !== null || t.plausibleMax !== null ? (
+                <p className="text-sm text-loam-700">
+                  Plausible:{' '}
+                  {describeRange(
+                    { min: t.plausibleMin, max: t.plausibleMax },
+                    t.quantityKind,
+                    units,
+                    t.displayUnit,
+                  )}
+                  {t.basis === 'harvest' && t.quantityKind === 'mass' ? ' per fruit' : ''}
+                </p>
+              ) : null}
               {presetByKey(t.key)?.hint ? (
                 <p className="mt-1 text-sm">{presetByKey(t.key)!.hint}</p>
               ) : null}
               {design.canEdit ? (
-                <Button
-                  variant="ghost"
-                  className="mt-1"
-                  aria-label={`Remove ${t.label}`}
-                  disabled={t.observationCount > 0 || remove.isPending}
-                  title={t.observationCount > 0 ? 'Measurements use this trait' : undefined}
-                  onClick={() => remove.mutate(t.id)}
-                >
-                  Remove
-                </Button>
+                <div className="mt-1 flex flex-wrap gap-2">
+                  <Button
+                    variant="secondary"
+                    aria-label={`Edit ${t.label}`}
+                    aria-expanded={editingId === t.id}
+                    onClick={() => setEditingId(editingId === t.id ? null : t.id)}
+                  >
+                    Edit
+                  </Button>
+                  <Button
+                    variant="ghost"
+                    aria-label={`Remove ${t.label}`}
+                    disabled={t.observationCount > 0 || remove.isPending}
+                    title={t.observationCount > 0 ? 'Measurements use this trait' : undefined}
+                    onClick={() => remove.mutate(t.id)}
+                  >
+                    Remove
+                  </Button>
+                </div>
+              ) : null}
+              {design.canEdit && editingId === t.id ? (
+                <TraitEditForm
+                  slug={slug}
+                  trait={t}
+                  units={units}
+                  onClose={() => setEditingId(null)}
+                />
               ) : null}
             </li>
           ))}
