@@ -19,6 +19,7 @@ import {
   M2_PER_HECTARE,
   MM_PER_FOOT,
   MM_PER_INCH,
+  entryUnit,
   type QuantityUnit,
 } from './units';
 
@@ -159,6 +160,12 @@ export function columnUnit(
     unit: traitUnit(base, system, typical, chosen),
     shown: displayUnit(base, system, typical, chosen),
   };
+}
+
+/** A plant or row spacing: always cm (or inches), never mm on one line and m on the next. */
+export function formatSpacing(mm: number, system: UnitSystem): string {
+  const unit = entryUnit('spacing', system);
+  return formatInUnit(mm, { label: unit, factor: perStored[unit] });
 }
 
 /** One trait value with its unit, for a table whose rows mix traits (the observation log). */

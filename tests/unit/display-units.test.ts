@@ -6,9 +6,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import {
+  columnUnit,
   displayUnit,
   entryUnitsFor,
   formatInUnit,
+  formatSpacing,
   formatTraitValue,
   traitUnit,
 } from '../../common/display-units';
@@ -94,5 +96,26 @@ describe('single values in a table of mixed traits', () => {
     expect(formatTraitValue(1010, 'length', 'metric', 'm')).toBe('1.01 m');
     expect(formatTraitValue(42, 'count', 'metric')).toBe('42');
     expect(formatTraitValue(35, 'percent', 'us')).toBe('35 %');
+  });
+});
+
+describe('spacing and record-table columns', () => {
+  it('shows spacing in cm or inches, never mm (450 mm typed as 45 cm; 18 in = 457.2 mm)', () => {
+    expect(formatSpacing(450, 'metric')).toBe('45 cm');
+    expect(formatSpacing(305, 'metric')).toBe('30.5 cm');
+    expect(formatSpacing(1200, 'metric')).toBe('120 cm');
+    expect(formatSpacing(457.2, 'us')).toBe('18 in');
+  });
+
+  it('chooses one unit for a whole column from its median, so one giant fruit does not switch it', () => {
+    // median 1,240 g: kg for every row; one 40 kg pumpkin among 300 g fruit stays in g
+    expect(columnUnit('mass', 'metric', [980, 1240, 1500]).shown.label).toBe('kg');
+    expect(columnUnit('mass', 'metric', [280, 300, 320, 40_000]).unit).toBe('g');
+    expect(columnUnit('length', 'metric', [920, 1010]).unit).toBe('cm');
+    expect(columnUnit('length', 'us', [920, 1010]).unit).toBe('in');
+    expect(columnUnit('count', 'metric', [3, 4])).toEqual({
+      unit: null,
+      shown: { label: '', factor: 1 },
+    });
   });
 });

@@ -1,5 +1,6 @@
 import type { Design } from '@common/contracts/design';
 import { fitToPage, mapGeometry, type PageFit, type PaperSize } from '@common/layout';
+import { formatSpacing } from '@common/display-units';
 import { formatLength, MM_PER_FOOT, type UnitSystem } from '@common/units';
 
 /** Light fills that stay apart in print and on a phone; past twelve entries they repeat and the code tells plots apart. */
@@ -202,7 +203,7 @@ export function PlantingMap({
           fill="#1f2a1c"
         >
           {bar.label} · rows {formatLength(rowLength, system)} long,{' '}
-          {formatLength(rowSpacingMm, system)} apart
+          {formatSpacing(rowSpacingMm, system)} apart
         </text>
       </g>
     </svg>

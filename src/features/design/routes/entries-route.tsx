@@ -1,6 +1,6 @@
 import { type Design, type DesignEntry, entryForm } from '@common/contracts/design';
 import { entryTypes } from '@common/contracts/trials';
-import { formatLength } from '@common/units';
+import { formatSpacing } from '@common/display-units';
 import { useState } from 'react';
 import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
@@ -150,7 +150,7 @@ function Entries({ design, slug }: { design: Design; slug: string }) {
                 {e.daysToMaturityClaimed ? ` · ${e.daysToMaturityClaimed} days claimed` : ''}
                 {' · '}
                 {e.inRowSpacingMm
-                  ? `${formatLength(e.inRowSpacingMm, system)} apart`
+                  ? `${formatSpacing(e.inRowSpacingMm, system)} apart`
                   : 'spacing not set'}
                 {e.noFertilizer && design.fertilizerPolicy === 'per_entry'
                   ? ' · no fertilizer'

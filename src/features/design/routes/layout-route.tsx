@@ -1,6 +1,6 @@
 import { type Design, layoutForm, MAX_LAYOUT_SEED } from '@common/contracts/design';
 import { designLabels } from '@common/contracts/trials';
-import { formatLength } from '@common/units';
+import { formatSpacing } from '@common/display-units';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -196,7 +196,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
                   {entry.get(p.entryId)?.name}
                 </td>
                 <td className="p-2">
-                  {p.inRowSpacingMm ? formatLength(p.inRowSpacingMm, system) : '—'}
+                  {p.inRowSpacingMm ? formatSpacing(p.inRowSpacingMm, system) : '—'}
                 </td>
                 <td className="p-2">{p.plannedPlants ?? '—'}</td>
               </tr>
