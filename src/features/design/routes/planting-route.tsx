@@ -22,7 +22,13 @@ const countLabels = {
 } as const;
 
 const cellInput = (invalid: boolean) =>
-  `min-h-11 w-20 rounded border bg-white px-2 ${invalid ? 'border-frost-600' : 'border-leaf-300'}`;
+  `min-h-11 w-full max-w-20 rounded border bg-white px-2 sm:w-20 ${invalid ? 'border-frost-600' : 'border-leaf-300'}`;
+/** On a phone each plot is a card: a cell's column name shows above it. */
+const phoneLabel = (text: string) => (
+  <span aria-hidden="true" className="block text-xs text-loam-700 sm:hidden">
+    {text}
+  </span>
+);
 
 /** The plots of one site, one row of counts each; saving sends this site's rows. */
 function SitePlanting({
@@ -71,8 +77,8 @@ function SitePlanting({
       </p>
       <fieldset disabled={!design.canEdit}>
         <ScrollRegion label="What was planted per plot" className="rounded-lg bg-white shadow-sm">
-          <table className="w-full min-w-[40rem] text-left text-sm">
-            <thead className="bg-leaf-50 text-leaf-900">
+          <table className="w-full text-left text-sm sm:min-w-[40rem]">
+            <thead className="bg-leaf-50 text-leaf-900 max-sm:sr-only">
               <tr>
                 <th className="p-2">Plot</th>
                 <th className="p-2">Entry</th>
@@ -87,14 +93,22 @@ function SitePlanting({
               {plots.map((p, i) => {
                 const problem = problemAt(i);
                 return (
-                  <tr key={p.id} className="border-t border-leaf-50 align-top">
+                  <tr
+                    key={p.id}
+                    className="border-t border-leaf-50 align-top max-sm:grid max-sm:grid-cols-3 max-sm:gap-x-2"
+                  >
                     <th scope="row" className="p-2">
+                      <span className="sm:hidden">Plot </span>
                       {p.plotNumber}
                     </th>
                     <td className="p-2 font-mono">{entry.get(p.entryId)?.code}</td>
-                    <td className="p-2">{p.plannedPlants ?? '—'}</td>
+                    <td className="p-2">
+                      <span className="sm:hidden">Planned </span>
+                      {p.plannedPlants ?? '—'}
+                    </td>
                     {(['plantsSet', 'plantsSurviving', 'gaps'] as const).map((k) => (
                       <td key={k} className="p-2">
+                        {phoneLabel(countLabels[k])}
                         <input
                           aria-label={`${countLabels[k]}, plot ${p.plotNumber}`}
                           inputMode="numeric"
@@ -104,10 +118,11 @@ function SitePlanting({
                         />
                       </td>
                     ))}
-                    <td className="p-2">
+                    <td className="p-2 max-sm:col-span-3">
+                      {phoneLabel('Note')}
                       <input
                         aria-label={`Note, plot ${p.plotNumber}`}
-                        className="min-h-11 w-48 rounded border border-leaf-300 bg-white px-2"
+                        className="min-h-11 w-full rounded border border-leaf-300 bg-white px-2 sm:w-48"
                         {...form.register(`plots.${i}.note`)}
                       />
                       {problem ? <p className="mt-1 text-frost-600">{problem}</p> : null}

@@ -1,5 +1,6 @@
 import type { RecordPlot } from '@common/contracts/records';
 import { useId, useState } from 'react';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 
 /** Pick a plot by typing its number, by entry, or by tapping it on the grid of blocks. */
 export function PlotPicker({
@@ -84,35 +85,37 @@ export function PlotPicker({
           {problem}
         </p>
       ) : null}
-      <div aria-label="Plots by block" role="group" className="space-y-1 overflow-x-auto">
-        {blocks.map((block) => (
-          <div key={block} className="flex items-center gap-1">
-            <span className="w-14 shrink-0 text-xs text-loam-700">Block {block}</span>
-            {plots
-              .filter((p) => p.block === block)
-              .sort((a, b) => a.position - b.position)
-              .map((p) => (
-                <button
-                  key={p.plotId}
-                  type="button"
-                  aria-pressed={p.plotId === currentId}
-                  onClick={() => onPick(p.plotId)}
-                  className={`min-h-11 min-w-11 shrink-0 rounded-md border px-1 text-xs leading-tight ${
-                    p.plotId === currentId
-                      ? 'border-pod-500 bg-pod-500 font-bold text-ink'
-                      : 'border-leaf-300 bg-white text-leaf-900'
-                  }`}
-                >
-                  <span className="sr-only">Plot </span>
-                  {p.plotNumber}
-                  <br />
-                  <span className="font-mono">{p.entryCode}</span>
-                  <span className="sr-only">, {p.entryName}</span>
-                </button>
-              ))}
-          </div>
-        ))}
-      </div>
+      <ScrollRegion label="Plots by block" hint="More plots to the side: swipe or scroll sideways">
+        <div className="space-y-1 pb-1">
+          {blocks.map((block) => (
+            <div key={block} className="flex items-center gap-1">
+              <span className="w-14 shrink-0 text-xs text-loam-700">Block {block}</span>
+              {plots
+                .filter((p) => p.block === block)
+                .sort((a, b) => a.position - b.position)
+                .map((p) => (
+                  <button
+                    key={p.plotId}
+                    type="button"
+                    aria-pressed={p.plotId === currentId}
+                    onClick={() => onPick(p.plotId)}
+                    className={`min-h-11 min-w-11 shrink-0 rounded-md border px-1 text-xs leading-tight ${
+                      p.plotId === currentId
+                        ? 'border-pod-500 bg-pod-500 font-bold text-ink'
+                        : 'border-leaf-300 bg-white text-leaf-900'
+                    }`}
+                  >
+                    <span className="sr-only">Plot </span>
+                    {p.plotNumber}
+                    <br />
+                    <span className="font-mono">{p.entryCode}</span>
+                    <span className="sr-only">, {p.entryName}</span>
+                  </button>
+                ))}
+            </div>
+          ))}
+        </div>
+      </ScrollRegion>
     </div>
   );
 }
