@@ -29,9 +29,23 @@ const toSi: Record<QuantityUnit, number> = {
   ft: MM_PER_FOOT,
 };
 
-/** A typed value in `unit` to the stored SI value (grams or millimetres). */
+/** Decimal places of a number as JavaScript writes it (the shortest form that reads back). */
+function decimalPlaces(n: number): number {
+  const [digits = '', exponent = '0'] = String(Math.abs(n)).split('e');
+  return Math.max(0, (digits.split('.')[1]?.length ?? 0) - Number(exponent));
+}
+
+/**
+ * A typed value in `unit` to the stored SI value (grams or millimetres). Every factor is an
+ * exact decimal, so the exact product has no more decimal places than the typed value and the
+ * factor together; rounding the binary product to that many places takes off the noise of
+ * binary arithmetic (2.2 kg is stored as 2200 g, not 2200.0000000000005) and nothing else.
+ */
 export function toStored(value: number, unit: QuantityUnit): number {
-  return value * toSi[unit];
+  const product = value * toSi[unit];
+  const places = decimalPlaces(value) + decimalPlaces(toSi[unit]);
+  if (!Number.isFinite(product) || places > 20) return product;
+  return Number(product.toFixed(places));
 }
 
 export function fromStored(value: number, unit: QuantityUnit): number {

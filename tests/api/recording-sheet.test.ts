@@ -366,7 +366,7 @@ describe('a good sheet', () => {
           'marketable_mass_lb',
           'plant_height_in_p1',
         ],
-        [102, 'Quillfield', yesterday, 5, 2, 10],
+        [102, 'Quillfield', yesterday, 5, 2.2, 10.1],
       ]),
     });
     expect(res.status).toBe(201);
@@ -376,13 +376,15 @@ describe('a good sheet', () => {
       .select('mass_g')
       .where('plot_id', '=', trial.plots['Quillfield#102']!)
       .executeTakeFirstOrThrow();
-    expect(h.mass_g).toBeCloseTo(907.18474, 9);
+    // 2.2 × 453.59237 = 997.903214 exactly, stored without binary noise (not 997.9032140000002).
+    expect(h.mass_g).toBe(997.903214);
     const o = await t.db
       .selectFrom('observations')
       .select(['value', 'plant_number'])
       .where('plot_id', '=', trial.plots['Quillfield#102']!)
       .executeTakeFirstOrThrow();
-    expect(o).toEqual({ value: expect.closeTo(254, 9), plant_number: 1 });
+    // 10.1 × 25.4 = 256.54 exactly (not 256.53999999999996).
+    expect(o).toEqual({ value: 256.54, plant_number: 1 });
   });
 
   it('refuses a plot written twice for one date', async () => {

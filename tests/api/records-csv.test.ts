@@ -222,7 +222,7 @@ describe('units in the header', () => {
     // NIST Handbook 44, Appendix C: 1 lb = 453.59237 g exactly; 1 in = 25.4 mm exactly.
     const res = await post(`/api/trials/${two.slug}/records/import`, {
       kind: 'harvests',
-      csv: `site,plot_number,harvested_on,fruit_count,mass_lb,grade\nHollyoak Bed,101,${today},9,2,marketable\n`,
+      csv: `site,plot_number,harvested_on,fruit_count,mass_lb,grade\nHollyoak Bed,101,${today},9,2.2,marketable\n`,
     });
     expect(res.status).toBe(201);
     const h = await t.db
@@ -230,10 +230,11 @@ describe('units in the header', () => {
       .select('mass_g')
       .where('trial_id', '=', two.id)
       .executeTakeFirstOrThrow();
-    expect(h.mass_g).toBeCloseTo(907.18474, 9);
+    // 2.2 × 453.59237 = 997.903214 exactly, stored without binary noise (not 997.9032140000002).
+    expect(h.mass_g).toBe(997.903214);
     const obs = await post(`/api/trials/${two.slug}/records/import`, {
       kind: 'observations',
-      csv: `site,plot_number,trait_key,observed_on,plant_number,value,unit\nHollyoak Bed,101,plant_height,${today},1,10,in\n`,
+      csv: `site,plot_number,trait_key,observed_on,plant_number,value,unit\nHollyoak Bed,101,plant_height,${today},1,10.1,in\n`,
     });
     expect(obs.status).toBe(201);
     const o = await t.db
@@ -241,7 +242,8 @@ describe('units in the header', () => {
       .select('value')
       .where('trial_id', '=', two.id)
       .executeTakeFirstOrThrow();
-    expect(o.value).toBeCloseTo(254, 9);
+    // 10.1 × 25.4 = 256.54 exactly (not 256.53999999999996).
+    expect(o.value).toBe(256.54);
     // clear trial two for the round trip below
     await t.db.deleteFrom('harvests').where('trial_id', '=', two.id).execute();
     await t.db.deleteFrom('observations').where('trial_id', '=', two.id).execute();

@@ -50,6 +50,32 @@ describe('exact factors', () => {
   });
 });
 
+describe('no binary noise in stored values', () => {
+  // Each expected value is the exact decimal product of the typed value and the exact factor
+  // (NIST Handbook 44, Appendix C: 1 lb = 453.59237 g, 1 oz = 28.349523125 g, 1 in = 25.4 mm,
+  // 1 ft = 304.8 mm; SI prefixes for kg, cm, m), worked by hand. Plain binary multiplication
+  // gives the values in the comments.
+  it.each([
+    [2.2, 'kg', 2200],
+    [1.005, 'kg', 1005], // 1004.9999999999999
+    [2.2, 'lb', 997.903214], // 997.9032140000002
+    [1.1, 'oz', 31.1844754375], // 31.184475437500005
+    [0.1, 'ft', 30.48], // 30.480000000000004
+    [36.3, 'in', 922.02], // 922.0199999999999
+    [0.17, 'cm', 1.7], // 1.7000000000000002
+    [12.7, 'in', 322.58],
+    [0.3, 'm', 300],
+    [1234.5, 'g', 1234.5],
+  ] as const)('%s %s is stored as %s exactly', (typed, unit, stored) => {
+    expect(toStored(typed, unit)).toBe(stored);
+  });
+
+  it('keeps what needs more digits than a double holds as the plain product', () => {
+    expect(toStored(1e-30, 'kg')).toBe(1e-30 * 1000);
+    expect(toStored(0.123456789012, 'oz')).toBeCloseTo(0.123456789012 * 28.349523125, 12);
+  });
+});
+
 describe('what people type and read', () => {
   it('types grams and millimetres in metric, ounces and inches in US customary', () => {
     expect(entryUnit('mass', 'metric')).toBe('g');
