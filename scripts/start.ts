@@ -4,7 +4,7 @@
  * With NODE_ENV=production it is the production start instead (server/production.ts): none of
  * the above, and the same refusals as `npm run start:prod`.
  */
-import { spawn } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import type { Server } from 'node:http';
 import { createDb, createPool } from '../db/database';
 import { dataDirOf, ensureDatabase } from '../db/ensure-database';
@@ -18,6 +18,7 @@ import { mailboxBanner } from '../server/mail/mailbox-router';
 import { runProduction } from '../server/production';
 import { createRuntime, type Runtime } from '../server/runtime';
 import { createStorage } from '../server/storage/create-storage';
+import { buildWithProgress } from './build-progress';
 import { ensureSystemPackages } from './system-packages';
 
 /** Marks the PostgreSQL server this command starts, so a later `npm start` knows it as its own. */
@@ -30,7 +31,7 @@ const CLOSE_GRACE_MS = 25_000;
 /** What is running so far; whatever is set is closed on the way out, the database last. */
 const running: {
   dataDir?: string;
-  build?: ReturnType<typeof spawn>;
+  build?: ChildProcess;
   server?: Server;
   mailbox?: CaptureServer;
   runtime?: Runtime;
@@ -68,32 +69,14 @@ function stopDatabase() {
 
 /** `vite build` with a line every few seconds, so a slow machine does not look stuck. */
 function buildClient(): Promise<void> {
-  console.log('Building the client…');
-  const began = Date.now();
-  const seconds = () => Math.round((Date.now() - began) / 1000);
-  return new Promise((resolve, reject) => {
-    const build = spawn(
-      process.execPath,
-      ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'],
-      { stdio: 'inherit' },
-    );
-    running.build = build;
-    const ticker = setInterval(
-      () => console.log(`  still building the client… ${seconds()} s`),
-      5000,
-    );
-    build.once('exit', (status, signal) => {
-      clearInterval(ticker);
-      running.build = undefined;
-      if (status === 0) {
-        console.log(`Client built in ${seconds()} s.`);
-        resolve();
-      } else reject(new Error(`The client build failed (${signal ?? `exit ${status}`}).`));
-    });
-    build.once('error', (err) => {
-      clearInterval(ticker);
-      reject(err);
-    });
+  return buildWithProgress({
+    what: 'the client',
+    command: process.execPath,
+    args: ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'],
+    onSpawn: (build) => {
+      running.build = build;
+      build.once('exit', () => (running.build = undefined));
+    },
   });
 }
 
