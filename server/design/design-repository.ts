@@ -122,39 +122,39 @@ export function updateTrial(db: Conn, trialId: string, values: TrialUpdate) {
 }
 
 type Part = 'entries' | 'sites' | 'traits';
-type PartInsert = {
-  entries: Insertable<EntriesTable>;
-  sites: Insertable<SitesTable>;
-  traits: Insertable<TraitsTable>;
-};
-type PartUpdate = {
-  entries: Updateable<EntriesTable>;
-  sites: Updateable<SitesTable>;
-  traits: Updateable<TraitsTable>;
-};
 
-export function insertPart<P extends Part>(db: Conn, table: P, values: PartInsert[P]) {
-  return (db as Conn)
-    .insertInto(table as 'entries')
-    .values(values as Insertable<EntriesTable>)
-    .returning('id')
-    .executeTakeFirstOrThrow();
+export function insertPart<P extends Part>(db: Conn, table: P, values: Insertable<Database[P]>) {
+  return db.insertInto(table).values(values).returning('id').executeTakeFirstOrThrow();
 }
 
-/** Updates one row of the trial's own; undefined when it is not in this trial. */
-export function updatePart<P extends Part>(
-  db: Conn,
-  table: P,
-  trialId: string,
-  id: string,
-  values: PartUpdate[P],
-) {
+/*
+ * Updates of one row of the trial's own (undefined when it is not in this trial), one per table:
+ * Kysely types `set` only for a table it knows, not for one chosen at run time.
+ */
+export function updateEntryRow(db: Conn, trialId: string, id: string, v: Updateable<EntriesTable>) {
   return db
-    .updateTable(table as 'entries')
-    .set(values as Updateable<EntriesTable>)
-    .where('id', '=', id)
-    .where('trial_id', '=', trialId)
+    .updateTable('entries')
+    .set(v)
+    .where((eb) => eb.and({ id, trial_id: trialId }))
     .returning('id')
+    .executeTakeFirst();
+}
+
+export function updateSiteRow(db: Conn, trialId: string, id: string, v: Updateable<SitesTable>) {
+  return db
+    .updateTable('sites')
+    .set(v)
+    .where((eb) => eb.and({ id, trial_id: trialId }))
+    .returning('id')
+    .executeTakeFirst();
+}
+
+export function updateTraitRow(db: Conn, trialId: string, id: string, v: Updateable<TraitsTable>) {
+  return db
+    .updateTable('traits')
+    .set(v)
+    .where((eb) => eb.and({ id, trial_id: trialId }))
+    .returningAll()
     .executeTakeFirst();
 }
 

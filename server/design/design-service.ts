@@ -29,6 +29,7 @@ import type { DB } from '../../db/database';
 import type { TraitsTable } from '../../db/schema';
 import type { Selectable } from 'kysely';
 import { writeAudit } from '../records/records-service';
+import { differingFields } from '../records/record-changes';
 import { copySheetSettings, latestPublishedVersion } from '../results/results-service';
 import type { z } from 'zod';
 import { AppError, fieldError } from '../lib/app-error';
@@ -445,7 +446,7 @@ export async function updateEntry(
   await db.transaction().execute(async (trx) => {
     await repo.lockTrial(trx, trialId);
     const row = await unique(
-      repo.updatePart(trx, 'entries', trialId, entryId, {
+      repo.updateEntryRow(trx, trialId, entryId, {
         ...columns(entryColumnNames, b),
         updated_by: userId,
       }),
@@ -492,7 +493,7 @@ export async function updateSite(
 ) {
   const { trialId, userId } = await editing(db, slug, actor);
   const row = await unique(
-    repo.updatePart(db, 'sites', trialId, siteId, {
+    repo.updateSiteRow(db, trialId, siteId, {
       ...columns(siteColumnNames, b),
       updated_by: userId,
     }),
@@ -552,7 +553,8 @@ const ruleFields = (t: Selectable<TraitsTable>): TraitRuleFields => ({
 });
 
 /** Settings a published sheet shows: changing one means the next version will differ. */
-const publishedSettings = ['key', 'label', 'basis', 'direction', 'display_unit'] as const;
+/** What a published sheet shows of a trait, as `differingFields` names the columns. */
+const publishedSettings = ['key', 'label', 'basis', 'direction', 'displayUnit'] as const;
 
 /**
  * Edits a trait. Its name, unit, direction and plausible range can always change (the
@@ -617,21 +619,14 @@ export async function updateTrait(
           `${n} measurements already use this trait: it cannot switch to harvest records.`,
         );
     }
-    const after = await unique(
-      repo.updatePart(trx, 'traits', trialId, traitId, { ...values, updated_by: userId }),
+    const stored = await unique(
+      repo.updateTraitRow(trx, trialId, traitId, { ...values, updated_by: userId }),
       traitUnique,
     );
-    if (!after) throw AppError.notFound('The trait');
-    const stored = (await repo.lockTrait(trx, trialId, traitId))!;
+    if (!stored) throw AppError.notFound('The trait');
     if (stored.key !== before.key)
       await repo.renameSheetTraitKey(trx, trialId, before.key, stored.key);
-    const changed = Object.keys(stored).filter(
-      (c) =>
-        c !== 'updated_at' &&
-        c !== 'updated_by' &&
-        JSON.stringify(stored[c as keyof typeof stored]) !==
-          JSON.stringify(before[c as keyof typeof before]),
-    );
+    const changed = differingFields(before, stored);
     if (changed.length)
       await writeAudit(trx, {
         trialId,

@@ -229,7 +229,8 @@ async function encodeOriginal(
         ),
         ext: 'avif',
       };
-    default:
+    case 'jpeg':
+    case 'heic':
       return {
         ...variant(
           await pipeline.jpeg(FULL_SIZE_JPEG).toBuffer({ resolveWithObject: true }),

@@ -57,8 +57,15 @@ export function Component() {
           : `${e.amendmentKind ?? ''}, ${e.rateGPerM2 ?? '?'} g/m²`;
       case 'thinning':
         return e.targetSpacingMm !== null ? `to ${formatLength(e.targetSpacingMm, units)}` : '';
-      default:
+      case 'pruning':
+      case 'transplanting':
+      case 'note':
         return '';
+      default: {
+        // Every kind is handled above; a new kind in fieldEventKinds stops the build here.
+        const unhandled: never = e.kind;
+        return String(unhandled);
+      }
     }
   };
 
