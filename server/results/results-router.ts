@@ -92,8 +92,11 @@ const downloadQuery = z.object({
  * A published version's JSON as stored, with its strong ETag: a reader who has it gets 304 and
  * no body (RFC 9110 §13.1.2, If-None-Match).
  */
+/** A published version may be read from a shared cache for five minutes. */
+const cachePublished = (res: Response) => res.setHeader('Cache-Control', 'public, max-age=300');
+
 function sendFrozen(req: Request, res: Response, frozen: service.FrozenVersion) {
-  res.setHeader('Cache-Control', 'public, max-age=300');
+  cachePublished(res);
   res.setHeader('ETag', frozen.etag);
   const asked = req.headers['if-none-match'];
   if (asked && asked.split(',').some((t) => t.trim() === frozen.etag)) {
@@ -108,8 +111,6 @@ export function publicResultsRouter(deps: Deps) {
   const r = resultsDeps(deps);
   const { storage } = deps;
   const router = Router();
-  const cache = (res: import('express').Response) =>
-    res.setHeader('Cache-Control', 'public, max-age=300');
 
   router.get(
     '/',
@@ -139,7 +140,7 @@ export function publicResultsRouter(deps: Deps) {
   router.get(
     '/:slug/versions',
     endpoint({ params: resultSlugParams }, async ({ params }, _req, res) => {
-      cache(res);
+      cachePublished(res);
       res.json(await service.publicVersions(deps.db, params.slug));
     }),
   );

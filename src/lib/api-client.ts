@@ -131,6 +131,18 @@ export function createApiClient(send: FetchLike = (input, init) => fetch(input, 
 /** The app's API client, on the browser's fetch. */
 export const api = createApiClient();
 
+/** A multipart body: the text fields as strings (undefined and null left out), then the file. */
+export function multipartBody(
+  fields: Record<string, unknown>,
+  file: { field: string; blob: Blob; name: string },
+): FormData {
+  const form = new FormData();
+  for (const [k, v] of Object.entries(fields))
+    if (v !== undefined && v !== null) form.append(k, String(v));
+  form.append(file.field, file.blob, file.name);
+  return form;
+}
+
 export interface UploadProgress {
   loaded: number;
   total: number;

@@ -22,18 +22,21 @@ function write(storage: Storage, key: string, value: string) {
   }
 }
 
-/** The site this account last logged at in this trial, and a setter that remembers it. */
-export function useRememberedSite(slug: string, accountId: string | null) {
+/**
+ * The site chosen on this page, else the one this account last logged at in this trial on
+ * this device; and a setter that chooses and remembers it.
+ */
+function useRememberedSite(slug: string, accountId: string | null) {
   const key = accountId ? `rowtally.field-log.site.${accountId}.${slug}` : null;
-  const [site, setSite] = useState<string | null>(() => (key ? read(localStorage, key) : null));
+  const [chosen, setChosen] = useState<string | null>(null);
   const remember = useCallback(
     (siteId: string) => {
-      setSite(siteId);
+      setChosen(siteId);
       if (key) write(localStorage, key, siteId);
     },
     [key],
   );
-  return [key ? (site ?? read(localStorage, key)) : null, remember] as const;
+  return [chosen ?? (key ? read(localStorage, key) : null), remember] as const;
 }
 
 /** Whether a caution was already shown in full in this session for this trial. */
@@ -57,18 +60,9 @@ export const mySitesOf = (t: Pick<TrialWithPermissions, 'sites' | 'mySiteIds'>) 
  */
 export function useRoundSite(slug: string, sites: { id: string }[] | undefined) {
   const me = useMe();
-  const [remembered, remember] = useRememberedSite(slug, me.data?.id ?? null);
-  const [chosen, setChosen] = useState<string | null>(null);
+  const [site, choose] = useRememberedSite(slug, me.data?.id ?? null);
   const list = sites ?? [];
   const siteId =
-    [chosen, remembered].find((id) => id && list.some((s) => s.id === id)) ??
-    (list.length === 1 ? list[0]!.id : null);
-  const choose = useCallback(
-    (id: string) => {
-      setChosen(id);
-      remember(id);
-    },
-    [remember],
-  );
+    site && list.some((s) => s.id === site) ? site : list.length === 1 ? list[0]!.id : null;
   return [siteId, choose] as const;
 }

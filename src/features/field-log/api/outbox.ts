@@ -13,7 +13,7 @@
 import { sessionSchema } from '@common/contracts/me';
 import { type DBSchema, type IDBPDatabase, openDB } from 'idb';
 import { z } from 'zod';
-import { ApiError, apiUpload, createApiClient, type FetchLike } from '@/lib/api-client';
+import { ApiError, apiUpload, createApiClient, type FetchLike, multipartBody } from '@/lib/api-client';
 
 export type OutboxState = 'waiting' | 'sending' | 'saved' | 'refused';
 export type OutboxKind = 'harvest' | 'observation' | 'field-event' | 'stand-count' | 'photo';
@@ -227,12 +227,12 @@ export class Outbox {
 
   private request(item: OutboxItem): Promise<unknown> {
     if (item.kind === 'photo' && item.file) {
-      const form = new FormData();
-      for (const [k, v] of Object.entries(item.body as Record<string, unknown>))
-        if (v !== undefined && v !== null) form.append(k, String(v));
-      form.append('photo', item.file, item.fileName ?? 'photo.jpg');
       return this.upload(item.url, z.unknown(), {
-        body: form,
+        body: multipartBody(item.body as Record<string, unknown>, {
+          field: 'photo',
+          blob: item.file,
+          name: item.fileName ?? 'photo.jpg',
+        }),
         method: item.method,
         onProgress: ({ loaded, total }) => {
           if (total <= 0) return;

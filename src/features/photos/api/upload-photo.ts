@@ -1,6 +1,6 @@
 import { type Photo, type UploadPhotoFields, uploadPhotoResponse } from '@common/contracts/photos';
 import { useCallback } from 'react';
-import { ApiError, apiUpload, type UploadProgress } from '@/lib/api-client';
+import { ApiError, apiUpload, multipartBody, type UploadProgress } from '@/lib/api-client';
 import { useInvalidateTrial } from '@/lib/trial-keys';
 
 /** One photo per request, so a failed one can be sent again alone; progress as it goes. */
@@ -11,10 +11,7 @@ export async function uploadPhoto(
   onProgress: (p: UploadProgress) => void,
   signal?: AbortSignal,
 ): Promise<Photo> {
-  const body = new FormData();
-  for (const [k, v] of Object.entries(fields))
-    if (v !== undefined && v !== null) body.append(k, String(v));
-  body.append('photo', file, file.name);
+  const body = multipartBody(fields, { field: 'photo', blob: file, name: file.name });
   const { photos } = await apiUpload(
     `/api/trials/${encodeURIComponent(slug)}/photos`,
     uploadPhotoResponse,

@@ -6,10 +6,7 @@ import { trialKeys } from '@/lib/trial-keys';
 type Query = Pick<PublishedSheetsQuery, 'q' | 'page'>;
 
 export const getPublishedSheets = ({ q, page }: Query) =>
-  api(
-    `/api/results?${new URLSearchParams({ q, page: String(page) }).toString()}`,
-    publishedSheetListSchema,
-  );
+  api('/api/results', publishedSheetListSchema, { query: { q, page } });
 
 export const publishedSheetsQueryOptions = (query: Query) =>
   queryOptions({
