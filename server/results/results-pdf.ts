@@ -5,7 +5,8 @@ import {
   sheetTraitDecimals,
   type ResultSnapshot,
 } from '../../common/contracts/results';
-import { displayNumber } from '../../common/precision';
+import { displayUnit } from '../../common/display-units';
+import { decimalsInUnit, displayNumber } from '../../common/precision';
 import { designLabels } from '../../common/contracts/trials';
 import { directionWords, rankMeans } from '../../common/ranking';
 
@@ -72,22 +73,26 @@ export function renderSheetPdf(
   doc.moveDown();
 
   for (const t of s.traits) {
-    const d = sheetTraitDecimals(s, t).mean;
+    // The same display unit per trait as the web sheet (metric on paper), e.g. kg not g.
+    const u = displayUnit(t.unit, 'metric', t.grandMean, t.displayUnit);
+    const d = decimalsInUnit(sheetTraitDecimals(s, t).mean, u.factor);
+    const v = (x: number | null | undefined) => fmt(x == null ? x : x * u.factor, d);
+    const unit = u.label ? ` ${u.label}` : '';
     doc
       .font('Helvetica-Bold')
       .fontSize(12)
-      .text(`${t.label} (${t.unit}), ${directionWords[t.direction]}`);
+      .text(`${t.label}${u.label ? ` (${u.label})` : ''}, ${directionWords[t.direction]}`);
     doc
       .font('Helvetica')
       .fontSize(9)
       .fillColor('#6b4f36')
       .text(
-        `Grand mean ${fmt(t.grandMean, d)} ${t.unit}; CV ${fmt(t.cvPercent, 1)} %; ${s.letters === 'hsd' ? `Tukey HSD ${fmt(t.hsd.value, d)}` : `LSD ${fmt(t.lsd.value, d)}`} (α = ${s.alpha})`,
+        `Grand mean ${v(t.grandMean)}${unit}; CV ${fmt(t.cvPercent, 1)} %; ${s.letters === 'hsd' ? `Tukey HSD ${v(t.hsd.value)}` : `LSD ${v(t.lsd.value)}`} (α = ${s.alpha})`,
       );
     doc.fillColor('#1f2a1c').fontSize(10);
     for (const m of rankMeans(t.means, t.direction))
       doc.text(
-        `${m.rank === null ? '' : `${m.rank}. `}${m.variety}   ${fmt(m.mean, d)} ± ${fmt(m.se, d)}${m.adjustedMean === undefined ? '' : ` (adjusted ${fmt(m.adjustedMean, d)} ± ${fmt(m.adjustedSe ?? null, d)})`}   ${m.group}`,
+        `${m.rank === null ? '' : `${m.rank}. `}${m.variety}   ${v(m.mean)} ± ${v(m.se)}${m.adjustedMean === undefined ? '' : ` (adjusted ${v(m.adjustedMean)} ± ${v(m.adjustedSe ?? null)})`}   ${m.group}`,
       );
     for (const w of t.warnings)
       doc.fontSize(8).fillColor('#a8631a').text(w).fillColor('#1f2a1c').fontSize(10);

@@ -7,6 +7,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { seedDemo } from '../../db/seed/seed';
 import { analyzeCsv } from '../../server/analysis/engine/analyze';
+import { sheetTraitDecimals } from '../../common/contracts/results';
+import { displayUnit } from '../../common/display-units';
+import { decimalsInUnit, displayNumber } from '../../common/precision';
 import { createTestApp, mintSessionCookie, TEST_ORIGIN, type TestApp } from '../support/test-app';
 
 const SLUG = 'larkhaven-okra-2026';
@@ -218,6 +221,18 @@ describe('the results sheet', () => {
     expect(text).toContain('Means followed by the same letter are not significantly different.');
     // Symbols outside the standard PDF fonts are spelled out rather than garbled.
     expect(text).toContain('(alpha = 0.05)');
+    // Each trait in the same display unit as the web sheet (common/display-units.ts), its
+    // grand mean scaled by that unit's exact factor (1 kg = 1000 g, NIST Handbook 44 App. C).
+    for (const t of sheet2.traits) {
+      const u = displayUnit(t.unit, 'metric', t.grandMean, t.displayUnit);
+      const heading = `${t.label}${u.label ? ` (${u.label})` : ''}, `;
+      expect(text).toContain(heading);
+      const d = decimalsInUnit(sheetTraitDecimals(sheet2, t).mean, u.factor);
+      expect(text).toContain(
+        `Grand mean ${displayNumber(t.grandMean * u.factor, d)}${u.label ? ` ${u.label}` : ''};`,
+      );
+    }
+    expect(text).not.toMatch(/ count\b.*±|\(count\)/);
   });
 
   it('exports plot values that re-import to the same numbers', async () => {
