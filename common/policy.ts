@@ -3,6 +3,7 @@
  * the current user (GET /api/trials/:slug → `permissions`) and only hides what it cannot do.
  */
 import type { trialRoles } from './contracts/trials';
+import type { GroupRole } from './contracts/varieties';
 
 export type TrialRole = (typeof trialRoles)[number];
 
@@ -117,6 +118,58 @@ export const permissionTable: Record<TrialAction, Rule & { note: string }> = {
     note: 'the published results sheet (anyone once published)',
   },
 };
+
+/**
+ * A group (an organisation owning several trials) has roles of its own; they grant nothing
+ * inside a trial, where the trial's roles decide.
+ */
+export const groupActions = ['register.read', 'register.edit', 'group.trial.create'] as const;
+export type GroupAction = (typeof groupActions)[number];
+
+export const groupPermissionTable: Record<
+  GroupAction,
+  Record<GroupRole, boolean> & { note: string }
+> = {
+  'register.read': {
+    coordinator: true,
+    member: true,
+    note: "the group's variety register and each variety's record (figures: per trial, as the trial's roles allow)",
+  },
+  'register.edit': {
+    coordinator: true,
+    member: false,
+    note: 'add and edit register varieties',
+  },
+  'group.trial.create': {
+    coordinator: true,
+    member: false,
+    note: 'start a trial owned by the group',
+  },
+};
+
+export function canGroup(
+  actor: Actor | null,
+  action: GroupAction,
+  role: GroupRole | null,
+): boolean {
+  if (actor?.isAdmin) return true;
+  if (!actor || !role) return false;
+  return groupPermissionTable[action][role];
+}
+
+/** The group permission table as Markdown, for the README. */
+export function groupPermissionTableMarkdown(): string {
+  const yes = (b: boolean) => (b ? 'yes' : '—');
+  const rows = groupActions.map((a) => {
+    const r = groupPermissionTable[a];
+    return `| \`${a}\` | ${yes(r.coordinator)} | ${yes(r.member)} | — | yes | ${r.note} |`;
+  });
+  return [
+    '| group action | coordinator | member | anyone | admin | what it covers |',
+    '| --- | --- | --- | --- | --- | --- |',
+    ...rows,
+  ].join('\n');
+}
 
 /** Instance-wide actions, not tied to one trial. */
 export type InstanceAction = 'trial.create' | 'instance.admin';

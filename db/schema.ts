@@ -11,6 +11,7 @@ import type {
   irrigationMethods as siteIrrigationMethods,
 } from '../common/contracts/design';
 import type { unitSystems } from '../common/contracts/me';
+import type { groupRoles, varietyTypes } from '../common/contracts/varieties';
 import type { photoSubjects } from '../common/contracts/photos';
 import type {
   auditActions,
@@ -120,6 +121,8 @@ export interface TrialsTable extends Written {
   fertilizer_notes: Generated<string>;
   /** The trial this one was copied from for a new season. */
   copied_from_trial_id: Generated<string | null>;
+  /** The group that owns the trial (its register holds the trial's varieties). */
+  group_id: Generated<string | null>;
 }
 
 /** The lead's planned fertilizer use; what was applied is in the field log. */
@@ -147,6 +150,50 @@ export interface EntriesTable extends Written {
   notes: Generated<string>;
   in_row_spacing_mm: number | null;
   no_fertilizer: Generated<boolean>;
+  /** The register variety this entry grows (in the trial's group's register). */
+  variety_id: Generated<string | null>;
+}
+
+/** An organisation owning several trials (a seed library, a grower network). */
+export interface GroupsTable {
+  id: Generated<string>;
+  slug: string;
+  name: string;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+  created_by: string | null;
+  updated_by: string | null;
+}
+
+export type GroupRole = (typeof groupRoles)[number];
+
+export interface GroupMembersTable {
+  group_id: string;
+  user_id: string;
+  role: GroupRole;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+  created_by: string | null;
+  updated_by: Generated<string | null>;
+}
+
+/** A variety in a group's register, followed from trial to trial. */
+export interface VarietiesTable {
+  id: Generated<string>;
+  group_id: string;
+  slug: string;
+  name: string;
+  crop: string;
+  variety_type: Generated<(typeof varietyTypes)[number]>;
+  origin: Generated<string>;
+  seed_source: Generated<string>;
+  description: Generated<string>;
+  expected_traits: Generated<string[]>;
+  aliases: Generated<string[]>;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+  created_by: string | null;
+  updated_by: string | null;
 }
 
 export interface PlotsTable extends Written {
@@ -454,6 +501,9 @@ export interface Database {
   daily_weather: DailyWeatherTable;
   request_rate_windows: RequestRateWindowsTable;
   outgoing_mail: OutgoingMailTable;
+  groups: GroupsTable;
+  group_members: GroupMembersTable;
+  varieties: VarietiesTable;
 }
 
 export type Trial = Selectable<TrialsTable>;

@@ -17,6 +17,7 @@ import { invitationLinksRouter, trialInvitationsRouter } from './invitations/inv
 import { membersRouter } from './members/members-router';
 import { meRouter, sessionRouter } from './me/me-router';
 import { photosRouter } from './photos/photos-router';
+import { groupsRouter, varietiesRouter } from './varieties/varieties-router';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { refuseNul } from './lib/refuse-nul';
 import { trialsRouter } from './trials/trials-router';
@@ -62,6 +63,8 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
     ['/api/trials/:slug/results-sheet', resultsSheetRouter(deps)],
     ['/api/results', publicResultsRouter(deps)],
     ['/api/trials/:slug/comparison', comparisonRouter(deps)],
+    ['/api/groups', groupsRouter(deps)],
+    ['/api/varieties', varietiesRouter(deps)],
   ];
 }
 

@@ -159,9 +159,12 @@ const entryFields = {
   inRowSpacingMm: lengthMm('in-row spacing').nullable(),
   noFertilizer: z.boolean(),
   notes: text(5000, 'notes'),
+  /** The register variety the entry grows; null: the register's variety of the entry's name. */
+  varietyId: z.uuid('Choose a variety from the register.').nullable(),
 };
 export const entryBody = z.object({
   ...entryFields,
+  varietyId: entryFields.varietyId.default(null),
   seedSource: entryFields.seedSource.default(''),
   seedLot: entryFields.seedLot.default(''),
   daysToMaturityClaimed: entryFields.daysToMaturityClaimed.default(null),
@@ -179,6 +182,7 @@ export const entryUpdateBody = z
 export const entryForm = (spacingUnit: QuantityUnit) =>
   z.object({
     ...entryFields,
+    varietyId: blankAsNull(entryFields.varietyId),
     daysToMaturityClaimed: typedNumber(entryFields.daysToMaturityClaimed, { blank: null }),
     inRowSpacingMm: typedNumber(entryFields.inRowSpacingMm, {
       blank: null,
@@ -472,6 +476,8 @@ export const designEntrySchema = z.object({
   inRowSpacingMm: z.number().nullable(),
   noFertilizer: z.boolean(),
   notes: z.string(),
+  /** The register variety the entry grows (its page is /varieties/<slug>). */
+  variety: z.object({ id: z.uuid(), slug: z.string(), name: z.string() }).nullable(),
 });
 export type DesignEntry = z.infer<typeof designEntrySchema>;
 export const designSiteSchema = z.object({
@@ -545,6 +551,8 @@ export const designSchema = z.object({
     lockedReason: z.string().nullable(),
   }),
   entries: z.array(designEntrySchema),
+  /** The trial's group's register, for the lead to pick an entry's variety from (others: empty). */
+  register: z.array(z.object({ id: z.uuid(), slug: z.string(), name: z.string() })),
   sites: z.array(designSiteSchema),
   traits: z.array(designTraitSchema),
   plots: z.array(designPlotSchema),

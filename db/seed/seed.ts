@@ -5,6 +5,7 @@ import type { ObjectStorage } from '../../server/storage/object-storage';
 import type { DB } from '../database';
 import { seedDemoPhotos } from './demo-photos';
 import { addDays } from '../../common/calendar-date';
+import { seedDemoRegister } from './demo-register';
 import { DEMO_SEED, demoAccounts, demoTrials, generateSeason } from './demo-season';
 import { publishDemoSheet } from './demo-sheet';
 import { generateDemoWeather } from './demo-weather';
@@ -277,5 +278,6 @@ export async function seedDemo(db: DB): Promise<void> {
           .execute();
       }
     }
+    await seedDemoRegister(trx, leadId);
   });
 }

@@ -74,10 +74,12 @@ export function countPlots(db: Conn, trialId: string) {
 
 export function listEntries(db: Conn, trialId: string) {
   return db
-    .selectFrom('entries')
-    .selectAll()
-    .where('trial_id', '=', trialId)
-    .orderBy('code')
+    .selectFrom('entries as e')
+    .leftJoin('varieties as v', 'v.id', 'e.variety_id')
+    .selectAll('e')
+    .select(['v.slug as variety_slug', 'v.name as variety_name'])
+    .where('e.trial_id', '=', trialId)
+    .orderBy('e.code')
     .execute();
 }
 
@@ -174,6 +176,26 @@ export function findPart(db: Conn, table: Part, trialId: string, id: string) {
     .where('id', '=', id)
     .where('trial_id', '=', trialId)
     .executeTakeFirst();
+}
+
+/** A group's register varieties by name, to pick an entry's variety from. */
+export function groupRegister(db: Conn, groupId: string) {
+  return db
+    .selectFrom('varieties')
+    .select(['id', 'slug', 'name'])
+    .where('group_id', '=', groupId)
+    .orderBy('name')
+    .execute();
+}
+
+/** What an entry's register variety is found by. */
+export function findEntry(db: Conn, trialId: string, id: string) {
+  return db
+    .selectFrom('entries')
+    .select(['name', 'entry_type', 'seed_source'])
+    .where('id', '=', id)
+    .where('trial_id', '=', trialId)
+    .executeTakeFirstOrThrow();
 }
 
 export function countTraitObservations(db: Conn, traitId: string) {

@@ -34,6 +34,7 @@ import { copySheetSettings, latestPublishedVersion } from '../results/results-se
 import type { z } from 'zod';
 import { AppError, fieldError } from '../lib/app-error';
 import { trialForAction, trialHeading, traitView } from '../trials/trials-service';
+import { groupForNewTrial, joinGroup, varietyForEntry } from '../varieties/varieties-service';
 import * as repo from './design-repository';
 import type { Conn } from './design-repository';
 
@@ -110,6 +111,7 @@ export async function createTrial(
         description: body.description,
         sowing_date: body.sowingDate,
         transplant_date: body.transplantDate,
+        group_id: await groupForNewTrial(trx, leadId),
         created_by: actor.userId,
         updated_by: actor.userId,
       });
@@ -173,10 +175,13 @@ export async function copyTrial(
         row_spacing_mm: source.row_spacing_mm,
         in_row_spacing_mm: source.in_row_spacing_mm,
         copied_from_trial_id: source.id,
+        // The copy stays in the group, so its entries keep their register varieties.
+        group_id: source.group_id,
         created_by: userId,
         updated_by: userId,
       });
       await repo.insertLead(trx, copy.id, userId, userId);
+      if (source.group_id) await joinGroup(trx, source.group_id, userId);
       for (const part of ['entries', 'sites', 'traits'] as const)
         await repo.copyTrialParts(trx, part, source.id, copy.id, userId);
       await copySheetSettings(trx, source.id, copy.id, userId);
@@ -262,11 +267,13 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
     repo.plotDependents(db, trial.id),
   ]);
   const reason = lockReason(dependents);
+  const canEdit = can(actor, 'trial.edit', access);
   return {
     ...trialHeading(trial),
+    register: canEdit && trial.group_id ? await repo.groupRegister(db, trial.group_id) : [],
     fertilizerPolicy: trial.fertilizer_policy,
     fertilizerNotes: trial.fertilizer_notes,
-    canEdit: can(actor, 'trial.edit', access),
+    canEdit,
     layout: {
       seed: trial.layout_seed,
       replicates: trial.replicates,
@@ -289,6 +296,10 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
       inRowSpacingMm: e.in_row_spacing_mm,
       noFertilizer: e.no_fertilizer,
       notes: e.notes,
+      variety:
+        e.variety_id && e.variety_slug && e.variety_name
+          ? { id: e.variety_id, slug: e.variety_slug, name: e.variety_name }
+          : null,
     })),
     sites: sites.map((s) => ({
       id: s.id,
@@ -424,15 +435,24 @@ export async function createEntry(
   actor: Actor | null,
   b: Out<typeof entryBody>,
 ) {
-  const { trialId, userId } = await editing(db, slug, actor);
-  return insertBeforeLayout(
-    db,
-    trialId,
-    'entries',
-    'Adding an entry',
-    { trial_id: trialId, ...columns(entryColumnNames, b), created_by: userId, updated_by: userId },
-    entryUnique,
-  );
+  const { trial } = await trialForAction(db, slug, actor, 'trial.edit');
+  const userId = actor!.userId;
+  const { varietyId, ...fields } = b;
+  return db.transaction().execute(async (trx) => {
+    await repo.lockTrial(trx, trial.id);
+    await assertNoLayout(trx, trial.id, 'Adding an entry');
+    const variety = await varietyForEntry(trx, trial, { ...b, varietyId }, userId);
+    return unique(
+      repo.insertPart(trx, 'entries', {
+        trial_id: trial.id,
+        ...columns(entryColumnNames, fields),
+        variety_id: variety,
+        created_by: userId,
+        updated_by: userId,
+      }),
+      entryUnique,
+    );
+  });
 }
 
 export async function updateEntry(
@@ -443,16 +463,32 @@ export async function updateEntry(
   b: Out<typeof entryUpdateBody>,
 ) {
   const { trialId, userId } = await editing(db, slug, actor);
+  const { varietyId, ...fields } = b;
   await db.transaction().execute(async (trx) => {
-    await repo.lockTrial(trx, trialId);
+    const trial = await repo.lockTrial(trx, trialId);
     const row = await unique(
       repo.updateEntryRow(trx, trialId, entryId, {
-        ...columns(entryColumnNames, b),
+        ...columns(entryColumnNames, fields),
         updated_by: userId,
       }),
       entryUnique,
     );
     if (!row) throw AppError.notFound('The entry');
+    if (varietyId !== undefined) {
+      const entry = await repo.findEntry(trx, trialId, entryId);
+      const variety = await varietyForEntry(
+        trx,
+        trial,
+        {
+          varietyId,
+          name: entry.name,
+          entryType: entry.entry_type,
+          seedSource: entry.seed_source,
+        },
+        userId,
+      );
+      await repo.updateEntryRow(trx, trialId, entryId, { variety_id: variety });
+    }
     // Before planting the plan follows the entry's spacing; afterwards plots keep what was planted.
     if (b.inRowSpacingMm != null && lockReason(await repo.plotDependents(trx, trialId)) === null)
       await repo.setEntryPlotSpacing(trx, trialId, entryId, b.inRowSpacingMm);

@@ -132,3 +132,21 @@ export async function trialParts(db: DB, trialId: string) {
   ]);
   return { sites, entries, traits, tallies };
 }
+
+export function findGroup(db: DB, groupId: string) {
+  return db
+    .selectFrom('groups')
+    .select(['id', 'slug', 'name'])
+    .where('id', '=', groupId)
+    .executeTakeFirst();
+}
+
+export async function groupRole(db: DB, groupId: string, userId: string) {
+  const row = await db
+    .selectFrom('group_members')
+    .select('role')
+    .where('group_id', '=', groupId)
+    .where('user_id', '=', userId)
+    .executeTakeFirst();
+  return row?.role ?? null;
+}

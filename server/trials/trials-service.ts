@@ -1,4 +1,12 @@
-import { type Actor, type TrialAction, can, permissionsFor } from '../../common/policy';
+import {
+  type Actor,
+  can,
+  canGroup,
+  type GroupAction,
+  permissionsFor,
+  type TrialAction,
+} from '../../common/policy';
+import type { GroupRole } from '../../common/contracts/varieties';
 import type { TrialDetail, TrialSummary } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
 import type { Trial, TraitsTable } from '../../db/schema';
@@ -50,6 +58,24 @@ export async function trialForAction(
   if (!place) throw fieldError(plot.field, 'This plot is not in the trial.');
   authorize(actor, action, loaded, place.siteId);
   return { ...loaded, plot: place, actorName };
+}
+
+/**
+ * The same entry point for a group's actions (its register, trials it starts). Someone outside
+ * the group, signed in or not, is told it does not exist (404); a member lacking the role gets 403.
+ */
+export async function groupForAction(
+  db: DB,
+  groupId: string,
+  actor: Actor | null,
+  action: GroupAction,
+): Promise<{ group: { id: string; slug: string; name: string }; role: GroupRole | null }> {
+  const group = await repo.findGroup(db, groupId);
+  if (!group) throw AppError.notFound('The group');
+  const role = actor ? await repo.groupRole(db, groupId, actor.userId) : null;
+  if (canGroup(actor, action, role)) return { group, role };
+  if (!role) throw AppError.notFound('The group');
+  throw new AppError('forbidden', 'Your role in this group does not allow this.');
 }
 
 export async function trialDetail(

@@ -7,8 +7,12 @@ import { describe, expect, it } from 'vitest';
 import {
   type Actor,
   can,
+  canGroup,
   canInstance,
   canRemoveMember,
+  groupActions,
+  groupPermissionTable,
+  groupPermissionTableMarkdown,
   permissionsFor,
   permissionTable,
   permissionTableMarkdown,
@@ -125,6 +129,36 @@ describe('the permission table for the README', () => {
       expect(cells).toEqual(
         (['lead', 'grower', 'contributor', 'viewer'] as const).map((r) =>
           permissionTable[action][r] ? 'yes' : '—',
+        ),
+      );
+    }
+  });
+});
+
+describe('group actions', () => {
+  it('lets coordinators manage the register and start trials, members only read, outsiders nothing', () => {
+    expect(canGroup(member, 'register.read', 'member')).toBe(true);
+    expect(canGroup(member, 'register.edit', 'member')).toBe(false);
+    expect(canGroup(member, 'group.trial.create', 'member')).toBe(false);
+    expect(canGroup(member, 'register.edit', 'coordinator')).toBe(true);
+    expect(canGroup(member, 'group.trial.create', 'coordinator')).toBe(true);
+    expect(canGroup(member, 'register.read', null)).toBe(false);
+    expect(canGroup(null, 'register.read', null)).toBe(false);
+    expect(canGroup(admin, 'register.edit', null)).toBe(true);
+  });
+
+  it('has one README row per group action that agrees with the policy', () => {
+    const md = groupPermissionTableMarkdown().split('\n');
+    expect(md).toHaveLength(2 + groupActions.length);
+    for (const action of groupActions) {
+      const cells = md
+        .find((l) => l.startsWith(`| \`${action}\` |`))!
+        .split('|')
+        .slice(2, 4)
+        .map((c) => c.trim());
+      expect(cells).toEqual(
+        (['coordinator', 'member'] as const).map((r) =>
+          groupPermissionTable[action][r] ? 'yes' : '—',
         ),
       );
     }

@@ -15,6 +15,12 @@ export const callers = [
   'admin',
 ] as const;
 export type Caller = (typeof callers)[number];
+/**
+ * Callers only the rows that name them are tried with: a group's coordinator (in no trial) and
+ * a signed-in outsider (in no trial and no group).
+ */
+export const extraCallers = ['coordinator', 'outsider'] as const;
+export type ExtraCaller = (typeof extraCallers)[number];
 
 export interface MatrixRequest {
   url: string;
@@ -34,6 +40,7 @@ export interface MatrixRow {
    */
   request: (world: MatrixWorld, caller: Caller) => Promise<MatrixRequest> | MatrixRequest;
   expect: Record<Caller, number>;
+  expectExtra?: Partial<Record<ExtraCaller, number>>;
 }
 
 /** The usual answers for a read of the (unpublished) matrix trial. */

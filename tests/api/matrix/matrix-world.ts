@@ -6,7 +6,7 @@
 import crypto from 'node:crypto';
 import type { TestApp, TestUser } from '../../support/test-app';
 import { createUser, mintSessionCookie } from '../../support/test-app';
-import type { Caller } from './matrix-types';
+import type { Caller, ExtraCaller } from './matrix-types';
 
 export interface MatrixWorld {
   t: TestApp;
@@ -18,7 +18,11 @@ export interface MatrixWorld {
   plotB: string;
   traitId: string;
   users: Record<Exclude<Caller, 'anonymous'>, TestUser>;
-  cookies: Partial<Record<Caller, string>>;
+  cookies: Partial<Record<Caller | ExtraCaller, string>>;
+  /** The group owning the trial: `coordinator` coordinates it, the trial's people are members. */
+  groupId: string;
+  /** Register varieties of the trial's two entries. */
+  varieties: [string, string];
 }
 
 export async function buildMatrixWorld(t: TestApp): Promise<MatrixWorld> {
@@ -135,7 +139,82 @@ export async function buildMatrixWorld(t: TestApp): Promise<MatrixWorld> {
   const cookies: MatrixWorld['cookies'] = {};
   for (const caller of Object.keys(users) as (keyof typeof users)[])
     cookies[caller] = await mintSessionCookie(t, users[caller]);
-  return { t, trial, siteA: siteA!, siteB: siteB!, entries, plotA, plotB, traitId, users, cookies };
+  const register = await buildMatrixRegister(t, trial.id, entries);
+  return {
+    t,
+    trial,
+    siteA: siteA!,
+    siteB: siteB!,
+    entries,
+    plotA,
+    plotB,
+    traitId,
+    users,
+    cookies: { ...cookies, ...register.cookies },
+    groupId: register.groupId,
+    varieties: register.varieties,
+  };
+}
+
+/** The trial's group and register, a coordinator in no trial, and an outsider in nothing. */
+async function buildMatrixRegister(t: TestApp, trialId: string, entries: [string, string]) {
+  const db = t.db;
+  const coordinator = await createUser(db, { name: 'Cora Coordinator' });
+  const outsider = await createUser(db, { name: 'Otto Outsider' });
+  const group = await db
+    .insertInto('groups')
+    .values({ slug: 'matrix-group', name: 'Matrix group', created_by: null, updated_by: null })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  await db.updateTable('trials').set({ group_id: group.id }).where('id', '=', trialId).execute();
+  await db
+    .insertInto('group_members')
+    .values({ group_id: group.id, user_id: coordinator.id, role: 'coordinator', created_by: null })
+    .execute();
+  const members = await db
+    .selectFrom('trial_members')
+    .select('user_id')
+    .where('trial_id', '=', trialId)
+    .execute();
+  await db
+    .insertInto('group_members')
+    .values(
+      members.map((m) => ({
+        group_id: group.id,
+        user_id: m.user_id,
+        role: 'member' as const,
+        created_by: null,
+      })),
+    )
+    .execute();
+  const varieties: [string, string] = ['matrix-green', 'matrix-red'];
+  for (const [i, slug] of varieties.entries()) {
+    const v = await db
+      .insertInto('varieties')
+      .values({
+        group_id: group.id,
+        slug,
+        name: i === 0 ? 'Matrix Green' : 'Matrix Red',
+        crop: 'Okra',
+        created_by: null,
+        updated_by: null,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await db
+      .updateTable('entries')
+      .set({ variety_id: v.id })
+      .where('id', '=', entries[i]!)
+      .execute();
+  }
+  return {
+    groupId: group.id,
+    varieties,
+    cookies: {
+      coordinator: await mintSessionCookie(t, coordinator),
+      outsider: await mintSessionCookie(t, outsider),
+    },
+  };
 }
 
 /**

@@ -2,6 +2,7 @@ import { type Design, type DesignEntry, entryForm } from '@common/contracts/desi
 import { entryTypes } from '@common/contracts/trials';
 import { formatSpacing } from '@common/display-units';
 import { useState } from 'react';
+import { Link } from 'react-router-dom';
 import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUnitSystem } from '@/lib/session';
@@ -40,6 +41,7 @@ function EntryForm({
     inRowSpacingMm: lengthInput(editing?.inRowSpacingMm, unit),
     noFertilizer: editing?.noFertilizer ?? false,
     notes: editing?.notes ?? '',
+    varietyId: editing?.variety?.id ?? '',
   };
   const form = useContractForm(entryForm(unit), blank);
   const { errors, isSubmitting } = form.formState;
@@ -70,6 +72,21 @@ function EntryForm({
           {...form.register('name')}
         />
       </div>
+      <SelectField
+        label="Register variety"
+        hint="The variety this entry grows, followed across trials. Left as new, the register gains a variety of the entry’s name (or links the one it already has)."
+        error={errors.varietyId?.message}
+        options={[
+          ['', 'New in the register, named as the entry'] as const,
+          ...design.register.map((v) => [v.id, v.name] as const),
+        ]}
+        {...form.register('varietyId', {
+          onChange: (e: { target: { value: string } }) => {
+            const picked = design.register.find((v) => v.id === e.target.value);
+            if (picked && !form.getValues('name')) form.setValue('name', picked.name);
+          },
+        })}
+      />
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField
           label="Seed source"
@@ -141,7 +158,16 @@ function Entries({ design, slug }: { design: Design; slug: string }) {
             <li key={e.id} className="rounded-lg bg-white p-3 shadow-sm">
               <p className="font-semibold">
                 <span className="mr-2 rounded bg-leaf-100 px-1.5 font-mono">{e.code}</span>
-                {e.name}
+                {e.variety ? (
+                  <Link
+                    to={`/varieties/${e.variety.slug}`}
+                    className="text-leaf-800 underline decoration-leaf-300 underline-offset-2 hover:decoration-leaf-700"
+                  >
+                    {e.name}
+                  </Link>
+                ) : (
+                  e.name
+                )}
               </p>
               <p className="text-sm text-loam-700">
                 {entryTypeLabels[e.entryType]}

@@ -1,0 +1,54 @@
+/**
+ * The demo season's group and variety register: the invented seed library owns every demo
+ * trial, its coordinator is the demo lead, and each entry grows a register variety of its name.
+ */
+import crypto from 'node:crypto';
+import { sql } from 'kysely';
+import type { DB } from '../database';
+
+export const demoGroup = { slug: 'larkhaven-seed-library', name: 'Larkhaven Seed Library' };
+
+export async function seedDemoRegister(trx: DB, coordinatorId: string): Promise<void> {
+  const group = await trx
+    .insertInto('groups')
+    .values({ ...demoGroup, created_by: coordinatorId, updated_by: coordinatorId })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  await trx.updateTable('trials').set({ group_id: group.id }).execute();
+  await trx
+    .insertInto('group_members')
+    .values({ group_id: group.id, user_id: coordinatorId, role: 'coordinator' })
+    .execute();
+  await sql`
+    insert into group_members (group_id, user_id, role)
+    select distinct ${group.id}::uuid, user_id, 'member' from trial_members
+    on conflict (group_id, user_id) do nothing`.execute(trx);
+  const names = await sql<{ name: string; crop: string; entry_type: string; seed_source: string }>`
+    select distinct on (e.name) e.name, t.crop, e.entry_type, e.seed_source
+    from entries e join trials t on t.id = e.trial_id
+    order by e.name, t.season, e.created_at`.execute(trx);
+  for (const n of names.rows) {
+    // Demo addresses are readable and fixed, so links in the guide keep working.
+    const slug = n.name
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-+|-+$/g, '');
+    await trx
+      .insertInto('varieties')
+      .values({
+        id: crypto.randomUUID(),
+        group_id: group.id,
+        slug,
+        name: n.name,
+        crop: n.crop,
+        variety_type: n.entry_type as 'heirloom',
+        seed_source: n.seed_source,
+        created_by: coordinatorId,
+        updated_by: coordinatorId,
+      })
+      .execute();
+  }
+  await sql`
+    update entries e set variety_id = v.id from varieties v
+    where v.group_id = ${group.id} and v.name = e.name`.execute(trx);
+}

@@ -1,0 +1,248 @@
+import crypto from 'node:crypto';
+import { sql, type Insertable, type Updateable } from 'kysely';
+import type { VarietyType } from '../../common/contracts/varieties';
+import type { DB } from '../../db/database';
+import type { Trial, VarietiesTable } from '../../db/schema';
+
+/** Letters and digits that cannot be read as one another (no i, l, o, 0, 1). */
+const tailAlphabet = 'abcdefghjkmnpqrstuvwxyz23456789';
+
+/**
+ * An address from a name with a random tail, always: were the tail added only on a clash,
+ * a stranger could learn from their own variety's address that another group grows one by
+ * that name.
+ */
+export function newAddress(name: string, fallback: string): string {
+  const base =
+    name
+      .normalize('NFKD')
+      .replace(/[\u0300-\u036f]/g, '')
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-+|-+$/g, '')
+      .slice(0, 60)
+      .replace(/-+$/g, '') || fallback;
+  let tail = '';
+  for (let i = 0; i < 6; i++) tail += tailAlphabet[crypto.randomInt(tailAlphabet.length)];
+  return `${base}-${tail}`;
+}
+
+export function groupsOf(db: DB, userId: string) {
+  return db
+    .selectFrom('group_members as m')
+    .innerJoin('groups as g', 'g.id', 'm.group_id')
+    .select(['g.id', 'g.slug', 'g.name', 'm.role'])
+    .where('m.user_id', '=', userId)
+    .orderBy('g.name')
+    .execute();
+}
+
+export function allGroups(db: DB) {
+  return db.selectFrom('groups').select(['id', 'slug', 'name']).orderBy('name').execute();
+}
+
+/** The registers of these groups, each variety with the trials and seasons it was grown in. */
+export function listVarieties(db: DB, groupIds: string[] | 'all') {
+  let q = db
+    .selectFrom('varieties as v')
+    .leftJoin('entries as e', 'e.variety_id', 'v.id')
+    .leftJoin('trials as t', 't.id', 'e.trial_id')
+    .select([
+      'v.id',
+      'v.slug',
+      'v.name',
+      'v.crop',
+      'v.variety_type',
+      'v.aliases',
+      'v.group_id',
+      sql<number>`count(distinct t.id)::int`.as('trial_count'),
+      sql<number>`count(distinct t.season)::int`.as('season_count'),
+    ])
+    .groupBy('v.id')
+    .orderBy('v.crop')
+    .orderBy('v.name');
+  if (groupIds !== 'all') {
+    if (groupIds.length === 0) return Promise.resolve([]);
+    q = q.where('v.group_id', 'in', groupIds);
+  }
+  return q.execute();
+}
+
+export function findVarietyBySlug(db: DB, slug: string) {
+  return db
+    .selectFrom('varieties as v')
+    .innerJoin('groups as g', 'g.id', 'v.group_id')
+    .selectAll('v')
+    .select(['g.slug as group_slug', 'g.name as group_name'])
+    .where('v.slug', '=', slug)
+    .executeTakeFirst();
+}
+
+export function findVarietiesBySlugs(db: DB, slugs: string[]) {
+  return db.selectFrom('varieties').selectAll().where('slug', 'in', slugs).execute();
+}
+
+export function insertVariety(db: DB, values: Insertable<VarietiesTable>) {
+  return db.insertInto('varieties').values(values).returning('slug').executeTakeFirstOrThrow();
+}
+
+export function updateVariety(db: DB, id: string, values: Updateable<VarietiesTable>) {
+  return db.updateTable('varieties').set(values).where('id', '=', id).execute();
+}
+
+/** Every trial entry of these varieties, with its trial, oldest season first. */
+export async function entriesOfVarieties(db: DB, varietyIds: string[]) {
+  const rows = await db
+    .selectFrom('entries as e')
+    .innerJoin('trials as t', 't.id', 'e.trial_id')
+    .select([
+      'e.id as entry_id',
+      'e.variety_id',
+      'e.name as entry_name',
+      'e.code as entry_code',
+      'e.notes as entry_notes',
+    ])
+    .selectAll('t')
+    .where('e.variety_id', 'in', varietyIds)
+    .orderBy('t.season')
+    .orderBy('t.sowing_date')
+    .orderBy('t.title')
+    .execute();
+  return rows.map(({ entry_id, variety_id, entry_name, entry_code, entry_notes, ...trial }) => ({
+    entry: {
+      id: entry_id,
+      varietyId: variety_id!,
+      name: entry_name,
+      code: entry_code,
+      notes: entry_notes,
+    },
+    trial: trial satisfies Trial,
+  }));
+}
+
+export function trialSites(db: DB, trialId: string) {
+  return db
+    .selectFrom('sites')
+    .select(['name', 'region'])
+    .where('trial_id', '=', trialId)
+    .orderBy('name')
+    .execute();
+}
+
+/** A trial's traits in the lead's order. */
+export function trialTraits(db: DB, trialId: string) {
+  return db
+    .selectFrom('traits')
+    .select(['key', 'label'])
+    .where('trial_id', '=', trialId)
+    .orderBy('sort_order')
+    .orderBy('label')
+    .execute();
+}
+
+/** The letter method and significance level the lead set on the results sheet, if any. */
+export function sheetSettings(db: DB, trialId: string) {
+  return db
+    .selectFrom('results_sheets')
+    .select(['alpha', 'letters'])
+    .where('trial_id', '=', trialId)
+    .executeTakeFirst();
+}
+
+/** Photos of an entry (of the entry or of its plots), newest first. */
+export function entryPhotos(db: DB, trialId: string, entryId: string, limit: number) {
+  return db
+    .selectFrom('photos as p')
+    .leftJoin('plots as pl', 'pl.id', 'p.plot_id')
+    .select(['p.id', 'p.caption'])
+    .where('p.trial_id', '=', trialId)
+    .where('p.deleted_at', 'is', null)
+    .where('p.purged_at', 'is', null)
+    .where((eb) => eb.or([eb('p.entry_id', '=', entryId), eb('pl.entry_id', '=', entryId)]))
+    .orderBy('p.is_cover', 'desc')
+    .orderBy('p.created_at', 'desc')
+    .limit(limit)
+    .execute();
+}
+
+/** The group a person starts trials in: the first they coordinate, else a group of their own. */
+export async function ensureOwnGroup(db: DB, userId: string): Promise<string> {
+  const own = await db
+    .selectFrom('group_members as m')
+    .innerJoin('groups as g', 'g.id', 'm.group_id')
+    .select('g.id')
+    .where('m.user_id', '=', userId)
+    .where('m.role', '=', 'coordinator')
+    .orderBy('g.created_at')
+    .executeTakeFirst();
+  if (own) return own.id;
+  const user = await db
+    .selectFrom('users')
+    .select('name')
+    .where('id', '=', userId)
+    .executeTakeFirstOrThrow();
+  const name = `${user.name}'s trials`.slice(0, 120);
+  const group = await db
+    .insertInto('groups')
+    .values({ slug: newAddress(name, 'group'), name, created_by: userId, updated_by: userId })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  await db
+    .insertInto('group_members')
+    .values({ group_id: group.id, user_id: userId, role: 'coordinator', created_by: userId })
+    .execute();
+  return group.id;
+}
+
+/** Makes each person in a trial a member of its group (coordinators keep their role). */
+export function addGroupMember(db: DB, groupId: string, userId: string, by: string | null) {
+  return db
+    .insertInto('group_members')
+    .values({ group_id: groupId, user_id: userId, role: 'member', created_by: by })
+    .onConflict((oc) => oc.columns(['group_id', 'user_id']).doNothing())
+    .execute();
+}
+
+/** The register variety of this exact name in the group, made when the register has none. */
+export async function varietyNamed(
+  db: DB,
+  v: {
+    groupId: string;
+    name: string;
+    crop: string;
+    type: VarietyType;
+    seedSource: string;
+    by: string | null;
+  },
+): Promise<string> {
+  await db
+    .insertInto('varieties')
+    .values({
+      group_id: v.groupId,
+      slug: newAddress(v.name, 'variety'),
+      name: v.name,
+      crop: v.crop,
+      variety_type: v.type,
+      seed_source: v.seedSource,
+      created_by: v.by,
+      updated_by: v.by,
+    })
+    .onConflict((oc) => oc.columns(['group_id', 'name']).doNothing())
+    .execute();
+  const row = await db
+    .selectFrom('varieties')
+    .select('id')
+    .where('group_id', '=', v.groupId)
+    .where('name', '=', v.name)
+    .executeTakeFirstOrThrow();
+  return row.id;
+}
+
+export function findVarietyInGroup(db: DB, groupId: string, varietyId: string) {
+  return db
+    .selectFrom('varieties')
+    .select(['id', 'name'])
+    .where('id', '=', varietyId)
+    .where('group_id', '=', groupId)
+    .executeTakeFirst();
+}

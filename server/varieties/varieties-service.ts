@@ -1,0 +1,410 @@
+import type { z } from 'zod';
+import type {
+  Comparison,
+  compareQuery,
+  createVarietyBody,
+  GroupList,
+  updateVarietyBody,
+  VarietyList,
+  VarietyRecord,
+  VarietyTrial,
+} from '../../common/contracts/varieties';
+import { type Actor, canGroup } from '../../common/policy';
+import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
+import { AppError } from '../lib/app-error';
+import { groupForAction } from '../trials/trials-service';
+import { type Analyse, siteMeans, type TrialFigures, trialFigures } from './variety-figures';
+import * as repo from './varieties-repository';
+
+type Out<T extends z.ZodType> = z.output<T>;
+
+export async function listGroups(db: DB, actor: Actor | null): Promise<GroupList> {
+  if (!actor) throw new AppError('unauthenticated', 'Sign in to see your groups.');
+  const rows = await repo.groupsOf(db, actor.userId);
+  return { groups: rows.map((g) => ({ id: g.id, slug: g.slug, name: g.name, myRole: g.role })) };
+}
+
+/** The registers of the caller's groups (an administrator sees every group's). */
+export async function listVarieties(db: DB, actor: Actor | null): Promise<VarietyList> {
+  if (!actor) throw new AppError('unauthenticated', 'Sign in to see your groups’ registers.');
+  const groupIds = actor.isAdmin
+    ? ('all' as const)
+    : (await repo.groupsOf(db, actor.userId)).map((g) => g.id);
+  const rows = await repo.listVarieties(db, groupIds);
+  return {
+    varieties: rows.map((v) => ({
+      id: v.id,
+      slug: v.slug,
+      name: v.name,
+      crop: v.crop,
+      type: v.variety_type,
+      aliases: v.aliases,
+      groupId: v.group_id,
+      trialCount: v.trial_count,
+      seasonCount: v.season_count,
+    })),
+  };
+}
+
+/** A unique-name clash in a register, as a refusal on the name field. */
+async function uniqueName<T>(work: Promise<T>): Promise<T> {
+  try {
+    return await work;
+  } catch (err) {
+    const e = err as { code?: string; constraint?: string };
+    if (e.code === '23505' && e.constraint === 'varieties_group_id_name_key') {
+      const message = 'The register already has a variety of this name.';
+      throw new AppError('conflict', message, { fields: [{ path: 'body.name', message }] });
+    }
+    throw err;
+  }
+}
+
+export async function createVariety(
+  db: DB,
+  actor: Actor | null,
+  b: Out<typeof createVarietyBody>,
+): Promise<{ slug: string }> {
+  await groupForAction(db, b.groupId, actor, 'register.edit');
+  return uniqueName(
+    repo.insertVariety(db, {
+      group_id: b.groupId,
+      slug: repo.newAddress(b.name, 'variety'),
+      name: b.name,
+      crop: b.crop,
+      variety_type: b.type,
+      origin: b.origin,
+      seed_source: b.seedSource,
+      description: b.description,
+      expected_traits: b.expectedTraits,
+      aliases: b.aliases,
+      created_by: actor!.userId,
+      updated_by: actor!.userId,
+    }),
+  );
+}
+
+/**
+ * A variety the caller may see: in one of their groups' registers, or grown in a trial whose
+ * figures they may see (its members; anyone once its results are published). Otherwise 404.
+ */
+async function visibleVariety(db: DB, actor: Actor | null, slug: string) {
+  const variety = await repo.findVarietyBySlug(db, slug);
+  if (!variety) throw AppError.notFound('The variety');
+  const role = actor ? await groupRoleOf(db, variety.group_id, actor) : null;
+  return { variety, role, inGroup: canGroup(actor, 'register.read', role) };
+}
+
+async function groupRoleOf(db: DB, groupId: string, actor: Actor) {
+  const groups = await repo.groupsOf(db, actor.userId);
+  return groups.find((g) => g.id === groupId)?.role ?? null;
+}
+
+export async function updateVariety(
+  db: DB,
+  actor: Actor | null,
+  slug: string,
+  b: Out<typeof updateVarietyBody>,
+): Promise<void> {
+  const variety = await repo.findVarietyBySlug(db, slug);
+  if (!variety) throw AppError.notFound('The variety');
+  await groupForAction(db, variety.group_id, actor, 'register.edit');
+  await uniqueName(
+    repo.updateVariety(db, variety.id, {
+      name: b.name,
+      crop: b.crop,
+      variety_type: b.type,
+      origin: b.origin,
+      seed_source: b.seedSource,
+      description: b.description,
+      expected_traits: b.expectedTraits,
+      aliases: b.aliases,
+      updated_by: actor!.userId,
+    }),
+  );
+}
+
+/** Each trial's figures once per request, however many of the chosen varieties it grew. */
+function figuresOnce(db: DB, actor: Actor | null, analyse: Analyse) {
+  const cache = new Map<string, Promise<TrialFigures | null>>();
+  return (trial: Trial) => {
+    let f = cache.get(trial.id);
+    if (!f) {
+      f = trialFigures(db, actor, trial, analyse);
+      cache.set(trial.id, f);
+    }
+    return f;
+  };
+}
+
+export async function varietyRecord(
+  db: DB,
+  actor: Actor | null,
+  slug: string,
+): Promise<VarietyRecord> {
+  const { variety, role, inGroup } = await visibleVariety(db, actor, slug);
+  const figuresOf = figuresOnce(db, actor, 'all');
+  const trials: VarietyTrial[] = [];
+  const photos: VarietyRecord['photos'] = [];
+  for (const { entry, trial } of await repo.entriesOfVarieties(db, [variety.id])) {
+    const f = await figuresOf(trial);
+    if (!f) continue;
+    // The published version knows the entry by the name it had when published.
+    const name = f.entryNames.get(entry.id);
+    if (name === undefined) continue;
+    const sheetEntry = f.snapshot?.entries.find((e) => e.id === entry.id);
+    trials.push({
+      slug: trial.slug,
+      title: f.snapshot?.trial.title ?? trial.title,
+      season: f.snapshot?.trial.season ?? trial.season,
+      view: f.view,
+      version: f.version,
+      entry: {
+        name,
+        code: sheetEntry?.code ?? entry.code,
+        notes: f.view === 'trial' ? entry.notes : (sheetEntry?.note ?? ''),
+      },
+      sites: f.snapshot
+        ? f.snapshot.sites.map((s) => ({ name: s.name, region: s.region }))
+        : await repo.trialSites(db, trial.id),
+      traits: f.figures.map((fig) => {
+        const m = fig.means.get(name);
+        return {
+          key: fig.key,
+          label: fig.label,
+          unit: fig.unit,
+          direction: fig.direction,
+          decimals: fig.decimals,
+          mean: m?.mean ?? null,
+          rank: m?.rank ?? null,
+          entryCount: fig.means.size,
+          group: m?.group ?? '',
+          sites: siteMeans(fig, name),
+        };
+      }),
+      warnings: f.warnings,
+    });
+    if (f.view === 'trial') {
+      for (const p of await repo.entryPhotos(db, trial.id, entry.id, 6)) {
+        const base = `/api/trials/${trial.slug}/photos/${p.id}`;
+        photos.push({
+          id: p.id,
+          caption: p.caption,
+          trialSlug: trial.slug,
+          season: trial.season,
+          thumbUrl: `${base}/thumb`,
+          displayUrl: `${base}/display`,
+        });
+      }
+    } else if (sheetEntry?.photo) {
+      const base = `/api/results/${trial.slug}/v/${f.version}/photos/${sheetEntry.photo.id}`;
+      photos.push({
+        id: sheetEntry.photo.id,
+        caption: sheetEntry.photo.caption,
+        trialSlug: trial.slug,
+        season: f.snapshot!.trial.season,
+        thumbUrl: `${base}/thumb`,
+        displayUrl: `${base}/display`,
+      });
+    }
+  }
+  if (!inGroup && trials.length === 0) throw AppError.notFound('The variety');
+  return {
+    variety: {
+      id: variety.id,
+      slug: variety.slug,
+      name: variety.name,
+      crop: variety.crop,
+      type: variety.variety_type,
+      origin: variety.origin,
+      seedSource: variety.seed_source,
+      description: variety.description,
+      expectedTraits: variety.expected_traits,
+      aliases: variety.aliases,
+      group: { id: variety.group_id, slug: variety.group_slug, name: variety.group_name },
+    },
+    canEdit: canGroup(actor, 'register.edit', role),
+    trials,
+    photos,
+  };
+}
+
+/**
+ * Chosen varieties side by side on one trait, one column per trial and site. Pairs of
+ * varieties are only compared over the environments they shared; a pair that shared none
+ * says so and carries no difference.
+ */
+export async function compareVarieties(
+  db: DB,
+  actor: Actor | null,
+  q: Out<typeof compareQuery>,
+): Promise<Comparison> {
+  const found = await repo.findVarietiesBySlugs(db, q.varieties);
+  const chosen = [];
+  for (const slug of q.varieties) {
+    const v = found.find((f) => f.slug === slug);
+    if (!v) throw AppError.notFound(`The variety "${slug}"`);
+    chosen.push(v);
+  }
+  const entries = await repo.entriesOfVarieties(
+    db,
+    chosen.map((v) => v.id),
+  );
+  // Every trait of every trial whose figures the caller may see, to choose from.
+  const listed = figuresOnce(db, actor, 'none');
+  const traitLabels = new Map<string, string>();
+  const visibleTrials = new Set<string>();
+  for (const { trial } of entries) {
+    const f = await listed(trial);
+    if (!f) continue;
+    visibleTrials.add(trial.id);
+    for (const t of f.traits) if (!traitLabels.has(t.key)) traitLabels.set(t.key, t.label);
+  }
+  // A variety is compared only when the caller may see it (group member or a visible trial).
+  for (const v of chosen) {
+    const role = actor ? await groupRoleOf(db, v.group_id, actor) : null;
+    const grownVisibly = entries.some(
+      (e) => e.entry.varietyId === v.id && visibleTrials.has(e.trial.id),
+    );
+    if (!canGroup(actor, 'register.read', role) && !grownVisibly)
+      throw AppError.notFound(`The variety "${v.slug}"`);
+  }
+  const traits = [...traitLabels].map(([key, label]) => ({ key, label }));
+  const traitKey = q.trait ?? traits[0]?.key;
+  if (q.trait !== undefined && !traitLabels.has(q.trait))
+    throw new AppError(
+      'validation_failed',
+      'None of these varieties’ trials measured this trait.',
+      {
+        fields: [
+          { path: 'query.trait', message: 'Choose a trait these varieties were measured on.' },
+        ],
+      },
+    );
+
+  const columns: Comparison['columns'] = [];
+  const cells = new Map<string, Map<number, number>>(chosen.map((v) => [v.id, new Map()]));
+  let trait: Comparison['trait'] = null;
+  if (traitKey !== undefined) {
+    const figuresOf = figuresOnce(db, actor, { trait: traitKey });
+    const columnIndex = new Map<string, number>();
+    for (const { entry, trial: row } of entries) {
+      if (!visibleTrials.has(row.id)) continue;
+      const f = await figuresOf(row);
+      const fig = f?.figures[0];
+      if (!f || !fig) continue;
+      trait ??= {
+        key: fig.key,
+        label: fig.label,
+        unit: fig.unit,
+        direction: fig.direction,
+        decimals: fig.decimals,
+      };
+      const name = f.entryNames.get(entry.id);
+      if (name === undefined) continue;
+      for (const s of siteMeans(fig, name)) {
+        const key = `${row.id}\u0000${s.site}`;
+        let i = columnIndex.get(key);
+        if (i === undefined) {
+          i = columns.length;
+          columnIndex.set(key, i);
+          columns.push({
+            trialSlug: row.slug,
+            trialTitle: f.snapshot?.trial.title ?? row.title,
+            season: f.snapshot?.trial.season ?? row.season,
+            site: s.site,
+          });
+        }
+        cells.get(entry.varietyId)!.set(i, s.mean);
+      }
+    }
+  }
+  const trialsOf = (varietyId: string) =>
+    new Set(
+      entries
+        .filter((e) => e.entry.varietyId === varietyId && visibleTrials.has(e.trial.id))
+        .map((e) => e.trial.id),
+    );
+  const pairs: Comparison['pairs'] = [];
+  for (let i = 0; i < chosen.length; i++)
+    for (let j = i + 1; j < chosen.length; j++) {
+      const a = chosen[i]!;
+      const b = chosen[j]!;
+      const inB = trialsOf(b.id);
+      const shared = [...trialsOf(a.id)].filter((t) => inB.has(t)).length;
+      const diffs: number[] = [];
+      for (const [col, mean] of cells.get(a.id)!) {
+        const other = cells.get(b.id)!.get(col);
+        if (other !== undefined) diffs.push(mean - other);
+      }
+      pairs.push({
+        a: a.slug,
+        b: b.slug,
+        sharedTrials: shared,
+        sharedEnvironments: diffs.length,
+        difference: diffs.length ? diffs.reduce((s, d) => s + d, 0) / diffs.length : null,
+      });
+    }
+  return {
+    varieties: chosen.map((v) => ({ slug: v.slug, name: v.name })),
+    traits,
+    trait,
+    columns,
+    rows: chosen.map((v) => ({
+      slug: v.slug,
+      means: columns.map((_, i) => cells.get(v.id)!.get(i) ?? null),
+    })),
+    pairs,
+  };
+}
+
+/* ---------- Trials and their entries join the register ---------- */
+
+/** The group a new trial belongs to: the first its lead coordinates, else one of the lead's own. */
+export function groupForNewTrial(trx: DB, leadId: string): Promise<string> {
+  return repo.ensureOwnGroup(trx, leadId);
+}
+
+/** Whoever copies a trial into a new season joins its group (the copy stays in the group). */
+export function joinGroup(trx: DB, groupId: string, userId: string) {
+  return repo.addGroupMember(trx, groupId, userId, userId);
+}
+
+/**
+ * The register variety a trial entry grows: the one picked from the trial's group's register,
+ * or, when none is picked, the register's variety of the entry's exact name (made in the same
+ * step when the register has none). Null for a trial outside any group.
+ */
+export async function varietyForEntry(
+  trx: DB,
+  trial: Pick<Trial, 'group_id' | 'crop'>,
+  entry: {
+    varietyId: string | null;
+    name: string;
+    entryType: 'heirloom' | 'open_pollinated' | 'hybrid';
+    seedSource: string;
+  },
+  by: string,
+): Promise<string | null> {
+  if (entry.varietyId !== null) {
+    const found =
+      trial.group_id && (await repo.findVarietyInGroup(trx, trial.group_id, entry.varietyId));
+    if (!found)
+      throw new AppError('validation_failed', 'Choose a variety from this trial’s register.', {
+        fields: [
+          { path: 'body.varietyId', message: 'Choose a variety from this trial’s register.' },
+        ],
+      });
+    return found.id;
+  }
+  if (!trial.group_id) return null;
+  return repo.varietyNamed(trx, {
+    groupId: trial.group_id,
+    name: entry.name,
+    crop: trial.crop,
+    type: entry.entryType,
+    seedSource: entry.seedSource,
+    by,
+  });
+}

@@ -1,0 +1,157 @@
+/**
+ * A trial's figures as one caller may see them: live from the records for the trial's
+ * members, from the latest published version for everyone else once published, nothing
+ * otherwise. The variety page and the cross-season table both read trials through here.
+ */
+import type { TrialAnalysis } from '../../common/contracts/analysis';
+import { sheetTraitDecimals, type ResultSnapshot } from '../../common/contracts/results';
+import { type Actor, can } from '../../common/policy';
+import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
+import { analyseTrialTrait } from '../analysis/analysis-service';
+import { AppError } from '../lib/app-error';
+import { publicVersion } from '../results/results-service';
+import { loadTrialAccess } from '../trials/trial-access';
+import * as repo from './varieties-repository';
+
+export interface TraitFigures {
+  key: string;
+  label: string;
+  unit: string;
+  direction: 'higher' | 'lower' | 'none';
+  decimals: number;
+  /** Keyed by the entry's name as the analysis (or the published version) knows it. */
+  means: Map<string, { mean: number; rank: number | null; group: string }>;
+  plotValues: { entry: string; site: string; value: number }[];
+}
+
+export interface TrialFigures {
+  view: 'trial' | 'sheet';
+  version: number | null;
+  /** Entry id → the name its means are kept under. */
+  entryNames: Map<string, string>;
+  /** Every trait of the trial (the analysed ones are in `figures`). */
+  traits: { key: string; label: string }[];
+  figures: TraitFigures[];
+  warnings: string[];
+  snapshot: ResultSnapshot | null;
+}
+
+function fromAnalysis(a: TrialAnalysis): TraitFigures {
+  const adjusted = new Map(a.adjustedMeans.map((m) => [m.variety, m.mean]));
+  return {
+    key: a.traitKey,
+    label: a.traitLabel,
+    unit: a.unit,
+    direction: a.direction,
+    decimals: a.decimals.mean,
+    // Ranks and letters follow the least-squares means on unbalanced layouts; so does the mean shown.
+    means: new Map(
+      a.means.map((m) => [
+        m.variety,
+        { mean: adjusted.get(m.variety) ?? m.mean, rank: m.rank, group: m.group },
+      ]),
+    ),
+    plotValues: a.plotValues.map((p) => ({ entry: p.entry, site: p.site, value: p.value })),
+  };
+}
+
+function fromSnapshot(s: ResultSnapshot, trait: ResultSnapshot['traits'][number]): TraitFigures {
+  const onlySite = s.sites.length === 1 ? s.sites[0]!.name : '';
+  return {
+    key: trait.key,
+    label: trait.label,
+    unit: trait.unit,
+    direction: trait.direction,
+    decimals: sheetTraitDecimals(s, trait).mean,
+    means: new Map(
+      trait.means.map((m) => [
+        m.variety,
+        { mean: m.adjustedMean ?? m.mean, rank: m.rank, group: m.group },
+      ]),
+    ),
+    plotValues: s.plotValues
+      .filter((v) => v.trait === trait.key)
+      .map((v) => ({ entry: v.variety, site: v.site ?? onlySite, value: v.value })),
+  };
+}
+
+/** Which traits to analyse: every one, none (only list them), or one. */
+export type Analyse = 'all' | 'none' | { trait: string };
+const wanted = (analyse: Analyse, key: string) =>
+  analyse === 'all' || (analyse !== 'none' && analyse.trait === key);
+
+/** The trial's figures for this caller, or null when the caller may see none. */
+export async function trialFigures(
+  db: DB,
+  actor: Actor | null,
+  trial: Trial,
+  analyse: Analyse,
+): Promise<TrialFigures | null> {
+  const { access } = await loadTrialAccess(db, trial, actor);
+  if (can(actor, 'trial.read', access)) {
+    const [traits, settings, entries] = await Promise.all([
+      repo.trialTraits(db, trial.id),
+      repo.sheetSettings(db, trial.id),
+      db.selectFrom('entries').select(['id', 'name']).where('trial_id', '=', trial.id).execute(),
+    ]);
+    const figures: TraitFigures[] = [];
+    const warnings: string[] = [];
+    for (const t of traits) {
+      if (!wanted(analyse, t.key)) continue;
+      try {
+        const a = await analyseTrialTrait(db, trial, {
+          trait: t.key,
+          basis: 'plot',
+          alpha: settings?.alpha ?? 0.05,
+          letters: settings?.letters ?? 'hsd',
+        });
+        figures.push(fromAnalysis(a));
+      } catch (err) {
+        if (!(err instanceof AppError) || err.status >= 500) throw err;
+        warnings.push(`${t.label}: ${err.message}`);
+      }
+    }
+    return {
+      view: 'trial',
+      version: null,
+      entryNames: new Map(entries.map((e) => [e.id, e.name])),
+      traits: traits.map((t) => ({ key: t.key, label: t.label })),
+      figures,
+      warnings,
+      snapshot: null,
+    };
+  }
+  if (trial.status !== 'published') return null;
+  let snapshot: ResultSnapshot;
+  try {
+    snapshot = await publicVersion(db, trial.slug);
+  } catch (err) {
+    if (err instanceof AppError && err.status === 404) return null;
+    throw err;
+  }
+  return {
+    view: 'sheet',
+    version: snapshot.version,
+    entryNames: new Map(snapshot.entries.map((e) => [e.id, e.name])),
+    traits: snapshot.traits.map((t) => ({ key: t.key, label: t.label })),
+    figures: snapshot.traits
+      .filter((t) => wanted(analyse, t.key))
+      .map((t) => fromSnapshot(snapshot, t)),
+    warnings: [],
+    snapshot,
+  };
+}
+
+/** The entry's arithmetic mean of plot values at each site. */
+export function siteMeans(f: TraitFigures, entryName: string) {
+  const bySite = new Map<string, { sum: number; n: number }>();
+  for (const v of f.plotValues) {
+    if (v.entry !== entryName) continue;
+    const s = bySite.get(v.site) ?? { sum: 0, n: 0 };
+    s.sum += v.value;
+    s.n += 1;
+    bySite.set(v.site, s);
+  }
+  return [...bySite].map(([site, s]) => ({ site, mean: s.sum / s.n, n: s.n }));
+}
