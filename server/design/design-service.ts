@@ -32,6 +32,7 @@ import { writeAudit } from '../records/records-service';
 import { differingFields } from '../records/record-changes';
 import { copySheetSettings, latestPublishedVersion } from '../results/results-service';
 import type { z } from 'zod';
+import { newAddress, wordsOf } from '../lib/address';
 import { AppError, fieldError } from '../lib/app-error';
 import { trialForAction, trialHeading, traitView } from '../trials/trials-service';
 import { groupForNewTrial, joinGroup, varietyForEntry } from '../varieties/varieties-service';
@@ -56,31 +57,10 @@ async function unique<T>(work: Promise<T>, byConstraint: Record<string, [string,
 /* ---------- Creating and editing the trial ---------- */
 
 /** A readable address from the title: lower-case words joined by hyphens. */
-export function slugFromTitle(title: string): string {
-  const base = title
-    .normalize('NFKD')
-    .replace(/[\u0300-\u036f]/g, '')
-    .toLowerCase()
-    .replace(/[^a-z0-9]+/g, '-')
-    .replace(/^-+|-+$/g, '')
-    .slice(0, 60)
-    .replace(/-+$/g, '');
-  return base || 'trial';
-}
+export const slugFromTitle = (title: string) => wordsOf(title, 'trial');
 
-/** Letters and digits that cannot be read as one another (no i, l, o, 0, 1). */
-const tailAlphabet = 'abcdefghjkmnpqrstuvwxyz23456789';
-
-/**
- * A new trial's address: the title's words and a short random tail, always. Were the tail
- * added only when the plain address is taken, an outsider could learn from their own new
- * trial's address that a private trial of that name exists.
- */
-export function newTrialSlug(title: string): string {
-  let tail = '';
-  for (let i = 0; i < 6; i++) tail += tailAlphabet[crypto.randomInt(tailAlphabet.length)];
-  return `${slugFromTitle(title)}-${tail}`;
-}
+/** A new trial's address: the title's words and a short random tail, always. */
+export const newTrialSlug = (title: string) => newAddress(title, 'trial');
 
 export async function createTrial(
   db: DB,

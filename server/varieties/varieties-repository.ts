@@ -1,31 +1,8 @@
-import crypto from 'node:crypto';
 import { sql, type Insertable, type Updateable } from 'kysely';
 import type { VarietyType } from '../../common/contracts/varieties';
 import type { DB } from '../../db/database';
 import type { Trial, VarietiesTable } from '../../db/schema';
-
-/** Letters and digits that cannot be read as one another (no i, l, o, 0, 1). */
-const tailAlphabet = 'abcdefghjkmnpqrstuvwxyz23456789';
-
-/**
- * An address from a name with a random tail, always: were the tail added only on a clash,
- * a stranger could learn from their own variety's address that another group grows one by
- * that name.
- */
-export function newAddress(name: string, fallback: string): string {
-  const base =
-    name
-      .normalize('NFKD')
-      .replace(/[\u0300-\u036f]/g, '')
-      .toLowerCase()
-      .replace(/[^a-z0-9]+/g, '-')
-      .replace(/^-+|-+$/g, '')
-      .slice(0, 60)
-      .replace(/-+$/g, '') || fallback;
-  let tail = '';
-  for (let i = 0; i < 6; i++) tail += tailAlphabet[crypto.randomInt(tailAlphabet.length)];
-  return `${base}-${tail}`;
-}
+import { newAddress } from '../lib/address';
 
 export function groupsOf(db: DB, userId: string) {
   return db

@@ -13,6 +13,7 @@ import { type Actor, canGroup } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
+import { newAddress } from '../lib/address';
 import { groupForAction } from '../trials/trials-service';
 import { type Analyse, siteMeans, type TrialFigures, trialFigures } from './variety-figures';
 import * as repo from './varieties-repository';
@@ -69,20 +70,29 @@ export async function createVariety(
   await groupForAction(db, b.groupId, actor, 'register.edit');
   return uniqueName(
     repo.insertVariety(db, {
-      group_id: b.groupId,
-      slug: repo.newAddress(b.name, 'variety'),
+      ...varietyColumns(b),
       name: b.name,
       crop: b.crop,
-      variety_type: b.type,
-      origin: b.origin,
-      seed_source: b.seedSource,
-      description: b.description,
-      expected_traits: b.expectedTraits,
-      aliases: b.aliases,
+      group_id: b.groupId,
+      slug: newAddress(b.name, 'variety'),
       created_by: actor!.userId,
       updated_by: actor!.userId,
     }),
   );
+}
+
+/** The body's fields under their column names (a field left out of an edit stays undefined). */
+function varietyColumns(b: Partial<Out<typeof updateVarietyBody>>) {
+  return {
+    name: b.name,
+    crop: b.crop,
+    variety_type: b.type,
+    origin: b.origin,
+    seed_source: b.seedSource,
+    description: b.description,
+    expected_traits: b.expectedTraits,
+    aliases: b.aliases,
+  };
 }
 
 /**
@@ -111,17 +121,7 @@ export async function updateVariety(
   if (!variety) throw AppError.notFound('The variety');
   await groupForAction(db, variety.group_id, actor, 'register.edit');
   await uniqueName(
-    repo.updateVariety(db, variety.id, {
-      name: b.name,
-      crop: b.crop,
-      variety_type: b.type,
-      origin: b.origin,
-      seed_source: b.seedSource,
-      description: b.description,
-      expected_traits: b.expectedTraits,
-      aliases: b.aliases,
-      updated_by: actor!.userId,
-    }),
+    repo.updateVariety(db, variety.id, { ...varietyColumns(b), updated_by: actor!.userId }),
   );
 }
 
