@@ -92,12 +92,48 @@ export const conflictDetailsSchema = z.object({
 export type ConflictDetails = z.infer<typeof conflictDetailsSchema>;
 
 export const listQuery = z.object({
-  siteId: z.uuid().optional(),
-  plotId: z.uuid().optional(),
+  siteId: z.uuid('Not a site id.').optional(),
+  plotId: z.uuid('Not a plot id.').optional(),
   from: isoDate.optional(),
   to: isoDate.optional(),
   includeDeleted: z.enum(['true', 'false']).optional(),
 });
+
+/** The most rows one page of a record log carries. */
+export const maxLogPageSize = 200;
+/** Rows a log page carries when the request does not say. */
+export const defaultLogPageSize = 50;
+
+/**
+ * A page of a record log, newest first: site, date range and a search over the entry, site,
+ * plot and note, then `page` (from 1) of `limit` rows.
+ */
+const logPageQuery = listQuery.extend({
+  q: z.string().trim().max(100, 'Search for at most 100 characters.').optional(),
+  page: z.coerce
+    .number({ error: 'The page is a whole number from 1.' })
+    .int('The page is a whole number from 1.')
+    .min(1, 'The page is a whole number from 1.')
+    .max(100_000, 'There are not that many pages.')
+    .default(1),
+  limit: z.coerce
+    .number({ error: `Ask for 1 to ${maxLogPageSize} rows a page.` })
+    .int(`Ask for 1 to ${maxLogPageSize} rows a page.`)
+    .min(1, `Ask for 1 to ${maxLogPageSize} rows a page.`)
+    .max(maxLogPageSize, `Ask for 1 to ${maxLogPageSize} rows a page.`)
+    .default(defaultLogPageSize),
+});
+const fromNotAfterTo = <T extends { from?: string; to?: string }>(q: T) =>
+  q.from === undefined || q.to === undefined || q.from <= q.to;
+const dateRangeIssue = { message: 'The range starts after it ends.', path: ['from'] };
+
+/** Where a log page stands in the whole filtered list. */
+const pageMeta = {
+  page: z.number().int(),
+  limit: z.number().int(),
+  /** rows that match the filters, on every page */
+  total: z.number().int(),
+};
 
 // ---------- Harvests ----------
 
@@ -132,7 +168,18 @@ export const updateHarvestBody = z
   .partial()
   .extend({ version: z.number().int().min(1) });
 export type UpdateHarvestBody = z.input<typeof updateHarvestBody>;
-export const harvestListSchema = z.object({ harvests: z.array(harvestSchema) });
+/** GET /api/trials/:slug/harvests — a page of the harvest log. */
+export const harvestLogQuery = logPageQuery
+  .extend({ grade: z.enum(harvestGrades, { error: 'Choose marketable or cull.' }).optional() })
+  .refine(fromNotAfterTo, dateRangeIssue);
+export type HarvestLogQuery = z.input<typeof harvestLogQuery>;
+export const harvestListSchema = z.object({
+  harvests: z.array(harvestSchema),
+  ...pageMeta,
+  /** the mass of every matching harvest, on every page */
+  totalMassG: z.number(),
+});
+export type HarvestList = z.infer<typeof harvestListSchema>;
 
 // ---------- Observations ----------
 
@@ -181,7 +228,16 @@ export const updateObservationBody = z
   .partial()
   .extend({ version: z.number().int().min(1) });
 export type UpdateObservationBody = z.input<typeof updateObservationBody>;
-export const observationListSchema = z.object({ observations: z.array(observationSchema) });
+/** GET /api/trials/:slug/observations — a page of the observation log. */
+export const observationLogQuery = logPageQuery
+  .extend({ traitId: z.uuid('Not a trait id.').optional() })
+  .refine(fromNotAfterTo, dateRangeIssue);
+export type ObservationLogQuery = z.input<typeof observationLogQuery>;
+export const observationListSchema = z.object({
+  observations: z.array(observationSchema),
+  ...pageMeta,
+});
+export type ObservationList = z.infer<typeof observationListSchema>;
 
 // ---------- Field events ----------
 

@@ -1,4 +1,11 @@
-import { type Insertable, type Selectable, type Updateable, sql } from 'kysely';
+import {
+  type Expression,
+  type Insertable,
+  type Selectable,
+  type SqlBool,
+  type Updateable,
+  sql,
+} from 'kysely';
 import type { RecordTable } from '../../common/contracts/records';
 import type { DB } from '../../db/database';
 import type { Database, PlotsTable } from '../../db/schema';
@@ -262,6 +269,13 @@ export interface ListFilters {
   to?: string;
   includeDeleted?: boolean;
   ids?: string[];
+  /** words to find in the entry, site, plot number or note (and the trait of an observation) */
+  search?: string;
+}
+/** Which rows of the ordered list one page holds. */
+export interface PageWindow {
+  offset: number;
+  limit: number;
 }
 
 // Every record list selects its table as `r`, with plots as `p`, sites `s` and entries `e`.
@@ -288,12 +302,55 @@ const plotColumns = [
   'e.name as entryName',
 ] as const;
 
-export function listHarvests(db: DB, trialId: string, f: ListFilters) {
-  return db
+/** `%text%` for ILIKE, with the user's own % and _ taken literally. */
+const containing = (text: string) => `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+
+/**
+ * The filters a harvest or observation list shares, on the aliases above. `dated` is the
+ * record's own date column; `searched` adds columns the search also reads.
+ */
+function plotRecordFilter(
+  f: ListFilters,
+  dated: 'r.harvested_on' | 'r.observed_on',
+  searched: string[] = [],
+): Expression<SqlBool> {
+  const date = sql.ref(dated);
+  const parts = [
+    f.includeDeleted ? null : sql`r.deleted_at is null`,
+    f.siteId === undefined ? null : sql`p.site_id = ${f.siteId}`,
+    f.plotId === undefined ? null : sql`r.plot_id = ${f.plotId}`,
+    f.from === undefined ? null : sql`${date} >= ${f.from}`,
+    f.to === undefined ? null : sql`${date} <= ${f.to}`,
+    f.ids === undefined ? null : sql`r.id = any(${f.ids}::uuid[])`,
+    f.search
+      ? sql`concat_ws(' ', ${sql.join([
+          sql`e.name, e.code, s.name, p.plot_number::text, r.note`,
+          ...searched.map((c) => sql.ref(c)),
+        ])}) ilike ${containing(f.search)}`
+      : null,
+  ].filter((x) => x !== null);
+  return parts.length ? sql<SqlBool>`${sql.join(parts, sql` and `)}` : sql<SqlBool>`true`;
+}
+
+type HarvestFilters = ListFilters & { grade?: 'marketable' | 'cull' };
+const harvestsOf = (db: DB, trialId: string, f: HarvestFilters) =>
+  db
     .selectFrom('harvests as r')
     .innerJoin('plots as p', 'p.id', 'r.plot_id')
     .innerJoin('sites as s', 's.id', 'p.site_id')
     .innerJoin('entries as e', 'e.id', 'p.entry_id')
+    .where('r.trial_id', '=', trialId)
+    .where(plotRecordFilter(f, 'r.harvested_on'))
+    .$if(f.grade !== undefined, (q) => q.where('r.grade', '=', f.grade!));
+
+/** Harvests newest first; one page of them when a window is given. */
+export function listHarvests(
+  db: DB,
+  trialId: string,
+  f: HarvestFilters,
+  window?: PageWindow,
+) {
+  return harvestsOf(db, trialId, f)
     .select([
       ...recordColumns,
       ...plotColumns,
@@ -303,27 +360,44 @@ export function listHarvests(db: DB, trialId: string, f: ListFilters) {
       'r.grade',
       'r.note',
     ])
-    .where('r.trial_id', '=', trialId)
-    .$if(!f.includeDeleted, (q) => q.where('r.deleted_at', 'is', null))
-    .$if(f.siteId !== undefined, (q) => q.where('p.site_id', '=', f.siteId!))
-    .$if(f.plotId !== undefined, (q) => q.where('r.plot_id', '=', f.plotId!))
-    .$if(f.from !== undefined, (q) => q.where('r.harvested_on', '>=', f.from!))
-    .$if(f.to !== undefined, (q) => q.where('r.harvested_on', '<=', f.to!))
-    .$if(f.ids !== undefined, (q) => q.where('r.id', 'in', f.ids!))
     .orderBy('r.harvested_on', 'desc')
     .orderBy('s.name')
     .orderBy('p.plot_number')
     .orderBy('r.created_at')
+    .orderBy('r.id')
+    .$if(window !== undefined, (q) => q.limit(window!.limit).offset(window!.offset))
     .execute();
 }
 
-export function listObservations(db: DB, trialId: string, f: ListFilters & { traitId?: string }) {
-  return db
+/** How many harvests match, and their mass, on every page. */
+export function harvestTotals(db: DB, trialId: string, f: HarvestFilters) {
+  return harvestsOf(db, trialId, f)
+    .select([
+      sql<number>`count(*)::int`.as('total'),
+      sql<number>`coalesce(sum(r.mass_g), 0)::float8`.as('totalMassG'),
+    ])
+    .executeTakeFirstOrThrow();
+}
+
+const observationsOf = (db: DB, trialId: string, f: ListFilters & { traitId?: string }) =>
+  db
     .selectFrom('observations as r')
     .innerJoin('plots as p', 'p.id', 'r.plot_id')
     .innerJoin('sites as s', 's.id', 'p.site_id')
     .innerJoin('entries as e', 'e.id', 'p.entry_id')
     .innerJoin('traits as t', 't.id', 'r.trait_id')
+    .where('r.trial_id', '=', trialId)
+    .where(plotRecordFilter(f, 'r.observed_on', ['t.label']))
+    .$if(f.traitId !== undefined, (q) => q.where('r.trait_id', '=', f.traitId!));
+
+/** Observations newest first; one page of them when a window is given. */
+export function listObservations(
+  db: DB,
+  trialId: string,
+  f: ListFilters & { traitId?: string },
+  window?: PageWindow,
+) {
+  return observationsOf(db, trialId, f)
     .select([
       ...recordColumns,
       ...plotColumns,
@@ -337,20 +411,21 @@ export function listObservations(db: DB, trialId: string, f: ListFilters & { tra
       'r.plant_number as plantNumber',
       'r.note',
     ])
-    .where('r.trial_id', '=', trialId)
-    .$if(!f.includeDeleted, (q) => q.where('r.deleted_at', 'is', null))
-    .$if(f.siteId !== undefined, (q) => q.where('p.site_id', '=', f.siteId!))
-    .$if(f.plotId !== undefined, (q) => q.where('r.plot_id', '=', f.plotId!))
-    .$if(f.traitId !== undefined, (q) => q.where('r.trait_id', '=', f.traitId!))
-    .$if(f.from !== undefined, (q) => q.where('r.observed_on', '>=', f.from!))
-    .$if(f.to !== undefined, (q) => q.where('r.observed_on', '<=', f.to!))
-    .$if(f.ids !== undefined, (q) => q.where('r.id', 'in', f.ids!))
     .orderBy('r.observed_on', 'desc')
     .orderBy('s.name')
     .orderBy('p.plot_number')
     .orderBy('t.sort_order')
     .orderBy('r.plant_number')
+    .orderBy('r.id')
+    .$if(window !== undefined, (q) => q.limit(window!.limit).offset(window!.offset))
     .execute();
+}
+
+/** How many observations match, on every page. */
+export function observationTotals(db: DB, trialId: string, f: ListFilters & { traitId?: string }) {
+  return observationsOf(db, trialId, f)
+    .select(sql<number>`count(*)::int`.as('total'))
+    .executeTakeFirstOrThrow();
 }
 
 export function listFieldEvents(db: DB, trialId: string, f: ListFilters) {

@@ -7,8 +7,10 @@ import {
   createHarvestBody,
   createObservationBody,
   exportParams,
+  harvestLogQuery,
   importBody,
   listQuery,
+  observationLogQuery,
   plotParams,
   recordParams,
   slugParams,
@@ -100,7 +102,7 @@ function recordRoutes<L extends z.ZodType, C extends z.ZodType, U extends z.ZodT
 export function harvestsRouter({ db }: Pick<AppDeps, 'db'>) {
   return recordRoutes(db, {
     table: 'harvests',
-    listQuery,
+    listQuery: harvestLogQuery,
     createBody: createHarvestBody,
     updateBody: updateHarvestBody,
     list: service.listHarvests,
@@ -113,7 +115,7 @@ export function harvestsRouter({ db }: Pick<AppDeps, 'db'>) {
 export function observationsRouter({ db }: Pick<AppDeps, 'db'>) {
   return recordRoutes(db, {
     table: 'observations',
-    listQuery: listQuery.extend({ traitId: z.uuid().optional() }),
+    listQuery: observationLogQuery,
     createBody: createObservationBody,
     updateBody: updateObservationBody,
     list: service.listObservations,

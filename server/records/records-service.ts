@@ -3,7 +3,9 @@ import type {
   createFieldEventBody,
   createHarvestBody,
   createObservationBody,
+  harvestLogQuery,
   listQuery,
+  observationLogQuery,
   standCountBody,
   updateFieldEventBody,
   updateHarvestBody,
@@ -35,12 +37,13 @@ import * as repo from './records-repository';
 import type { z } from 'zod';
 
 type Q = z.output<typeof listQuery>;
-const filters = (q: Q): repo.ListFilters => ({
+const filters = (q: Q & { q?: string }): repo.ListFilters => ({
   siteId: q.siteId,
   plotId: q.plotId,
   from: q.from,
   to: q.to,
   includeDeleted: q.includeDeleted === 'true',
+  search: q.q || undefined,
 });
 
 /** Plots and their site, read inside the trial, or a 400 naming the field. */
@@ -94,20 +97,50 @@ async function editablePlotRecord<T extends keyof typeof deletedMessages>(
 /** Other features note their own changes in the trial's audit log the same way. */
 export { writeAudit } from './record-audit-repository';
 
-export async function listHarvests(db: DB, slug: string, actor: Actor | null, q: Q) {
+/**
+ * One page of a record log and where it stands in the whole list: the rows and the totals are
+ * read with the same filters, so the count always matches what paging through would show.
+ */
+async function logPage<Row, Totals extends { total: number }>(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  q: { page: number; limit: number },
+  read: (trialId: string, window: repo.PageWindow) => [Promise<Row[]>, Promise<Totals>],
+) {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
-  return { harvests: await repo.listHarvests(db, trial.id, filters(q)) };
+  const [rows, totals] = await Promise.all(
+    read(trial.id, { offset: (q.page - 1) * q.limit, limit: q.limit }),
+  );
+  return { rows, page: q.page, limit: q.limit, ...totals };
+}
+
+export async function listHarvests(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  q: z.output<typeof harvestLogQuery>,
+) {
+  const f = { ...filters(q), grade: q.grade };
+  const { rows, ...page } = await logPage(db, slug, actor, q, (trialId, window) => [
+    repo.listHarvests(db, trialId, f, window),
+    repo.harvestTotals(db, trialId, f),
+  ]);
+  return { harvests: rows, ...page };
 }
 
 export async function listObservations(
   db: DB,
   slug: string,
   actor: Actor | null,
-  q: Q & { traitId?: string },
+  q: z.output<typeof observationLogQuery>,
 ) {
-  const { trial } = await trialForAction(db, slug, actor, 'trial.read');
-  const rows = await repo.listObservations(db, trial.id, { ...filters(q), traitId: q.traitId });
-  return { observations: rows.map(({ quantityKind: _k, ...o }) => o) };
+  const f = { ...filters(q), traitId: q.traitId };
+  const { rows, ...page } = await logPage(db, slug, actor, q, (trialId, window) => [
+    repo.listObservations(db, trialId, f, window),
+    repo.observationTotals(db, trialId, f),
+  ]);
+  return { observations: rows.map(({ quantityKind: _k, ...o }) => o), ...page };
 }
 
 export async function listFieldEvents(db: DB, slug: string, actor: Actor | null, q: Q) {
