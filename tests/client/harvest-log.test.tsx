@@ -1,6 +1,7 @@
 /**
  * The harvest log in a browser-like page: inline edit sends the version it read; a 409 is
- * shown with the fields that changed and the stored values, and nothing is overwritten.
+ * shown with the fields that changed and the stored values, and nothing is overwritten. The
+ * log asks the server for one page at a time with the filters chosen, and checks them first.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, fireEvent, render, screen, waitFor } from '@testing-library/react';
@@ -82,7 +83,7 @@ describe('the harvest log', () => {
           url.startsWith('/api/trials/brookfold/harvests?') ||
           url === '/api/trials/brookfold/harvests'
         )
-          return json(200, { harvests: [harvest] });
+          return json(200, { harvests: [harvest], page: 1, limit: 50, total: 1, totalMassG: 120 });
         if (init?.method === 'PATCH') {
           patches.push(JSON.parse(String(init.body)));
           return json(409, {
@@ -143,5 +144,69 @@ describe('the harvest log', () => {
     ]);
     await waitFor(() => expect(screen.getByText(/mass \(g\) is now/)).toBeTruthy());
     expect(screen.getByText('999')).toBeTruthy();
+  });
+});
+
+describe('the harvest log, a page at a time', () => {
+  it('asks for the next page and for the filters chosen, and refuses a reversed date range without asking', async () => {
+    const asked: URL[] = [];
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async (url: string) => {
+        if (url === '/api/me')
+          return json(401, { error: { code: 'unauthenticated', message: 'Sign in.' } });
+        if (url === '/api/trials/brookfold') return json(200, trial);
+        if (url.startsWith('/api/trials/brookfold/harvests')) {
+          const u = new URL(url, 'http://local');
+          asked.push(u);
+          const page = Number(u.searchParams.get('page'));
+          const rows = Array.from({ length: page < 3 ? 50 : 20 }, (_, i) => ({
+            ...harvest,
+            id: `00000000-0000-4000-8000-${String(page * 1000 + i).padStart(12, '0')}`,
+            plotNumber: 100 + i,
+          }));
+          return json(200, { harvests: rows, page, limit: 50, total: 120, totalMassG: 14_400 });
+        }
+        return json(404, { error: { code: 'not_found', message: url } });
+      }),
+    );
+    const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+    render(
+      <QueryClientProvider client={queryClient}>
+        <MemoryRouter initialEntries={['/t/brookfold/records/harvests']}>
+          <Routes>
+            <Route path="/t/:slug/records/harvests" element={<HarvestLog />} />
+          </Routes>
+        </MemoryRouter>
+      </QueryClientProvider>,
+    );
+    await screen.findByText('Rows 1–50 of 120 · page 1 of 3');
+    expect(screen.getByText(/^120 harvests · 14\.4 kg in total/)).toBeTruthy();
+    // One page of rows on screen: 50 rows, two buttons each.
+    expect(screen.getAllByRole('button', { name: /^Edit harvest/ })).toHaveLength(50);
+    expect(asked.at(-1)!.searchParams.get('page')).toBe('1');
+    expect(asked.at(-1)!.searchParams.get('limit')).toBe('50');
+
+    fireEvent.click(screen.getByRole('button', { name: 'Next page' }));
+    await screen.findByText('Rows 51–100 of 120 · page 2 of 3');
+    fireEvent.click(screen.getByRole('button', { name: 'Next page' }));
+    await screen.findByText('Rows 101–120 of 120 · page 3 of 3');
+    expect((screen.getByRole('button', { name: 'Next page' }) as HTMLButtonElement).disabled).toBe(
+      true,
+    );
+
+    // A filter starts its list from the first page and goes to the server.
+    fireEvent.change(screen.getByLabelText('Site'), { target: { value: trial.sites[0]!.id } });
+    fireEvent.change(screen.getByLabelText('Grade'), { target: { value: 'cull' } });
+    await waitFor(() => expect(asked.at(-1)!.searchParams.get('grade')).toBe('cull'));
+    expect(asked.at(-1)!.searchParams.get('siteId')).toBe(trial.sites[0]!.id);
+    expect(asked.at(-1)!.searchParams.get('page')).toBe('1');
+
+    // The contract's own message, and no request for a range that ends before it starts.
+    const before = asked.length;
+    fireEvent.change(screen.getByLabelText('From'), { target: { value: '2026-07-10' } });
+    fireEvent.change(screen.getByLabelText('To'), { target: { value: '2026-07-01' } });
+    await screen.findByText('The range starts after it ends.');
+    expect(asked.slice(before).some((u) => u.searchParams.get('to') === '2026-07-01')).toBe(false);
   });
 });

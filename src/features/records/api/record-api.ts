@@ -8,11 +8,15 @@ import {
   type ConflictDetails,
   conflictDetailsSchema,
   harvestListSchema,
+  harvestLogQuery,
+  type HarvestLogQuery,
   harvestSchema,
   importPreviewSchema,
   importResultSchema,
   type ImportKind,
   observationListSchema,
+  observationLogQuery,
+  type ObservationLogQuery,
   observationSchema,
   restoredSchema,
   type RestoreBody,
@@ -24,27 +28,24 @@ import { api, ApiError } from '@/lib/api-client';
 import { trialKeys, useInvalidateTrial } from '@/lib/trial-keys';
 
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
-export interface ListFilters {
-  siteId?: string;
-  from?: string;
-  to?: string;
-}
 
-export const harvestsQueryOptions = (slug: string, f: ListFilters) =>
+/** One page of the harvest log; the query is read by the endpoint's own contract first. */
+export const harvestsQueryOptions = (slug: string, q: HarvestLogQuery) =>
   queryOptions({
-    queryKey: trialKeys.harvests(slug, f),
-    queryFn: () => api(`${base(slug)}/harvests`, harvestListSchema, { query: { ...f } }),
+    queryKey: trialKeys.harvests(slug, q),
+    queryFn: () =>
+      api(`${base(slug)}/harvests`, harvestListSchema, { query: harvestLogQuery.parse(q) }),
   });
-export const useHarvests = (slug: string, f: ListFilters) =>
-  useQuery(harvestsQueryOptions(slug, f));
 
-export const observationsQueryOptions = (slug: string, f: ListFilters) =>
+/** One page of the observation log. */
+export const observationsQueryOptions = (slug: string, q: ObservationLogQuery) =>
   queryOptions({
-    queryKey: trialKeys.observations(slug, f),
-    queryFn: () => api(`${base(slug)}/observations`, observationListSchema, { query: { ...f } }),
+    queryKey: trialKeys.observations(slug, q),
+    queryFn: () =>
+      api(`${base(slug)}/observations`, observationListSchema, {
+        query: observationLogQuery.parse(q),
+      }),
   });
-export const useObservations = (slug: string, f: ListFilters) =>
-  useQuery(observationsQueryOptions(slug, f));
 
 export const completenessQueryOptions = (
   slug: string,

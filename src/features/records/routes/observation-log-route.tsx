@@ -1,290 +1,143 @@
-import type { Observation } from '@common/contracts/records';
-import { columnUnit, formatScaled } from '@common/display-units';
-import { observationDoubt } from '@common/plausibility';
-import { decimalsInUnit, exportNumber, recordedDecimals } from '@common/precision';
-import { fromStored, type QuantityUnit, toStored } from '@common/units';
-import {
-  type ColumnDef,
-  flexRender,
-  getCoreRowModel,
-  getSortedRowModel,
-  type SortingState,
-  useReactTable,
-} from '@tanstack/react-table';
-import { useMemo, useState } from 'react';
-import { useParams } from 'react-router-dom';
-import { ErrorPanel } from '@/components/ui/error-panel';
-import { Spinner } from '@/components/ui/spinner';
+import { observationLogQuery, type Observation } from '@common/contracts/records';
+import { readNumberField } from '@common/decimal';
+import { formatLength, formatMass, fromStored, type QuantityUnit, toStored } from '@common/units';
+import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { useUnitSystem } from '@/lib/session';
-import { useTrial } from '@/lib/trial';
-import { useObservations, useUpdateObservation } from '../api/record-api';
-import {
-  DoubtFlag,
-  EditActions,
-  editCell,
-  FilterInput,
-  FilterSelect,
-  RecordLogShell,
-  RowActions,
-  SiteFilter,
-  SortButton,
-  useRecordLog,
-} from '../components/record-log';
+import type { TrialWithPermissions } from '@/lib/trial';
+import { observationsQueryOptions, useUpdateObservation } from '../api/record-api';
+import { type LogFilters, type RecordLogKind, RecordLogRoute } from '../components/record-log-page';
+import { editCell } from '../components/record-log';
+
+interface Draft {
+  /** a number in the edit unit, or a date for a date trait */
+  value: string;
+  note: string;
+  unit: QuantityUnit | null;
+  isDate: boolean;
+}
 
 /** The observation log: measurements, scores and dates, one row per plant or plot. */
-export function Component() {
-  const { slug = '' } = useParams();
-  const trial = useTrial(slug);
+function useObservationLog(
+  slug: string,
+  trial: TrialWithPermissions,
+): RecordLogKind<Observation, Draft> {
   const units = useUnitSystem();
-  const [siteId, setSiteId] = useState('');
-  const [traitId, setTraitId] = useState('');
-  const [search, setSearch] = useState('');
-  const [sorting, setSorting] = useState<SortingState>([{ id: 'observedOn', desc: true }]);
-  const [draft, setDraft] = useState<{
-    id: string;
-    version: number;
-    value: string;
-    note: string;
-  } | null>(null);
-  const observations = useObservations(slug, { siteId: siteId || undefined });
   const update = useUpdateObservation(slug);
-  const log = useRecordLog<Observation>(slug, 'observations');
-  /**
-   * Each trait's one unit and precision in this table, chosen from all its values shown (a
-   * height in cm on every row, never cm on one row and m on the next).
-   */
-  const traitColumns = useMemo(() => {
-    const all = observations.data?.observations ?? [];
-    return new Map(
-      (trial.data?.traits ?? []).map((t) => {
-        const values = all.flatMap((o) =>
-          o.traitId === t.id && o.value !== null ? [o.value] : [],
-        );
-        const col = columnUnit(t.quantityKind, units, values, t.displayUnit);
-        return [t.id, { trait: t, ...col, decimals: recordedDecimals(values) }] as const;
-      }),
-    );
-  }, [trial.data, observations.data, units]);
-  const editUnit = (traitOf: string): QuantityUnit | null =>
-    traitColumns.get(traitOf)?.unit ?? null;
-  const unitLabel = (traitOf: string) => traitColumns.get(traitOf)?.shown.label ?? '';
+  const kindOf = new Map(trial.traits.map((t) => [t.id, t.quantityKind]));
+  const editUnit = (traitId: string): QuantityUnit | null => {
+    const k = kindOf.get(traitId);
+    if (k === 'length') return units === 'metric' ? 'mm' : 'in';
+    if (k === 'mass') return units === 'metric' ? 'g' : 'oz';
+    return null;
+  };
   const show = (o: Observation) => {
     if (o.valueDate) return o.valueDate;
-    const col = traitColumns.get(o.traitId);
-    if (o.value === null || !col) return '—';
-    return (
-      <>
-        {formatScaled(o.value, col.shown, col.decimals)}
-        <DoubtFlag
-          doubts={[observationDoubt(o.value, col.trait, units)].filter((d) => d !== null)}
-        />
-      </>
-    );
+    const k = kindOf.get(o.traitId);
+    if (o.value === null) return '—';
+    if (k === 'length') return formatLength(o.value, units, 0);
+    if (k === 'mass') return formatMass(o.value, units);
+    if (k === 'percent') return `${o.value} %`;
+    return String(o.value);
   };
-  const typedValue = (value: number, traitOf: string) => {
-    const col = traitColumns.get(traitOf);
-    if (!col?.unit) return String(value);
-    return exportNumber(
-      fromStored(value, col.unit),
-      decimalsInUnit(col.decimals, col.shown.factor),
-    );
-  };
-
-  const columns = useMemo<ColumnDef<Observation>[]>(
-    () => [
-      { accessorKey: 'observedOn', header: 'Date' },
-      { accessorKey: 'siteName', header: 'Site' },
-      { accessorKey: 'plotNumber', header: 'Plot' },
-      { id: 'entry', accessorFn: (o) => `${o.entryName} (${o.entryCode})`, header: 'Entry' },
-      {
-        accessorKey: 'traitLabel',
-        header: 'Trait',
-        cell: (c) => {
-          const label = unitLabel(c.row.original.traitId);
-          return label ? `${c.getValue<string>()} (${label})` : c.getValue<string>();
-        },
-      },
-      { accessorKey: 'plantNumber', header: 'Plant' },
-      {
-        id: 'value',
-        accessorFn: (o) => o.value ?? o.valueDate,
-        // With one trait shown, the heading names its unit once.
-        header: traitId && unitLabel(traitId) ? `Value (${unitLabel(traitId)})` : 'Value',
-        cell: (c) => show(c.row.original),
-      },
-      { accessorKey: 'note', header: 'Note', enableSorting: false },
-      { accessorKey: 'updatedByName', header: 'By' },
-    ],
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-    [units, traitColumns, traitId],
-  );
-  const data = useMemo(() => {
-    const q = search.trim().toLowerCase();
-    return (observations.data?.observations ?? []).filter(
-      (o) =>
-        (!traitId || o.traitId === traitId) &&
-        (!q ||
-          [o.entryName, o.entryCode, o.note, o.siteName, o.traitLabel, String(o.plotNumber)]
-            .join(' ')
-            .toLowerCase()
-            .includes(q)),
-    );
-  }, [observations.data, traitId, search]);
-  const table = useReactTable({
-    data,
-    columns,
-    state: { sorting },
-    onSortingChange: setSorting,
-    getCoreRowModel: getCoreRowModel(),
-    getSortedRowModel: getSortedRowModel(),
-  });
-
-  if (trial.isPending) return <Spinner />;
-  if (trial.error) return <ErrorPanel error={trial.error} />;
-  const canWrite = trial.data.permissions['records.write'];
-  const rows = table.getRowModel().rows;
-
-  const save = async (o: Observation) => {
-    if (!draft) return;
-    const unit = editUnit(o.traitId);
-    const typed = Number(draft.value.replace(',', '.'));
-    try {
-      await update.mutateAsync({
-        id: o.id,
-        body: o.valueDate
-          ? { version: draft.version, valueDate: draft.value, note: draft.note }
-          : {
-              version: draft.version,
-              value: unit ? toStored(typed, unit) : typed,
-              note: draft.note,
-            },
+  const valueText = (value: number | null, unit: QuantityUnit | null) =>
+    value === null ? '' : String(unit ? Math.round(fromStored(value, unit) * 100) / 100 : value);
+  return {
+    title: 'Observation log',
+    table: 'observations',
+    loadingLabel: 'Loading observations…',
+    query: observationLogQuery,
+    choice: {
+      field: 'traitId',
+      label: 'Trait',
+      all: 'All traits',
+      options: trial.traits.map((t) => [t.id, t.label]),
+    },
+    searchLabel: 'Search',
+    useList: (filters: LogFilters | null) => {
+      const q = useQuery({
+        ...observationsQueryOptions(slug, filters ?? {}),
+        enabled: filters !== null,
+        placeholderData: keepPreviousData,
       });
-      setDraft(null);
-      log.setConflict(null);
-      log.setProblem(null);
-    } catch (err) {
-      log.refused(err);
-    }
+      const d = q.data;
+      return {
+        ...q,
+        data: d && {
+          rows: d.observations,
+          total: d.total,
+          page: d.page,
+          limit: d.limit,
+          summary: `${d.total.toLocaleString('en')} observations`,
+        },
+      };
+    },
+    columns: [
+      { header: 'Date', cell: (o) => o.observedOn },
+      { header: 'Site', cell: (o) => o.siteName },
+      { header: 'Plot', cell: (o) => o.plotNumber },
+      { header: 'Entry', cell: (o) => `${o.entryName} (${o.entryCode})` },
+      { header: 'Trait', cell: (o) => o.traitLabel },
+      { header: 'Plant', cell: (o) => o.plantNumber },
+      {
+        header: 'Value',
+        cell: show,
+        edit: (d, change) => (
+          <input
+            aria-label={`Value${d.unit ? ` (${d.unit})` : ''}`}
+            inputMode={d.isDate ? undefined : 'decimal'}
+            type={d.isDate ? 'date' : 'text'}
+            value={d.value}
+            onChange={(e) => change({ ...d, value: e.target.value })}
+            className={editCell}
+          />
+        ),
+      },
+      {
+        header: 'Note',
+        cell: (o) => o.note,
+        edit: (d, change) => (
+          <input
+            aria-label="Note"
+            value={d.note}
+            onChange={(e) => change({ ...d, note: e.target.value })}
+            className={editCell}
+          />
+        ),
+      },
+      { header: 'By', cell: (o) => o.updatedByName },
+    ],
+    rowName: (o) =>
+      `${o.traitLabel} of plot ${o.plotNumber}${o.plantNumber ? `, plant ${o.plantNumber}` : ''} on ${o.observedOn}`,
+    toDraft: (o) => {
+      const unit = editUnit(o.traitId);
+      return {
+        value: o.valueDate ?? valueText(o.value, unit),
+        note: o.note,
+        unit,
+        isDate: o.valueDate !== null,
+      };
+    },
+    fromStored: (c, d) => ({
+      ...d,
+      value: d.isDate
+        ? String(c.valueDate ?? '')
+        : valueText(typeof c.value === 'number' ? c.value : null, d.unit),
+      note: String(c.note ?? ''),
+    }),
+    save: (o, d, version) => {
+      const typed = readNumberField(d.value) ?? Number.NaN;
+      return update.mutateAsync({
+        id: o.id,
+        body: d.isDate
+          ? { version, valueDate: d.value, note: d.note }
+          : { version, value: d.unit ? toStored(typed, d.unit) : typed, note: d.note },
+      });
+    },
+    saving: update.isPending,
   };
+}
 
-  return (
-    <RecordLogShell
-      heading={`Observation log · ${trial.data.title}`}
-      slug={slug}
-      log={log}
-      filters={
-        <>
-          <SiteFilter sites={trial.data.sites} value={siteId} onChange={setSiteId} />
-          <FilterSelect label="Trait" value={traitId} onChange={setTraitId}>
-            <option value="">All traits</option>
-            {trial.data.traits.map((t) => (
-              <option key={t.id} value={t.id}>
-                {t.label}
-              </option>
-            ))}
-          </FilterSelect>
-          <FilterInput label="Search" value={search} onChange={setSearch} />
-        </>
-      }
-      editing={draft !== null}
-      onCancelEdit={() => setDraft(null)}
-      onUseCurrent={(conflict) => {
-        const current = conflict.current as {
-          value: number | null;
-          valueDate: string | null;
-          note: string;
-          traitId: string;
-        };
-        setDraft({
-          ...draft!,
-          version: conflict.currentVersion,
-          value:
-            current.valueDate ??
-            (current.value === null ? '' : typedValue(current.value, current.traitId)),
-          note: current.note,
-        });
-      }}
-      query={observations}
-      loadingLabel="Loading observations…"
-      deletedMessage={(d) => `Deleted ${d.traitLabel} of plot ${d.plotNumber}.`}
-    >
-      <table className="w-full min-w-[48rem] text-left text-sm">
-        <caption className="p-2 text-left text-loam-700">{rows.length} observations</caption>
-        <thead className="bg-leaf-50">
-          {table.getHeaderGroups().map((hg) => (
-            <tr key={hg.id}>
-              {hg.headers.map((h) => (
-                <th key={h.id} className="p-2">
-                  {h.column.getCanSort() ? (
-                    <SortButton header={h} className="min-h-11 font-semibold" />
-                  ) : (
-                    flexRender(h.column.columnDef.header, h.getContext())
-                  )}
-                </th>
-              ))}
-              {canWrite ? <th className="p-2">Change</th> : null}
-            </tr>
-          ))}
-        </thead>
-        <tbody>
-          {rows.map((row) => {
-            const o = row.original;
-            const editing = draft?.id === o.id;
-            const unit = editUnit(o.traitId);
-            return (
-              <tr
-                key={row.id}
-                className={`border-t border-leaf-50 ${editing ? 'bg-straw-50' : ''}`}
-              >
-                {row.getVisibleCells().map((c) => (
-                  <td key={c.id} className="p-2">
-                    {editing && c.column.id === 'value' ? (
-                      <input
-                        aria-label={`Value${unit ? ` (${unit})` : ''}`}
-                        inputMode={o.valueDate ? undefined : 'decimal'}
-                        type={o.valueDate ? 'date' : 'text'}
-                        value={draft.value}
-                        onChange={(e) => setDraft({ ...draft, value: e.target.value })}
-                        className={editCell}
-                      />
-                    ) : editing && c.column.id === 'note' ? (
-                      <input
-                        aria-label="Note"
-                        value={draft.note}
-                        onChange={(e) => setDraft({ ...draft, note: e.target.value })}
-                        className={editCell}
-                      />
-                    ) : (
-                      flexRender(c.column.columnDef.cell, c.getContext())
-                    )}
-                  </td>
-                ))}
-                {canWrite ? (
-                  <td className="flex gap-1 p-1">
-                    {editing ? (
-                      <EditActions onSave={() => void save(o)} onCancel={() => setDraft(null)} />
-                    ) : (
-                      <RowActions
-                        onEdit={() =>
-                          setDraft({
-                            id: o.id,
-                            version: o.version,
-                            value:
-                              o.valueDate ??
-                              (o.value === null ? '' : typedValue(o.value, o.traitId)),
-                            note: o.note,
-                          })
-                        }
-                        onDelete={() => void log.remove(o)}
-                      />
-                    )}
-                  </td>
-                ) : null}
-              </tr>
-            );
-          })}
-        </tbody>
-      </table>
-    </RecordLogShell>
-  );
+/** The observation log: filter, page, edit in place, delete with undo. */
+export function Component() {
+  return <RecordLogRoute useKind={useObservationLog} />;
 }

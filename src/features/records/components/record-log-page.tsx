@@ -1,0 +1,397 @@
+/**
+ * One record log page, for any kind of record: filters kept in the address (site, dates, the
+ * kind's own choice, a search), one page of rows from the server newest first, a pager, edit
+ * in place with the version read (a stale save shows what changed), delete with undo.
+ */
+import type { ConflictDetails } from '@common/contracts/records';
+import { type ReactNode, useCallback, useEffect, useState } from 'react';
+import { useParams, useSearchParams } from 'react-router-dom';
+import type { z } from 'zod';
+import { ErrorPanel } from '@/components/ui/error-panel';
+import { ScrollRegion } from '@/components/ui/scroll-region';
+import { Spinner } from '@/components/ui/spinner';
+import { type TrialWithPermissions, useTrial } from '@/lib/trial';
+import { conflictOf, useDeleteRecord, useUndoDelete } from '../api/record-api';
+import { ConflictNotice } from './conflict-notice';
+import {
+  EditActions,
+  FilterBar,
+  FilterInput,
+  FilterSelect,
+  RowActions,
+  SiteFilter,
+} from './record-log';
+import { RecordsNav } from './records-nav';
+import { UndoToast } from './undo-toast';
+
+/** A column of the log: how a stored row shows, and the input that edits it in place. */
+export interface LogColumn<R, D> {
+  header: string;
+  cell: (row: R) => ReactNode;
+  edit?: (draft: D, change: (next: D) => void, row: R) => ReactNode;
+}
+
+/** The filters a log page is asked for, as the address holds them. */
+export interface LogFilters {
+  siteId?: string;
+  from?: string;
+  to?: string;
+  q?: string;
+  page: number;
+  [choice: string]: string | number | undefined;
+}
+
+/** What the server answered for one page, in the page's terms. */
+export interface LogAnswer<R> {
+  rows: R[];
+  total: number;
+  page: number;
+  limit: number;
+  /** the caption: how many rows match, and any total over every page */
+  summary: string;
+}
+
+export interface LogList<R> {
+  data: LogAnswer<R> | undefined;
+  isPending: boolean;
+  isFetching: boolean;
+  error: Error | null;
+}
+
+type Stored = { id: string; version: number };
+
+/** What differs between the logs: their rows, columns, filter choice, edit and save. */
+export interface RecordLogKind<R extends Stored, D> {
+  title: string;
+  table: 'harvests' | 'observations';
+  loadingLabel: string;
+  /** The endpoint's query contract: filters are checked here before anything is asked. */
+  query: z.ZodType;
+  /** The log's own filter, a choice among a few values (grade, trait). */
+  choice: { field: string; label: string; all: string; options: [string, string][] };
+  searchLabel: string;
+  columns: LogColumn<R, D>[];
+  /** Called on every render, with null while the filters are not valid. */
+  useList: (filters: LogFilters | null) => LogList<R>;
+  /** The row in words, for its buttons' names and the deletion notice. */
+  rowName: (row: R) => string;
+  toDraft: (row: R) => D;
+  /** The draft refilled from the record as stored now (after a 409). */
+  fromStored: (current: Record<string, unknown>, draft: D) => D;
+  save: (row: R, draft: D, version: number) => Promise<unknown>;
+  saving: boolean;
+}
+
+/** Filters typed into the search box reach the address after this pause. */
+const SEARCH_PAUSE_MS = 300;
+const filterFields = ['siteId', 'from', 'to', 'q'] as const;
+
+/** The filters in the address, with the page (from 1). */
+function useLogFilters(choiceField: string) {
+  const [params, setParams] = useSearchParams();
+  const filters: LogFilters = { page: Number(params.get('page') ?? '1') || 1 };
+  for (const f of [...filterFields, choiceField]) {
+    const v = params.get(f);
+    if (v) filters[f] = v;
+  }
+  const set = useCallback(
+    (field: string, value: string) =>
+      setParams(
+        (p) => {
+          const next = new URLSearchParams(p);
+          if (value) next.set(field, value);
+          else next.delete(field);
+          // Another filter is another list: start it from its first page.
+          if (field !== 'page') next.delete('page');
+          return next;
+        },
+        { replace: true },
+      ),
+    [setParams],
+  );
+  return [filters, set] as const;
+}
+
+/** The route around a log: the trial, then the log once it is loaded. */
+export function RecordLogRoute<R extends Stored, D>({
+  useKind,
+}: {
+  useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D>;
+}) {
+  const { slug = '' } = useParams();
+  const trial = useTrial(slug);
+  if (trial.isPending) return <Spinner />;
+  if (trial.error) return <ErrorPanel error={trial.error} />;
+  return <RecordLog slug={slug} trial={trial.data} useKind={useKind} />;
+}
+
+function RecordLog<R extends Stored, D>({
+  slug,
+  trial,
+  useKind,
+}: {
+  slug: string;
+  trial: TrialWithPermissions;
+  useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D>;
+}) {
+  const kind = useKind(slug, trial);
+  const [filters, setFilter] = useLogFilters(kind.choice.field);
+  const checked = kind.query.safeParse(filters);
+  const list = kind.useList(checked.success ? filters : null);
+  const [search, setSearch] = useState(filters.q ?? '');
+  useEffect(() => {
+    if (search.trim() === (filters.q ?? '')) return;
+    const timer = setTimeout(() => setFilter('q', search.trim()), SEARCH_PAUSE_MS);
+    return () => clearTimeout(timer);
+  }, [search, filters.q, setFilter]);
+
+  const [draft, setDraft] = useState<{ id: string; version: number; values: D } | null>(null);
+  const [conflict, setConflict] = useState<ConflictDetails | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+  const [deleted, setDeleted] = useState<R | null>(null);
+  const remove = useDeleteRecord(slug, kind.table);
+  const undo = useUndoDelete(slug, kind.table);
+  const canWrite = trial.permissions['records.write'] ?? false;
+  const heading = `${kind.title} · ${trial.title}`;
+
+  const startEdit = (row: R) => {
+    setConflict(null);
+    setProblem(null);
+    setDraft({ id: row.id, version: row.version, values: kind.toDraft(row) });
+  };
+  const save = async (row: R) => {
+    if (!draft) return;
+    setProblem(null);
+    try {
+      await kind.save(row, draft.values, draft.version);
+      setDraft(null);
+      setConflict(null);
+    } catch (err) {
+      const stale = conflictOf(err);
+      if (stale) setConflict(stale);
+      else setProblem(err instanceof Error ? err.message : 'Not saved.');
+    }
+  };
+  const deleteRow = async (row: R) => {
+    setProblem(null);
+    try {
+      await remove.mutateAsync(row.id);
+      setDeleted(row);
+    } catch (err) {
+      setProblem(err instanceof Error ? err.message : 'Not deleted.');
+    }
+  };
+
+  const data = list.data;
+  const pages = data ? Math.max(1, Math.ceil(data.total / data.limit)) : 1;
+  // A page left empty by deletions or narrower filters: show the last page that has rows.
+  const pastEnd = data !== undefined && data.rows.length === 0 && data.total > 0;
+  useEffect(() => {
+    if (pastEnd) setFilter('page', String(pages));
+  }, [pastEnd, pages, setFilter]);
+
+  return (
+    <article className="space-y-3">
+      <h1 className="text-2xl font-semibold text-leaf-900">{heading}</h1>
+      <RecordsNav slug={slug} />
+      <FilterBar>
+        <SiteFilter
+          sites={trial.sites}
+          value={filters.siteId ?? ''}
+          onChange={(v) => setFilter('siteId', v)}
+        />
+        <FilterInput
+          label="From"
+          type="date"
+          value={filters.from ?? ''}
+          onChange={(v) => setFilter('from', v)}
+        />
+        <FilterInput
+          label="To"
+          type="date"
+          value={filters.to ?? ''}
+          onChange={(v) => setFilter('to', v)}
+        />
+        <FilterSelect
+          label={kind.choice.label}
+          value={String(filters[kind.choice.field] ?? '')}
+          onChange={(v) => setFilter(kind.choice.field, v)}
+        >
+          <option value="">{kind.choice.all}</option>
+          {kind.choice.options.map(([value, label]) => (
+            <option key={value} value={value}>
+              {label}
+            </option>
+          ))}
+        </FilterSelect>
+        <FilterInput label={kind.searchLabel} value={search} onChange={setSearch} />
+      </FilterBar>
+      {checked.success ? null : (
+        <ul role="alert" className="font-medium text-frost-600">
+          {checked.error.issues.map((issue) => (
+            <li key={issue.path.join('.')}>{issue.message}</li>
+          ))}
+        </ul>
+      )}
+      {conflict && draft ? (
+        <ConflictNotice
+          conflict={conflict}
+          onCancel={() => {
+            setDraft(null);
+            setConflict(null);
+          }}
+          onUseCurrent={() => {
+            setDraft({
+              ...draft,
+              version: conflict.currentVersion,
+              values: kind.fromStored(conflict.current, draft.values),
+            });
+            setConflict(null);
+          }}
+        />
+      ) : null}
+      {problem ? (
+        <p role="alert" className="font-medium text-frost-600">
+          {problem}
+        </p>
+      ) : null}
+      {!checked.success ? null : list.isPending ? (
+        <Spinner label={kind.loadingLabel} />
+      ) : list.error || !data ? (
+        <ErrorPanel error={list.error} />
+      ) : (
+        <>
+          <ScrollRegion label={heading} className="rounded-lg bg-white shadow-sm">
+            <table
+              className="w-full min-w-[48rem] text-left text-sm"
+              aria-busy={list.isFetching || undefined}
+            >
+              <caption className="p-2 text-left text-loam-700">{data.summary}</caption>
+              <thead className="bg-leaf-50">
+                <tr>
+                  {kind.columns.map((c) => (
+                    <th key={c.header} scope="col" className="p-2 font-semibold">
+                      {c.header}
+                    </th>
+                  ))}
+                  {canWrite ? (
+                    <th scope="col" className="p-2 font-semibold">
+                      Change
+                    </th>
+                  ) : null}
+                </tr>
+              </thead>
+              <tbody>
+                {data.rows.map((row) => {
+                  const editing = draft?.id === row.id ? draft : null;
+                  return (
+                    <tr
+                      key={row.id}
+                      className={`border-t border-leaf-50 ${editing ? 'bg-straw-50' : ''}`}
+                    >
+                      {kind.columns.map((c) => (
+                        <td key={c.header} className={editing && c.edit ? 'p-1' : 'p-2'}>
+                          {editing && c.edit
+                            ? c.edit(
+                                editing.values,
+                                (values) => setDraft({ ...editing, values }),
+                                row,
+                              )
+                            : c.cell(row)}
+                        </td>
+                      ))}
+                      {canWrite ? (
+                        <td className="flex gap-1 p-1">
+                          {editing ? (
+                            <EditActions
+                              onSave={() => void save(row)}
+                              onCancel={() => setDraft(null)}
+                              saving={kind.saving}
+                            />
+                          ) : (
+                            <RowActions
+                              onEdit={() => startEdit(row)}
+                              onDelete={() => void deleteRow(row)}
+                              editLabel={`Edit ${kind.rowName(row)}`}
+                              deleteLabel={`Delete ${kind.rowName(row)}`}
+                            />
+                          )}
+                        </td>
+                      ) : null}
+                    </tr>
+                  );
+                })}
+              </tbody>
+            </table>
+          </ScrollRegion>
+          <Pager
+            label={`Pages of the ${kind.title.toLowerCase()}`}
+            answer={data}
+            pages={pages}
+            onPage={(page) => {
+              setDraft(null);
+              setFilter('page', String(page));
+            }}
+          />
+        </>
+      )}
+      {deleted ? (
+        <UndoToast
+          message={`Deleted the ${kind.rowName(deleted)}.`}
+          busy={undo.isPending}
+          onClose={() => setDeleted(null)}
+          onUndo={async () => {
+            try {
+              await undo.mutateAsync(deleted.id);
+            } catch (err) {
+              setProblem(err instanceof Error ? err.message : 'Could not undo.');
+            }
+            setDeleted(null);
+          }}
+        />
+      ) : null}
+    </article>
+  );
+}
+
+/** Previous and next, and where this page stands: "Rows 51–100 of 2,158 · page 2 of 44". */
+function Pager<R>({
+  label,
+  answer,
+  pages,
+  onPage,
+}: {
+  label: string;
+  answer: LogAnswer<R>;
+  pages: number;
+  onPage: (page: number) => void;
+}) {
+  const first = answer.rows.length ? (answer.page - 1) * answer.limit + 1 : 0;
+  const last = first ? first + answer.rows.length - 1 : 0;
+  const button =
+    'min-h-11 rounded-lg border border-leaf-300 bg-white px-3 font-semibold text-leaf-700 disabled:opacity-50';
+  return (
+    <nav aria-label={label} className="flex flex-wrap items-center gap-2">
+      <button
+        type="button"
+        className={button}
+        disabled={answer.page <= 1}
+        onClick={() => onPage(answer.page - 1)}
+      >
+        Previous page
+      </button>
+      <p aria-live="polite" className="text-sm text-loam-700">
+        Rows {first.toLocaleString('en')}–{last.toLocaleString('en')} of{' '}
+        {answer.total.toLocaleString('en')} · page {answer.page} of {pages}
+      </p>
+      <button
+        type="button"
+        className={button}
+        disabled={answer.page >= pages}
+        onClick={() => onPage(answer.page + 1)}
+      >
+        Next page
+      </button>
+    </nav>
+  );
+}
