@@ -30,22 +30,22 @@ import { trialKeys, useInvalidateTrial } from '@/lib/trial-keys';
 const base = (slug: string) => `/api/trials/${encodeURIComponent(slug)}`;
 
 /** One page of the harvest log; the query is read by the endpoint's own contract first. */
-export const harvestsQueryOptions = (slug: string, q: HarvestLogQuery) =>
-  queryOptions({
-    queryKey: trialKeys.harvests(slug, q),
-    queryFn: () =>
-      api(`${base(slug)}/harvests`, harvestListSchema, { query: harvestLogQuery.parse(q) }),
-  });
+export const getHarvests = (slug: string, q: HarvestLogQuery) =>
+  api(`${base(slug)}/harvests`, harvestListSchema, { query: harvestLogQuery.parse(q) });
+export const harvestsQueryOptions = (slug: string, q: HarvestLogQuery) => ({
+  queryKey: trialKeys.harvests(slug, q),
+  queryFn: () => getHarvests(slug, q),
+});
 
 /** One page of the observation log. */
-export const observationsQueryOptions = (slug: string, q: ObservationLogQuery) =>
-  queryOptions({
-    queryKey: trialKeys.observations(slug, q),
-    queryFn: () =>
-      api(`${base(slug)}/observations`, observationListSchema, {
-        query: observationLogQuery.parse(q),
-      }),
+export const getObservations = (slug: string, q: ObservationLogQuery) =>
+  api(`${base(slug)}/observations`, observationListSchema, {
+    query: observationLogQuery.parse(q),
   });
+export const observationsQueryOptions = (slug: string, q: ObservationLogQuery) => ({
+  queryKey: trialKeys.observations(slug, q),
+  queryFn: () => getObservations(slug, q),
+});
 
 export const completenessQueryOptions = (
   slug: string,

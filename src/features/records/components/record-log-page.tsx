@@ -4,6 +4,7 @@
  * in place with the version read (a stale save shows what changed), delete with undo.
  */
 import type { ConflictDetails } from '@common/contracts/records';
+import { keepPreviousData, type QueryKey, useQuery } from '@tanstack/react-query';
 import { type ReactNode, useCallback, useEffect, useState } from 'react';
 import { useParams, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
@@ -41,27 +42,18 @@ export interface LogFilters {
   [choice: string]: string | number | undefined;
 }
 
-/** What the server answered for one page, in the page's terms. */
-export interface LogAnswer<R> {
+/** One page of rows as the page shows it. */
+export interface LogAnswer<R> extends PageOf {
   rows: R[];
-  total: number;
-  page: number;
-  limit: number;
-  /** the caption: how many rows match, and any total over every page */
   summary: string;
 }
 
-export interface LogList<R> {
-  data: LogAnswer<R> | undefined;
-  isPending: boolean;
-  isFetching: boolean;
-  error: Error | null;
-}
-
 type Stored = { id: string; version: number };
+/** Where a page stands, as every log endpoint answers it. */
+type PageOf = { total: number; page: number; limit: number };
 
 /** What differs between the logs: their rows, columns, filter choice, edit and save. */
-export interface RecordLogKind<R extends Stored, D> {
+export interface RecordLogKind<R extends Stored, D, T extends PageOf = PageOf> {
   title: string;
   table: 'harvests' | 'observations';
   loadingLabel: string;
@@ -71,8 +63,10 @@ export interface RecordLogKind<R extends Stored, D> {
   choice: { field: string; label: string; all: string; options: [string, string][] };
   searchLabel: string;
   columns: LogColumn<R, D>[];
-  /** Called on every render, with null while the filters are not valid. */
-  useList: (filters: LogFilters | null) => LogList<R>;
+  /** The endpoint's query for one page (its key rooted at the trial). */
+  list: (filters: LogFilters) => { queryKey: QueryKey; queryFn: () => Promise<T> };
+  /** The rows of an answer, and its caption: how many match, and any total over every page. */
+  answer: (data: T) => { rows: R[]; summary: string };
   /** The row in words, for its buttons' names and the deletion notice. */
   rowName: (row: R) => string;
   toDraft: (row: R) => D;
@@ -113,10 +107,10 @@ function useLogFilters(choiceField: string) {
 }
 
 /** The route around a log: the trial, then the log once it is loaded. */
-export function RecordLogRoute<R extends Stored, D>({
+export function RecordLogRoute<R extends Stored, D, T extends PageOf>({
   useKind,
 }: {
-  useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D>;
+  useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D, T>;
 }) {
   const { slug = '' } = useParams();
   const trial = useTrial(slug);
@@ -125,19 +119,24 @@ export function RecordLogRoute<R extends Stored, D>({
   return <RecordLog slug={slug} trial={trial.data} useKind={useKind} />;
 }
 
-function RecordLog<R extends Stored, D>({
+function RecordLog<R extends Stored, D, T extends PageOf>({
   slug,
   trial,
   useKind,
 }: {
   slug: string;
   trial: TrialWithPermissions;
-  useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D>;
+  useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D, T>;
 }) {
   const kind = useKind(slug, trial);
   const [filters, setFilter] = useLogFilters(kind.choice.field);
   const checked = kind.query.safeParse(filters);
-  const list = kind.useList(checked.success ? filters : null);
+  const list = useQuery({
+    ...kind.list(filters),
+    enabled: checked.success,
+    // The page shown stays while the next one is on its way.
+    placeholderData: keepPreviousData,
+  });
   const [search, setSearch] = useState(filters.q ?? '');
   useEffect(() => {
     if (search.trim() === (filters.q ?? '')) return;
@@ -182,7 +181,12 @@ function RecordLog<R extends Stored, D>({
     }
   };
 
-  const data = list.data;
+  const data: LogAnswer<R> | undefined = list.data && {
+    total: list.data.total,
+    page: list.data.page,
+    limit: list.data.limit,
+    ...kind.answer(list.data),
+  };
   const pages = data ? Math.max(1, Math.ceil(data.total / data.limit)) : 1;
   // A page left empty by deletions or narrower filters: show the last page that has rows.
   const pastEnd = data !== undefined && data.rows.length === 0 && data.total > 0;

@@ -3,6 +3,31 @@ import type { ReactNode } from 'react';
 
 /** The input style of a cell being edited in place. */
 export const editCell = 'min-h-11 w-full rounded border border-leaf-300 bg-white px-2';
+
+/**
+ * The typed-in cell of a row being edited, for one text field of the draft: `editText('note',
+ * 'Note')` gives a column's `edit`.
+ */
+export function editText<D>(
+  field: { [K in keyof D]: D[K] extends string ? K : never }[keyof D],
+  label: string | ((draft: D) => string),
+  input: { type?: (draft: D) => 'date' | 'text'; inputMode?: 'numeric' | 'decimal' } = {},
+) {
+  function EditCell(draft: D, change: (next: D) => void) {
+    const type = input.type?.(draft) ?? 'text';
+    return (
+      <input
+        aria-label={typeof label === 'string' ? label : label(draft)}
+        type={type}
+        inputMode={type === 'date' ? undefined : input.inputMode}
+        value={draft[field] as string}
+        onChange={(e) => change({ ...draft, [field]: e.target.value })}
+        className={editCell}
+      />
+    );
+  }
+  return EditCell;
+}
 const filterControl = 'min-h-11 rounded-lg border border-leaf-300 bg-white px-2';
 const filterLabel = 'flex flex-col gap-1 text-sm font-medium';
 

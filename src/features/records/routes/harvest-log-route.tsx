@@ -1,12 +1,16 @@
-import { harvestGrades, harvestLogQuery, type Harvest } from '@common/contracts/records';
+import {
+  harvestGrades,
+  harvestLogQuery,
+  type Harvest,
+  type HarvestList,
+} from '@common/contracts/records';
 import { readNumberField } from '@common/decimal';
 import { formatMass, fromStored, G_PER_OUNCE, toStored } from '@common/units';
-import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { useUnitSystem } from '@/lib/session';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { harvestsQueryOptions, useUpdateHarvest } from '../api/record-api';
 import { type LogFilters, type RecordLogKind, RecordLogRoute } from '../components/record-log-page';
-import { editCell } from '../components/record-log';
+import { editCell, editText } from '../components/record-log';
 
 interface Draft {
   harvestedOn: string;
@@ -17,7 +21,10 @@ interface Draft {
 }
 
 /** The harvest log: what each kind of log needs to know about harvests. */
-function useHarvestLog(slug: string, _trial: TrialWithPermissions): RecordLogKind<Harvest, Draft> {
+function useHarvestLog(
+  slug: string,
+  _trial: TrialWithPermissions,
+): RecordLogKind<Harvest, Draft, HarvestList> {
   const units = useUnitSystem();
   const massUnit = units === 'metric' ? 'g' : 'oz';
   const update = useUpdateHarvest(slug);
@@ -34,39 +41,18 @@ function useHarvestLog(slug: string, _trial: TrialWithPermissions): RecordLogKin
       options: harvestGrades.map((g) => [g, g === 'marketable' ? 'Marketable' : 'Cull']),
     },
     searchLabel: 'Search entry, note…',
-    useList: (filters: LogFilters | null) => {
-      const q = useQuery({
-        ...harvestsQueryOptions(slug, filters ?? {}),
-        enabled: filters !== null,
-        placeholderData: keepPreviousData,
-      });
-      const d = q.data;
-      return {
-        ...q,
-        data: d && {
-          rows: d.harvests,
-          total: d.total,
-          page: d.page,
-          limit: d.limit,
-          summary: `${d.total.toLocaleString('en')} harvests · ${formatMass(d.totalMassG, units)} in total${
-            units === 'us' ? ` (${Math.round(d.totalMassG / G_PER_OUNCE)} oz)` : ''
-          }`,
-        },
-      };
-    },
+    list: (filters: LogFilters) => harvestsQueryOptions(slug, filters),
+    answer: (d) => ({
+      rows: d.harvests,
+      summary: `${d.total.toLocaleString('en')} harvests · ${formatMass(d.totalMassG, units)} in total${
+        units === 'us' ? ` (${Math.round(d.totalMassG / G_PER_OUNCE)} oz)` : ''
+      }`,
+    }),
     columns: [
       {
         header: 'Date',
         cell: (h) => h.harvestedOn,
-        edit: (d, change) => (
-          <input
-            aria-label="Date"
-            type="date"
-            value={d.harvestedOn}
-            onChange={(e) => change({ ...d, harvestedOn: e.target.value })}
-            className={editCell}
-          />
-        ),
+        edit: editText<Draft>('harvestedOn', 'Date', { type: () => 'date' }),
       },
       { header: 'Site', cell: (h) => h.siteName },
       { header: 'Plot', cell: (h) => h.plotNumber },
@@ -74,28 +60,12 @@ function useHarvestLog(slug: string, _trial: TrialWithPermissions): RecordLogKin
       {
         header: 'Fruit',
         cell: (h) => h.fruitCount,
-        edit: (d, change) => (
-          <input
-            aria-label="Fruit count"
-            inputMode="numeric"
-            value={d.fruitCount}
-            onChange={(e) => change({ ...d, fruitCount: e.target.value })}
-            className={editCell}
-          />
-        ),
+        edit: editText<Draft>('fruitCount', 'Fruit count', { inputMode: 'numeric' }),
       },
       {
         header: 'Mass',
         cell: (h) => formatMass(h.massG, units),
-        edit: (d, change) => (
-          <input
-            aria-label={`Mass (${massUnit})`}
-            inputMode="decimal"
-            value={d.mass}
-            onChange={(e) => change({ ...d, mass: e.target.value })}
-            className={editCell}
-          />
-        ),
+        edit: editText<Draft>('mass', `Mass (${massUnit})`, { inputMode: 'decimal' }),
       },
       {
         header: 'Grade',
@@ -118,14 +88,7 @@ function useHarvestLog(slug: string, _trial: TrialWithPermissions): RecordLogKin
       {
         header: 'Note',
         cell: (h) => h.note,
-        edit: (d, change) => (
-          <input
-            aria-label="Note"
-            value={d.note}
-            onChange={(e) => change({ ...d, note: e.target.value })}
-            className={editCell}
-          />
-        ),
+        edit: editText<Draft>('note', 'Note'),
       },
       { header: 'By', cell: (h) => h.updatedByName },
     ],

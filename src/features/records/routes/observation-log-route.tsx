@@ -1,12 +1,15 @@
-import { observationLogQuery, type Observation } from '@common/contracts/records';
+import {
+  observationLogQuery,
+  type Observation,
+  type ObservationList,
+} from '@common/contracts/records';
 import { readNumberField } from '@common/decimal';
 import { formatLength, formatMass, fromStored, type QuantityUnit, toStored } from '@common/units';
-import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { useUnitSystem } from '@/lib/session';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { observationsQueryOptions, useUpdateObservation } from '../api/record-api';
 import { type LogFilters, type RecordLogKind, RecordLogRoute } from '../components/record-log-page';
-import { editCell } from '../components/record-log';
+import { editText } from '../components/record-log';
 
 interface Draft {
   /** a number in the edit unit, or a date for a date trait */
@@ -20,7 +23,7 @@ interface Draft {
 function useObservationLog(
   slug: string,
   trial: TrialWithPermissions,
-): RecordLogKind<Observation, Draft> {
+): RecordLogKind<Observation, Draft, ObservationList> {
   const units = useUnitSystem();
   const update = useUpdateObservation(slug);
   const kindOf = new Map(trial.traits.map((t) => [t.id, t.quantityKind]));
@@ -53,24 +56,11 @@ function useObservationLog(
       options: trial.traits.map((t) => [t.id, t.label]),
     },
     searchLabel: 'Search',
-    useList: (filters: LogFilters | null) => {
-      const q = useQuery({
-        ...observationsQueryOptions(slug, filters ?? {}),
-        enabled: filters !== null,
-        placeholderData: keepPreviousData,
-      });
-      const d = q.data;
-      return {
-        ...q,
-        data: d && {
-          rows: d.observations,
-          total: d.total,
-          page: d.page,
-          limit: d.limit,
-          summary: `${d.total.toLocaleString('en')} observations`,
-        },
-      };
-    },
+    list: (filters: LogFilters) => observationsQueryOptions(slug, filters),
+    answer: (d) => ({
+      rows: d.observations,
+      summary: `${d.total.toLocaleString('en')} observations`,
+    }),
     columns: [
       { header: 'Date', cell: (o) => o.observedOn },
       { header: 'Site', cell: (o) => o.siteName },
@@ -81,28 +71,15 @@ function useObservationLog(
       {
         header: 'Value',
         cell: show,
-        edit: (d, change) => (
-          <input
-            aria-label={`Value${d.unit ? ` (${d.unit})` : ''}`}
-            inputMode={d.isDate ? undefined : 'decimal'}
-            type={d.isDate ? 'date' : 'text'}
-            value={d.value}
-            onChange={(e) => change({ ...d, value: e.target.value })}
-            className={editCell}
-          />
-        ),
+        edit: editText<Draft>('value', (d) => `Value${d.unit ? ` (${d.unit})` : ''}`, {
+          type: (d) => (d.isDate ? 'date' : 'text'),
+          inputMode: 'decimal',
+        }),
       },
       {
         header: 'Note',
         cell: (o) => o.note,
-        edit: (d, change) => (
-          <input
-            aria-label="Note"
-            value={d.note}
-            onChange={(e) => change({ ...d, note: e.target.value })}
-            className={editCell}
-          />
-        ),
+        edit: editText<Draft>('note', 'Note'),
       },
       { header: 'By', cell: (o) => o.updatedByName },
     ],
