@@ -70,9 +70,9 @@ export async function lockedRecord<T extends RecordTable>(
 }
 
 /** 409 with the stored record and what changed since the version the caller read. */
-export async function staleVersion(
+export async function staleVersion<T extends RecordTable>(
   db: DB,
-  current: RecordRow,
+  current: RecordRow<T>,
   yourVersion: number,
   proposed: Record<string, unknown>,
 ): Promise<never> {

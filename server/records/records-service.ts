@@ -92,6 +92,31 @@ async function editablePlotRecord<T extends keyof typeof deletedMessages>(
   return before;
 }
 
+/**
+ * An edit of a harvest or an observation, from the version that was read: a stale version is
+ * refused with what changed, `check` refuses values that do not fit, all in one transaction.
+ */
+async function editPlotRecord<T extends keyof typeof deletedMessages, Out>(
+  db: DB,
+  slug: string,
+  actor: Actor | null,
+  table: T,
+  id: string,
+  version: number,
+  values: repo.RecordChange<T>,
+  read: (db: DB, trialId: string, id: string) => Promise<Out>,
+  check?: (trx: DB, loaded: LoadedTrial, before: repo.RecordRow<T>) => Promise<void>,
+) {
+  const loaded = await trialForAction(db, slug, actor, 'records.write');
+  await db.transaction().execute(async (trx) => {
+    const before = await editablePlotRecord(trx, loaded, actor, table, id);
+    if (before.version !== version) await staleVersion(trx, before, version, values);
+    await check?.(trx, loaded, before);
+    await applyUpdate(trx, table, before, values, requireActorOf(actor));
+  });
+  return read(db, loaded.trial.id, id);
+}
+
 // ---------- Reads ----------
 
 /** Other features note their own changes in the trial's audit log the same way. */
@@ -236,27 +261,21 @@ export async function createHarvest(
   return { created, record };
 }
 
-export async function updateHarvest(
+export function updateHarvest(
   db: DB,
   slug: string,
   actor: Actor | null,
   id: string,
   body: z.output<typeof updateHarvestBody>,
 ) {
-  const loaded = await trialForAction(db, slug, actor, 'records.write');
-  await db.transaction().execute(async (trx) => {
-    const before = await editablePlotRecord(trx, loaded, actor, 'harvests', id);
-    const values = givenColumns({
-      harvested_on: body.harvestedOn,
-      fruit_count: body.fruitCount,
-      mass_g: body.massG,
-      grade: body.grade,
-      note: body.note,
-    });
-    if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
-    await applyUpdate(trx, 'harvests', before, values, requireActorOf(actor));
+  const values = givenColumns({
+    harvested_on: body.harvestedOn,
+    fruit_count: body.fruitCount,
+    mass_g: body.massG,
+    grade: body.grade,
+    note: body.note,
   });
-  return oneHarvest(db, loaded.trial.id, id);
+  return editPlotRecord(db, slug, actor, 'harvests', id, body.version, values, oneHarvest);
 }
 
 // ---------- Observations ----------
@@ -316,33 +335,39 @@ export async function createObservation(
   return { created, record: await oneObservation(db, loaded.trial.id, body.id) };
 }
 
-export async function updateObservation(
+export function updateObservation(
   db: DB,
   slug: string,
   actor: Actor | null,
   id: string,
   body: z.output<typeof updateObservationBody>,
 ) {
-  const loaded = await trialForAction(db, slug, actor, 'records.write');
-  await db.transaction().execute(async (trx) => {
-    const before = await editablePlotRecord(trx, loaded, actor, 'observations', id);
-    const values = givenColumns({
-      observed_on: body.observedOn,
-      value: body.value,
-      value_date: body.valueDate,
-      plant_number: body.plantNumber,
-      note: body.note,
-    });
-    if (before.version !== body.version) await staleVersion(trx, before, body.version, values);
-    const merged = { ...before, ...values };
-    checkValue(
-      await traitFor(trx, loaded.trial.id, before.trait_id),
-      merged.value,
-      merged.value_date,
-    );
-    await applyUpdate(trx, 'observations', before, values, requireActorOf(actor));
+  const values = givenColumns({
+    observed_on: body.observedOn,
+    value: body.value,
+    value_date: body.valueDate,
+    plant_number: body.plantNumber,
+    note: body.note,
   });
-  return oneObservation(db, loaded.trial.id, id);
+  return editPlotRecord(
+    db,
+    slug,
+    actor,
+    'observations',
+    id,
+    body.version,
+    values,
+    oneObservation,
+    // The value and its trait are checked together, as stored after the edit.
+    async (trx, loaded, before) => {
+      const merged = { ...before, ...values };
+      checkValue(
+        await traitFor(trx, loaded.trial.id, before.trait_id),
+        merged.value,
+        merged.value_date,
+      );
+    },
+  );
 }
 
 // ---------- Field events ----------
