@@ -122,12 +122,20 @@ function show(path: string, Page: ComponentType) {
       if (url.startsWith('/api/trials/brookfold/harvests'))
         return json(200, {
           // 9,999 fruit weighing 2 kg: 0.2 g per fruit, both outside the plausible range.
-          harvests: [harvest(1, 10, 1240), harvest(2, 12, 1500), harvest(3, 9999, 2000)],
+          // The server answers newest first.
+          harvests: [harvest(3, 9999, 2000), harvest(2, 12, 1500), harvest(1, 10, 1240)],
+          page: 1,
+          limit: 50,
+          total: 3,
+          totalMassG: 4740,
         });
       if (url.startsWith('/api/trials/brookfold/observations'))
         return json(200, {
           // 9,200 mm: a height typed in cm read as mm, then multiplied again.
-          observations: [height(1, 920), height(2, 1010), height(3, 9200)],
+          observations: [height(3, 9200), height(2, 1010), height(1, 920)],
+          page: 1,
+          limit: 50,
+          total: 3,
         });
       return json(404, { error: { code: 'not_found', message: url } });
     }),
@@ -154,7 +162,7 @@ const cellsOf = async (column: number) => {
 describe('the harvest log', () => {
   it('shows every mass in kg when the column’s typical harvest is over 1 kg, and flags the implausible one', async () => {
     show('harvests', HarvestLog);
-    expect(await screen.findByRole('button', { name: 'Mass (kg)' })).toBeTruthy();
+    expect(await screen.findByRole('columnheader', { name: 'Mass (kg)' })).toBeTruthy();
     // newest first; grams recorded whole, so kg keep three decimals (the same 1 g step)
     expect(await cellsOf(5)).toEqual([
       expect.stringMatching(/^2\.000⚠ check: 9,999 fruit in one harvest is outside/),

@@ -42,11 +42,17 @@ export interface LogFilters {
   [choice: string]: string | number | undefined;
 }
 
-/** One page of rows as the page shows it. */
-export interface LogAnswer<R> extends PageOf {
+/**
+ * How one page of rows shows: its columns (a unit chosen from the values on the page), the
+ * caption (how many match, and any total over every page) and a row's draft for editing.
+ */
+export interface LogView<R, D> {
   rows: R[];
   summary: string;
+  columns: LogColumn<R, D>[];
+  toDraft: (row: R) => D;
 }
+type LogAnswer<R, D> = LogView<R, D> & PageOf;
 
 type Stored = { id: string; version: number };
 /** Where a page stands, as every log endpoint answers it. */
@@ -62,14 +68,12 @@ export interface RecordLogKind<R extends Stored, D, T extends PageOf = PageOf> {
   /** The log's own filter, a choice among a few values (grade, trait). */
   choice: { field: string; label: string; all: string; options: [string, string][] };
   searchLabel: string;
-  columns: LogColumn<R, D>[];
   /** The endpoint's query for one page (its key rooted at the trial). */
   list: (filters: LogFilters) => { queryKey: QueryKey; queryFn: () => Promise<T> };
-  /** The rows of an answer, and its caption: how many match, and any total over every page. */
-  answer: (data: T) => { rows: R[]; summary: string };
+  /** How an answer shows. */
+  answer: (data: T) => LogView<R, D>;
   /** The row in words, for its buttons' names and the deletion notice. */
   rowName: (row: R) => string;
-  toDraft: (row: R) => D;
   /** The draft refilled from the record as stored now (after a 409). */
   fromStored: (current: Record<string, unknown>, draft: D) => D;
   save: (row: R, draft: D, version: number) => Promise<unknown>;
@@ -156,7 +160,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
   const startEdit = (row: R) => {
     setConflict(null);
     setProblem(null);
-    setDraft({ id: row.id, version: row.version, values: kind.toDraft(row) });
+    if (data) setDraft({ id: row.id, version: row.version, values: data.toDraft(row) });
   };
   const save = async (row: R) => {
     if (!draft) return;
@@ -181,7 +185,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
     }
   };
 
-  const data: LogAnswer<R> | undefined = list.data && {
+  const data: LogAnswer<R, D> | undefined = list.data && {
     total: list.data.total,
     page: list.data.page,
     limit: list.data.limit,
@@ -273,7 +277,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
               <caption className="p-2 text-left text-loam-700">{data.summary}</caption>
               <thead className="bg-leaf-50">
                 <tr>
-                  {kind.columns.map((c) => (
+                  {data.columns.map((c) => (
                     <th key={c.header} scope="col" className="p-2 font-semibold">
                       {c.header}
                     </th>
@@ -293,7 +297,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
                       key={row.id}
                       className={`border-t border-leaf-50 ${editing ? 'bg-straw-50' : ''}`}
                     >
-                      {kind.columns.map((c) => (
+                      {data.columns.map((c) => (
                         <td key={c.header} className={editing && c.edit ? 'p-1' : 'p-2'}>
                           {editing && c.edit
                             ? c.edit(
@@ -359,14 +363,14 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
 }
 
 /** Previous and next, and where this page stands: "Rows 51–100 of 2,158 · page 2 of 44". */
-function Pager<R>({
+function Pager<R, D>({
   label,
   answer,
   pages,
   onPage,
 }: {
   label: string;
-  answer: LogAnswer<R>;
+  answer: LogAnswer<R, D>;
   pages: number;
   onPage: (page: number) => void;
 }) {

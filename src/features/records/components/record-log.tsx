@@ -106,6 +106,24 @@ export function FilterInput({
   );
 }
 
+/**
+ * The mark on a record outside its trait's plausible range (common/plausibility.ts): a word and
+ * a sign, not a colour alone, with the reason for screen readers and on hover. Nothing is refused.
+ */
+export function DoubtFlag({ doubts }: { doubts: readonly string[] }) {
+  if (doubts.length === 0) return null;
+  const why = doubts.join(' ');
+  return (
+    <span
+      title={why}
+      className="ml-1 inline-flex items-center gap-0.5 rounded border border-pod-500 bg-straw-50 px-1 text-xs font-semibold whitespace-nowrap text-loam-700"
+    >
+      <span aria-hidden="true">⚠</span> check
+      <span className="sr-only">: {why}</span>
+    </span>
+  );
+}
+
 /** Save and Cancel for the row being edited. */
 export function EditActions({
   onSave,

@@ -4,18 +4,23 @@ import {
   type ObservationList,
 } from '@common/contracts/records';
 import { readNumberField } from '@common/decimal';
-import { formatLength, formatMass, fromStored, type QuantityUnit, toStored } from '@common/units';
+import { columnUnit, formatScaled } from '@common/display-units';
+import { observationDoubt } from '@common/plausibility';
+import { decimalsInUnit, exportNumber, recordedDecimals } from '@common/precision';
+import { fromStored, type QuantityUnit, toStored } from '@common/units';
 import { useUnitSystem } from '@/lib/session';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { observationsQueryOptions, useUpdateObservation } from '../api/record-api';
 import { type LogFilters, type RecordLogKind, RecordLogRoute } from '../components/record-log-page';
-import { editText } from '../components/record-log';
+import { DoubtFlag, editText } from '../components/record-log';
 
 interface Draft {
   /** a number in the edit unit, or a date for a date trait */
   value: string;
   note: string;
   unit: QuantityUnit | null;
+  /** decimals the value is typed with, in `unit` */
+  places: number | null;
   isDate: boolean;
 }
 
@@ -26,24 +31,12 @@ function useObservationLog(
 ): RecordLogKind<Observation, Draft, ObservationList> {
   const units = useUnitSystem();
   const update = useUpdateObservation(slug);
-  const kindOf = new Map(trial.traits.map((t) => [t.id, t.quantityKind]));
-  const editUnit = (traitId: string): QuantityUnit | null => {
-    const k = kindOf.get(traitId);
-    if (k === 'length') return units === 'metric' ? 'mm' : 'in';
-    if (k === 'mass') return units === 'metric' ? 'g' : 'oz';
-    return null;
-  };
-  const show = (o: Observation) => {
-    if (o.valueDate) return o.valueDate;
-    const k = kindOf.get(o.traitId);
-    if (o.value === null) return '—';
-    if (k === 'length') return formatLength(o.value, units, 0);
-    if (k === 'mass') return formatMass(o.value, units);
-    if (k === 'percent') return `${o.value} %`;
-    return String(o.value);
-  };
-  const valueText = (value: number | null, unit: QuantityUnit | null) =>
-    value === null ? '' : String(unit ? Math.round(fromStored(value, unit) * 100) / 100 : value);
+  const valueText = (value: number | null, d: Pick<Draft, 'unit' | 'places'>) =>
+    value === null
+      ? ''
+      : d.unit && d.places !== null
+        ? exportNumber(fromStored(value, d.unit), d.places)
+        : String(value);
   return {
     title: 'Observation log',
     table: 'observations',
@@ -57,48 +50,82 @@ function useObservationLog(
     },
     searchLabel: 'Search',
     list: (filters: LogFilters) => observationsQueryOptions(slug, filters),
-    answer: (d) => ({
-      rows: d.observations,
-      summary: `${d.total.toLocaleString('en')} observations`,
-    }),
-    columns: [
-      { header: 'Date', cell: (o) => o.observedOn },
-      { header: 'Site', cell: (o) => o.siteName },
-      { header: 'Plot', cell: (o) => o.plotNumber },
-      { header: 'Entry', cell: (o) => `${o.entryName} (${o.entryCode})` },
-      { header: 'Trait', cell: (o) => o.traitLabel },
-      { header: 'Plant', cell: (o) => o.plantNumber },
-      {
-        header: 'Value',
-        cell: show,
-        edit: editText<Draft>('value', (d) => `Value${d.unit ? ` (${d.unit})` : ''}`, {
-          type: (d) => (d.isDate ? 'date' : 'text'),
-          inputMode: 'decimal',
+    answer: (d) => {
+      // Each trait's one unit and precision on this page, chosen from all its values shown
+      // (a height in cm on every row, never cm on one row and m on the next).
+      const traitColumns = new Map(
+        trial.traits.map((t) => {
+          const values = d.observations.flatMap((o) =>
+            o.traitId === t.id && o.value !== null ? [o.value] : [],
+          );
+          const col = columnUnit(t.quantityKind, units, values, t.displayUnit);
+          return [t.id, { trait: t, ...col, decimals: recordedDecimals(values) }] as const;
         }),
-      },
-      {
-        header: 'Note',
-        cell: (o) => o.note,
-        edit: editText<Draft>('note', 'Note'),
-      },
-      { header: 'By', cell: (o) => o.updatedByName },
-    ],
-    rowName: (o) =>
-      `${o.traitLabel} of plot ${o.plotNumber}${o.plantNumber ? `, plant ${o.plantNumber}` : ''} on ${o.observedOn}`,
-    toDraft: (o) => {
-      const unit = editUnit(o.traitId);
+      );
+      const unitLabel = (traitId: string) => traitColumns.get(traitId)?.shown.label ?? '';
+      const only = d.observations.every((o) => o.traitId === d.observations[0]?.traitId)
+        ? d.observations[0]?.traitId
+        : undefined;
+      const show = (o: Observation) => {
+        if (o.valueDate) return o.valueDate;
+        const col = traitColumns.get(o.traitId);
+        if (o.value === null || !col) return '—';
+        return (
+          <>
+            {formatScaled(o.value, col.shown, col.decimals)}
+            <DoubtFlag
+              doubts={[observationDoubt(o.value, col.trait, units)].filter((x) => x !== null)}
+            />
+          </>
+        );
+      };
       return {
-        value: o.valueDate ?? valueText(o.value, unit),
-        note: o.note,
-        unit,
-        isDate: o.valueDate !== null,
+        rows: d.observations,
+        summary: `${d.total.toLocaleString('en')} observations`,
+        toDraft: (o) => {
+          const col = traitColumns.get(o.traitId);
+          const unit = col?.unit ?? null;
+          const places = col?.unit ? decimalsInUnit(col.decimals, col.shown.factor) : null;
+          return {
+            value: o.valueDate ?? valueText(o.value, { unit, places }),
+            note: o.note,
+            unit,
+            places,
+            isDate: o.valueDate !== null,
+          };
+        },
+        columns: [
+          { header: 'Date', cell: (o) => o.observedOn },
+          { header: 'Site', cell: (o) => o.siteName },
+          { header: 'Plot', cell: (o) => o.plotNumber },
+          { header: 'Entry', cell: (o) => `${o.entryName} (${o.entryCode})` },
+          {
+            header: 'Trait',
+            cell: (o) =>
+              unitLabel(o.traitId) ? `${o.traitLabel} (${unitLabel(o.traitId)})` : o.traitLabel,
+          },
+          { header: 'Plant', cell: (o) => o.plantNumber },
+          {
+            // With one trait shown, the heading names its unit once.
+            header: only && unitLabel(only) ? `Value (${unitLabel(only)})` : 'Value',
+            cell: show,
+            edit: editText<Draft>('value', (x) => `Value${x.unit ? ` (${x.unit})` : ''}`, {
+              type: (x) => (x.isDate ? 'date' : 'text'),
+              inputMode: 'decimal',
+            }),
+          },
+          { header: 'Note', cell: (o) => o.note, edit: editText<Draft>('note', 'Note') },
+          { header: 'By', cell: (o) => o.updatedByName },
+        ],
       };
     },
+    rowName: (o) =>
+      `${o.traitLabel} of plot ${o.plotNumber}${o.plantNumber ? `, plant ${o.plantNumber}` : ''} on ${o.observedOn}`,
     fromStored: (c, d) => ({
       ...d,
       value: d.isDate
         ? String(c.valueDate ?? '')
-        : valueText(typeof c.value === 'number' ? c.value : null, d.unit),
+        : valueText(typeof c.value === 'number' ? c.value : null, d),
       note: String(c.note ?? ''),
     }),
     save: (o, d, version) => {
