@@ -10,7 +10,6 @@ import { createDb, createPool } from '../db/database';
 import { dataDirOf, ensureDatabase } from '../db/ensure-database';
 import { migrateToLatest } from '../db/migrator';
 import { stopPg } from '../db/pg-server';
-import { demoAccounts } from '../db/seed/demo-season';
 import { seedDemoIfEmpty } from '../db/seed/seed';
 import { parseEnv } from '../server/env';
 import { type CaptureServer, startCaptureServer } from '../server/mail/capture-server';
@@ -19,6 +18,7 @@ import { runProduction } from '../server/production';
 import { createRuntime, type Runtime } from '../server/runtime';
 import { createStorage } from '../server/storage/create-storage';
 import { buildWithProgress } from './build-progress';
+import { printDemoSignIns } from './demo-sign-ins';
 import { ensureSystemPackages } from './system-packages';
 
 /** Marks the PostgreSQL server this command starts, so a later `npm start` knows it as its own. */
@@ -128,9 +128,7 @@ async function main() {
   const url = runtime.baseUrl;
   console.log(`\nRowtally is running at ${url}\n`);
   if (mailbox) console.log(`${mailboxBanner(url, mailbox.port)}\n`);
-  console.log('Demo sign-ins (Larkhaven Seed Library, season 2026):');
-  for (const a of demoAccounts)
-    console.log(`  ${a.key.padEnd(12)} ${a.email.padEnd(36)} ${a.password}`);
+  printDemoSignIns();
   console.log('\nPress Ctrl+C to stop.');
 }
 

@@ -2,11 +2,13 @@
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import { findPgBinDir } from '../db/pg-server';
+import { NGINX_BIN } from './cluster/balancer';
 
 const checks: Record<string, () => boolean> = {
   postgresql: () => findPgBinDir() !== null,
   chromium: () => fs.existsSync('/usr/bin/chromium'),
   'poppler-utils': () => fs.existsSync('/usr/bin/pdftotext'),
+  nginx: () => fs.existsSync(NGINX_BIN),
 };
 
 export function ensureSystemPackages(names: (keyof typeof checks)[]): void {

@@ -2,7 +2,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import S3rver from 's3rver';
+import { FAKE_S3_KEYS, startFakeS3 as startS3rver } from '../../scripts/cluster/fake-s3';
 import { s3Storage } from '../../server/storage/s3-storage';
 
 export interface FakeS3 {
@@ -14,25 +14,15 @@ export interface FakeS3 {
 
 export async function startFakeS3(bucket = 'rowtally-test-photos'): Promise<FakeS3> {
   const directory = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-s3-'));
-  const server = new S3rver({
-    address: '127.0.0.1',
-    port: 0,
-    silent: true,
-    directory,
-    configureBuckets: [{ name: bucket }],
-  });
-  const { port } = await server.run();
-  const endpoint = `http://127.0.0.1:${port}`;
-  // s3rver accepts any key pair it is configured with; these are its documented defaults.
+  const server = await startS3rver({ directory, bucket });
   const storage = s3Storage({
-    endpoint,
+    endpoint: server.endpoint,
     bucket,
     region: 'us-east-1',
-    accessKeyId: 'S3RVER',
-    secretAccessKey: 'S3RVER',
+    ...FAKE_S3_KEYS,
   });
   return {
-    endpoint,
+    endpoint: server.endpoint,
     bucket,
     storage,
     async close() {

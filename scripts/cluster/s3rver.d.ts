@@ -1,4 +1,4 @@
-// Local type declaration for the parts of s3rver the tests use (the package ships no types).
+// Local type declaration for the parts of s3rver the cluster and the tests use (the package ships no types).
 declare module 's3rver' {
   interface S3rverOptions {
     address?: string;

@@ -1,0 +1,269 @@
+/**
+ * The local cluster: our own PostgreSQL, a local S3 fake (s3rver), a mail capture standing in
+ * for the relay, several built app instances (`dist/server/main.js`, production mode) on loopback
+ * ports sharing one AUTH_SECRET, one PUBLIC_URL (the balancer's) and the bucket, and nginx in
+ * front. Used by `npm run cluster`, the tests through the balancer and the cluster benchmark.
+ */
+import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { APP_DATABASE, createDatabaseIfMissing } from '../../db/ensure-database';
+import { startPg, stopPg } from '../../db/pg-server';
+import { projectRoot } from '../../server/env';
+import { type CaptureServer, startCaptureServer } from '../../server/mail/capture-server';
+import { type Balancer, startBalancer, type Upstream } from './balancer';
+import { FAKE_S3_KEYS, type RunningFakeS3, startFakeS3 } from './fake-s3';
+
+export interface ClusterOptions {
+  /** Holds the database, the bucket's files, nginx's files and each instance's log. */
+  dir: string;
+  /** The PostgreSQL data folder (by default `<dir>/pg`; the `postgres` user must reach it as root). */
+  pgDataDir?: string;
+  balancerPort: number;
+  /** One port per app instance. */
+  instancePorts: number[];
+  dbPort: number;
+  s3Port: number;
+  smtpPort: number;
+  authSecret: string;
+  /** Throwaway database (tests, benchmarks): no fsync. */
+  throwaway?: boolean;
+  /** How often each instance's /api/ready is asked. */
+  healthIntervalMs?: number;
+  /** Where the cluster's own lines go (instances' output goes to their log files). */
+  log?: (line: string) => void;
+  /** Extra environment for every instance (e.g. LOG_LEVEL, rate limits of a benchmark). */
+  instanceEnv?: Record<string, string>;
+}
+
+export interface AppInstance {
+  name: string;
+  port: number;
+  url: string;
+  logFile: string;
+  /** The running process, or undefined while stopped. */
+  process?: ChildProcess;
+}
+
+export interface Cluster {
+  url: string;
+  databaseUrl: string;
+  bucket: { endpoint: string; name: string };
+  mailbox: CaptureServer;
+  instances: AppInstance[];
+  /** Which instance listens on this port (as the balancer's upstream header names it). */
+  instanceAt(address: string): AppInstance | undefined;
+  /** Sends the signal and waits for the process to end; the instance stays stopped. */
+  stopInstance(index: number, signal?: NodeJS.Signals): Promise<void>;
+  /** Starts a stopped instance and waits until it is ready. */
+  startInstance(index: number): Promise<void>;
+  /**
+   * A rolling deploy: each instance in turn is taken out of the balancer, stopped with SIGTERM
+   * (it finishes what it is answering), started again and put back once ready.
+   */
+  rollingRestart(): Promise<void>;
+  stop(): Promise<void>;
+}
+
+const BUCKET = 'rowtally-photos';
+const READY_TIMEOUT_MS = 120_000;
+
+export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
+  const log = opts.log ?? (() => {});
+  const dir = path.resolve(opts.dir);
+  fs.mkdirSync(dir, { recursive: true });
+  const pgDataDir = opts.pgDataDir ?? path.join(dir, 'pg');
+  const stack: (() => Promise<void> | void)[] = [];
+  const unwind = async () => {
+    for (const close of stack.reverse()) await close();
+    stack.length = 0;
+  };
+
+  try {
+    if (process.getuid?.() === 0 && !opts.pgDataDir)
+      execFileSync('chown', ['postgres:postgres', dir]);
+    const pg = await startPg({
+      dataDir: pgDataDir,
+      port: opts.dbPort,
+      throwaway: opts.throwaway,
+      owner: 'npm run cluster',
+      log,
+    });
+    if (pg.started) stack.push(() => void stopPg(pgDataDir, log));
+    await createDatabaseIfMissing(pg.url(), APP_DATABASE);
+    const databaseUrl = pg.url(APP_DATABASE);
+
+    const s3: RunningFakeS3 = await startFakeS3({
+      directory: path.join(dir, 's3'),
+      bucket: BUCKET,
+      port: opts.s3Port,
+    });
+    stack.push(() => s3.close());
+    log(`S3 fake (s3rver) at ${s3.endpoint}, bucket ${BUCKET}`);
+
+    const mailbox = await startCaptureServer(opts.smtpPort);
+    stack.push(() => mailbox.close());
+
+    const url = `http://127.0.0.1:${opts.balancerPort}`;
+    const env = {
+      PATH: process.env.PATH,
+      HOME: process.env.HOME,
+      NODE_ENV: 'production',
+      HOST: '127.0.0.1',
+      PUBLIC_URL: url,
+      DATABASE_URL: databaseUrl,
+      AUTH_SECRET: opts.authSecret,
+      INSTANCE_COUNT: String(opts.instancePorts.length),
+      STORAGE_DRIVER: 's3',
+      S3_ENDPOINT: s3.endpoint,
+      S3_BUCKET: BUCKET,
+      S3_ACCESS_KEY_ID: FAKE_S3_KEYS.accessKeyId,
+      S3_SECRET_ACCESS_KEY: FAKE_S3_KEYS.secretAccessKey,
+      SMTP_HOST: '127.0.0.1',
+      SMTP_PORT: String(mailbox.port),
+      LOG_LEVEL: 'warn',
+      ...opts.instanceEnv,
+    };
+    const instances: AppInstance[] = opts.instancePorts.map((port, i) => ({
+      name: `app${i + 1}`,
+      port,
+      url: `http://127.0.0.1:${port}`,
+      logFile: path.join(dir, `app${i + 1}.log`),
+    }));
+
+    const launch = (instance: AppInstance) => {
+      const out = fs.openSync(instance.logFile, 'a');
+      const child = spawn(
+        process.execPath,
+        ['--enable-source-maps', path.join(projectRoot, 'dist/server/main.js')],
+        {
+          cwd: projectRoot,
+          env: { ...env, PORT: String(instance.port) },
+          stdio: ['ignore', out, out],
+        },
+      );
+      fs.closeSync(out);
+      instance.process = child;
+      child.once('exit', () => {
+        if (instance.process === child) instance.process = undefined;
+      });
+      return waitReady(instance);
+    };
+    stack.push(() =>
+      Promise.all(instances.map((instance) => stopProcess(instance.process, 'SIGTERM'))).then(
+        () => {},
+      ),
+    );
+    // Started together on purpose: the migrations run once, under PostgreSQL's advisory lock.
+    await Promise.all(instances.map(launch));
+    log(`${instances.length} app instances ready on ports ${opts.instancePorts.join(', ')}`);
+
+    // Instances held out of the balancer (being restarted), and what the last poll saw.
+    const held = new Set<number>();
+    const ready = instances.map(() => true);
+    const upstreams = (): Upstream[] =>
+      instances.map((instance, i) => ({ port: instance.port, down: held.has(i) || !ready[i] }));
+    const balancer: Balancer = await startBalancer({
+      dir: path.join(dir, 'nginx'),
+      port: opts.balancerPort,
+      upstreams: upstreams(),
+    });
+    stack.push(() => balancer.stop());
+    log(`nginx balancing ${url} over ${instances.length} instances`);
+
+    let polling = false;
+    let closed = false;
+    const poll = async () => {
+      if (polling || closed) return;
+      polling = true;
+      try {
+        const now = await Promise.all(instances.map((instance) => isReady(instance.url)));
+        if (!closed && now.some((r, i) => r !== ready[i])) {
+          now.forEach((r, i) => {
+            if (r !== ready[i]) log(`${instances[i]!.name} is ${r ? 'ready' : 'not ready'}`);
+            ready[i] = r;
+          });
+          await balancer.setUpstreams(upstreams());
+        }
+      } finally {
+        polling = false;
+      }
+    };
+    const watcher = setInterval(
+      () => void poll().catch((err: unknown) => log(`health check: ${String(err)}`)),
+      opts.healthIntervalMs ?? 1000,
+    );
+    stack.push(() => {
+      closed = true;
+      clearInterval(watcher);
+    });
+
+    const stopInstance = async (index: number, signal: NodeJS.Signals = 'SIGTERM') => {
+      await stopProcess(instances[index]!.process, signal);
+      ready[index] = false;
+    };
+    const startInstance = async (index: number) => {
+      await launch(instances[index]!);
+      ready[index] = true;
+      await balancer.setUpstreams(upstreams());
+    };
+
+    return {
+      url,
+      databaseUrl,
+      bucket: { endpoint: s3.endpoint, name: BUCKET },
+      mailbox,
+      instances,
+      instanceAt: (address) => instances.find((i) => address.endsWith(`:${i.port}`)),
+      stopInstance,
+      startInstance,
+      async rollingRestart() {
+        for (const [index, instance] of instances.entries()) {
+          log(`rolling restart: ${instance.name}`);
+          held.add(index);
+          await balancer.setUpstreams(upstreams());
+          await stopInstance(index, 'SIGTERM');
+          await launch(instance);
+          ready[index] = true;
+          held.delete(index);
+          await balancer.setUpstreams(upstreams());
+        }
+      },
+      stop: unwind,
+    };
+  } catch (err) {
+    await unwind();
+    throw err;
+  }
+}
+
+async function isReady(url: string): Promise<boolean> {
+  try {
+    const res = await fetch(`${url}/api/ready`, { signal: AbortSignal.timeout(2500) });
+    await res.arrayBuffer();
+    return res.ok;
+  } catch {
+    return false;
+  }
+}
+
+async function waitReady(instance: AppInstance): Promise<void> {
+  const deadline = Date.now() + READY_TIMEOUT_MS;
+  while (!(await isReady(instance.url))) {
+    if (!instance.process || Date.now() > deadline) {
+      const tail = fs.readFileSync(instance.logFile, 'utf8').split('\n').slice(-12).join('\n');
+      throw new Error(`${instance.name} did not become ready:\n${tail}`);
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+/** Signals the process and waits until it has ended (SIGKILL after 30 s). */
+async function stopProcess(child: ChildProcess | undefined, signal: NodeJS.Signals) {
+  if (!child || child.exitCode !== null || child.signalCode !== null) return;
+  const ended = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  child.kill(signal);
+  const timer = setTimeout(() => child.kill('SIGKILL'), 30_000);
+  await ended;
+  clearTimeout(timer);
+}
