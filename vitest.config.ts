@@ -44,6 +44,18 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          // Built instances behind Debian's nginx (scripts/cluster); one cluster at a time.
+          name: 'cluster',
+          include: ['tests/cluster/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 60_000,
+          hookTimeout: 300_000,
+          fileParallelism: false,
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           globalSetup: withDatabase,

@@ -1,5 +1,5 @@
 /**
- * npm test: installs the Debian packages the tests need when missing (PostgreSQL, Chromium),
+ * npm test: installs the Debian packages the tests need when missing (PostgreSQL, Chromium, nginx),
  * builds the client for the browser tests, then runs every test. The throwaway database is
  * started and stopped by the tests' global setup (tests/setup/global-db.ts).
  */
@@ -13,7 +13,7 @@ const artifacts = path.resolve('.test-artifacts');
 fs.mkdirSync(artifacts, { recursive: true });
 
 try {
-  ensureSystemPackages(['postgresql', 'chromium', 'poppler-utils']);
+  ensureSystemPackages(['postgresql', 'chromium', 'poppler-utils', 'nginx']);
 } catch (err) {
   console.error(err instanceof Error ? err.message : err);
   process.exit(1);

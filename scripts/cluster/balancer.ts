@@ -8,6 +8,7 @@
 import { type ChildProcess, spawn } from 'node:child_process';
 import fs from 'node:fs';
 import net from 'node:net';
+import os from 'node:os';
 import path from 'node:path';
 
 export const NGINX_BIN = '/usr/sbin/nginx';
@@ -35,8 +36,8 @@ const isRoot = () => process.getuid?.() === 0;
 /** Photos are refused by the app itself above its own limit, with a clear message; this only caps abuse. */
 const MAX_BODY = '100m';
 
-export function nginxConfig(c: BalancerConfig): string {
-  const tmp = path.join(c.dir, 'tmp');
+export function nginxConfig(c: BalancerConfig & { tmp: string }): string {
+  const tmp = c.tmp;
   // Every instance down is a state the watcher can be wrong about: nginx then tries them all.
   const allDown = c.upstreams.every((u) => u.down);
   const servers = c.upstreams
@@ -109,15 +110,17 @@ const count = (text: string, word: string) => text.split(word).length - 1;
 
 export async function startBalancer(config: BalancerConfig): Promise<Balancer> {
   const dir = path.resolve(config.dir);
-  const tmp = path.join(dir, 'tmp');
-  fs.mkdirSync(tmp, { recursive: true });
+  fs.mkdirSync(dir, { recursive: true });
+  // The workers write large request bodies (photos) here: under /tmp, so they can reach it
+  // whatever the permissions of the project's folders.
+  const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-nginx-'));
   if (isRoot()) {
     const [user, group] = (config.workerUser ?? 'nobody nogroup').split(' ');
     fs.chownSync(tmp, uidOf(user!), gidOf(group ?? user!));
   }
   const confFile = path.join(dir, 'nginx.conf');
   const errorLog = path.join(dir, 'error.log');
-  let current = { ...config, dir };
+  let current = { ...config, dir, tmp };
   fs.writeFileSync(confFile, nginxConfig(current));
 
   let output = '';
@@ -132,6 +135,7 @@ export async function startBalancer(config: BalancerConfig): Promise<Balancer> {
   while (!(await portAnswers(config.port))) {
     if (child.exitCode !== null || Date.now() > deadline) {
       child.kill('SIGKILL');
+      fs.rmSync(tmp, { recursive: true, force: true });
       const log = fs.existsSync(errorLog) ? fs.readFileSync(errorLog, 'utf8') : '';
       throw new Error(`nginx did not start:\n${output}${log.split('\n').slice(-6).join('\n')}`);
     }
@@ -158,12 +162,14 @@ export async function startBalancer(config: BalancerConfig): Promise<Balancer> {
       return queue;
     },
     async stop() {
-      if (child.exitCode !== null) return;
-      // SIGQUIT: finish the requests in flight, then exit.
-      child.kill('SIGQUIT');
-      const timer = setTimeout(() => child.kill('SIGKILL'), 10_000);
-      await exited;
-      clearTimeout(timer);
+      if (child.exitCode === null) {
+        // SIGQUIT: finish the requests in flight, then exit.
+        child.kill('SIGQUIT');
+        const timer = setTimeout(() => child.kill('SIGKILL'), 10_000);
+        await exited;
+        clearTimeout(timer);
+      }
+      fs.rmSync(tmp, { recursive: true, force: true });
     },
   };
 }

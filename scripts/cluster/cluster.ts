@@ -201,6 +201,7 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     const stopInstance = async (index: number, signal: NodeJS.Signals = 'SIGTERM') => {
       await stopProcess(instances[index]!.process, signal);
       ready[index] = false;
+      await balancer.setUpstreams(upstreams());
     };
     const startInstance = async (index: number) => {
       await launch(instances[index]!);
@@ -222,7 +223,8 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
           log(`rolling restart: ${instance.name}`);
           held.add(index);
           await balancer.setUpstreams(upstreams());
-          await stopInstance(index, 'SIGTERM');
+          await stopProcess(instance.process, 'SIGTERM');
+          ready[index] = false;
           await launch(instance);
           ready[index] = true;
           held.delete(index);
