@@ -1,0 +1,151 @@
+/**
+ * Benchmark: the local cluster (built instances behind nginx, scripts/cluster) with 3, 2 and 1
+ * instances answering, then 1, 2 and 3 again (so the machine's other load hits each alike):
+ * analysis and harvest-write throughput through the balancer as ratios to one instance, and the
+ * p95 of the trial page (GET /api/trials/:slug, signed in) under 50 concurrent readers.
+ *   npm run bench:cluster
+ * No target: on this 2-core machine the instances, nginx, PostgreSQL and the load generator
+ * share the same two cores, so the ratios say how much a second core's worth is reached here.
+ */
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import autocannon from 'autocannon';
+import { createDb, createPool } from '../db/database';
+import { freePort } from '../db/pg-server';
+import { startCluster } from '../scripts/cluster/cluster';
+import { buildServer, insertBenchTrial, percentile, signedInLead } from './support/bench-app';
+
+const INSTANCES = 3;
+const ROUND_SECONDS = 5;
+const CLIENTS = 20;
+const READERS = 50;
+
+buildServer();
+const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-bench-cluster-'));
+const ports = await Promise.all(Array.from({ length: INSTANCES }, () => freePort()));
+const cluster = await startCluster({
+  dir,
+  balancerPort: await freePort(),
+  instancePorts: ports,
+  dbPort: await freePort(),
+  s3Port: await freePort(),
+  smtpPort: await freePort(),
+  authSecret: crypto.randomBytes(32).toString('hex'),
+  throwaway: true,
+  instanceEnv: { ANALYSIS_RATE_PER_MINUTE: '100000', MAIL_DRIVER: 'off' },
+});
+const db = createDb(createPool(cluster.databaseUrl, 4));
+
+/** Requests per second answered 2xx; anything else stops the benchmark. */
+async function throughput(opts: autocannon.Options): Promise<number> {
+  const result = await autocannon({ connections: CLIENTS, duration: ROUND_SECONDS, ...opts });
+  if (result.non2xx > 0 || result.errors > 0)
+    throw new Error(`${result.non2xx} answers were not 2xx, ${result.errors} errors`);
+  return result['2xx'] / (result.duration || ROUND_SECONDS);
+}
+
+/** 50 readers, each asking again as soon as answered; latencies of every answer in ms. */
+async function readerLatencies(url: string, cookie: string): Promise<number[]> {
+  const until = performance.now() + ROUND_SECONDS * 1000;
+  const latencies: number[] = [];
+  await Promise.all(
+    Array.from({ length: READERS }, async () => {
+      while (performance.now() < until) {
+        const t0 = performance.now();
+        const res = await fetch(url, { headers: { cookie } });
+        await res.arrayBuffer();
+        if (!res.ok) throw new Error(`the trial page answered ${res.status}`);
+        latencies.push(performance.now() - t0);
+      }
+    }),
+  );
+  return latencies.sort((a, b) => a - b);
+}
+
+try {
+  const lead = await signedInLead(db, cluster.url);
+  const trial = await insertBenchTrial(db, {
+    slug: 'bench-cluster',
+    leadId: lead.userId,
+    entries: 12,
+    blocks: 4,
+    sites: 2,
+    harvestsPerPlot: 3,
+  });
+  const headers = { cookie: lead.cookie, origin: cluster.url };
+  let n = 0;
+  const measure = async () => ({
+    analysis: await throughput({
+      url: `${cluster.url}/api/trials/${trial.slug}/analysis?trait=yield&alpha=0.05&letters=hsd`,
+      headers,
+    }),
+    writes: await throughput({
+      url: cluster.url,
+      requests: [
+        {
+          method: 'POST',
+          path: `/api/trials/${trial.slug}/harvests`,
+          headers: { ...headers, 'content-type': 'application/json' },
+          setupRequest: (req) => ({
+            ...req,
+            body: JSON.stringify({
+              id: crypto.randomUUID(),
+              plotId: trial.plotIds[n++ % trial.plotIds.length],
+              harvestedOn: '2026-07-14',
+              fruitCount: 3,
+              massG: 412.5,
+              grade: 'marketable',
+            }),
+          }),
+        },
+      ],
+    }),
+    p95: percentile(
+      await readerLatencies(`${cluster.url}/api/trials/${trial.slug}`, lead.cookie),
+      0.95,
+    ),
+  });
+
+  // Warm every instance (JIT, connections) before measuring.
+  await measure();
+  const runs = new Map<number, { analysis: number; writes: number; p95: number }[]>();
+  const record = async (count: number) => {
+    const m = await measure();
+    runs.set(count, [...(runs.get(count) ?? []), m]);
+    console.log(
+      `  ${count} instance(s): analysis ${m.analysis.toFixed(0)}/s, writes ${m.writes.toFixed(0)}/s, trial page p95 ${m.p95.toFixed(0)} ms`,
+    );
+  };
+  console.log(
+    `through nginx, ${CLIENTS} clients for throughput, ${READERS} readers for the trial page, rounds of ${ROUND_SECONDS} s`,
+  );
+  await record(3);
+  await cluster.stopInstance(2);
+  await record(2);
+  await cluster.stopInstance(1);
+  await record(1);
+  await record(1);
+  await cluster.startInstance(1);
+  await record(2);
+  await cluster.startInstance(2);
+  await record(3);
+
+  const mean = (count: number, key: 'analysis' | 'writes' | 'p95') => {
+    const xs = runs.get(count)!.map((r) => r[key]);
+    return xs.reduce((a, b) => a + b, 0) / xs.length;
+  };
+  console.log(`cores on this machine: ${os.cpus().length}`);
+  for (const count of [1, 2, 3]) {
+    console.log(
+      `${count} instance(s): analysis ${mean(count, 'analysis').toFixed(0)}/s (ratio ${(mean(count, 'analysis') / mean(1, 'analysis')).toFixed(2)}), ` +
+        `harvest writes ${mean(count, 'writes').toFixed(0)}/s (ratio ${(mean(count, 'writes') / mean(1, 'writes')).toFixed(2)}), ` +
+        `trial page p95 ${mean(count, 'p95').toFixed(0)} ms under ${READERS} readers`,
+    );
+  }
+} finally {
+  await db.destroy();
+  await cluster.stop();
+  fs.rmSync(dir, { recursive: true, force: true });
+}
