@@ -16,6 +16,7 @@ import { projectRoot } from '../server/env';
 import { s3Storage } from '../server/storage/s3-storage';
 import { type Cluster, startCluster } from './cluster/cluster';
 import { FAKE_S3_KEYS } from './cluster/fake-s3';
+import { buildWithProgress } from './build-progress';
 import { printDemoSignIns } from './demo-sign-ins';
 import { ensureSystemPackages } from './system-packages';
 
@@ -62,16 +63,13 @@ async function main() {
   process.on('SIGTERM', () => void stop(143));
   ensureSystemPackages(['postgresql', 'nginx']);
   if (!process.argv.includes('--no-build')) {
-    console.log('Building the client and the server…');
-    const client = spawnSync(
-      process.execPath,
-      ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'],
-      { stdio: 'inherit' },
-    );
-    const server =
-      client.status === 0 &&
-      spawnSync('npm', ['run', '--silent', 'build:server'], { stdio: 'inherit' });
-    if (!server || server.status !== 0) throw new Error('The build failed.');
+    await buildWithProgress({
+      what: 'the client',
+      command: process.execPath,
+      args: ['node_modules/vite/bin/vite.js', 'build', '--logLevel', 'warn'],
+    });
+    const server = spawnSync('npm', ['run', '--silent', 'build:server'], { stdio: 'inherit' });
+    if (server.status !== 0) throw new Error('The server build failed.');
   }
   if (stopping) return;
 
