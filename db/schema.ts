@@ -4,7 +4,7 @@
  */
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
 // Enumerations come from the one list each in common/contracts (the database's checks match them).
-import type { letterMethods } from '../common/contracts/analysis';
+import type { analysisModels, letterMethods } from '../common/contracts/analysis';
 import type { MailKind, MailStatus } from '../common/contracts/mail';
 import type {
   fertilizerPolicies,
@@ -385,6 +385,8 @@ export interface ResultsSheetsTable {
   cover_photos: ColumnType<unknown, string | undefined, string>;
   alpha: Generated<number>;
   letters: Generated<(typeof letterMethods)[number]>;
+  /** The lead's model; null: the one the trial's design suggests. */
+  model: (typeof analysisModels)[number] | null;
   license: Generated<string>;
   created_at: Timestamp;
   updated_at: Timestamp;

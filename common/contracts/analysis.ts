@@ -32,7 +32,63 @@ export const designs = ['crd', 'rcbd', 'multisite'] as const;
 /** The classical analysis of variance, or REML with gardens and blocks random. */
 export const analysisModels = ['anova', 'mixed'] as const;
 export type AnalysisModel = (typeof analysisModels)[number];
+export const modelLabels: Record<AnalysisModel, string> = {
+  anova: 'Classical analysis of variance',
+  mixed: 'Mixed model (REML)',
+};
+
+/**
+ * The models a design can be analysed with: a completely randomized trial has no gardens or
+ * blocks to treat as random, so only the classical analysis applies to it.
+ */
+export function modelsForDesign(design: (typeof designs)[number]): AnalysisModel[] {
+  return design === 'crd' ? ['anova'] : ['anova', 'mixed'];
+}
+
+/**
+ * The model a design is analysed with unless the lead chooses otherwise: complete blocks at one
+ * site by the classical analysis; several sites by the mixed model, which uses every plot of a
+ * garden that lost some and weighs gardens by what they hold.
+ */
+export function defaultModelFor(design: (typeof designs)[number]): AnalysisModel {
+  return design === 'multisite' ? 'mixed' : 'anova';
+}
 export const varianceSources = ['site', 'site:block', 'block', 'site:variety', 'residual'] as const;
+export const varianceSourceLabels: Record<(typeof varianceSources)[number], string> = {
+  site: 'Gardens (sites)',
+  'site:block': 'Blocks within gardens',
+  block: 'Blocks',
+  'site:variety': 'Garden × variety',
+  residual: 'Plot to plot (residual)',
+};
+
+/** How the variety test's denominator degrees of freedom were found, in words. */
+export const ddfMethodLabels = {
+  satterthwaite: 'Satterthwaite',
+  'kenward-roger': 'Kenward–Roger',
+} as const;
+
+/**
+ * One line on the model behind a set of numbers, for every place that shows them (analysis
+ * page, web sheet, PDF) so they say the same.
+ */
+export function modelNote(model: AnalysisModel): string {
+  return model === 'anova'
+    ? `${modelLabels.anova}: sequential (type I) sums of squares.`
+    : `${modelLabels.mixed}: varieties fixed, gardens and blocks random; means are the model's estimates (BLUEs) with their standard errors.`;
+}
+
+/** The mixed model's variety test in one line. */
+export function varietyTestNote(test: {
+  numDf: number;
+  denDf: number;
+  f: number;
+  p: number;
+  method: keyof typeof ddfMethodLabels;
+}): string {
+  const p = test.p < 0.001 ? 'p < 0.001' : `p = ${test.p.toFixed(3)}`;
+  return `Varieties: F = ${test.f.toFixed(2)} on ${test.numDf} and ${test.denDf.toFixed(1)} df (${ddfMethodLabels[test.method]}), ${p}.`;
+}
 export const letterMethods = ['hsd', 'lsd'] as const;
 
 const alpha = z.coerce
@@ -50,6 +106,7 @@ export const trialAnalysisQuery = z.object({
   basis: z.enum(analysisBases).default('plot'),
   alpha,
   letters: z.enum(letterMethods).default('hsd'),
+  /** Left out: the classical analysis, as the analyze command's default (the page always sends one). */
   model: z.enum(analysisModels).default('anova'),
 });
 export type TrialAnalysisQuery = z.input<typeof trialAnalysisQuery>;

@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { decimalsFor, recordedDecimals } from '../precision';
-import { analysisBases } from './analysis';
+import { analysisBases, analysisModels, varianceSources } from './analysis';
 import { entryTypes, traitDirections, traitDisplayUnits, trialDesigns } from './trials';
 
 export const licenses = ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'all-rights-reserved'] as const;
@@ -44,6 +44,8 @@ export const saveSheetBody = z.object({
   coverPhotos: z.record(z.uuid(), z.uuid()),
   alpha: z.number().gt(0, 'Alpha is more than 0.').lt(0.5, 'Alpha is less than 0.5.'),
   letters: z.enum(['hsd', 'lsd']),
+  /** The model every trait is analysed with; null (or left out): the one the design suggests. */
+  model: z.enum(analysisModels).nullable().default(null),
   license: z.enum(licenses),
 });
 export type SaveSheetBody = z.infer<typeof saveSheetBody>;
@@ -112,6 +114,28 @@ export const snapshotTraitSchema = z.object({
     protected: z.boolean().optional(),
   }),
   hsd: z.object({ value: z.number().nullable(), q: z.number().nullable() }),
+  /** The model the numbers came from (versions before the choice: the classical analysis). */
+  model: z.enum(analysisModels).optional(),
+  /** Mixed model only: REML variance components, the variety test, the split in words. */
+  varianceComponents: z
+    .array(
+      z.object({
+        source: z.enum(varianceSources),
+        variance: z.number(),
+        se: z.number().nullable(),
+      }),
+    )
+    .optional(),
+  fixedTest: z
+    .object({
+      numDf: z.number(),
+      denDf: z.number(),
+      f: z.number(),
+      p: z.number(),
+      method: z.enum(['satterthwaite', 'kenward-roger']),
+    })
+    .optional(),
+  varianceSummary: z.string().optional(),
   warnings: z.array(z.string()),
 });
 export type SnapshotTrait = z.infer<typeof snapshotTraitSchema>;
@@ -132,6 +156,8 @@ export const resultSnapshotSchema = z.object({
   changeNote: z.string(),
   alpha: z.number(),
   letters: z.enum(['hsd', 'lsd']),
+  /** The model the sheet was analysed with (versions before the choice: the classical analysis). */
+  model: z.enum(analysisModels).optional(),
   license: z.enum(licenses),
   summary: z.string(),
   methods: z.string(),
@@ -251,3 +277,6 @@ export function sheetTraitDecimals(
   );
   return { plotValue, mean: decimalsFor('mean', plotValue) };
 }
+
+/** The model a published version used; versions from before the choice used the classical one. */
+export const sheetModel = (s: Pick<ResultSnapshot, 'model'>) => s.model ?? 'anova';

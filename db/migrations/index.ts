@@ -17,6 +17,7 @@ import * as signInThrottles from './2026-12-02T1410-sign-in-throttles';
 import * as outgoingMail from './2026-12-02T2000-outgoing-mail';
 import * as traitUnitsAndRanges from './2026-12-02T2100-trait-units-and-ranges';
 import * as trialCopiedFrom from './2026-12-02T2200-trial-copied-from';
+import * as sheetModel from './2026-12-02T3400-sheet-model';
 import * as varietyRegister from './2026-12-02T3500-variety-register';
 
 export const migrations: Record<string, Migration> = {
@@ -34,5 +35,6 @@ export const migrations: Record<string, Migration> = {
   '2026-12-02T2000-outgoing-mail': outgoingMail,
   '2026-12-02T2100-trait-units-and-ranges': traitUnitsAndRanges,
   '2026-12-02T2200-trial-copied-from': trialCopiedFrom,
+  '2026-12-02T3400-sheet-model': sheetModel,
   '2026-12-02T3500-variety-register': varietyRegister,
 };

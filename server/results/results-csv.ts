@@ -1,5 +1,9 @@
 import { writeCsv } from '../../common/csv';
-import { sheetTraitDecimals, type ResultSnapshot } from '../../common/contracts/results';
+import {
+  sheetModel,
+  sheetTraitDecimals,
+  type ResultSnapshot,
+} from '../../common/contracts/results';
 import { exportNumber } from '../../common/precision';
 import { rankMeans } from '../../common/ranking';
 
@@ -18,9 +22,14 @@ export function meansCsv(s: ResultSnapshot): string {
       n: m.n,
       mean: exportNumber(m.mean, d),
       se: exportNumber(m.se, d),
+      // The mean the rank and letters follow where it differs from the plain one (unbalanced
+      // layouts, the mixed model); empty where they are the same.
+      adjusted_mean: m.adjustedMean === undefined ? '' : exportNumber(m.adjustedMean, d),
+      adjusted_se: m.adjustedSe == null ? '' : exportNumber(m.adjustedSe, d),
       group: m.group,
       rank: m.rank ?? '',
       alpha: s.alpha,
+      model: t.model ?? sheetModel(s),
       version: s.version,
       license: s.license,
     }));
@@ -56,9 +65,12 @@ const MEANS_COLUMNS = [
   'n',
   'mean',
   'se',
+  'adjusted_mean',
+  'adjusted_se',
   'group',
   'rank',
   'alpha',
+  'model',
   'version',
   'license',
 ] as const;

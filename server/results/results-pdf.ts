@@ -1,7 +1,9 @@
 /** The published sheet as a PDF (A4 or US Letter), generated on the server with pdfkit. */
 import PDFDocument from 'pdfkit';
+import { modelNote, varietyTestNote } from '../../common/contracts/analysis';
 import {
   licenseLabels,
+  sheetModel,
   sheetTraitDecimals,
   type ResultSnapshot,
 } from '../../common/contracts/results';
@@ -63,6 +65,7 @@ export function renderSheetPdf(
       `${s.trial.crop} · ${s.trial.season} · ${designLabels[s.trial.design]} · version ${s.version}, published ${s.publishedAt.slice(0, 10)}`,
     );
   if (s.changeNote) doc.text(`What changed: ${s.changeNote}`);
+  doc.text(`Analysis: ${modelNote(sheetModel(s))}`);
   doc.moveDown();
   doc.fillColor('#1f2a1c');
   if (s.summary) doc.fontSize(11).text(s.summary).moveDown();
@@ -89,6 +92,8 @@ export function renderSheetPdf(
       .text(
         `Grand mean ${v(t.grandMean)}${unit}; CV ${fmt(t.cvPercent, 1)} %; ${s.letters === 'hsd' ? `Tukey HSD ${v(t.hsd.value)}` : `LSD ${v(t.lsd.value)}`} (α = ${s.alpha})`,
       );
+    if (t.fixedTest) doc.text(varietyTestNote(t.fixedTest));
+    if (t.varianceSummary) doc.text(t.varianceSummary);
     doc.fillColor('#1f2a1c').fontSize(10);
     for (const m of rankMeans(t.means, t.direction))
       doc.text(

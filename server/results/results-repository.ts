@@ -19,6 +19,7 @@ export async function upsertSheet(db: DB, trialId: string, body: SaveSheetBody, 
     cover_photos: JSON.stringify(body.coverPhotos),
     alpha: body.alpha,
     letters: body.letters,
+    model: body.model,
     license: body.license,
     updated_by: userId,
   };

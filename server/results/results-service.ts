@@ -9,6 +9,8 @@ import {
   type PublishedSheetList,
   type PublishedSheetsQuery,
 } from '../../common/contracts/results';
+import { modelsForDesign } from '../../common/contracts/analysis';
+import { designLabels } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
@@ -39,6 +41,7 @@ async function currentSheet(db: DB, trial: Trial): Promise<SaveSheetBody> {
     coverPhotos: row.cover_photos as SaveSheetBody['coverPhotos'],
     alpha: row.alpha,
     letters: row.letters,
+    model: row.model,
     license: row.license as SaveSheetBody['license'],
   };
 }
@@ -95,6 +98,11 @@ async function assertSheetRefersToTrial(db: DB, trial: Trial, body: SaveSheetBod
   const traitKeys = new Set(traits.map((t) => t.key));
   const entryIds = new Set(entries.map((e) => e.id));
   const fields: { path: string; message: string }[] = [];
+  if (body.model && !modelsForDesign(trial.design).includes(body.model))
+    fields.push({
+      path: 'body.model',
+      message: `A ${designLabels[trial.design].toLowerCase()} trial is analysed by the classical analysis of variance only.`,
+    });
   body.traits.forEach((t, i) => {
     if (!traitKeys.has(t.key))
       fields.push({ path: `body.traits.${i}.key`, message: `The trial has no trait "${t.key}".` });

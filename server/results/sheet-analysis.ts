@@ -3,6 +3,7 @@
  * answers with (so the published numbers equal the API's), and the engine's cross-trait ranking
  * over exactly the traits and bases the sheet shows.
  */
+import type { AnalysisModel } from '../../common/contracts/analysis';
 import type { ResultSnapshot, SnapshotTrait } from '../../common/contracts/results';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
@@ -14,7 +15,13 @@ import { seasonOfTrial } from '../weather/weather-service';
 export async function analyzeForSheet(
   db: DB,
   trial: Trial,
-  choice: { trait: string; basis: SnapshotTrait['basis']; alpha: number; letters: 'hsd' | 'lsd' },
+  choice: {
+    trait: string;
+    basis: SnapshotTrait['basis'];
+    alpha: number;
+    letters: 'hsd' | 'lsd';
+    model: AnalysisModel;
+  },
 ) {
   try {
     const result = await analyseTrialTrait(db, trial, choice);
@@ -47,7 +54,8 @@ export function rankForSheet(traits: SnapshotTrait[]): ResultSnapshot['ranking']
       trait: t.key,
       direction: t.direction,
       weight: t.weight,
-      means: Object.fromEntries(t.means.map((m) => [m.variety, m.mean])),
+      // The mean each trait ranks by: adjusted (least-squares or mixed-model) where stored.
+      means: Object.fromEntries(t.means.map((m) => [m.variety, m.adjustedMean ?? m.mean])),
     })),
     varieties,
   );

@@ -3,6 +3,7 @@
  * the lead's text, the chosen photos, the growing conditions. Nothing here is recomputed later:
  * readers always see exactly what was published.
  */
+import { defaultModelFor, type AnalysisModel } from '../../common/contracts/analysis';
 import type { ResultSnapshot, SaveSheetBody, SnapshotTrait } from '../../common/contracts/results';
 import { cautions, isSpinyCrop } from '../../common/cautions';
 import type { DB } from '../../db/database';
@@ -28,9 +29,14 @@ export async function defaultSheet(db: DB, trial: Trial): Promise<SaveSheetBody>
     coverPhotos: {},
     alpha: 0.05,
     letters: 'hsd',
+    model: null,
     license: 'CC-BY-4.0',
   };
 }
+
+/** The model a sheet is analysed with: the lead's choice, else the one the design suggests. */
+export const modelOfSheet = (trial: Trial, sheet: SaveSheetBody): AnalysisModel =>
+  sheet.model ?? defaultModelFor(trial.design);
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
@@ -91,7 +97,9 @@ export async function generatedMethods(
     `${Number(entries.n)} entries of ${trial.crop.toLowerCase()} were compared in ${layout}, ${plural(Number(plots.n), 'plot')} in all, in the ${trial.season} season${dates ? ` (${dates})` : ''}.`,
     sites.length ? `${sites.length === 1 ? 'Site' : 'Sites'}: ${siteText}.` : '',
     fertilizer,
-    `Plot values were analysed by analysis of variance (sequential sums of squares${trial.design === 'multisite' ? '; entries tested against the site × entry interaction' : ''}); means were separated by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`,
+    modelOfSheet(trial, sheet) === 'mixed'
+      ? `Plot values were analysed with a linear mixed model fitted by REML: entries fixed; ${trial.design === 'multisite' ? 'sites, blocks within sites and, where the data allow, site × entry' : 'blocks'} random. Entries were tested by a Wald F test with Satterthwaite's denominator degrees of freedom, and ranked and separated on their estimated means (BLUEs) by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`
+      : `Plot values were analysed by analysis of variance (sequential sums of squares${trial.design === 'multisite' ? '; entries tested against the site × entry interaction' : ''}); means were separated by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`,
   ]
     .filter(Boolean)
     .join(' ');
@@ -121,6 +129,7 @@ export async function buildSnapshot(
   ]);
   const traitByKey = new Map(traitRows.map((t) => [t.key, t]));
 
+  const model = modelOfSheet(trial, sheet);
   const traits: SnapshotTrait[] = [];
   const plotValues: ResultSnapshot['plotValues'] = [];
   for (const choice of sheet.traits) {
@@ -131,6 +140,7 @@ export async function buildSnapshot(
       basis: choice.basis,
       alpha: sheet.alpha,
       letters: sheet.letters,
+      model,
     });
     if (!result) continue;
     traits.push({
@@ -149,9 +159,10 @@ export async function buildSnapshot(
       cvPercent: Number.isFinite(result.cvPercent) ? result.cvPercent : null,
       anova: result.anova,
       means: result.means.map((m) => {
-        // Unbalanced layouts rank by the adjusted means; the sheet shows them beside the plain ones.
+        // Unbalanced layouts and the mixed model rank by the adjusted means (BLUEs); the sheet
+        // shows them beside the plain ones.
         const adjusted =
-          result.method === 'least-squares'
+          result.method === 'least-squares' || result.model === 'mixed'
             ? result.adjustedMeans.find((a) => a.variety === m.variety)
             : undefined;
         return {
@@ -167,6 +178,20 @@ export async function buildSnapshot(
       }),
       lsd: result.lsd,
       hsd: result.hsd,
+      model: result.model,
+      ...(result.varianceComponents ? { varianceComponents: result.varianceComponents } : {}),
+      ...(result.fixedTest
+        ? {
+            fixedTest: {
+              numDf: result.fixedTest.numDf,
+              denDf: result.fixedTest.denDf,
+              f: result.fixedTest.f,
+              p: result.fixedTest.p,
+              method: result.fixedTest.method,
+            },
+          }
+        : {}),
+      ...(result.varianceSummary ? { varianceSummary: result.varianceSummary } : {}),
       warnings: result.warnings,
     });
     for (const v of result.plotValues) plotValues.push({ trait: trait.key, ...v });
@@ -195,6 +220,7 @@ export async function buildSnapshot(
     changeNote: meta.changeNote,
     alpha: sheet.alpha,
     letters: sheet.letters,
+    model,
     license: sheet.license,
     summary: sheet.summary,
     methods: sheet.methods ?? (await generatedMethods(db, trial, sheet)),

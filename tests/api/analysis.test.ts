@@ -165,6 +165,52 @@ describe('the API and the analyze command give the same numbers', () => {
     const cmd = JSON.parse(run.stdout) as ReturnType<typeof analyzeCsv>;
     expectSameNumbers(b, cmd);
   }, 60_000);
+
+  it('with the mixed model, the API and the command (--model mixed) give the same REML fit, BLUEs, ranks and letters', async () => {
+    const r = await analysis('marketable_yield', '&model=mixed');
+    expect(r.status).toBe(200);
+    const b = r.body as Body & ReturnType<typeof analyzeCsv>;
+    expect(b.model).toBe('mixed');
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'rowtally-analysis-'));
+    const file = path.join(dir, 'marketable-yield.csv');
+    writeFileSync(file, toCsv(b));
+    const run = spawnSync(
+      process.execPath,
+      [
+        '--import',
+        'tsx',
+        'server/analysis/cli.ts',
+        file,
+        '--trait',
+        'value',
+        '--design',
+        'multisite',
+        '--model',
+        'mixed',
+      ],
+      { encoding: 'utf8', timeout: 60_000 },
+    );
+    expect(run.stderr).toBe('');
+    expect(run.status).toBe(0);
+    const cmd = JSON.parse(run.stdout) as ReturnType<typeof analyzeCsv>;
+    expect(cmd.model).toBe('mixed');
+    expectSameNumbers(b, cmd);
+    for (const key of [
+      'adjustedMeans',
+      'varianceComponents',
+      'fixedTest',
+      'logLik',
+      'boundary',
+    ] as const)
+      expect(b[key]).toEqual(cmd[key]);
+    // Three gardens in blocks: gardens, blocks within gardens and garden × variety are random.
+    expect(b.varianceComponents!.map((c) => c.source)).toEqual([
+      'site',
+      'site:block',
+      'site:variety',
+      'residual',
+    ]);
+  }, 60_000);
 });
 
 describe('records the analysis reads', () => {

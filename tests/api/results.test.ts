@@ -97,9 +97,11 @@ describe('the results sheet', () => {
     expect(pub.status).toBe(201);
     expect(pub.body.version).toBe(1);
     const publicSheet = (await as(null).get(`/api/results/${SLUG}`)).body;
+    // No model chosen: several sites are analysed with the mixed model, and the sheet says so.
+    expect(publicSheet.model).toBe('mixed');
     for (const trait of sheet.traits) {
       const api = await as(viewer).get(
-        `/api/trials/${SLUG}/analysis?trait=${trait.key}&alpha=0.05&letters=hsd`,
+        `/api/trials/${SLUG}/analysis?trait=${trait.key}&alpha=0.05&letters=hsd&model=${publicSheet.model}`,
       );
       expect(api.status).toBe(200);
       const published = publicSheet.traits.find((x: { key: string }) => x.key === trait.key);
@@ -239,10 +241,10 @@ describe('the results sheet', () => {
     const csv = (await as(null).get(`/api/results/${SLUG}/v/2/plots.csv?trait=marketable_yield`))
       .text;
     expect(csv.split('\n')[0]).toBe('trait,unit,variety,site,block,plot,value');
-    const result = analyzeCsv(csv, { trait: 'value', design: 'multisite' });
     const published = (await as(null).get(`/api/results/${SLUG}/v/2`)).body.traits.find(
       (x: { key: string }) => x.key === 'marketable_yield',
     );
+    const result = analyzeCsv(csv, { trait: 'value', design: 'multisite', model: published.model });
     expect(result.means.map((m) => [m.variety, m.mean, m.group])).toEqual(
       published.means.map((m: { variety: string; mean: number; group: string }) => [
         m.variety,
@@ -256,7 +258,7 @@ describe('the results sheet', () => {
     );
     const means = (await as(null).get(`/api/results/${SLUG}/v/2/means.csv`)).text;
     expect(means.split('\n')[0]).toBe(
-      'trait,unit,direction,variety,n,mean,se,group,rank,alpha,version,license',
+      'trait,unit,direction,variety,n,mean,se,adjusted_mean,adjusted_se,group,rank,alpha,model,version,license',
     );
     expect(means).toContain('CC-BY-4.0');
   });
@@ -432,6 +434,78 @@ describe('the results sheet', () => {
     );
     // And the unpublished trial's photo stays private at its own address.
     expect((await as(null).get(`/api/trials/${SLUG}/photos/${other}/display`)).status).toBe(401);
+  });
+
+  it('publishes the model the lead chose and shows it in the JSON, the means CSV and the PDF; a trial without blocks refuses the mixed model', async () => {
+    const saved = await as(lead).send('put', `/api/trials/${SLUG}/results-sheet`, {
+      ...sheet,
+      model: 'anova',
+    });
+    expect(saved.status).toBe(200);
+    expect(saved.body.model).toBe('anova');
+    expect(saved.body.generatedMethods).toContain('analysed by analysis of variance');
+    const pub = await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
+      changeNote: 'Classical analysis of variance, as last season.',
+    });
+    expect(pub.status).toBe(201);
+    const v = pub.body.version as number;
+    const classical = (await as(null).get(`/api/results/${SLUG}/v/${v}`)).body;
+    expect(classical.model).toBe('anova');
+    const yieldTrait = classical.traits.find((x: { key: string }) => x.key === 'marketable_yield');
+    expect(yieldTrait.model).toBe('anova');
+    expect(yieldTrait.varianceComponents).toBeUndefined();
+    const api = await as(viewer).get(
+      `/api/trials/${SLUG}/analysis?trait=marketable_yield&model=anova`,
+    );
+    expect(yieldTrait.means.map((m: { group: string }) => m.group)).toEqual(
+      api.body.means.map((m: { group: string }) => m.group),
+    );
+    const csv = (await as(null).get(`/api/results/${SLUG}/v/${v}/means.csv`)).text;
+    expect(csv.split('\n')[1]).toMatch(/,0\.05,anova,/);
+
+    // The version before it (no model chosen, several sites) used the mixed model: its
+    // variance components and variety test are stored, and the PDF says which model it was.
+    const mixed = (await as(null).get(`/api/results/${SLUG}/v/${v - 1}`)).body;
+    const mixedYield = mixed.traits.find((x: { key: string }) => x.key === 'marketable_yield');
+    expect(mixedYield.model).toBe('mixed');
+    expect(mixedYield.fixedTest.method).toBe('satterthwaite');
+    expect(mixedYield.varianceComponents.map((c: { source: string }) => c.source)).toContain(
+      'site',
+    );
+    expect((await as(null).get(`/api/results/${SLUG}/v/${v - 1}/means.csv`)).text).toContain(
+      ',0.05,mixed,',
+    );
+    const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-pdf-')), 'sheet.pdf');
+    for (const [version, words] of [
+      [v, 'Analysis: Classical analysis of variance'],
+      [v - 1, 'Analysis: Mixed model (REML)'],
+    ] as const) {
+      const pdf = await as(null)
+        .get(`/api/results/${SLUG}/v/${version}/sheet.pdf`)
+        .buffer(true)
+        .parse(asBytes);
+      fs.writeFileSync(file, pdf.body as Buffer);
+      expect(execFileSync('pdftotext', [file, '-'], { encoding: 'utf8' })).toContain(words);
+    }
+
+    const crd = await as(lead).send('post', '/api/trials', {
+      title: 'Okra rows at Wend Hollow',
+      crop: 'Okra',
+      season: '2027',
+      design: 'crd',
+    });
+    expect(crd.status).toBe(201);
+    const refused = await as(lead).send('put', `/api/trials/${crd.body.slug}/results-sheet`, {
+      ...sheet,
+      entryNotes: {},
+      model: 'mixed',
+    });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.details.fields).toContainEqual({
+      path: 'body.model',
+      message:
+        'A completely randomized trial is analysed by the classical analysis of variance only.',
+    });
   });
 
   it('refuses to change a published version even from inside the database', async () => {

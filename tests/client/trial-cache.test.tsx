@@ -56,6 +56,7 @@ const analysisQuery = {
   basis: 'plot' as const,
   alpha: 0.05,
   letters: 'hsd' as const,
+  model: 'anova' as const,
 };
 
 /** Every query the features make about one trial, by the features' own queryOptions. */

@@ -53,6 +53,13 @@ describe('analysis screens', () => {
         'Tallow Creek Green',
       );
       await expect(first.locator('[data-letters]').textContent()).resolves.toBe('a');
+      // Several sites: the page opens on the mixed model and shows its variance components.
+      const model = page.getByRole('combobox', { name: /^Model/ });
+      await expect(model.inputValue()).resolves.toBe('mixed');
+      await page.getByRole('table', { name: /Variance components/ }).waitFor();
+      await expect(page.getByRole('region', { name: 'Model used' }).textContent()).resolves.toMatch(
+        /Satterthwaite/,
+      );
       await page.getByRole('table', { name: /Weighted index/ }).waitFor();
       await page.getByRole('table', { name: /Degree days, hot days and water/ }).waitFor();
       // Tables scroll inside their own box; the page does not scroll sideways.
@@ -60,6 +67,13 @@ describe('analysis screens', () => {
       expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
       await expectNoSeriousA11yViolations(page);
       await screenshot(page, `analysis-trial-${viewport.width}`);
+
+      // The lead switches to the classical analysis: the variance components go.
+      await model.selectOption('anova');
+      await page.getByRole('table', { name: /Variance components/ }).waitFor({ state: 'detached' });
+      await expect(page.url()).toContain('model=anova');
+      await model.selectOption('mixed');
+      await page.getByRole('table', { name: /Variance components/ }).waitFor();
 
       // Choosing another trait by keyboard recomputes.
       await page.getByLabel('Trait', { exact: true }).selectOption('heat_tolerance');

@@ -1,4 +1,8 @@
-import { type AnalysisBasis, trialAnalysisSchema } from '@common/contracts/analysis';
+import {
+  type AnalysisBasis,
+  type AnalysisModel,
+  trialAnalysisSchema,
+} from '@common/contracts/analysis';
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 import { trialKeys } from '@/lib/trial-keys';
@@ -8,11 +12,18 @@ export interface TrialAnalysisParams {
   basis: AnalysisBasis;
   alpha: number;
   letters: 'hsd' | 'lsd';
+  model: AnalysisModel;
 }
 
 export const getTrialAnalysis = (slug: string, q: TrialAnalysisParams) =>
   api(`/api/trials/${encodeURIComponent(slug)}/analysis`, trialAnalysisSchema, {
-    query: { trait: q.trait, basis: q.basis, alpha: q.alpha, letters: q.letters },
+    query: {
+      trait: q.trait,
+      basis: q.basis,
+      alpha: q.alpha,
+      letters: q.letters,
+      model: q.model,
+    },
   });
 
 export const trialAnalysisQueryOptions = (slug: string, q: TrialAnalysisParams) =>

@@ -1,4 +1,9 @@
-import type { AnalysisResult } from '@common/contracts/analysis';
+import {
+  type AnalysisResult,
+  modelNote,
+  varianceSourceLabels,
+  varietyTestNote,
+} from '@common/contracts/analysis';
 import { type DisplayUnit, formatF, formatNumber, formatP } from '@common/display-units';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
@@ -57,6 +62,71 @@ export function WarningsList({ warnings }: { warnings: string[] }) {
   );
 }
 
+/**
+ * Which model the ranks and letters came from and, for the mixed model, its variance
+ * components, the variety test and the REML log-likelihood.
+ */
+export function MixedModelPanel({ result, unit }: { result: AnalysisResult; unit: DisplayUnit }) {
+  const f2 = unit.factor * unit.factor;
+  const components = result.varianceComponents ?? [];
+  const total = components.reduce((s, c) => s + c.variance, 0);
+  return (
+    <section
+      aria-label="Model used"
+      className="mt-3 rounded-lg bg-white p-3 text-sm shadow-sm"
+      data-model={result.model}
+    >
+      <p>{modelNote(result.model)}</p>
+      {result.fixedTest ? <p className="mt-1">{varietyTestNote(result.fixedTest)}</p> : null}
+      {result.varianceSummary ? <p className="mt-1">{result.varianceSummary}</p> : null}
+      {components.length ? (
+        <ScrollRegion label="Variance components" className="mt-2">
+          <table className="w-full min-w-[24rem] text-left text-sm">
+            <caption className="text-left font-semibold text-leaf-900">
+              Variance components (REML, ({unit.label})²)
+              {result.logLik === undefined ? null : (
+                <span className="block text-xs font-normal text-loam-700">
+                  REML log-likelihood {result.logLik.toFixed(3)}
+                  {result.boundary ? '; a component was estimated as zero and kept there' : ''}
+                </span>
+              )}
+            </caption>
+            <thead className="bg-leaf-50 text-leaf-900">
+              <tr>
+                <th scope="col" className={th}>
+                  Source
+                </th>
+                <th scope="col" className={`${th} text-right`}>
+                  Variance ± SE
+                </th>
+                <th scope="col" className={`${th} text-right`}>
+                  Share
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {components.map((c) => (
+                <tr key={c.source} className="border-t border-leaf-50">
+                  <th scope="row" className="p-2 font-medium">
+                    {varianceSourceLabels[c.source]}
+                  </th>
+                  <td className={`${td} text-right`} data-variance={c.variance}>
+                    {formatNumber(c.variance * f2)}
+                    {c.se === null ? '' : ` ± ${formatNumber(c.se * f2, 3)}`}
+                  </td>
+                  <td className={`${td} text-right`}>
+                    {total > 0 ? `${Math.round((100 * c.variance) / total)} %` : '—'}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </ScrollRegion>
+      ) : null}
+    </section>
+  );
+}
+
 export function AnovaTable({
   result,
   unit,
@@ -74,6 +144,9 @@ export function AnovaTable({
           Analysis of variance: {title}
           <span className="block text-xs font-normal text-loam-700">
             Sequential (type I) sums of squares; SS and MS in ({unit.label})².
+            {result.model === 'mixed'
+              ? ' Shown for reference: the ranks and letters come from the mixed model.'
+              : ''}
             {result.design === 'multisite'
               ? ' Variety is tested against site × variety, site against blocks within sites.'
               : ''}
@@ -150,8 +223,9 @@ export function MeansTable({
   const test = result.letters === 'hsd' ? 'Tukey HSD' : 'Fisher LSD';
   // Unbalanced layouts: the model's adjusted means differ from the arithmetic ones and carry
   // the ranks and letters, so both are shown.
+  const mixed = result.model === 'mixed';
   const adjusted =
-    result.method === 'least-squares'
+    result.method === 'least-squares' || mixed
       ? new Map(result.adjustedMeans.map((a) => [a.variety, a]))
       : null;
   return (
@@ -162,9 +236,11 @@ export function MeansTable({
           <span className="block text-xs font-normal text-loam-700">
             Entries sharing a letter are not significantly different ({test}, α = {result.alpha}).
             SE is each entry’s own SD ÷ √n.
-            {adjusted
-              ? ' Ranks and letters come from the adjusted (least-squares) means: the model’s predictions averaged over blocks, with the model’s SE.'
-              : ''}
+            {mixed
+              ? ' Ranks and letters come from the mixed model’s estimates of the entry means (BLUEs), with the model’s SE.'
+              : adjusted
+                ? ' Ranks and letters come from the adjusted (least-squares) means: the model’s predictions averaged over blocks, with the model’s SE.'
+                : ''}
           </span>
         </caption>
         <thead className="bg-leaf-50 text-leaf-900">
@@ -183,7 +259,7 @@ export function MeansTable({
             </th>
             {adjusted ? (
               <th scope="col" className={`${th} text-right`}>
-                Adjusted mean ± SE
+                {mixed ? 'Model estimate ± SE' : 'Adjusted mean ± SE'}
               </th>
             ) : null}
             <th scope="col" className={th}>

@@ -1,9 +1,13 @@
 import { directionWords } from '@common/ranking';
 import {
   type AnalysisBasis,
+  type AnalysisModel,
   analysisBases,
   basisLabels,
+  defaultModelFor,
   derivedTraits,
+  modelLabels,
+  modelsForDesign,
 } from '@common/contracts/analysis';
 import { useId } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
@@ -16,6 +20,7 @@ import { useTrialAnalysis } from '../api/get-trial-analysis';
 import {
   AnovaTable,
   MeansTable,
+  MixedModelPanel,
   ResultSummary,
   SeparationSummary,
   WarningsList,
@@ -54,7 +59,20 @@ export function Component() {
     current?.amount && basisParam && analysisBases.includes(basisParam) ? basisParam : 'plot';
   const alpha = Number(params.get('alpha') ?? '0.05');
   const letters = params.get('letters') === 'lsd' ? 'lsd' : 'hsd';
-  const analysis = useTrialAnalysis(slug, { trait: traitKey, basis, alpha, letters });
+  // The model: the lead's choice where the design allows it, else the one the design suggests.
+  const design = trial.data?.design ?? 'crd';
+  const models = modelsForDesign(design);
+  const modelParam = params.get('model') as AnalysisModel | null;
+  const model: AnalysisModel =
+    modelParam && models.includes(modelParam) ? modelParam : defaultModelFor(design);
+  // Nothing is asked for until the trial (and so its design) is known.
+  const analysis = useTrialAnalysis(slug, {
+    trait: trial.data ? traitKey : '',
+    basis,
+    alpha,
+    letters,
+    model,
+  });
 
   const set = (key: string, value: string) => {
     const next = new URLSearchParams(params);
@@ -87,7 +105,7 @@ export function Component() {
       </p>
 
       <form
-        className="mt-4 grid gap-3 rounded-xl bg-white p-4 shadow-sm sm:grid-cols-4"
+        className="mt-4 grid gap-3 rounded-xl bg-white p-4 shadow-sm sm:grid-cols-2 lg:grid-cols-5"
         onSubmit={(e) => e.preventDefault()}
         aria-label="Choose what to analyse"
       >
@@ -148,6 +166,27 @@ export function Component() {
             <option value="lsd">Fisher LSD</option>
           </select>
         </label>
+        <label className="text-sm">
+          Model
+          <select
+            className={select}
+            value={model}
+            disabled={models.length < 2}
+            onChange={(e) => set('model', e.target.value)}
+            aria-describedby={`${id}-model-help`}
+          >
+            {models.map((m) => (
+              <option key={m} value={m}>
+                {modelLabels[m]}
+              </option>
+            ))}
+          </select>
+          <span id={`${id}-model-help`} className="text-xs text-loam-700">
+            {models.length < 2
+              ? 'No blocks or gardens to treat as random.'
+              : `Suggested by the design: ${modelLabels[defaultModelFor(design)]}.`}
+          </span>
+        </label>
       </form>
 
       <div aria-live="polite">
@@ -179,6 +218,7 @@ export function Component() {
           <p className="text-sm text-loam-700">Plot value: {result.valueNote}.</p>
           <ResultSummary result={result} unit={unit} />
           <WarningsList warnings={result.warnings} />
+          <MixedModelPanel result={result} unit={unit} />
           <AnovaTable result={result} unit={unit} title={result.traitLabel} />
           <MeansTable
             result={result}

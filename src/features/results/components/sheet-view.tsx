@@ -1,4 +1,10 @@
-import { licenseLabels, sheetTraitDecimals, type ResultSnapshot } from '@common/contracts/results';
+import {
+  licenseLabels,
+  sheetModel,
+  sheetTraitDecimals,
+  type ResultSnapshot,
+} from '@common/contracts/results';
+import { modelNote, varietyTestNote } from '@common/contracts/analysis';
 import { displayNumber } from '@common/precision';
 import { designLabels } from '@common/contracts/trials';
 import { formatDepth } from '@common/units';
@@ -43,6 +49,9 @@ export function SheetView({
             ? `Preview of version ${sheet.version}`
             : `Version ${sheet.version}, published ${sheet.publishedAt.slice(0, 10)}`}{' '}
           · {sheet.plotCount} plots
+        </p>
+        <p className="mt-1 text-sm text-loam-700" data-model={sheetModel(sheet)}>
+          Analysis: {modelNote(sheetModel(sheet))}
         </p>
         {sheet.changeNote ? (
           <p className="mt-2 rounded bg-straw-200 p-2 text-sm">What changed: {sheet.changeNote}</p>
@@ -127,6 +136,10 @@ export function SheetView({
               ? `HSD ${formatInUnit(t.hsd.value, du(t), dm(t))}`
               : `LSD ${formatInUnit(t.lsd.value, du(t), dm(t))}`}
           </p>
+          {t.fixedTest ? (
+            <p className="text-sm text-loam-700">{varietyTestNote(t.fixedTest)}</p>
+          ) : null}
+          {t.varianceSummary ? <p className="text-sm text-loam-700">{t.varianceSummary}</p> : null}
           <ScrollRegion
             label={`${t.label}: entry means`}
             className="mt-2 rounded-lg bg-white shadow-sm"

@@ -1,5 +1,12 @@
 import { licenseLabels, licenses, type SaveSheetBody } from '@common/contracts/results';
-import { basisLabels, analysisBases } from '@common/contracts/analysis';
+import {
+  basisLabels,
+  analysisBases,
+  defaultModelFor,
+  modelLabels,
+  modelsForDesign,
+  type AnalysisModel,
+} from '@common/contracts/analysis';
 import { useEffect, useRef, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -239,6 +246,25 @@ export function Component() {
               >
                 <option value="hsd">Tukey's HSD</option>
                 <option value="lsd">Fisher's LSD</option>
+              </select>
+            </label>
+            <label className="text-sm font-medium">
+              Model
+              <select
+                className={field}
+                value={form.model ?? ''}
+                onChange={(e) =>
+                  set({ model: e.target.value === '' ? null : (e.target.value as AnalysisModel) })
+                }
+              >
+                <option value="">
+                  As the design suggests ({modelLabels[defaultModelFor(t.design)]})
+                </option>
+                {modelsForDesign(t.design).map((m) => (
+                  <option key={m} value={m}>
+                    {modelLabels[m]}
+                  </option>
+                ))}
               </select>
             </label>
             <label className="text-sm font-medium">
