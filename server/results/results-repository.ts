@@ -32,7 +32,7 @@ export async function upsertSheet(db: DB, trialId: string, body: SaveSheetBody, 
 
 /**
  * Next season's trial starts with this one's sheet settings: the traits shown (with basis,
- * weight and order), alpha, the letters method and the licence. The summary, methods, entry
+ * weight and order), alpha, the letters method, the model and the licence. The summary, methods, entry
  * notes and cover photos speak of this season's results and stay behind. Trait keys carry over
  * with the traits, so the choice still names the copy's own traits.
  */
@@ -51,6 +51,7 @@ export async function copySheetSettings(
       traits: JSON.stringify(from.traits),
       alpha: from.alpha,
       letters: from.letters,
+      model: from.model,
       license: from.license,
       methods: null,
       created_by: by,
