@@ -1,7 +1,7 @@
 /**
  * npm run --silent analyze -- FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite]
  *                                      [--letters hsd|lsd] [--direction higher|lower|none]
- *                                      [--model anova|mixed]
+ *                                      [--model anova|mixed] [--factor COLUMN [--split-plot]]
  * Prints one JSON object on stdout; on bad input exits 1 with one line on stderr.
  */
 import { readFileSync } from 'node:fs';
@@ -9,12 +9,13 @@ import { parseArgs } from 'node:util';
 import {
   AnalysisInputError,
   analyzeCsv,
+  analyzeTwoFactorCsv,
   type AnalyzeOptions,
   type Design,
 } from './engine/analyze.js';
 
 const USAGE =
-  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none] [--model anova|mixed]';
+  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none] [--model anova|mixed] [--factor COLUMN [--split-plot]]';
 
 function fail(message: string, code = 1): never {
   process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
@@ -35,6 +36,8 @@ function main(): void {
         letters: { type: 'string' },
         direction: { type: 'string' },
         model: { type: 'string' },
+        factor: { type: 'string' },
+        'split-plot': { type: 'boolean' },
       },
     });
   } catch (err) {
@@ -82,8 +85,18 @@ function main(): void {
     const code = (err as NodeJS.ErrnoException).code ?? 'error';
     fail(`${file}: cannot read file (${code})`);
   }
+  if (values['split-plot'] && values.factor === undefined)
+    fail('option --split-plot: name the treatment column with --factor', 2);
   try {
-    const result = analyzeCsv(text, options);
+    // --factor: a treatment × variety trial in blocks (a split plot with --split-plot).
+    const result =
+      values.factor === undefined
+        ? analyzeCsv(text, options)
+        : analyzeTwoFactorCsv(text, {
+            ...options,
+            factor: values.factor,
+            splitPlot: values['split-plot'] ?? false,
+          });
     process.stdout.write(
       JSON.stringify(result, (_k, v: unknown) =>
         typeof v === 'number' && !Number.isFinite(v) ? null : v,

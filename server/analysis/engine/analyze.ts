@@ -25,6 +25,11 @@ import {
   type VarianceSource,
 } from './mixed-analysis.js';
 import { rankMeans, type TraitDirection } from '../../../common/ranking';
+import {
+  analyseTwoFactor,
+  balancedTwoFactorProblem,
+  type TwoFactorAnalysis,
+} from './two-factor.js';
 import type { AnalysisModel } from '../../../common/contracts/analysis';
 
 export type { Design } from './anova.js';
@@ -65,6 +70,8 @@ export interface PlotRow {
   site?: string | null;
   block?: string | null;
   plot?: string | null;
+  /** Two-factor trials: the plot's treatment level (fertilizer, irrigation, …). */
+  treatment?: string | null;
   /** Decimal text (read exactly) or a number. Empty text or "NA" marks a missing value. */
   value: string | number | null;
   /** Row number to use in messages (defaults to position + 1). */
@@ -219,6 +226,29 @@ function leftOutWarning(rowNumbers: readonly number[]): string {
     : `rows ${shown}${more} have no value: ${rowNumbers.length} rows left out`;
 }
 
+/** A plot value as exact decimal text, null when it is missing; refuses what is not a number. */
+function valueText(raw: PlotRow['value'], rowNo: number, trait: string): string | null {
+  if (raw === null || raw === undefined || (typeof raw === 'string' && MISSING.has(raw.trim())))
+    return null;
+  let text: string;
+  if (typeof raw === 'number') {
+    if (!Number.isFinite(raw))
+      throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${raw} is not a number`);
+    text = String(raw);
+  } else {
+    const reading = readDecimalText(raw);
+    if (!reading.ok)
+      throw new AnalysisInputError(
+        `row ${rowNo}, column "${trait}": ${reading.message.replace(/\.$/, '')}`,
+      );
+    text = reading.text;
+  }
+  const outOfRange = outOfRangeReason(text);
+  if (outOfRange)
+    throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${text} ${outOfRange}`);
+  return text;
+}
+
 function label(v: string | null | undefined): string | null {
   if (v === null || v === undefined) return null;
   const t = String(v).trim();
@@ -267,27 +297,11 @@ export function analyzePlotRows(
     const plot = label(r.plot);
     if (hasPlot && plot === null)
       throw new AnalysisInputError(`row ${rowNo}, column "plot": empty`);
-    const raw = r.value;
-    if (raw === null || raw === undefined || (typeof raw === 'string' && MISSING.has(raw.trim()))) {
+    const text = valueText(r.value, rowNo, trait);
+    if (text === null) {
       missingRows.push(rowNo);
       return;
     }
-    let text: string;
-    if (typeof raw === 'number') {
-      if (!Number.isFinite(raw))
-        throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${raw} is not a number`);
-      text = String(raw);
-    } else {
-      const reading = readDecimalText(raw);
-      if (!reading.ok)
-        throw new AnalysisInputError(
-          `row ${rowNo}, column "${trait}": ${reading.message.replace(/\.$/, '')}`,
-        );
-      text = reading.text;
-    }
-    const outOfRange = outOfRangeReason(text);
-    if (outOfRange)
-      throw new AnalysisInputError(`row ${rowNo}, column "${trait}": ${text} ${outOfRange}`);
     texts.push(text);
     kept.push({ row: rowNo, variety, site: site ?? '', block, plot });
   });
@@ -638,6 +652,21 @@ function separatorHint(csvText: string): string {
 
 /** Analyse CSV text with a header row (see the analyze command for the column rules). */
 export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): AnalysisResult {
+  const { rows, trait, rest } = readCsvRows(csvText, options);
+  return analyzePlotRows(rows, { ...rest, trait });
+}
+
+/** A two-factor trial from CSV text: `factor` names the treatment column. */
+export function analyzeTwoFactorCsv(
+  csvText: string,
+  options: AnalyzeCsvOptions & { factor: string; splitPlot?: boolean },
+): TwoFactorResult {
+  const { factor, splitPlot, ...others } = options;
+  const { rows, trait, rest } = readCsvRows(csvText, others, factor);
+  return analyzeTwoFactorRows(rows, { ...rest, trait, splitPlot: splitPlot ?? false, factor });
+}
+
+function readCsvRows(csvText: string, options: AnalyzeCsvOptions, factor?: string) {
   let records: string[][];
   try {
     records = parse(csvText, {
@@ -678,8 +707,19 @@ export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): An
     throw new AnalysisInputError(
       `column "variety": not found in the header${separatorHint(csvText)}`,
     );
-  const layoutCols = new Set(Object.values(col).filter((i) => i >= 0));
-  if (layoutCols.size !== Object.values(col).filter((i) => i >= 0).length)
+  let factorCol = -1;
+  if (factor !== undefined) {
+    factorCol = find(factor.trim());
+    if (factorCol < 0)
+      throw new AnalysisInputError(
+        `column "${factor}": not found in the header (given by --factor)`,
+      );
+    if (col.block < 0)
+      throw new AnalysisInputError('column "block": required for a two-factor trial');
+  }
+  const chosenCols = [...Object.values(col), factorCol].filter((i) => i >= 0);
+  const layoutCols = new Set(chosenCols);
+  if (layoutCols.size !== chosenCols.length)
     throw new AnalysisInputError('one column is chosen for two layout roles');
 
   let valueCol: number;
@@ -723,10 +763,123 @@ export function analyzeCsv(csvText: string, options: AnalyzeCsvOptions = {}): An
       site: col.site >= 0 ? (rec[col.site] ?? '') : null,
       block: col.block >= 0 ? (rec[col.block] ?? '') : null,
       plot: col.plot >= 0 ? (rec[col.plot] ?? '') : null,
+      ...(factorCol >= 0 ? { treatment: rec[factorCol] ?? '' } : {}),
       value: rec[valueCol] ?? '',
     });
   }
   // Presence of the column (not of values) decides whether it is part of the layout.
   if (col.block >= 0) for (const r of rows) r.block ??= '';
-  return analyzePlotRows(rows, { ...analyzeOptions, trait });
+  return { rows, trait, rest: analyzeOptions };
+}
+
+export interface TwoFactorResult extends Omit<TwoFactorAnalysis, 'cellMeans' | 'varietyMeans'> {
+  design: 'rcbd';
+  /** The treatment column's name. */
+  factor: string;
+  trait: string;
+  alpha: number;
+  n: number;
+  grandMean: number;
+  cvPercent: number | null;
+  letters: SeparationMethod;
+  model: 'anova';
+  /** One object per treatment × variety cell (emmeans' emmean and SE). */
+  adjustedMeans: { variety: string; treatment: string; mean: number; se: number; df: number }[];
+  varietyMeans: TwoFactorAnalysis['varietyMeans'];
+  counts: { entries: number; treatments: number; blocks: number; rows: number };
+  warnings: string[];
+}
+
+/** A two-factor trial (treatment × variety) in complete blocks, factorial or split plot. */
+export function analyzeTwoFactorRows(
+  rows: readonly PlotRow[],
+  options: AnalyzeOptions & { splitPlot: boolean; factor?: string },
+): TwoFactorResult {
+  const alpha = options.alpha ?? 0.05;
+  if (!(alpha > 0 && alpha < 1))
+    throw new AnalysisInputError(`alpha must be between 0 and 1, got ${alpha}`);
+  if (options.model === 'mixed')
+    throw new AnalysisInputError(
+      'two-factor trials are analysed by the classical analysis of variance only (--model anova)',
+    );
+  const trait = options.trait ?? 'value';
+  const factor = options.factor ?? 'treatment';
+  if (rows.length === 0) throw new AnalysisInputError('no data rows');
+  const warnings: string[] = [];
+  const texts: string[] = [];
+  const kept: { variety: string; block: string; treatment: string }[] = [];
+  const missingRows: number[] = [];
+  rows.forEach((r, i) => {
+    const rowNo = r.row ?? i + 1;
+    const variety = label(r.variety);
+    if (variety === null) throw new AnalysisInputError(`row ${rowNo}, column "variety": empty`);
+    const block = label(r.block);
+    if (block === null) throw new AnalysisInputError(`row ${rowNo}, column "block": empty`);
+    const treatment = label(r.treatment);
+    if (treatment === null) throw new AnalysisInputError(`row ${rowNo}, column "${factor}": empty`);
+    const text = valueText(r.value, rowNo, trait);
+    if (text === null) {
+      missingRows.push(rowNo);
+      return;
+    }
+    texts.push(text);
+    kept.push({ variety, block, treatment });
+  });
+  if (missingRows.length > 0) warnings.push(leftOutWarning(missingRows));
+  if (kept.length === 0) throw new AnalysisInputError(`column "${trait}": no values`);
+  const centred = centreDecimalTexts(texts);
+  const code = (values: string[]) => {
+    const map = new Map<string, number>();
+    const codes = Int32Array.from(values, (v) => {
+      let c = map.get(v);
+      if (c === undefined) map.set(v, (c = map.size));
+      return c;
+    });
+    return { codes, levels: [...map.keys()] };
+  };
+  const layout = {
+    y: Float64Array.from(centred.deviations),
+    block: code(kept.map((k) => k.block)),
+    treatment: code(kept.map((k) => k.treatment)),
+    variety: code(kept.map((k) => k.variety)),
+  };
+  const problem = balancedTwoFactorProblem(layout);
+  if (problem) throw new AnalysisInputError(problem);
+  let result: TwoFactorAnalysis;
+  try {
+    result = analyseTwoFactor({
+      ...layout,
+      offset: centred.offset,
+      splitPlot: options.splitPlot,
+      alpha,
+      letters: options.letters ?? 'hsd',
+      direction: options.direction ?? 'higher',
+    });
+  } catch (err) {
+    if (err instanceof RangeError) throw new AnalysisInputError(err.message);
+    throw err;
+  }
+  const grandMean = addOffset(centred.offset, accurateMean(layout.y));
+  const { cellMeans, ...rest } = result;
+  return {
+    design: 'rcbd',
+    factor,
+    trait,
+    alpha,
+    n: layout.y.length,
+    grandMean,
+    cvPercent:
+      grandMean !== 0 ? (100 * Math.sqrt(result.errorTerm.ms)) / Math.abs(grandMean) : null,
+    letters: options.letters ?? 'hsd',
+    model: 'anova',
+    ...rest,
+    adjustedMeans: cellMeans,
+    counts: {
+      entries: layout.variety.levels.length,
+      treatments: layout.treatment.levels.length,
+      blocks: layout.block.levels.length,
+      rows: rows.length,
+    },
+    warnings,
+  };
 }
