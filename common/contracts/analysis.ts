@@ -142,6 +142,21 @@ export const entryMeanSchema = z.object({
 });
 export type EntryMean = z.infer<typeof entryMeanSchema>;
 
+/** A mixed model's variance component (REML) and its asymptotic SE (null at zero). */
+export const varianceComponentSchema = z.object({
+  source: z.enum(varianceSources),
+  variance: z.number(),
+  se: nullableNumber,
+});
+/** A mixed model's Wald F test for varieties. */
+export const varietyTestSchema = z.object({
+  numDf: z.number(),
+  denDf: z.number(),
+  f: z.number(),
+  p: z.number(),
+  method: z.enum(['satterthwaite', 'kenward-roger']),
+});
+
 /** The analyze command's JSON. */
 export const analysisResultSchema = z.object({
   design: z.enum(designs),
@@ -175,26 +190,9 @@ export const analysisResultSchema = z.object({
   /** Why the letters are empty (too many entries for the letter display), else null. */
   lettersOmitted: z.string().nullable().optional(),
   /** Mixed model only: REML variance components with an asymptotic SE (null at zero). */
-  varianceComponents: z
-    .array(
-      z.object({
-        source: z.enum(varianceSources),
-        variance: z.number(),
-        se: nullableNumber,
-      }),
-    )
-    .optional(),
+  varianceComponents: z.array(varianceComponentSchema).optional(),
   /** Mixed model only: Wald F test for varieties with Satterthwaite's denominator df. */
-  fixedTest: z
-    .object({
-      source: z.literal('variety'),
-      numDf: z.number(),
-      denDf: z.number(),
-      f: z.number(),
-      p: z.number(),
-      method: z.enum(['satterthwaite', 'kenward-roger']),
-    })
-    .optional(),
+  fixedTest: varietyTestSchema.extend({ source: z.literal('variety') }).optional(),
   /** Mixed model only: REML log-likelihood. */
   logLik: z.number().optional(),
   /** Mixed model only: a variance component was estimated as zero. */

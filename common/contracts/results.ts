@@ -4,7 +4,12 @@
  */
 import { z } from 'zod';
 import { decimalsFor, recordedDecimals } from '../precision';
-import { analysisBases, analysisModels, varianceSources } from './analysis';
+import {
+  analysisBases,
+  analysisModels,
+  varianceComponentSchema,
+  varietyTestSchema,
+} from './analysis';
 import { entryTypes, traitDirections, traitDisplayUnits, trialDesigns } from './trials';
 
 export const licenses = ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'all-rights-reserved'] as const;
@@ -117,24 +122,8 @@ export const snapshotTraitSchema = z.object({
   /** The model the numbers came from (versions before the choice: the classical analysis). */
   model: z.enum(analysisModels).optional(),
   /** Mixed model only: REML variance components, the variety test, the split in words. */
-  varianceComponents: z
-    .array(
-      z.object({
-        source: z.enum(varianceSources),
-        variance: z.number(),
-        se: z.number().nullable(),
-      }),
-    )
-    .optional(),
-  fixedTest: z
-    .object({
-      numDf: z.number(),
-      denDf: z.number(),
-      f: z.number(),
-      p: z.number(),
-      method: z.enum(['satterthwaite', 'kenward-roger']),
-    })
-    .optional(),
+  varianceComponents: z.array(varianceComponentSchema).optional(),
+  fixedTest: varietyTestSchema.optional(),
   varianceSummary: z.string().optional(),
   warnings: z.array(z.string()),
 });

@@ -64,6 +64,21 @@ function toCsv(b: Body): string {
   );
 }
 
+/** The analyze command as a child process on the API's plot values. */
+function runCommand(b: Body, name: string, args: string[]) {
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'rowtally-analysis-'));
+  const file = path.join(dir, `${name}.csv`);
+  writeFileSync(file, toCsv(b));
+  const run = spawnSync(
+    process.execPath,
+    ['--import', 'tsx', 'server/analysis/cli.ts', file, '--trait', 'value', ...args],
+    { encoding: 'utf8', timeout: 60_000 },
+  );
+  expect(run.stderr).toBe('');
+  expect(run.status).toBe(0);
+  return JSON.parse(run.stdout) as ReturnType<typeof analyzeCsv>;
+}
+
 function expectSameNumbers(api: Body, cmd: ReturnType<typeof analyzeCsv>) {
   expect(api.anova.map((l) => [l.source, l.df, l.ss, l.f, l.p])).toEqual(
     cmd.anova.map((l) => [l.source, l.df, l.ss, l.f, l.p]),
@@ -141,28 +156,7 @@ describe('the API and the analyze command give the same numbers', () => {
 
   it('the command as a child process prints the same F, p and means', async () => {
     const b = (await analysis('plant_height')).body as Body;
-    const dir = mkdtempSync(path.join(os.tmpdir(), 'rowtally-analysis-'));
-    const file = path.join(dir, 'plant-height.csv');
-    writeFileSync(file, toCsv(b));
-    const run = spawnSync(
-      process.execPath,
-      [
-        '--import',
-        'tsx',
-        'server/analysis/cli.ts',
-        file,
-        '--trait',
-        'value',
-        '--design',
-        'multisite',
-        '--direction',
-        'lower',
-      ],
-      { encoding: 'utf8', timeout: 60_000 },
-    );
-    expect(run.stderr).toBe('');
-    expect(run.status).toBe(0);
-    const cmd = JSON.parse(run.stdout) as ReturnType<typeof analyzeCsv>;
+    const cmd = runCommand(b, 'plant-height', ['--design', 'multisite', '--direction', 'lower']);
     expectSameNumbers(b, cmd);
   }, 60_000);
 
@@ -171,28 +165,7 @@ describe('the API and the analyze command give the same numbers', () => {
     expect(r.status).toBe(200);
     const b = r.body as Body & ReturnType<typeof analyzeCsv>;
     expect(b.model).toBe('mixed');
-    const dir = mkdtempSync(path.join(os.tmpdir(), 'rowtally-analysis-'));
-    const file = path.join(dir, 'marketable-yield.csv');
-    writeFileSync(file, toCsv(b));
-    const run = spawnSync(
-      process.execPath,
-      [
-        '--import',
-        'tsx',
-        'server/analysis/cli.ts',
-        file,
-        '--trait',
-        'value',
-        '--design',
-        'multisite',
-        '--model',
-        'mixed',
-      ],
-      { encoding: 'utf8', timeout: 60_000 },
-    );
-    expect(run.stderr).toBe('');
-    expect(run.status).toBe(0);
-    const cmd = JSON.parse(run.stdout) as ReturnType<typeof analyzeCsv>;
+    const cmd = runCommand(b, 'marketable-yield', ['--design', 'multisite', '--model', 'mixed']);
     expect(cmd.model).toBe('mixed');
     expectSameNumbers(b, cmd);
     for (const key of [
