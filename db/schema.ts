@@ -123,6 +123,8 @@ export interface TrialsTable extends Written {
   copied_from_trial_id: Generated<string | null>;
   /** The group that owns the trial (its register holds the trial's varieties). */
   group_id: Generated<string | null>;
+  /** Moved on by triggers at every change to the trial's data; keys what is computed from it. */
+  data_version: Generated<number>;
 }
 
 /** The lead's planned fertilizer use; what was applied is in the field log. */

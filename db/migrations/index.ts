@@ -19,6 +19,7 @@ import * as traitUnitsAndRanges from './2026-12-02T2100-trait-units-and-ranges';
 import * as trialCopiedFrom from './2026-12-02T2200-trial-copied-from';
 import * as sheetModel from './2026-12-02T3400-sheet-model';
 import * as varietyRegister from './2026-12-02T3500-variety-register';
+import * as trialDataVersion from './2026-12-02T3700-trial-data-version';
 
 export const migrations: Record<string, Migration> = {
   '2026-12-01T0001-accounts': accounts,
@@ -37,4 +38,5 @@ export const migrations: Record<string, Migration> = {
   '2026-12-02T2200-trial-copied-from': trialCopiedFrom,
   '2026-12-02T3400-sheet-model': sheetModel,
   '2026-12-02T3500-variety-register': varietyRegister,
+  '2026-12-02T3700-trial-data-version': trialDataVersion,
 };

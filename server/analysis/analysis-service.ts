@@ -13,6 +13,7 @@ import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import { trialForAction } from '../trials/trials-service';
 import type { AnalysisResult as EngineResult, PlotRow } from './engine/analyze';
+import { cachedForTrialData } from './analysis-cache';
 import { AnalysisStopped, runAnalysis } from './analysis-pool';
 import type { AnalysisTask } from './analysis-worker';
 import { rankAcrossTraits } from './engine/ranking';
@@ -108,7 +109,9 @@ async function analyseTrait(
 ): Promise<TrialAnalysis> {
   const [plots, harvests, observations] = await Promise.all([
     repo.trialPlots(db, trial.id),
-    trait.source.kind === 'observation' ? [] : repo.liveHarvests(db, trial.id),
+    trait.source.kind === 'observation'
+      ? { plots: [], massDecimals: 0 }
+      : repo.harvestTotals(db, trial.id),
     trait.traitId && trait.source.kind === 'observation'
       ? repo.liveObservations(db, trial.id, trait.traitId)
       : [],
@@ -207,8 +210,17 @@ export async function analyseTrialTrait(
     model?: AnalysisModel;
   },
 ): Promise<TrialAnalysis> {
-  const trait = await resolveTrait(db, trial.id, query.trait);
-  return analyseTrait(db, trial, trait, query.basis, query);
+  const question = {
+    trait: query.trait,
+    basis: query.basis,
+    alpha: query.alpha,
+    letters: query.letters,
+    model: query.model ?? 'anova',
+  };
+  return cachedForTrialData(trial, question, async () => {
+    const trait = await resolveTrait(db, trial.id, query.trait);
+    return analyseTrait(db, trial, trait, query.basis, query);
+  });
 }
 
 export const RANKING_METHOD =
@@ -236,7 +248,9 @@ export async function trialRanking(
   for (const [i, key] of keys.entries()) {
     const trait = await resolveTrait(db, trial.id, key);
     try {
-      const result = await analyseTrait(db, trial, trait, 'plot', {
+      const result = await analyseTrialTrait(db, trial, {
+        trait: key,
+        basis: 'plot',
         alpha: query.alpha,
         letters: 'hsd',
       });

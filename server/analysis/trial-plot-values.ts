@@ -1,6 +1,6 @@
 /**
  * One value per plot for one trait, from a trial's records: season harvest totals (through
- * the engine's summariseHarvests), per-plant observations averaged per plot, or repeated
+ * the engine's summarisePlotTotals, from per-plot sums the database adds up), per-plant observations averaged per plot, or repeated
  * plot scores averaged; then normalised per plant, per metre of row or per area. Pure.
  */
 import type { AnalysisBasis, DerivedTraitKey } from '../../common/contracts/analysis';
@@ -8,8 +8,9 @@ import { recordedDecimals, roundTo } from '../../common/precision';
 import { daysBetween } from '../../common/calendar-date';
 import {
   plotObservationMeans,
-  summariseHarvests,
+  summarisePlotTotals,
   type PlotHarvestSummary,
+  type PlotHarvestTotals,
   type PlotInfo,
 } from './engine/plot-values';
 
@@ -37,12 +38,10 @@ export interface TrialFrame {
   rowSpacingMm: number | null;
 }
 
-export interface HarvestRow {
-  plot_id: string;
-  harvested_on: string;
-  fruit_count: number;
-  mass_g: number;
-  grade: 'marketable' | 'cull';
+/** A trial's live harvests added up per plot, and the most decimals any recorded mass has. */
+export interface HarvestTotals {
+  plots: readonly PlotHarvestTotals[];
+  massDecimals: number;
 }
 
 export interface ObservationRow {
@@ -115,7 +114,7 @@ export function buildPlotValues(
   basis: AnalysisBasis,
   frame: TrialFrame,
   plots: readonly PlotRecord[],
-  harvests: readonly HarvestRow[],
+  harvests: HarvestTotals,
   observations: readonly ObservationRow[],
 ): BuiltPlotValues {
   const amount =
@@ -192,7 +191,7 @@ function fromHarvests(
   basis: AnalysisBasis,
   frame: TrialFrame,
   plots: readonly PlotRecord[],
-  harvests: readonly HarvestRow[],
+  harvests: HarvestTotals,
 ): BuiltPlotValues {
   const rows = Math.max(1, frame.rowsPerPlot);
   const infos: PlotInfo[] = plots.map((p) => {
@@ -212,16 +211,7 @@ function fromHarvests(
       ...(frame.transplantDate ? { transplantDate: frame.transplantDate } : {}),
     };
   });
-  const summaries = summariseHarvests(
-    infos,
-    harvests.map((h) => ({
-      plotId: h.plot_id,
-      date: h.harvested_on,
-      count: h.fruit_count,
-      massG: h.mass_g,
-      marketable: h.grade === 'marketable',
-    })),
-  );
+  const summaries = summarisePlotTotals(infos, harvests.plots);
   const warnings: string[] = [];
   let noHarvest = 0;
   let noSize = 0;
@@ -244,7 +234,7 @@ function fromHarvests(
       frame.transplantDate ? s.daysFromTransplantToFirstHarvest : s.daysFromSowingToFirstHarvest;
   } else if (source.kind === 'derived') {
     unit = 'g';
-    recorded = recordedDecimals(harvests.map((h) => h.mass_g));
+    recorded = harvests.massDecimals;
     note = 'marketable mass ÷ marketable fruit count over the season';
     pick = (s) => s.meanFruitMassG.marketable;
   } else if (source.quantityKind === 'percent') {
@@ -254,7 +244,7 @@ function fromHarvests(
   } else if (source.quantityKind === 'mass' || source.quantityKind === 'count') {
     const isMass = source.quantityKind === 'mass';
     unit = areaUnit(isMass ? 'g' : 'count', basis);
-    recorded = isMass ? recordedDecimals(harvests.map((h) => h.mass_g)) : 0;
+    recorded = isMass ? harvests.massDecimals : 0;
     if (basis === 'plot') plotValueIs = 'sum';
     note = `season total of marketable ${isMass ? 'mass' : 'fruit count'} per plot${
       basis === 'plot'

@@ -96,40 +96,75 @@ function normalise(a: Amount, plants: number, rowLengthM: number, areaM2: number
   };
 }
 
+/** One plot's harvests added up: by the database (GROUP BY plot) or by summariseHarvests. */
+export interface PlotHarvestTotals {
+  plotId: string;
+  marketable: Amount;
+  total: Amount;
+  /** Days with a harvest. */
+  days: number;
+  /** YYYY-MM-DD of the first and last harvest; null with none. */
+  first: string | null;
+  last: string | null;
+}
+
 /** Season summary for every plot in `plots` (plots with no harvest get zeros). */
 export function summariseHarvests(
   plots: readonly PlotInfo[],
   harvests: readonly HarvestRecord[],
 ): PlotHarvestSummary[] {
-  const byPlot = new Map<string, HarvestRecord[]>();
-  for (const p of plots) byPlot.set(p.plotId, []);
+  const byPlot = new Map<string, PlotHarvestTotals & { dates: Set<string> }>();
+  for (const p of plots)
+    byPlot.set(p.plotId, {
+      plotId: p.plotId,
+      marketable: { count: 0, massG: 0 },
+      total: { count: 0, massG: 0 },
+      days: 0,
+      first: null,
+      last: null,
+      dates: new Set(),
+    });
   for (const h of harvests) {
-    const list = byPlot.get(h.plotId);
-    if (!list) throw new RangeError(`harvest on ${h.date} names unknown plot "${h.plotId}"`);
+    const t = byPlot.get(h.plotId);
+    if (!t) throw new RangeError(`harvest on ${h.date} names unknown plot "${h.plotId}"`);
     if (!(h.count >= 0) || !(h.massG >= 0))
       throw new RangeError(
         `harvest on ${h.date} for plot "${h.plotId}": negative or missing amount`,
       );
     dayNumber(h.date); // validates the date
-    list.push(h);
+    t.total.count += h.count;
+    t.total.massG += h.massG;
+    if (h.marketable) {
+      t.marketable.count += h.count;
+      t.marketable.massG += h.massG;
+    }
+    t.dates.add(h.date);
+    if (t.first === null || h.date < t.first) t.first = h.date;
+    if (t.last === null || h.date > t.last) t.last = h.date;
+  }
+  return summarisePlotTotals(
+    plots,
+    [...byPlot.values()].map(({ dates, ...t }) => ({ ...t, days: dates.size })),
+  );
+}
+
+/** Season summary for every plot in `plots` from its totals (a plot with none gets zeros). */
+export function summarisePlotTotals(
+  plots: readonly PlotInfo[],
+  totals: readonly PlotHarvestTotals[],
+): PlotHarvestSummary[] {
+  const byPlot = new Map<string, PlotHarvestTotals>();
+  const known = new Set(plots.map((p) => p.plotId));
+  for (const t of totals) {
+    if (!known.has(t.plotId)) throw new RangeError(`harvests name unknown plot "${t.plotId}"`);
+    byPlot.set(t.plotId, t);
   }
   return plots.map((p) => {
-    const list = byPlot.get(p.plotId)!;
-    const marketable: Amount = { count: 0, massG: 0 };
-    const total: Amount = { count: 0, massG: 0 };
-    const dates = new Set<string>();
-    for (const h of list) {
-      total.count += h.count;
-      total.massG += h.massG;
-      if (h.marketable) {
-        marketable.count += h.count;
-        marketable.massG += h.massG;
-      }
-      dates.add(h.date);
-    }
-    const sorted = [...dates].sort();
-    const first = sorted[0] ?? null;
-    const last = sorted[sorted.length - 1] ?? null;
+    const t = byPlot.get(p.plotId);
+    const marketable: Amount = t?.marketable ?? { count: 0, massG: 0 };
+    const total: Amount = t?.total ?? { count: 0, massG: 0 };
+    const first = t?.first ?? null;
+    const last = t?.last ?? null;
     const plantsCount = p.plantsSurviving ?? p.plantsSet;
     const areaM2 = p.rowLengthM * p.rowSpacingM;
     return {
@@ -137,7 +172,7 @@ export function summariseHarvests(
       entryId: p.entryId,
       siteId: p.siteId,
       block: p.block,
-      harvests: dates.size,
+      harvests: t?.days ?? 0,
       firstHarvest: first,
       lastHarvest: last,
       daysFromSowingToFirstHarvest: first && p.sowingDate ? daysBetween(p.sowingDate, first) : null,
