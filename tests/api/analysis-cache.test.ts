@@ -77,12 +77,11 @@ const analysis = async () => {
 };
 const meanOf = (body: { means: { variety: string; mean: number }[] }, variety: string) =>
   body.means.find((m) => m.variety === variety)?.mean;
-const send = (method: 'post' | 'delete', path: string, body?: object) =>
-  request(t.app)
-    [method](`/api/trials/${slug}${path}`)
-    .set('Origin', TEST_ORIGIN)
-    .set('Cookie', cookie)
-    .send(body);
+const send = (method: 'post' | 'delete', path: string, body?: object) => {
+  const url = `/api/trials/${slug}${path}`;
+  const req = method === 'post' ? request(t.app).post(url) : request(t.app).delete(url);
+  return req.set('Origin', TEST_ORIGIN).set('Cookie', cookie).send(body);
+};
 const version = async () =>
   (
     await t.db
