@@ -205,8 +205,9 @@ describe('GET /api/varieties/:slug', () => {
       expect(trial).toMatchObject({ slug: OKRA, view: 'sheet', version: 1 });
       // Only the published trait, with the published figures.
       expect(trial.traits.map((x: { key: string }) => x.key)).toEqual(['marketable_yield']);
+      // The sheet's own figure: the model's estimated mean where it gives one (BLUE / LS mean).
       expect(trial.traits[0]).toMatchObject({
-        mean: publishedMean.mean,
+        mean: publishedMean.adjustedMean ?? publishedMean.mean,
         rank: publishedMean.rank,
         group: publishedMean.group,
       });

@@ -84,7 +84,7 @@ describe('season harvest summaries', () => {
       /unknown plot "P9"/,
     );
     expect(() => summariseHarvests(plots, [{ ...harvests[0]!, date: '2024-02-30' }])).toThrow(
-      /not a calendar date/,
+      /not a YYYY-MM-DD calendar date/,
     );
   });
 });
