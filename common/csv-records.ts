@@ -4,11 +4,7 @@
  * the lookups. Row numbers count the header as row 1, as a spreadsheet shows them.
  */
 import { DATE_HINT, isCalendarDate, latestRecordDate } from './calendar-date';
-import {
-  observationValueProblem,
-  storedUnitOf,
-  type ImportRowError,
-} from './contracts/records';
+import { observationValueProblem, storedUnitOf, type ImportRowError } from './contracts/records';
 import { readDecimal } from './decimal';
 import {
   readSheetColumn,

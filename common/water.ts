@@ -86,7 +86,6 @@ export interface WaterWeek {
   irrigationEvents: number;
 }
 
-
 /**
  * Rain plus irrigation depth per week, every week from the first event to the last (weeks
  * with no water show as zero: a dry week matters as much as a wet one).

@@ -291,7 +291,6 @@ export async function uploadPhotos(
   }
 }
 
-
 async function editablePhoto(
   deps: PhotoDeps,
   slug: string,

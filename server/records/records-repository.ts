@@ -344,12 +344,7 @@ const harvestsOf = (db: DB, trialId: string, f: HarvestFilters) =>
     .$if(f.grade !== undefined, (q) => q.where('r.grade', '=', f.grade!));
 
 /** Harvests newest first; one page of them when a window is given. */
-export function listHarvests(
-  db: DB,
-  trialId: string,
-  f: HarvestFilters,
-  window?: PageWindow,
-) {
+export function listHarvests(db: DB, trialId: string, f: HarvestFilters, window?: PageWindow) {
   return harvestsOf(db, trialId, f)
     .select([
       ...recordColumns,

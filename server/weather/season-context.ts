@@ -49,7 +49,6 @@ export function thresholdsForCrop(crop: string): CropThresholds & { matched: str
   };
 }
 
-
 export function siteSeason(input: {
   siteId: string;
   siteName: string;

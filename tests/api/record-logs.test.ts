@@ -67,7 +67,9 @@ beforeAll(async () => {
         trial_id: w.trial.id,
         plot_id: i < 30 ? w.plotA : w.plotB,
         trait_id: w.traitId,
-        observed_on: day(i % 10).toISOString().slice(0, 10),
+        observed_on: day(i % 10)
+          .toISOString()
+          .slice(0, 10),
         value: 500 + i,
         plant_number: 1 + (i % 5),
         created_by: w.users.lead.id,

@@ -84,7 +84,11 @@ describe('the harvest form', () => {
     const ask = await question();
     expect(onSave).not.toHaveBeenCalled();
     expect(ask).toHaveProperty('ownerDocument.activeElement', ask);
-    expect(within(ask).getAllByRole('listitem').map((li) => li.textContent)).toEqual([
+    expect(
+      within(ask)
+        .getAllByRole('listitem')
+        .map((li) => li.textContent),
+    ).toEqual([
       'Marketable: 9,999 fruit in one harvest is outside the plausible 0–1,000.',
       'Marketable: 0.0005 g per fruit is outside the plausible 0.5–5,000 g per fruit.',
     ]);
@@ -145,9 +149,11 @@ describe('the measurement form', () => {
     const ask = await question();
     expect(onSave).not.toHaveBeenCalled();
     // 920 cm = 9,200 mm > 4,000 mm = 400 cm; 92 cm is inside 2–400 cm and not asked about.
-    expect(within(ask).getAllByRole('listitem').map((li) => li.textContent)).toEqual([
-      'Plant 2: Plant height 920 cm is outside the plausible 2–400 cm.',
-    ]);
+    expect(
+      within(ask)
+        .getAllByRole('listitem')
+        .map((li) => li.textContent),
+    ).toEqual(['Plant 2: Plant height 920 cm is outside the plausible 2–400 cm.']);
     fireEvent.click(within(ask).getByRole('button', { name: 'Yes, save as typed' }));
     await waitFor(() => expect(saved).toHaveLength(1));
     expect(saved[0]!.map((e) => e.body)).toEqual([

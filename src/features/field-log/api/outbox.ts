@@ -13,7 +13,13 @@
 import { sessionSchema } from '@common/contracts/me';
 import { type DBSchema, type IDBPDatabase, openDB } from 'idb';
 import { z } from 'zod';
-import { ApiError, apiUpload, createApiClient, type FetchLike, multipartBody } from '@/lib/api-client';
+import {
+  ApiError,
+  apiUpload,
+  createApiClient,
+  type FetchLike,
+  multipartBody,
+} from '@/lib/api-client';
 
 export type OutboxState = 'waiting' | 'sending' | 'saved' | 'refused';
 export type OutboxKind = 'harvest' | 'observation' | 'field-event' | 'stand-count' | 'photo';

@@ -10,7 +10,6 @@ import { addDays, isCalendarDate, localToday, weekStartOf } from '@common/calend
 
 const MAX_ENTRIES = 4;
 
-
 export function Component() {
   const { slug = '' } = useParams();
   const [params, setParams] = useSearchParams();
