@@ -334,6 +334,9 @@ export interface PhotosTable extends Written {
   is_cover: Generated<boolean>;
   purge_after: Timestamp | null;
   purged_at: Timestamp | null;
+  /** the device-made id of the upload that brought the photo, and its place in that upload */
+  upload_id: string | null;
+  upload_index: number | null;
 }
 
 export type PhotoMimeType = 'image/jpeg' | 'image/png' | 'image/webp' | 'image/avif';

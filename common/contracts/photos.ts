@@ -54,6 +54,11 @@ export const uploadPhotoFields = z.object({
   subject: z.preprocess(emptyToUndefined, z.enum(photoSubjects).optional()),
   /** The uploader's calendar day, for photos without a capture date. */
   today: z.preprocess(emptyToUndefined, isoDate.optional()),
+  /**
+   * Made on the device once per upload and sent again with every retry: a retry whose first
+   * answer was lost gets the photos the first attempt made, never a second copy.
+   */
+  uploadId: z.preprocess(emptyToUndefined, z.uuid('Not an upload id.').optional()),
 });
 export type UploadPhotoFields = z.input<typeof uploadPhotoFields>;
 

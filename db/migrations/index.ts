@@ -17,6 +17,7 @@ import * as signInThrottles from './2026-12-02T1410-sign-in-throttles';
 import * as outgoingMail from './2026-12-02T2000-outgoing-mail';
 import * as traitUnitsAndRanges from './2026-12-02T2100-trait-units-and-ranges';
 import * as trialCopiedFrom from './2026-12-02T2200-trial-copied-from';
+import * as photoUploadIds from './2026-12-02T3100-photo-upload-ids';
 import * as sheetModel from './2026-12-02T3400-sheet-model';
 import * as varietyRegister from './2026-12-02T3500-variety-register';
 import * as trialDataVersion from './2026-12-02T3700-trial-data-version';
@@ -36,6 +37,7 @@ export const migrations: Record<string, Migration> = {
   '2026-12-02T2000-outgoing-mail': outgoingMail,
   '2026-12-02T2100-trait-units-and-ranges': traitUnitsAndRanges,
   '2026-12-02T2200-trial-copied-from': trialCopiedFrom,
+  '2026-12-02T3100-photo-upload-ids': photoUploadIds,
   '2026-12-02T3400-sheet-model': sheetModel,
   '2026-12-02T3500-variety-register': varietyRegister,
   '2026-12-02T3700-trial-data-version': trialDataVersion,

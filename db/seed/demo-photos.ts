@@ -55,7 +55,9 @@ export async function seedDemoPhotos(db: DB, storage: ObjectStorage): Promise<nu
   let stored = 0;
   for (const e of entries) {
     const jpeg = await sharp(podDrawing(e.code, e.name)).jpeg({ quality: 85 }).toBuffer();
-    const [photo] = await uploadPhotos(
+    const {
+      photos: [photo],
+    } = await uploadPhotos(
       { db, storage },
       loaded,
       actor,

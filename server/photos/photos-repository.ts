@@ -85,8 +85,24 @@ export function lockPhoto(trx: Transaction<Database>, trialId: string, photoId: 
     .executeTakeFirst();
 }
 
+/** The new photos' ids; a photo whose upload id and place are taken already is left out. */
 export function insertPhotos(trx: Transaction<Database>, rows: Insertable<PhotosTable>[]) {
-  return trx.insertInto('photos').values(rows).returning('id').execute();
+  return trx
+    .insertInto('photos')
+    .values(rows)
+    .onConflict((oc) => oc.columns(['upload_id', 'upload_index']).doNothing())
+    .returning('id')
+    .execute();
+}
+
+/** The photos an earlier attempt of this upload made, in the order they were sent. */
+export function photosOfUpload(db: Q, uploadId: string) {
+  return db
+    .selectFrom('photos')
+    .select(['id', 'trial_id', 'created_by'])
+    .where('upload_id', '=', uploadId)
+    .orderBy('upload_index')
+    .execute();
 }
 
 export function updatePhoto(

@@ -107,7 +107,7 @@ export function photosRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage'>) {
       await receive(req, res);
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
       const fields = parseOr400(uploadPhotoFields, req.body ?? {}, 'body');
-      const photos = await service.uploadPhotos(
+      const { photos, created } = await service.uploadPhotos(
         photoDeps,
         loaded,
         requireActor(res),
@@ -115,7 +115,8 @@ export function photosRouter(deps: Pick<AppDeps, 'db' | 'env' | 'storage'>) {
         files,
         fields,
       );
-      res.status(201).json({ photos });
+      // A retry of an upload already stored answers 200 with the photos it made.
+      res.status(created ? 201 : 200).json({ photos });
     }),
   );
 

@@ -207,6 +207,9 @@ export interface UploadedFile {
  * Processes every file first, then writes the files and the rows; any failure removes what was
  * written, so a failed upload leaves neither orphan files nor rows.
  */
+/** Rolls back the insert of an upload whose id another attempt has used meanwhile. */
+class UploadStoredMeanwhile extends Error {}
+
 export async function uploadPhotos(
   deps: PhotoDeps,
   loaded: LoadedTrial,
@@ -214,7 +217,7 @@ export async function uploadPhotos(
   slug: string,
   files: UploadedFile[],
   fields: z.output<typeof uploadPhotoFields>,
-): Promise<Photo[]> {
+): Promise<{ photos: Photo[]; created: boolean }> {
   const { db, storage } = deps;
   const limits = deps.limits ?? defaultPhotoLimits;
   if (files.length === 0) {
@@ -222,6 +225,28 @@ export async function uploadPhotos(
       fields: [{ path: 'body.photo', message: 'Choose a photo to upload.' }],
     });
   }
+  const answerOf = async (ids: string[]) => {
+    const out: Photo[] = [];
+    for (const id of ids) {
+      const row = await repo.findPhoto(db, loaded.trial.id, id);
+      if (row) out.push(toPhoto(slug, actor, loaded, row));
+    }
+    return out;
+  };
+  /** The photos an earlier attempt of this upload stored, or null when there was none. */
+  const earlier = async () => {
+    if (!fields.uploadId) return null;
+    const made = await repo.photosOfUpload(db, fields.uploadId);
+    if (made.length === 0) return null;
+    if (made.some((p) => p.trial_id !== loaded.trial.id || p.created_by !== actor.userId))
+      throw new AppError('conflict', 'This upload id is already used by another upload.', {
+        fields: [{ path: 'body.uploadId', message: 'Make a new id for a new upload.' }],
+      });
+    return answerOf(made.map((p) => p.id));
+  };
+  // A retry is answered before its photos are processed again.
+  const before = await earlier();
+  if (before) return { photos: before, created: false };
   const tags = await resolveTags(db, loaded.trial.id, fields.entryId, fields.plotId, 'body');
   const processed: { file: UploadedFile; photo: ProcessedPhoto }[] = [];
   for (const file of files) {
@@ -238,7 +263,7 @@ export async function uploadPhotos(
   const written: string[] = [];
   try {
     const rows: Insertable<PhotosTable>[] = [];
-    for (const { photo } of processed) {
+    for (const [index, { photo }] of processed.entries()) {
       const storageKey = `photos/${loaded.trial.id}/${crypto.randomBytes(16).toString('hex')}`;
       const keyRow = { storage_key: storageKey, original_ext: photo.original.ext };
       for (const [variant, out] of [
@@ -273,20 +298,23 @@ export async function uploadPhotos(
         thumb_bytes: photo.thumb.buffer.length,
         created_by: actor.userId,
         updated_by: actor.userId,
+        upload_id: fields.uploadId ?? null,
+        upload_index: fields.uploadId ? index : null,
       });
     }
     const ids = await db.transaction().execute(async (trx) => {
       const inserted = await repo.insertPhotos(trx, rows);
+      // Another attempt of the same upload stored its photos first: keep those, not these.
+      if (inserted.length < rows.length) throw new UploadStoredMeanwhile();
       return inserted.map((r) => r.id);
     });
-    const out: Photo[] = [];
-    for (const id of ids) {
-      const row = await repo.findPhoto(db, loaded.trial.id, id);
-      out.push(toPhoto(slug, actor, loaded, row!));
-    }
-    return out;
+    return { photos: await answerOf(ids), created: true };
   } catch (err) {
     await Promise.allSettled(written.map((key) => storage.delete(key)));
+    if (err instanceof UploadStoredMeanwhile) {
+      const meanwhile = await earlier();
+      if (meanwhile) return { photos: meanwhile, created: false };
+    }
     throw err;
   }
 }

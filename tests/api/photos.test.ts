@@ -2,6 +2,7 @@
  * Photo uploads end to end, on the real app and PostgreSQL: what is kept, what is stripped,
  * what is refused, who may see which file, and that failures leave nothing behind.
  */
+import crypto from 'node:crypto';
 import exifReader from 'exif-reader';
 import sharp from 'sharp';
 import request from 'supertest';
@@ -440,6 +441,35 @@ describe.each(['local', 's3'] as const)('photos on the %s driver', (driver) => {
         .where('id', '=', ctx.w.trial.id)
         .execute();
     }
+  });
+
+  it('answers a retried upload with the photos it already stored, never a second copy', async () => {
+    const uploadId = crypto.randomUUID();
+    const photo = await phonePhoto({ gps: false });
+    const send = (caller: 'contributor' | 'growerInSite') =>
+      as(caller)
+        .post(base())
+        .field('uploadId', uploadId)
+        .field('plotId', ctx.w.plotA)
+        .field('caption', 'Retried after the answer was lost')
+        .attach('photo', photo, { filename: 'retry.jpg', contentType: 'image/jpeg' });
+    const rowsBefore = await rowCount();
+    const filesBefore = (await stored()).length;
+    const first = await send('contributor');
+    expect(first.status, first.text).toBe(201);
+    const again = await send('contributor');
+    expect(again.status, again.text).toBe(200);
+    expect(again.body.photos.map((p: { id: string }) => p.id)).toEqual(
+      first.body.photos.map((p: { id: string }) => p.id),
+    );
+    expect(await rowCount()).toBe(rowsBefore + 1);
+    // Three stored sizes of one photo, not six.
+    expect((await stored()).length).toBe(filesBefore + 3);
+    // Someone else's upload cannot reuse the id (and learns nothing of its photos).
+    const other = await send('growerInSite');
+    expect(other.status).toBe(409);
+    expect(other.body.error.details.fields[0].path).toBe('body.uploadId');
+    expect(await rowCount()).toBe(rowsBefore + 1);
   });
 });
 

@@ -235,12 +235,14 @@ describe('the outbox', () => {
     expect(uploads).toEqual([
       {
         url: '/api/trials/brookfold/photos',
-        fields: { caption: 'Plot 101', takenOn: '2026-07-01' },
+        // The queue's id goes as the upload's id, so a resend is recognised as the same upload.
+        fields: { uploadId: 'ph1', caption: 'Plot 101', takenOn: '2026-07-01' },
         file: 'ph1.jpg',
       },
       {
         url: '/api/trials/brookfold/photos',
-        fields: { caption: 'Plot 101', takenOn: '2026-07-01' },
+        // The queue's id goes as the upload's id, so a resend is recognised as the same upload.
+        fields: { uploadId: 'ph2', caption: 'Plot 101', takenOn: '2026-07-01' },
         file: 'ph2.jpg',
       },
     ]);

@@ -233,8 +233,10 @@ export class Outbox {
 
   private request(item: OutboxItem): Promise<unknown> {
     if (item.kind === 'photo' && item.file) {
+      // The queue's id is the upload's id: a resend after a lost answer is the same upload.
+      const fields = { uploadId: item.id, ...(item.body as Record<string, unknown>) };
       return this.upload(item.url, z.unknown(), {
-        body: multipartBody(item.body as Record<string, unknown>, {
+        body: multipartBody(fields, {
           field: 'photo',
           blob: item.file,
           name: item.fileName ?? 'photo.jpg',

@@ -13,7 +13,7 @@ import { type ReactNode, useEffect, useId, useRef, useState } from 'react';
 import { SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { useContractForm } from '@/lib/contract-form';
 import type { TrialWithPermissions } from '@/lib/trial';
-import { clientId } from '../api/client-id';
+import { clientId } from '@/lib/client-id';
 import type { OutboxItem } from '../api/outbox';
 
 export type QueuedEntry = Pick<

@@ -11,7 +11,7 @@ import {
 } from '@common/water';
 import { useId, useState } from 'react';
 import { CautionNote } from '@/components/ui/caution-note';
-import { clientId } from '../api/client-id';
+import { clientId } from '@/lib/client-id';
 import type { QueuedEntry } from './entry-forms';
 
 const kindLabels: Record<FieldEventKind, string> = {

@@ -1,7 +1,7 @@
 import type { RecordPlot } from '@common/contracts/records';
 import { useId, useState } from 'react';
 import { localToday } from '@common/calendar-date';
-import { clientId } from '../api/client-id';
+import { clientId } from '@/lib/client-id';
 import type { NewOutboxItem } from '../api/outbox';
 
 /**

@@ -3,7 +3,10 @@ import { useCallback } from 'react';
 import { ApiError, apiUpload, multipartBody, type UploadProgress } from '@/lib/api-client';
 import { useInvalidateTrial } from '@/lib/trial-keys';
 
-/** One photo per request, so a failed one can be sent again alone; progress as it goes. */
+/**
+ * One photo per request, so a failed one can be sent again alone; progress as it goes. Send
+ * the same `fields.uploadId` on a retry: the server then answers with the photo it stored.
+ */
 export async function uploadPhoto(
   slug: string,
   file: File,

@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { ApiError } from '@/lib/api-client';
+import { clientId } from '@/lib/client-id';
 import { usePhotoTagging } from '../api/get-photo-tagging';
 import { useUploadPhoto } from '../api/upload-photo';
 import { emptyTags, type PhotoTags, PhotoTagFields } from '../components/photo-tag-fields';
@@ -15,6 +16,8 @@ type Status = 'ready' | 'waiting' | 'sending' | 'done' | 'failed' | 'cancelled';
 
 interface Item {
   key: string;
+  /** made once per file: every retry of its upload carries it, so it is stored once */
+  uploadId: string;
   file: File;
   preview: string;
   tags: PhotoTags;
@@ -80,6 +83,7 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
     if (!files) return;
     const added = [...files].map<Item>((file) => ({
       key: `${file.name}-${file.size}-${file.lastModified}-${Math.random().toString(36).slice(2)}`,
+      uploadId: clientId(),
       file,
       preview: URL.createObjectURL(file),
       tags: { ...defaults },
@@ -118,6 +122,7 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
           takenOn: item.tags.takenOn || undefined,
           subject: item.tags.subject || undefined,
           today: localToday(),
+          uploadId: item.uploadId,
         },
         (p) => patch(item.key, { sent: Math.min(p.loaded, item.file.size) }),
         controller.signal,
