@@ -64,8 +64,10 @@ export function Component() {
   }, [scanned, setSearch, setSiteId]);
 
   if (trial.isPending || plots.isPending) return <Spinner label="Loading the field log…" />;
-  if (trial.error) return <ErrorPanel error={trial.error} />;
-  if (plots.error) return <ErrorPanel error={plots.error} />;
+  // A refetch that fails (the signal dropping again as it returns) leaves the log on screen with
+  // what the device already has; only a log with nothing to show says it could not be loaded.
+  if (!trial.data) return <ErrorPanel error={trial.error} />;
+  if (!plots.data) return <ErrorPanel error={plots.error} />;
   const t = trial.data;
   const firstPlotOf = (id: string) => plots.data.plots.find((p) => p.siteId === id)?.plotId ?? null;
   const canWrite = t.permissions['records.write'];
