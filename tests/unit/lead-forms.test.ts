@@ -32,6 +32,8 @@ const entry = {
   inRowSpacingMm: '',
   noFertilizer: false,
   notes: '',
+  // The register select's first choice: find or make a variety of the entry's name.
+  varietyId: '',
 };
 
 describe('the entry form', () => {
