@@ -182,7 +182,8 @@ async function journey(page: Page, title: string, tag: string): Promise<string> 
     .click();
   await page.getByRole('button', { name: 'Fill plants set from the plan' }).click();
   const first = page.locator('tbody tr').first();
-  const plot = (await first.locator('th').innerText()).trim();
+  // On a phone each row is a card whose heading reads "Plot 101".
+  const plot = (await first.locator('th').innerText()).trim().replace(/^Plot\s+/, '');
   await page.getByLabel(`Survivors, plot ${plot}`).fill('999');
   await page.getByRole('button', { name: 'Save what was planted' }).click();
   await page.getByText('Survivors cannot outnumber the plants set.', { exact: true }).waitFor();
