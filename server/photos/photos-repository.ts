@@ -97,12 +97,12 @@ export function insertPhotos(trx: Transaction<Database>, rows: Insertable<Photos
 
 /** The photos an earlier attempt of this upload made, in the order they were sent. */
 export function photosOfUpload(db: Q, uploadId: string) {
-  return db
-    .selectFrom('photos')
-    .select(['id', 'trial_id', 'created_by'])
-    .where('upload_id', '=', uploadId)
-    .orderBy('upload_index')
-    .execute();
+  return photosQuery(db).where('p.upload_id', '=', uploadId).orderBy('p.upload_index').execute();
+}
+
+/** The trial's photos with these ids, in one query (in no particular order). */
+export function findPhotos(db: Q, trialId: string, photoIds: string[]) {
+  return photosQuery(db).where('p.trial_id', '=', trialId).where('p.id', 'in', photoIds).execute();
 }
 
 export function updatePhoto(

@@ -203,13 +203,13 @@ export interface UploadedFile {
   originalname: string;
 }
 
+/** Rolls back the insert of an upload whose id another attempt has used meanwhile. */
+class UploadStoredMeanwhile extends Error {}
+
 /**
  * Processes every file first, then writes the files and the rows; any failure removes what was
  * written, so a failed upload leaves neither orphan files nor rows.
  */
-/** Rolls back the insert of an upload whose id another attempt has used meanwhile. */
-class UploadStoredMeanwhile extends Error {}
-
 export async function uploadPhotos(
   deps: PhotoDeps,
   loaded: LoadedTrial,
@@ -225,13 +225,15 @@ export async function uploadPhotos(
       fields: [{ path: 'body.photo', message: 'Choose a photo to upload.' }],
     });
   }
+  /** The new photos as answered, in the order they were sent. */
   const answerOf = async (ids: string[]) => {
-    const out: Photo[] = [];
-    for (const id of ids) {
-      const row = await repo.findPhoto(db, loaded.trial.id, id);
-      if (row) out.push(toPhoto(slug, actor, loaded, row));
-    }
-    return out;
+    const rows = new Map(
+      (await repo.findPhotos(db, loaded.trial.id, ids)).map((row) => [row.id, row]),
+    );
+    return ids.flatMap((id) => {
+      const row = rows.get(id);
+      return row ? [toPhoto(slug, actor, loaded, row)] : [];
+    });
   };
   /** The photos an earlier attempt of this upload stored, or null when there was none. */
   const earlier = async () => {
@@ -242,7 +244,7 @@ export async function uploadPhotos(
       throw new AppError('conflict', 'This upload id is already used by another upload.', {
         fields: [{ path: 'body.uploadId', message: 'Make a new id for a new upload.' }],
       });
-    return answerOf(made.map((p) => p.id));
+    return made.map((row) => toPhoto(slug, actor, loaded, row));
   };
   // A retry is answered before its photos are processed again.
   const before = await earlier();
