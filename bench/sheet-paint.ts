@@ -14,6 +14,7 @@ import { projectRoot } from '../server/env';
 import {
   buildServer,
   insertBenchTrial,
+  median,
   signedInLead,
   startBenchDatabase,
   startBenchServer,
@@ -53,8 +54,6 @@ async function largestPaint(browser: Browser, url: string, shown: (page: Page) =
   await context.close();
   return lcp;
 }
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 
 buildClientIfMissing();
 const database = await startBenchDatabase();
