@@ -8,65 +8,19 @@ import { act, fireEvent, render, screen, waitFor } from '@testing-library/react'
 import { Profiler } from 'react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { trialActions } from '../../common/policy';
 import { Component as HarvestLog } from '../../src/features/records/routes/harvest-log-route';
+import { brookfoldTrial, jsonResponse as json, recordRowBase } from '../support/record-log-fixture';
 
-const trial = {
-  id: '00000000-0000-4000-8000-000000000001',
-  slug: 'brookfold',
-  title: 'Brookfold okra round',
-  crop: 'Okra',
-  season: '2026',
-  design: 'rcbd',
-  status: 'active',
-  siteCount: 1,
-  entryCount: 1,
-  plotCount: 1,
-  myRole: 'lead',
-  description: '',
-  sowingDate: null,
-  transplantDate: null,
-  sites: [
-    {
-      id: '00000000-0000-4000-8000-000000000002',
-      name: 'Brookfold Allotment',
-      region: '',
-      soilTexture: null,
-      irrigationMethod: null,
-      notes: '',
-    },
-  ],
-  entries: [],
-  traits: [],
-  harvestCount: 1,
-  observationCount: 0,
-  mySiteIds: null,
-  permissions: Object.fromEntries(trialActions.map((a) => [a, true])),
-};
+const trial = brookfoldTrial({ harvestCount: 1 });
 const harvest = {
+  ...recordRowBase,
   id: '00000000-0000-4000-8000-0000000000a1',
-  version: 1,
-  deletedAt: null,
-  createdAt: '2026-07-01T10:00:00.000Z',
-  updatedAt: '2026-07-01T10:00:00.000Z',
-  createdByName: 'Wren Alderby',
-  updatedByName: 'Wren Alderby',
-  plotId: '00000000-0000-4000-8000-000000000003',
-  siteId: trial.sites[0]!.id,
-  siteName: 'Brookfold Allotment',
   plotNumber: 101,
-  block: 1,
-  entryId: '00000000-0000-4000-8000-000000000004',
-  entryCode: 'E1',
-  entryName: 'Tallow Finger',
   harvestedOn: '2026-07-01',
   fruitCount: 10,
   massG: 120,
   grade: 'marketable',
-  note: '',
 };
-const json = (status: number, body: unknown) =>
-  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
 
 afterEach(() => vi.unstubAllGlobals());
 

@@ -10,11 +10,15 @@ import { render, screen, within } from '@testing-library/react';
 import type { ComponentType } from 'react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { trialActions } from '../../common/policy';
 import { Component as HarvestLog } from '../../src/features/records/routes/harvest-log-route';
 import { Component as ObservationLog } from '../../src/features/records/routes/observation-log-route';
+import {
+  brookfoldTrial,
+  jsonResponse as json,
+  recordRowBase,
+  fixtureId as uuid,
+} from '../support/record-log-fixture';
 
-const uuid = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
 const trait = { scaleMin: null, scaleMax: null, displayUnit: null };
 const traits = [
   {
@@ -40,56 +44,8 @@ const traits = [
     plausibleMax: 4000,
   },
 ];
-const trial = {
-  id: uuid(1),
-  slug: 'brookfold',
-  title: 'Brookfold okra round',
-  crop: 'Okra',
-  season: '2026',
-  design: 'rcbd',
-  status: 'active',
-  siteCount: 1,
-  entryCount: 1,
-  plotCount: 1,
-  myRole: 'lead',
-  description: '',
-  sowingDate: null,
-  transplantDate: null,
-  sites: [
-    {
-      id: uuid(2),
-      name: 'Brookfold Allotment',
-      region: '',
-      soilTexture: null,
-      irrigationMethod: null,
-      notes: '',
-    },
-  ],
-  entries: [],
-  traits,
-  harvestCount: 3,
-  observationCount: 3,
-  mySiteIds: null,
-  permissions: Object.fromEntries(trialActions.map((a) => [a, true])),
-};
-const record = (n: number) => ({
-  id: uuid(100 + n),
-  version: 1,
-  deletedAt: null,
-  createdAt: '2026-07-01T10:00:00.000Z',
-  updatedAt: '2026-07-01T10:00:00.000Z',
-  createdByName: 'Wren Alderby',
-  updatedByName: 'Wren Alderby',
-  plotId: uuid(3),
-  siteId: uuid(2),
-  siteName: 'Brookfold Allotment',
-  plotNumber: 100 + n,
-  block: 1,
-  entryId: uuid(4),
-  entryCode: 'E1',
-  entryName: 'Tallow Finger',
-  note: '',
-});
+const trial = brookfoldTrial({ traits, harvestCount: 3, observationCount: 3 });
+const record = (n: number) => ({ ...recordRowBase, id: uuid(100 + n), plotNumber: 100 + n });
 const harvest = (n: number, fruitCount: number, massG: number) => ({
   ...record(n),
   harvestedOn: `2026-07-0${n}`,
@@ -107,8 +63,6 @@ const height = (n: number, mm: number) => ({
   valueDate: null,
   plantNumber: 1,
 });
-const json = (status: number, body: unknown) =>
-  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
 
 afterEach(() => vi.unstubAllGlobals());
 
