@@ -106,6 +106,11 @@ export function trialSites(db: DB, trialId: string) {
     .execute();
 }
 
+/** A trial's entries by id and name (the name its analysis keeps the means under). */
+export function trialEntryNames(db: DB, trialId: string) {
+  return db.selectFrom('entries').select(['id', 'name']).where('trial_id', '=', trialId).execute();
+}
+
 /** A trial's traits in the lead's order. */
 export function trialTraits(db: DB, trialId: string) {
   return db

@@ -262,8 +262,9 @@ export async function compareVarieties(
     for (const t of f.traits) if (!traitLabels.has(t.key)) traitLabels.set(t.key, t.label);
   }
   // A variety is compared only when the caller may see it (group member or a visible trial).
+  const myGroups = actor ? await repo.groupsOf(db, actor.userId) : [];
   for (const v of chosen) {
-    const role = actor ? await groupRoleOf(db, v.group_id, actor) : null;
+    const role = myGroups.find((g) => g.id === v.group_id)?.role ?? null;
     const grownVisibly = entries.some(
       (e) => e.entry.varietyId === v.id && visibleTrials.has(e.trial.id),
     );

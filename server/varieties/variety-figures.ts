@@ -93,7 +93,7 @@ export async function trialFigures(
     const [traits, settings, entries] = await Promise.all([
       repo.trialTraits(db, trial.id),
       repo.sheetSettings(db, trial.id),
-      db.selectFrom('entries').select(['id', 'name']).where('trial_id', '=', trial.id).execute(),
+      repo.trialEntryNames(db, trial.id),
     ]);
     const figures: TraitFigures[] = [];
     const warnings: string[] = [];
