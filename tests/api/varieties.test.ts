@@ -377,6 +377,31 @@ describe('GET /api/varieties/compare', () => {
       sharedEnvironments: 3,
     });
     const [vl, ml] = c.rows;
+    // Each okra cell: the arithmetic mean of the variety's plot values at that site, as the
+    // trial's own analysis reports them.
+    const okra = (
+      await as('lead').get(
+        `/api/trials/${OKRA}/analysis?trait=marketable_yield&alpha=0.05&letters=hsd`,
+      )
+    ).body;
+    c.columns.forEach((col: { trialSlug: string; site: string }, i: number) => {
+      if (col.trialSlug !== OKRA) return;
+      for (const [row, name] of [
+        [vl, 'Velvet Lantern'],
+        [ml, 'Mossbank Long'],
+      ] as const) {
+        const values = okra.plotValues
+          .filter((p: { entry: string; site: string }) => p.entry === name && p.site === col.site)
+          .map((p: { value: number }) => p.value);
+        expect(values.length).toBeGreaterThan(0);
+        expect(row.means[i]).toBeCloseTo(
+          values.reduce((a: number, b: number) => a + b, 0) / values.length,
+          9,
+        );
+      }
+    });
+    // The pair's difference: the mean of its differences over the environments both were
+    // grown in (common practice, no source).
     const diffs = vl.means
       .map((m: number | null, i: number) =>
         m !== null && ml.means[i] !== null ? m - ml.means[i] : null,
