@@ -175,12 +175,7 @@ export function formatTraitValue(
   system: UnitSystem,
   chosen?: TraitDisplayUnit | null,
 ): string {
-  if (quantityKind === 'length' || quantityKind === 'mass') {
-    const unit = displayUnit(quantityKind === 'length' ? 'mm' : 'g', system, 0, chosen);
-    return formatInUnit(value, unit);
-  }
-  if (quantityKind === 'percent') return `${formatNumber(value)} %`;
-  return formatNumber(value);
+  return formatInUnit(value, columnUnit(quantityKind, system, [], chosen).shown);
 }
 
 /** Numbers for tables: about four significant digits, grouped thousands. */

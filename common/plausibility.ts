@@ -7,7 +7,7 @@
  */
 import type { UnitSystem } from './contracts/me';
 import type { TraitDisplayUnit } from './contracts/trials';
-import { type DisplayUnit, displayUnit, formatNumber } from './display-units';
+import { type DisplayUnit, columnUnit, displayUnit, formatNumber } from './display-units';
 import { harvestRanges } from './trait-presets';
 
 export interface RangeTrait {
@@ -32,12 +32,8 @@ const outside = (value: number, r: Range) =>
   (r.min !== null && value < r.min) || (r.max !== null && value > r.max);
 
 /** The unit a range of a kind is written in: "g" for a mass, "cm" for a length, none for counts. */
-function rangeUnit(quantityKind: string, system: UnitSystem, chosen?: TraitDisplayUnit | null) {
-  if (quantityKind === 'length') return displayUnit('mm', system, 0, chosen);
-  if (quantityKind === 'mass') return displayUnit('g', system, 0, chosen);
-  if (quantityKind === 'percent') return { label: '%', factor: 1 };
-  return { label: '', factor: 1 };
-}
+const rangeUnit = (quantityKind: string, system: UnitSystem, chosen?: TraitDisplayUnit | null) =>
+  columnUnit(quantityKind, system, [], chosen).shown;
 
 /** "20–400 cm", "from 0.5 g", "up to 1,000". */
 export function describeRange(
