@@ -60,6 +60,11 @@ export async function trialForAction(
   return { ...loaded, plot: place, actorName };
 }
 
+/** The actor's role in a group, or null outside it. */
+export function groupRoleOf(db: DB, groupId: string, actor: Actor): Promise<GroupRole | null> {
+  return repo.groupRole(db, groupId, actor.userId);
+}
+
 /**
  * The same entry point for a group's actions (its register, trials it starts). Someone outside
  * the group, signed in or not, is told it does not exist (404); a member lacking the role gets 403.

@@ -14,7 +14,7 @@ import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import { newAddress } from '../lib/address';
-import { groupForAction } from '../trials/trials-service';
+import { groupForAction, groupRoleOf } from '../trials/trials-service';
 import { type Analyse, siteMeans, type TrialFigures, trialFigures } from './variety-figures';
 import * as repo from './varieties-repository';
 
@@ -104,11 +104,6 @@ async function visibleVariety(db: DB, actor: Actor | null, slug: string) {
   if (!variety) throw AppError.notFound('The variety');
   const role = actor ? await groupRoleOf(db, variety.group_id, actor) : null;
   return { variety, role, inGroup: canGroup(actor, 'register.read', role) };
-}
-
-async function groupRoleOf(db: DB, groupId: string, actor: Actor) {
-  const groups = await repo.groupsOf(db, actor.userId);
-  return groups.find((g) => g.id === groupId)?.role ?? null;
 }
 
 export async function updateVariety(
