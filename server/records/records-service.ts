@@ -122,6 +122,9 @@ async function editPlotRecord<T extends keyof typeof deletedMessages, Out>(
 /** Other features note their own changes in the trial's audit log the same way. */
 export { writeAudit } from './record-audit-repository';
 
+/** An observation as the API answers it: the trait's kind is read for the CSV export only. */
+const withoutKind = <O extends { quantityKind: unknown }>({ quantityKind: _k, ...o }: O) => o;
+
 /**
  * One page of a record log and where it stands in the whole list: the rows and the totals are
  * read with the same filters, so the count always matches what paging through would show.
@@ -165,7 +168,7 @@ export async function listObservations(
     repo.listObservations(db, trialId, f, window),
     repo.observationTotals(db, trialId, f),
   ]);
-  return { observations: rows.map(({ quantityKind: _k, ...o }) => o), ...page };
+  return { observations: rows.map(withoutKind), ...page };
 }
 
 export async function listFieldEvents(db: DB, slug: string, actor: Actor | null, q: Q) {
@@ -203,12 +206,8 @@ export async function completeness(
 
 const oneHarvest = async (db: DB, trialId: string, id: string) =>
   (await repo.listHarvests(db, trialId, { ids: [id], includeDeleted: true }))[0]!;
-const oneObservation = async (db: DB, trialId: string, id: string) => {
-  const { quantityKind: _k, ...o } = (
-    await repo.listObservations(db, trialId, { ids: [id], includeDeleted: true })
-  )[0]!;
-  return o;
-};
+const oneObservation = async (db: DB, trialId: string, id: string) =>
+  withoutKind((await repo.listObservations(db, trialId, { ids: [id], includeDeleted: true }))[0]!);
 const oneEvent = async (db: DB, trialId: string, id: string) =>
   (await repo.listFieldEvents(db, trialId, { ids: [id], includeDeleted: true }))[0]!;
 
