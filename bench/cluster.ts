@@ -8,13 +8,10 @@
  * share the same two cores, so the ratios say how much a second core's worth is reached here.
  */
 import crypto from 'node:crypto';
-import fs from 'node:fs';
 import os from 'node:os';
-import path from 'node:path';
 import autocannon from 'autocannon';
 import { createDb, createPool } from '../db/database';
-import { freePort } from '../db/pg-server';
-import { startCluster } from '../scripts/cluster/cluster';
+import { startThrowawayCluster } from '../scripts/cluster/cluster';
 import { buildServer, insertBenchTrial, percentile, signedInLead } from './support/bench-app';
 
 const INSTANCES = 3;
@@ -23,17 +20,7 @@ const CLIENTS = 20;
 const READERS = 50;
 
 buildServer();
-const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-bench-cluster-'));
-const ports = await Promise.all(Array.from({ length: INSTANCES }, () => freePort()));
-const cluster = await startCluster({
-  dir,
-  balancerPort: await freePort(),
-  instancePorts: ports,
-  dbPort: await freePort(),
-  s3Port: await freePort(),
-  smtpPort: await freePort(),
-  authSecret: crypto.randomBytes(32).toString('hex'),
-  throwaway: true,
+const cluster = await startThrowawayCluster(INSTANCES, {
   instanceEnv: { ANALYSIS_RATE_PER_MINUTE: '100000', MAIL_DRIVER: 'off' },
 });
 const db = createDb(createPool(cluster.databaseUrl, 4));
@@ -156,5 +143,4 @@ try {
 } finally {
   await db.destroy();
   await cluster.stop();
-  fs.rmSync(dir, { recursive: true, force: true });
 }

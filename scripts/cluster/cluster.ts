@@ -5,10 +5,12 @@
  * front. Used by `npm run cluster`, the tests through the balancer and the cluster benchmark.
  */
 import { type ChildProcess, execFileSync, spawn } from 'node:child_process';
+import crypto from 'node:crypto';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { APP_DATABASE, createDatabaseIfMissing } from '../../db/ensure-database';
-import { startPg, stopPg } from '../../db/pg-server';
+import { freePort, startPg, stopPg } from '../../db/pg-server';
 import { projectRoot } from '../../server/env';
 import { type CaptureServer, startCaptureServer } from '../../server/mail/capture-server';
 import { type Balancer, startBalancer, type Upstream } from './balancer';
@@ -237,6 +239,35 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     await unwind();
     throw err;
   }
+}
+
+/**
+ * A throwaway cluster for the tests and the benchmark: a temporary folder, free loopback ports
+ * and a fresh secret; stopping it also removes the folder.
+ */
+export async function startThrowawayCluster(
+  instances: number,
+  opts: Pick<ClusterOptions, 'healthIntervalMs' | 'instanceEnv'> = {},
+): Promise<Cluster> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-cluster-'));
+  const cluster = await startCluster({
+    dir,
+    balancerPort: await freePort(),
+    instancePorts: await Promise.all(Array.from({ length: instances }, () => freePort())),
+    dbPort: await freePort(),
+    s3Port: await freePort(),
+    smtpPort: await freePort(),
+    authSecret: crypto.randomBytes(32).toString('hex'),
+    throwaway: true,
+    ...opts,
+  });
+  return {
+    ...cluster,
+    async stop() {
+      await cluster.stop();
+      fs.rmSync(dir, { recursive: true, force: true });
+    },
+  };
 }
 
 async function isReady(url: string): Promise<boolean> {

@@ -4,16 +4,11 @@
  * database, and a visitor that keeps its session cookie and notes which instance answered.
  */
 import { execFileSync } from 'node:child_process';
-import crypto from 'node:crypto';
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import { createDb, createPool, type DB } from '../../db/database';
-import { freePort } from '../../db/pg-server';
 import { seedDemo } from '../../db/seed/seed';
 import { projectRoot } from '../../server/env';
 import { UPSTREAM_HEADER } from '../../scripts/cluster/balancer';
-import { type Cluster, startCluster } from '../../scripts/cluster/cluster';
+import { type Cluster, startThrowawayCluster } from '../../scripts/cluster/cluster';
 
 export interface TestCluster {
   cluster: Cluster;
@@ -24,19 +19,7 @@ export interface TestCluster {
 export async function startTestCluster(instances: number): Promise<TestCluster> {
   // The instances run the built server, as in production; esbuild takes a few seconds.
   execFileSync('npm', ['run', '--silent', 'build:server'], { cwd: projectRoot, stdio: 'inherit' });
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-cluster-'));
-  const ports = async (n: number) => Promise.all(Array.from({ length: n }, () => freePort()));
-  const cluster = await startCluster({
-    dir,
-    balancerPort: await freePort(),
-    instancePorts: await ports(instances),
-    dbPort: await freePort(),
-    s3Port: await freePort(),
-    smtpPort: await freePort(),
-    authSecret: crypto.randomBytes(32).toString('hex'),
-    throwaway: true,
-    healthIntervalMs: 500,
-  });
+  const cluster = await startThrowawayCluster(instances, { healthIntervalMs: 500 });
   const db = createDb(createPool(cluster.databaseUrl, 4));
   await seedDemo(db);
   return {
@@ -45,7 +28,6 @@ export async function startTestCluster(instances: number): Promise<TestCluster> 
     async close() {
       await db.destroy();
       await cluster.stop();
-      fs.rmSync(dir, { recursive: true, force: true });
     },
   };
 }
