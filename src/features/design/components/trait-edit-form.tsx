@@ -1,7 +1,7 @@
 import { type DesignTrait, traitEditForm } from '@common/contracts/design';
 import type { UnitSystem } from '@common/contracts/me';
 import { displayUnitsOfKind, traitBases, traitDirections } from '@common/contracts/trials';
-import { traitUnit } from '@common/display-units';
+import { columnUnit } from '@common/display-units';
 import { decimalsInUnit, decimalsOf, exportNumber } from '@common/precision';
 import { fromStored, type QuantityUnit } from '@common/units';
 import { useState } from 'react';
@@ -23,11 +23,8 @@ export const directionLabels: Record<(typeof traitDirections)[number], string> =
 };
 
 /** The unit a trait's plausible range is typed in: its own display unit (cm for a height). */
-function rangeUnitOf(t: DesignTrait, units: UnitSystem): QuantityUnit | null {
-  if (t.quantityKind === 'length') return traitUnit('mm', units, 0, t.displayUnit);
-  if (t.quantityKind === 'mass') return traitUnit('g', units, 0, t.displayUnit);
-  return null;
-}
+const rangeUnitOf = (t: DesignTrait, units: UnitSystem): QuantityUnit | null =>
+  columnUnit(t.quantityKind, units, [], t.displayUnit).unit;
 
 /** A stored range end as typed in `unit`, at the precision it was stored with. */
 const typed = (stored: number | null, unit: QuantityUnit | null) => {
