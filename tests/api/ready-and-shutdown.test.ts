@@ -96,7 +96,10 @@ describe('shutting down', () => {
       clientDir: '/nonexistent',
     });
     // A request that takes a while, as an upload or an analysis would.
+    let slowArrived!: () => void;
+    const slowStarted = new Promise<void>((resolve) => (slowArrived = resolve));
     runtime.app.get('/slow', (_req, res) => {
+      slowArrived();
       setTimeout(() => res.json({ finished: true }), 1000);
     });
     const server = runtime.app.listen(0, '127.0.0.1');
@@ -122,7 +125,7 @@ describe('shutting down', () => {
     );
     await relayBusy;
     const inFlight = get('/slow');
-    await new Promise((resolve) => setTimeout(resolve, 150));
+    await slowStarted;
 
     let finished = false;
     const stopping = runtime.shutdown(server, 5000).then(() => (finished = true));
