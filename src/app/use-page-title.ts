@@ -4,7 +4,7 @@ import { useTrials } from '@/features/trials/api/get-trials';
 
 /**
  * Every page's document title, in one place: the page's own heading, the trial it belongs to
- * (when it is one of a trial's pages and the heading is not already the trial's name), then
+ * (when it is one of a trial's pages and the heading does not already name it), then
  * "Rowtally". It follows the heading as the page loads its data.
  */
 export function usePageTitle() {
@@ -18,7 +18,10 @@ export function usePageTitle() {
     if (!main) return;
     const update = () => {
       const heading = main.querySelector('h1')?.textContent?.trim();
-      const parts = [heading, trialTitle && trialTitle !== heading ? trialTitle : undefined];
+      const parts = [
+        heading,
+        trialTitle && !heading?.includes(trialTitle) ? trialTitle : undefined,
+      ];
       const title = [...parts.filter(Boolean), 'Rowtally'].join(' · ');
       if (document.title !== title) document.title = title;
     };

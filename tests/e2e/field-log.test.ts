@@ -199,6 +199,8 @@ describe('the field log on a phone', () => {
     const errors = watchErrors(page);
     await page.goto(`/t/${slug}/records/harvests`);
     await page.getByText(/^13 harvests · /).waitFor();
+    // The heading already names the trial: the page title says it once.
+    await expect(page.title()).resolves.toBe('Harvest log · Brookfold okra round · Rowtally');
     await page.getByRole('button', { name: /^Edit harvest of plot 101 / }).click();
     // Meanwhile the grower corrects the same harvest from another phone.
     await live.db
