@@ -22,8 +22,7 @@ import { apiNotFound, errorHandler } from './lib/error-handler';
 import { refuseNul } from './lib/refuse-nul';
 import { trialsRouter } from './trials/trials-router';
 import { publicResultsRouter, resultsSheetRouter } from './results/results-router';
-import { shareMeta } from './results/share-meta';
-import { sheetPageMarkup } from './results/sheet-page';
+import { sheetPage } from './results/sheet-page';
 import { comparisonRouter } from './results/comparison-router';
 import { designRouter } from './design/design-router';
 import { analyzeRouter, trialAnalysisRouter } from './analysis/analysis-router';
@@ -148,13 +147,11 @@ export function createApp(deps: AppDeps) {
     const shell = fs.readFileSync(path.join(clientDir, 'index.html'), 'utf8');
     app.get('/{*splat}', async (req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
-      const [meta, sheet] = await Promise.all([
-        shareMeta(deps.db, req.path, deps.baseUrl),
-        sheetPageMarkup(deps.db, req.path, clientDir),
-      ]);
+      const sheet = await sheetPage(deps.db, req.path, deps.baseUrl, clientDir);
       // Replacer functions: a string would expand `$&`, `$'` and the like from a trial's title.
-      let page = meta ? shell.replace(/<title>[^<]*<\/title>/, () => meta) : shell;
-      if (sheet) page = page.replace('<div id="root"></div>', (root) => root + sheet);
+      let page = sheet ? shell.replace(/<title>[^<]*<\/title>/, () => sheet.meta) : shell;
+      const markup = sheet?.markup;
+      if (markup) page = page.replace('<div id="root"></div>', (root) => root + markup);
       res.type('html').send(page);
     });
   }

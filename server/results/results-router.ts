@@ -15,7 +15,7 @@ import { endpoint } from '../lib/endpoint';
 import { meansCsv, plotsCsv } from './results-csv';
 import { renderSheetPdf } from './results-pdf';
 import * as service from './results-service';
-import { sheetPageMarkup } from './sheet-page';
+import { sheetPage } from './sheet-page';
 import { z } from 'zod';
 
 type Deps = Pick<AppDeps, 'db' | 'logger' | 'env' | 'storage' | 'clientDir'> & {
@@ -62,8 +62,9 @@ export function resultsSheetRouter(deps: Deps) {
         res.status(201).json(await service.publish(r, params.slug, actorOf(res), body.changeNote));
         // Draw the new version's page now, so its first reader does not wait for it.
         if (deps.clientDir)
-          sheetPageMarkup(deps.db, `/r/${params.slug}`, deps.clientDir).catch((err: unknown) =>
-            deps.logger.warn({ err }, 'The published sheet could not be drawn ahead'),
+          sheetPage(deps.db, `/r/${params.slug}`, deps.baseUrl, deps.clientDir).catch(
+            (err: unknown) =>
+              deps.logger.warn({ err }, 'The published sheet could not be drawn ahead'),
           );
       },
     ),

@@ -195,7 +195,7 @@ export async function unpublish(deps: ResultsDeps, slug: string, actor: Actor | 
 }
 
 /** The public side: a published trial's versions. Unpublished (or never published) is 404. */
-async function publishedTrial(db: DB, slug: string): Promise<Trial> {
+export async function publishedTrial(db: DB, slug: string): Promise<Trial> {
   // Read as nobody: only a published sheet is open to anyone, and anything else is 404.
   const { trial } = await trialForAction(db, slug, null, 'results.read').catch((err: unknown) => {
     if (err instanceof AppError) throw AppError.notFound('The results sheet');
@@ -225,7 +225,15 @@ export async function frozenVersion(
   slug: string,
   version?: number,
 ): Promise<FrozenVersion> {
-  const trial = await publishedTrial(db, slug);
+  return frozenVersionOf(db, await publishedTrial(db, slug), version);
+}
+
+/** The same for a trial already read as published (see `publishedTrial`). */
+export async function frozenVersionOf(
+  db: DB,
+  trial: Trial,
+  version?: number,
+): Promise<FrozenVersion> {
   const meta = await repo.versionStamp(db, trial.id, version);
   if (!meta) throw AppError.notFound(`Version ${version ?? 1} of the results sheet`);
   const key = `${trial.id}:${meta.version}:${meta.published_at.getTime()}`;

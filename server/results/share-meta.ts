@@ -2,7 +2,7 @@
  * Title and description for a shared link to a published sheet, written into the app shell on
  * the server, so link previews show the trial without running the client.
  */
-import type { DB } from '../../db/database';
+import type { Trial } from '../../db/schema';
 
 const escape = (s: string) =>
   s.replace(
@@ -10,15 +10,11 @@ const escape = (s: string) =>
     (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!,
   );
 
-export async function shareMeta(db: DB, path: string, baseUrl: string): Promise<string | null> {
-  const match = /^\/r\/([a-z0-9]+(?:-[a-z0-9]+)*)(?:\/|$)/.exec(path);
-  if (!match) return null;
-  const trial = await db
-    .selectFrom('trials')
-    .select(['title', 'crop', 'season', 'description', 'status', 'slug'])
-    .where('slug', '=', match[1]!)
-    .executeTakeFirst();
-  if (!trial || trial.status !== 'published') return null;
+/** The head elements for a published trial's sheet (the caller has read it as published). */
+export function shareMeta(
+  trial: Pick<Trial, 'title' | 'crop' | 'season' | 'description' | 'slug'>,
+  baseUrl: string,
+): string {
   const title = `${trial.title} — results`;
   const description = (
     trial.description || `${trial.crop} variety trial, ${trial.season}: ranked results.`

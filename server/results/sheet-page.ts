@@ -2,7 +2,7 @@
  * The published results sheet's page, drawn on the server: the ranked sheet as HTML (from the
  * client's own `SheetView`, built by `vite build` into dist/sheet-html) and its numbers as JSON
  * for the client to mount over it. A published version never changes, so each is drawn once per
- * process and kept with the version (see `frozenVersion`).
+ * process and kept with the version (see `frozenVersionOf`).
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -10,7 +10,9 @@ import { pathToFileURL } from 'node:url';
 import type { ResultSnapshot } from '../../common/contracts/results';
 import type { DB } from '../../db/database';
 import { AppError } from '../lib/app-error';
-import { frozenVersion, type FrozenVersion } from './results-service';
+import type { Trial } from '../../db/schema';
+import { frozenVersionOf, publishedTrial, type FrozenVersion } from './results-service';
+import { shareMeta } from './share-meta';
 
 type RenderSheet = (sheet: ResultSnapshot) => string;
 
@@ -39,24 +41,44 @@ const scriptSafe = (json: string) =>
     .replace(/\u2028/g, '\\u2028')
     .replace(/\u2029/g, '\\u2029');
 
+/** What the server writes into the app shell for a published sheet's address. */
+export interface SheetPage {
+  /** Title and link-preview elements for the page's head. */
+  meta: string;
+  /** The drawn sheet and its numbers, placed after the app's root; null without a renderer or version. */
+  markup: string | null;
+}
+
 /**
- * The markup to place after the app's root for `/r/<slug>` or `/r/<slug>/v/<n>`, or null (not a
- * sheet's address, not published, or the renderer not built): then the plain app shell serves.
+ * For any address under `/r/<slug>` of a published trial, the head elements; for `/r/<slug>` or
+ * `/r/<slug>/v/<n>` also the drawn sheet. Null when it is not such an address or not published:
+ * then the plain app shell serves. The trial is read once for both.
  */
-export async function sheetPageMarkup(
+export async function sheetPage(
   db: DB,
   urlPath: string,
+  baseUrl: string,
   clientDir: string,
-): Promise<string | null> {
-  const match = /^\/r\/([a-z0-9]+(?:-[a-z0-9]+)*)(?:\/v\/([1-9]\d{0,5}))?\/?$/.exec(urlPath);
+): Promise<SheetPage | null> {
+  const match = /^\/r\/([a-z0-9]+(?:-[a-z0-9]+)*)(?:\/|$)/.exec(urlPath);
   if (!match) return null;
-  const render = await rendererFor(clientDir);
-  if (!render) return null;
-  let frozen: FrozenVersion;
+  let trial: Trial;
   try {
-    frozen = await frozenVersion(db, match[1]!, match[2] ? Number(match[2]) : undefined);
+    trial = await publishedTrial(db, match[1]!);
   } catch (err) {
     if (err instanceof AppError && err.status === 404) return null;
+    throw err;
+  }
+  const meta = shareMeta(trial, baseUrl);
+  const sheet = /^\/r\/[^/]+(?:\/v\/([1-9]\d{0,5}))?\/?$/.exec(urlPath);
+  if (!sheet) return { meta, markup: null };
+  const render = await rendererFor(clientDir);
+  if (!render) return { meta, markup: null };
+  let frozen: FrozenVersion;
+  try {
+    frozen = await frozenVersionOf(db, trial, sheet[1] ? Number(sheet[1]) : undefined);
+  } catch (err) {
+    if (err instanceof AppError && err.status === 404) return { meta, markup: null };
     throw err;
   }
   let html = drawn.get(frozen);
@@ -64,8 +86,10 @@ export async function sheetPageMarkup(
     html = render(frozen.snapshot);
     drawn.set(frozen, html);
   }
-  return (
-    `<div id="sheet-prerender" class="mx-auto max-w-6xl px-3 py-4 sm:px-6 sm:py-6">${html}</div>` +
-    `<script type="application/json" id="sheet-data">${scriptSafe(frozen.json)}</script>`
-  );
+  return {
+    meta,
+    markup:
+      `<div id="sheet-prerender" class="mx-auto max-w-6xl px-3 py-4 sm:px-6 sm:py-6">${html}</div>` +
+      `<script type="application/json" id="sheet-data">${scriptSafe(frozen.json)}</script>`,
+  };
 }

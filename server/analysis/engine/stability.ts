@@ -94,39 +94,26 @@ export function balancedSubset(
   });
   let es = environments.filter((e) => vs.some((v) => grown.has(key(v, e))));
 
+  /** Each of `names` missing from some of `across`, with its share of empty cells. */
+  const incomplete = (
+    kind: 'variety' | 'environment',
+    names: string[],
+    across: string[],
+    grownIn: (name: string, other: string) => boolean,
+    firstOrder: number,
+  ) =>
+    names.flatMap((name, order) => {
+      const present = across.filter((other) => grownIn(name, other)).length;
+      if (present === across.length) return [];
+      const share = 1 - present / across.length;
+      return [{ kind, name, share, lost: present, order: firstOrder + order }];
+    });
+
   for (;;) {
-    type Candidate = {
-      kind: 'variety' | 'environment';
-      name: string;
-      share: number;
-      lost: number;
-      order: number;
-    };
-    const candidates: Candidate[] = [];
-    vs.forEach((v, order) => {
-      const present = es.filter((e) => grown.has(key(v, e))).length;
-      if (present < es.length) {
-        candidates.push({
-          kind: 'variety',
-          name: v,
-          share: 1 - present / es.length,
-          lost: present,
-          order,
-        });
-      }
-    });
-    es.forEach((e, order) => {
-      const present = vs.filter((v) => grown.has(key(v, e))).length;
-      if (present < vs.length) {
-        candidates.push({
-          kind: 'environment',
-          name: e,
-          share: 1 - present / vs.length,
-          lost: present,
-          order: vs.length + order,
-        });
-      }
-    });
+    const candidates = [
+      ...incomplete('variety', vs, es, (v, e) => grown.has(key(v, e)), 0),
+      ...incomplete('environment', es, vs, (e, v) => grown.has(key(v, e)), vs.length),
+    ];
     if (candidates.length === 0) break;
     candidates.sort((a, b) => b.share - a.share || a.lost - b.lost || b.order - a.order);
     const drop = candidates[0]!;

@@ -262,40 +262,47 @@ export function analyseTwoFactor(input: TwoFactorInput): TwoFactorAnalysis {
     df: crossDf,
   }));
 
-  const effect = (within: string, a1: string, a2: string, d: number, se: number, df: number) => {
-    const t = d / se;
-    return { within, a: a1, b: a2, difference: d, se, df, t, p: studentTTwoSided(t, df) };
-  };
-  const treatmentWithinVariety: SimpleEffect[] = [];
-  input.variety.levels.forEach((variety, e) => {
-    for (let t1 = 0; t1 < a; t1++)
-      for (let t2 = t1 + 1; t2 < a; t2++)
-        treatmentWithinVariety.push(
-          effect(
-            variety,
-            input.treatment.levels[t1]!,
-            input.treatment.levels[t2]!,
-            mtv[t1 * v + e]! - mtv[t2 * v + e]!,
-            Math.sqrt(2 * cellVar),
-            crossDf,
-          ),
-        );
-  });
-  const varietyWithinTreatment: SimpleEffect[] = [];
-  input.treatment.levels.forEach((treatment, t) => {
-    for (let e1 = 0; e1 < v; e1++)
-      for (let e2 = e1 + 1; e2 < v; e2++)
-        varietyWithinTreatment.push(
-          effect(
-            treatment,
-            input.variety.levels[e1]!,
-            input.variety.levels[e2]!,
-            mtv[t * v + e1]! - mtv[t * v + e2]!,
-            Math.sqrt((2 * eb.ms) / r),
-            eb.df,
-          ),
-        );
-  });
+  /** Every pair of `levels` within each level of `within`; `cell(w, i)` is their cell mean. */
+  const pairsWithin = (
+    within: string[],
+    levels: string[],
+    cell: (w: number, i: number) => number,
+    se: number,
+    df: number,
+  ): SimpleEffect[] =>
+    within.flatMap((name, w) => {
+      const pairs: SimpleEffect[] = [];
+      for (let i = 0; i < levels.length; i++)
+        for (let j = i + 1; j < levels.length; j++) {
+          const difference = cell(w, i) - cell(w, j);
+          const t = difference / se;
+          pairs.push({
+            within: name,
+            a: levels[i]!,
+            b: levels[j]!,
+            difference,
+            se,
+            df,
+            t,
+            p: studentTTwoSided(t, df),
+          });
+        }
+      return pairs;
+    });
+  const treatmentWithinVariety = pairsWithin(
+    input.variety.levels,
+    input.treatment.levels,
+    (e, t) => mtv[t * v + e]!,
+    Math.sqrt(2 * cellVar),
+    crossDf,
+  );
+  const varietyWithinTreatment = pairsWithin(
+    input.treatment.levels,
+    input.variety.levels,
+    (t, e) => mtv[t * v + e]!,
+    Math.sqrt((2 * eb.ms) / r),
+    eb.df,
+  );
 
   // Variety main effects: differences lie within main plots, so on the sub-plot error alone.
   const varietyLine = anova.find((l) => l.source === 'variety')!;
