@@ -391,13 +391,16 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
     JSON.parse(readFileSync(path.join('fixtures/analysis', `${name}.json`), 'utf8')) as {
       anova: { source: string; f: number | null; p: number | null }[];
     };
-
-  it('a text/csv body gives R’s aov() F for datasets::npk (fixtures/analysis/npk-rcbd.json)', async () => {
-    const r = await request(t.app)
-      .post('/api/analyze?alpha=0.05')
+  /** A signed-in lead's spreadsheet sent as text/csv, with the query after `/api/analyze`. */
+  const post = (csv: string, query = '') =>
+    request(t.app)
+      .post(`/api/analyze${query}`)
       .set('Cookie', lead)
       .set('Content-Type', 'text/csv')
-      .send(fixture('npk-rcbd'));
+      .send(csv);
+
+  it('a text/csv body gives R’s aov() F for datasets::npk (fixtures/analysis/npk-rcbd.json)', async () => {
+    const r = await post(fixture('npk-rcbd'), '?alpha=0.05');
     expect(r.status).toBe(200);
     const ref = reference('npk-rcbd').anova.find((l) => l.source === 'variety')!;
     const v = (r.body as Body).anova.find((l) => l.source === 'variety')!;
@@ -410,11 +413,7 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
     const ref = JSON.parse(
       readFileSync(path.join('fixtures/analysis', 'mixed-network.json'), 'utf8'),
     ) as { logLik: number; fixedTest: { denDf: number; p: number } };
-    const r = await request(t.app)
-      .post('/api/analyze?model=mixed')
-      .set('Cookie', lead)
-      .set('Content-Type', 'text/csv')
-      .send(fixture('mixed-network'));
+    const r = await post(fixture('mixed-network'), '?model=mixed');
     expect(r.status).toBe(200);
     expect(r.body.model).toBe('mixed');
     expect(Math.abs(r.body.logLik - ref.logLik)).toBeLessThan(1e-6);
@@ -424,18 +423,10 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
     expect(r.body).toEqual(
       JSON.parse(JSON.stringify(analyzeCsv(fixture('mixed-network'), { model: 'mixed' }))),
     );
-    const refused = await request(t.app)
-      .post('/api/analyze?model=mixed')
-      .set('Cookie', lead)
-      .set('Content-Type', 'text/csv')
-      .send(fixture('plantgrowth'));
+    const refused = await post(fixture('plantgrowth'), '?model=mixed');
     expect(refused.status).toBe(422);
     expect(refused.body.error.message).toMatch(/needs a site or block column/);
-    const badModel = await request(t.app)
-      .post('/api/analyze?model=bayes')
-      .set('Cookie', lead)
-      .set('Content-Type', 'text/csv')
-      .send(fixture('plantgrowth'));
+    const badModel = await post(fixture('plantgrowth'), '?model=bayes');
     expect(badModel.status).toBe(400);
   });
 
@@ -444,11 +435,7 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
       /^site,block,variety,value/,
       'Garden,Rep,Cultivar name,Yield g',
     );
-    const r = await request(t.app)
-      .post('/api/analyze?site=Garden&block=Rep&variety=Cultivar%20name&value=Yield%20g')
-      .set('Cookie', lead)
-      .set('Content-Type', 'text/csv')
-      .send(renamed);
+    const r = await post(renamed, '?site=Garden&block=Rep&variety=Cultivar%20name&value=Yield%20g');
     expect(r.status).toBe(200);
     const plain = analyzeCsv(fixture('multisite'));
     expect(r.body.anova.map((l: { f: number | null }) => l.f)).toEqual(plain.anova.map((l) => l.f));
@@ -462,22 +449,12 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
       .send({ csv: fixture('plantgrowth'), alpha: 0.01 });
     expect(ok.status).toBe(200);
     expect(ok.body.alpha).toBe(0.01);
-    const bad = await request(t.app)
-      .post('/api/analyze')
-      .set('Cookie', lead)
-      .set('Content-Type', 'text/csv')
-      .send('variety,value\nA,1\nA,x\nB,2\n');
+    const bad = await post('variety,value\nA,1\nA,x\nB,2\n');
     expect(bad.status).toBe(422);
     expect(bad.body.error.message).toBe('row 3, column "value": "x" is not a number');
   });
 
   it('refuses 1e400 and 1e-400 naming row and column (beyond IEEE 754 double range); hints at a semicolon separator', async () => {
-    const post = (csv: string) =>
-      request(t.app)
-        .post('/api/analyze')
-        .set('Cookie', lead)
-        .set('Content-Type', 'text/csv')
-        .send(csv);
     const big = await post('variety,value\nA,1\nA,1e400\nB,2\nB,3\n');
     expect(big.status).toBe(422);
     expect(big.body.error.message).toMatch(/^row 3, column "value": 1e400 is too large to analyse/);
@@ -497,11 +474,7 @@ describe('POST /api/analyze (spreadsheet, nothing stored)', () => {
   it('refuses more than 2 MB (413), other media types (415) and signed-out callers (401)', async () => {
     const big = 'variety,value\n' + 'Long Name Variety,12.345678\n'.repeat(80_000);
     expect(big.length).toBeGreaterThan(2 * 1024 * 1024);
-    const tooBig = await request(t.app)
-      .post('/api/analyze')
-      .set('Cookie', lead)
-      .set('Content-Type', 'text/csv')
-      .send(big);
+    const tooBig = await post(big);
     expect(tooBig.status).toBe(413);
     expect(tooBig.body.error.code).toBe('payload_too_large');
     const xml = await request(t.app)
