@@ -73,7 +73,13 @@ function unprocessable(err: unknown): never {
   throw err;
 }
 
-async function resolveTrait(db: DB, trialId: string, key: string): Promise<ResolvedTrait> {
+type TrialTraits = Awaited<ReturnType<typeof repo.trialTraits>>;
+
+/** A derived trait needs no lookup; a recorded one is found among the trial's traits. */
+async function resolveTrait(
+  traitsOfTrial: () => Promise<TrialTraits>,
+  key: string,
+): Promise<ResolvedTrait> {
   if (key in derivedTraits) {
     const d = derivedTraits[key as keyof typeof derivedTraits];
     return {
@@ -85,7 +91,7 @@ async function resolveTrait(db: DB, trialId: string, key: string): Promise<Resol
       traitId: null,
     };
   }
-  const trait = (await repo.trialTraits(db, trialId)).find((t) => t.key === key);
+  const trait = (await traitsOfTrial()).find((t) => t.key === key);
   if (!trait) throw AppError.notFound(`The trait "${key}"`);
   return {
     key,
@@ -198,7 +204,10 @@ export async function trialAnalysis(
   return analyseTrialTrait(db, trial, query);
 }
 
-/** One trait of a trial the caller has already been allowed to read (the results sheet). */
+/**
+ * One trait of a trial the caller has already been allowed to read (the results sheet). A caller
+ * asking for several traits passes one read of the trial's traits for all of them.
+ */
 export async function analyseTrialTrait(
   db: DB,
   trial: Trial,
@@ -209,6 +218,7 @@ export async function analyseTrialTrait(
     letters: 'hsd' | 'lsd';
     model?: AnalysisModel;
   },
+  traitsOfTrial: () => Promise<TrialTraits> = () => repo.trialTraits(db, trial.id),
 ): Promise<TrialAnalysis> {
   const question = {
     trait: query.trait,
@@ -218,7 +228,7 @@ export async function analyseTrialTrait(
     model: query.model ?? 'anova',
   };
   return cachedForTrialData(trial, question, async () => {
-    const trait = await resolveTrait(db, trial.id, query.trait);
+    const trait = await resolveTrait(traitsOfTrial, query.trait);
     return analyseTrait(db, trial, trait, query.basis, query);
   });
 }
@@ -235,9 +245,10 @@ export async function trialRanking(
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   const warnings: string[] = [];
   const explicit = query.traits !== undefined;
+  let traitRows: Promise<TrialTraits> | undefined;
+  const traitsOfTrial = () => (traitRows ??= repo.trialTraits(db, trial.id));
   const keys =
-    query.traits ??
-    (await repo.trialTraits(db, trial.id)).filter((t) => t.direction !== 'none').map((t) => t.key);
+    query.traits ?? (await traitsOfTrial()).filter((t) => t.direction !== 'none').map((t) => t.key);
   if (keys.length === 0)
     throw new AppError('unprocessable', 'The trial has no traits with a preferred direction.');
   if (new Set(keys).size !== keys.length)
@@ -246,14 +257,14 @@ export async function trialRanking(
     });
   const analysed: { trait: ResolvedTrait; weight: number; result: TrialAnalysis }[] = [];
   for (const [i, key] of keys.entries()) {
-    const trait = await resolveTrait(db, trial.id, key);
+    const trait = await resolveTrait(traitsOfTrial, key);
     try {
-      const result = await analyseTrialTrait(db, trial, {
-        trait: key,
-        basis: 'plot',
-        alpha: query.alpha,
-        letters: 'hsd',
-      });
+      const result = await analyseTrialTrait(
+        db,
+        trial,
+        { trait: key, basis: 'plot', alpha: query.alpha, letters: 'hsd' },
+        traitsOfTrial,
+      );
       analysed.push({ trait, weight: query.weights?.[i] ?? 1, result });
     } catch (err) {
       if (explicit || !(err instanceof AppError) || err.code !== 'unprocessable') throw err;
