@@ -4,6 +4,7 @@
  */
 import crypto from 'node:crypto';
 import { sql } from 'kysely';
+import { wordsOf } from '../../server/lib/address';
 import type { DB } from '../database';
 
 export const demoGroup = { slug: 'larkhaven-seed-library', name: 'Larkhaven Seed Library' };
@@ -27,27 +28,24 @@ export async function seedDemoRegister(trx: DB, coordinatorId: string): Promise<
     select distinct on (e.name) e.name, t.crop, e.entry_type, e.seed_source
     from entries e join trials t on t.id = e.trial_id
     order by e.name, t.season, e.created_at`.execute(trx);
-  for (const n of names.rows) {
-    // Demo addresses are readable and fixed, so links in the guide keep working.
-    const slug = n.name
-      .toLowerCase()
-      .replace(/[^a-z0-9]+/g, '-')
-      .replace(/^-+|-+$/g, '');
+  // Demo addresses are readable and fixed (no random tail), so links in the guide keep working.
+  if (names.rows.length)
     await trx
       .insertInto('varieties')
-      .values({
-        id: crypto.randomUUID(),
-        group_id: group.id,
-        slug,
-        name: n.name,
-        crop: n.crop,
-        variety_type: n.entry_type as 'heirloom',
-        seed_source: n.seed_source,
-        created_by: coordinatorId,
-        updated_by: coordinatorId,
-      })
+      .values(
+        names.rows.map((n) => ({
+          id: crypto.randomUUID(),
+          group_id: group.id,
+          slug: wordsOf(n.name, 'variety'),
+          name: n.name,
+          crop: n.crop,
+          variety_type: n.entry_type as 'heirloom',
+          seed_source: n.seed_source,
+          created_by: coordinatorId,
+          updated_by: coordinatorId,
+        })),
+      )
       .execute();
-  }
   await sql`
     update entries e set variety_id = v.id from varieties v
     where v.group_id = ${group.id} and v.name = e.name`.execute(trx);
