@@ -9,11 +9,12 @@ function useSidewaysOverflow(ref: React.RefObject<HTMLElement | null>, watch: bo
   useEffect(() => {
     const el = ref.current;
     if (!watch || !el) return;
-    const check = () =>
-      setState({
-        overflows: el.scrollWidth > el.clientWidth + 1,
-        atEnd: el.scrollLeft + el.clientWidth >= el.scrollWidth - 1,
-      });
+    // Called on every scroll event: a render only when either answer changes.
+    const check = () => {
+      const overflows = el.scrollWidth > el.clientWidth + 1;
+      const atEnd = el.scrollLeft + el.clientWidth >= el.scrollWidth - 1;
+      setState((s) => (s.overflows === overflows && s.atEnd === atEnd ? s : { overflows, atEnd }));
+    };
     check();
     el.addEventListener('scroll', check, { passive: true });
     const observer = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(check);

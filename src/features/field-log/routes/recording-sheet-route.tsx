@@ -29,8 +29,6 @@ import { FieldLogCrumbs } from '../components/field-log-crumbs';
 
 const selectClass = 'min-h-11 rounded-lg border border-leaf-300 bg-white px-2';
 
-const download = (name: string, text: string) => saveText(name, 'text/csv;charset=utf-8', text);
-
 /**
  * The paper backup of a round: one site's plots in field order with blank columns for the
  * harvest and the chosen traits, printed, or downloaded as the CSV to type it back in.
@@ -215,7 +213,7 @@ export function Component() {
           </button>
           <button
             type="button"
-            onClick={() => download(fileName, template())}
+            onClick={() => saveText(fileName, 'text/csv;charset=utf-8', template())}
             disabled={columns.length === 0}
             className="min-h-11 rounded-lg border border-leaf-700 bg-white px-4 font-semibold text-leaf-700 disabled:opacity-50"
           >
