@@ -16,16 +16,12 @@ import { migrateToLatest } from '../../db/migrator';
 import { startPg, stopPg } from '../../db/pg-server';
 import { projectRoot } from '../../server/env';
 import { installMailQueue } from '../../server/mail/mail-queue';
+import { createUser } from '../../tests/support/test-app';
 
 /** This engineer's ports: the app and the throwaway cluster. */
 export const BENCH_PORT = Number(process.env.BENCH_PORT ?? 3380);
 export const BENCH_DB_PORT = Number(process.env.BENCH_DB_PORT ?? 55380);
 export const BENCH_ORIGIN = `http://127.0.0.1:${BENCH_PORT}`;
-
-/** The password hash of BENCH_PASSWORD, made once with the sign-in library's hashPassword. */
-const BENCH_PASSWORD = 'correct-horse-battery';
-const BENCH_PASSWORD_HASH =
-  'fd03237c063a86415408c215d7de8a02:db5309c7a65e0cf1c93a2fb6afcd8725f9657071c79290dcdef6cc750c086e1768cde1a220b22d85968819a59249a160245a0dd9dd43b745506b3ba1019c0864';
 
 export interface BenchDatabase {
   url: string;
@@ -121,44 +117,19 @@ export async function signedInLead(
   db: DB,
   origin: string,
 ): Promise<{ userId: string; cookie: string }> {
-  const userId = crypto.randomUUID();
-  const email = `lead-${userId.slice(0, 8)}@bench.example`;
-  const now = new Date();
-  await db
-    .insertInto('users')
-    .values({
-      id: userId,
-      name: 'Bench Lead',
-      email,
-      email_verified: true,
-      is_admin: false,
-      created_at: now,
-      updated_at: now,
-    })
-    .execute();
-  await db
-    .insertInto('accounts')
-    .values({
-      id: crypto.randomUUID(),
-      account_id: userId,
-      provider_id: 'credential',
-      user_id: userId,
-      password: BENCH_PASSWORD_HASH,
-      created_at: now,
-      updated_at: now,
-    })
-    .execute();
+  const id = crypto.randomUUID().slice(0, 8);
+  const lead = await createUser(db, { name: 'Bench Lead', email: `lead-${id}@bench.example` });
   const res = await fetch(`${origin}/api/auth/sign-in/email`, {
     method: 'POST',
     headers: { 'Content-Type': 'application/json', Origin: origin },
-    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
+    body: JSON.stringify({ email: lead.email, password: lead.password }),
   });
   if (!res.ok) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
   const cookie = res.headers
     .getSetCookie()
     .map((c) => c.split(';')[0])
     .join('; ');
-  return { userId, cookie };
+  return { userId: lead.id, cookie };
 }
 
 export interface BenchTrial {
