@@ -185,6 +185,7 @@ describe('the results sheet', () => {
     expect(latest.changeNote).toBe('Added a late harvest from Quarry Lane.');
     const y1 = before.traits.find((x: { key: string }) => x.key === 'marketable_yield').grandMean;
     const y2 = latest.traits.find((x: { key: string }) => x.key === 'marketable_yield').grandMean;
+    // Arithmetic: 6000 g more on one of the trial's 54 plots moves the mean plot value by 6000/54.
     expect(y2 - y1).toBeCloseTo(6000 / 54, 6);
     expect((await as(null).get(`/api/results/${SLUG}/v/1`)).body.version).toBe(1);
     const versions = (await as(null).get(`/api/results/${SLUG}/versions`)).body.versions;

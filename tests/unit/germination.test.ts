@@ -39,6 +39,7 @@ describe('germination rate with the 95 % Wilson score interval', () => {
   });
 
   it('reads as percentages and stays inside 0–100 %', () => {
+    // 47 of 50: R's prop.test(47, 50, correct = FALSE) in fixtures/germination/wilson.json.
     const rate = germinationRate(47, 50);
     expect(rate.percent).toBe(94);
     expect(rate.lowerPercent).toBeCloseTo(83.78, 2);
