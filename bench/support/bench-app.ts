@@ -69,6 +69,7 @@ export async function startBenchServer(
   databaseUrl: string,
   env: Record<string, string> = {},
 ): Promise<BenchServer> {
+  const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-bench-uploads-'));
   const child: ChildProcess = spawn(
     process.execPath,
     // BENCH_NODE_ARGS="--cpu-prof --cpu-prof-dir=/tmp/prof" profiles the server under load.
@@ -89,7 +90,7 @@ export async function startBenchServer(
         // Request lines are logged in production; a benchmark measures the app, not the log pipe.
         LOG_LEVEL: 'warn',
         ANALYSIS_RATE_PER_MINUTE: '100000',
-        UPLOADS_DIR: fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-bench-uploads-')),
+        UPLOADS_DIR: uploadsDir,
         ...env,
       },
       stdio: ['ignore', 'pipe', 'inherit'],
@@ -106,7 +107,10 @@ export async function startBenchServer(
     origin: BENCH_ORIGIN,
     stop: () =>
       new Promise<void>((resolve) => {
-        child.once('exit', () => resolve());
+        child.once('exit', () => {
+          fs.rmSync(uploadsDir, { recursive: true, force: true });
+          resolve();
+        });
         child.kill('SIGTERM');
       }),
   };
