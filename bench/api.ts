@@ -158,7 +158,8 @@ try {
     verdict('api analysis 240k ÷ 24k harvests', p95.analysis240k / p95.analysis, 1.5, true),
   ];
   for (const line of lines) console.log(line);
-  const met = lines.filter((l) => l.endsWith(' met')).length;
+  // "… NOT met" also ends in " met": count the lines whose verdict follows the target directly.
+  const met = lines.filter((l) => l.endsWith(') met')).length;
   console.log(
     `api: ratio ${met}/${lines.length} targets (target ${lines.length}/${lines.length}) ${met === lines.length ? 'met' : 'NOT met'}`,
   );
