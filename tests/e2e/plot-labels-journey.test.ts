@@ -28,6 +28,7 @@ let grower: TestUser;
 let trial: SmallTrial;
 let eastPlots: Record<number, string>;
 const slug = 'sallowmere-bean-labels';
+const labelDensity = 3;
 
 beforeAll(async () => {
   ({ live, browser } = await openBrowserSuite({ demo: false }));
@@ -71,7 +72,12 @@ beforeAll(async () => {
 });
 afterAll(() => closeBrowserSuite(live, browser));
 
-/** The QR code of one label, as the page draws it, read back with jsQR. */
+/**
+ * The QR code of one label, as the page draws it, read back with jsQR. A label's code is 22 mm on
+ * paper but only ~85 CSS pixels on screen (1.7 px per module), too coarse for a decoder at one
+ * device pixel per CSS pixel: the contexts that read labels draw at a phone's density (3×, ~5 px
+ * per module), as a phone's camera would see the printed label at arm's length.
+ */
 async function readLabel(page: import('playwright-core').Page, plotNumber: number) {
   const png = await page.getByRole('img', { name: `Code for plot ${plotNumber}` }).screenshot();
   const { data, info } = await sharp(png).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
@@ -83,7 +89,7 @@ describe('plot labels', () => {
     ['desktop', { width: 1280, height: 900 }],
     ['360 px', { width: 360, height: 780 }],
   ])('prints a site’s labels whose codes hold each plot’s address (%s)', async (name, viewport) => {
-    const context = await contextAs(browser, live, lead, viewport);
+    const context = await contextAs(browser, live, lead, viewport, 'block', labelDensity);
     const page = await context.newPage();
     const errors = watchErrors(page);
     await page.goto(`/t/${slug}/log/labels`);
@@ -111,7 +117,14 @@ describe('plot labels', () => {
     const context = await contextAs(browser, live, grower, { width: 360, height: 780 });
     const page = await context.newPage();
     const errors = watchErrors(page);
-    const lead360 = await contextAs(browser, live, lead, { width: 1280, height: 900 });
+    const lead360 = await contextAs(
+      browser,
+      live,
+      lead,
+      { width: 1280, height: 900 },
+      'block',
+      labelDensity,
+    );
     const labels = await lead360.newPage();
     await labels.goto(`/t/${slug}/log/labels`);
     await labels.getByLabel('Site').selectOption({ label: 'Sallowmere East' });

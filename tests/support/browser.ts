@@ -67,8 +67,16 @@ export async function contextAs(
   // The app's service worker would sit between the page and Playwright's network controls;
   // only the offline-shell test lets it run.
   serviceWorkers: 'allow' | 'block' = 'block',
+  // Phones draw 2–3 device pixels per CSS pixel; a test that reads fine print from a screenshot
+  // (a QR code's modules) asks for that density.
+  deviceScaleFactor = 1,
 ): Promise<BrowserContext> {
-  const context = await browser.newContext({ viewport, baseURL: live.url, serviceWorkers });
+  const context = await browser.newContext({
+    viewport,
+    baseURL: live.url,
+    serviceWorkers,
+    deviceScaleFactor,
+  });
   // Two cores run the whole suite at once: give pages room before a wait counts as a failure.
   context.setDefaultTimeout(60_000);
   if (user) {
