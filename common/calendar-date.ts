@@ -41,8 +41,12 @@ export function weekStartOf(date: string): string {
   return dateOfDayNumber(day - ((((day + 3) % 7) + 7) % 7));
 }
 
-/** YYYY-MM-DD of an instant as the calendar reads in UTC. */
-export const utcDateOf = (instant: Date): string => instant.toISOString().slice(0, 10);
+/**
+ * YYYY-MM-DD of an instant as the calendar reads in UTC; takes a Date or a stored timestamp
+ * (ISO 8601 text such as a sheet's `publishedAt`).
+ */
+export const utcDateOf = (instant: Date | string): string =>
+  (typeof instant === 'string' ? new Date(instant) : instant).toISOString().slice(0, 10);
 
 /** Today on this device's calendar (local time zone). */
 export function localToday(now: Date = new Date()): string {

@@ -1,5 +1,6 @@
 /** The published sheet as a PDF (A4 or US Letter), generated on the server with pdfkit. */
 import PDFDocument from 'pdfkit';
+import { utcDateOf } from '../../common/calendar-date';
 import { modelNote, varietyTestNote } from '../../common/contracts/analysis';
 import {
   licenseLabels,
@@ -62,7 +63,7 @@ export function renderSheetPdf(
     .fontSize(10)
     .fillColor('#6b4f36')
     .text(
-      `${s.trial.crop} · ${s.trial.season} · ${designLabels[s.trial.design]} · version ${s.version}, published ${s.publishedAt.slice(0, 10)}`,
+      `${s.trial.crop} · ${s.trial.season} · ${designLabels[s.trial.design]} · version ${s.version}, published ${utcDateOf(s.publishedAt)}`,
     );
   if (s.changeNote) doc.text(`What changed: ${s.changeNote}`);
   doc.text(`Analysis: ${modelNote(sheetModel(s))}`);

@@ -7,6 +7,7 @@ import {
   isCalendarDate,
   latestRecordDate,
   localToday,
+  utcDateOf,
   weekStartOf,
 } from '../../common/calendar-date';
 
@@ -48,5 +49,12 @@ describe('calendar dates', () => {
     expect(localToday(new Date(2026, 0, 1, 0, 5))).toBe('2026-01-01');
     expect(latestRecordDate(new Date(Date.UTC(2026, 6, 14, 23, 30)))).toBe('2026-07-15');
     expect(latestRecordDate(new Date(Date.UTC(2026, 11, 31, 0, 0)))).toBe('2027-01-01');
+  });
+
+  it('dates a stored timestamp by its UTC calendar day, whatever offset it was written with', () => {
+    // RFC 3339 (ISO 8601) timestamps: 23:30 at UTC−05:00 is 04:30 the next day in UTC.
+    expect(utcDateOf('2026-07-14T23:30:00-05:00')).toBe('2026-07-15');
+    expect(utcDateOf('2026-07-14T23:30:00.000Z')).toBe('2026-07-14');
+    expect(utcDateOf(new Date(Date.UTC(2024, 1, 29, 12)))).toBe('2024-02-29');
   });
 });

@@ -185,8 +185,15 @@ export function FieldEventForm({
             };
       case 'thinning':
         return { ...common, targetSpacingMm: si.targetSpacingMm };
-      default:
+      case 'pruning':
+      case 'transplanting':
+      case 'note':
         return common;
+      default: {
+        // Every kind is handled above; a new kind in fieldEventKinds stops the build here.
+        const unhandled: never = kind;
+        throw new Error(`No body for the field event kind ${String(unhandled)}.`);
+      }
     }
   };
 

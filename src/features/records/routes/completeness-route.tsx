@@ -1,3 +1,4 @@
+import { addDays, localToday } from '@common/calendar-date';
 import { createColumnHelper } from '@tanstack/react-table';
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
@@ -20,11 +21,8 @@ interface Row {
 }
 const col = createColumnHelper<Row>();
 
-const isoDaysAgo = (n: number) => {
-  const d = new Date();
-  d.setDate(d.getDate() - n);
-  return d.toLocaleDateString('en-CA');
-};
+/** The round is the last seven days on this device's calendar. */
+const isoDaysAgo = (n: number) => addDays(localToday(), -n);
 
 /** Plots × traits for the current round: what has been recorded, and what is still missing. */
 export function Component() {

@@ -1,3 +1,4 @@
+import { utcDateOf } from '@common/calendar-date';
 import {
   licenseLabels,
   sheetModel,
@@ -47,7 +48,7 @@ export function SheetView({
         <p className="mt-1 text-sm text-loam-700">
           {preview
             ? `Preview of version ${sheet.version}`
-            : `Version ${sheet.version}, published ${sheet.publishedAt.slice(0, 10)}`}{' '}
+            : `Version ${sheet.version}, published ${utcDateOf(sheet.publishedAt)}`}{' '}
           · {sheet.plotCount} plots
         </p>
         <p className="mt-1 text-sm text-loam-700" data-model={sheetModel(sheet)}>

@@ -1,3 +1,4 @@
+import { utcDateOf } from '@common/calendar-date';
 import { useLayoutEffect, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -123,7 +124,7 @@ export function Component() {
                     Version {v.version}
                   </Link>
                 )}{' '}
-                — {v.publishedAt.slice(0, 10)}
+                — {utcDateOf(v.publishedAt)}
                 {v.changeNote ? `: ${v.changeNote}` : ''}
               </li>
             ))}

@@ -1,3 +1,4 @@
+import { utcDateOf } from '@common/calendar-date';
 import { useState } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -76,7 +77,7 @@ export function Component() {
                   <h2 className="mt-1 text-xl font-semibold text-leaf-900">{s.title}</h2>
                   <p className="mt-2 text-sm">
                     {s.entryCount} {s.entryCount === 1 ? 'entry' : 'entries'} · version {s.version}{' '}
-                    · published {s.publishedAt.slice(0, 10)}
+                    · published {utcDateOf(s.publishedAt)}
                   </p>
                 </Link>
               </li>
