@@ -57,3 +57,13 @@ export function isSpinyCrop(crop: string): boolean {
   const c = crop.toLowerCase();
   return spinyCrops.some((name) => c.includes(name));
 }
+
+/** Words that mark a treatment as fertilizer applied to plots (common practice, no source). */
+const fertilizerWords = ['fertili', 'manure', 'compost', 'nitrogen', 'feed', 'npk'];
+
+/** Whether a trial's second factor applies fertilizer: its name or a level names one. */
+export function isFertilizerFactor(factor: { name: string; levels: readonly string[] }): boolean {
+  return [factor.name, ...factor.levels].some((text) =>
+    fertilizerWords.some((w) => text.toLowerCase().includes(w)),
+  );
+}

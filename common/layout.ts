@@ -2,7 +2,11 @@
  * Randomized plot plans. Completely randomized: every plot of a site drawn in one random order.
  * Randomized complete blocks: each block holds every entry once, in its own random order,
  * repeated per site with a fresh randomization. Reproducible from the stored seed.
+ * With a second factor (a treatment) in complete blocks: a factorial puts every treatment ×
+ * entry plot once in each block, in one random order; a split plot randomizes the treatments to
+ * main plots within each block, then the entries to subplots within each main plot.
  */
+import type { FactorArrangement } from './contracts/trials';
 import { createRandom } from './random';
 
 export type LayoutDesign = 'crd' | 'rcbd' | 'multisite';
@@ -14,6 +18,8 @@ export interface LayoutInput {
   replicates: number;
   siteIds: readonly string[];
   seed: number;
+  /** A second factor, laid out in complete blocks (rcbd or multisite). */
+  factor?: { levels: readonly string[]; arrangement: FactorArrangement } | null;
 }
 
 export interface PlannedPlot {
@@ -24,6 +30,10 @@ export interface PlannedPlot {
   position: number;
   /** Field-style number: block digit(s) then position, e.g. 101, 102 … 201. */
   plotNumber: number;
+  /** The plot's level of the second factor; null in a one-factor trial. */
+  treatment: string | null;
+  /** Split plot: the main plot within the block (1, 2 …); null otherwise. */
+  mainPlot: number | null;
 }
 
 export function plotNumberOf(block: number, position: number, positionsPerBlock: number): number {
@@ -40,9 +50,21 @@ export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
   if (design !== 'multisite' && siteIds.length > 1) {
     throw new Error('Only the several-sites design lays out plots at more than one site.');
   }
+  const factor = input.factor ?? null;
+  if (factor) {
+    if (design === 'crd')
+      throw new Error('A second factor is laid out in complete blocks: choose a block design.');
+    if (factor.levels.length < 2) throw new Error('A treatment needs at least two levels.');
+    if (new Set(factor.levels).size !== factor.levels.length)
+      throw new Error('Each treatment level needs its own name.');
+  }
   const random = createRandom(seed);
   const plots: PlannedPlot[] = [];
   for (const siteId of siteIds) {
+    if (factor) {
+      plots.push(...twoFactorBlocks(random, siteId, entryIds, replicates, factor));
+      continue;
+    }
     if (design === 'crd') {
       const order = random.shuffle(
         entryIds.flatMap((id) => Array.from({ length: replicates }, () => id)),
@@ -54,6 +76,8 @@ export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
           block: 1,
           position: i + 1,
           plotNumber: plotNumberOf(1, i + 1, order.length),
+          treatment: null,
+          mainPlot: null,
         }),
       );
       continue;
@@ -66,9 +90,50 @@ export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
           block,
           position: i + 1,
           plotNumber: plotNumberOf(block, i + 1, entryIds.length),
+          treatment: null,
+          mainPlot: null,
         }),
       );
     }
+  }
+  return plots;
+}
+
+/** The blocks of one site for a treatment × entry trial; positions run along the block. */
+function twoFactorBlocks(
+  random: ReturnType<typeof createRandom>,
+  siteId: string,
+  entryIds: readonly string[],
+  replicates: number,
+  factor: NonNullable<LayoutInput['factor']>,
+): PlannedPlot[] {
+  const perBlock = entryIds.length * factor.levels.length;
+  const plots: PlannedPlot[] = [];
+  let position = 0;
+  const place = (block: number, treatment: string, entryId: string, mainPlot: number | null) => {
+    position++;
+    plots.push({
+      siteId,
+      entryId,
+      block,
+      position,
+      plotNumber: plotNumberOf(block, position, perBlock),
+      treatment,
+      mainPlot,
+    });
+  };
+  for (let block = 1; block <= replicates; block++) {
+    position = 0;
+    if (factor.arrangement === 'split_plot') {
+      random.shuffle(factor.levels).forEach((treatment, m) => {
+        for (const entryId of random.shuffle(entryIds)) place(block, treatment, entryId, m + 1);
+      });
+      continue;
+    }
+    const cells = factor.levels.flatMap((treatment) =>
+      entryIds.map((entryId) => ({ treatment, entryId })),
+    );
+    for (const c of random.shuffle(cells)) place(block, c.treatment, c.entryId, null);
   }
   return plots;
 }

@@ -21,6 +21,7 @@ import type {
 } from '../common/contracts/records';
 import type {
   entryTypes,
+  FactorArrangement,
   quantityKinds,
   traitBases,
   traitDirections,
@@ -125,6 +126,11 @@ export interface TrialsTable extends Written {
   group_id: Generated<string | null>;
   /** Moved on by triggers at every change to the trial's data; keys what is computed from it. */
   data_version: Generated<number>;
+  /** The second factor (a treatment such as fertilizer), or null for a one-factor trial. */
+  factor_name: Generated<string | null>;
+  /** Its levels in the lead's order (two or more). */
+  factor_levels: Generated<string[] | null>;
+  factor_arrangement: Generated<FactorArrangement | null>;
 }
 
 /** The lead's planned fertilizer use; what was applied is in the field log. */
@@ -213,6 +219,8 @@ export interface PlotsTable extends Written {
   row_spacing_mm: number | null;
   gaps: number | null;
   planted_note: Generated<string>;
+  /** The plot's level of the trial's second factor (null in a one-factor trial). */
+  treatment: Generated<string | null>;
 }
 
 export type QuantityKind = (typeof quantityKinds)[number];

@@ -5,6 +5,7 @@ import { type QuantityUnit, toStored } from '../units';
 import {
   displayUnitsOfKind,
   entryTypes,
+  factorArrangements,
   quantityKinds,
   traitBases,
   traitDirections,
@@ -379,7 +380,22 @@ export const traitUpdateResponse = z.object({
 export type TraitUpdateResponse = z.infer<typeof traitUpdateResponse>;
 
 /* POST /api/trials/:slug/layout */
-export const layoutBody = z.object({
+/** A second factor's levels: the lead's order, 2 to 6 distinct names. */
+const factorLevelsField = z
+  .array(required(40, 'treatment level'))
+  .max(6, 'Use at most 6 treatment levels.')
+  .refine(
+    (l) => new Set(l.map((x) => x.toLowerCase())).size === l.length,
+    'Give each treatment level its own name.',
+  );
+/** Named ⇔ levels: a blank name with no levels is a one-factor trial. */
+const factorComplete = (b: { factorName: string; factorLevels: string[] }) =>
+  b.factorName === '' ? b.factorLevels.length === 0 : b.factorLevels.length >= 2;
+const factorMessage = {
+  path: ['factorLevels'],
+  message: 'Name the treatment and give it at least two levels, or leave both blank.',
+};
+const layoutFields = z.object({
   replicates: z
     .number('Enter the number of replicates.')
     .int('Use a whole number of replicates.')
@@ -397,21 +413,43 @@ export const layoutBody = z.object({
   rowSpacingMm: lengthMm('between-row spacing'),
   /** For entries without a spacing of their own. */
   inRowSpacingMm: lengthMm('in-row spacing').nullable().default(null),
+  /** The second factor (a treatment such as fertilizer); blank for a one-factor trial. */
+  factorName: text(60, 'treatment name').default(''),
+  factorLevels: factorLevelsField.default([]),
+  factorArrangement: z
+    .enum(factorArrangements, 'Choose factorial or split plot.')
+    .default('factorial'),
 });
+export const layoutBody = layoutFields.refine(factorComplete, factorMessage);
 export type LayoutBody = z.input<typeof layoutBody>;
 /** The layout form: lengths typed in the units shown beside them; a blank seed draws a new one. */
 export const layoutForm = (units: { rowLength: QuantityUnit; spacing: QuantityUnit }) => {
-  const f = layoutBody.shape;
+  const f = layoutFields.shape;
   const length = <T extends z.ZodType>(schema: T, unit: QuantityUnit, blank?: null) =>
     typedNumber(schema, { blank, toStored: (v) => toStored(v, unit) });
-  return z.object({
-    replicates: typedNumber(f.replicates),
-    seed: typedNumber(f.seed),
-    rowsPerPlot: typedNumber(f.rowsPerPlot),
-    rowLengthMm: length(f.rowLengthMm, units.rowLength),
-    rowSpacingMm: length(f.rowSpacingMm, units.spacing),
-    inRowSpacingMm: length(f.inRowSpacingMm, units.spacing, null),
-  });
+  return z
+    .object({
+      replicates: typedNumber(f.replicates),
+      seed: typedNumber(f.seed),
+      rowsPerPlot: typedNumber(f.rowsPerPlot),
+      rowLengthMm: length(f.rowLengthMm, units.rowLength),
+      rowSpacingMm: length(f.rowSpacingMm, units.spacing),
+      inRowSpacingMm: length(f.inRowSpacingMm, units.spacing, null),
+      factorName: f.factorName,
+      /** Typed one per line (or separated by commas). */
+      factorLevels: z.preprocess(
+        (v) =>
+          typeof v === 'string'
+            ? v
+                .split(/[\n,]/)
+                .map((x) => x.trim())
+                .filter(Boolean)
+            : v,
+        f.factorLevels,
+      ),
+      factorArrangement: f.factorArrangement,
+    })
+    .refine(factorComplete, factorMessage);
 };
 
 /* PUT /api/trials/:slug/layout/planting */
@@ -521,6 +559,8 @@ export const designPlotSchema = z.object({
   plantsSurviving: z.number().int().nullable(),
   gaps: z.number().int().nullable(),
   plantedNote: z.string(),
+  /** The plot's level of the second factor; null in a one-factor trial. */
+  treatment: z.string().nullable(),
 });
 export type DesignPlot = z.infer<typeof designPlotSchema>;
 
@@ -538,6 +578,14 @@ export const designSchema = z.object({
   fertilizerPolicy: z.enum(fertilizerPolicies),
   fertilizerNotes: z.string(),
   canEdit: z.boolean(),
+  /** The second factor (a treatment compared across the varieties), or null. */
+  factor: z
+    .object({
+      name: z.string(),
+      levels: z.array(z.string()),
+      arrangement: z.enum(factorArrangements),
+    })
+    .nullable(),
   layout: z.object({
     seed: z.number().int().nullable(),
     replicates: z.number().int().nullable(),

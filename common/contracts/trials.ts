@@ -21,6 +21,14 @@ export const designLabels: Record<(typeof trialDesigns)[number], string> = {
   multisite: 'Blocks at several sites',
 };
 
+/** How a second factor (a treatment) is laid out with the varieties in complete blocks. */
+export const factorArrangements = ['factorial', 'split_plot'] as const;
+export type FactorArrangement = (typeof factorArrangements)[number];
+export const factorArrangementLabels: Record<FactorArrangement, string> = {
+  factorial: 'Factorial: every treatment × variety plot in each block',
+  split_plot: 'Split plot: treatments on main plots, varieties on subplots',
+};
+
 export const trialSlugParams = z.object({
   slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.'),
 });

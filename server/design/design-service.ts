@@ -34,7 +34,7 @@ import { copySheetSettings, latestPublishedVersion } from '../results/results-se
 import type { z } from 'zod';
 import { newAddress, wordsOf } from '../lib/address';
 import { AppError, fieldError } from '../lib/app-error';
-import { trialForAction, trialHeading, traitView } from '../trials/trials-service';
+import { trialFactor, trialForAction, trialHeading, traitView } from '../trials/trials-service';
 import { groupForNewTrial, joinGroup, varietyForEntry } from '../varieties/varieties-service';
 import * as repo from './design-repository';
 import type { Conn } from './design-repository';
@@ -176,6 +176,9 @@ export async function copyTrial(
         rowSpacingMm: source.row_spacing_mm!,
         // Entries without a spacing of their own were planted at the old plots' spacing.
         inRowSpacingMm: source.in_row_spacing_mm ?? (await repo.commonPlotSpacing(trx, source.id)),
+        factorName: source.factor_name ?? '',
+        factorLevels: source.factor_levels ?? [],
+        factorArrangement: source.factor_arrangement ?? 'factorial',
       });
       return { ...copy, seed: laid.seed };
     }),
@@ -254,6 +257,7 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
     fertilizerPolicy: trial.fertilizer_policy,
     fertilizerNotes: trial.fertilizer_notes,
     canEdit,
+    factor: trialFactor(trial),
     layout: {
       seed: trial.layout_seed,
       replicates: trial.replicates,
@@ -312,6 +316,7 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
       plantsSurviving: p.plants_surviving,
       gaps: p.gaps,
       plantedNote: p.planted_note,
+      treatment: p.treatment,
     })),
   };
 }
@@ -728,8 +733,18 @@ async function layOutPlots(
       'body.inRowSpacingMm',
       `Give an in-row spacing for the entries without their own (${unspaced.join(', ')}).`,
     );
+  const factor =
+    b.factorLevels.length > 0
+      ? { name: b.factorName, levels: b.factorLevels, arrangement: b.factorArrangement }
+      : null;
+  if (factor && trial.design === 'crd')
+    throw fieldError(
+      'body.factorName',
+      'A second factor is laid out in complete blocks: choose randomized complete blocks (or blocks at several sites) in the settings first.',
+    );
   const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
   const planned = randomizeLayout({
+    factor,
     design: trial.design,
     // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
     entryIds: entries.map((e) => e.id),
@@ -748,6 +763,7 @@ async function layOutPlots(
       block: p.block,
       position: p.position,
       plot_number: p.plotNumber,
+      treatment: p.treatment,
       in_row_spacing_mm: spacing.get(p.entryId)!,
       row_length_mm: b.rowLengthMm,
       row_spacing_mm: b.rowSpacingMm,
@@ -762,6 +778,9 @@ async function layOutPlots(
     row_length_mm: b.rowLengthMm,
     row_spacing_mm: b.rowSpacingMm,
     in_row_spacing_mm: b.inRowSpacingMm,
+    factor_name: factor?.name ?? null,
+    factor_levels: factor?.levels ?? null,
+    factor_arrangement: factor?.arrangement ?? null,
     layout_generated_at: new Date(),
     updated_by: userId,
   });

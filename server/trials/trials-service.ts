@@ -178,6 +178,17 @@ export function trialHeading(trial: Trial) {
   };
 }
 
+/** The trial's second factor (a treatment compared across its varieties), or null. */
+export function trialFactor(trial: Trial) {
+  return trial.factor_name != null && trial.factor_levels && trial.factor_arrangement
+    ? {
+        name: trial.factor_name,
+        levels: trial.factor_levels,
+        arrangement: trial.factor_arrangement,
+      }
+    : null;
+}
+
 /** A trait as the API shows it (the trial page, the design page and the field log read it). */
 export function traitView(t: Selectable<TraitsTable>) {
   return {

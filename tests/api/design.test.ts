@@ -415,6 +415,84 @@ describe('blocks at several sites', () => {
   });
 });
 
+describe('a second factor: fertilizer × variety', () => {
+  const fertilizer = { factorName: 'Fertilizer', factorLevels: ['none', 'pre-plant'] };
+  const lay = (slug: string, extra: object) =>
+    as('lead').post(`/api/trials/${slug}/layout`, {
+      replicates: 3,
+      seed: 77,
+      rowLengthMm: 3000,
+      rowSpacingMm: 900,
+      ...extra,
+    });
+
+  it('lays out a split plot: each block one main plot per level, every entry on its subplots', async () => {
+    const slug = await trialWithEntries('Fenwright okra, fertilizer split plot');
+    const res = await lay(slug, { ...fertilizer, factorArrangement: 'split_plot' });
+    expect(res.status).toBe(201);
+    expect(res.body).toEqual({ seed: 77, plots: 30 });
+    const d = await design(slug);
+    expect(d.factor).toEqual({
+      name: 'Fertilizer',
+      levels: ['none', 'pre-plant'],
+      arrangement: 'split_plot',
+    });
+    const ids = d.entries.map((e) => e.id).sort();
+    for (const block of [1, 2, 3]) {
+      const inBlock = d.plots
+        .filter((p) => p.block === block)
+        .sort((a, b) => a.position - b.position);
+      // positions 1–5 one main plot, 6–10 the other
+      for (const half of [inBlock.slice(0, 5), inBlock.slice(5)]) {
+        expect(new Set(half.map((p) => p.treatment)).size).toBe(1);
+        expect(half.map((p) => p.entryId).sort()).toEqual(ids);
+      }
+      expect(new Set(inBlock.map((p) => p.treatment))).toEqual(new Set(['none', 'pre-plant']));
+    }
+  });
+
+  it('lays out a factorial and drops the factor again when the name and levels are blank', async () => {
+    const slug = await trialWithEntries('Fenwright okra, fertilizer factorial');
+    expect((await lay(slug, { ...fertilizer, factorArrangement: 'factorial' })).status).toBe(201);
+    let d = await design(slug);
+    expect(d.plots).toHaveLength(30);
+    for (const block of [1, 2, 3])
+      expect(
+        d.plots
+          .filter((p) => p.block === block)
+          .map((p) => `${p.treatment}/${p.entryId}`)
+          .sort(),
+      ).toEqual(['none', 'pre-plant'].flatMap((t) => d.entries.map((e) => `${t}/${e.id}`)).sort());
+    expect((await lay(slug, {})).status).toBe(201);
+    d = await design(slug);
+    expect(d.factor).toBeNull();
+    expect(d.plots).toHaveLength(15);
+    expect(d.plots.every((p) => p.treatment === null)).toBe(true);
+  });
+
+  it('refuses one level, repeated levels, levels without a name, and a completely randomized trial', async () => {
+    const slug = await trialWithEntries('Fenwright okra, refused factors');
+    const one = await lay(slug, { factorName: 'Fertilizer', factorLevels: ['none'] });
+    expect(one.status).toBe(400);
+    expect(one.body.error.details.fields).toContainEqual({
+      path: 'body.factorLevels',
+      message: 'Name the treatment and give it at least two levels, or leave both blank.',
+    });
+    const twice = await lay(slug, { factorName: 'Fertilizer', factorLevels: ['none', 'None'] });
+    expect(twice.status).toBe(400);
+    expect(twice.body.error.details.fields[0].message).toBe(
+      'Give each treatment level its own name.',
+    );
+    expect((await lay(slug, { factorLevels: ['none', 'pre-plant'] })).status).toBe(400);
+    const crd = await trialWithEntries('Fenwright okra, completely randomized', 'crd');
+    const refused = await lay(crd, { ...fertilizer, factorArrangement: 'split_plot' });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.details.fields[0].path).toBe('body.factorName');
+    expect((await design(crd)).plots).toEqual([]);
+    expect((await design(slug)).factor).toBeNull();
+  });
+});
+
 describe('entries, sites and traits', () => {
   let slug: string;
   beforeAll(async () => {

@@ -1,11 +1,17 @@
 import { type Design, layoutForm, MAX_LAYOUT_SEED } from '@common/contracts/design';
-import { designLabels } from '@common/contracts/trials';
+import { isFertilizerFactor } from '@common/cautions';
+import {
+  designLabels,
+  factorArrangementLabels,
+  factorArrangements,
+} from '@common/contracts/trials';
 import { formatSpacing } from '@common/display-units';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
+import { CautionNote } from '@/components/ui/caution-note';
 import { ScrollRegion } from '@/components/ui/scroll-region';
-import { FormMessage, TextField } from '@/components/ui/text-field';
+import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUnitSystem } from '@/lib/session';
 import { useClearLayout, useGenerateLayout } from '../api/layout';
@@ -34,6 +40,14 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
     rowSpacingMm: lengthInput(design.layout.rowSpacingMm, spaceUnit),
     inRowSpacingMm: lengthInput(design.layout.inRowSpacingMm, spaceUnit),
     seed: design.layout.seed?.toString() ?? '',
+    factorName: design.factor?.name ?? '',
+    factorLevels: design.factor?.levels.join('\n') ?? '',
+    factorArrangement: design.factor?.arrangement ?? 'factorial',
+  });
+  const [factorName, factorLevels] = form.watch(['factorName', 'factorLevels']);
+  const fertilizer = isFertilizerFactor({
+    name: factorName ?? '',
+    levels: String(factorLevels ?? '').split(/[\n,]/),
   });
   const { errors, isSubmitting } = form.formState;
   const onSubmit = submitTo(form, async ({ seed, ...body }, e) => {
@@ -53,6 +67,9 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
       <p className="text-sm text-loam-700">
         {designLabels[design.design]} · {design.entries.length} entries · {design.sites.length}{' '}
         {design.sites.length === 1 ? 'site' : 'sites'}
+        {design.factor
+          ? ` · ${design.factor.name} (${design.factor.levels.join(', ')}), ${design.factor.arrangement === 'split_plot' ? 'split plot' : 'factorial'}`
+          : ''}
       </p>
       <fieldset disabled={!design.canEdit || locked} className="space-y-3">
         <div className="grid gap-3 sm:grid-cols-2">
@@ -102,6 +119,34 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
             {...form.register('seed')}
           />
         </div>
+        {design.design === 'crd' ? null : (
+          <fieldset className="space-y-3 rounded-lg border border-leaf-100 p-3">
+            <legend className="px-1 font-semibold text-leaf-900">Second factor (optional)</legend>
+            <p className="text-sm text-loam-700">
+              A treatment compared across the varieties, such as fertilizer or irrigation. Leave the
+              name and levels blank for a variety trial alone.
+            </p>
+            <TextField
+              label="Treatment"
+              hint="What is varied, e.g. Fertilizer."
+              error={errors.factorName?.message}
+              {...form.register('factorName')}
+            />
+            <TextArea
+              label="Levels, one per line"
+              hint="2 to 6 levels, e.g. none and pre-plant."
+              error={errors.factorLevels?.message}
+              {...form.register('factorLevels')}
+            />
+            <SelectField
+              label="Arrangement"
+              options={factorArrangements.map((a) => [a, factorArrangementLabels[a]] as const)}
+              error={errors.factorArrangement?.message}
+              {...form.register('factorArrangement')}
+            />
+            {fertilizer ? <CautionNote id="fertilizer-handling" /> : null}
+          </fieldset>
+        )}
         {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
         <div className="flex flex-wrap gap-2">
           <Button type="submit" value="seed" disabled={isSubmitting}>
@@ -181,6 +226,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
             <tr>
               <th className="p-2">Plot</th>
               <th className="p-2">Block</th>
+              {design.factor ? <th className="p-2">{design.factor.name}</th> : null}
               <th className="p-2">Entry</th>
               <th className="p-2">In-row spacing</th>
               <th className="p-2">Plants planned</th>
@@ -191,6 +237,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
               <tr key={p.id} className="border-t border-leaf-50">
                 <td className="p-2 font-semibold">{p.plotNumber}</td>
                 <td className="p-2">{p.block}</td>
+                {design.factor ? <td className="p-2">{p.treatment}</td> : null}
                 <td className="p-2">
                   <span className="font-mono font-semibold">{entry.get(p.entryId)?.code}</span>{' '}
                   {entry.get(p.entryId)?.name}
