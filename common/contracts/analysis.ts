@@ -270,6 +270,8 @@ export const rankingQuery = z
           .optional(),
       ),
     alpha,
+    /** The model each trait's means come from, as on the analysis page (same default). */
+    model: z.enum(analysisModels).default('anova'),
   })
   .superRefine((q, ctx) => {
     if (q.weights && !q.traits)

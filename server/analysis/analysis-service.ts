@@ -1,5 +1,6 @@
 import {
   derivedTraits,
+  modelsForDesign,
   type AnalysisModel,
   type AnalysisResult,
   type AnalyzeOptionsInput,
@@ -7,6 +8,7 @@ import {
   type TrialAnalysis,
   type analysisBases,
 } from '../../common/contracts/analysis';
+import { designLabels } from '../../common/contracts/trials';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
@@ -233,16 +235,31 @@ export async function analyseTrialTrait(
   });
 }
 
+/** A model the trial's design cannot be analysed with is the caller's mistake, named. */
+function refuseModelOutsideDesign(trial: Trial, model: AnalysisModel) {
+  if (modelsForDesign(trial.design).includes(model)) return;
+  const message = `A ${designLabels[trial.design].toLowerCase()} trial is analysed with the classical analysis only.`;
+  throw new AppError('validation_failed', message, {
+    fields: [{ path: 'query.model', message }],
+  });
+}
+
+/** The variety test's p: the mixed model's Wald F where fitted, else the ANOVA's F. */
+function varietyTestP(result: TrialAnalysis): number | null {
+  return result.fixedTest?.p ?? result.anova.find((l) => l.source === 'variety')?.p ?? null;
+}
+
 export const RANKING_METHOD =
-  'Index: for each trait, z = (entry mean − mean of the entry means) ÷ SD of the entry means, sign flipped where lower is better; the index is the weighted mean of the z scores (higher is better) and each contribution is weight × signed z ÷ total weight. Rank sum: the sum of each entry’s rank per trait (1 = best; lower sum is better). Traits with no preferred direction are shown but not counted.';
+  'Index: for each trait, each entry’s adjusted (least-squares) mean is standardised, z = (entry mean − mean of the entry means) ÷ SD of the entry means, sign flipped where lower is better; the index is the weighted mean of the z scores (higher is better) and each contribution is weight × signed z ÷ total weight. Rank sum: the sum of each entry’s rank per trait (1 = best; lower sum is better). Traits with no preferred direction are shown but not counted.';
 
 export async function trialRanking(
   db: DB,
   slug: string,
   actor: Actor | null,
-  query: { traits?: string[]; weights?: number[]; alpha: number },
+  query: { traits?: string[]; weights?: number[]; alpha: number; model: AnalysisModel },
 ): Promise<Ranking> {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  refuseModelOutsideDesign(trial, query.model);
   const warnings: string[] = [];
   const explicit = query.traits !== undefined;
   let traitRows: Promise<TrialTraits> | undefined;
@@ -262,7 +279,7 @@ export async function trialRanking(
       const result = await analyseTrialTrait(
         db,
         trial,
-        { trait: key, basis: 'plot', alpha: query.alpha, letters: 'hsd' },
+        { trait: key, basis: 'plot', alpha: query.alpha, letters: 'hsd', model: query.model },
         traitsOfTrial,
       );
       analysed.push({ trait, weight: query.weights?.[i] ?? 1, result });
@@ -288,7 +305,9 @@ export async function trialRanking(
         trait: a.trait.key,
         direction: a.trait.direction,
         weight: a.weight,
-        means: Object.fromEntries(a.result.means.map((m) => [m.variety, m.mean])),
+        // The adjusted means, as each trait's own ranks and the published sheet use: on
+        // unbalanced data the arithmetic means would rank a variety that lost a good plot low.
+        means: Object.fromEntries(a.result.adjustedMeans.map((m) => [m.variety, m.mean])),
       })),
       complete.map((e) => e.name),
     );
@@ -309,7 +328,7 @@ export async function trialRanking(
       unit: analysed[i]!.result.unit,
       mean: t.mean,
       sd: t.sd,
-      varietyP: analysed[i]!.result.anova.find((l) => l.source === 'variety')?.p ?? null,
+      varietyP: varietyTestP(analysed[i]!.result),
     })),
     entries: ranking.entries.map((e) => ({ ...e, entryCode: codeOf.get(e.entry) ?? '' })),
     method: RANKING_METHOD,

@@ -52,6 +52,19 @@ type Body = {
 const line = (b: Body, source: string) => b.anova.find((l) => l.source === source)!;
 const byCode = (b: Body) => Object.fromEntries(b.means.map((m) => [b.entryCodes[m.variety]!, m]));
 
+/** A demo okra plot by its number and site. */
+async function okraPlot(plotNumber: number, siteName: string) {
+  return t.db
+    .selectFrom('plots as p')
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .innerJoin('trials as tr', 'tr.id', 'p.trial_id')
+    .select(['p.id', 'p.trial_id'])
+    .where('tr.slug', '=', OKRA)
+    .where('s.name', '=', siteName)
+    .where('p.plot_number', '=', plotNumber)
+    .executeTakeFirstOrThrow();
+}
+
 /** The plot values the API used, as the command's CSV (values written exactly as numbers). */
 function toCsv(b: Body): string {
   const q = (s: string) => (/[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
@@ -187,18 +200,6 @@ describe('the API and the analyze command give the same numbers', () => {
 });
 
 describe('records the analysis reads', () => {
-  async function okraPlot(plotNumber: number, siteName: string) {
-    return t.db
-      .selectFrom('plots as p')
-      .innerJoin('sites as s', 's.id', 'p.site_id')
-      .innerJoin('trials as tr', 'tr.id', 'p.trial_id')
-      .select(['p.id', 'p.trial_id'])
-      .where('tr.slug', '=', OKRA)
-      .where('s.name', '=', siteName)
-      .where('p.plot_number', '=', plotNumber)
-      .executeTakeFirstOrThrow();
-  }
-
   it('a soft-deleted harvest is left out of the plot value', async () => {
     const before = (await analysis('marketable_yield')).body as Body;
     const pv = before.plotValues[0]!;
@@ -362,8 +363,11 @@ describe('ranking across traits', () => {
       expect(e.index).toBeCloseTo(index, 12);
       expect(e.rankSum).toBe(e.contributions.reduce((s, c) => s + c.rank, 0));
     }
-    // The ranking's entry means are the per-trait analysis means.
-    const yieldMeans = ((await analysis('marketable_yield')).body as Body).means;
+    // The ranking's entry means are the per-trait analysis' adjusted means.
+    const yieldMeans = ((await analysis('marketable_yield')).body as Body).adjustedMeans as {
+      variety: string;
+      mean: number;
+    }[];
     const tc = (r.body.entries as { entryCode: string; contributions: { mean: number }[] }[]).find(
       (e) => e.entryCode === 'TC',
     )!;
@@ -371,6 +375,46 @@ describe('ranking across traits', () => {
       yieldMeans.find((m) => m.variety === 'Tallow Creek Green')!.mean,
     );
   });
+
+  it.each(['anova', 'mixed'])(
+    'with a missing plot, ranks by the %s adjusted means the analysis ranks by, not the arithmetic ones',
+    async (model) => {
+      // Tallow Creek Green loses its plot in block 1 of the first site: its arithmetic mean
+      // then leaves out a block, its least-squares mean does not.
+      const before = (await analysis('marketable_yield', `&model=${model}`)).body as Body;
+      const lost = before.plotValues.find((p) => p.entry === 'Tallow Creek Green')!;
+      const plot = await okraPlot(lost.plotNumber, lost.site);
+      await t.db
+        .updateTable('harvests')
+        .set({ deleted_at: new Date() })
+        .where('plot_id', '=', plot.id)
+        .execute();
+      try {
+        const b = (await analysis('marketable_yield', `&model=${model}`)).body as Body;
+        const adjusted = b.adjustedMeans as { variety: string; mean: number }[];
+        const arithmetic = b.means.find((m) => m.variety === 'Tallow Creek Green')!.mean;
+        const ls = adjusted.find((m) => m.variety === 'Tallow Creek Green')!.mean;
+        expect(Math.abs(ls - arithmetic)).toBeGreaterThan(1);
+        const r = await get(
+          `/api/trials/${OKRA}/ranking?traits=marketable_yield&weights=1&model=${model}`,
+        );
+        expect(r.status).toBe(200);
+        for (const e of r.body.entries as {
+          entry: string;
+          contributions: { mean: number; rank: number }[];
+        }[]) {
+          expect(e.contributions[0]!.mean).toBe(adjusted.find((m) => m.variety === e.entry)!.mean);
+          expect(e.contributions[0]!.rank).toBe(b.means.find((m) => m.variety === e.entry)!.rank);
+        }
+      } finally {
+        await t.db
+          .updateTable('harvests')
+          .set({ deleted_at: null })
+          .where('plot_id', '=', plot.id)
+          .execute();
+      }
+    },
+  );
 
   it('one weight per trait, or a 400 naming query.weights', async () => {
     const r = await get(`/api/trials/${OKRA}/ranking?traits=marketable_yield,spines&weights=1`);
@@ -381,6 +425,25 @@ describe('ranking across traits', () => {
     });
     const zero = await get(`/api/trials/${OKRA}/ranking?traits=marketable_yield&weights=0`);
     expect(zero.status).toBe(400);
+    const model = await get(`/api/trials/${OKRA}/ranking?traits=marketable_yield&model=blup`);
+    expect(model.status).toBe(400);
+    expect(model.body.error.details.fields[0].path).toBe('query.model');
+    // A completely randomized trial has no gardens or blocks to treat as random.
+    await t.db.updateTable('trials').set({ design: 'crd' }).where('slug', '=', OKRA).execute();
+    try {
+      const crd = await get(`/api/trials/${OKRA}/ranking?traits=marketable_yield&model=mixed`);
+      expect(crd.status).toBe(400);
+      expect(crd.body.error.details.fields[0]).toEqual({
+        path: 'query.model',
+        message: 'A completely randomized trial is analysed with the classical analysis only.',
+      });
+    } finally {
+      await t.db
+        .updateTable('trials')
+        .set({ design: 'multisite' })
+        .where('slug', '=', OKRA)
+        .execute();
+    }
   });
 });
 

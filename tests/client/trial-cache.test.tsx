@@ -70,7 +70,7 @@ const featureKeys = (s: string): QueryKey[] => [
   completenessQueryOptions(s, { from: '2026-06-01', to: '2026-09-30' }).queryKey,
   auditQueryOptions(s, {}).queryKey,
   trialAnalysisQueryOptions(s, analysisQuery).queryKey,
-  rankingQueryOptions(s, { traits: ['yield'], weights: [1], alpha: 0.05 }).queryKey,
+  rankingQueryOptions(s, { traits: ['yield'], weights: [1], alpha: 0.05, model: 'anova' }).queryKey,
   traitAnalysisQueryOptions(s, 'yield').queryKey,
   seasonQueryOptions(s).queryKey,
   photosQueryOptions(s, {}).queryKey,

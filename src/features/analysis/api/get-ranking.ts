@@ -1,4 +1,4 @@
-import { rankingSchema } from '@common/contracts/analysis';
+import { rankingSchema, type AnalysisModel } from '@common/contracts/analysis';
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 import { trialKeys } from '@/lib/trial-keys';
@@ -7,11 +7,12 @@ export interface RankingParams {
   traits: string[];
   weights: number[];
   alpha: number;
+  model: AnalysisModel;
 }
 
 export const getRanking = (slug: string, q: RankingParams) =>
   api(`/api/trials/${encodeURIComponent(slug)}/ranking`, rankingSchema, {
-    query: { traits: q.traits.join(','), weights: q.weights.join(','), alpha: q.alpha },
+    query: { traits: q.traits.join(','), weights: q.weights.join(','), alpha: q.alpha, model: q.model },
   });
 
 export const rankingQueryOptions = (slug: string, q: RankingParams) =>

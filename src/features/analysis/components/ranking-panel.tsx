@@ -1,3 +1,4 @@
+import type { AnalysisModel } from '@common/contracts/analysis';
 import type { TrialWithPermissions } from '@/lib/trial';
 import { useEffect, useId, useState } from 'react';
 import { ErrorPanel } from '@/components/ui/error-panel';
@@ -10,7 +11,16 @@ import { ScrollRegion } from '@/components/ui/scroll-region';
 const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };
 
 /** Weighted index across traits, with weights the reader sets (kept only on this screen). */
-export function RankingPanel({ trial, alpha }: { trial: TrialWithPermissions; alpha: number }) {
+export function RankingPanel({
+  trial,
+  alpha,
+  model,
+}: {
+  trial: TrialWithPermissions;
+  alpha: number;
+  /** The page's model, so the ranking uses the means the tables above show. */
+  model: AnalysisModel;
+}) {
   const id = useId();
   const ranked = trial.traits.filter((t) => t.direction !== 'none');
   const [weights, setWeights] = useState<Record<string, string>>(() =>
@@ -30,6 +40,7 @@ export function RankingPanel({ trial, alpha }: { trial: TrialWithPermissions; al
     traits: chosen.map((t) => t.key),
     weights: chosen.map((t) => Number(settled[t.key])),
     alpha,
+    model,
   };
   const { data, error, isFetching } = useRanking(trial.slug, query);
   if (ranked.length === 0) return null;

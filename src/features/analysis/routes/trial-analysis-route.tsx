@@ -290,7 +290,7 @@ export function Component() {
         </section>
       ) : null}
 
-      <RankingPanel trial={t} alpha={alpha} />
+      <RankingPanel trial={t} alpha={alpha} model={model} />
       <SeasonPanel
         slug={slug}
         system={system}
