@@ -70,7 +70,7 @@ export interface DemoEntry {
   code: string;
   name: string;
   seedSource: string;
-  entryType: 'heirloom' | 'open_pollinated';
+  entryType: 'heirloom' | 'open_pollinated' | 'hybrid';
   claimedDays: number;
   notes: string;
   yieldEffect: number;
@@ -97,7 +97,9 @@ export interface DemoTrial {
   crop: string;
   season: string;
   design: 'crd' | 'rcbd' | 'multisite';
-  status: 'active';
+  status: 'active' | 'closed';
+  /** Fruits or pods a plant gives per picking round (okra 1.1 and beans 4.5 when not set). */
+  podsPerPlantPerRound?: number;
   description: string;
   sowingDate: string;
   transplantDate: string | null;
@@ -116,7 +118,7 @@ export interface DemoTrial {
   }[];
 }
 
-const okraSites: DemoSite[] = [
+export const okraSites: DemoSite[] = [
   {
     key: 'quarry',
     name: 'Quarry Lane Allotment',
@@ -146,7 +148,7 @@ const okraSites: DemoSite[] = [
   },
 ];
 
-const okraEntries: DemoEntry[] = [
+export const okraEntries: DemoEntry[] = [
   {
     code: 'VL',
     name: 'Velvet Lantern',
@@ -239,7 +241,7 @@ const okraEntries: DemoEntry[] = [
   },
 ];
 
-const okraTraits: DemoTrait[] = [
+export const okraTraits: DemoTrait[] = [
   {
     key: 'marketable_yield',
     label: 'Marketable yield',
@@ -585,7 +587,7 @@ export function generateSeason(trial: DemoTrial, seed = DEMO_SEED): GeneratedSea
     const firstDay =
       entry.firstHarvestDay + Math.round(random.normal(0, 1.5)) + (site.effect < 0.9 ? 3 : 0);
     const firstDate = addDays(trial.sowingDate, firstDay);
-    const podsPerPlantPerRound = trial.crop === 'Okra' ? 1.1 : 4.5;
+    const podsPerPlantPerRound = trial.podsPerPlantPerRound ?? (trial.crop === 'Okra' ? 1.1 : 4.5);
     for (
       let date = firstDate, round_ = 0;
       date <= trial.seasonEnd;

@@ -5,11 +5,12 @@ import sharp from 'sharp';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { randomizeLayout } from '../../common/layout';
-import { DEMO_SEED } from '../../db/seed/demo-season';
+import { EARLIER_SEASON_SEED, earlierDemoTrials } from '../../db/seed/demo-earlier-seasons';
+import { DEMO_SEED, demoAccounts, demoTrials } from '../../db/seed/demo-season';
 import { DEMO_PUBLISHED_SLUG, DEMO_VERSION_NOTE } from '../../db/seed/demo-sheet';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
 import { localStorage } from '../../server/storage/local-storage';
-import { createTestApp, type TestApp } from '../support/test-app';
+import { createTestApp, mintSessionCookie, type TestApp } from '../support/test-app';
 
 let t: TestApp;
 const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-demo-photos-'));
@@ -48,9 +49,14 @@ describe('the demo season', () => {
       .selectFrom('trials')
       .select(['id', 'slug', 'design', 'replicates', 'layout_seed', 'layout_generated_at'])
       .execute();
-    expect(trials).toHaveLength(2);
+    const earlier = earlierDemoTrials.map((d) => d.slug);
+    expect(trials.map((x) => x.slug).sort()).toEqual(
+      [...demoTrials.map((d) => d.slug), ...earlier].sort(),
+    );
     for (const trial of trials) {
-      expect(trial.layout_seed).toBe(DEMO_SEED);
+      expect(trial.layout_seed).toBe(
+        earlier.includes(trial.slug) ? EARLIER_SEASON_SEED : DEMO_SEED,
+      );
       expect(trial.layout_generated_at).toBeInstanceOf(Date);
       // The design service's order: entries by code, sites by name.
       const entries = await t.db
@@ -136,5 +142,38 @@ describe('the demo season', () => {
     expect(new Set(counts.map((m) => m.group))).toEqual(new Set(['a']));
     expect(sheet.summary).toContain('Marrowfield Flat gave the heaviest marketable harvest');
     expect(sheet.summary).toContain('Inkdrop Black stayed the shortest');
+  });
+
+  it('has earlier seasons in the same register: okra in two seasons, a tomato trial, one variety since dropped', async () => {
+    const lead = demoAccounts.find((a) => a.key === 'lead')!;
+    const cookie = await mintSessionCookie(t, lead);
+    const res = await request(t.app).get('/api/varieties').set('Cookie', cookie);
+    expect(res.status).toBe(200);
+    const bySlug = new Map(
+      (
+        res.body.varieties as {
+          slug: string;
+          crop: string;
+          trialCount: number;
+          seasonCount: number;
+        }[]
+      ).map((v) => [v.slug, v]),
+    );
+    // Counted from the demo's own lists: five okra varieties were grown in both seasons.
+    const okra2025 = earlierDemoTrials[0]!.entries.map((e) => e.name);
+    const okra2026 = demoTrials[0]!.entries.map((e) => e.name);
+    const both = okra2026.filter((n) => okra2025.includes(n));
+    expect(both).toHaveLength(5);
+    expect(bySlug.get('velvet-lantern')).toMatchObject({ trialCount: 2, seasonCount: 2 });
+    expect(bySlug.get('tallow-creek-green')).toMatchObject({ trialCount: 1, seasonCount: 1 });
+    expect(bySlug.get('hollin-pink-velvet')).toMatchObject({ crop: 'Okra', trialCount: 1 });
+    expect(bySlug.get('pennant-plum')).toMatchObject({ crop: 'Tomato', seasonCount: 1 });
+    const entries = await t.db
+      .selectFrom('entries')
+      .select((eb) => eb.fn.countAll<string>().as('n'))
+      .where('variety_id', 'is', null)
+      .executeTakeFirstOrThrow();
+    expect(Number(entries.n)).toBe(0);
+    expect(res.body.varieties).toHaveLength(new Set([...okra2025, ...okra2026]).size + 5 + 5);
   });
 });
