@@ -20,14 +20,17 @@ export type GroupRole = (typeof groupRoles)[number];
 
 const address = /^[a-z0-9]+(-[a-z0-9]+)*$/;
 
-/** `compare` is the cross-season table's address, so no variety is ever given it. */
+/** The cross-season table's and the stability figures' addresses are never a variety's. */
+const reservedAddresses = new Set(['compare', 'stability']);
 export const varietySlugParams = z.object({
   slug: z
     .string()
     .max(80)
     .regex(address, 'Not a variety address.')
-    .refine((s) => s !== 'compare', 'Not a variety address.'),
+    .refine((s) => !reservedAddresses.has(s), 'Not a variety address.'),
 });
+
+const traitKey = z.string().regex(/^[a-z][a-z0-9_]{0,39}$/, 'Not a trait key.');
 
 /* GET /api/groups: the caller's groups and their role in each. */
 export const groupListSchema = z.object({
@@ -195,35 +198,37 @@ export const compareQuery = z.object({
         .min(2, 'Choose at least two varieties.')
         .max(12, 'Choose at most 12 varieties.'),
     ),
-  trait: z
-    .string()
-    .regex(/^[a-z][a-z0-9_]{0,39}$/, 'Not a trait key.')
-    .optional(),
+  trait: traitKey.optional(),
 });
 export type CompareQuery = z.input<typeof compareQuery>;
+
+const traitChoices = z.array(z.object({ key: z.string(), label: z.string() }));
+const chosenTrait = z
+  .object({
+    key: z.string(),
+    label: z.string(),
+    /** SI unit of the means; the client converts for the reader. */
+    unit: z.string(),
+    direction: z.enum(traitDirections),
+    decimals: z.number().int(),
+  })
+  .nullable();
+/** An environment: one site of one trial. */
+const environmentSchema = z.object({
+  trialSlug: z.string(),
+  trialTitle: z.string(),
+  season: z.string(),
+  site: z.string(),
+});
+export type Environment = z.infer<typeof environmentSchema>;
 
 export const comparisonSchema = z.object({
   varieties: z.array(z.object({ slug: z.string(), name: z.string() })),
   /** Traits measured in at least one trial of the chosen varieties. */
-  traits: z.array(z.object({ key: z.string(), label: z.string() })),
-  trait: z
-    .object({
-      key: z.string(),
-      label: z.string(),
-      unit: z.string(),
-      direction: z.enum(traitDirections),
-      decimals: z.number().int(),
-    })
-    .nullable(),
+  traits: traitChoices,
+  trait: chosenTrait,
   /** One column per trial and site (an environment), oldest season first. */
-  columns: z.array(
-    z.object({
-      trialSlug: z.string(),
-      trialTitle: z.string(),
-      season: z.string(),
-      site: z.string(),
-    }),
-  ),
+  columns: z.array(environmentSchema),
   /** Per variety, its mean in each column (null: not grown or not measured there). */
   rows: z.array(z.object({ slug: z.string(), means: z.array(z.number().nullable()) })),
   /** Every pair of chosen varieties: the trials they shared (grown in the same trial). */
@@ -239,3 +244,63 @@ export const comparisonSchema = z.object({
   ),
 });
 export type Comparison = z.infer<typeof comparisonSchema>;
+
+/* GET /api/varieties/stability?group=…&crop=…&trait=… */
+export const stabilityQuery = z.object({
+  group: z.uuid('Choose the group whose register to read.'),
+  crop: z.string().trim().min(1, 'Choose a crop.').max(80, 'Not a crop of the register.'),
+  trait: traitKey.optional(),
+});
+export type StabilityQuery = z.input<typeof stabilityQuery>;
+
+export const stabilitySchema = z.object({
+  crop: z.string(),
+  /** Crops of the group's register, to choose from. */
+  crops: z.array(z.string()),
+  /** Traits measured in at least one trial of the crop's varieties. */
+  traits: traitChoices,
+  trait: chosenTrait,
+  /**
+   * Every environment a variety of the crop was measured in (oldest season first); `used`:
+   * in the balanced subset the figures were computed on, else `reason` says why not.
+   */
+  environments: z.array(
+    environmentSchema.extend({
+      used: z.boolean(),
+      reason: z.string().nullable(),
+      /** Mean of the subset's varieties here, and that minus the grand mean (the index). */
+      mean: z.number().nullable(),
+      index: z.number().nullable(),
+    }),
+  ),
+  varieties: z.array(
+    z.object({
+      slug: z.string(),
+      name: z.string(),
+      environmentCount: z.number().int(),
+      used: z.boolean(),
+      reason: z.string().nullable(),
+      figures: z
+        .object({
+          mean: z.number(),
+          /** Regression on the environment index (Finlay and Wilkinson 1963). */
+          slope: z.number(),
+          slopeSe: z.number(),
+          rSquared: z.number(),
+          /** Two-sided p of slope = 1. */
+          slopeVersusOneP: z.number(),
+          /** Deviation mean square from the regression (Eberhart and Russell 1966), unit². */
+          deviationMs: z.number(),
+          deviationDf: z.number().int(),
+          /** Wricke's ecovalence (1962), unit², and its share of the interaction (0–1). */
+          ecovalence: z.number(),
+          ecovalenceShare: z.number(),
+        })
+        .nullable(),
+    }),
+  ),
+  grandMean: z.number().nullable(),
+  /** Why there are no figures (too few environments or varieties); null when there are. */
+  notice: z.string().nullable(),
+});
+export type Stability = z.infer<typeof stabilitySchema>;

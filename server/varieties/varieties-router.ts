@@ -2,6 +2,7 @@ import { Router } from 'express';
 import {
   compareQuery,
   createVarietyBody,
+  stabilityQuery,
   updateVarietyBody,
   varietySlugParams,
 } from '../../common/contracts/varieties';
@@ -38,11 +39,17 @@ export function varietiesRouter(deps: Pick<AppDeps, 'db'>) {
       res.status(201).json(await service.createVariety(db, actorOf(res), body));
     }),
   );
-  // Before '/:slug': `compare` is never a variety's address.
+  // Before '/:slug': `compare` and `stability` are never a variety's address.
   router.get(
     '/compare',
     endpoint({ query: compareQuery }, async ({ query }, _req, res) => {
       res.json(await service.compareVarieties(db, actorOf(res), query));
+    }),
+  );
+  router.get(
+    '/stability',
+    endpoint({ query: stabilityQuery }, async ({ query }, _req, res) => {
+      res.json(await service.varietyStability(db, actorOf(res), query));
     }),
   );
   router.get(

@@ -3,7 +3,10 @@ import type {
   Comparison,
   compareQuery,
   createVarietyBody,
+  Environment,
   GroupList,
+  Stability,
+  stabilityQuery,
   updateVarietyBody,
   VarietyList,
   VarietyRecord,
@@ -12,6 +15,13 @@ import type {
 import { type Actor, canGroup } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
+import {
+  balancedSubset,
+  type EnvironmentMean,
+  StabilityInputError,
+  type StabilityResult,
+  stabilityAnalysis,
+} from '../analysis/engine/stability';
 import { AppError } from '../lib/app-error';
 import { newAddress } from '../lib/address';
 import { groupForAction, groupRoleOf } from '../trials/trials-service';
@@ -246,16 +256,7 @@ export async function compareVarieties(
     db,
     chosen.map((v) => v.id),
   );
-  // Every trait of every trial whose figures the caller may see, to choose from.
-  const listed = figuresOnce(db, actor, 'none');
-  const traitLabels = new Map<string, string>();
-  const visibleTrials = new Set<string>();
-  for (const { trial } of entries) {
-    const f = await listed(trial);
-    if (!f) continue;
-    visibleTrials.add(trial.id);
-    for (const t of f.traits) if (!traitLabels.has(t.key)) traitLabels.set(t.key, t.label);
-  }
+  const { traitLabels, visibleTrials } = await visibleTraits(db, actor, entries);
   // A variety is compared only when the caller may see it (group member or a visible trial).
   const myGroups = actor ? await repo.groupsOf(db, actor.userId) : [];
   for (const v of chosen) {
@@ -267,55 +268,14 @@ export async function compareVarieties(
       throw AppError.notFound(`The variety "${v.slug}"`);
   }
   const traits = [...traitLabels].map(([key, label]) => ({ key, label }));
-  const traitKey = q.trait ?? traits[0]?.key;
-  if (q.trait !== undefined && !traitLabels.has(q.trait))
-    throw new AppError(
-      'validation_failed',
-      'None of these varieties’ trials measured this trait.',
-      {
-        fields: [
-          { path: 'query.trait', message: 'Choose a trait these varieties were measured on.' },
-        ],
-      },
-    );
-
-  const columns: Comparison['columns'] = [];
-  const cells = new Map<string, Map<number, number>>(chosen.map((v) => [v.id, new Map()]));
-  let trait: Comparison['trait'] = null;
-  if (traitKey !== undefined) {
-    const figuresOf = figuresOnce(db, actor, { trait: traitKey });
-    const columnIndex = new Map<string, number>();
-    for (const { entry, trial: row } of entries) {
-      if (!visibleTrials.has(row.id)) continue;
-      const f = await figuresOf(row);
-      const fig = f?.figures[0];
-      if (!f || !fig) continue;
-      trait ??= {
-        key: fig.key,
-        label: fig.label,
-        unit: fig.unit,
-        direction: fig.direction,
-        decimals: fig.decimals,
-      };
-      const name = f.entryNames.get(entry.id);
-      if (name === undefined) continue;
-      for (const s of siteMeans(fig, name)) {
-        const key = `${row.id}\u0000${s.site}`;
-        let i = columnIndex.get(key);
-        if (i === undefined) {
-          i = columns.length;
-          columnIndex.set(key, i);
-          columns.push({
-            trialSlug: row.slug,
-            trialTitle: f.snapshot?.trial.title ?? row.title,
-            season: f.snapshot?.trial.season ?? row.season,
-            site: s.site,
-          });
-        }
-        cells.get(entry.varietyId)!.set(i, s.mean);
-      }
-    }
-  }
+  const traitKey = chosenTraitKey(traitLabels, q.trait);
+  const { trait, columns, cells } = await environmentMeans(
+    db,
+    actor,
+    entries,
+    visibleTrials,
+    traitKey,
+  );
   const trialsOf = (varietyId: string) =>
     new Set(
       entries
@@ -330,8 +290,8 @@ export async function compareVarieties(
       const inB = trialsOf(b.id);
       const shared = [...trialsOf(a.id)].filter((t) => inB.has(t)).length;
       const diffs: number[] = [];
-      for (const [col, mean] of cells.get(a.id)!) {
-        const other = cells.get(b.id)!.get(col);
+      for (const [col, mean] of cells.get(a.id) ?? []) {
+        const other = cells.get(b.id)?.get(col);
         if (other !== undefined) diffs.push(mean - other);
       }
       pairs.push({
@@ -349,9 +309,194 @@ export async function compareVarieties(
     columns,
     rows: chosen.map((v) => ({
       slug: v.slug,
-      means: columns.map((_, i) => cells.get(v.id)!.get(i) ?? null),
+      means: columns.map((_, i) => cells.get(v.id)?.get(i) ?? null),
     })),
     pairs,
+  };
+}
+
+type VarietyEntries = Awaited<ReturnType<typeof repo.entriesOfVarieties>>;
+
+/** Every trait of every trial (of these entries) whose figures the caller may see. */
+async function visibleTraits(db: DB, actor: Actor | null, entries: VarietyEntries) {
+  const listed = figuresOnce(db, actor, 'none');
+  const traitLabels = new Map<string, string>();
+  const visibleTrials = new Set<string>();
+  for (const { trial } of entries) {
+    const f = await listed(trial);
+    if (!f) continue;
+    visibleTrials.add(trial.id);
+    for (const t of f.traits) if (!traitLabels.has(t.key)) traitLabels.set(t.key, t.label);
+  }
+  return { traitLabels, visibleTrials };
+}
+
+/** The trait asked for (refused when no visible trial measured it), else the first listed. */
+function chosenTraitKey(traitLabels: Map<string, string>, asked: string | undefined) {
+  if (asked !== undefined && !traitLabels.has(asked))
+    throw new AppError(
+      'validation_failed',
+      'None of these varieties’ trials measured this trait.',
+      {
+        fields: [
+          { path: 'query.trait', message: 'Choose a trait these varieties were measured on.' },
+        ],
+      },
+    );
+  return asked ?? traitLabels.keys().next().value;
+}
+
+/**
+ * Each entry's mean of one trait at each site of each visible trial: one column per trial and
+ * site (an environment), oldest season first; `cells` by variety id, then column.
+ */
+async function environmentMeans(
+  db: DB,
+  actor: Actor | null,
+  entries: VarietyEntries,
+  visibleTrials: Set<string>,
+  traitKey: string | undefined,
+) {
+  const columns: Environment[] = [];
+  const cells = new Map<string, Map<number, number>>();
+  let trait: Comparison['trait'] = null;
+  if (traitKey === undefined) return { trait, columns, cells };
+  const figuresOf = figuresOnce(db, actor, { trait: traitKey });
+  const columnIndex = new Map<string, number>();
+  for (const { entry, trial: row } of entries) {
+    if (!visibleTrials.has(row.id)) continue;
+    const f = await figuresOf(row);
+    const fig = f?.figures[0];
+    if (!f || !fig) continue;
+    trait ??= {
+      key: fig.key,
+      label: fig.label,
+      unit: fig.unit,
+      direction: fig.direction,
+      decimals: fig.decimals,
+    };
+    const name = f.entryNames.get(entry.id);
+    if (name === undefined) continue;
+    for (const s of siteMeans(fig, name)) {
+      const key = `${row.id}\u0000${s.site}`;
+      let i = columnIndex.get(key);
+      if (i === undefined) {
+        i = columns.length;
+        columnIndex.set(key, i);
+        columns.push({
+          trialSlug: row.slug,
+          trialTitle: f.snapshot?.trial.title ?? row.title,
+          season: f.snapshot?.trial.season ?? row.season,
+          site: s.site,
+        });
+      }
+      let mine = cells.get(entry.varietyId);
+      if (!mine) cells.set(entry.varietyId, (mine = new Map()));
+      mine.set(i, s.mean);
+    }
+  }
+  return { trait, columns, cells };
+}
+
+/**
+ * Stability of a crop's register varieties across environments (each trial × site), on one
+ * trait: the environment index, each variety's regression on it, deviation mean square and
+ * ecovalence, computed on the largest balanced subset; what was left out says why.
+ */
+export async function varietyStability(
+  db: DB,
+  actor: Actor | null,
+  q: Out<typeof stabilityQuery>,
+): Promise<Stability> {
+  const { group } = await groupForAction(db, q.group, actor, 'register.read');
+  const register = await repo.listVarieties(db, [group.id]);
+  const crops = [...new Set(register.map((v) => v.crop))].sort();
+  const ofCrop = register.filter((v) => v.crop.toLowerCase() === q.crop.toLowerCase());
+  if (ofCrop.length === 0)
+    throw new AppError('validation_failed', 'The register has no variety of this crop.', {
+      fields: [{ path: 'query.crop', message: 'Choose a crop of the register.' }],
+    });
+  const entries = await repo.entriesOfVarieties(
+    db,
+    ofCrop.map((v) => v.id),
+  );
+  const { traitLabels, visibleTrials } = await visibleTraits(db, actor, entries);
+  const traitKey = chosenTraitKey(traitLabels, q.trait);
+  const { trait, columns, cells } = await environmentMeans(
+    db,
+    actor,
+    entries,
+    visibleTrials,
+    traitKey,
+  );
+  const input: EnvironmentMean[] = ofCrop.flatMap((v) =>
+    [...(cells.get(v.id) ?? [])].map(([col, mean]) => ({
+      variety: v.slug,
+      environment: String(col),
+      mean,
+    })),
+  );
+  let result: StabilityResult | null = null;
+  let notice: string | null = null;
+  try {
+    result = stabilityAnalysis(input);
+  } catch (err) {
+    if (!(err instanceof StabilityInputError)) throw err;
+    notice = `${err.message}.`;
+  }
+  const subset = result
+    ? {
+        excludedVarieties: result.excludedVarieties,
+        excludedEnvironments: result.excludedEnvironments,
+      }
+    : balancedSubset(input);
+  const usedEnvironments = new Map(result?.environments.map((e) => [e.environment, e]));
+  const usedVarieties = new Map(result?.varieties.map((v) => [v.variety, v]));
+  const reasonOf = (list: { name: string; reason: string }[], name: string) =>
+    list.find((x) => x.name === name)?.reason ?? null;
+  return {
+    crop: ofCrop[0]!.crop,
+    crops,
+    traits: [...traitLabels].map(([key, label]) => ({ key, label })),
+    trait,
+    environments: columns.map((c, i) => {
+      const used = usedEnvironments.get(String(i));
+      return {
+        ...c,
+        used: Boolean(used),
+        reason: used ? null : reasonOf(subset.excludedEnvironments, String(i)),
+        mean: used?.mean ?? null,
+        index: used?.index ?? null,
+      };
+    }),
+    varieties: ofCrop.map((v) => {
+      const f = usedVarieties.get(v.slug);
+      return {
+        slug: v.slug,
+        name: v.name,
+        environmentCount: cells.get(v.id)?.size ?? 0,
+        used: Boolean(f),
+        reason: f
+          ? null
+          : (reasonOf(subset.excludedVarieties, v.slug) ??
+            (cells.has(v.id) ? null : 'not measured on this trait in any trial you may see')),
+        figures: f
+          ? {
+              mean: f.mean,
+              slope: f.slope,
+              slopeSe: f.slopeSe,
+              rSquared: f.rSquared,
+              slopeVersusOneP: f.slopeVersusOneP,
+              deviationMs: f.deviationMs,
+              deviationDf: f.deviationDf,
+              ecovalence: f.ecovalence,
+              ecovalenceShare: f.ecovalenceShare,
+            }
+          : null,
+      };
+    }),
+    grandMean: result?.grandMean ?? null,
+    notice,
   };
 }
 

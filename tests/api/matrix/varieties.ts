@@ -67,6 +67,14 @@ export const rows: MatrixRow[] = [
     expectExtra: hiddenFromOutsider,
   },
   {
+    // Group members and coordinators; the figures of each trial as the trial's roles allow.
+    method: 'GET',
+    route: '/api/varieties/stability',
+    request: (w) => ({ url: `/api/varieties/stability?group=${w.groupId}&crop=Okra` }),
+    expect: groupRead,
+    expectExtra: hiddenFromOutsider,
+  },
+  {
     method: 'GET',
     route: '/api/varieties/:slug',
     request: (w) => ({ url: `/api/varieties/${w.varieties[0]}` }),
