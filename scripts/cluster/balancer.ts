@@ -90,8 +90,13 @@ ${servers}
 
 export interface Balancer {
   url: string;
-  /** Writes a new upstream list and waits until nginx has taken it. */
+  /**
+   * Writes a new upstream list and waits until nginx uses only it (nothing when the list is the
+   * one in use).
+   */
   setUpstreams(upstreams: Upstream[]): Promise<void>;
+  /** The instances nginx sends requests to under the list in use. */
+  inService(): Upstream[];
   stop(): Promise<void>;
 }
 
@@ -107,6 +112,11 @@ function portAnswers(port: number): Promise<boolean> {
 }
 
 const count = (text: string, word: string) => text.split(word).length - 1;
+
+/** What an old worker writes to the error log (level notice) when a reload tells it to stop. */
+const OLD_WORKER_LEAVES = 'gracefully shutting down';
+/** Generous: on a loaded machine starting a worker can take seconds. */
+const RELOAD_TIMEOUT_MS = 30_000;
 
 export async function startBalancer(config: BalancerConfig): Promise<Balancer> {
   const dir = path.resolve(config.dir);
@@ -142,24 +152,37 @@ export async function startBalancer(config: BalancerConfig): Promise<Balancer> {
     await new Promise((r) => setTimeout(r, 100));
   }
 
+  const logged = (line: string) => count(fs.readFileSync(errorLog, 'utf8'), line);
   let queue = Promise.resolve();
   return {
     url: `http://127.0.0.1:${config.port}`,
+    inService: () =>
+      current.upstreams.every((u) => u.down)
+        ? current.upstreams
+        : current.upstreams.filter((u) => !u.down),
     setUpstreams(upstreams) {
-      // One reload at a time, each waiting for nginx to say it took the new configuration.
-      queue = queue.then(async () => {
-        current = { ...current, upstreams };
-        fs.writeFileSync(confFile, nginxConfig(current));
-        const before = count(fs.readFileSync(errorLog, 'utf8'), 'reconfiguring');
-        child.kill('SIGHUP');
-        const until = Date.now() + 10_000;
-        while (count(fs.readFileSync(errorLog, 'utf8'), 'reconfiguring') <= before) {
-          if (Date.now() > until || child.exitCode !== null)
-            throw new Error('nginx did not take the new upstream list.');
-          await new Promise((r) => setTimeout(r, 50));
-        }
-      });
-      return queue;
+      // One reload at a time. nginx's master starts a worker with the new list, then tells the
+      // old one to stop taking connections (it finishes what it is answering); only once the old
+      // one says so is the new list the only one in use — an instance taken out can then be stopped.
+      const reload = queue
+        .catch(() => {})
+        .then(async () => {
+          if (JSON.stringify(upstreams) === JSON.stringify(current.upstreams)) return;
+          current = { ...current, upstreams };
+          fs.writeFileSync(confFile, nginxConfig(current));
+          const before = logged(OLD_WORKER_LEAVES);
+          child.kill('SIGHUP');
+          const until = Date.now() + RELOAD_TIMEOUT_MS;
+          while (logged(OLD_WORKER_LEAVES) <= before) {
+            if (Date.now() > until || child.exitCode !== null)
+              throw new Error(
+                `nginx did not take the new upstream list:\n${fs.readFileSync(errorLog, 'utf8').split('\n').slice(-6).join('\n')}`,
+              );
+            await new Promise((r) => setTimeout(r, 50));
+          }
+        });
+      queue = reload;
+      return reload;
     },
     async stop() {
       if (child.exitCode === null) {

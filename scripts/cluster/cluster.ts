@@ -64,11 +64,17 @@ export interface Cluster {
    * (it finishes what it is answering), started again and put back once ready.
    */
   rollingRestart(): Promise<void>;
+  /** The instances nginx's upstream list in use sends requests to. */
+  inBalancer(): AppInstance[];
   stop(): Promise<void>;
 }
 
 const BUCKET = 'rowtally-photos';
 const READY_TIMEOUT_MS = 120_000;
+/** Failed readiness checks in a row before an instance is taken out of the balancer. */
+const UNREADY_POLLS = 2;
+/** One readiness answer; /api/ready gives each of its own checks 2 s. */
+const READY_CHECK_TIMEOUT_MS = 5000;
 
 export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
   const log = opts.log ?? (() => {});
@@ -160,9 +166,14 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     await Promise.all(instances.map(launch));
     log(`${instances.length} app instances ready on ports ${opts.instancePorts.join(', ')}`);
 
-    // Instances held out of the balancer (being restarted), and what the last poll saw.
+    // Instances held out of the balancer (being restarted), and whether each is ready. A poll
+    // only changes `ready` for an instance nothing else touched while the poll was out (a stop or
+    // start in between makes its answer stale), and takes an instance out only after
+    // UNREADY_POLLS answers in a row, so one slow answer on a busy machine is not an outage.
     const held = new Set<number>();
     const ready = instances.map(() => true);
+    const generation = instances.map(() => 0);
+    const missed = instances.map(() => 0);
     const upstreams = (): Upstream[] =>
       instances.map((instance, i) => ({ port: instance.port, down: held.has(i) || !ready[i] }));
     const balancer: Balancer = await startBalancer({
@@ -172,6 +183,12 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     });
     stack.push(() => balancer.stop());
     log(`nginx balancing ${url} over ${instances.length} instances`);
+    const setReady = async (index: number, value: boolean) => {
+      generation[index]!++;
+      missed[index] = 0;
+      ready[index] = value;
+      await balancer.setUpstreams(upstreams());
+    };
 
     let polling = false;
     let closed = false;
@@ -179,14 +196,20 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
       if (polling || closed) return;
       polling = true;
       try {
+        const asked = [...generation];
         const now = await Promise.all(instances.map((instance) => isReady(instance.url)));
-        if (!closed && now.some((r, i) => r !== ready[i])) {
-          now.forEach((r, i) => {
-            if (r !== ready[i]) log(`${instances[i]!.name} is ${r ? 'ready' : 'not ready'}`);
-            ready[i] = r;
-          });
-          await balancer.setUpstreams(upstreams());
-        }
+        if (closed) return;
+        let changed = false;
+        now.forEach((answered, i) => {
+          if (generation[i] !== asked[i]) return;
+          missed[i] = answered ? 0 : missed[i]! + 1;
+          const value = answered ? true : missed[i]! >= UNREADY_POLLS ? false : ready[i]!;
+          if (value === ready[i]) return;
+          log(`${instances[i]!.name} is ${value ? 'ready' : 'not ready'}`);
+          ready[i] = value;
+          changed = true;
+        });
+        if (changed) await balancer.setUpstreams(upstreams());
       } finally {
         polling = false;
       }
@@ -201,14 +224,14 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     });
 
     const stopInstance = async (index: number, signal: NodeJS.Signals = 'SIGTERM') => {
+      generation[index]!++;
       await stopProcess(instances[index]!.process, signal);
-      ready[index] = false;
-      await balancer.setUpstreams(upstreams());
+      await setReady(index, false);
     };
     const startInstance = async (index: number) => {
+      generation[index]!++;
       await launch(instances[index]!);
-      ready[index] = true;
-      await balancer.setUpstreams(upstreams());
+      await setReady(index, true);
     };
 
     return {
@@ -225,14 +248,15 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
           log(`rolling restart: ${instance.name}`);
           held.add(index);
           await balancer.setUpstreams(upstreams());
-          await stopProcess(instance.process, 'SIGTERM');
-          ready[index] = false;
-          await launch(instance);
-          ready[index] = true;
+          await stopInstance(index, 'SIGTERM');
+          log(`rolling restart: ${instance.name} stopped`);
+          await startInstance(index);
           held.delete(index);
           await balancer.setUpstreams(upstreams());
+          log(`rolling restart: ${instance.name} ready and back in the balancer`);
         }
       },
+      inBalancer: () => balancer.inService().map((u) => instances.find((i) => i.port === u.port)!),
       stop: unwind,
     };
   } catch (err) {
@@ -247,7 +271,7 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
  */
 export async function startThrowawayCluster(
   instances: number,
-  opts: Pick<ClusterOptions, 'healthIntervalMs' | 'instanceEnv'> = {},
+  opts: Pick<ClusterOptions, 'healthIntervalMs' | 'instanceEnv' | 'log'> = {},
 ): Promise<Cluster> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-cluster-'));
   const cluster = await startCluster({
@@ -272,7 +296,9 @@ export async function startThrowawayCluster(
 
 async function isReady(url: string): Promise<boolean> {
   try {
-    const res = await fetch(`${url}/api/ready`, { signal: AbortSignal.timeout(2500) });
+    const res = await fetch(`${url}/api/ready`, {
+      signal: AbortSignal.timeout(READY_CHECK_TIMEOUT_MS),
+    });
     await res.arrayBuffer();
     return res.ok;
   } catch {

@@ -41,15 +41,26 @@ export interface Answer {
   headers: Headers;
 }
 
-/** A browser-like caller of the balancer's address: one cookie jar, the app's own Origin. */
+/**
+ * A browser-like caller of the balancer's address: one cookie jar, the app's own Origin.
+ * With `keepAlive: false` each request goes on a connection of its own. A browser sends a
+ * request again by itself when a kept-alive connection it reused turns out to be closed by the
+ * server before the request was read (RFC 9112 §9.3.1); fetch here does not, and nginx's old
+ * worker closes its idle connections at every reload, so a caller that must show that no request
+ * fails opens a connection per request: then any failure is the balancer's or an instance's.
+ */
 export class Visitor {
   cookie: string | undefined;
   /** Every instance that answered this visitor, in order. */
   readonly answeredBy: string[] = [];
-  constructor(readonly base: string) {}
+  constructor(
+    readonly base: string,
+    readonly opts: { keepAlive?: boolean } = {},
+  ) {}
 
   async call(method: string, url: string, body?: object | FormData): Promise<Answer> {
     const headers: Record<string, string> = { Origin: this.base };
+    if (this.opts.keepAlive === false) headers.Connection = 'close';
     if (this.cookie) headers.Cookie = this.cookie;
     if (body && !(body instanceof FormData)) headers['Content-Type'] = 'application/json';
     const res = await fetch(this.base + url, {
@@ -99,4 +110,37 @@ export async function untilAcknowledged(
     await new Promise((r) => setTimeout(r, 100 * tries));
   }
   throw new Error(`not acknowledged: ${lastError}`);
+}
+
+/**
+ * Asks until every instance has answered, as long as each answer passes `check`; on a busy
+ * machine nginx may skip an instance for a few seconds after a failed connection
+ * (`max_fails`/`fail_timeout`), so this waits for the state rather than counting on the order.
+ */
+export async function untilEachInstanceAnswers(
+  t: TestCluster,
+  ask: () => Promise<Answer>,
+  check: (answer: Answer) => void,
+  timeoutMs = 60_000,
+): Promise<Set<string>> {
+  const wanted = t.cluster.instances.map((i) => i.port);
+  const seen = new Set<string>();
+  const deadline = Date.now() + timeoutMs;
+  while (!wanted.every((port) => [...seen].some((a) => a.endsWith(`:${port}`)))) {
+    if (Date.now() > deadline)
+      throw new Error(`only ${[...seen].join(', ')} answered in ${timeoutMs / 1000} s`);
+    const answer = await ask();
+    check(answer);
+    seen.add(answer.upstream);
+  }
+  return seen;
+}
+
+/** Waits until `done()` holds, checking every 200 ms, or fails naming `what`. */
+export async function until(what: string, done: () => boolean, timeoutMs = 60_000) {
+  const deadline = Date.now() + timeoutMs;
+  while (!done()) {
+    if (Date.now() > deadline) throw new Error(`timed out waiting until ${what}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
 }
