@@ -259,3 +259,13 @@ export function verdict(name: string, ratio: number, target: number, atMost: boo
   const met = atMost ? ratio <= target : ratio >= target;
   return `${name}: ratio ${ratio.toFixed(2)} (target ${target}) ${met ? 'met' : 'NOT met'}`;
 }
+
+/**
+ * The closing line of a benchmark with several verdicts: how many were met, out of all of them
+ * ("… NOT met" also ends in " met", so a met line is one whose verdict follows the target).
+ */
+export function closingVerdict(name: string, lines: string[], alsoHolds = true): string {
+  const met = lines.filter((l) => l.endsWith(') met')).length;
+  const all = met === lines.length && alsoHolds;
+  return `${name}: ratio ${met}/${lines.length} targets (target ${lines.length}/${lines.length}) ${all ? 'met' : 'NOT met'}`;
+}
