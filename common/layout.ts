@@ -1,25 +1,34 @@
 /**
  * Randomized plot plans. Completely randomized: every plot of a site drawn in one random order.
  * Randomized complete blocks: each block holds every entry once, in its own random order,
- * repeated per site with a fresh randomization. Reproducible from the stored seed.
+ * repeated per site with a fresh randomization. Incomplete blocks: each replicate split into
+ * blocks of k entries (common/incomplete-blocks.ts), at one site or one block per garden.
+ * Reproducible from the stored seed.
  * With a second factor (a treatment) in complete blocks: a factorial puts every treatment ×
  * entry plot once in each block, in one random order; a split plot randomizes the treatments to
  * main plots within each block, then the entries to subplots within each main plot.
  */
 import type { FactorArrangement } from './contracts/trials';
+import { blockSizes, planIncompleteBlocks } from './incomplete-blocks';
 import { createRandom } from './random';
 
-export type LayoutDesign = 'crd' | 'rcbd' | 'multisite';
+export type LayoutDesign = 'crd' | 'rcbd' | 'multisite' | 'incomplete' | 'network';
 
 export interface LayoutInput {
   design: LayoutDesign;
   entryIds: readonly string[];
-  /** Replicates per entry: blocks for rcbd and multisite, plots per entry for crd. */
+  /**
+   * Replicates per entry: blocks for rcbd and multisite, plots per entry for crd, replicates
+   * (each holding every entry once) for incomplete blocks; unused for a network, whose
+   * replicates follow from the number of gardens.
+   */
   replicates: number;
   siteIds: readonly string[];
   seed: number;
   /** A second factor, laid out in complete blocks (rcbd or multisite). */
   factor?: { levels: readonly string[]; arrangement: FactorArrangement } | null;
+  /** Entries per block (incomplete blocks) or per garden (network). */
+  blockSize?: number;
 }
 
 export interface PlannedPlot {
@@ -34,7 +43,16 @@ export interface PlannedPlot {
   treatment: string | null;
   /** Split plot: the main plot within the block (1, 2 …); null otherwise. */
   mainPlot: number | null;
+  /** Incomplete blocks and networks: the replicate the block belongs to. */
+  replicate?: number;
 }
+
+/** Gardens of a network that make up one replicate of every entry, for v entries k to a garden. */
+export const gardensPerReplicate = (entries: number, perGarden: number) =>
+  blockSizes(entries, perGarden).length;
+
+/** Largest block number a layout may use. */
+export const MAX_BLOCKS = 99;
 
 export function plotNumberOf(block: number, position: number, positionsPerBlock: number): number {
   const width = positionsPerBlock >= 100 ? 1000 : 100;
@@ -44,21 +62,22 @@ export function plotNumberOf(block: number, position: number, positionsPerBlock:
 export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
   const { design, entryIds, replicates, siteIds, seed } = input;
   if (entryIds.length < 2) throw new Error('A trial needs at least two entries to compare.');
-  if (!Number.isInteger(replicates) || replicates < 1)
+  if (design !== 'network' && (!Number.isInteger(replicates) || replicates < 1))
     throw new Error('Replicates must be a whole number of 1 or more.');
   if (siteIds.length < 1) throw new Error('Add a site before laying out plots.');
-  if (design !== 'multisite' && siteIds.length > 1) {
-    throw new Error('Only the several-sites design lays out plots at more than one site.');
+  if (design !== 'multisite' && design !== 'network' && siteIds.length > 1) {
+    throw new Error('Only the several-sites designs lay out plots at more than one site.');
   }
   const factor = input.factor ?? null;
   if (factor) {
-    if (design === 'crd')
+    if (design === 'crd' || design === 'incomplete' || design === 'network')
       throw new Error('A second factor is laid out in complete blocks: choose a block design.');
     if (factor.levels.length < 2) throw new Error('A treatment needs at least two levels.');
     if (new Set(factor.levels).size !== factor.levels.length)
       throw new Error('Each treatment level needs its own name.');
   }
   const random = createRandom(seed);
+  if (design === 'incomplete' || design === 'network') return incompleteLayout(input, random);
   const plots: PlannedPlot[] = [];
   for (const siteId of siteIds) {
     if (factor) {
@@ -135,6 +154,71 @@ function twoFactorBlocks(
     );
     for (const c of random.shuffle(cells)) place(block, c.treatment, c.entryId, null);
   }
+  return plots;
+}
+
+function incompleteLayout(input: LayoutInput, random: ReturnType<typeof createRandom>) {
+  const { design, entryIds, replicates, siteIds } = input;
+  const v = entryIds.length;
+  const k = input.blockSize ?? 0;
+  if (!Number.isInteger(k) || k < 2 || k >= v)
+    throw new Error(`Each block holds from 2 to ${v - 1} of the ${v} entries.`);
+  const perReplicate = gardensPerReplicate(v, k);
+  const plots: PlannedPlot[] = [];
+  if (design === 'network') {
+    // Each garden is one block; every full set of gardens grows every entry once.
+    const full = Math.floor(siteIds.length / perReplicate);
+    if (full < 2)
+      throw new Error(
+        `With ${v} entries and ${k} to a garden, ${perReplicate} gardens grow every entry once: add at least ${2 * perReplicate} gardens so each entry is grown in two or more.`,
+      );
+    const plan = planIncompleteBlocks(v, k, full, random, siteIds.length % perReplicate);
+    const gardens = random.shuffle(siteIds);
+    let g = 0;
+    plan.replicates.forEach((blocks, rep) =>
+      blocks.forEach((block) => {
+        const siteId = gardens[g++]!;
+        block.forEach((e, i) =>
+          plots.push({
+            siteId,
+            entryId: entryIds[e]!,
+            block: 1,
+            position: i + 1,
+            plotNumber: plotNumberOf(1, i + 1, k),
+            replicate: rep + 1,
+            treatment: null,
+            mainPlot: null,
+          }),
+        );
+      }),
+    );
+    return plots;
+  }
+  if (siteIds.length !== 1) throw new Error('Incomplete blocks are laid out at one site.');
+  if (!Number.isInteger(replicates) || replicates < 2)
+    throw new Error('Incomplete blocks need at least 2 replicates.');
+  if (replicates * perReplicate > MAX_BLOCKS)
+    throw new Error(
+      `${replicates} replicates of ${perReplicate} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
+    );
+  const plan = planIncompleteBlocks(v, k, replicates, random);
+  plan.replicates.forEach((blocks, rep) =>
+    blocks.forEach((entries, b) => {
+      const block = rep * perReplicate + b + 1;
+      entries.forEach((e, i) =>
+        plots.push({
+          siteId: siteIds[0]!,
+          entryId: entryIds[e]!,
+          block,
+          position: i + 1,
+          plotNumber: plotNumberOf(block, i + 1, k),
+          replicate: rep + 1,
+          treatment: null,
+          mainPlot: null,
+        }),
+      );
+    }),
+  );
   return plots;
 }
 
