@@ -262,3 +262,49 @@ function traceOfInverse(a: Float64Array, n: number): number | null {
   }
   return trace;
 }
+
+/** The properties of a laid-out plan, read back from its plots. */
+export function describePlan(
+  plots: readonly { block: string; entry: string; replicate: number | null }[],
+  entryKeys: readonly string[],
+) {
+  const index = new Map(entryKeys.map((e, i) => [e, i]));
+  const byBlock = new Map<string, number[]>();
+  const replicateBlocks = new Map<number, Set<string>>();
+  for (const p of plots) {
+    const e = index.get(p.entry);
+    if (e === undefined) continue;
+    let block = byBlock.get(p.block);
+    if (!block) byBlock.set(p.block, (block = []));
+    block.push(e);
+    if (p.replicate !== null) {
+      let set = replicateBlocks.get(p.replicate);
+      if (!set) replicateBlocks.set(p.replicate, (set = new Set()));
+      set.add(p.block);
+    }
+  }
+  const blocks = [...byBlock.values()];
+  const v = entryKeys.length;
+  const reps = new Array<number>(v).fill(0);
+  for (const b of blocks) for (const e of b) reps[e]! += 1;
+  // A full replicate holds every entry once.
+  let fullReplicates = 0;
+  for (const keys of replicateBlocks.values()) {
+    const held = [...keys].flatMap((k) => byBlock.get(k)!);
+    if (held.length === v && new Set(held).size === v) fullReplicates += 1;
+  }
+  const summary = summarizeConcurrences(blocks, v);
+  const sizes = blocks.map((b) => b.length);
+  return {
+    blocks: blocks.length,
+    fullReplicates,
+    smallestBlock: Math.min(...sizes),
+    largestBlock: Math.max(...sizes),
+    concurrenceMin: summary.min,
+    concurrenceMax: summary.max,
+    concurrenceCounts: summary.histogram,
+    replicationMin: Math.min(...reps),
+    replicationMax: Math.max(...reps),
+    efficiency: efficiencyFactor(blocks, v),
+  };
+}

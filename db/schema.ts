@@ -118,6 +118,8 @@ export interface TrialsTable extends Written {
   row_spacing_mm: number | null;
   in_row_spacing_mm: number | null;
   layout_generated_at: Timestamp | null;
+  /** Entries per block (incomplete blocks) or per garden (network); null for other designs. */
+  block_size: Generated<number | null>;
   fertilizer_policy: Generated<FertilizerPolicy>;
   fertilizer_notes: Generated<string>;
   /** The trial this one was copied from for a new season. */
@@ -212,6 +214,8 @@ export interface PlotsTable extends Written {
   block: number;
   position: number;
   plot_number: number;
+  /** Incomplete blocks and networks: the replicate the plot's block belongs to. */
+  replicate: Generated<number | null>;
   plants_set: number | null;
   plants_surviving: number | null;
   in_row_spacing_mm: number | null;

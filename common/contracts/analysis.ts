@@ -4,6 +4,7 @@
  * AnalysisResult), so the API, the command and the screens read the same numbers.
  */
 import { z } from 'zod';
+import { trialDesigns } from './trials';
 
 export const analysisBases = ['plot', 'plant', 'm', 'm2', 'ha', 'acre'] as const;
 export type AnalysisBasis = (typeof analysisBases)[number];
@@ -41,7 +42,7 @@ export const modelLabels: Record<AnalysisModel, string> = {
  * The models a design can be analysed with: a completely randomized trial has no gardens or
  * blocks to treat as random, so only the classical analysis applies to it.
  */
-export function modelsForDesign(design: (typeof designs)[number]): AnalysisModel[] {
+export function modelsForDesign(design: (typeof trialDesigns)[number]): AnalysisModel[] {
   return design === 'crd' ? ['anova'] : ['anova', 'mixed'];
 }
 
@@ -50,15 +51,55 @@ export function modelsForDesign(design: (typeof designs)[number]): AnalysisModel
  * site by the classical analysis; several sites by the mixed model, which uses every plot of a
  * garden that lost some and weighs gardens by what they hold.
  */
-export function defaultModelFor(design: (typeof designs)[number]): AnalysisModel {
-  return design === 'multisite' ? 'mixed' : 'anova';
+export function defaultModelFor(design: (typeof trialDesigns)[number]): AnalysisModel {
+  switch (design) {
+    case 'crd':
+    case 'rcbd':
+      return 'anova';
+    case 'multisite':
+    case 'incomplete':
+    case 'network':
+      return 'mixed';
+    default: {
+      const never: never = design;
+      return never;
+    }
+  }
 }
-export const varianceSources = ['site', 'site:block', 'block', 'site:variety', 'residual'] as const;
+
+/** Why the design suggests its model, where the reason is not obvious (shown beside the choice). */
+export function modelReasonFor(design: (typeof trialDesigns)[number]): string | null {
+  switch (design) {
+    case 'incomplete':
+      return 'Each block holds only some of the entries, so two entries are compared partly across blocks. The mixed model treats blocks within replicates as random and uses those comparisons too; the classical analysis treats blocks as fixed and uses only comparisons within a block, so it gives wider standard errors and is not the default.';
+    case 'network':
+      return 'Each garden grows only some of the entries and gardens differ more than varieties do. The mixed model treats gardens as random, so it compares entries through every garden, including those that lost plots; the classical analysis treats gardens as fixed and uses only comparisons within a garden, so it gives wider standard errors and is not the default.';
+    case 'crd':
+    case 'rcbd':
+    case 'multisite':
+      return null;
+    default: {
+      const never: never = design;
+      return never;
+    }
+  }
+}
+export const varianceSources = [
+  'site',
+  'site:block',
+  'block',
+  'site:variety',
+  'replicate',
+  'replicate:block',
+  'residual',
+] as const;
 export const varianceSourceLabels: Record<(typeof varianceSources)[number], string> = {
   site: 'Gardens (sites)',
   'site:block': 'Blocks within gardens',
   block: 'Blocks',
   'site:variety': 'Garden × variety',
+  replicate: 'Replicates',
+  'replicate:block': 'Blocks within replicates',
   residual: 'Plot to plot (residual)',
 };
 

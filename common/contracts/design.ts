@@ -419,6 +419,14 @@ const layoutFields = z.object({
   factorArrangement: z
     .enum(factorArrangements, 'Choose factorial or split plot.')
     .default('factorial'),
+  /** Incomplete blocks: entries per block; a network: entries each garden grows. */
+  blockSize: z
+    .number('Enter how many entries a block holds.')
+    .int('Use a whole number of entries.')
+    .min(2, 'A block holds at least 2 entries.')
+    .max(999, 'A block holds at most 999 entries.')
+    .nullable()
+    .default(null),
 });
 export const layoutBody = layoutFields.refine(factorComplete, factorMessage);
 export type LayoutBody = z.input<typeof layoutBody>;
@@ -448,6 +456,7 @@ export const layoutForm = (units: { rowLength: QuantityUnit; spacing: QuantityUn
         f.factorLevels,
       ),
       factorArrangement: f.factorArrangement,
+      blockSize: typedNumber(f.blockSize, { blank: null }),
     })
     .refine(factorComplete, factorMessage);
 };
@@ -550,6 +559,8 @@ export const designPlotSchema = z.object({
   block: z.number().int(),
   position: z.number().int(),
   plotNumber: z.number().int(),
+  /** Incomplete blocks and networks: the replicate the plot's block (or garden) belongs to. */
+  replicate: z.number().int().nullable(),
   inRowSpacingMm: z.number().nullable(),
   rowLengthMm: z.number().nullable(),
   rowSpacingMm: z.number().nullable(),
@@ -563,6 +574,27 @@ export const designPlotSchema = z.object({
   treatment: z.string().nullable(),
 });
 export type DesignPlot = z.infer<typeof designPlotSchema>;
+
+/** What an incomplete-block plan gives: how evenly entries meet in blocks. */
+export const incompleteBlocksSummary = z.object({
+  /** Blocks (gardens for a network) in all, and full replicates among them. */
+  blocks: z.number().int(),
+  fullReplicates: z.number().int(),
+  /** Smallest and largest block. */
+  smallestBlock: z.number().int(),
+  largestBlock: z.number().int(),
+  /** Fewest and most blocks that any two entries share. */
+  concurrenceMin: z.number().int(),
+  concurrenceMax: z.number().int(),
+  /** Pairs of entries that share a block 0, 1, 2 … times. */
+  concurrenceCounts: z.array(z.number().int()),
+  /** Plots per entry, fewest and most. */
+  replicationMin: z.number().int(),
+  replicationMax: z.number().int(),
+  /** Efficiency factor of the intra-block analysis (null when replication is unequal). */
+  efficiency: z.number().nullable(),
+});
+export type IncompleteBlocksSummary = z.infer<typeof incompleteBlocksSummary>;
 
 export const designSchema = z.object({
   id: z.uuid(),
@@ -597,6 +629,10 @@ export const designSchema = z.object({
     /** Once any record refers to a plot, the layout cannot change. */
     locked: z.boolean(),
     lockedReason: z.string().nullable(),
+    /** Incomplete blocks: entries per block; a network: entries per garden. */
+    blockSize: z.number().int().nullable(),
+    /** The laid-out plan's blocks, for incomplete-block designs (null otherwise or before a layout). */
+    blocks: incompleteBlocksSummary.nullable(),
   }),
   entries: z.array(designEntrySchema),
   /** The trial's group's register, for the lead to pick an entry's variety from (others: empty). */

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 
-export const trialDesigns = ['crd', 'rcbd', 'multisite'] as const;
+export const trialDesigns = ['crd', 'rcbd', 'multisite', 'incomplete', 'network'] as const;
 export const trialStatuses = ['draft', 'active', 'closed', 'published'] as const;
 export const entryTypes = ['heirloom', 'open_pollinated', 'hybrid'] as const;
 export const quantityKinds = ['mass', 'length', 'count', 'score', 'date', 'percent'] as const;
@@ -19,6 +19,8 @@ export const designLabels: Record<(typeof trialDesigns)[number], string> = {
   crd: 'Completely randomized',
   rcbd: 'Randomized complete blocks',
   multisite: 'Blocks at several sites',
+  incomplete: 'Incomplete blocks (alpha design)',
+  network: 'Network of gardens, each growing some entries',
 };
 
 /** How a second factor (a treatment) is laid out with the varieties in complete blocks. */
@@ -28,6 +30,12 @@ export const factorArrangementLabels: Record<FactorArrangement, string> = {
   factorial: 'Factorial: every treatment × variety plot in each block',
   split_plot: 'Split plot: treatments on main plots, varieties on subplots',
 };
+/** Designs whose blocks (or gardens) hold only some of the entries. */
+export const incompleteDesigns = ['incomplete', 'network'] as const;
+export const isIncompleteDesign = (
+  design: (typeof trialDesigns)[number],
+): design is (typeof incompleteDesigns)[number] =>
+  (incompleteDesigns as readonly string[]).includes(design);
 
 export const trialSlugParams = z.object({
   slug: z.string().regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Not a trial address.'),

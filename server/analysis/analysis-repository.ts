@@ -13,6 +13,7 @@ export function trialPlots(db: DB, trialId: string) {
       'p.id',
       'p.plot_number',
       'p.block',
+      'p.replicate',
       'p.site_id',
       's.name as site_name',
       'p.entry_id',

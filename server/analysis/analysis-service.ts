@@ -7,11 +7,12 @@ import {
   type Ranking,
   type TrialAnalysis,
   type analysisBases,
+  type designs,
 } from '../../common/contracts/analysis';
 import { designLabels } from '../../common/contracts/trials';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
-import type { Trial } from '../../db/schema';
+import type { Trial, TrialDesign } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import { trialForAction } from '../trials/trials-service';
 import type { AnalysisResult as EngineResult, PlotRow } from './engine/analyze';
@@ -23,6 +24,7 @@ import * as repo from './analysis-repository';
 import { buildPlotValues, PlotValueError, type TraitSource } from './trial-plot-values';
 
 type Basis = (typeof analysisBases)[number];
+type EngineDesign = (typeof designs)[number];
 
 interface ResolvedTrait {
   key: string;
@@ -108,6 +110,31 @@ async function resolveTrait(
   };
 }
 
+/**
+ * How a trial's design reads to the engine. Incomplete blocks and networks go as blocks
+ * (the classical analysis fits blocks, or gardens, before varieties: the intra-block analysis);
+ * the mixed model then has blocks random within replicates, or gardens random.
+ */
+function engineLayout(design: TrialDesign): {
+  design: EngineDesign;
+  sitesAre?: 'site' | 'replicate';
+} {
+  switch (design) {
+    case 'crd':
+    case 'rcbd':
+    case 'multisite':
+      return { design };
+    case 'incomplete':
+      return { design: 'rcbd', sitesAre: 'replicate' };
+    case 'network':
+      return { design: 'rcbd', sitesAre: 'site' };
+    default: {
+      const never: never = design;
+      return never;
+    }
+  }
+}
+
 async function analyseTrait(
   db: DB,
   trial: Trial,
@@ -146,9 +173,10 @@ async function analyseTrait(
   }
   if (built.values.length === 0)
     throw new AppError('unprocessable', `No records for ${trait.label} yet: nothing to analyse.`);
+  const layout = engineLayout(trial.design);
   const rows: PlotRow[] = built.values.map(({ plot, value }) => ({
     variety: plot.entry_name,
-    site: plot.site_name,
+    site: layout.sitesAre === 'replicate' ? `Replicate ${plot.replicate ?? 1}` : plot.site_name,
     block: trial.design === 'crd' ? null : String(plot.block),
     plot: String(plot.plot_number),
     value,
@@ -159,7 +187,8 @@ async function analyseTrait(
     options: {
       trait: trait.key,
       alpha: options.alpha,
-      design: trial.design,
+      design: layout.design,
+      ...(layout.sitesAre ? { sitesAre: layout.sitesAre } : {}),
       letters: options.letters,
       direction: trait.direction,
       model: options.model ?? 'anova',

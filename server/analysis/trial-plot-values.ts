@@ -18,6 +18,8 @@ export interface PlotRecord {
   id: string;
   plot_number: number;
   block: number;
+  /** Incomplete blocks and networks: the replicate the block belongs to. */
+  replicate?: number | null;
   site_id: string;
   site_name: string;
   entry_id: string;

@@ -23,10 +23,12 @@ import {
   unitMessage,
   type updateTrialBody,
 } from '../../common/contracts/design';
-import { randomizeLayout } from '../../common/layout';
+import { describePlan } from '../../common/incomplete-blocks';
+import { gardensPerReplicate, MAX_BLOCKS, randomizeLayout } from '../../common/layout';
 import { plantsPerPlot } from '../../common/planting';
+import { isIncompleteDesign } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
-import type { TraitsTable } from '../../db/schema';
+import type { TraitsTable, TrialDesign } from '../../db/schema';
 import type { Selectable } from 'kysely';
 import { writeAudit } from '../records/records-service';
 import { differingFields } from '../records/record-changes';
@@ -150,6 +152,7 @@ export async function copyTrial(
         fertilizer_policy: source.fertilizer_policy,
         fertilizer_notes: source.fertilizer_notes,
         replicates: source.replicates,
+        block_size: source.block_size,
         rows_per_plot: source.rows_per_plot,
         row_length_mm: source.row_length_mm,
         row_spacing_mm: source.row_spacing_mm,
@@ -170,6 +173,7 @@ export async function copyTrial(
       if (seed === source.layout_seed) seed = (seed + 1) % (MAX_LAYOUT_SEED + 1);
       const laid = await layOutPlots(trx, { id: copy.id, design: source.design }, userId, {
         replicates: source.replicates!,
+        blockSize: source.block_size,
         seed,
         rowsPerPlot: source.rows_per_plot,
         rowLengthMm: source.row_length_mm!,
@@ -268,6 +272,18 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
       generatedAt: trial.layout_generated_at ? trial.layout_generated_at.toISOString() : null,
       locked: reason !== null,
       lockedReason: reason,
+      blockSize: trial.block_size,
+      blocks:
+        isIncompleteDesign(trial.design) && plots.length > 0
+          ? describePlan(
+              plots.map((p) => ({
+                block: `${p.site_id}:${p.block}`,
+                entry: p.entry_id,
+                replicate: p.replicate,
+              })),
+              entries.map((e) => e.id),
+            )
+          : null,
     },
     entries: entries.map((e) => ({
       id: e.id,
@@ -305,6 +321,7 @@ export async function getDesign(db: DB, slug: string, actor: Actor | null): Prom
       block: p.block,
       position: p.position,
       plotNumber: p.plot_number,
+      replicate: p.replicate,
       inRowSpacingMm: p.in_row_spacing_mm,
       rowLengthMm: p.row_length_mm,
       rowSpacingMm: p.row_spacing_mm,
@@ -710,7 +727,7 @@ async function assertLayoutOpen(trx: Conn, trialId: string) {
 /** Randomizes the plots of a locked trial (the caller holds the transaction and the lock). */
 async function layOutPlots(
   trx: Conn,
-  trial: { id: string; design: 'crd' | 'rcbd' | 'multisite' },
+  trial: { id: string; design: TrialDesign },
   userId: string,
   b: Out<typeof layoutBody>,
 ): Promise<{ seed: number; plots: number }> {
@@ -722,11 +739,35 @@ async function layOutPlots(
   if (entries.length < 2)
     throw new AppError('unprocessable', 'Add at least two entries before laying out plots.');
   if (sites.length < 1) throw new AppError('unprocessable', 'Add a site before laying out plots.');
-  if (trial.design !== 'multisite' && sites.length > 1)
+  if (trial.design !== 'multisite' && trial.design !== 'network' && sites.length > 1)
     throw new AppError(
       'unprocessable',
       `This design lays out one site, but the trial has ${sites.length}. Choose “Blocks at several sites” in the settings, or remove the extra sites.`,
     );
+  const incomplete = isIncompleteDesign(trial.design);
+  if (incomplete) {
+    const what = trial.design === 'network' ? 'each garden grows' : 'each block holds';
+    if (b.blockSize == null) throw fieldError('body.blockSize', `Give how many entries ${what}.`);
+    if (b.blockSize >= entries.length)
+      throw fieldError(
+        'body.blockSize',
+        `With ${entries.length} entries, ${what} from 2 to ${entries.length - 1} of them (all ${entries.length} would be complete blocks).`,
+      );
+    if (trial.design === 'network') {
+      const perReplicate = gardensPerReplicate(entries.length, b.blockSize);
+      if (sites.length < 2 * perReplicate)
+        throw new AppError(
+          'unprocessable',
+          `With ${entries.length} entries and ${b.blockSize} to a garden, ${perReplicate} gardens grow every entry once: add gardens as sites until there are at least ${2 * perReplicate} (the trial has ${sites.length}), so each entry is grown in two or more.`,
+        );
+    } else if (b.replicates < 2)
+      throw fieldError('body.replicates', 'Incomplete blocks need at least 2 replicates.');
+    else if (b.replicates * gardensPerReplicate(entries.length, b.blockSize) > MAX_BLOCKS)
+      throw fieldError(
+        'body.replicates',
+        `${b.replicates} replicates of ${gardensPerReplicate(entries.length, b.blockSize)} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
+      );
+  }
   const unspaced = entries.filter((e) => e.in_row_spacing_mm == null).map((e) => e.code);
   if (unspaced.length > 0 && b.inRowSpacingMm == null)
     throw fieldError(
@@ -737,21 +778,33 @@ async function layOutPlots(
     b.factorLevels.length > 0
       ? { name: b.factorName, levels: b.factorLevels, arrangement: b.factorArrangement }
       : null;
-  if (factor && trial.design === 'crd')
+  if (factor && (trial.design === 'crd' || isIncompleteDesign(trial.design)))
     throw fieldError(
       'body.factorName',
       'A second factor is laid out in complete blocks: choose randomized complete blocks (or blocks at several sites) in the settings first.',
     );
   const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
-  const planned = randomizeLayout({
-    factor,
-    design: trial.design,
-    // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
-    entryIds: entries.map((e) => e.id),
-    replicates: b.replicates,
-    siteIds: sites.map((s) => s.id),
-    seed,
-  });
+  let planned;
+  try {
+    planned = randomizeLayout({
+      factor,
+      design: trial.design,
+      // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
+      entryIds: entries.map((e) => e.id),
+      replicates: b.replicates,
+      siteIds: sites.map((s) => s.id),
+      seed,
+      ...(incomplete ? { blockSize: b.blockSize! } : {}),
+    });
+  } catch (err) {
+    // The checks above name the field; anything the plan itself refuses is said as it is.
+    throw new AppError('unprocessable', (err as Error).message);
+  }
+  // A network's replicates follow from its gardens: store the full ones.
+  const replicates =
+    trial.design === 'network'
+      ? Math.floor(sites.length / gardensPerReplicate(entries.length, b.blockSize!))
+      : b.replicates;
   const spacing = new Map(entries.map((e) => [e.id, e.in_row_spacing_mm ?? b.inRowSpacingMm!]));
   await repo.deletePlots(trx, trialId);
   await repo.insertPlots(
@@ -764,6 +817,7 @@ async function layOutPlots(
       position: p.position,
       plot_number: p.plotNumber,
       treatment: p.treatment,
+      replicate: p.replicate ?? null,
       in_row_spacing_mm: spacing.get(p.entryId)!,
       row_length_mm: b.rowLengthMm,
       row_spacing_mm: b.rowSpacingMm,
@@ -773,7 +827,8 @@ async function layOutPlots(
   );
   await repo.updateTrial(trx, trialId, {
     layout_seed: seed,
-    replicates: b.replicates,
+    replicates,
+    block_size: incomplete ? b.blockSize : null,
     rows_per_plot: b.rowsPerPlot,
     row_length_mm: b.rowLengthMm,
     row_spacing_mm: b.rowSpacingMm,

@@ -105,6 +105,11 @@ export interface AnalyzeOptions {
    * ranks and letters from the BLUEs of the variety means.
    */
   model?: AnalysisModel;
+  /**
+   * What the site column holds: gardens or sites (default), or the replicates of one field in
+   * an incomplete-block trial (the mixed model then has blocks random within replicates).
+   */
+  sitesAre?: 'site' | 'replicate';
 }
 
 export type { AnalysisModel };
@@ -455,6 +460,7 @@ export function analyzePlotRows(
       entries: entry.levels.length,
       ...(hasSite ? { site: { cells: site.codes, levels: site.levels.length } } : {}),
       ...(design === 'crd' ? {} : { block: { cells: block.codes, levels: block.levels.length } }),
+      ...(options.sitesAre ? { sitesAre: options.sitesAre } : {}),
     });
     if (typeof fitted === 'string') throw new AnalysisInputError(fitted);
     mixed = fitted;
@@ -583,7 +589,12 @@ export function analyzePlotRows(
     })),
     counts: {
       entries: entry.levels.length,
-      sites: design === 'multisite' ? site.levels.length : hasSite ? site.levels.length : 0,
+      sites:
+        options.sitesAre === 'replicate'
+          ? 1
+          : design === 'multisite' || hasSite
+            ? site.levels.length
+            : 0,
       blocks: design === 'crd' ? 0 : block.levels.length,
       rows: rows.length,
       missingPlots,

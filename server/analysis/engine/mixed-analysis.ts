@@ -21,6 +21,11 @@ export interface MixedLayout {
   site?: { cells: Int32Array; levels: number };
   /** Global block codes (a block at one site differs from the same label at another). */
   block?: { cells: Int32Array; levels: number };
+  /**
+   * What the site codes stand for: gardens or sites (default), or the replicates of one field
+   * in an incomplete-block trial, whose blocks are then random within replicates.
+   */
+  sitesAre?: 'site' | 'replicate';
 }
 
 export type VarianceSource = (typeof varianceSources)[number];
@@ -53,6 +58,8 @@ const SOURCE_WORDS: Record<VarianceSource, string> = {
   'site:block': 'blocks within gardens',
   block: 'blocks',
   'site:variety': 'varieties doing differently in different gardens',
+  replicate: 'replicates',
+  'replicate:block': 'blocks within replicates',
   residual: 'plot-to-plot (residual)',
 };
 
@@ -61,15 +68,19 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
   const n = y.length;
   const random: RandomTerm[] = [];
   const sites = layout.site && layout.site.levels >= 2 ? layout.site : null;
-  if (sites) random.push({ source: 'site', cells: sites.cells, levels: sites.levels });
-  if (layout.block) {
+  const kind = layout.sitesAre ?? 'site';
+  if (sites) random.push({ source: kind, cells: sites.cells, levels: sites.levels });
+  // A garden that is one block (a network where each garden grows some entries): the block
+  // term would repeat the site term, so it is left out.
+  const block = layout.block && !(sites && layout.block.levels === sites.levels) ? layout.block : null;
+  if (block) {
     random.push({
-      source: sites ? 'site:block' : 'block',
-      cells: layout.block.cells,
-      levels: layout.block.levels,
+      source: sites ? `${kind}:block` : 'block',
+      cells: block.cells,
+      levels: block.levels,
     });
   }
-  if (sites && layout.block) {
+  if (sites && block && kind === 'site') {
     const cells = new Int32Array(n);
     const seen = new Map<number, number>();
     for (let i = 0; i < n; i++) {

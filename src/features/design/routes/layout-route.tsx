@@ -4,7 +4,9 @@ import {
   designLabels,
   factorArrangementLabels,
   factorArrangements,
+  isIncompleteDesign,
 } from '@common/contracts/trials';
+import { gardensPerReplicate } from '@common/layout';
 import { formatSpacing } from '@common/display-units';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
@@ -43,12 +45,15 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
     factorName: design.factor?.name ?? '',
     factorLevels: design.factor?.levels.join('\n') ?? '',
     factorArrangement: design.factor?.arrangement ?? 'factorial',
+    blockSize: design.layout.blockSize?.toString() ?? '',
   });
   const [factorName, factorLevels] = form.watch(['factorName', 'factorLevels']);
   const fertilizer = isFertilizerFactor({
     name: factorName ?? '',
     levels: String(factorLevels ?? '').split(/[\n,]/),
   });
+  const network = design.design === 'network';
+  const incomplete = isIncompleteDesign(design.design);
   const { errors, isSubmitting } = form.formState;
   const onSubmit = submitTo(form, async ({ seed, ...body }, e) => {
     const fresh = wantsFreshSeed(e);
@@ -73,12 +78,34 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
       </p>
       <fieldset disabled={!design.canEdit || locked} className="space-y-3">
         <div className="grid gap-3 sm:grid-cols-2">
-          <TextField
-            label={design.design === 'crd' ? 'Plots per entry (replicates)' : 'Blocks (replicates)'}
-            inputMode="numeric"
-            error={errors.replicates?.message}
-            {...form.register('replicates')}
-          />
+          {network ? null : (
+            <TextField
+              label={
+                design.design === 'crd'
+                  ? 'Plots per entry (replicates)'
+                  : incomplete
+                    ? 'Replicates'
+                    : 'Blocks (replicates)'
+              }
+              inputMode="numeric"
+              hint={incomplete ? 'Each replicate holds every entry once.' : undefined}
+              error={errors.replicates?.message}
+              {...form.register('replicates')}
+            />
+          )}
+          {incomplete ? (
+            <TextField
+              label={network ? 'Entries each garden grows' : 'Entries per block'}
+              inputMode="numeric"
+              hint={
+                network
+                  ? `Each garden (site) is one block. ${gardensNeeded(design, Number(form.watch('blockSize')))}`
+                  : `From 2 to ${Math.max(2, design.entries.length - 1)}; blocks of that size or one fewer.`
+              }
+              error={errors.blockSize?.message}
+              {...form.register('blockSize')}
+            />
+          ) : null}
           <TextField
             label="Rows per plot"
             inputMode="numeric"
@@ -119,7 +146,7 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
             {...form.register('seed')}
           />
         </div>
-        {design.design === 'crd' ? null : (
+        {design.design === 'crd' || incomplete ? null : (
           <fieldset className="space-y-3 rounded-lg border border-leaf-100 p-3">
             <legend className="px-1 font-semibold text-leaf-900">Second factor (optional)</legend>
             <p className="text-sm text-loam-700">
@@ -193,6 +220,82 @@ function LayoutForm({ design, slug }: { design: Design; slug: string }) {
   );
 }
 
+/** How many gardens a network needs for its block size, once the lead has typed one. */
+function gardensNeeded(design: Design, k: number) {
+  const v = design.entries.length;
+  if (!k || k < 2 || k >= v)
+    return 'Every set of gardens that grows every entry once is a replicate.';
+  const perReplicate = gardensPerReplicate(v, k);
+  return `${perReplicate} gardens grow every entry once; the trial has ${design.sites.length}.`;
+}
+
+/** What an incomplete-block plan gives: replicates, block sizes and how evenly entries meet. */
+function BlockBalance({ design }: { design: Design }) {
+  const b = design.layout.blocks;
+  if (!b) return null;
+  const network = design.design === 'network';
+  const blockWord = network ? 'gardens' : 'blocks';
+  const sizes =
+    b.smallestBlock === b.largestBlock
+      ? `${b.largestBlock} entries each`
+      : `${b.smallestBlock} or ${b.largestBlock} entries each`;
+  const replication =
+    b.replicationMin === b.replicationMax
+      ? `every entry on ${b.replicationMin} plots`
+      : `entries on ${b.replicationMin} to ${b.replicationMax} plots`;
+  const extra = b.blocks - b.fullReplicates * Math.ceil(design.entries.length / b.largestBlock);
+  return (
+    <section aria-labelledby="balance-heading" className="rounded-lg bg-white p-4 shadow-sm">
+      <h2 id="balance-heading" className="text-lg font-semibold text-leaf-900">
+        How evenly entries meet
+      </h2>
+      <dl className="mt-2 grid grid-cols-2 gap-2 text-sm sm:grid-cols-4">
+        <div>
+          <dt className="text-xs uppercase tracking-wide text-loam-700">Pair concurrence</dt>
+          <dd className="font-display text-lg font-semibold text-leaf-900">
+            {b.concurrenceMin === b.concurrenceMax
+              ? `${b.concurrenceMin} (every pair)`
+              : `${b.concurrenceMin} to ${b.concurrenceMax}`}
+          </dd>
+        </div>
+        <div>
+          <dt className="text-xs uppercase tracking-wide text-loam-700">
+            {network ? 'Gardens' : 'Blocks'}
+          </dt>
+          <dd className="font-display text-lg font-semibold text-leaf-900">{b.blocks}</dd>
+        </div>
+        <div>
+          <dt className="text-xs uppercase tracking-wide text-loam-700">Full replicates</dt>
+          <dd className="font-display text-lg font-semibold text-leaf-900">{b.fullReplicates}</dd>
+        </div>
+        <div>
+          <dt className="text-xs uppercase tracking-wide text-loam-700">Efficiency factor</dt>
+          <dd className="font-display text-lg font-semibold text-leaf-900">
+            {b.efficiency === null ? '—' : b.efficiency.toFixed(3)}
+          </dd>
+        </div>
+      </dl>
+      <p className="mt-2 text-sm">
+        {b.blocks} {blockWord} of {sizes}, {replication}
+        {extra > 0 ? `; ${extra} ${blockWord} beyond the last full replicate` : ''}. Any two entries
+        share a {network ? 'garden' : 'block'}{' '}
+        {b.concurrenceMin === b.concurrenceMax
+          ? `exactly ${b.concurrenceMin} ${b.concurrenceMin === 1 ? 'time' : 'times'}`
+          : `from ${b.concurrenceMin} to ${b.concurrenceMax} times`}{' '}
+        (
+        {b.concurrenceCounts
+          .map((n, c) => (n > 0 ? `${n} ${n === 1 ? 'pair' : 'pairs'} ${c}×` : null))
+          .filter(Boolean)
+          .join(', ')}
+        ): the closer these are, the more evenly every comparison is measured.
+        {b.efficiency === null
+          ? ' The efficiency factor needs every entry equally often.'
+          : ' The efficiency factor is the share of information the blocks leave for comparing entries (1 for complete blocks).'}
+      </p>
+    </section>
+  );
+}
+
 function PlotPlan({ design, slug }: { design: Design; slug: string }) {
   const system = useUnitSystem();
   const [siteId, setSiteId] = useState(firstSiteWithPlots(design));
@@ -225,6 +328,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
           <thead className="bg-leaf-50 text-leaf-900">
             <tr>
               <th className="p-2">Plot</th>
+              {design.layout.blocks ? <th className="p-2">Replicate</th> : null}
               <th className="p-2">Block</th>
               {design.factor ? <th className="p-2">{design.factor.name}</th> : null}
               <th className="p-2">Entry</th>
@@ -236,6 +340,7 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
             {plots.map((p) => (
               <tr key={p.id} className="border-t border-leaf-50">
                 <td className="p-2 font-semibold">{p.plotNumber}</td>
+                {design.layout.blocks ? <td className="p-2">{p.replicate ?? '—'}</td> : null}
                 <td className="p-2">{p.block}</td>
                 {design.factor ? <td className="p-2">{p.treatment}</td> : null}
                 <td className="p-2">
@@ -268,7 +373,10 @@ export function Component() {
             design={design}
             slug={slug}
           />
-          <PlotPlan key={design.layout.generatedAt ?? 'none'} design={design} slug={slug} />
+          <div className="space-y-4">
+            <BlockBalance design={design} />
+            <PlotPlan key={design.layout.generatedAt ?? 'none'} design={design} slug={slug} />
+          </div>
         </div>
       )}
     </DesignPage>
