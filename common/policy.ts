@@ -123,7 +123,14 @@ export const permissionTable: Record<TrialAction, Rule & { note: string }> = {
  * A group (an organisation owning several trials) has roles of its own; they grant nothing
  * inside a trial, where the trial's roles decide.
  */
-export const groupActions = ['register.read', 'register.edit', 'group.trial.create'] as const;
+export const groupActions = [
+  'register.read',
+  'register.edit',
+  'group.trial.create',
+  'seed.read',
+  'seed.edit',
+  'seed.request',
+] as const;
 export type GroupAction = (typeof groupActions)[number];
 
 export const groupPermissionTable: Record<
@@ -145,7 +152,36 @@ export const groupPermissionTable: Record<
     member: false,
     note: 'start a trial owned by the group',
   },
+  'seed.read': {
+    coordinator: true,
+    member: true,
+    note: 'seed lots, germination tests and the stand of the plots sown from each lot',
+  },
+  'seed.edit': {
+    coordinator: true,
+    member: false,
+    note: 'lots, germination tests, the germination threshold, offers of seed and answering requests',
+  },
+  'seed.request': {
+    coordinator: true,
+    member: true,
+    note: 'ask for a packet of offered seed (anyone with a confirmed e-mail too, when the group allows)',
+  },
 };
+
+/**
+ * Asking for offered seed: the group's people, and anyone signed in with a confirmed e-mail
+ * when the group opens its offers to them.
+ */
+export function canRequestSeed(
+  actor: Actor | null,
+  role: GroupRole | null,
+  group: { requestsOpen: boolean },
+  emailVerified: boolean,
+): boolean {
+  if (canGroup(actor, 'seed.request', role)) return true;
+  return actor !== null && group.requestsOpen && emailVerified;
+}
 
 export function canGroup(
   actor: Actor | null,
@@ -162,7 +198,8 @@ export function groupPermissionTableMarkdown(): string {
   const yes = (b: boolean) => (b ? 'yes' : '—');
   const rows = groupActions.map((a) => {
     const r = groupPermissionTable[a];
-    return `| \`${a}\` | ${yes(r.coordinator)} | ${yes(r.member)} | — | yes | ${r.note} |`;
+    const anyone = a === 'seed.request' ? 'confirmed e-mail, if the group allows' : '—';
+    return `| \`${a}\` | ${yes(r.coordinator)} | ${yes(r.member)} | ${anyone} | yes | ${r.note} |`;
   });
   return [
     '| group action | coordinator | member | anyone | admin | what it covers |',

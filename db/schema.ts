@@ -13,6 +13,7 @@ import type {
 import type { unitSystems } from '../common/contracts/me';
 import type { groupRoles, varietyTypes } from '../common/contracts/varieties';
 import type { photoSubjects } from '../common/contracts/photos';
+import type { AmountUnit, OfferStatus, SeedRequestStatus } from '../common/contracts/seed';
 import type {
   auditActions,
   auditTables,
@@ -162,6 +163,8 @@ export interface EntriesTable extends Written {
   no_fertilizer: Generated<boolean>;
   /** The register variety this entry grows (in the trial's group's register). */
   variety_id: Generated<string | null>;
+  /** The lot of that variety the entry was sown from (cleared when the variety changes). */
+  lot_id: Generated<string | null>;
 }
 
 /** An organisation owning several trials (a seed library, a grower network). */
@@ -169,6 +172,10 @@ export interface GroupsTable {
   id: Generated<string>;
   slug: string;
   name: string;
+  /** A lot whose newest germination test is below this is flagged. */
+  germination_threshold_percent: Generated<number>;
+  /** Anyone signed in with a confirmed e-mail may ask for offered seed, not only members. */
+  seed_requests_open: Generated<boolean>;
   created_at: Generated<Date>;
   updated_at: Generated<Date>;
   created_by: string | null;
@@ -492,6 +499,55 @@ export interface RequestRateWindowsTable {
   hits: number;
 }
 
+export interface SeedLotsTable extends Written {
+  id: Generated<string>;
+  variety_id: string;
+  label: string;
+  source: Generated<string>;
+  harvest_year: number | null;
+  /** Grams or a count of seeds, as amount_unit says. */
+  amount: number | null;
+  amount_unit: AmountUnit;
+  storage_place: Generated<string>;
+  notes: Generated<string>;
+}
+
+export interface GerminationTestsTable {
+  id: Generated<string>;
+  lot_id: string;
+  tested_on: DateText;
+  seeds_tested: number;
+  seeds_germinated: number;
+  days: number;
+  notes: Generated<string>;
+  created_at: Generated<Date>;
+  created_by: string | null;
+}
+
+export interface SeedOffersTable extends Written {
+  id: Generated<string>;
+  variety_id: string;
+  lot_id: string;
+  packets_offered: number;
+  packets_left: number;
+  note: Generated<string>;
+  status: Generated<OfferStatus>;
+}
+
+export interface SeedRequestsTable {
+  id: Generated<string>;
+  offer_id: string;
+  requester_id: string;
+  ship_to: string;
+  message: Generated<string>;
+  status: Generated<SeedRequestStatus>;
+  answer: Generated<string>;
+  answered_at: Timestamp | null;
+  answered_by: string | null;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -523,6 +579,10 @@ export interface Database {
   groups: GroupsTable;
   group_members: GroupMembersTable;
   varieties: VarietiesTable;
+  seed_lots: SeedLotsTable;
+  germination_tests: GerminationTestsTable;
+  seed_offers: SeedOffersTable;
+  seed_requests: SeedRequestsTable;
 }
 
 export type Trial = Selectable<TrialsTable>;

@@ -3,6 +3,7 @@ import path from 'node:path';
 import express, { type Router } from 'express';
 import helmet from 'helmet';
 import compression from 'compression';
+import { entryLotsRouter, seedRouter, varietySeedRouter } from './seed/seed-router';
 import { pinoHttp } from 'pino-http';
 import { toNodeHandler } from 'better-auth/node';
 import { projectRoot } from './env';
@@ -64,6 +65,9 @@ export function apiMounts(deps: AppDeps): [string, Router][] {
     ['/api/trials/:slug/comparison', comparisonRouter(deps)],
     ['/api/groups', groupsRouter(deps)],
     ['/api/varieties', varietiesRouter(deps)],
+    ['/api/varieties/:slug/seed', varietySeedRouter(deps)],
+    ['/api/seed', seedRouter(deps)],
+    ['/api/trials/:slug/entry-lots', entryLotsRouter(deps)],
   ];
 }
 

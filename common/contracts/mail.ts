@@ -8,6 +8,7 @@ export const mailKinds = [
   'sign_up_attempt',
   'follow_confirmation',
   'publish_notice',
+  'seed_request_answer',
 ] as const;
 export type MailKind = (typeof mailKinds)[number];
 
@@ -18,6 +19,7 @@ export const mailKindLabels: Record<MailKind, string> = {
   sign_up_attempt: 'Sign-up notice',
   follow_confirmation: 'Follow confirmation',
   publish_notice: 'Results notice',
+  seed_request_answer: 'Seed request answer',
 };
 
 /** pending: queued, not yet accepted by the relay (retried with growing waits); failed: given up. */

@@ -10,6 +10,7 @@ import {
   canGroup,
   canInstance,
   canRemoveMember,
+  canRequestSeed,
   groupActions,
   groupPermissionTable,
   groupPermissionTableMarkdown,
@@ -145,6 +146,20 @@ describe('group actions', () => {
     expect(canGroup(member, 'register.read', null)).toBe(false);
     expect(canGroup(null, 'register.read', null)).toBe(false);
     expect(canGroup(admin, 'register.edit', null)).toBe(true);
+  });
+
+  it('lets coordinators keep and offer seed, members read lots and ask for packets', () => {
+    expect(canGroup(member, 'seed.read', 'member')).toBe(true);
+    expect(canGroup(member, 'seed.edit', 'member')).toBe(false);
+    expect(canGroup(member, 'seed.edit', 'coordinator')).toBe(true);
+    expect(canGroup(member, 'seed.read', null)).toBe(false);
+    const closed = { requestsOpen: false };
+    const open = { requestsOpen: true };
+    expect(canRequestSeed(member, 'member', closed, false)).toBe(true);
+    expect(canRequestSeed(member, null, closed, true)).toBe(false);
+    expect(canRequestSeed(member, null, open, true)).toBe(true);
+    expect(canRequestSeed(member, null, open, false)).toBe(false);
+    expect(canRequestSeed(null, null, open, false)).toBe(false);
   });
 
   it('has one README row per group action that agrees with the policy', () => {

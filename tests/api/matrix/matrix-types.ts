@@ -73,3 +73,17 @@ export const recordWrite = (ok = 201): Record<Caller, number> => ({
   lead: ok,
   admin: ok,
 });
+
+/** A group's coordinators only: its members (the trial's lead too) 403, outside the group 404. */
+export const coordinatorOnly = (ok: number) => ({
+  expect: {
+    anonymous: 404,
+    viewer: 403,
+    contributor: 403,
+    growerInSite: 403,
+    growerOtherSite: 403,
+    lead: 403,
+    admin: ok,
+  } satisfies Record<Caller, number>,
+  expectExtra: { coordinator: ok, outsider: 404 } satisfies Partial<Record<ExtraCaller, number>>,
+});

@@ -4,6 +4,7 @@
  * The trial is unpublished, so its varieties are hidden from anyone outside the group.
  */
 import type { Caller, ExtraCaller, MatrixRow } from './matrix-types';
+import { coordinatorOnly } from './matrix-types';
 
 const signedIn = (ok: number): Record<Caller, number> => ({
   anonymous: 401,
@@ -19,19 +20,6 @@ const hiddenFromOutsider = { coordinator: 200, outsider: 404 } satisfies Record<
   ExtraCaller,
   number
 >;
-/** Coordinators only; members (the trial's lead too) 403, outside the group 404. */
-const coordinatorOnly = (ok: number) => ({
-  expect: {
-    anonymous: 404,
-    viewer: 403,
-    contributor: 403,
-    growerInSite: 403,
-    growerOtherSite: 403,
-    lead: 403,
-    admin: ok,
-  },
-  expectExtra: { coordinator: ok, outsider: 404 },
-});
 
 let made = 0;
 
