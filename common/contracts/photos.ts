@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { calendarDate } from '../calendar-date';
+import { blankAsAbsent, blankAsNull } from './typed-input';
 
 /** What a photo shows; "measurement" means a ruler or scale is in view. */
 export const photoSubjects = ['plant', 'fruit', 'leaf', 'damage', 'measurement'] as const;
@@ -72,6 +73,26 @@ export const updatePhotoBody = z
   })
   .strict();
 export type UpdatePhotoBody = z.infer<typeof updatePhotoBody>;
+
+/**
+ * The tag fields of the upload and edit forms, as typed (text; blank for "not said"). The
+ * output is an edit's body; an upload sends the same values as multipart text.
+ */
+export const photoTagForm = z.object({
+  caption,
+  entryId: blankAsNull(z.uuid('Choose an entry from the list.').nullable()),
+  plotId: blankAsNull(z.uuid('Choose a plot from the list.').nullable()),
+  takenOn: blankAsAbsent(isoDate.optional()),
+  subject: blankAsNull(z.enum(photoSubjects).nullable()),
+});
+/** What the tag fields hold while a person types. */
+export interface PhotoTagText {
+  caption: string;
+  entryId: string;
+  plotId: string;
+  takenOn: string;
+  subject: PhotoSubject | '';
+}
 
 export const listPhotosQuery = z.object({
   entryId: z.uuid().optional(),

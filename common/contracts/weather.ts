@@ -105,6 +105,8 @@ export const weatherImportBody = z.object({
   dryRun: z.boolean().default(true),
 });
 export type WeatherImportBody = z.input<typeof weatherImportBody>;
+/** The import form: the same fields; whether it only checks is the button pressed. */
+export const weatherImportForm = weatherImportBody.omit({ dryRun: true });
 
 export const weatherImportRowError = z.object({
   /** Line in the file (the header is line 1). */

@@ -84,10 +84,14 @@ describe('photos in a real browser', () => {
       })),
     );
     await page.getByLabel('Choose photos').setInputFiles(files);
+    const photoItem = (i: number) =>
+      page.getByRole('listitem', { name: `Photo ${i + 1}: pod-${i + 1}.jpg` });
     for (let i = 0; i < 3; i++) {
-      await page.locator(`#item-${i}-caption`).fill(`Pod ${i + 1} of ${first!.name}, side view`);
+      await photoItem(i)
+        .getByLabel(/^Caption/)
+        .fill(`Pod ${i + 1} of ${first!.name}, side view`);
     }
-    await page.locator('#item-2-subject').selectOption('fruit');
+    await photoItem(2).getByLabel('Subject').selectOption('fruit');
 
     // About 60 KB/s up: each photo takes seconds, so progress must show between 0 and 100.
     const cdp = await context.newCDPSession(page);

@@ -1,11 +1,16 @@
-import { type Photo, photoSubjectLabels, type PhotoTagging } from '@common/contracts/photos';
+import {
+  type Photo,
+  photoSubjectLabels,
+  type PhotoTagging,
+  photoTagForm,
+} from '@common/contracts/photos';
 import { useEffect, useRef, useState } from 'react';
 import { Button } from '@/components/ui/button';
-import { ApiError } from '@/lib/api-client';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useDeletePhoto } from '../api/delete-photo';
 import { useSetCover } from '../api/set-cover';
 import { useUpdatePhoto } from '../api/update-photo';
-import { type PhotoTags, PhotoTagFields } from './photo-tag-fields';
+import { PhotoTagFields } from './photo-tag-fields';
 
 /**
  * One photo at display size over the page. Left and right arrow keys or a swipe move through
@@ -231,7 +236,7 @@ function PhotoDetails({
   );
 }
 
-function EditTags({
+export function EditTags({
   slug,
   photo,
   tagging,
@@ -243,54 +248,28 @@ function EditTags({
   onDone: () => void;
 }) {
   const update = useUpdatePhoto(slug);
-  const [tags, setTags] = useState<PhotoTags>({
+  const form = useContractForm(photoTagForm, {
     caption: photo.caption,
     entryId: photo.entryId ?? '',
     plotId: photo.plotId ?? '',
     takenOn: photo.takenOn ?? '',
     subject: photo.subject ?? '',
   });
-  const fieldErrors: Partial<Record<keyof PhotoTags, string>> = {};
-  if (update.error instanceof ApiError) {
-    for (const f of update.error.fields) {
-      const key = f.path.replace(/^body\./, '') as keyof PhotoTags;
-      fieldErrors[key] = f.message;
-    }
-  }
+  const onSubmit = submitTo(form, async (body) => {
+    await update.mutateAsync({ photoId: photo.id, body });
+    onDone();
+  });
+  const refusal = formRefusal(form);
   return (
-    <form
-      onSubmit={(e) => {
-        e.preventDefault();
-        update.mutate(
-          {
-            photoId: photo.id,
-            body: {
-              caption: tags.caption,
-              entryId: tags.entryId || null,
-              plotId: tags.plotId || null,
-              ...(tags.takenOn ? { takenOn: tags.takenOn } : {}),
-              subject: tags.subject || null,
-            },
-          },
-          { onSuccess: onDone },
-        );
-      }}
-    >
-      <PhotoTagFields
-        idPrefix={`edit-${photo.id}`}
-        tags={tags}
-        onChange={setTags}
-        tagging={tagging}
-        errors={fieldErrors}
-        dateHint="The day the photo was taken."
-      />
-      {update.error && Object.keys(fieldErrors).length === 0 ? (
+    <form noValidate aria-label="Photo tags" onSubmit={onSubmit}>
+      <PhotoTagFields form={form} tagging={tagging} dateHint="The day the photo was taken." />
+      {refusal ? (
         <p role="alert" className="mt-2 text-sm text-frost-600">
-          {update.error.message}
+          {refusal}
         </p>
       ) : null}
       <div className="mt-2 flex gap-2">
-        <Button type="submit" disabled={update.isPending}>
+        <Button type="submit" disabled={form.formState.isSubmitting}>
           Save tags
         </Button>
         <Button type="button" variant="ghost" onClick={onDone}>

@@ -1,5 +1,6 @@
 import { cautions } from '@common/cautions';
-import type { Photo, PhotoTagging } from '@common/contracts/photos';
+import { type Photo, type PhotoTagging, photoTagForm } from '@common/contracts/photos';
+import { z } from 'zod';
 import { useEffect, useRef, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -9,7 +10,8 @@ import { ApiError } from '@/lib/api-client';
 import { clientId } from '@/lib/client-id';
 import { usePhotoTagging } from '../api/get-photo-tagging';
 import { useUploadPhoto } from '../api/upload-photo';
-import { emptyTags, type PhotoTags, PhotoTagFields } from '../components/photo-tag-fields';
+import { emptyTags, PhotoTagFields } from '../components/photo-tag-fields';
+import { useContractForm } from '@/lib/contract-form';
 import { localToday } from '@common/calendar-date';
 
 type Status = 'ready' | 'waiting' | 'sending' | 'done' | 'failed' | 'cancelled';
@@ -20,11 +22,9 @@ interface Item {
   uploadId: string;
   file: File;
   preview: string;
-  tags: PhotoTags;
   status: Status;
   sent: number;
   error?: string;
-  fieldErrors?: Partial<Record<keyof PhotoTags, string>>;
   photo?: Photo;
 }
 
@@ -56,10 +56,17 @@ export function Component() {
   return <Uploader slug={slug} tagging={tagging.data} />;
 }
 
+/** The batch is one form: each photo's tags under its upload id, checked one photo at a time. */
+const batchForm = z.object({ photos: z.record(z.string(), photoTagForm) });
+/** A form path for one photo's tags (an upload id is letters, digits and dashes). */
+const tagsOf = (item: Item) => `photos.p${item.uploadId}` as const;
+
 function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
   const { uploadPhoto, finished } = useUploadPhoto(slug);
   const [items, setItems] = useState<Item[]>([]);
-  const [defaults, setDefaults] = useState<PhotoTags>(emptyTags);
+  // The tags for the next photos added: a form of its own that is never sent.
+  const defaults = useContractForm(photoTagForm, emptyTags);
+  const batch = useContractForm(batchForm, { photos: {} });
   const [running, setRunning] = useState(false);
   const controllers = useRef(new Map<string, AbortController>());
   const cancelAll = useRef(false);
@@ -86,7 +93,6 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
       uploadId: clientId(),
       file,
       preview: URL.createObjectURL(file),
-      tags: { ...defaults },
       status: file.size > limits.maxBytes ? 'failed' : 'ready',
       sent: 0,
       error:
@@ -94,33 +100,26 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
           ? `This file is ${megabytes(file.size)}; each photo can be at most ${megabytes(limits.maxBytes)}.`
           : undefined,
     }));
+    for (const item of added) batch.setValue(tagsOf(item), { ...defaults.getValues() });
     setItems((list) => [...list, ...added]);
   };
 
   const sendOne = async (item: Item): Promise<boolean> => {
-    if (!item.tags.caption.trim()) {
-      patch(item.key, {
-        status: 'failed',
-        error: 'Add a caption first.',
-        fieldErrors: {
-          caption: 'Describe the photo: the caption is its text for people who cannot see it.',
-        },
-      });
+    // The contract checks this photo's tags only; its messages show beside the fields.
+    if (!(await batch.trigger(tagsOf(item)))) {
+      patch(item.key, { status: 'failed', error: 'Complete the tags marked below first.' });
       return false;
     }
+    const tags = photoTagForm.parse(batch.getValues(tagsOf(item)));
     const controller = new AbortController();
     controllers.current.set(item.key, controller);
-    patch(item.key, { status: 'sending', sent: 0, error: undefined, fieldErrors: undefined });
+    patch(item.key, { status: 'sending', sent: 0, error: undefined });
     try {
       const photo = await uploadPhoto(
         slug,
         item.file,
         {
-          caption: item.tags.caption,
-          entryId: item.tags.entryId || undefined,
-          plotId: item.tags.plotId || undefined,
-          takenOn: item.tags.takenOn || undefined,
-          subject: item.tags.subject || undefined,
+          ...tags,
           today: localToday(),
           uploadId: item.uploadId,
         },
@@ -131,15 +130,14 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
       return true;
     } catch (err) {
       const cancelled = err instanceof ApiError && err.code === 'cancelled';
-      const fieldErrors: Partial<Record<keyof PhotoTags, string>> = {};
       if (err instanceof ApiError)
-        for (const f of err.fields)
-          fieldErrors[f.path.replace(/^body\./, '') as keyof PhotoTags] = f.message;
+        for (const [field, message] of Object.entries(err.fieldMessages))
+          if (field in emptyTags)
+            batch.setError(`${tagsOf(item)}.${field as keyof typeof emptyTags}`, { message });
       patch(item.key, {
         status: cancelled ? 'cancelled' : 'failed',
         sent: 0,
         error: cancelled ? undefined : err instanceof Error ? err.message : 'The upload failed.',
-        fieldErrors,
       });
       return false;
     } finally {
@@ -220,12 +218,7 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
         </h2>
         <p className="text-sm text-loam-700">Each photo can be changed below before it is sent.</p>
         <div className="mt-2">
-          <PhotoTagFields
-            idPrefix="defaults"
-            tags={defaults}
-            onChange={setDefaults}
-            tagging={tagging}
-          />
+          <PhotoTagFields form={defaults} tagging={tagging} />
         </div>
       </section>
 
@@ -340,11 +333,9 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
                   </div>
                   <div className="mt-2">
                     <PhotoTagFields
-                      idPrefix={`item-${n}`}
-                      tags={item.tags}
-                      onChange={(tags) => patch(item.key, { tags })}
+                      form={batch}
+                      name={tagsOf(item)}
                       tagging={tagging}
-                      errors={item.fieldErrors}
                       disabled={locked}
                     />
                   </div>
@@ -371,6 +362,7 @@ function Uploader({ slug, tagging }: { slug: string; tagging: PhotoTagging }) {
                         variant="ghost"
                         onClick={() => {
                           URL.revokeObjectURL(item.preview);
+                          batch.unregister(tagsOf(item));
                           setItems((list) => list.filter((i) => i.key !== item.key));
                         }}
                       >

@@ -1,23 +1,23 @@
 import { utcDateOf } from '@common/calendar-date';
-import { useLayoutEffect, useState } from 'react';
+import { followBody } from '@common/contracts/results';
+import { useLayoutEffect } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { ApiError } from '@/lib/api-client';
+import { FormMessage, TextField } from '@/components/ui/text-field';
+import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { removePrerenderedSheet } from '@/lib/prerendered-sheet';
 import { useFollowResults } from '../api/follow-results';
 import { usePublishedSheet } from '../api/get-published-sheet';
 import { useVersions } from '../api/get-versions';
 import { SheetView } from '../components/sheet-view';
 
-function FollowForm({ slug }: { slug: string }) {
+export function FollowForm({ slug }: { slug: string }) {
   const follow = useFollowResults(slug);
-  const [email, setEmail] = useState('');
-  const fieldError =
-    follow.error instanceof ApiError
-      ? (follow.error.fields.find((f) => f.path === 'body.email')?.message ?? follow.error.message)
-      : null;
+  const form = useContractForm(followBody, { email: '' });
+  const onSubmit = submitTo(form, ({ email }) => follow.mutateAsync(email));
+  const refusal = formRefusal(form);
   if (follow.isSuccess) {
     return (
       <p role="status" className="rounded-lg bg-leaf-50 p-3">
@@ -26,34 +26,21 @@ function FollowForm({ slug }: { slug: string }) {
     );
   }
   return (
-    <form
-      className="flex flex-col gap-2 sm:flex-row sm:items-end"
-      onSubmit={(e) => {
-        e.preventDefault();
-        follow.mutate(email);
-      }}
-    >
-      <label className="flex flex-1 flex-col text-sm font-medium">
-        E-mail me when new results are published
-        <input
+    <form className="space-y-2" noValidate onSubmit={onSubmit}>
+      <div className="flex flex-col gap-2 sm:flex-row sm:items-start">
+        <TextField
+          className="flex-1 text-sm"
+          label="E-mail me when new results are published"
           type="email"
-          required
           autoComplete="email"
-          value={email}
-          onChange={(e) => setEmail(e.target.value)}
-          aria-invalid={fieldError ? true : undefined}
-          aria-describedby={fieldError ? 'follow-error' : undefined}
-          className="mt-1 min-h-11 rounded-lg border border-leaf-300 px-3"
+          error={form.formState.errors.email?.message}
+          {...form.register('email')}
         />
-      </label>
-      <Button type="submit" disabled={follow.isPending}>
-        {follow.isPending ? 'Sending…' : 'Follow'}
-      </Button>
-      {fieldError ? (
-        <p id="follow-error" className="text-sm text-frost-600">
-          {fieldError}
-        </p>
-      ) : null}
+        <Button type="submit" className="sm:mt-7" disabled={form.formState.isSubmitting}>
+          {form.formState.isSubmitting ? 'Sending…' : 'Follow'}
+        </Button>
+      </div>
+      {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
     </form>
   );
 }
