@@ -11,6 +11,7 @@ import {
   varietyTestSchema,
 } from './analysis';
 import { entryTypes, traitDirections, traitDisplayUnits, trialDesigns } from './trials';
+import { blankAsNull, typedNumber } from './typed-input';
 
 export const licenses = ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'all-rights-reserved'] as const;
 export const licenseLabels: Record<(typeof licenses)[number], string> = {
@@ -27,10 +28,14 @@ export const resultVersionParams = z.object({
   version: z.coerce.number().int('Versions are whole numbers.').min(1, 'Versions start at 1.'),
 });
 
+const rankingWeight = z
+  .number({ error: 'Enter a weight from 0 to 10.' })
+  .min(0, 'Weights are 0 or more.')
+  .max(10, 'Weights are at most 10.');
 export const sheetTraitSchema = z.object({
   key: z.string().regex(/^[a-z][a-z0-9_]{0,39}$/, 'Not a trait key.'),
   basis: z.enum(analysisBases).default('plot'),
-  weight: z.number().min(0, 'Weights are 0 or more.').max(10, 'Weights are at most 10.').default(1),
+  weight: rankingWeight.default(1),
 });
 export type SheetTrait = z.infer<typeof sheetTraitSchema>;
 
@@ -47,13 +52,51 @@ export const saveSheetBody = z.object({
     z.string().max(2000, 'Keep each entry note under 2,000 characters.'),
   ),
   coverPhotos: z.record(z.uuid(), z.uuid()),
-  alpha: z.number().gt(0, 'Alpha is more than 0.').lt(0.5, 'Alpha is less than 0.5.'),
+  alpha: z
+    .number({ error: 'Enter a significance level such as 0.05.' })
+    .gt(0, 'Alpha is more than 0.')
+    .lt(0.5, 'Alpha is less than 0.5.'),
   letters: z.enum(['hsd', 'lsd']),
   /** The model every trait is analysed with; null (or left out): the one the design suggests. */
   model: z.enum(analysisModels).nullable().default(null),
   license: z.enum(licenses),
 });
 export type SaveSheetBody = z.infer<typeof saveSheetBody>;
+
+/** Text fields left blank stand for "none" (no note, no chosen cover photo). */
+const withoutBlanks = (texts: Record<string, string>) =>
+  Object.fromEntries(Object.entries(texts).filter(([, text]) => text !== ''));
+/**
+ * The sheet editor's form: α and the weights as typed, a note and a cover choice for every
+ * entry (blank: none), and whether the lead writes the methods; otherwise they are generated
+ * (sent as null).
+ */
+export const saveSheetForm = z
+  .object({
+    summary: saveSheetBody.shape.summary,
+    ownMethods: z.boolean(),
+    methods: saveSheetBody.shape.methods.unwrap(),
+    traits: z
+      .array(sheetTraitSchema.extend({ weight: typedNumber(rankingWeight) }))
+      .min(1, 'Choose at least one trait.')
+      .max(20, 'At most 20 traits.'),
+    entryNotes: z
+      .record(z.string(), z.string())
+      .transform(withoutBlanks)
+      .pipe(saveSheetBody.shape.entryNotes),
+    coverPhotos: z
+      .record(z.string(), z.string())
+      .transform(withoutBlanks)
+      .pipe(saveSheetBody.shape.coverPhotos),
+    alpha: typedNumber(saveSheetBody.shape.alpha),
+    letters: saveSheetBody.shape.letters,
+    model: blankAsNull(saveSheetBody.shape.model),
+    license: saveSheetBody.shape.license,
+  })
+  .transform(({ ownMethods, methods, ...body }) => ({
+    ...body,
+    methods: ownMethods ? methods : null,
+  }));
 
 export const sheetDraftSchema = saveSheetBody.extend({
   generatedMethods: z.string(),

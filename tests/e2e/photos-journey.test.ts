@@ -75,7 +75,10 @@ describe('photos in a real browser', () => {
     await page.getByRole('heading', { level: 1, name: 'Upload photos' }).waitFor();
 
     // Tag the batch with one entry before choosing the files.
-    await page.locator('#defaults-entry').selectOption(first!.id);
+    await page
+      .getByRole('region', { name: 'Tags for the next photos you add' })
+      .getByLabel('Entry')
+      .selectOption(first!.id);
     const files = await Promise.all(
       ['#b0413a', '#3a8f4b', '#c9a227'].map(async (c, i) => ({
         name: `pod-${i + 1}.jpg`,

@@ -1,5 +1,5 @@
 /**
- * The lead's forms' contracts (design, one day of weather): typed text becomes the body the server takes, lengths typed in
+ * The lead's forms' contracts (design, one day of weather, the results sheet): typed text becomes the body the server takes, lengths typed in
  * the unit shown beside the field arrive in millimetres, blanks mean "none", and each problem
  * carries the contract's own message on the field the form shows.
  * Inch: exactly 25.4 mm (international yard and pound agreement of 1959; NIST SP 811, B.8);
@@ -15,6 +15,7 @@ import {
   siteForm,
   trialSettingsForm,
 } from '../../common/contracts/design';
+import { saveSheetForm } from '../../common/contracts/results';
 import { weatherDayForm } from '../../common/contracts/weather';
 
 const problems = (r: {
@@ -244,6 +245,66 @@ describe('the one-day weather form', () => {
     ).toEqual([
       ['rainMm', 'Rain cannot be below 0.'],
       ['tminC', 'The low is above the high: swap them?'],
+    ]);
+  });
+});
+
+describe('the results sheet form', () => {
+  const e1 = '00000000-0000-4000-8000-0000000000e1';
+  const e2 = '00000000-0000-4000-8000-0000000000e2';
+  const cover = '00000000-0000-4000-8000-0000000000f1';
+  const sheet = {
+    summary: 'Marrowdale Long led at both gardens.',
+    ownMethods: false,
+    methods: 'Generated text the lead did not change.',
+    traits: [
+      { key: 'marketable_mass', basis: 'm2', weight: '2,5' },
+      { key: 'plant_height', basis: 'plot', weight: '1' },
+    ],
+    entryNotes: { [e1]: 'Spines on the stems: wear gloves.', [e2]: '' },
+    coverPhotos: { [e1]: '', [e2]: cover },
+    alpha: '0.05',
+    letters: 'hsd',
+    model: '',
+    license: 'CC-BY-4.0',
+  };
+
+  it('reads the weights and alpha as typed (a decimal comma as a point), blanks as none', () => {
+    expect(saveSheetForm.parse(sheet)).toEqual({
+      summary: 'Marrowdale Long led at both gardens.',
+      methods: null,
+      traits: [
+        { key: 'marketable_mass', basis: 'm2', weight: 2.5 },
+        { key: 'plant_height', basis: 'plot', weight: 1 },
+      ],
+      entryNotes: { [e1]: 'Spines on the stems: wear gloves.' },
+      coverPhotos: { [e2]: cover },
+      alpha: 0.05,
+      letters: 'hsd',
+      model: null,
+      license: 'CC-BY-4.0',
+    });
+    expect(saveSheetForm.parse({ ...sheet, ownMethods: true }).methods).toBe(
+      'Generated text the lead did not change.',
+    );
+  });
+
+  it("answers a weight or alpha out of range with the contract's message on that field", () => {
+    const r = saveSheetForm.safeParse({
+      ...sheet,
+      traits: [
+        { key: 'plant_height', basis: 'plot', weight: '12' },
+        { ...sheet.traits[0], weight: 'x' },
+      ],
+      alpha: '0.5',
+    });
+    expect(problems(r)).toEqual([
+      ['traits.0.weight', 'Weights are at most 10.'],
+      ['traits.1.weight', 'Enter a weight from 0 to 10.'],
+      ['alpha', 'Alpha is less than 0.5.'],
+    ]);
+    expect(problems(saveSheetForm.safeParse({ ...sheet, traits: [] }))).toEqual([
+      ['traits', 'Choose at least one trait.'],
     ]);
   });
 });
