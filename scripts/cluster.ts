@@ -49,10 +49,18 @@ function sharedSecret(): string {
 }
 
 let cluster: Cluster | undefined;
-let stopping = false;
+let stoppingSince: number | undefined;
+/** A signal this soon after the first is the same one delivered again. */
+const SAME_SIGNAL_MS = 3000;
 async function stop(code: number) {
-  if (stopping) process.exit(code);
-  stopping = true;
+  if (stoppingSince !== undefined) {
+    // One Ctrl+C (or a signal to the process group) reaches this process twice: from the
+    // terminal and relayed by tsx. Only a later one cuts the orderly stop short.
+    if (Date.now() - stoppingSince < SAME_SIGNAL_MS) return;
+    cluster?.kill();
+    process.exit(code);
+  }
+  stoppingSince = Date.now();
   console.log('\nStopping the cluster…');
   await cluster?.stop();
   process.exit(code);
@@ -71,7 +79,7 @@ async function main() {
     const server = spawnSync('npm', ['run', '--silent', 'build:server'], { stdio: 'inherit' });
     if (server.status !== 0) throw new Error('The server build failed.');
   }
-  if (stopping) return;
+  if (stoppingSince !== undefined) return;
 
   const ports = Array.from(
     { length: settings.CLUSTER_INSTANCES },
@@ -88,7 +96,7 @@ async function main() {
     authSecret: sharedSecret(),
     log: (line) => console.log(line),
   });
-  if (stopping) return;
+  if (stoppingSince !== undefined) return;
 
   const db = createDb(createPool(cluster.databaseUrl, 2));
   try {

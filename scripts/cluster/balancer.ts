@@ -98,6 +98,8 @@ export interface Balancer {
   /** The instances nginx sends requests to under the list in use. */
   inService(): Upstream[];
   stop(): Promise<void>;
+  /** Stops nginx without waiting (its fast shutdown), for a second Ctrl+C. */
+  kill(): void;
 }
 
 function portAnswers(port: number): Promise<boolean> {
@@ -183,6 +185,9 @@ export async function startBalancer(config: BalancerConfig): Promise<Balancer> {
         });
       queue = reload;
       return reload;
+    },
+    kill() {
+      if (child.exitCode === null) child.kill('SIGTERM');
     },
     async stop() {
       if (child.exitCode === null) {

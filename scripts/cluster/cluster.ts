@@ -67,6 +67,8 @@ export interface Cluster {
   /** The instances nginx's upstream list in use sends requests to. */
   inBalancer(): AppInstance[];
   stop(): Promise<void>;
+  /** Stops everything at once, waiting for nothing (the database stops immediately). */
+  kill(): void;
 }
 
 const BUCKET = 'rowtally-photos';
@@ -258,6 +260,11 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
       },
       inBalancer: () => balancer.inService().map((u) => instances.find((i) => i.port === u.port)!),
       stop: unwind,
+      kill() {
+        for (const instance of instances) instance.process?.kill('SIGKILL');
+        balancer.kill();
+        if (pg.started) stopPg(pgDataDir, log, 'immediate');
+      },
     };
   } catch (err) {
     await unwind();
