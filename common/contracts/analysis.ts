@@ -153,7 +153,18 @@ export const trialAnalysisQuery = z.object({
 export type TrialAnalysisQuery = z.input<typeof trialAnalysisQuery>;
 
 const nullableNumber = z.number().nullable();
-const anovaSources = ['site', 'block', 'variety', 'site:variety', 'residual', 'total'] as const;
+/** Sources of an analysis of variance; a two-factor trial adds its treatment's lines. */
+export const anovaSources = [
+  'site',
+  'block',
+  'treatment',
+  'block:treatment',
+  'variety',
+  'variety:treatment',
+  'site:variety',
+  'residual',
+  'total',
+] as const;
 
 export const anovaLineSchema = z.object({
   source: z.enum(anovaSources),
@@ -266,9 +277,51 @@ export const plotValueSchema = z.object({
   block: z.number().int(),
   entry: z.string(),
   entryCode: z.string(),
+  /** The plot's level of the second factor (two-factor trials only). */
+  treatment: z.string().nullable().optional(),
   value: z.number(),
 });
 export type PlotValue = z.infer<typeof plotValueSchema>;
+
+const simpleEffectSchema = z.object({
+  /** The level the comparison is made within (a variety, or a treatment level). */
+  within: z.string(),
+  a: z.string(),
+  b: z.string(),
+  difference: z.number(),
+  se: z.number(),
+  df: z.number(),
+  t: z.number(),
+  p: z.number(),
+});
+const meanWithSe = { mean: z.number(), se: z.number(), df: z.number() };
+
+/**
+ * A two-factor trial (treatment × variety): the layout, the cell and treatment means (least
+ * squares, with their SE and df) and the simple effects of each factor within the other.
+ */
+export const twoFactorSchema = z.object({
+  /** The treatment's name (e.g. Fertilizer) and its levels in the lead's order. */
+  factor: z.string(),
+  levels: z.array(z.string()),
+  layout: z.enum(['factorial', 'split-plot']),
+  cellMeans: z.array(z.object({ variety: z.string(), treatment: z.string(), ...meanWithSe })),
+  treatmentMeans: z.array(z.object({ treatment: z.string(), ...meanWithSe })),
+  varietyMeans: z.array(z.object({ variety: z.string(), ...meanWithSe })),
+  treatmentWithinVariety: z.array(simpleEffectSchema),
+  varietyWithinTreatment: z.array(simpleEffectSchema),
+});
+export type TwoFactor = z.infer<typeof twoFactorSchema>;
+
+/** The strata of a two-factor analysis in words, for the page and the sheet. */
+export function twoFactorNote(t: Pick<TwoFactor, 'layout' | 'factor'>, model: AnalysisModel) {
+  const f = t.factor.toLowerCase();
+  if (model === 'mixed')
+    return `Split plot, mixed model (REML): blocks and main plots (block:treatment) random; ${f}, variety and their interaction fixed, tested by Wald F with Satterthwaite's df.`;
+  return t.layout === 'split-plot'
+    ? `Split plot: ${f} is on main plots and is tested against the main-plot error (block × ${f}); variety and variety × ${f} are tested against the subplot error (residual).`
+    : `Factorial in complete blocks: every line is tested against the residual; sequential sums of squares in the order block, ${f}, variety, variety × ${f}.`;
+}
 
 export const trialAnalysisSchema = analysisResultSchema.extend({
   traitKey: z.string(),
@@ -285,6 +338,8 @@ export const trialAnalysisSchema = analysisResultSchema.extend({
   plotValues: z.array(plotValueSchema),
   /** Entry name → code, for compact tables. */
   entryCodes: z.record(z.string(), z.string()),
+  /** Two-factor trials only: the treatment × variety analysis. */
+  twoFactor: twoFactorSchema.optional(),
 });
 export type TrialAnalysis = z.infer<typeof trialAnalysisSchema>;
 

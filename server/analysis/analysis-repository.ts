@@ -14,6 +14,7 @@ export function trialPlots(db: DB, trialId: string) {
       'p.plot_number',
       'p.block',
       'p.replicate',
+      'p.treatment',
       'p.site_id',
       's.name as site_name',
       'p.entry_id',

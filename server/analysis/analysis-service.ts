@@ -14,8 +14,8 @@ import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial, TrialDesign } from '../../db/schema';
 import { AppError } from '../lib/app-error';
-import { trialForAction } from '../trials/trials-service';
-import type { AnalysisResult as EngineResult, PlotRow } from './engine/analyze';
+import { trialFactor, trialForAction } from '../trials/trials-service';
+import type { AnalysisResult as EngineResult, PlotRow, TwoFactorResult } from './engine/analyze';
 import { cachedForTrialData } from './analysis-cache';
 import { AnalysisStopped, runAnalysis } from './analysis-pool';
 import type { AnalysisTask } from './analysis-worker';
@@ -48,7 +48,9 @@ function finite<T>(value: T): T {
  * Runs the engine off the request thread and turns what stopped it into an answer that names
  * the limit: too many rows 413, too many entries or too long 422, a full queue 503.
  */
-async function analyse(task: AnalysisTask): Promise<EngineResult> {
+async function analyse(task: AnalysisTask & { kind: 'csv' | 'rows' }): Promise<EngineResult>;
+async function analyse(task: AnalysisTask & { kind: 'two-factor' }): Promise<TwoFactorResult>;
+async function analyse(task: AnalysisTask): Promise<EngineResult | TwoFactorResult> {
   let outcome;
   try {
     outcome = await runAnalysis(task);
@@ -181,6 +183,63 @@ async function analyseTrait(
     plot: String(plot.plot_number),
     value,
   }));
+  const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));
+  const plotValues = built.values.map(({ plot, value }) => ({
+    plotId: plot.id,
+    plotNumber: plot.plot_number,
+    site: plot.site_name,
+    block: plot.block,
+    entry: plot.entry_name,
+    entryCode: plot.entry_code,
+    ...(plot.treatment != null ? { treatment: plot.treatment } : {}),
+    value,
+  }));
+  const described = {
+    traitKey: trait.key,
+    traitLabel: trait.label,
+    quantityKind: trait.quantityKind,
+    direction: trait.direction,
+    basis,
+    unit: built.unit,
+    decimals: built.decimals,
+    valueNote: built.valueNote,
+    plotValues,
+    entryCodes,
+  };
+  const factor = trialFactor(trial);
+  if (factor) {
+    const order = new Map(factor.levels.map((l, i) => [l, i]));
+    // The lead's order of levels and the entries' codes fix the order of every table.
+    const twoFactorRows = built.values
+      .map(({ plot, value }) => ({
+        variety: plot.entry_name,
+        block: String(plot.block),
+        treatment: plot.treatment ?? '',
+        plot: String(plot.plot_number),
+        value,
+        key: [order.get(plot.treatment ?? '') ?? -1, plot.entry_code] as const,
+      }))
+      .sort((a, b) => a.key[0] - b.key[0] || a.key[1].localeCompare(b.key[1]))
+      .map(({ key: _key, ...row }) => row);
+    const result = await analyse({
+      kind: 'two-factor',
+      rows: twoFactorRows,
+      options: {
+        trait: trait.key,
+        alpha: options.alpha,
+        letters: options.letters,
+        direction: trait.direction,
+        model: options.model ?? 'anova',
+        splitPlot: factor.arrangement === 'split_plot',
+        factor: factor.name,
+      },
+    });
+    return finite({
+      ...twoFactorTrialResult(result, plotValues, factor),
+      warnings: [...built.warnings, ...result.warnings],
+      ...described,
+    });
+  }
   const result = await analyse({
     kind: 'rows',
     rows,
@@ -194,30 +253,87 @@ async function analyseTrait(
       model: options.model ?? 'anova',
     },
   });
-  const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));
   return finite({
     ...result,
     warnings: [...built.warnings, ...result.warnings],
-    traitKey: trait.key,
-    traitLabel: trait.label,
-    quantityKind: trait.quantityKind,
-    direction: trait.direction,
-    basis,
-    unit: built.unit,
-    decimals: built.decimals,
-    valueNote: built.valueNote,
-    plotValues: built.values.map(({ plot, value }) => ({
-      plotId: plot.id,
-      plotNumber: plot.plot_number,
-      site: plot.site_name,
-      block: plot.block,
-      entry: plot.entry_name,
-      entryCode: plot.entry_code,
-      value,
-    })),
-    entryCodes,
+    ...described,
   });
 }
+
+/**
+ * A two-factor analysis in the shape of every trial analysis: the variety means (averaged over
+ * the treatment levels, ranked and lettered on the subplot or residual error) stand where a
+ * one-factor trial's means stand, so the sheet and the ranking read them the same way; the
+ * cells, treatment means and simple effects travel in `twoFactor`.
+ */
+function twoFactorTrialResult(
+  r: TwoFactorResult,
+  values: { entry: string; value: number }[],
+  factor: { name: string; levels: string[] },
+): Omit<TrialAnalysis, keyof typeof describedKeys | 'warnings'> {
+  const byVariety = new Map<string, number[]>();
+  for (const v of values) byVariety.set(v.entry, [...(byVariety.get(v.entry) ?? []), v.value]);
+  return {
+    design: 'rcbd',
+    trait: r.trait,
+    alpha: r.alpha,
+    n: r.n,
+    grandMean: r.grandMean,
+    cvPercent: r.cvPercent,
+    anova: r.anova,
+    means: r.means.map((m) => {
+      const xs = byVariety.get(m.variety) ?? [];
+      const mean = xs.reduce((s, x) => s + x, 0) / xs.length;
+      const sd =
+        xs.length > 1
+          ? Math.sqrt(xs.reduce((s, x) => s + (x - mean) ** 2, 0) / (xs.length - 1))
+          : null;
+      return {
+        ...m,
+        sd,
+        cvPercent: sd !== null && mean !== 0 ? (100 * sd) / Math.abs(mean) : null,
+        min: Math.min(...xs),
+        max: Math.max(...xs),
+      };
+    }),
+    lsd: r.lsd,
+    hsd: r.hsd,
+    letters: r.letters,
+    errorTerm: r.errorTerm,
+    method: r.method,
+    model: r.model,
+    adjustedMeans: r.varietyMeans.map(({ variety, mean, se }) => ({ variety, mean, se })),
+    counts: {
+      entries: r.counts.entries,
+      sites: 1,
+      blocks: r.counts.blocks,
+      rows: r.counts.rows,
+      missingPlots: r.counts.missingPlots,
+    },
+    twoFactor: {
+      factor: factor.name,
+      levels: factor.levels,
+      layout: r.layout,
+      cellMeans: r.adjustedMeans,
+      treatmentMeans: r.treatmentMeans,
+      varietyMeans: r.varietyMeans,
+      treatmentWithinVariety: r.treatmentWithinVariety,
+      varietyWithinTreatment: r.varietyWithinTreatment,
+    },
+  };
+}
+const describedKeys = {
+  traitKey: 1,
+  traitLabel: 1,
+  quantityKind: 1,
+  direction: 1,
+  basis: 1,
+  unit: 1,
+  decimals: 1,
+  valueNote: 1,
+  plotValues: 1,
+  entryCodes: 1,
+} as const;
 
 export async function trialAnalysis(
   db: DB,

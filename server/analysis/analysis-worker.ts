@@ -9,15 +9,22 @@ import {
   AnalysisLimitError,
   analyzeCsv,
   analyzePlotRows,
+  analyzeTwoFactorRows,
   type AnalysisResult,
   type AnalyzeCsvOptions,
   type AnalyzeOptions,
   type PlotRow,
+  type TwoFactorResult,
 } from './engine/analyze.js';
 
 export type AnalysisTask = (
   | { kind: 'csv'; csv: string; options: AnalyzeCsvOptions }
   | { kind: 'rows'; rows: PlotRow[]; options: AnalyzeOptions }
+  | {
+      kind: 'two-factor';
+      rows: PlotRow[];
+      options: AnalyzeOptions & { splitPlot: boolean; factor: string };
+    }
 ) & {
   /** Told when the thread starts on the task (the pool's time limit starts then). */
   started?: MessagePort;
@@ -25,7 +32,7 @@ export type AnalysisTask = (
 
 /** Errors cross the thread boundary as plain data, so the caller can tell them apart. */
 export type AnalysisOutcome =
-  | { ok: true; result: AnalysisResult }
+  | { ok: true; result: AnalysisResult | TwoFactorResult }
   | { ok: false; kind: 'input'; message: string }
   | {
       ok: false;
@@ -42,7 +49,9 @@ export default function runAnalysis(task: AnalysisTask): AnalysisOutcome {
     const result =
       task.kind === 'csv'
         ? analyzeCsv(task.csv, task.options)
-        : analyzePlotRows(task.rows, task.options);
+        : task.kind === 'two-factor'
+          ? analyzeTwoFactorRows(task.rows, task.options)
+          : analyzePlotRows(task.rows, task.options);
     return { ok: true, result };
   } catch (err) {
     if (err instanceof AnalysisLimitError)

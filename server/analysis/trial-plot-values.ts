@@ -20,6 +20,8 @@ export interface PlotRecord {
   block: number;
   /** Incomplete blocks and networks: the replicate the block belongs to. */
   replicate?: number | null;
+  /** The plot's level of the second factor (null in a one-factor trial). */
+  treatment?: string | null;
   site_id: string;
   site_name: string;
   entry_id: string;

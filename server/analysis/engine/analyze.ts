@@ -793,11 +793,19 @@ export interface TwoFactorResult extends Omit<TwoFactorAnalysis, 'cellMeans' | '
   grandMean: number;
   cvPercent: number | null;
   letters: SeparationMethod;
-  model: 'anova';
+  model: 'anova' | 'mixed';
+  /** 'means' on a balanced layout; 'least-squares' when plots are missing. */
+  method: 'means' | 'least-squares';
   /** One object per treatment × variety cell (emmeans' emmean and SE). */
   adjustedMeans: { variety: string; treatment: string; mean: number; se: number; df: number }[];
   varietyMeans: TwoFactorAnalysis['varietyMeans'];
-  counts: { entries: number; treatments: number; blocks: number; rows: number };
+  counts: {
+    entries: number;
+    treatments: number;
+    blocks: number;
+    rows: number;
+    missingPlots: number;
+  };
   warnings: string[];
 }
 
@@ -883,6 +891,7 @@ export function analyzeTwoFactorRows(
       grandMean !== 0 ? (100 * Math.sqrt(result.errorTerm.ms)) / Math.abs(grandMean) : null,
     letters: options.letters ?? 'hsd',
     model: 'anova',
+    method: 'means',
     ...rest,
     adjustedMeans: cellMeans,
     counts: {
@@ -890,6 +899,7 @@ export function analyzeTwoFactorRows(
       treatments: layout.treatment.levels.length,
       blocks: layout.block.levels.length,
       rows: rows.length,
+      missingPlots: 0,
     },
     warnings,
   };

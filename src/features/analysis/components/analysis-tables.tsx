@@ -16,7 +16,10 @@ const designWords = {
 const sourceWords: Record<string, string> = {
   site: 'Site',
   block: 'Block (within site)',
+  treatment: 'Treatment',
+  'block:treatment': 'Block × treatment (main-plot error)',
   variety: 'Variety',
+  'variety:treatment': 'Variety × treatment',
   'site:variety': 'Site × variety',
   residual: 'Residual',
   total: 'Total',

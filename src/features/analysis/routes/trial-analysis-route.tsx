@@ -29,6 +29,7 @@ import { displayUnit, formatNumber } from '@common/display-units';
 import { downloadCsv, downloadJson } from '../components/download';
 import { RankingPanel } from '../components/ranking-panel';
 import { SeasonPanel } from '../components/season-panel';
+import { TwoFactorPanel } from '../components/two-factor-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const select = 'mt-1 min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-2';
@@ -220,6 +221,7 @@ export function Component() {
           <WarningsList warnings={result.warnings} />
           <MixedModelPanel result={result} unit={unit} />
           <AnovaTable result={result} unit={unit} title={result.traitLabel} />
+          <TwoFactorPanel result={result} unit={unit} />
           <MeansTable
             result={result}
             unit={unit}
@@ -245,6 +247,11 @@ export function Component() {
                     <th scope="col" className="p-2 text-right">
                       Plot
                     </th>
+                    {result.twoFactor ? (
+                      <th scope="col" className="p-2">
+                        {result.twoFactor.factor}
+                      </th>
+                    ) : null}
                     <th scope="col" className="p-2">
                       Entry
                     </th>
@@ -261,6 +268,7 @@ export function Component() {
                       <th scope="row" className="p-2 text-right font-normal">
                         {p.plotNumber}
                       </th>
+                      {result.twoFactor ? <td className="p-2">{p.treatment}</td> : null}
                       <td className="p-2">{p.entryCode}</td>
                       <td className="p-2 text-right tabular-nums">
                         {formatNumber(p.value * unit.factor)}
