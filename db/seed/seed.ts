@@ -9,6 +9,7 @@ import { demoGroup, joinDemoRegister, seedDemoRegister } from './demo-register';
 import { EARLIER_SEASON_SEED, earlierDemoTrials } from './demo-earlier-seasons';
 import { DEMO_SEED, demoAccounts, type DemoTrial, demoTrials, generateSeason } from './demo-season';
 import { publishDemoSheet } from './demo-sheet';
+import { seedSplitPlotTrial } from './demo-split-plot';
 import { generateDemoWeather } from './demo-weather';
 import { defaultPlausibleRange } from '../../common/trait-presets';
 
@@ -29,6 +30,7 @@ export async function seedDemoIfEmpty(db: DB, storage?: ObjectStorage): Promise<
   if (!(await isEmpty(db))) return false;
   await seedDemo(db);
   await seedEarlierSeasons(db);
+  await seedSplitPlotTrial(db);
   if (storage) await seedDemoPhotos(db, storage);
   await publishDemoSheet(db);
   return true;

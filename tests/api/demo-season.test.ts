@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { randomizeLayout } from '../../common/layout';
 import { EARLIER_SEASON_SEED, earlierDemoTrials } from '../../db/seed/demo-earlier-seasons';
 import { DEMO_SEED, demoAccounts, demoTrials } from '../../db/seed/demo-season';
+import { SPLIT_PLOT_SLUG, splitPlotVarieties } from '../../db/seed/demo-split-plot';
 import { DEMO_PUBLISHED_SLUG, DEMO_VERSION_NOTE } from '../../db/seed/demo-sheet';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
 import { localStorage } from '../../server/storage/local-storage';
@@ -47,11 +48,20 @@ describe('the demo season', () => {
   it('stores each trial’s layout seed, and the plots are the plan the design page makes from it', async () => {
     const trials = await t.db
       .selectFrom('trials')
-      .select(['id', 'slug', 'design', 'replicates', 'layout_seed', 'layout_generated_at'])
+      .select([
+        'id',
+        'slug',
+        'design',
+        'replicates',
+        'layout_seed',
+        'layout_generated_at',
+        'factor_levels',
+        'factor_arrangement',
+      ])
       .execute();
     const earlier = earlierDemoTrials.map((d) => d.slug);
     expect(trials.map((x) => x.slug).sort()).toEqual(
-      [...demoTrials.map((d) => d.slug), ...earlier].sort(),
+      [...demoTrials.map((d) => d.slug), ...earlier, SPLIT_PLOT_SLUG].sort(),
     );
     for (const trial of trials) {
       expect(trial.layout_seed).toBe(
@@ -77,14 +87,23 @@ describe('the demo season', () => {
         replicates: trial.replicates!,
         siteIds: sites.map((s) => s.id),
         seed: trial.layout_seed!,
+        factor:
+          trial.factor_levels && trial.factor_arrangement
+            ? { levels: trial.factor_levels, arrangement: trial.factor_arrangement }
+            : null,
       });
       const stored = await t.db
         .selectFrom('plots')
-        .select(['site_id', 'entry_id', 'block', 'position', 'plot_number'])
+        .select(['site_id', 'entry_id', 'block', 'position', 'plot_number', 'treatment'])
         .where('trial_id', '=', trial.id)
         .execute();
-      const key = (p: { siteId: string; entryId: string; block: number; plotNumber: number }) =>
-        `${p.siteId}:${p.block}:${p.plotNumber}:${p.entryId}`;
+      const key = (p: {
+        siteId: string;
+        entryId: string;
+        block: number;
+        plotNumber: number;
+        treatment: string | null;
+      }) => `${p.siteId}:${p.block}:${p.plotNumber}:${p.entryId}:${p.treatment}`;
       expect(
         stored
           .map((p) =>
@@ -93,6 +112,7 @@ describe('the demo season', () => {
               entryId: p.entry_id,
               block: p.block,
               plotNumber: p.plot_number,
+              treatment: p.treatment,
             }),
           )
           .sort(),
@@ -174,6 +194,44 @@ describe('the demo season', () => {
       .where('variety_id', 'is', null)
       .executeTakeFirstOrThrow();
     expect(Number(entries.n)).toBe(0);
-    expect(res.body.varieties).toHaveLength(new Set([...okra2025, ...okra2026]).size + 5 + 5);
+    expect(res.body.varieties).toHaveLength(
+      new Set([...okra2025, ...okra2026]).size + 5 + 5 + splitPlotVarieties().length,
+    );
+  });
+
+  it('has a fertilizer × variety split plot whose analysis answers the grower’s question', async () => {
+    const lead = demoAccounts.find((a) => a.key === 'lead')!;
+    const cookie = await mintSessionCookie(t, lead);
+    const res = await request(t.app)
+      .get(`/api/trials/${SPLIT_PLOT_SLUG}/analysis?trait=days_to_first_pods`)
+      .set('Cookie', cookie);
+    expect(res.status).toBe(200);
+    const a = res.body as import('../../common/contracts/analysis').TrialAnalysis;
+    // The split plot's strata (aov with Error(block/treatment)): fertilizer against block ×
+    // fertilizer, variety and the interaction against the residual.
+    expect(a.anova.map((l) => [l.source, l.df, l.testedAgainst])).toEqual([
+      ['block', 3, null],
+      ['treatment', 1, 'block:treatment'],
+      ['block:treatment', 3, null],
+      ['variety', 3, 'residual'],
+      ['variety:treatment', 3, 'residual'],
+      ['residual', 18, null],
+      ['total', 31, null],
+    ]);
+    expect(a.plotValues).toHaveLength(32);
+    expect(a.twoFactor).toMatchObject({
+      factor: 'Fertilizer',
+      levels: ['none', 'pre-plant'],
+      layout: 'split-plot',
+    });
+    // Invented scenario: withholding fertilizer brings the heirlooms' pods days earlier, not
+    // the modern variety's.
+    const effect = (v: string) => a.twoFactor!.treatmentWithinVariety.find((e) => e.within === v)!;
+    for (const heirloom of ['Greywater Runner', 'Mossbank Wax', 'Tansy Purple']) {
+      expect(effect(heirloom)).toMatchObject({ a: 'none', b: 'pre-plant' });
+      expect(effect(heirloom).difference).toBeLessThan(-2);
+    }
+    expect(Math.abs(effect('Corvale Prime').difference)).toBeLessThan(2);
+    expect(a.anova.find((l) => l.source === 'variety:treatment')!.p).toBeLessThan(0.05);
   });
 });
