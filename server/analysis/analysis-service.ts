@@ -270,7 +270,7 @@ function twoFactorTrialResult(
   r: TwoFactorResult,
   values: { entry: string; value: number }[],
   factor: { name: string; levels: string[] },
-): Omit<TrialAnalysis, keyof typeof describedKeys | 'warnings'> {
+): Omit<TrialAnalysis, Described | 'warnings'> {
   const byVariety = new Map<string, number[]>();
   for (const v of values) byVariety.set(v.entry, [...(byVariety.get(v.entry) ?? []), v.value]);
   return {
@@ -322,18 +322,18 @@ function twoFactorTrialResult(
     },
   };
 }
-const describedKeys = {
-  traitKey: 1,
-  traitLabel: 1,
-  quantityKind: 1,
-  direction: 1,
-  basis: 1,
-  unit: 1,
-  decimals: 1,
-  valueNote: 1,
-  plotValues: 1,
-  entryCodes: 1,
-} as const;
+/** What every trial analysis adds to the engine's result (trait, unit, plot values). */
+type Described =
+  | 'traitKey'
+  | 'traitLabel'
+  | 'quantityKind'
+  | 'direction'
+  | 'basis'
+  | 'unit'
+  | 'decimals'
+  | 'valueNote'
+  | 'plotValues'
+  | 'entryCodes';
 
 export async function trialAnalysis(
   db: DB,

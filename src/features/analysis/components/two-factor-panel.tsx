@@ -48,6 +48,7 @@ export function TwoFactorPanel({
   const t = result.twoFactor;
   if (!t) return null;
   const f = unit.factor;
+  const inUnit = unit.label ? `, ${unit.label}` : '';
   const { rows, series } = interactionTable(t, f);
   const varieties = series.map((s) => s.name);
   const cell = (variety: string, level: string) =>
@@ -55,8 +56,12 @@ export function TwoFactorPanel({
   const chart = (
     <LineChart data={rows} margin={{ left: 8, right: 8 }} {...(size ?? {})}>
       <CartesianGrid strokeDasharray="3 3" />
-      <XAxis dataKey="treatment" type="category" interval={0} />
-      <YAxis label={{ value: unit.label, angle: -90, position: 'insideLeft' }} />
+      <XAxis dataKey="treatment" type="category" interval={0} padding={{ left: 40, right: 40 }} />
+      {/* The means' own range, not from zero: the slopes are what the plot is for. */}
+      <YAxis
+        domain={['auto', 'auto']}
+        label={{ value: unit.label, angle: -90, position: 'insideLeft' }}
+      />
       <Tooltip />
       <Legend />
       {series.map((s, i) => (
@@ -106,9 +111,9 @@ export function TwoFactorPanel({
       <ScrollRegion label="Cell means" className="rounded-lg bg-white shadow-sm">
         <table className="w-full min-w-[28rem] text-left text-sm">
           <caption className="p-2 text-left font-semibold text-leaf-900">
-            Cell means: variety × {t.factor.toLowerCase()} ({unit.label}, ± SE)
+            Cell means: variety × {t.factor.toLowerCase()} (± SE{inUnit})
             <span className="block text-xs font-normal text-loam-700">
-              Least-squares means averaged over blocks; the last row and column are the
+              Least-squares means averaged over blocks; the last row and column are the{' '}
               {t.factor.toLowerCase()} and variety means.
             </span>
           </caption>
@@ -173,7 +178,7 @@ export function TwoFactorPanel({
       >
         <table className="w-full min-w-[32rem] text-left text-sm">
           <caption className="p-2 text-left font-semibold text-leaf-900">
-            {t.factor} within each variety (simple effects, {unit.label})
+            {t.factor} within each variety (simple effects{inUnit})
             <span className="block text-xs font-normal text-loam-700">
               {t.layout === 'split-plot'
                 ? 'Two levels compared within a variety lie on different main plots: the SE carries both errors, on Satterthwaite’s df.'

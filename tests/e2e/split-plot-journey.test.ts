@@ -1,0 +1,83 @@
+// The fertilizer × variety split plot's analysis page in Debian's Chromium, at 360 px and on
+// desktop: the strata, the interaction plot and its table alternative.
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoAccounts } from '../../db/seed/demo-season';
+import { SPLIT_PLOT_SLUG, seedSplitPlotTrial } from '../../db/seed/demo-split-plot';
+import {
+  closeBrowserSuite,
+  contextAs,
+  expectNoSeriousA11yViolations,
+  type LiveApp,
+  openBrowserSuite,
+  screenshot,
+  watchErrors,
+} from '../support/browser';
+
+let live: LiveApp;
+let browser: Browser;
+const lead = demoAccounts.find((a) => a.key === 'lead')!;
+
+beforeAll(async () => {
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
+  await seedSplitPlotTrial(live.db);
+});
+afterAll(() => closeBrowserSuite(live, browser));
+
+describe('a split-plot trial', () => {
+  it('shows the strata, the interaction plot and the simple effects at 360 px and on desktop', async () => {
+    for (const viewport of [
+      { width: 1280, height: 900 },
+      { width: 360, height: 780 },
+    ]) {
+      const context = await contextAs(browser, live, lead, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      await page.goto(`/t/${SPLIT_PLOT_SLUG}`);
+      await page.getByRole('link', { name: 'Analysis', exact: true }).click();
+      await page.getByRole('heading', { level: 1, name: 'Analysis' }).waitFor();
+      const anova = page.getByRole('table', { name: /Analysis of variance: Days to first pods/ });
+      await anova.waitFor();
+      // aov(value ~ block + treatment * variety + Error(block/treatment)) strata.
+      await expect(anova.getByRole('rowheader').allTextContents()).resolves.toEqual([
+        'Block (within site)',
+        'Treatment',
+        'Block × treatment (main-plot error)',
+        'Variety',
+        'Variety × treatment',
+        'Residual',
+        'Total',
+      ]);
+      const treatmentRow = anova.getByRole('row').filter({ hasText: /^Treatment/ });
+      await expect(treatmentRow.textContent()).resolves.toContain(
+        'Block × treatment (main-plot error)',
+      );
+      await page.locator('[data-strata="split-plot"]').waitFor();
+      // The interaction plot is drawn (one line per variety), with its table beside it.
+      const plot = page.getByRole('img', { name: /Interaction plot of Days to first pods/ });
+      await plot.waitFor();
+      await plot.locator('.recharts-line').first().waitFor();
+      await expect(plot.locator('.recharts-line').count()).resolves.toBe(4);
+      const cells = page.getByRole('table', { name: /Cell means: variety × fertilizer/ });
+      await expect(cells.getByRole('columnheader').allTextContents()).resolves.toEqual([
+        'Variety',
+        'none',
+        'pre-plant',
+        'Variety mean',
+      ]);
+      const effects = page.getByRole('table', { name: /Fertilizer within each variety/ });
+      await expect(effects.getByRole('rowheader').allTextContents()).resolves.toEqual([
+        'Corvale Prime',
+        'Greywater Runner',
+        'Mossbank Wax',
+        'Tansy Purple',
+      ]);
+      const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
+      expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
+      await expectNoSeriousA11yViolations(page);
+      await screenshot(page, `split-plot-analysis-${viewport.width}`);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+});
