@@ -213,7 +213,9 @@ async function analyseTrait(
     const twoFactorRows = built.values
       .map(({ plot, value }) => ({
         variety: plot.entry_name,
-        block: String(plot.block),
+        // At several sites every site's blocks are blocks of their own.
+        block:
+          trial.design === 'multisite' ? `${plot.site_name} / ${plot.block}` : String(plot.block),
         treatment: plot.treatment ?? '',
         plot: String(plot.plot_number),
         value,
