@@ -21,6 +21,7 @@ import { studentTTwoSided, studentizedRangeUpperTail } from './distributions.js'
 import { separateMeans, type SeparationMethod } from './mean-separation.js';
 import {
   mixedVarietyAnalysis,
+  varietiesRandomAnalysis,
   type MixedVarietyAnalysis,
   type VarianceSource,
 } from './mixed-analysis.js';
@@ -110,6 +111,11 @@ export interface AnalyzeOptions {
    * an incomplete-block trial (the mixed model then has blocks random within replicates).
    */
   sitesAre?: 'site' | 'replicate';
+  /**
+   * With the mixed model: also fit varieties as random, for their variance, BLUPs and the
+   * heritability (one more REML fit).
+   */
+  varietiesRandom?: boolean;
 }
 
 export type { AnalysisModel };
@@ -175,6 +181,21 @@ export interface AnalysisResult {
   boundary?: boolean;
   /** With the mixed model: how the variation splits between the random sources, in words. */
   varianceSummary?: string;
+  /** With the mixed model and `varietiesRandom`: varieties random, BLUPs and heritability. */
+  varietiesRandom?: {
+    varianceComponents: {
+      source: VarianceSource | 'variety';
+      variance: number;
+      se: number | null;
+    }[];
+    /** Predicted mean = overall mean + BLUP, best first in the trait's direction. */
+    blups: { variety: string; blup: number; predicted: number }[];
+    meanVarianceOfBlueDifferences: number;
+    heritability: number;
+    logLik: number;
+    boundary: boolean;
+    summary: string;
+  };
   pairs?: {
     a: string;
     b: string;
@@ -453,17 +474,44 @@ export function analyzePlotRows(
   const varietyLine = av.lines.find((l) => l.source === 'variety');
   const model = options.model ?? 'anova';
   let mixed: MixedVarietyAnalysis | null = null;
+  let varietiesRandom: AnalysisResult['varietiesRandom'];
   if (model === 'mixed') {
-    const fitted = mixedVarietyAnalysis({
+    const mixedLayout = {
       y,
       entry: entry.codes,
       entries: entry.levels.length,
       ...(hasSite ? { site: { cells: site.codes, levels: site.levels.length } } : {}),
       ...(design === 'crd' ? {} : { block: { cells: block.codes, levels: block.levels.length } }),
       ...(options.sitesAre ? { sitesAre: options.sitesAre } : {}),
-    });
+    };
+    const fitted = mixedVarietyAnalysis(mixedLayout);
     if (typeof fitted === 'string') throw new AnalysisInputError(fitted);
     mixed = fitted;
+    if (options.varietiesRandom) {
+      const r = varietiesRandomAnalysis(mixedLayout, fitted);
+      if (typeof r === 'string') warnings.push(`varieties as random: not fitted (${r})`);
+      else
+        varietiesRandom = {
+          varianceComponents: r.varianceComponents,
+          blups: entry.levels
+            .map((variety, i) => ({
+              variety,
+              blup: r.blup[i]!,
+              predicted: addOffset(centred.offset, r.predicted[i]!),
+            }))
+            .sort(
+              (a, b) =>
+                (options.direction === 'lower'
+                  ? a.predicted - b.predicted
+                  : b.predicted - a.predicted) || a.variety.localeCompare(b.variety),
+            ),
+          meanVarianceOfBlueDifferences: r.meanVarianceOfBlueDifferences,
+          heritability: r.heritability,
+          logLik: r.logLik,
+          boundary: r.boundary,
+          summary: r.summary,
+        };
+    }
     if (mixed.boundary) {
       const zero = mixed.varianceComponents.filter((c) => c.variance === 0).map((c) => c.source);
       warnings.push(
@@ -607,6 +655,7 @@ export function analyzePlotRows(
           logLik: mixed.logLik,
           boundary: mixed.boundary,
           varianceSummary: mixed.summary,
+          ...(varietiesRandom ? { varietiesRandom } : {}),
         }
       : {}),
     warnings,

@@ -53,7 +53,8 @@ export interface MixedVarietyAnalysis {
   summary: string;
 }
 
-const SOURCE_WORDS: Record<VarianceSource, string> = {
+const SOURCE_WORDS: Record<VarianceSource | 'variety', string> = {
+  variety: 'varieties',
   site: 'gardens (sites)',
   'site:block': 'blocks within gardens',
   block: 'blocks',
@@ -63,7 +64,8 @@ const SOURCE_WORDS: Record<VarianceSource, string> = {
   residual: 'plot-to-plot (residual)',
 };
 
-export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis | string {
+/** The layout's random terms (gardens, blocks, garden × variety where estimable), or why none. */
+function layoutRandomTerms(layout: MixedLayout): RandomTerm[] | string {
   const { y, entry, entries: k } = layout;
   const n = y.length;
   const random: RandomTerm[] = [];
@@ -94,6 +96,14 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
   }
   if (random.length === 0)
     return 'the mixed model needs a site or block column (gardens or blocks to treat as random)';
+  return random;
+}
+
+export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis | string {
+  const { y, entry, entries: k } = layout;
+  const n = y.length;
+  const random = layoutRandomTerms(layout);
+  if (typeof random === 'string') return random;
 
   const fit = fitReml({ y, fixedCells: entry, fixedLevels: k, random });
   const counts = new Float64Array(k);
@@ -121,20 +131,7 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
     variance: c.variance,
     se: c.se,
   }));
-  const total = components.reduce((s, c) => s + c.variance, 0);
-  const share = components
-    .map((c) => ({ c, pct: total > 0 ? (100 * c.variance) / total : 0 }))
-    .sort((a, b) => b.pct - a.pct)
-    .map(
-      ({ c, pct }) =>
-        `${SOURCE_WORDS[c.source]} ${pct < 0.5 && pct > 0 ? '<1' : Math.round(pct)} %`,
-    );
-  const zero = components.filter((c) => c.variance === 0).map((c) => SOURCE_WORDS[c.source]);
-  const summary =
-    `Of the variation left once varieties are accounted for: ${share.join(', ')}.` +
-    (zero.length > 0
-      ? ` The data show no variation of their own for ${zero.join(' and ')} (estimated as zero).`
-      : '');
+  const summary = varianceSummary(components);
 
   return {
     varianceComponents: components,
@@ -146,5 +143,91 @@ export function mixedVarietyAnalysis(layout: MixedLayout): MixedVarietyAnalysis 
     pairSe,
     pairDf,
     summary,
+  };
+}
+
+function varianceSummary(
+  components: readonly { source: VarianceSource | 'variety'; variance: number }[],
+): string {
+  const total = components.reduce((s, c) => s + c.variance, 0);
+  const share = components
+    .map((c) => ({ c, pct: total > 0 ? (100 * c.variance) / total : 0 }))
+    .sort((a, b) => b.pct - a.pct)
+    .map(
+      ({ c, pct }) =>
+        `${SOURCE_WORDS[c.source]} ${pct < 0.5 && pct > 0 ? '<1' : Math.round(pct)} %`,
+    );
+  const zero = components.filter((c) => c.variance === 0).map((c) => SOURCE_WORDS[c.source]);
+  const varietiesIn = components.some((c) => c.source === 'variety');
+  return (
+    `Of the variation${varietiesIn ? '' : ' left once varieties are accounted for'}: ${share.join(', ')}.` +
+    (zero.length > 0
+      ? ` The data show no variation of their own for ${zero.join(' and ')} (estimated as zero).`
+      : '')
+  );
+}
+
+export interface VarietiesRandomAnalysis {
+  /** REML components with varieties random: "variety" first, then the layout's terms. */
+  varianceComponents: { source: VarianceSource | 'variety'; variance: number; se: number | null }[];
+  /** The overall mean μ̂ (on the scale of `y`). */
+  intercept: number;
+  /** Each entry's BLUP û (shrunk towards 0) and predicted mean μ̂ + û, per entry code. */
+  blup: Float64Array;
+  predicted: Float64Array;
+  /** Mean variance of a difference of two BLUEs (varieties fixed). */
+  meanVarianceOfBlueDifferences: number;
+  /**
+   * Heritability on an entry-mean basis, σ²_g ÷ (σ²_g + v̄/2) with v̄ the mean variance of a
+   * difference of BLUEs (Piepho & Möhring 2007): for unbalanced trials; on balanced ones it
+   * equals the classical σ²_g ÷ (σ²_g + σ²_ge/s + σ²_e/(rs)).
+   */
+  heritability: number;
+  logLik: number;
+  boundary: boolean;
+  summary: string;
+}
+
+/**
+ * The same layout with varieties random, y ~ 1 + (1|variety) + the layout's random terms, for
+ * a heritability figure and BLUPs (which shrink entries seen in few plots towards the mean).
+ * `fixed` is the varieties-fixed fit of the same layout, for the variances of BLUE differences.
+ */
+export function varietiesRandomAnalysis(
+  layout: MixedLayout,
+  fixed: MixedVarietyAnalysis,
+): VarietiesRandomAnalysis | string {
+  const { y, entry, entries: k } = layout;
+  const random = layoutRandomTerms(layout);
+  if (typeof random === 'string') return random;
+  if (k < 3) return 'varieties as random need at least 3 entries to estimate their variance';
+  const fit = fitReml({
+    y,
+    fixedCells: new Int32Array(y.length),
+    fixedLevels: 1,
+    random: [{ source: 'variety', cells: entry, levels: k }, ...random],
+  });
+  const intercept = fit.beta[0]!;
+  const blup = Float64Array.from(fit.blups[0]!);
+  const predicted = blup.map((u) => intercept + u);
+  let sum = 0;
+  for (let i = 0; i < k; i++) for (let j = i + 1; j < k; j++) sum += fixed.pairSe(i, j) ** 2;
+  const meanVarianceOfBlueDifferences = sum / ((k * (k - 1)) / 2);
+  const varietyVariance = fit.varianceComponents[0]!.variance;
+  const components = fit.varianceComponents.map((c) => ({
+    source: c.source as VarianceSource | 'variety',
+    variance: c.variance,
+    se: c.se,
+  }));
+  return {
+    varianceComponents: components,
+    intercept,
+    blup,
+    predicted,
+    meanVarianceOfBlueDifferences,
+    heritability: varietyVariance / (varietyVariance + meanVarianceOfBlueDifferences / 2),
+    logLik: fit.logLik,
+    boundary: fit.boundary,
+    summary: varianceSummary(components),
   };
 }
