@@ -103,6 +103,16 @@ export const varianceSourceLabels: Record<(typeof varianceSources)[number], stri
   residual: 'Plot to plot (residual)',
 };
 
+/** The variance sources with varieties random. */
+export const varietiesRandomSourceLabels = {
+  variety: 'Varieties',
+  ...varianceSourceLabels,
+} as const;
+
+/** What the heritability figure means, for every place that shows it. */
+export const HERITABILITY_NOTE =
+  'Heritability on an entry-mean basis: the share of the differences between entry means that would show again in another trial like this one, σ²g ÷ (σ²g + v̄/2) with v̄ the mean variance of a difference between two entry estimates (Piepho & Möhring 2007). Near 1, the entry means are a reliable guide; low, the trial needs more replicates or sites to tell the entries apart.';
+
 /** How the variety test's denominator degrees of freedom were found, in words. */
 export const ddfMethodLabels = {
   satterthwaite: 'Satterthwaite',
@@ -149,6 +159,11 @@ export const trialAnalysisQuery = z.object({
   letters: z.enum(letterMethods).default('hsd'),
   /** Left out: the classical analysis, as the analyze command's default (the page always sends one). */
   model: z.enum(analysisModels).default('anova'),
+  /** With the mixed model: also fit varieties as random (BLUPs, heritability). */
+  varietiesRandom: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
 });
 export type TrialAnalysisQuery = z.input<typeof trialAnalysisQuery>;
 
@@ -209,6 +224,22 @@ export const varietyTestSchema = z.object({
   method: z.enum(['satterthwaite', 'kenward-roger']),
 });
 
+/** Varieties as random (a second REML fit): their variance, BLUPs and the heritability. */
+export const varietiesRandomSchema = z.object({
+  varianceComponents: z.array(
+    varianceComponentSchema.extend({ source: z.enum(['variety', ...varianceSources]) }),
+  ),
+  /** μ̂ + BLUP per variety, best first in the trait's direction. */
+  blups: z.array(z.object({ variety: z.string(), blup: z.number(), predicted: z.number() })),
+  /** Mean variance of a difference of two BLUEs (varieties fixed). */
+  meanVarianceOfBlueDifferences: z.number(),
+  /** σ²g ÷ (σ²g + v̄/2), on an entry-mean basis (Piepho & Möhring 2007). */
+  heritability: z.number(),
+  logLik: z.number(),
+  boundary: z.boolean(),
+  summary: z.string(),
+});
+
 /** The analyze command's JSON. */
 export const analysisResultSchema = z.object({
   design: z.enum(designs),
@@ -251,6 +282,8 @@ export const analysisResultSchema = z.object({
   boundary: z.boolean().optional(),
   /** Mixed model only: how the variation splits between gardens, blocks and residual. */
   varianceSummary: z.string().optional(),
+  /** Mixed model, when asked: varieties random, BLUPs and heritability. */
+  varietiesRandom: varietiesRandomSchema.optional(),
   pairs: z
     .array(
       z.object({

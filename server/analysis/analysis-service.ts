@@ -142,7 +142,12 @@ async function analyseTrait(
   trial: Trial,
   trait: ResolvedTrait,
   basis: Basis,
-  options: { alpha: number; letters: 'hsd' | 'lsd'; model?: AnalysisModel },
+  options: {
+    alpha: number;
+    letters: 'hsd' | 'lsd';
+    model?: AnalysisModel;
+    varietiesRandom?: boolean;
+  },
 ): Promise<TrialAnalysis> {
   const [plots, harvests, observations] = await Promise.all([
     repo.trialPlots(db, trial.id),
@@ -253,6 +258,7 @@ async function analyseTrait(
       letters: options.letters,
       direction: trait.direction,
       model: options.model ?? 'anova',
+      varietiesRandom: options.varietiesRandom ?? false,
     },
   });
   return finite({
@@ -347,9 +353,17 @@ export async function trialAnalysis(
     alpha: number;
     letters: 'hsd' | 'lsd';
     model?: AnalysisModel;
+    varietiesRandom?: boolean;
   },
 ): Promise<TrialAnalysis> {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  refuseModelOutsideDesign(trial, query.model ?? 'anova');
+  if (query.varietiesRandom && query.model !== 'mixed') {
+    const message = 'Varieties as random need the mixed model.';
+    throw new AppError('validation_failed', message, {
+      fields: [{ path: 'query.varietiesRandom', message }],
+    });
+  }
   return analyseTrialTrait(db, trial, query);
 }
 
@@ -366,6 +380,7 @@ export async function analyseTrialTrait(
     alpha: number;
     letters: 'hsd' | 'lsd';
     model?: AnalysisModel;
+    varietiesRandom?: boolean;
   },
   traitsOfTrial: () => Promise<TrialTraits> = () => repo.trialTraits(db, trial.id),
 ): Promise<TrialAnalysis> {
@@ -375,6 +390,7 @@ export async function analyseTrialTrait(
     alpha: query.alpha,
     letters: query.letters,
     model: query.model ?? 'anova',
+    varietiesRandom: query.varietiesRandom ?? false,
   };
   return cachedForTrialData(trial, question, async () => {
     const trait = await resolveTrait(traitsOfTrial, query.trait);

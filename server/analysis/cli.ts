@@ -1,7 +1,7 @@
 /**
  * npm run --silent analyze -- FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite]
  *                                      [--letters hsd|lsd] [--direction higher|lower|none]
- *                                      [--model anova|mixed] [--factor COLUMN [--split-plot]]
+ *                                      [--model anova|mixed [--varieties-random]] [--factor COLUMN [--split-plot]]
  * Prints one JSON object on stdout; on bad input exits 1 with one line on stderr.
  */
 import { readFileSync } from 'node:fs';
@@ -15,7 +15,7 @@ import {
 } from './engine/analyze.js';
 
 const USAGE =
-  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none] [--model anova|mixed] [--factor COLUMN [--split-plot]]';
+  'usage: analyze FILE.csv [--trait COLUMN] [--alpha 0.05] [--design crd|rcbd|multisite] [--letters hsd|lsd] [--direction higher|lower|none] [--model anova|mixed [--varieties-random]] [--factor COLUMN [--split-plot]]';
 
 function fail(message: string, code = 1): never {
   process.stderr.write(message.replace(/\s*\n\s*/g, ' ') + '\n');
@@ -38,6 +38,7 @@ function main(): void {
         model: { type: 'string' },
         factor: { type: 'string' },
         'split-plot': { type: 'boolean' },
+        'varieties-random': { type: 'boolean' },
       },
     });
   } catch (err) {
@@ -76,6 +77,11 @@ function main(): void {
     if (values.model !== 'anova' && values.model !== 'mixed')
       fail(`option --model: "${values.model}" is not anova or mixed`, 2);
     options.model = values.model;
+  }
+  if (values['varieties-random']) {
+    // Heritability and BLUPs come from a second REML fit with varieties random.
+    if (options.model !== 'mixed') fail('option --varieties-random: needs --model mixed', 2);
+    options.varietiesRandom = true;
   }
   const file = positionals[0]!;
   let text: string;

@@ -197,6 +197,33 @@ describe('the API and the analyze command give the same numbers', () => {
       'residual',
     ]);
   }, 60_000);
+
+  it('varieties as random: the API and the command (--varieties-random) give the same heritability and BLUPs', async () => {
+    const r = await analysis('marketable_yield', '&model=mixed&varietiesRandom=true');
+    expect(r.status).toBe(200);
+    const b = r.body as Body & ReturnType<typeof analyzeCsv>;
+    const cmd = runCommand(b, 'marketable-yield-random', [
+      '--design',
+      'multisite',
+      '--model',
+      'mixed',
+      '--varieties-random',
+    ]);
+    expect(b.varietiesRandom).toEqual(cmd.varietiesRandom);
+    expect(b.varietiesRandom!.varianceComponents[0]!.source).toBe('variety');
+    expect(b.varietiesRandom!.heritability).toBeGreaterThan(0);
+    expect(b.varietiesRandom!.heritability).toBeLessThan(1);
+    // Not asked for: not fitted.
+    expect(
+      ((await analysis('marketable_yield', '&model=mixed')).body as Body).varietiesRandom,
+    ).toBe(undefined);
+    const anova = await analysis('marketable_yield', '&varietiesRandom=true');
+    expect(anova.status).toBe(400);
+    expect(anova.body.error.details.fields[0]).toEqual({
+      path: 'query.varietiesRandom',
+      message: 'Varieties as random need the mixed model.',
+    });
+  }, 60_000);
 });
 
 describe('records the analysis reads', () => {

@@ -75,6 +75,30 @@ describe('analysis screens', () => {
       await model.selectOption('mixed');
       await page.getByRole('table', { name: /Variance components/ }).waitFor();
 
+      // On request, varieties as random: the heritability and BLUPs the API gives.
+      await page.getByRole('button', { name: 'Estimate heritability' }).click();
+      const blups = page.getByRole('table', {
+        name: /Predicted entry means with varieties random/,
+      });
+      await blups.waitFor();
+      const api = await page.request.get(
+        '/api/trials/larkhaven-okra-2026/analysis?trait=marketable_yield&model=mixed&varietiesRandom=true',
+      );
+      const random = (await api.json()).varietiesRandom as {
+        heritability: number;
+        blups: { variety: string }[];
+      };
+      await expect(
+        page.locator('[data-heritability]').getAttribute('data-heritability'),
+      ).resolves.toBe(String(random.heritability));
+      await expect(blups.getByRole('rowheader').allTextContents()).resolves.toEqual(
+        random.blups.map((b) => b.variety),
+      );
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+        viewport.width,
+      );
+      await expectNoSeriousA11yViolations(page);
+
       // Choosing another trait by keyboard recomputes.
       await page.getByLabel('Trait', { exact: true }).selectOption('heat_tolerance');
       await page.getByRole('table', { name: /Analysis of variance: Heat tolerance/ }).waitFor();

@@ -12,7 +12,12 @@ export interface RankingParams {
 
 export const getRanking = (slug: string, q: RankingParams) =>
   api(`/api/trials/${encodeURIComponent(slug)}/ranking`, rankingSchema, {
-    query: { traits: q.traits.join(','), weights: q.weights.join(','), alpha: q.alpha, model: q.model },
+    query: {
+      traits: q.traits.join(','),
+      weights: q.weights.join(','),
+      alpha: q.alpha,
+      model: q.model,
+    },
   });
 
 export const rankingQueryOptions = (slug: string, q: RankingParams) =>

@@ -13,6 +13,8 @@ export interface TrialAnalysisParams {
   alpha: number;
   letters: 'hsd' | 'lsd';
   model: AnalysisModel;
+  /** Mixed model only: also fit varieties as random (heritability, BLUPs). */
+  varietiesRandom?: boolean;
 }
 
 export const getTrialAnalysis = (slug: string, q: TrialAnalysisParams) =>
@@ -23,6 +25,7 @@ export const getTrialAnalysis = (slug: string, q: TrialAnalysisParams) =>
       alpha: q.alpha,
       letters: q.letters,
       model: q.model,
+      ...(q.varietiesRandom ? { varietiesRandom: 'true' } : {}),
     },
   });
 

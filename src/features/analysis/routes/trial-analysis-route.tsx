@@ -28,6 +28,7 @@ import {
 import { displayUnit, formatNumber } from '@common/display-units';
 import { downloadCsv, downloadJson } from '../components/download';
 import { RankingPanel } from '../components/ranking-panel';
+import { VarietiesRandomPanel } from '../components/varieties-random-panel';
 import { SeasonPanel } from '../components/season-panel';
 import { TwoFactorPanel } from '../components/two-factor-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
@@ -220,6 +221,14 @@ export function Component() {
           <ResultSummary result={result} unit={unit} />
           <WarningsList warnings={result.warnings} />
           <MixedModelPanel result={result} unit={unit} />
+          {result.model === 'mixed' ? (
+            <VarietiesRandomPanel
+              key={`${result.traitKey}-${basis}`}
+              slug={slug}
+              query={{ trait: result.traitKey, basis, alpha, letters, model }}
+              unit={unit}
+            />
+          ) : null}
           <AnovaTable result={result} unit={unit} title={result.traitLabel} />
           <TwoFactorPanel result={result} unit={unit} />
           <MeansTable
