@@ -76,6 +76,8 @@ export const entrySchema = z.object({
   entryType: z.enum(entryTypes),
   daysToMaturityClaimed: z.number().int().nullable(),
   notes: z.string(),
+  /** The register variety the entry grows (its page is /varieties/<slug>); null outside a group. */
+  varietySlug: z.string().nullable(),
 });
 
 export const traitSchema = z.object({

@@ -106,7 +106,14 @@ export function findTrialBySlug(db: DB, slug: string) {
 export async function trialParts(db: DB, trialId: string) {
   const [sites, entries, traits, tallies] = await Promise.all([
     db.selectFrom('sites').selectAll().where('trial_id', '=', trialId).orderBy('name').execute(),
-    db.selectFrom('entries').selectAll().where('trial_id', '=', trialId).orderBy('code').execute(),
+    db
+      .selectFrom('entries as e')
+      .leftJoin('varieties as v', 'v.id', 'e.variety_id')
+      .selectAll('e')
+      .select('v.slug as variety_slug')
+      .where('e.trial_id', '=', trialId)
+      .orderBy('e.code')
+      .execute(),
     db
       .selectFrom('traits')
       .selectAll()

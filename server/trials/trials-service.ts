@@ -112,6 +112,7 @@ export async function trialDetail(
       entryType: e.entry_type,
       daysToMaturityClaimed: e.days_to_maturity_claimed,
       notes: e.notes,
+      varietySlug: e.variety_slug,
     })),
     traits: traits.map(traitView),
     permissions: permissionsFor(actor, access),

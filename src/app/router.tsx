@@ -39,6 +39,15 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           lazy: () => import('@/features/results/routes/follow-confirm-route'),
         },
         { path: 'unsubscribe', lazy: () => import('@/features/results/routes/unsubscribe-route') },
+        // A variety and the cross-season table are public for what published versions show.
+        {
+          path: 'varieties/compare',
+          lazy: () => import('@/features/varieties/routes/compare-route'),
+        },
+        {
+          path: 'varieties/:variety',
+          lazy: () => import('@/features/varieties/routes/variety-route'),
+        },
         {
           // Pages that need a signed-in user: signed-out visitors go to sign in and come back.
           loader: requireSignIn(queryClient),
@@ -73,6 +82,10 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
               lazy: () => import('@/features/results/routes/comparison-route'),
             },
             { path: 'account', lazy: () => import('@/features/account/routes/account-route') },
+            {
+              path: 'varieties',
+              lazy: () => import('@/features/varieties/routes/register-route'),
+            },
             {
               path: 'analyze',
               lazy: () => import('@/features/analysis/routes/analyze-spreadsheet-route'),

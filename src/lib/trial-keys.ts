@@ -33,6 +33,12 @@ export const trialKeys = {
   list: () => ['trials'] as const,
   /** The public index of published sheets (every trial's, none in particular). */
   publishedIndex: (q: object) => ['published-sheets', q] as const,
+  /** The layer above single trials: the caller's groups, their registers and each variety. */
+  groups: () => ['varieties', 'groups'] as const,
+  varieties: () => ['varieties', 'register'] as const,
+  variety: (varietySlug: string) => ['varieties', 'variety', varietySlug] as const,
+  varietyComparison: (q: object) => ['varieties', 'compare', q] as const,
+  varietyStability: (q: object) => ['varieties', 'stability', q] as const,
   root: (slug: string) => ['trial', slug] as const,
   view,
   detail: (slug: string) => view(slug, 'detail'),
@@ -114,6 +120,13 @@ export const trialChanges: Record<TrialChange, readonly TrialView[]> = {
 
 /** Writes that change what the list of trials shows (titles, counts, status). */
 const changesList: ReadonlySet<TrialChange> = new Set(['design', 'publishing']);
+/** Writes that change what the variety pages show (figures, entries, photos). */
+const changesVarieties: ReadonlySet<TrialChange> = new Set([
+  'records',
+  'design',
+  'photos',
+  'publishing',
+]);
 
 /** True when `key` is one of `slug`'s queries in one of `views`. */
 export const isTrialViewKey = (key: QueryKey, slug: string, views: readonly TrialView[]) =>
@@ -133,7 +146,8 @@ export async function invalidateTrial(
   await queryClient.invalidateQueries({
     predicate: ({ queryKey }) =>
       isTrialViewKey(queryKey, slug, views) ||
-      (changesList.has(change) && queryKey[0] === trialKeys.list()[0]),
+      (changesList.has(change) && queryKey[0] === trialKeys.list()[0]) ||
+      (changesVarieties.has(change) && queryKey[0] === trialKeys.varieties()[0]),
   });
 }
 

@@ -89,6 +89,9 @@ function SignedInLinks() {
   if (!me) return null;
   return (
     <>
+      <NavLink to="/varieties" end className={navClass}>
+        Varieties
+      </NavLink>
       <NavLink to="/analyze" className={navClass}>
         Analyze a spreadsheet
       </NavLink>

@@ -146,7 +146,18 @@ export function Component() {
               {trial.entries.map((e) => (
                 <tr key={e.id} className="border-t border-leaf-50">
                   <td className="p-2 font-mono font-semibold">{e.code}</td>
-                  <td className="p-2">{e.name}</td>
+                  <td className="p-2">
+                    {e.varietySlug ? (
+                      <Link
+                        to={`/varieties/${e.varietySlug}`}
+                        className="text-leaf-800 underline decoration-leaf-300 underline-offset-2 hover:decoration-leaf-700"
+                      >
+                        {e.name}
+                      </Link>
+                    ) : (
+                      e.name
+                    )}
+                  </td>
                   <td className="p-2">{entryTypeLabel[e.entryType]}</td>
                   <td className="p-2">{e.seedSource}</td>
                   <td className="p-2">{e.daysToMaturityClaimed ?? '—'}</td>
