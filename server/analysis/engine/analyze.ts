@@ -31,6 +31,7 @@ import {
   balancedTwoFactorProblem,
   type TwoFactorAnalysis,
 } from './two-factor.js';
+import { analyseUnbalancedFactorial } from './two-factor-unbalanced.js';
 import type { AnalysisModel } from '../../../common/contracts/analysis';
 
 export type { Design } from './anova.js';
@@ -912,17 +913,27 @@ export function analyzeTwoFactorRows(
     variety: code(kept.map((k) => k.variety)),
   };
   const problem = balancedTwoFactorProblem(layout);
-  if (problem) throw new AnalysisInputError(problem);
+  const missingPlots =
+    layout.block.levels.length * layout.treatment.levels.length * layout.variety.levels.length -
+    layout.y.length;
+  // A factorial that lost plots is fitted by least squares; a split plot's strata need balance.
+  const unbalanced = problem !== null && problem.startsWith('missing plots') && !options.splitPlot;
+  if (problem && !unbalanced) throw new AnalysisInputError(problem);
+  if (unbalanced)
+    warnings.push(
+      `${missingPlots} missing plot${missingPlots === 1 ? '' : 's'}: sequential sums of squares in the order block, ${factor}, variety, variety × ${factor}; means are least-squares means averaged over blocks.`,
+    );
   let result: TwoFactorAnalysis;
   try {
-    result = analyseTwoFactor({
+    const input = {
       ...layout,
       offset: centred.offset,
       splitPlot: options.splitPlot,
       alpha,
       letters: options.letters ?? 'hsd',
-      direction: options.direction ?? 'higher',
-    });
+      direction: options.direction ?? ('higher' as const),
+    };
+    result = unbalanced ? analyseUnbalancedFactorial(input) : analyseTwoFactor(input);
   } catch (err) {
     if (err instanceof RangeError) throw new AnalysisInputError(err.message);
     throw err;
@@ -940,7 +951,7 @@ export function analyzeTwoFactorRows(
       grandMean !== 0 ? (100 * Math.sqrt(result.errorTerm.ms)) / Math.abs(grandMean) : null,
     letters: options.letters ?? 'hsd',
     model: 'anova',
-    method: 'means',
+    method: unbalanced ? 'least-squares' : 'means',
     ...rest,
     adjustedMeans: cellMeans,
     counts: {
@@ -948,7 +959,7 @@ export function analyzeTwoFactorRows(
       treatments: layout.treatment.levels.length,
       blocks: layout.block.levels.length,
       rows: rows.length,
-      missingPlots: 0,
+      missingPlots: unbalanced ? missingPlots : 0,
     },
     warnings,
   };

@@ -74,7 +74,8 @@ function layoutRandomTerms(layout: MixedLayout): RandomTerm[] | string {
   if (sites) random.push({ source: kind, cells: sites.cells, levels: sites.levels });
   // A garden that is one block (a network where each garden grows some entries): the block
   // term would repeat the site term, so it is left out.
-  const block = layout.block && !(sites && layout.block.levels === sites.levels) ? layout.block : null;
+  const block =
+    layout.block && !(sites && layout.block.levels === sites.levels) ? layout.block : null;
   if (block) {
     random.push({
       source: sites ? `${kind}:block` : 'block',

@@ -3,8 +3,10 @@
 // two-factor-<name>.json): a factorial in complete blocks, aov(value ~ block + treatment *
 // variety); a split plot with the treatment on main plots, strata from aov(... +
 // Error(block/treatment)) and means from emmeans with blocks fixed; and the published split
-// plot nlme::Oats (Yates 1935). Agreement: sums of squares, means and SEs to 6 significant
-// digits, df to 4, p to an absolute 1e-6.
+// plot nlme::Oats (Yates 1935). The factorial with one and with two plots lost is checked against
+// fixtures/analysis/r/two-factor-unbalanced.R: anova(lm(value ~ block + treatment * variety))
+// (sequential SS) and emmeans on that fit. Agreement: sums of squares, means and SEs to 6
+// significant digits, df to 4, p to an absolute 1e-6.
 import { spawnSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -53,76 +55,80 @@ const close = (actual: number, expected: number, digits: number) =>
     Math.max(Math.abs(expected), 1e-300) * 10 ** -digits,
   );
 
-describe.each(['factorial', 'split-plot', 'oats'])('two-factor trial: %s', (name) => {
-  const { ref, csv } = load(name);
-  const result = analyzeTwoFactorCsv(csv, {
-    factor: 'treatment',
-    splitPlot: ref.splitPlot,
-    trait: 'value',
-  });
+describe.each(['factorial', 'split-plot', 'oats', 'factorial-missing1', 'factorial-missing2'])(
+  'two-factor trial: %s',
+  (name) => {
+    const { ref, csv } = load(name);
+    const result = analyzeTwoFactorCsv(csv, {
+      factor: 'treatment',
+      splitPlot: ref.splitPlot,
+      trait: 'value',
+    });
 
-  it('has R’s error strata: each source, df, SS, F, p and what it is tested against', () => {
-    const lines = result.anova.filter((l) => l.source !== 'total');
-    expect(lines.map((l) => [l.source, l.df, l.testedAgainst])).toEqual(
-      ref.anova.map((l) => [l.source, l.df, l.testedAgainst]),
-    );
-    lines.forEach((l, i) => {
-      const r = ref.anova[i]!;
-      close(l.ss, r.ss, 6);
-      if (r.f === null) expect(l.f).toBeNull();
-      else {
-        close(l.f!, r.f, 6);
-        expect(Math.abs(l.p! - r.p!)).toBeLessThan(1e-6);
+    it('has R’s error strata: each source, df, SS, F, p and what it is tested against', () => {
+      const lines = result.anova.filter((l) => l.source !== 'total');
+      expect(lines.map((l) => [l.source, l.df, l.testedAgainst])).toEqual(
+        ref.anova.map((l) => [l.source, l.df, l.testedAgainst]),
+      );
+      lines.forEach((l, i) => {
+        const r = ref.anova[i]!;
+        close(l.ss, r.ss, 6);
+        if (r.f === null) expect(l.f).toBeNull();
+        else {
+          close(l.f!, r.f, 6);
+          expect(Math.abs(l.p! - r.p!)).toBeLessThan(1e-6);
+        }
+      });
+    });
+
+    it('gives emmeans’ cell, treatment and variety means with their SEs and df', () => {
+      expect(result.adjustedMeans).toHaveLength(ref.cellMeans.length);
+      for (const r of ref.cellMeans) {
+        const m = result.adjustedMeans.find(
+          (x) => x.variety === r.variety && x.treatment === r.treatment,
+        )!;
+        close(m.mean, r.mean, 6);
+        close(m.se, r.se, 6);
+        close(m.df, r.df, 4);
+      }
+      for (const r of ref.treatmentMeans) {
+        const m = result.treatmentMeans.find((x) => x.treatment === r.treatment)!;
+        close(m.mean, r.mean, 6);
+        close(m.se, r.se, 6);
+        close(m.df, r.df, 4);
+      }
+      for (const r of ref.varietyMeans) {
+        const m = result.varietyMeans.find((x) => x.variety === r.variety)!;
+        close(m.mean, r.mean, 6);
+        close(m.se, r.se, 6);
+        close(m.df, r.df, 4);
+        // The ranked variety means carry the same numbers.
+        close(result.means.find((x) => x.variety === r.variety)!.mean, r.mean, 6);
       }
     });
-  });
 
-  it('gives emmeans’ cell, treatment and variety means with their SEs and df', () => {
-    expect(result.adjustedMeans).toHaveLength(ref.cellMeans.length);
-    for (const r of ref.cellMeans) {
-      const m = result.adjustedMeans.find(
-        (x) => x.variety === r.variety && x.treatment === r.treatment,
-      )!;
-      close(m.mean, r.mean, 6);
-      close(m.se, r.se, 6);
-      close(m.df, r.df, 4);
-    }
-    for (const r of ref.treatmentMeans) {
-      const m = result.treatmentMeans.find((x) => x.treatment === r.treatment)!;
-      close(m.mean, r.mean, 6);
-      close(m.se, r.se, 6);
-      close(m.df, r.df, 4);
-    }
-    for (const r of ref.varietyMeans) {
-      const m = result.varietyMeans.find((x) => x.variety === r.variety)!;
-      close(m.mean, r.mean, 6);
-      close(m.se, r.se, 6);
-      close(m.df, r.df, 4);
-      // The ranked variety means carry the same numbers.
-      close(result.means.find((x) => x.variety === r.variety)!.mean, r.mean, 6);
-    }
-  });
-
-  it('gives the simple effects with the SE and df of each kind of comparison', () => {
-    for (const [ours, theirs] of [
-      [result.treatmentWithinVariety, ref.treatmentWithinVariety],
-      [result.varietyWithinTreatment, ref.varietyWithinTreatment],
-    ] as const) {
-      expect(ours).toHaveLength(theirs.length);
-      for (const r of theirs) {
-        // Levels come in the file's order here and sorted in R: a pair may be the other way round.
-        const e = ours.find(
-          (x) =>
-            x.within === r.within && ((x.a === r.a && x.b === r.b) || (x.a === r.b && x.b === r.a)),
-        )!;
-        close(e.a === r.a ? e.difference : -e.difference, r.difference, 6);
-        close(e.se, r.se, 6);
-        close(e.df, r.df, 4);
-        expect(Math.abs(e.p - r.p)).toBeLessThan(1e-6);
+    it('gives the simple effects with the SE and df of each kind of comparison', () => {
+      for (const [ours, theirs] of [
+        [result.treatmentWithinVariety, ref.treatmentWithinVariety],
+        [result.varietyWithinTreatment, ref.varietyWithinTreatment],
+      ] as const) {
+        expect(ours).toHaveLength(theirs.length);
+        for (const r of theirs) {
+          // Levels come in the file's order here and sorted in R: a pair may be the other way round.
+          const e = ours.find(
+            (x) =>
+              x.within === r.within &&
+              ((x.a === r.a && x.b === r.b) || (x.a === r.b && x.b === r.a)),
+          )!;
+          close(e.a === r.a ? e.difference : -e.difference, r.difference, 6);
+          close(e.se, r.se, 6);
+          close(e.df, r.df, 4);
+          expect(Math.abs(e.p - r.p)).toBeLessThan(1e-6);
+        }
       }
-    }
-  });
-});
+    });
+  },
+);
 
 describe('two-factor trials the classical analysis cannot take', () => {
   const { csv } = load('split-plot');
@@ -135,6 +141,15 @@ describe('two-factor trials the classical analysis cannot take', () => {
     expect(() =>
       analyzeTwoFactorCsv(without, { factor: 'treatment', splitPlot: true, trait: 'value' }),
     ).toThrow(/missing plots \(block \/ treatment \/ variety: B1 \/ none \/ Amberlow\)/);
+  });
+  it('says a factorial that lost plots is fitted by least squares, and counts them', () => {
+    const { csv: lost } = load('factorial-missing2');
+    const r = analyzeTwoFactorCsv(lost, { factor: 'treatment', trait: 'value' });
+    expect(r.method).toBe('least-squares');
+    expect(r.counts.missingPlots).toBe(2);
+    expect(r.warnings).toContain(
+      '2 missing plots: sequential sums of squares in the order block, treatment, variety, variety × treatment; means are least-squares means averaged over blocks.',
+    );
   });
   it('refuses a factor column that is not there', () => {
     expect(() => analyzeTwoFactorCsv(csv, { factor: 'irrigation', trait: 'value' })).toThrow(

@@ -1,0 +1,223 @@
+/**
+ * A factorial in complete blocks that lost plots: y ~ block + treatment * variety by least
+ * squares. Sequential (type I) sums of squares in the order block, treatment, variety,
+ * treatment:variety (as R's anova(lm(...)) gives them), every line tested against the residual;
+ * cell means are the model's predictions averaged over blocks with equal weights (emmeans'
+ * default), treatment and variety means the equal-weight averages of the cells, each with its
+ * standard error from MS·L(X'X)⁻¹L'. Every treatment × variety cell needs at least one plot.
+ * Pure: no I/O.
+ */
+import { invertSpd } from './adjusted-means.js';
+import { sequentialSumsOfSquares } from './linear-model.js';
+import { separateMeans } from './mean-separation.js';
+import { fUpperTail, studentTTwoSided } from './distributions.js';
+import { rankMeans } from '../../../common/ranking';
+import { addOffset } from './decimal-input.js';
+import type {
+  SimpleEffect,
+  TwoFactorAnalysis,
+  TwoFactorInput,
+  TwoFactorLine,
+  TwoFactorSource,
+} from './two-factor.js';
+
+export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnalysis {
+  const { y, offset } = input;
+  const n = y.length;
+  const r = input.block.levels.length;
+  const a = input.treatment.levels.length;
+  const v = input.variety.levels.length;
+  const B = input.block.codes;
+  const T = input.treatment.codes;
+  const V = input.variety.codes;
+  const cellOf = Int32Array.from({ length: n }, (_, i) => T[i]! * v + V[i]!);
+  const seen = new Uint32Array(a * v);
+  for (let i = 0; i < n; i++) seen[cellOf[i]!]!++;
+  const empty = [...seen.keys()].filter((c) => seen[c] === 0);
+  if (empty.length > 0)
+    throw new RangeError(
+      `no plot left of ${empty
+        .map((c) => `${input.variety.levels[c % v]} / ${input.treatment.levels[Math.floor(c / v)]}`)
+        .join(', ')}: a cell without plots has no mean`,
+    );
+
+  const fit = sequentialSumsOfSquares(y, [
+    { name: 'block', cells: B, levels: r },
+    { name: 'treatment', cells: T, levels: a },
+    { name: 'variety', cells: V, levels: v },
+    { name: 'variety:treatment', cells: cellOf, levels: a * v },
+  ]);
+  const res = {
+    source: 'residual' as const,
+    df: fit.residualDf,
+    ms: fit.residualSs / fit.residualDf,
+  };
+  if (!(res.df > 0)) throw new RangeError('no residual degrees of freedom left');
+  const line = (source: TwoFactorSource, df: number, ss: number): TwoFactorLine => {
+    const ms = ss / df;
+    const f = ms / res.ms;
+    return { source, df, ss, ms, f, p: fUpperTail(f, df, res.df), testedAgainst: 'residual' };
+  };
+  const anova: TwoFactorLine[] = [
+    ...fit.terms.map((t) => line(t.name as TwoFactorSource, t.df, t.ss)),
+    {
+      source: 'residual',
+      df: res.df,
+      ss: fit.residualSs,
+      ms: res.ms,
+      f: null,
+      p: null,
+      testedAgainst: null,
+    },
+    {
+      source: 'total',
+      df: n - 1,
+      ss: fit.totalSs,
+      ms: null,
+      f: null,
+      p: null,
+      testedAgainst: null,
+    },
+  ];
+
+  // Parameters: one mean per cell, then blocks 1 … r−1 coded as deviations from the last, so
+  // the average over blocks of the block effects is zero and a cell's parameter is its mean.
+  const p = a * v + r - 1;
+  const xtx = new Float64Array(p * p);
+  const xty = new Float64Array(p);
+  const row = new Float64Array(p);
+  for (let i = 0; i < n; i++) {
+    row.fill(0);
+    row[cellOf[i]!] = 1;
+    const b = B[i]!;
+    if (b < r - 1) row[a * v + b] = 1;
+    else for (let k = 0; k < r - 1; k++) row[a * v + k] = -1;
+    for (let j = 0; j < p; j++) {
+      if (row[j] === 0) continue;
+      xty[j]! += row[j]! * y[i]!;
+      for (let k = 0; k < p; k++) xtx[j * p + k]! += row[j]! * row[k]!;
+    }
+  }
+  const inv = invertSpd(xtx, p);
+  const beta = new Float64Array(p);
+  for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) beta[j]! += inv[j * p + k]! * xty[k]!;
+  /** l'β and its SE, l given on the cells only. */
+  const combine = (l: Float64Array) => {
+    let est = 0;
+    let q = 0;
+    for (let j = 0; j < a * v; j++) {
+      if (l[j] === 0) continue;
+      est += l[j]! * beta[j]!;
+      for (let k = 0; k < a * v; k++) q += l[j]! * inv[j * p + k]! * l[k]!;
+    }
+    return { est, se: Math.sqrt(res.ms * q) };
+  };
+  const weights = (pick: (t: number, e: number) => number) => {
+    const l = new Float64Array(a * v);
+    for (let t = 0; t < a; t++) for (let e = 0; e < v; e++) l[t * v + e] = pick(t, e);
+    return l;
+  };
+  const cellMeans = input.variety.levels.flatMap((variety, e) =>
+    input.treatment.levels.map((treatment, t) => {
+      const c = combine(weights((tt, ee) => (tt === t && ee === e ? 1 : 0)));
+      return { variety, treatment, mean: addOffset(offset, c.est), se: c.se, df: res.df };
+    }),
+  );
+  const tMean = (t: number) => weights((tt) => (tt === t ? 1 / v : 0));
+  const vMean = (e: number) => weights((_, ee) => (ee === e ? 1 / a : 0));
+  const treatmentMeans = input.treatment.levels.map((treatment, t) => {
+    const c = combine(tMean(t));
+    return { treatment, mean: addOffset(offset, c.est), se: c.se, df: res.df };
+  });
+  const varietyFits = input.variety.levels.map((_, e) => combine(vMean(e)));
+  const varietyMeans = input.variety.levels.map((variety, e) => ({
+    variety,
+    mean: addOffset(offset, varietyFits[e]!.est),
+    se: varietyFits[e]!.se,
+    df: res.df,
+  }));
+  const effect = (within: string, aName: string, bName: string, l: Float64Array): SimpleEffect => {
+    const c = combine(l);
+    const t = c.est / c.se;
+    return {
+      within,
+      a: aName,
+      b: bName,
+      difference: c.est,
+      se: c.se,
+      df: res.df,
+      t,
+      p: studentTTwoSided(t, res.df),
+    };
+  };
+  const treatmentWithinVariety: SimpleEffect[] = [];
+  input.variety.levels.forEach((variety, e) => {
+    for (let i = 0; i < a; i++)
+      for (let j = i + 1; j < a; j++)
+        treatmentWithinVariety.push(
+          effect(
+            variety,
+            input.treatment.levels[i]!,
+            input.treatment.levels[j]!,
+            weights((t, ee) => (ee !== e ? 0 : t === i ? 1 : t === j ? -1 : 0)),
+          ),
+        );
+  });
+  const varietyWithinTreatment: SimpleEffect[] = [];
+  input.treatment.levels.forEach((treatment, t) => {
+    for (let i = 0; i < v; i++)
+      for (let j = i + 1; j < v; j++)
+        varietyWithinTreatment.push(
+          effect(
+            treatment,
+            input.variety.levels[i]!,
+            input.variety.levels[j]!,
+            weights((tt, e) => (tt !== t ? 0 : e === i ? 1 : e === j ? -1 : 0)),
+          ),
+        );
+  });
+
+  const varietyLine = anova.find((l) => l.source === 'variety')!;
+  const counts = new Array<number>(v).fill(0);
+  for (let i = 0; i < n; i++) counts[V[i]!]!++;
+  const sep = separateMeans(
+    input.variety.levels.map((name, e) => ({
+      entry: name,
+      mean: varietyFits[e]!.est,
+      n: counts[e]!,
+    })),
+    res.ms,
+    res.df,
+    input.alpha,
+    varietyLine.p,
+    { pairSe: (i, j) => combine(weights((_, e) => (e === i ? 1 / a : e === j ? -1 / a : 0))).se },
+  );
+  const index = new Map(input.variety.levels.map((name, e) => [name, e]));
+  const ranked = rankMeans(
+    sep.ranked.map((s) => ({ s, mean: s.mean })),
+    input.direction,
+  );
+  const means = ranked.map(({ s, rank }) => ({
+    variety: s.entry,
+    n: s.n,
+    mean: addOffset(offset, s.mean),
+    se: varietyFits[index.get(s.entry)!]!.se,
+    rank,
+    group: input.letters === 'lsd' ? s.lsdGroup : s.hsdGroup,
+    groupLsd: s.lsdGroup,
+    groupHsd: s.hsdGroup,
+  }));
+  return {
+    layout: 'factorial',
+    anova,
+    cellMeans,
+    treatmentMeans,
+    varietyMeans,
+    treatmentWithinVariety,
+    varietyWithinTreatment,
+    means,
+    lsd: sep.lsd,
+    hsd: { ...sep.hsd, df: res.df },
+    errorTerm: res,
+  };
+}
