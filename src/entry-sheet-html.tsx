@@ -6,15 +6,16 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { renderToString } from 'react-dom/server';
 import type { ResultSnapshot } from '@common/contracts/results';
+import type { TrialOffer } from '@common/contracts/seed';
 import { SheetView } from '@/features/results/components/sheet-view';
 
-export function renderSheetHtml(sheet: ResultSnapshot): string {
+export function renderSheetHtml(sheet: ResultSnapshot, offers: readonly TrialOffer[] = []): string {
   // No session on the server: the sheet is drawn in the default (metric) units, as for anyone
   // signed out; a signed-in reader's own units take over when the client mounts.
   const queryClient = new QueryClient({ defaultOptions: { queries: { enabled: false } } });
   return renderToString(
     <QueryClientProvider client={queryClient}>
-      <SheetView sheet={sheet} />
+      <SheetView sheet={sheet} offers={offers} />
     </QueryClientProvider>,
   );
 }

@@ -8,16 +8,19 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { ResultSnapshot } from '../../common/contracts/results';
+import type { TrialOffer } from '../../common/contracts/seed';
+import { trialOffers } from '../seed/seed-service';
 import type { DB } from '../../db/database';
 import { AppError } from '../lib/app-error';
 import type { Trial } from '../../db/schema';
 import { frozenVersionOf, publishedTrial, type FrozenVersion } from './results-service';
 import { shareMeta } from './share-meta';
 
-type RenderSheet = (sheet: ResultSnapshot) => string;
+type RenderSheet = (sheet: ResultSnapshot, offers: readonly TrialOffer[]) => string;
 
 const renderers = new Map<string, Promise<RenderSheet | null>>();
-const drawn = new WeakMap<FrozenVersion, string>();
+/** Each version drawn once per set of open seed offers (the offers are live, the version frozen). */
+const drawn = new WeakMap<FrozenVersion, Map<string, string>>();
 
 /** The renderer built beside the client (dist/client → dist/sheet-html), or null if not built. */
 function rendererFor(clientDir: string): Promise<RenderSheet | null> {
@@ -81,10 +84,19 @@ export async function sheetPage(
     if (err instanceof AppError && err.status === 404) return { meta, markup: null };
     throw err;
   }
-  let html = drawn.get(frozen);
+  const { offers } = await trialOffers(db, null, trial.slug);
+  const offersKey = JSON.stringify(offers);
+  let byOffers = drawn.get(frozen);
+  if (!byOffers) {
+    byOffers = new Map();
+    drawn.set(frozen, byOffers);
+  }
+  let html = byOffers.get(offersKey);
   if (html === undefined) {
-    html = render(frozen.snapshot);
-    drawn.set(frozen, html);
+    html = render(frozen.snapshot, offers);
+    // Only the latest few sets are kept: packets left change with every request.
+    if (byOffers.size >= 8) byOffers.clear();
+    byOffers.set(offersKey, html);
   }
   return {
     meta,

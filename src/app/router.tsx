@@ -48,11 +48,17 @@ export function appRoutes(queryClient: QueryClient): RouteObject[] {
           path: 'varieties/:variety',
           lazy: () => import('@/features/varieties/routes/variety-route'),
         },
+        // An open offer of seed is public: a published sheet links to it.
+        { path: 'offers/:offerId', lazy: () => import('@/features/seed/routes/offer-route') },
         {
           // Pages that need a signed-in user: signed-out visitors go to sign in and come back.
           loader: requireSignIn(queryClient),
           children: [
             { path: 'trials/new', lazy: () => import('@/features/design/routes/new-trial-route') },
+            {
+              path: 'varieties/:slug/seed',
+              lazy: () => import('@/features/seed/routes/variety-seed-route'),
+            },
             {
               path: 't/:slug/settings',
               lazy: () => import('@/features/design/routes/settings-route'),

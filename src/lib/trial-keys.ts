@@ -74,6 +74,16 @@ export const trialKeys = {
   publishedSheet: (slug: string, version: number | 'latest') =>
     [...view(slug, 'results'), 'published', version] as const,
   versions: (slug: string) => [...view(slug, 'results'), 'versions'] as const,
+  /** Open offers of seed of the trial's varieties, linked from its sheet. */
+  trialOffers: (slug: string) => [...view(slug, 'results'), 'seed-offers'] as const,
+  /** The lot each entry was sown from (entries are the design's). */
+  entryLots: (slug: string) => [...view(slug, 'design'), 'entry-lots'] as const,
+  /** A group's seed, above single trials: a variety's lots and offers, one offer, its requests. */
+  varietySeeds: () => ['varieties', 'seed'] as const,
+  varietySeed: (varietySlug: string) => ['varieties', 'seed', varietySlug] as const,
+  seedOffers: () => ['seed-offers'] as const,
+  seedOffer: (offerId: string) => ['seed-offers', offerId] as const,
+  seedRequests: (offerId: string) => ['seed-offers', offerId, 'requests'] as const,
 };
 
 /** What a write changed. */

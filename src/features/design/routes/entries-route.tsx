@@ -7,7 +7,9 @@ import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/t
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUnitSystem } from '@/lib/session';
 import { useDeletePart, useSavePart } from '../api/design-parts';
+import { useEntryLots } from '../api/entry-lots';
 import { DesignPage } from '../components/design-page';
+import { EntryLot } from '../components/entry-lot';
 import { PartActions, PartForm, PartFormActions } from '../components/part-editing';
 import { lengthInput, spacingUnit } from '../components/units';
 
@@ -141,6 +143,7 @@ function Entries({ design, slug }: { design: Design; slug: string }) {
   const remove = useDeletePart(slug, 'entries');
   const editing = design.entries.find((e) => e.id === editingId) ?? null;
   const layoutExists = design.plots.length > 0;
+  const { data: entryLots } = useEntryLots(slug);
   return (
     <div className="grid gap-4 lg:grid-cols-2">
       <section aria-labelledby="entry-list">
@@ -182,6 +185,13 @@ function Entries({ design, slug }: { design: Design; slug: string }) {
                   ? ' · no fertilizer'
                   : ''}
               </p>
+              {entryLots?.entries.find((l) => l.entryId === e.id) ? (
+                <EntryLot
+                  slug={slug}
+                  entry={entryLots.entries.find((l) => l.entryId === e.id)!}
+                  canEdit={entryLots.canEdit}
+                />
+              ) : null}
               {design.canEdit ? (
                 <PartActions
                   name={e.name}

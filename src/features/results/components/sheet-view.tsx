@@ -6,6 +6,7 @@ import {
   type ResultSnapshot,
 } from '@common/contracts/results';
 import { modelNote, varietyTestNote } from '@common/contracts/analysis';
+import type { TrialOffer } from '@common/contracts/seed';
 import { displayNumber } from '@common/precision';
 import { designLabels } from '@common/contracts/trials';
 import { formatDepth } from '@common/units';
@@ -28,9 +29,12 @@ function photoUrl(s: ResultSnapshot, photoId: string, variant: 'thumb' | 'displa
 export function SheetView({
   sheet,
   preview = false,
+  offers = [],
 }: {
   sheet: ResultSnapshot;
   preview?: boolean;
+  /** Open offers of seed of the trial's varieties (live, not part of the published version). */
+  offers?: readonly TrialOffer[];
 }) {
   const units = useUnitSystem();
   // One display unit per trait: the lead's when published with one, else by its grand mean's size.
@@ -297,6 +301,23 @@ export function SheetView({
           ))}
         </ul>
       </section>
+      {offers.length ? (
+        <section aria-labelledby="seed-offers" className="mt-6 rounded-lg bg-leaf-50 p-3">
+          <h2 id="seed-offers" className="text-lg font-semibold text-leaf-900">
+            Seed on offer
+          </h2>
+          <ul className="mt-1 space-y-1">
+            {offers.map((o) => (
+              <li key={o.id}>
+                <a className="font-medium text-leaf-700 underline" href={`/offers/${o.id}`}>
+                  Ask for a packet of {o.varietyName}
+                </a>{' '}
+                ({o.packetsLeft} {o.packetsLeft === 1 ? 'packet' : 'packets'} left)
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
       <p className="mt-6 text-sm text-loam-700">Licence: {licenseLabels[sheet.license]}.</p>
     </article>
   );

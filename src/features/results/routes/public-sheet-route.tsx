@@ -10,6 +10,7 @@ import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { removePrerenderedSheet } from '@/lib/prerendered-sheet';
 import { useFollowResults } from '../api/follow-results';
 import { usePublishedSheet } from '../api/get-published-sheet';
+import { useTrialOffers } from '../api/get-trial-offers';
 import { useVersions } from '../api/get-versions';
 import { SheetView } from '../components/sheet-view';
 
@@ -50,6 +51,7 @@ export function Component() {
   const number = version ? Number(version) : undefined;
   const { data: sheet, isPending, error } = usePublishedSheet(slug, number);
   const { data: versions } = useVersions(slug);
+  const { data: offers } = useTrialOffers(slug);
   // The server's drawing of the sheet goes once this page shows the sheet (or why it cannot).
   const settled = !isPending;
   useLayoutEffect(() => {
@@ -97,7 +99,7 @@ export function Component() {
           All numbers (JSON)
         </a>
       </div>
-      <SheetView sheet={sheet} />
+      <SheetView sheet={sheet} offers={offers?.offers} />
       {versions && versions.versions.length > 1 ? (
         <nav aria-label="Versions" className="no-print mx-auto mt-6 max-w-4xl">
           <h2 className="text-lg font-semibold text-leaf-900">Versions</h2>
