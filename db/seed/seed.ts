@@ -4,6 +4,7 @@ import crypto from 'node:crypto';
 import type { ObjectStorage } from '../../server/storage/object-storage';
 import type { DB } from '../database';
 import { seedDemoPhotos } from './demo-photos';
+import { seedDemoSeedLots } from './demo-seed-lots';
 import { addDays } from '../../common/calendar-date';
 import { demoGroup, joinDemoRegister, seedDemoRegister } from './demo-register';
 import { EARLIER_SEASON_SEED, earlierDemoTrials } from './demo-earlier-seasons';
@@ -33,6 +34,7 @@ export async function seedDemoIfEmpty(db: DB, storage?: ObjectStorage): Promise<
   await seedSplitPlotTrial(db);
   if (storage) await seedDemoPhotos(db, storage);
   await publishDemoSheet(db);
+  await seedDemoSeedLots(db);
   return true;
 }
 

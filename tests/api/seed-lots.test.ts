@@ -14,6 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { seedDemo } from '../../db/seed/seed';
 import { publishDemoSheet } from '../../db/seed/demo-sheet';
+import { demoLots, seedDemoSeedLots } from '../../db/seed/demo-seed-lots';
 import {
   createTestApp,
   createUser,
@@ -33,6 +34,7 @@ beforeAll(async () => {
   t = await createTestApp();
   await seedDemo(t.db);
   await publishDemoSheet(t.db);
+  await seedDemoSeedLots(t.db);
   for (const a of demoAccounts) cookies[a.key] = await mintSessionCookie(t, a);
   const trialLead = await createUser(t.db, { name: 'Odile Fairbairn' });
   const okra = await t.db
@@ -101,6 +103,26 @@ const lotIn = async (id: string, who = 'lead') => {
     }[];
   };
 };
+
+describe('the demo seed library', () => {
+  it('has a tested lot for a few varieties, okra entries sown from them, and one open offer', async () => {
+    const velvet = await as('grower').get('/api/varieties/velvet-lantern/seed');
+    const lot = velvet.body.lots.find((l: { label: string }) => l.label === 'VL-25');
+    expect(lot.tests[0]).toMatchObject({ seedsTested: 50, seedsGerminated: 46, percent: 92 });
+    expect(lot.sown.map((s: { trialSlug: string }) => s.trialSlug)).toEqual([OKRA]);
+    const mossbank = await as('grower').get('/api/varieties/mossbank-long/seed');
+    // 71 of 100 is below the default 80 %, and a March 2025 test is over a year old by now.
+    expect(mossbank.body.lots[0].warnings.map((w: { kind: string }) => w.kind)).toContain(
+      'below_threshold',
+    );
+    const offered = demoLots.filter((d) => d.offer);
+    expect(offered).toHaveLength(1);
+    const sheet = await as('signedOut').get(`/api/seed/offers?trial=${BEAN}`);
+    expect(sheet.body.offers).toEqual([
+      expect.objectContaining({ varietyName: 'Dovecote Purple', packetsLeft: 12 }),
+    ]);
+  });
+});
 
 describe('seed lots and germination tests', () => {
   it('lets the coordinator keep lots; members read; outsiders and the signed-out see nothing', async () => {
