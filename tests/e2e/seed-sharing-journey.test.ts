@@ -1,0 +1,116 @@
+/**
+ * Seed sharing in a real browser against the built app: a member on a phone follows the
+ * published sheet's link to the open offer and asks for a packet through the form; the
+ * coordinator, on a desktop, sees the request beside the variety's lots and marks the packet
+ * sent; the member's letter arrives in the development mailbox. Every wait is for a state on
+ * the page, never for time.
+ */
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoAccounts } from '../../db/seed/demo-season';
+import { seedDemoSeedLots } from '../../db/seed/demo-seed-lots';
+import { publishDemoSheet } from '../../db/seed/demo-sheet';
+import {
+  closeBrowserSuite,
+  contextAs,
+  expectNoSeriousA11yViolations,
+  type LiveApp,
+  openBrowserSuite,
+  screenshot,
+  watchErrors,
+} from '../support/browser';
+
+let live: LiveApp;
+let browser: Browser;
+const coordinator = demoAccounts.find((a) => a.key === 'lead')!;
+const member = demoAccounts.find((a) => a.key === 'grower')!;
+const sheet = '/r/fennick-bush-beans-2026';
+
+beforeAll(async () => {
+  ({ live, browser } = await openBrowserSuite({ demo: true }));
+  await publishDemoSheet(live.db);
+  await seedDemoSeedLots(live.db);
+});
+afterAll(() => closeBrowserSuite(live, browser));
+
+describe('sharing seed', () => {
+  it('draws the offer link into the server’s sheet as well as the browser’s', async () => {
+    const offer = await live.db
+      .selectFrom('seed_offers')
+      .select('id')
+      .where('status', '=', 'open')
+      .executeTakeFirstOrThrow();
+    const html = await (await fetch(`${live.url}${sheet}`)).text();
+    const drawn = html.slice(html.indexOf('id="sheet-prerender"'));
+    // React's server markup puts a comment between a text and a value placed after it.
+    expect(drawn.includes(`href="/offers/${offer.id}"`)).toBe(true);
+    expect(/Ask for a packet of (<!-- -->)?Dovecote Purple/.test(drawn)).toBe(true);
+  });
+
+  it('goes from a member’s request on a phone to the coordinator’s answer and the mail', async () => {
+    // The member, on a phone: from the published sheet to the offer.
+    const phone = await contextAs(browser, live, member, { width: 360, height: 780 });
+    const page = await phone.newPage();
+    const errors = watchErrors(page);
+    await page.goto(sheet);
+    await page.getByRole('heading', { name: 'Seed on offer' }).waitFor();
+    await page.getByRole('link', { name: 'Ask for a packet of Dovecote Purple' }).click();
+    await page.getByRole('heading', { name: 'Seed of Dovecote Purple' }).waitFor();
+    await page.getByText('12 of 12 packets left').waitFor();
+    // The contract's own message, before the server is asked.
+    await page.getByRole('button', { name: 'Ask for a packet' }).click();
+    await page.getByText('Enter the address to send the packet to.').waitFor();
+    await expectNoSeriousA11yViolations(page, 'offer page at 360 px');
+    await page.getByLabel('Send the packet to').fill('Flat 2, 9 Kettle Yard, Larkhaven');
+    await page
+      .getByLabel('Message to the coordinator (optional)')
+      .fill('For the north bed next spring.');
+    await page.getByRole('button', { name: 'Ask for a packet' }).click();
+    await page.getByText('Your request: Waiting').waitFor();
+    await page.getByText('11 of 12 packets left').waitFor();
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+      360,
+    );
+    await screenshot(page, 'seed-offer-phone');
+    expect(errors).toEqual([]);
+
+    // The coordinator, on a desktop: the request beside the variety's lots.
+    const desk = await contextAs(browser, live, coordinator);
+    const deskPage = await desk.newPage();
+    const deskErrors = watchErrors(deskPage);
+    await deskPage.goto('/varieties/dovecote-purple/seed');
+    await deskPage.getByRole('heading', { name: 'Seed of Dovecote Purple' }).waitFor();
+    await deskPage.getByRole('heading', { name: 'Lot DP-26' }).waitFor();
+    // 93 of 100 germinated: 93 %, with the Wilson interval of common/germination.ts (checked
+    // against Newcombe 1998 and R's prop.test in tests/unit/germination.test.ts) to one decimal.
+    await deskPage.getByText('93 %', { exact: true }).waitFor();
+    await deskPage.getByText('(86.3–96.6 %)').waitFor();
+    await deskPage.getByText('Send to: Flat 2, 9 Kettle Yard, Larkhaven').waitFor();
+    await expectNoSeriousA11yViolations(deskPage, 'variety seed page');
+    await deskPage.getByRole('button', { name: 'Mark Tobiah Wrenfield’s packet sent' }).click();
+    await deskPage.getByText('Tobiah Wrenfield (tobiah@larkhaven-seeds.example) · Sent').waitFor();
+    await screenshot(deskPage, 'seed-requests-desktop');
+
+    // The lead sees which lot each okra entry was sown from, on the trial's entries.
+    await deskPage.goto('/t/larkhaven-okra-2026/entries');
+    const lotChoice = deskPage.getByLabel('Seed lot of Velvet Lantern');
+    await lotChoice.waitFor();
+    expect(await lotChoice.locator('option:checked').textContent()).toBe('VL-25 (2025)');
+    expect(deskErrors).toEqual([]);
+
+    // The member's letter, in the development mailbox.
+    await page.goto('/dev/mailbox');
+    const letter = page.getByRole('article', { name: /Your Dovecote Purple seed is on its way/ });
+    await letter.waitFor();
+    await letter
+      .getByText('Larkhaven Seed Library has sent you a packet of Dovecote Purple seed.')
+      .waitFor();
+    await letter
+      .getByRole('link', { name: /\/offers\// })
+      .first()
+      .waitFor();
+    await expectNoSeriousA11yViolations(page, 'mailbox at 360 px');
+    await phone.close();
+    await desk.close();
+  });
+});
