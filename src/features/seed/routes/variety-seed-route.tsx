@@ -458,6 +458,11 @@ export function Component() {
   return (
     <div className="mx-auto max-w-4xl space-y-4">
       <header>
+        <p className="text-sm text-loam-700">
+          <Link to={`/varieties/${slug}`} className="underline">
+            {seed.variety.name}’s record across trials
+          </Link>
+        </p>
         <p className="text-sm uppercase tracking-wide text-loam-700">
           {seed.variety.crop} · {seed.group.name}
         </p>

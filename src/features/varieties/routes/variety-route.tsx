@@ -17,7 +17,8 @@ import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
-import { useUnitSystem } from '@/lib/session';
+import { useMe, useUnitSystem } from '@/lib/session';
+import { useGroups } from '../api/get-varieties';
 import { useVariety } from '../api/get-variety';
 import { seasonSiteTable } from '../components/season-chart-data';
 import { SeasonChart } from '../components/season-chart';
@@ -88,8 +89,7 @@ const figureColumns = [
       <ul>
         {c.row.original.trait.sites.map((s) => (
           <li key={s.site}>
-            {s.site}:{' '}
-            {formatInUnit(s.mean, c.row.original.unit, c.row.original.trait.decimals)}
+            {s.site}: {formatInUnit(s.mean, c.row.original.unit, c.row.original.trait.decimals)}
           </li>
         ))}
       </ul>
@@ -99,6 +99,10 @@ const figureColumns = [
 
 function About({ record, onEdit }: { record: VarietyRecord; onEdit?: () => void }) {
   const v = record.variety;
+  const { data: me } = useMe();
+  // The group's people keep and share its seed; the seed page is theirs.
+  const { data: groups } = useGroups(Boolean(me));
+  const inGroup = groups?.groups.some((g) => g.id === v.group.id) ?? false;
   return (
     <>
       <p className="text-sm uppercase tracking-wide text-loam-700">
@@ -136,6 +140,14 @@ function About({ record, onEdit }: { record: VarietyRecord; onEdit?: () => void 
         >
           Compare with other varieties
         </Link>
+        {inGroup ? (
+          <Link
+            to={`/varieties/${v.slug}/seed`}
+            className="inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-4 font-semibold text-leaf-700 hover:bg-leaf-50"
+          >
+            Seed lots and offers
+          </Link>
+        ) : null}
         {onEdit ? (
           <button
             type="button"
@@ -255,9 +267,8 @@ function Record({ record }: { record: VarietyRecord }) {
         </h2>
         <p className="text-sm text-loam-700">
           Mean over the trial (least-squares where its layout was unbalanced), rank among the
-          trial’s entries in the trait’s direction (1 = best; traits with no preferred direction
-          are not ranked), and letter group (entries sharing a letter did not differ
-          significantly).
+          trial’s entries in the trait’s direction (1 = best; traits with no preferred direction are
+          not ranked), and letter group (entries sharing a letter did not differ significantly).
         </p>
         <ScrollRegion
           label="Figures season by season"
