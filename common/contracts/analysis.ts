@@ -157,8 +157,11 @@ export const trialAnalysisQuery = z.object({
   basis: z.enum(analysisBases).default('plot'),
   alpha,
   letters: z.enum(letterMethods).default('hsd'),
-  /** Left out: the classical analysis, as the analyze command's default (the page always sends one). */
-  model: z.enum(analysisModels).default('anova'),
+  /**
+   * Left out: the classical analysis, as the analyze command's default, except for incomplete
+   * blocks and networks, which the mixed model analyses (the page always sends one).
+   */
+  model: z.enum(analysisModels).optional(),
   /** With the mixed model: also fit varieties as random (BLUPs, heritability). */
   varietiesRandom: z
     .enum(['true', 'false'])

@@ -9,6 +9,7 @@ import { addDays } from '../../common/calendar-date';
 import { demoGroup, joinDemoRegister, seedDemoRegister } from './demo-register';
 import { EARLIER_SEASON_SEED, earlierDemoTrials } from './demo-earlier-seasons';
 import { DEMO_SEED, demoAccounts, type DemoTrial, demoTrials, generateSeason } from './demo-season';
+import { seedNetworkTrial } from './demo-network';
 import { publishDemoSheet } from './demo-sheet';
 import { seedSplitPlotTrial } from './demo-split-plot';
 import { generateDemoWeather } from './demo-weather';
@@ -32,6 +33,7 @@ export async function seedDemoIfEmpty(db: DB, storage?: ObjectStorage): Promise<
   await seedDemo(db);
   await seedEarlierSeasons(db);
   await seedSplitPlotTrial(db);
+  await seedNetworkTrial(db);
   if (storage) await seedDemoPhotos(db, storage);
   await publishDemoSheet(db);
   await seedDemoSeedLots(db);

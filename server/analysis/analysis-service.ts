@@ -10,6 +10,7 @@ import {
   type designs,
 } from '../../common/contracts/analysis';
 import { designLabels } from '../../common/contracts/trials';
+import { isIncompleteDesign } from '../../common/contracts/trials';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial, TrialDesign } from '../../db/schema';
@@ -384,17 +385,20 @@ export async function analyseTrialTrait(
   },
   traitsOfTrial: () => Promise<TrialTraits> = () => repo.trialTraits(db, trial.id),
 ): Promise<TrialAnalysis> {
+  // Blocks (or gardens) that hold only some entries are analysed by the mixed model unless the
+  // caller asks otherwise; other designs keep the classical analysis as the default here.
+  const model = query.model ?? (isIncompleteDesign(trial.design) ? 'mixed' : 'anova');
   const question = {
     trait: query.trait,
     basis: query.basis,
     alpha: query.alpha,
     letters: query.letters,
-    model: query.model ?? 'anova',
+    model,
     varietiesRandom: query.varietiesRandom ?? false,
   };
   return cachedForTrialData(trial, question, async () => {
     const trait = await resolveTrait(traitsOfTrial, query.trait);
-    return analyseTrait(db, trial, trait, query.basis, query);
+    return analyseTrait(db, trial, trait, query.basis, { ...query, model });
   });
 }
 

@@ -9,6 +9,7 @@ import { EARLIER_SEASON_SEED, earlierDemoTrials } from '../../db/seed/demo-earli
 import { DEMO_SEED, demoAccounts, demoTrials } from '../../db/seed/demo-season';
 import { SPLIT_PLOT_SLUG, splitPlotVarieties } from '../../db/seed/demo-split-plot';
 import { DEMO_PUBLISHED_SLUG, DEMO_VERSION_NOTE } from '../../db/seed/demo-sheet';
+import { networkEntries } from '../../db/seed/demo-network';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
 import { localStorage } from '../../server/storage/local-storage';
 import { createTestApp, mintSessionCookie, type TestApp } from '../support/test-app';
@@ -195,7 +196,11 @@ describe('the demo season', () => {
       .executeTakeFirstOrThrow();
     expect(Number(entries.n)).toBe(0);
     expect(res.body.varieties).toHaveLength(
-      new Set([...okra2025, ...okra2026]).size + 5 + 5 + splitPlotVarieties().length,
+      new Set([...okra2025, ...okra2026]).size +
+        5 +
+        5 +
+        splitPlotVarieties().length +
+        networkEntries.length,
     );
   });
 

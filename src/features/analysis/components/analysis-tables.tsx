@@ -4,8 +4,11 @@ import {
   varianceSourceLabels,
   varietyTestNote,
 } from '@common/contracts/analysis';
+import { designLabels, type trialDesigns } from '@common/contracts/trials';
 import { type DisplayUnit, formatF, formatNumber, formatP } from '@common/display-units';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+
+type TrialDesign = (typeof trialDesigns)[number];
 
 const designWords = {
   crd: 'completely randomized',
@@ -29,9 +32,18 @@ const tableWrap = 'mt-2 rounded-lg bg-white shadow-sm';
 const th = 'p-2 font-semibold';
 const td = 'p-2 tabular-nums';
 
-export function ResultSummary({ result, unit }: { result: AnalysisResult; unit: DisplayUnit }) {
+export function ResultSummary({
+  result,
+  unit,
+  trialDesign,
+}: {
+  result: AnalysisResult;
+  unit: DisplayUnit;
+  /** A trial's own design, which may be one the engine reads as blocks (incomplete blocks). */
+  trialDesign?: TrialDesign;
+}) {
   const items: [string, string][] = [
-    ['Design', designWords[result.design]],
+    ['Design', trialDesign ? designLabels[trialDesign].toLowerCase() : designWords[result.design]],
     ['Plot values', String(result.n)],
     ['Grand mean', `${formatNumber(result.grandMean * unit.factor)} ${unit.label}`],
     ['CV', result.cvPercent === null ? '—' : `${result.cvPercent.toFixed(1)} %`],

@@ -7,6 +7,7 @@ import {
   defaultModelFor,
   derivedTraits,
   modelLabels,
+  modelReasonFor,
   modelsForDesign,
 } from '@common/contracts/analysis';
 import { useId } from 'react';
@@ -190,6 +191,12 @@ export function Component() {
           </span>
         </label>
       </form>
+      {modelReasonFor(design) ? (
+        <p role="note" className="mt-2 max-w-prose rounded-lg bg-straw-100 p-3 text-sm">
+          <span className="font-semibold">Why the mixed model: </span>
+          {modelReasonFor(design)}
+        </p>
+      ) : null}
 
       <div aria-live="polite">
         {analysis.isFetching ? (
@@ -218,7 +225,7 @@ export function Component() {
             </span>
           </h2>
           <p className="text-sm text-loam-700">Plot value: {result.valueNote}.</p>
-          <ResultSummary result={result} unit={unit} />
+          <ResultSummary result={result} unit={unit} trialDesign={t.design} />
           <WarningsList warnings={result.warnings} />
           <MixedModelPanel result={result} unit={unit} />
           {result.model === 'mixed' ? (
