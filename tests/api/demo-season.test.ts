@@ -9,7 +9,7 @@ import { EARLIER_SEASON_SEED, earlierDemoTrials } from '../../db/seed/demo-earli
 import { DEMO_SEED, demoAccounts, demoTrials } from '../../db/seed/demo-season';
 import { SPLIT_PLOT_SLUG, splitPlotVarieties } from '../../db/seed/demo-split-plot';
 import { DEMO_PUBLISHED_SLUG, DEMO_VERSION_NOTE } from '../../db/seed/demo-sheet';
-import { networkEntries } from '../../db/seed/demo-network';
+import { NETWORK_LAYOUT_SEED, NETWORK_SLUG, networkEntries } from '../../db/seed/demo-network';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
 import { localStorage } from '../../server/storage/local-storage';
 import { createTestApp, mintSessionCookie, type TestApp } from '../support/test-app';
@@ -58,15 +58,20 @@ describe('the demo season', () => {
         'layout_generated_at',
         'factor_levels',
         'factor_arrangement',
+        'block_size',
       ])
       .execute();
     const earlier = earlierDemoTrials.map((d) => d.slug);
     expect(trials.map((x) => x.slug).sort()).toEqual(
-      [...demoTrials.map((d) => d.slug), ...earlier, SPLIT_PLOT_SLUG].sort(),
+      [...demoTrials.map((d) => d.slug), ...earlier, SPLIT_PLOT_SLUG, NETWORK_SLUG].sort(),
     );
     for (const trial of trials) {
       expect(trial.layout_seed).toBe(
-        earlier.includes(trial.slug) ? EARLIER_SEASON_SEED : DEMO_SEED,
+        earlier.includes(trial.slug)
+          ? EARLIER_SEASON_SEED
+          : trial.slug === NETWORK_SLUG
+            ? NETWORK_LAYOUT_SEED
+            : DEMO_SEED,
       );
       expect(trial.layout_generated_at).toBeInstanceOf(Date);
       // The design service's order: entries by code, sites by name.
@@ -92,6 +97,7 @@ describe('the demo season', () => {
           trial.factor_levels && trial.factor_arrangement
             ? { levels: trial.factor_levels, arrangement: trial.factor_arrangement }
             : null,
+        ...(trial.block_size ? { blockSize: trial.block_size } : {}),
       });
       const stored = await t.db
         .selectFrom('plots')
