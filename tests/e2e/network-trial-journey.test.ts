@@ -6,7 +6,12 @@ import { readFileSync } from 'node:fs';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { describePlan } from '../../common/incomplete-blocks';
-import { NETWORK_SLUG, networkEntries, networkLayout } from '../../db/seed/demo-network';
+import {
+  NETWORK_SLUG,
+  networkEntries,
+  networkLayout,
+  seedNetworkTrial,
+} from '../../db/seed/demo-network';
 import { demoAccounts } from '../../db/seed/demo-season';
 import {
   closeBrowserSuite,
@@ -34,6 +39,8 @@ const plan = describePlan(
 
 beforeAll(async () => {
   ({ live, browser } = await openBrowserSuite({ demo: true }));
+  // The browser suite loads the current season only; the network joins it as on a fresh start.
+  await seedNetworkTrial(live.db);
 });
 afterAll(() => closeBrowserSuite(live, browser));
 

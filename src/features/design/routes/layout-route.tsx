@@ -373,7 +373,7 @@ export function Component() {
             design={design}
             slug={slug}
           />
-          <div className="space-y-4">
+          <div className="min-w-0 space-y-4">
             <BlockBalance design={design} />
             <PlotPlan key={design.layout.generatedAt ?? 'none'} design={design} slug={slug} />
           </div>
