@@ -42,8 +42,12 @@ export const modelLabels: Record<AnalysisModel, string> = {
  * The models a design can be analysed with: a completely randomized trial has no gardens or
  * blocks to treat as random, so only the classical analysis applies to it.
  */
-export function modelsForDesign(design: (typeof trialDesigns)[number]): AnalysisModel[] {
-  return design === 'crd' ? ['anova'] : ['anova', 'mixed'];
+export function modelsForDesign(
+  design: (typeof trialDesigns)[number],
+  /** A two-factor trial: its strata come from the classical analysis only, so far. */
+  twoFactor = false,
+): AnalysisModel[] {
+  return design === 'crd' || twoFactor ? ['anova'] : ['anova', 'mixed'];
 }
 
 /**
@@ -51,7 +55,11 @@ export function modelsForDesign(design: (typeof trialDesigns)[number]): Analysis
  * site by the classical analysis; several sites by the mixed model, which uses every plot of a
  * garden that lost some and weighs gardens by what they hold.
  */
-export function defaultModelFor(design: (typeof trialDesigns)[number]): AnalysisModel {
+export function defaultModelFor(
+  design: (typeof trialDesigns)[number],
+  twoFactor = false,
+): AnalysisModel {
+  if (twoFactor) return 'anova';
   switch (design) {
     case 'crd':
     case 'rcbd':

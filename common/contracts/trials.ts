@@ -105,6 +105,15 @@ export const trialDetailSchema = trialSummarySchema.extend({
   observationCount: z.number().int(),
   /** The sites a grower is limited to; null when the caller may record at every site. */
   mySiteIds: z.array(z.uuid()).nullable(),
+  /** The second factor (a treatment) of a two-factor trial; null for one factor. */
+  factor: z
+    .object({
+      name: z.string(),
+      levels: z.array(z.string()),
+      arrangement: z.enum(factorArrangements),
+    })
+    .nullable()
+    .optional(),
   /**
    * The trial this one was copied from, if the caller may see it: `view` says where to link
    * (its design page for members, its public results sheet once published).

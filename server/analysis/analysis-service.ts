@@ -404,8 +404,11 @@ export async function analyseTrialTrait(
 
 /** A model the trial's design cannot be analysed with is the caller's mistake, named. */
 function refuseModelOutsideDesign(trial: Trial, model: AnalysisModel) {
-  if (modelsForDesign(trial.design).includes(model)) return;
-  const message = `A ${designLabels[trial.design].toLowerCase()} trial is analysed with the classical analysis only.`;
+  if (modelsForDesign(trial.design, trialFactor(trial) !== null).includes(model)) return;
+  const message =
+    trialFactor(trial) !== null
+      ? 'A two-factor trial is analysed with the classical analysis only.'
+      : `A ${designLabels[trial.design].toLowerCase()} trial is analysed with the classical analysis only.`;
   throw new AppError('validation_failed', message, {
     fields: [{ path: 'query.model', message }],
   });

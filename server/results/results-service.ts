@@ -16,7 +16,7 @@ import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import type { MailQueue } from '../mail/mail-queue';
 import { composeMail } from '../mail/mailer';
-import { trialForAction } from '../trials/trials-service';
+import { trialFactor, trialForAction } from '../trials/trials-service';
 import { variantKey } from '../photos/photos-service';
 import type { ObjectStorage } from '../storage/object-storage';
 import { hashToken, newToken } from './follower-tokens';
@@ -98,7 +98,10 @@ async function assertSheetRefersToTrial(db: DB, trial: Trial, body: SaveSheetBod
   const traitKeys = new Set(traits.map((t) => t.key));
   const entryIds = new Set(entries.map((e) => e.id));
   const fields: { path: string; message: string }[] = [];
-  if (body.model && !modelsForDesign(trial.design).includes(body.model))
+  if (
+    body.model &&
+    !modelsForDesign(trial.design, trialFactor(trial) !== null).includes(body.model)
+  )
     fields.push({
       path: 'body.model',
       message: `A ${designLabels[trial.design].toLowerCase()} trial is analysed by the classical analysis of variance only.`,

@@ -9,6 +9,7 @@ import { cautions, isSpinyCrop } from '../../common/cautions';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { analyzeForSheet, rankForSheet, seasonForSheet } from './sheet-analysis';
+import { trialFactor } from '../trials/trials-service';
 
 const spinyTraitKeys = ['spines'];
 
@@ -36,7 +37,7 @@ export async function defaultSheet(db: DB, trial: Trial): Promise<SaveSheetBody>
 
 /** The model a sheet is analysed with: the lead's choice, else the one the design suggests. */
 export const modelOfSheet = (trial: Trial, sheet: SaveSheetBody): AnalysisModel =>
-  sheet.model ?? defaultModelFor(trial.design);
+  sheet.model ?? defaultModelFor(trial.design, trialFactor(trial) !== null);
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 

@@ -93,6 +93,7 @@ export async function trialDetail(
   return {
     ...trialHeading(trial),
     copiedFrom: await copiedFrom(db, trial, actor),
+    factor: trialFactor(trial),
     myRole: access.role,
     mySiteIds: access.growerSiteIds,
     ...tallies,

@@ -64,10 +64,11 @@ export function Component() {
   const letters = params.get('letters') === 'lsd' ? 'lsd' : 'hsd';
   // The model: the lead's choice where the design allows it, else the one the design suggests.
   const design = trial.data?.design ?? 'crd';
-  const models = modelsForDesign(design);
+  const twoFactor = Boolean(trial.data?.factor);
+  const models = modelsForDesign(design, twoFactor);
   const modelParam = params.get('model') as AnalysisModel | null;
   const model: AnalysisModel =
-    modelParam && models.includes(modelParam) ? modelParam : defaultModelFor(design);
+    modelParam && models.includes(modelParam) ? modelParam : defaultModelFor(design, twoFactor);
   // Nothing is asked for until the trial (and so its design) is known.
   const analysis = useTrialAnalysis(slug, {
     trait: trial.data ? traitKey : '',
@@ -185,9 +186,11 @@ export function Component() {
             ))}
           </select>
           <span id={`${id}-model-help`} className="text-xs text-loam-700">
-            {models.length < 2
-              ? 'No blocks or gardens to treat as random.'
-              : `Suggested by the design: ${modelLabels[defaultModelFor(design)]}.`}
+            {twoFactor
+              ? 'A two-factor trial is analysed with its strata by the classical analysis.'
+              : models.length < 2
+                ? 'No blocks or gardens to treat as random.'
+                : `Suggested by the design: ${modelLabels[defaultModelFor(design)]}.`}
           </span>
         </label>
       </form>

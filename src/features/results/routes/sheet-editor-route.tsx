@@ -210,8 +210,13 @@ function SheetEditor({
             <SelectField
               label="Model"
               options={[
-                ['', `As the design suggests (${modelLabels[defaultModelFor(t.design)]})`],
-                ...modelsForDesign(t.design).map((m) => [m, modelLabels[m]] as const),
+                [
+                  '',
+                  `As the design suggests (${modelLabels[defaultModelFor(t.design, Boolean(t.factor))]})`,
+                ],
+                ...modelsForDesign(t.design, Boolean(t.factor)).map(
+                  (m) => [m, modelLabels[m]] as const,
+                ),
               ]}
               error={errors.model?.message}
               {...form.register('model')}
