@@ -216,13 +216,22 @@ export interface AnalysisResult {
 }
 
 const MISSING = new Set(['', 'NA', 'na', 'N/A', 'n/a', '.']);
+const PLAIN_DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)$/;
 
-interface Plot {
-  variety: string;
-  site: string;
-  block: string | null;
-  firstRow: number;
-  rowIndices: number[];
+/** Integer codes for a factor's levels, in order of first appearance. */
+class Coder {
+  readonly levels: string[] = [];
+  codes = new Int32Array(0);
+  private readonly index = new Map<string, number>();
+  code(level: string): number {
+    let c = this.index.get(level);
+    if (c === undefined) {
+      c = this.levels.length;
+      this.index.set(level, c);
+      this.levels.push(level);
+    }
+    return c;
+  }
 }
 
 /**
@@ -255,6 +264,9 @@ function leftOutWarning(rowNumbers: readonly number[]): string {
 
 /** A plot value as exact decimal text, null when it is missing; refuses what is not a number. */
 function valueText(raw: PlotRow['value'], rowNo: number, trait: string): string | null {
+  // Most cells are short plain decimals: already in the form readDecimalText gives back, and
+  // too short (no exponent, at most 140 characters) to leave VALUE_LIMITS.
+  if (typeof raw === 'string' && raw.length <= 140 && PLAIN_DECIMAL.test(raw)) return raw;
   if (raw === null || raw === undefined || (typeof raw === 'string' && MISSING.has(raw.trim())))
     return null;
   let text: string;
@@ -301,25 +313,34 @@ export function analyzePlotRows(
   const hasBlock = rows.some((r) => label(r.block) !== null);
   const hasSite = rows.some((r) => label(r.site) !== null);
 
-  // Validate rows and read values as exact decimal text.
+  // One pass over the rows: check them, read values as exact decimal text, and code the
+  // factors as integers in order of first appearance (rows sharing (site, plot) are
+  // sub-samples of one plot, so a plot's factors are those of its first row).
   const texts: string[] = [];
-  const kept: {
-    row: number;
-    variety: string;
-    site: string;
-    block: string | null;
-    plot: string | null;
-  }[] = [];
+  const plotOfValue: number[] = [];
   const missingRows: number[] = [];
-  rows.forEach((r, i) => {
+  const entry = new Coder();
+  const site = new Coder();
+  const block = new Coder();
+  // Per site: block label → global block code, plot label → plot index.
+  const blocksAt: Map<string, number>[] = [];
+  const plotsAt: Map<string, number>[] = [];
+  const plotEntry: number[] = [];
+  const plotSite: number[] = [];
+  const plotBlock: number[] = [];
+  const plotBlockLabel: (string | null)[] = [];
+  const plotFirstRow: number[] = [];
+  const plotRows: number[] = [];
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i]!;
     const rowNo = r.row ?? i + 1;
     const variety = label(r.variety);
     if (variety === null) throw new AnalysisInputError(`row ${rowNo}, column "variety": empty`);
-    const site = label(r.site);
-    if (hasSite && site === null)
+    const siteLabel = label(r.site);
+    if (hasSite && siteLabel === null)
       throw new AnalysisInputError(`row ${rowNo}, column "site": empty`);
-    const block = label(r.block);
-    if (hasBlock && block === null)
+    const blockLabel = label(r.block);
+    if (hasBlock && blockLabel === null)
       throw new AnalysisInputError(`row ${rowNo}, column "block": empty`);
     const plot = label(r.plot);
     if (hasPlot && plot === null)
@@ -327,77 +348,65 @@ export function analyzePlotRows(
     const text = valueText(r.value, rowNo, trait);
     if (text === null) {
       missingRows.push(rowNo);
-      return;
+      continue;
     }
+    const s = site.code(siteLabel ?? '');
+    const plotsHere = (plotsAt[s] ??= new Map());
+    const existing = plot === null ? undefined : plotsHere.get(plot);
+    if (existing !== undefined) {
+      const firstVariety = entry.levels[plotEntry[existing]!]!;
+      if (firstVariety !== variety) {
+        throw new AnalysisInputError(
+          `row ${rowNo}, column "variety": plot "${plot}" is "${firstVariety}" in row ${plotFirstRow[existing]} but "${variety}" here`,
+        );
+      }
+      if (plotBlockLabel[existing] !== blockLabel) {
+        throw new AnalysisInputError(
+          `row ${rowNo}, column "block": plot "${plot}" is in block "${plotBlockLabel[existing]}" in row ${plotFirstRow[existing]} but "${blockLabel}" here`,
+        );
+      }
+      plotRows[existing]!++;
+      texts.push(text);
+      plotOfValue.push(existing);
+      continue;
+    }
+    const p = plotEntry.length;
+    if (plot !== null) plotsHere.set(plot, p);
+    plotEntry.push(entry.code(variety));
+    plotSite.push(s);
+    const blocksHere = (blocksAt[s] ??= new Map());
+    const blockKey = blockLabel ?? '';
+    let b = blocksHere.get(blockKey);
+    if (b === undefined) {
+      b = block.code(`${siteLabel ?? ''}\u0000${blockKey}`);
+      blocksHere.set(blockKey, b);
+    }
+    plotBlock.push(b);
+    plotBlockLabel.push(blockLabel);
+    plotFirstRow.push(rowNo);
+    plotRows.push(1);
     texts.push(text);
-    kept.push({ row: rowNo, variety, site: site ?? '', block, plot });
-  });
+    plotOfValue.push(p);
+  }
   if (missingRows.length > 0) warnings.push(leftOutWarning(missingRows));
-  if (kept.length === 0) throw new AnalysisInputError(`column "${trait}": no values`);
-
-  // Sub-samples: rows sharing (site, plot) are one plot.
-  const plots: Plot[] = [];
-  const byKey = new Map<string, Plot>();
-  kept.forEach((r, i) => {
-    const key = r.plot === null ? null : `${r.site}\u0000${r.plot}`;
-    const existing = key === null ? undefined : byKey.get(key);
-    if (existing) {
-      if (existing.variety !== r.variety) {
-        throw new AnalysisInputError(
-          `row ${r.row}, column "variety": plot "${r.plot}" is "${existing.variety}" in row ${existing.firstRow} but "${r.variety}" here`,
-        );
-      }
-      if (existing.block !== r.block) {
-        throw new AnalysisInputError(
-          `row ${r.row}, column "block": plot "${r.plot}" is in block "${existing.block}" in row ${existing.firstRow} but "${r.block}" here`,
-        );
-      }
-      existing.rowIndices.push(i);
-      return;
-    }
-    const p: Plot = {
-      variety: r.variety,
-      site: r.site,
-      block: r.block,
-      firstRow: r.row,
-      rowIndices: [i],
-    };
-    plots.push(p);
-    if (key !== null) byKey.set(key, p);
-  });
-  const subSampled = plots.filter((p) => p.rowIndices.length > 1).length;
+  if (texts.length === 0) throw new AnalysisInputError(`column "${trait}": no values`);
+  const plotCount = plotEntry.length;
+  let subSampled = 0;
+  for (let p = 0; p < plotCount; p++) if (plotRows[p]! > 1) subSampled++;
   if (subSampled > 0) {
     warnings.push(
-      `sub-samples averaged: ${kept.length} rows became ${plots.length} plot values (${subSampled} plots had more than one row)`,
+      `sub-samples averaged: ${texts.length} rows became ${plotCount} plot values (${subSampled} plots had more than one row)`,
     );
   }
 
-  // Exact offset removal, then one value per plot.
+  // Exact offset removal, then one value per plot (sub-samples added in row order).
   const centred = centreDecimalTexts(texts);
-  const y = new Float64Array(plots.length);
-  plots.forEach((p, i) => {
-    let s = 0;
-    for (const j of p.rowIndices) s += centred.deviations[j]!;
-    y[i] = s / p.rowIndices.length;
-  });
-
-  // Factor codes in order of first appearance.
-  const code = (values: string[]) => {
-    const map = new Map<string, number>();
-    const codes = new Int32Array(values.length);
-    values.forEach((v, i) => {
-      let c = map.get(v);
-      if (c === undefined) {
-        c = map.size;
-        map.set(v, c);
-      }
-      codes[i] = c;
-    });
-    return { codes, levels: [...map.keys()] };
-  };
-  const entry = code(plots.map((p) => p.variety));
-  const site = code(plots.map((p) => p.site));
-  const block = code(plots.map((p) => `${p.site}\u0000${p.block ?? ''}`));
+  const y = new Float64Array(plotCount);
+  for (let j = 0; j < texts.length; j++) y[plotOfValue[j]!]! += centred.deviations[j]!;
+  if (subSampled > 0) for (let p = 0; p < plotCount; p++) y[p] = y[p]! / plotRows[p]!;
+  entry.codes = Int32Array.from(plotEntry);
+  site.codes = Int32Array.from(plotSite);
+  block.codes = Int32Array.from(plotBlock);
 
   if (limits.maxEntries !== undefined && entry.levels.length > limits.maxEntries)
     throw new AnalysisLimitError('entries', limits.maxEntries, entry.levels.length);

@@ -46,20 +46,25 @@ interface Solution {
   tau: Float64Array;
 }
 
-/** Pivoted Cholesky on the Schur complement, with forward and back substitution. */
+/**
+ * Pivoted Cholesky on the Schur complement, with forward and back substitution. `sys.c` must be
+ * exactly symmetric (as the reduced systems built here are).
+ */
 export function solveReduced(sys: Reduced, k: number): Solution {
   const s = Float64Array.from(sys.c);
   const b = Float64Array.from(sys.q);
-  const remaining: number[] = [];
-  for (let e = 0; e < k; e++) if (sys.n[e]! > 0) remaining.push(e);
+  // Entries not yet pivoted, in entry order (typed, and shortened in place).
+  const remaining = new Int32Array(k);
+  let left = 0;
+  for (let e = 0; e < k; e++) if (sys.n[e]! > 0) remaining[left++] = e;
   const pivots: number[] = [];
   const columns: Float64Array[] = [];
   const z: number[] = [];
   let ss = 0;
-  while (remaining.length > 0) {
+  while (left > 0) {
     let best = -1;
     let bestValue = 0;
-    for (let r = 0; r < remaining.length; r++) {
+    for (let r = 0; r < left; r++) {
       const e = remaining[r]!;
       const d = s[e * k + e]!;
       if (d > PIVOT_TOLERANCE * sys.n[e]! && d > bestValue) {
@@ -69,19 +74,32 @@ export function solveReduced(sys: Reduced, k: number): Solution {
     }
     if (best < 0) break;
     const p = remaining[best]!;
-    remaining.splice(best, 1);
+    remaining.copyWithin(best, best + 1, left);
+    left--;
     const root = Math.sqrt(bestValue);
     const l = new Float64Array(k);
     l[p] = root;
-    for (const i of remaining) l[i] = s[i * k + p]! / root;
-    for (const i of remaining) {
+    // C is symmetric to the last bit (every entry is built from products that commute), so
+    // only its lower triangle (row entry ≥ column entry) is kept up to date.
+    for (let r = 0; r < left; r++) {
+      const i = remaining[r]!;
+      l[i] = s[i > p ? i * k + p : p * k + i]! / root;
+    }
+    for (let r = 0; r < left; r++) {
+      const i = remaining[r]!;
       const li = l[i]!;
       if (li === 0) continue;
       const row = i * k;
-      for (const j of remaining) s[row + j] = s[row + j]! - li * l[j]!;
+      for (let c = 0; c <= r; c++) {
+        const j = remaining[c]!;
+        s[row + j] = s[row + j]! - li * l[j]!;
+      }
     }
     const zr = b[p]! / root;
-    for (const i of remaining) b[i] = b[i]! - l[i]! * zr;
+    for (let r = 0; r < left; r++) {
+      const i = remaining[r]!;
+      b[i] = b[i]! - l[i]! * zr;
+    }
     ss += zr * zr;
     pivots.push(p);
     columns.push(l);

@@ -11,8 +11,6 @@ import Decimal from 'decimal.js';
 
 // A plain decimal number: optional sign, digits with an optional fraction, optional exponent.
 const DECIMAL_TEXT = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-// The fast path handles sign, digits and fraction without exponent.
-const PLAIN_FIXED = /^([+-]?)(\d*)(?:\.(\d*))?$/;
 
 /** Largest count of significant digits whose integer form is always exact in a double. */
 const EXACT_DIGITS = 15;
@@ -39,19 +37,41 @@ export interface CentredValues {
   offsetNumber: number;
 }
 
-interface ScaledInt {
-  negative: boolean;
-  digits: string; // integer digits with the fraction appended
-  fractionDigits: number;
-}
-
-function splitFixed(text: string): ScaledInt | null {
-  const m = PLAIN_FIXED.exec(text);
-  if (!m) return null;
-  const intPart = m[2] ?? '';
-  const frac = m[3] ?? '';
-  if (intPart === '' && frac === '') return null;
-  return { negative: m[1] === '-', digits: intPart + frac, fractionDigits: frac.length };
+/**
+ * Reads plain fixed-point text (sign, digits, optional fraction; no exponent) as its digits
+ * taken as an integer, into ints[i], and returns the count of fraction digits; -1 when the text
+ * is not plain or has more than EXACT_DIGITS significant digits (then the integer may not be
+ * exact). The integer is built digit by digit, exactly, since it stays below 10^15.
+ */
+function readScaled(text: string, ints: Float64Array, i: number): number {
+  let at = 0;
+  let negative = false;
+  const first = text.charCodeAt(0);
+  if (first === 43 /* + */ || first === 45 /* - */) {
+    negative = first === 45;
+    at = 1;
+  }
+  let v = 0;
+  let significant = 0;
+  let digits = 0;
+  let fraction = -1;
+  for (; at < text.length; at++) {
+    const c = text.charCodeAt(at);
+    if (c === 46 /* . */ && fraction < 0) {
+      fraction = 0;
+      continue;
+    }
+    const d = c - 48;
+    if (d < 0 || d > 9) return -1;
+    digits++;
+    if (fraction >= 0) fraction++;
+    if (v === 0 && d === 0) continue;
+    if (++significant > EXACT_DIGITS) return -1;
+    v = v * 10 + d;
+  }
+  if (digits === 0) return -1;
+  ints[i] = negative ? -v : v;
+  return fraction < 0 ? 0 : fraction;
 }
 
 /**
@@ -64,31 +84,33 @@ export function centreDecimalTexts(texts: readonly string[]): CentredValues {
   if (n === 0) return { deviations, offset: '0', offsetNumber: 0 };
 
   // Fast exact path: scale every value to an integer with a common count of fraction
-  // digits. Integers up to 15 digits are exact doubles and so are their differences;
+  // digits. Integers up to 15 digits are exact doubles and so are their differences
+  // (and a product of such an integer with a power of ten that stays below 10^15);
   // the one division by a power of ten rounds once.
-  const parts: ScaledInt[] = [];
+  const ints = new Float64Array(n);
+  const fractions = new Int32Array(n);
   let scale = 0;
   let fast = true;
-  for (const t of texts) {
-    const p = splitFixed(t);
-    if (!p) {
+  for (let i = 0; i < n; i++) {
+    const f = readScaled(texts[i]!, ints, i);
+    if (f < 0) {
       fast = false;
       break;
     }
-    parts.push(p);
-    if (p.fractionDigits > scale) scale = p.fractionDigits;
+    fractions[i] = f;
+    if (f > scale) scale = f;
   }
   if (fast && scale <= 22) {
-    const ints = new Float64Array(n);
-    for (let i = 0; i < n && fast; i++) {
-      const p = parts[i]!;
-      const significant = p.digits.replace(/^0+/, '').length + (scale - p.fractionDigits);
-      if (significant > EXACT_DIGITS) {
+    for (let i = 0; i < n; i++) {
+      const widen = scale - fractions[i]!;
+      if (widen === 0) continue;
+      const v = ints[i]!;
+      // Significant digits after widening; zero stays zero at any scale.
+      if (v !== 0 && Math.abs(v) * 10 ** widen >= 10 ** EXACT_DIGITS) {
         fast = false;
         break;
       }
-      const v = Number(p.digits + '0'.repeat(scale - p.fractionDigits));
-      ints[i] = p.negative ? -v : v;
+      ints[i] = v * 10 ** widen;
     }
     if (fast) {
       const medianIndex = indexOfMedian(ints);
@@ -108,14 +130,27 @@ export function centreDecimalTexts(texts: readonly string[]): CentredValues {
   return { deviations, offset: base.toString(), offsetNumber: base.toNumber() };
 }
 
-/** Index of a median element (the lower middle for even n). */
+/**
+ * Index of a median element (the lower middle for even n); among equal values, the one a
+ * stable sort of the indices by value would put there.
+ */
 function indexOfMedian(values: Float64Array): number {
-  const order = Array.from(values.keys()).sort((a, b) => values[a]! - values[b]!);
-  return order[(order.length - 1) >> 1]!;
+  const n = values.length;
+  const middle = (n - 1) >> 1;
+  const median = Float64Array.from(values).sort()[middle]!;
+  let below = 0;
+  for (let i = 0; i < n; i++) if (values[i]! < median) below++;
+  let tie = middle - below;
+  for (let i = 0; i < n; i++) if (values[i] === median && tie-- === 0) return i;
+  return middle;
 }
 
 /** offset + deviation, added in exact decimal and rounded once. */
 export function addOffset(offset: string, deviation: number): number {
   if (deviation === 0) return Number(offset);
-  return new Decimal(offset).plus(new Decimal(deviation)).toNumber();
+  // One analysis adds the same offset to every mean: read it once.
+  if (offset !== lastOffset.text) lastOffset = { text: offset, exact: new Decimal(offset) };
+  return lastOffset.exact.plus(new Decimal(deviation)).toNumber();
 }
+
+let lastOffset = { text: '0', exact: new Decimal(0) };

@@ -289,6 +289,20 @@ function studentTDensity(t: number, df: number): number {
  * (for p > ½ the tail 1 − p is the accurate quantity to aim at).
  */
 export function studentTQuantile(p: number, df: number): number {
+  // Like the studentized range below: the same few (level, df) come again and again.
+  const key = `${p}|${df}`;
+  let x = tQuantiles.get(key);
+  if (x === undefined) {
+    x = computeStudentTQuantile(p, df);
+    if (tQuantiles.size >= 512) tQuantiles.delete(tQuantiles.keys().next().value!);
+    tQuantiles.set(key, x);
+  }
+  return x;
+}
+
+const tQuantiles = new Map<string, number>();
+
+function computeStudentTQuantile(p: number, df: number): number {
   if (!(p > 0 && p < 1) || !(df > 0)) return NaN;
   if (p === 0.5) return 0;
   const upper = p > 0.5;

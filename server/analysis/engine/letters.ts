@@ -38,21 +38,33 @@ export function compactLettersWithin(
   workLimit: number = LETTER_WORK_LIMIT,
 ): string[] | null {
   const k = order.length;
-  const words = Math.ceil(k / 32) || 1;
-  // Groups as bit sets over positions in `order` (position 0 = highest mean).
-  let groups: Uint32Array[] = [];
-  const all = new Uint32Array(words);
-  for (let p = 0; p < k; p++) all[p >> 5]! |= 1 << (p & 31);
-  if (k > 0) groups.push(all);
-
-  const has = (g: Uint32Array, p: number) => (g[p >> 5]! >>> (p & 31)) & 1;
-  const subset = (a: Uint32Array, b: Uint32Array) => {
+  // Work is counted in 32-entry words, whatever the storage below.
+  const words32 = Math.ceil(k / 32) || 1;
+  // Groups as bit sets over positions in `order` (position 0 = highest mean), stored in plain
+  // arrays of 30-bit words so every word stays a small integer (cheap to copy and collect).
+  const words = Math.ceil(k / BITS) || 1;
+  const wordOf = new Int32Array(k);
+  const bitOf = new Int32Array(k);
+  for (let p = 0; p < k; p++) {
+    wordOf[p] = (p / BITS) | 0;
+    bitOf[p] = 1 << (p % BITS);
+  }
+  let groups: number[][] = [];
+  if (k > 0) {
+    const all = new Array<number>(words).fill(0);
+    for (let p = 0; p < k; p++) all[wordOf[p]!]! |= bitOf[p]!;
+    groups.push(all);
+  }
+  const subset = (a: number[], b: number[]) => {
     for (let w = 0; w < words; w++) if ((a[w]! & ~b[w]!) !== 0) return false;
     return true;
   };
 
   let work = 0;
+  const fresh: number[][] = [];
   for (let p = 0; p < k; p++) {
+    const wp = wordOf[p]!;
+    const bp = bitOf[p]!;
     for (let q = p + 1; q < k; q++) {
       // Testing a pair is a unit of work too, so the limit bounds the time as well.
       if (!separated(order[p]!, order[q]!)) {
@@ -60,54 +72,46 @@ export function compactLettersWithin(
         continue;
       }
       // Each split scans every group; each absorption check compares against every kept one.
-      work += groups.length * words;
+      work += groups.length * words32;
       if (work > workLimit) return null;
-      const kept: Uint32Array[] = [];
-      const fresh: Uint32Array[] = [];
-      for (const g of groups) {
-        if (has(g, p) && has(g, q)) {
-          const withoutP = g.slice();
-          withoutP[p >> 5]! &= ~(1 << (p & 31));
-          const withoutQ = g.slice();
-          withoutQ[q >> 5]! &= ~(1 << (q & 31));
-          fresh.push(withoutP, withoutQ);
-        } else kept.push(g);
+      const wq = wordOf[q]!;
+      const bq = bitOf[q]!;
+      // Split in place: groups holding both lose one of the pair each way; the rest stay.
+      fresh.length = 0;
+      let kept = 0;
+      for (let g = 0; g < groups.length; g++) {
+        const group = groups[g]!;
+        if ((group[wp]! & bp) !== 0 && (group[wq]! & bq) !== 0) {
+          const withoutQ = group.slice();
+          withoutQ[wq] = withoutQ[wq]! & ~bq;
+          group[wp] = group[wp]! & ~bp;
+          fresh.push(group, withoutQ);
+        } else groups[kept++] = group;
       }
       if (fresh.length === 0) continue;
+      groups.length = kept;
       // Absorb: an untouched group can never lie inside a new one (it was not inside the
       // group that was split), so only new groups need checking, against everything kept.
-      work += fresh.length * (kept.length + fresh.length) * words;
+      // What remains is the new groups contained in no other group (one copy of equal ones).
+      work += fresh.length * (kept + fresh.length) * words32;
       if (work > workLimit) return null;
-      const next = kept.slice();
       for (let a = 0; a < fresh.length; a++) {
         const g = fresh[a]!;
         let absorbed = false;
-        for (const h of next) {
-          if (subset(g, h)) {
-            absorbed = true;
-            break;
-          }
-        }
-        if (!absorbed) {
-          for (let b = a + 1; b < fresh.length; b++) {
-            if (subset(g, fresh[b]!)) {
-              absorbed = true;
-              break;
-            }
-          }
-        }
-        if (!absorbed) next.push(g);
+        for (let h = 0; h < groups.length && !absorbed; h++) absorbed = subset(g, groups[h]!);
+        for (let b = a + 1; b < fresh.length && !absorbed; b++) absorbed = subset(g, fresh[b]!);
+        if (!absorbed) groups.push(g);
       }
-      groups = next;
     }
   }
 
   // Letter order: by the best (lowest-position) member, then by the next members.
-  const firstMember = (g: Uint32Array) => {
+  const has = (g: number[], p: number) => ((g[wordOf[p]!]! & bitOf[p]!) !== 0 ? 1 : 0);
+  const firstMember = (g: number[]) => {
     for (let p = 0; p < k; p++) if (has(g, p)) return p;
     return k;
   };
-  groups.sort((a, b) => {
+  groups = groups.slice().sort((a, b) => {
     for (let p = Math.min(firstMember(a), firstMember(b)); p < k; p++) {
       const d = has(b, p) - has(a, p);
       if (d !== 0) return d;
@@ -121,6 +125,9 @@ export function compactLettersWithin(
   });
   return out;
 }
+
+/** Entries per storage word of a group's bit set (below 31, so words stay small integers). */
+const BITS = 30;
 
 /**
  * a … z, then A … Z; beyond 52 groups a bracketed number, so every letter stays one
