@@ -122,7 +122,11 @@ export function createApp(deps: AppDeps) {
   app.use('/api/health', healthRouter(deps));
   app.use('/api/ready', readyRouter(deps));
   app.use('/api', sameOriginOnly([deps.baseUrl]));
-  app.use('/api', resolveActor(deps.auth));
+  // Published sheets and their downloads are the same for everyone: no session lookup.
+  app.use(
+    '/api',
+    resolveActor(deps.auth, (path) => path === '/results' || path.startsWith('/results/')),
+  );
   const mailbox = mailboxInUse(deps.env, deps.mailbox) ? deps.mailbox : undefined;
   if (mailbox) app.use('/api/dev/mailbox', mailboxRouter(mailbox));
   for (const [mountPath, router] of apiMounts(deps)) app.use(mountPath, router);

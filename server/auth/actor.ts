@@ -4,9 +4,21 @@ import type { Actor } from '../../common/policy';
 import { AppError } from '../lib/app-error';
 import type { Auth } from './auth';
 
-/** Reads the session cookie once per request and leaves the signed-in user in res.locals. */
-export function resolveActor(auth: Auth): RequestHandler {
+/**
+ * Reads the session cookie once per request and leaves the signed-in user in res.locals.
+ * Requests for which `readsAsNobody(path)` holds (routes that serve anyone alike) skip the
+ * session lookup and act as nobody.
+ */
+export function resolveActor(
+  auth: Auth,
+  readsAsNobody: (path: string) => boolean = () => false,
+): RequestHandler {
   return async (req, res, next) => {
+    if (readsAsNobody(req.path)) {
+      res.locals.actor = null;
+      next();
+      return;
+    }
     const session = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
     res.locals.actor = session
       ? ({

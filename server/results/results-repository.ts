@@ -102,6 +102,25 @@ export function versionStamp(db: DB, trialId: string, version?: number) {
   return q.orderBy('version', 'desc').limit(1).executeTakeFirst();
 }
 
+/**
+ * The stamp of a published trial's version (the newest when none is named), read as nobody:
+ * no row when the trial is not published; a row with a null version when it has no such one.
+ */
+export function publishedVersionStamp(db: DB, slug: string, version?: number) {
+  return db
+    .selectFrom('trials as t')
+    .leftJoin('result_versions as v', (join) => {
+      const on = join.onRef('v.trial_id', '=', 't.id');
+      return version === undefined ? on : on.on('v.version', '=', version);
+    })
+    .select(['t.id as trial_id', 'v.version', 'v.published_at'])
+    .where('t.slug', '=', slug)
+    .where('t.status', '=', 'published')
+    .orderBy('v.version', (o) => o.desc().nullsLast())
+    .limit(1)
+    .executeTakeFirst();
+}
+
 export function findVersion(db: DB, trialId: string, version: number) {
   return db
     .selectFrom('result_versions')

@@ -96,15 +96,25 @@ const downloadQuery = z.object({
 /** A published version may be read from a shared cache for five minutes. */
 const cachePublished = (res: Response) => res.setHeader('Cache-Control', 'public, max-age=300');
 
+/**
+ * A frozen version as stored bytes: gzip-compressed once at freezing for a reader who accepts
+ * it (the compression middleware leaves an answer that already has an encoding alone), each
+ * encoding with its own strong ETag (RFC 9110 §8.8.3), and 304 when the reader has it.
+ */
 function sendFrozen(req: Request, res: Response, frozen: service.FrozenVersion) {
   cachePublished(res);
-  res.setHeader('ETag', frozen.etag);
+  res.setHeader('Vary', 'Accept-Encoding');
+  const gzip = /\bgzip\b/.test(req.headers['accept-encoding'] ?? '');
+  const etag = gzip ? frozen.gzipEtag : frozen.etag;
+  res.setHeader('ETag', etag);
   const asked = req.headers['if-none-match'];
-  if (asked && asked.split(',').some((t) => t.trim() === frozen.etag)) {
+  if (asked && asked.split(',').some((t) => t.trim() === etag)) {
     res.status(304).end();
     return;
   }
-  res.type('application/json').send(frozen.json);
+  res.type('application/json');
+  if (gzip) res.setHeader('Content-Encoding', 'gzip');
+  res.send(gzip ? frozen.gzip : frozen.body);
 }
 
 /** Public reading, downloads and following, under /api/results. Anyone may call these. */

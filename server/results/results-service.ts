@@ -1,4 +1,5 @@
 import crypto from 'node:crypto';
+import zlib from 'node:zlib';
 import sharp from 'sharp';
 import type { Actor } from '../../common/policy';
 import {
@@ -207,28 +208,42 @@ export async function publishedTrial(db: DB, slug: string): Promise<Trial> {
   return trial;
 }
 
-/** A published version as it is sent: the checked snapshot, its JSON text and a strong ETag. */
+/**
+ * A published version as it is sent: the checked snapshot, its JSON text, the same as UTF-8
+ * bytes and gzip-compressed once, and a strong ETag for each of the two encodings.
+ */
 export interface FrozenVersion {
   snapshot: ResultSnapshot;
   json: string;
+  body: Buffer;
+  gzip: Buffer;
   etag: string;
+  gzipEtag: string;
 }
 
 /**
- * Published versions never change once written, so each is checked and serialised once per
- * process and kept (the most recent few hundred). The key holds the version's row identity and
- * publication time, so a republished or deleted trial can never be answered from it; whether
- * the trial is still published is asked of the database on every request.
+ * Published versions never change once written, so each is checked, serialised and compressed
+ * once per process and kept (the most recent few hundred). The key holds the version's row
+ * identity and publication time, so a republished or deleted trial can never be answered from
+ * it; whether the trial is still published is asked of the database on every request.
  */
 const frozenVersions = new Map<string, FrozenVersion>();
 const FROZEN_VERSIONS_KEPT = 200;
 
+/** A published sheet's version for anyone: one query for the stamp, the rest from memory. */
 export async function frozenVersion(
   db: DB,
   slug: string,
   version?: number,
 ): Promise<FrozenVersion> {
-  return frozenVersionOf(db, await publishedTrial(db, slug), version);
+  const stamp = await repo.publishedVersionStamp(db, slug, version);
+  if (!stamp) throw AppError.notFound('The results sheet');
+  if (stamp.version === null || stamp.published_at === null)
+    throw AppError.notFound(`Version ${version ?? 1} of the results sheet`);
+  return frozenFromStamp(db, stamp.trial_id, {
+    version: stamp.version,
+    published_at: stamp.published_at,
+  });
 }
 
 /** The same for a trial already read as published (see `publishedTrial`). */
@@ -239,17 +254,33 @@ export async function frozenVersionOf(
 ): Promise<FrozenVersion> {
   const meta = await repo.versionStamp(db, trial.id, version);
   if (!meta) throw AppError.notFound(`Version ${version ?? 1} of the results sheet`);
-  const key = `${trial.id}:${meta.version}:${meta.published_at.getTime()}`;
+  return frozenFromStamp(db, trial.id, meta);
+}
+
+async function frozenFromStamp(
+  db: DB,
+  trialId: string,
+  meta: { version: number; published_at: Date },
+): Promise<FrozenVersion> {
+  const key = `${trialId}:${meta.version}:${meta.published_at.getTime()}`;
   const kept = frozenVersions.get(key);
   if (kept) return kept;
-  const row = await repo.findVersion(db, trial.id, meta.version);
+  const row = await repo.findVersion(db, trialId, meta.version);
   if (!row) throw AppError.notFound(`Version ${meta.version} of the results sheet`);
   const parsed = resultSnapshotSchema.safeParse(row.snapshot);
   if (!parsed.success)
     throw new AppError('internal', 'This version of the results sheet could not be read.');
   const json = JSON.stringify(parsed.data);
-  const etag = `"${crypto.createHash('sha256').update(key).update(json).digest('base64url').slice(0, 27)}"`;
-  const frozen = { snapshot: parsed.data, json, etag };
+  const tag = crypto.createHash('sha256').update(key).update(json).digest('base64url').slice(0, 27);
+  const body = Buffer.from(json, 'utf8');
+  const frozen: FrozenVersion = {
+    snapshot: parsed.data,
+    json,
+    body,
+    gzip: zlib.gzipSync(body, { level: zlib.constants.Z_BEST_COMPRESSION }),
+    etag: `"${tag}"`,
+    gzipEtag: `"${tag}-gz"`,
+  };
   if (frozenVersions.size >= FROZEN_VERSIONS_KEPT)
     frozenVersions.delete(frozenVersions.keys().next().value!);
   frozenVersions.set(key, frozen);
