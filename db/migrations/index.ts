@@ -21,6 +21,7 @@ import * as photoUploadIds from './2026-12-02T3100-photo-upload-ids';
 import * as sheetModel from './2026-12-02T3400-sheet-model';
 import * as varietyRegister from './2026-12-02T3500-variety-register';
 import * as trialDataVersion from './2026-12-02T3700-trial-data-version';
+import * as harvestTotalsIndex from './2026-12-02T4200-harvest-totals-index';
 import * as seedLots from './2026-12-02T4400-seed-lots';
 import * as incompleteBlocks from './2026-12-02T4500-incomplete-blocks';
 import * as trialSecondFactor from './2026-12-02T4600-trial-second-factor';
@@ -44,6 +45,7 @@ export const migrations: Record<string, Migration> = {
   '2026-12-02T3400-sheet-model': sheetModel,
   '2026-12-02T3500-variety-register': varietyRegister,
   '2026-12-02T3700-trial-data-version': trialDataVersion,
+  '2026-12-02T4200-harvest-totals-index': harvestTotalsIndex,
   '2026-12-02T4400-seed-lots': seedLots,
   '2026-12-02T4500-incomplete-blocks': incompleteBlocks,
   '2026-12-02T4600-trial-second-factor': trialSecondFactor,
