@@ -610,8 +610,9 @@ export function analyzePlotRows(
   });
   // Ranks in the trait's direction, by the adjusted means (equal to the arithmetic ones when
   // balanced).
-  const adjustedOf = (variety: string) =>
-    addOffset(centred.offset, adjusted.mean[indexOf.get(variety)!]!);
+  // Each adjusted mean is needed twice (ranks, the listing): offset added once per entry.
+  const adjustedMean = Array.from(adjusted.mean, (m) => addOffset(centred.offset, m));
+  const adjustedOf = (variety: string) => adjustedMean[indexOf.get(variety)!]!;
   const means: EntrySummary[] = rankMeans(
     unranked.map((row) => ({ row, mean: adjustedOf(row.variety) })),
     options.direction ?? 'higher',

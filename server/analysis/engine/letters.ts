@@ -60,48 +60,58 @@ export function compactLettersWithin(
     return true;
   };
 
+  // Entries are taken one at a time, with all the pairs they are separated from further down
+  // the order. Every group holding entry p and one or more of those entries T splits into
+  // (group without p) and (group without T), and only groups contained in no other are kept:
+  // the same groups pair-by-pair insert-and-absorb reaches (the maximal sets of entries no
+  // pair of which is separated), with one split per group and entry instead of one per pair.
   let work = 0;
+  const separatedFromP = new Array<number>(words);
   const fresh: number[][] = [];
   for (let p = 0; p < k; p++) {
     const wp = wordOf[p]!;
     const bp = bitOf[p]!;
+    separatedFromP.fill(0);
+    let any = false;
     for (let q = p + 1; q < k; q++) {
       // Testing a pair is a unit of work too, so the limit bounds the time as well.
-      if (!separated(order[p]!, order[q]!)) {
-        if (++work > workLimit) return null;
-        continue;
+      if (++work > workLimit) return null;
+      if (separated(order[p]!, order[q]!)) {
+        separatedFromP[wordOf[q]!]! |= bitOf[q]!;
+        any = true;
       }
-      // Each split scans every group; each absorption check compares against every kept one.
-      work += groups.length * words32;
-      if (work > workLimit) return null;
-      const wq = wordOf[q]!;
-      const bq = bitOf[q]!;
-      // Split in place: groups holding both lose one of the pair each way; the rest stay.
-      fresh.length = 0;
-      let kept = 0;
-      for (let g = 0; g < groups.length; g++) {
-        const group = groups[g]!;
-        if ((group[wp]! & bp) !== 0 && (group[wq]! & bq) !== 0) {
-          const withoutQ = group.slice();
-          withoutQ[wq] = withoutQ[wq]! & ~bq;
-          group[wp] = group[wp]! & ~bp;
-          fresh.push(group, withoutQ);
-        } else groups[kept++] = group;
-      }
-      if (fresh.length === 0) continue;
-      groups.length = kept;
-      // Absorb: an untouched group can never lie inside a new one (it was not inside the
-      // group that was split), so only new groups need checking, against everything kept.
-      // What remains is the new groups contained in no other group (one copy of equal ones).
-      work += fresh.length * (kept + fresh.length) * words32;
-      if (work > workLimit) return null;
-      for (let a = 0; a < fresh.length; a++) {
-        const g = fresh[a]!;
-        let absorbed = false;
-        for (let h = 0; h < groups.length && !absorbed; h++) absorbed = subset(g, groups[h]!);
-        for (let b = a + 1; b < fresh.length && !absorbed; b++) absorbed = subset(g, fresh[b]!);
-        if (!absorbed) groups.push(g);
-      }
+    }
+    if (!any) continue;
+    // Each split scans every group; each absorption check compares against every kept one.
+    work += groups.length * words32;
+    if (work > workLimit) return null;
+    fresh.length = 0;
+    let kept = 0;
+    for (let g = 0; g < groups.length; g++) {
+      const group = groups[g]!;
+      let meets = false;
+      if ((group[wp]! & bp) !== 0)
+        for (let w = 0; w < words && !meets; w++) meets = (group[w]! & separatedFromP[w]!) !== 0;
+      if (meets) {
+        const withoutT = group.slice();
+        for (let w = 0; w < words; w++) withoutT[w] = withoutT[w]! & ~separatedFromP[w]!;
+        group[wp] = group[wp]! & ~bp;
+        fresh.push(group, withoutT);
+      } else groups[kept++] = group;
+    }
+    if (fresh.length === 0) continue;
+    groups.length = kept;
+    // Absorb: an untouched group can never lie inside a new one (it was not inside the
+    // group that was split), so only new groups need checking, against everything kept
+    // (one copy of equal new groups stays).
+    work += fresh.length * (kept + fresh.length) * words32;
+    if (work > workLimit) return null;
+    for (let a = 0; a < fresh.length; a++) {
+      const g = fresh[a]!;
+      let absorbed = false;
+      for (let h = 0; h < groups.length && !absorbed; h++) absorbed = subset(g, groups[h]!);
+      for (let b = a + 1; b < fresh.length && !absorbed; b++) absorbed = subset(g, fresh[b]!);
+      if (!absorbed) groups.push(g);
     }
   }
 
