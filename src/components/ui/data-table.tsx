@@ -1,10 +1,14 @@
 /**
- * The one table for lists a reader sorts, or thins out by choosing columns (on
- * @tanstack/react-table). Headers are buttons (keyboard) carrying aria-sort; the row's first
- * column can be its row header. Print-only layouts stay plain tables.
+ * The one table for rows of data (on @tanstack/react-table): a reader sorts by a column's header
+ * button (keyboard; aria-sort says the order), and may thin the columns out. Rows whose order
+ * is the content (a ranking, an ANOVA table) turn sorting off. The row's naming column can be
+ * its row header. Put it in a `ScrollRegion` with a label for narrow screens; print styles
+ * (src/styles/index.css) show it whole. Only layouts made to be printed and written on stay
+ * plain tables.
  */
 import {
   type ColumnDef,
+  type ColumnMeta,
   flexRender,
   getCoreRowModel,
   getSortedRowModel,
@@ -13,18 +17,24 @@ import {
   useReactTable,
   type VisibilityState,
 } from '@tanstack/react-table';
-import { useId, useState } from 'react';
+import { type ReactNode, useId, useState } from 'react';
 
 declare module '@tanstack/react-table' {
   // eslint-disable-next-line @typescript-eslint/no-unused-vars
   interface ColumnMeta<TData, TValue> {
     /** Extra classes for this column's cells, from the row (e.g. a "missing" highlight). */
     cellClassName?: (row: TData) => string;
+    /** Numbers line up on the right, in the header as in the cells. */
+    align?: 'right';
+    /** Attributes for this column's cells, from the row (e.g. the raw value as `data-*`). */
+    cellProps?: (row: TData) => Record<`data-${string}`, string | number | undefined>;
   }
 }
 
 export interface DataTableProps<T> {
-  caption: string;
+  /** The table's name; read by screen readers, and shown above it with `showCaption`. */
+  caption: ReactNode;
+  showCaption?: boolean;
   data: T[];
   columns: ColumnDef<T, any>[];
   rowId: (row: T) => string;
@@ -32,6 +42,12 @@ export interface DataTableProps<T> {
   rowHeader?: string;
   /** Offer a choice of which columns to show. */
   chooseColumns?: boolean;
+  /** False where the order of the rows is itself the content. */
+  sortable?: boolean;
+  /** Extra classes for the table (e.g. a minimum width before it scrolls sideways). */
+  className?: string;
+  /** Extra classes for a row, from its data. */
+  rowClassName?: (row: T) => string;
 }
 
 const ariaSort = { asc: 'ascending', desc: 'descending' } as const;
@@ -43,6 +59,10 @@ export function DataTable<T>({
   rowId,
   rowHeader,
   chooseColumns = false,
+  showCaption = false,
+  sortable = true,
+  className = '',
+  rowClassName,
 }: DataTableProps<T>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>({});
@@ -52,13 +72,15 @@ export function DataTable<T>({
     state: { sorting, columnVisibility },
     onSortingChange: setSorting,
     onColumnVisibilityChange: setColumnVisibility,
+    enableSorting: sortable,
     getRowId: (row: T) => rowId(row),
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
   });
   const id = useId();
-  const cellClass = (row: Row<T>, extra?: (r: T) => string) =>
-    `p-2 tabular-nums ${extra ? extra(row.original) : ''}`;
+  const alignClass = (align: 'right' | undefined) => (align === 'right' ? 'text-right' : '');
+  const cellClass = (row: Row<T>, meta: ColumnMeta<T, unknown> | undefined) =>
+    `p-2 tabular-nums ${alignClass(meta?.align)} ${meta?.cellClassName ? meta.cellClassName(row.original) : ''}`;
   return (
     <>
       {chooseColumns ? (
@@ -81,8 +103,10 @@ export function DataTable<T>({
           </div>
         </fieldset>
       ) : null}
-      <table className="w-full text-left text-sm">
-        <caption className="sr-only">{caption}</caption>
+      <table className={`w-full text-left text-sm ${className}`}>
+        <caption className={showCaption ? 'p-2 text-left font-semibold text-leaf-900' : 'sr-only'}>
+          {caption}
+        </caption>
         <thead className="bg-leaf-50">
           {table.getHeaderGroups().map((group) => (
             <tr key={group.id}>
@@ -92,7 +116,7 @@ export function DataTable<T>({
                   <th
                     key={header.id}
                     scope="col"
-                    className="p-2"
+                    className={`p-2 ${alignClass(header.column.columnDef.meta?.align)}`}
                     aria-sort={sorted ? ariaSort[sorted] : undefined}
                   >
                     {header.column.getCanSort() ? (
@@ -117,16 +141,20 @@ export function DataTable<T>({
         </thead>
         <tbody>
           {table.getRowModel().rows.map((row) => (
-            <tr key={row.id} className="border-t border-leaf-50">
+            <tr
+              key={row.id}
+              className={`border-t border-leaf-50 ${rowClassName ? rowClassName(row.original) : ''}`}
+            >
               {row.getVisibleCells().map((cell) => {
                 const content = flexRender(cell.column.columnDef.cell, cell.getContext());
-                const className = cellClass(row, cell.column.columnDef.meta?.cellClassName);
+                const className = cellClass(row, cell.column.columnDef.meta);
+                const props = cell.column.columnDef.meta?.cellProps?.(row.original);
                 return cell.column.id === rowHeader ? (
-                  <th key={cell.id} scope="row" className={`${className} font-semibold`}>
+                  <th key={cell.id} scope="row" className={`${className} font-semibold`} {...props}>
                     {content}
                   </th>
                 ) : (
-                  <td key={cell.id} className={className}>
+                  <td key={cell.id} className={className} {...props}>
                     {content}
                   </td>
                 );

@@ -6,6 +6,8 @@ import {
 } from '@common/contracts/analysis';
 import { designLabels, type trialDesigns } from '@common/contracts/trials';
 import { type DisplayUnit, formatF, formatNumber, formatP } from '@common/display-units';
+import { createColumnHelper } from '@tanstack/react-table';
+import { DataTable } from '@/components/ui/data-table';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
 type TrialDesign = (typeof trialDesigns)[number];
@@ -29,8 +31,10 @@ const sourceWords: Record<string, string> = {
 };
 
 const tableWrap = 'mt-2 rounded-lg bg-white shadow-sm';
-const th = 'p-2 font-semibold';
-const td = 'p-2 tabular-nums';
+const componentCol =
+  createColumnHelper<NonNullable<AnalysisResult['varianceComponents']>[number]>();
+const anovaCol = createColumnHelper<AnalysisResult['anova'][number]>();
+const meanCol = createColumnHelper<AnalysisResult['means'][number]>();
 
 export function ResultSummary({
   result,
@@ -96,46 +100,45 @@ export function MixedModelPanel({ result, unit }: { result: AnalysisResult; unit
       {result.varianceSummary ? <p className="mt-1">{result.varianceSummary}</p> : null}
       {components.length ? (
         <ScrollRegion label="Variance components" className="mt-2">
-          <table className="w-full min-w-[24rem] text-left text-sm">
-            <caption className="text-left font-semibold text-leaf-900">
-              Variance components (REML, ({unit.label})²)
-              {result.logLik === undefined ? null : (
-                <span className="block text-xs font-normal text-loam-700">
-                  REML log-likelihood {result.logLik.toFixed(3)}
-                  {result.boundary ? '; a component was estimated as zero and kept there' : ''}
-                </span>
-              )}
-            </caption>
-            <thead className="bg-leaf-50 text-leaf-900">
-              <tr>
-                <th scope="col" className={th}>
-                  Source
-                </th>
-                <th scope="col" className={`${th} text-right`}>
-                  Variance ± SE
-                </th>
-                <th scope="col" className={`${th} text-right`}>
-                  Share
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {components.map((c) => (
-                <tr key={c.source} className="border-t border-leaf-50">
-                  <th scope="row" className="p-2 font-medium">
-                    {varianceSourceLabels[c.source]}
-                  </th>
-                  <td className={`${td} text-right`} data-variance={c.variance}>
-                    {formatNumber(c.variance * f2)}
-                    {c.se === null ? '' : ` ± ${formatNumber(c.se * f2, 3)}`}
-                  </td>
-                  <td className={`${td} text-right`}>
-                    {total > 0 ? `${Math.round((100 * c.variance) / total)} %` : '—'}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <DataTable
+            showCaption
+            sortable={false}
+            className="min-w-[24rem]"
+            caption={
+              <>
+                Variance components (REML, ({unit.label})²)
+                {result.logLik === undefined ? null : (
+                  <span className="block text-xs font-normal text-loam-700">
+                    REML log-likelihood {result.logLik.toFixed(3)}
+                    {result.boundary ? '; a component was estimated as zero and kept there' : ''}
+                  </span>
+                )}
+              </>
+            }
+            data={components}
+            rowId={(c) => c.source}
+            rowHeader="source"
+            columns={[
+              componentCol.accessor((c) => varianceSourceLabels[c.source], {
+                id: 'source',
+                header: 'Source',
+              }),
+              componentCol.display({
+                id: 'variance',
+                header: 'Variance ± SE',
+                cell: ({ row: { original: c } }) =>
+                  `${formatNumber(c.variance * f2)}${c.se === null ? '' : ` ± ${formatNumber(c.se * f2, 3)}`}`,
+                meta: { align: 'right', cellProps: (c) => ({ 'data-variance': c.variance }) },
+              }),
+              componentCol.display({
+                id: 'share',
+                header: 'Share',
+                cell: ({ row: { original: c } }) =>
+                  total > 0 ? `${Math.round((100 * c.variance) / total)} %` : '—',
+                meta: { align: 'right' },
+              }),
+            ]}
+          />
         </ScrollRegion>
       ) : null}
     </section>
@@ -154,71 +157,70 @@ export function AnovaTable({
   const f2 = unit.factor * unit.factor;
   return (
     <ScrollRegion label={`Analysis of variance: ${title}`} className={tableWrap}>
-      <table className="w-full min-w-[36rem] text-left text-sm">
-        <caption className="p-2 text-left font-semibold text-leaf-900">
-          Analysis of variance: {title}
-          <span className="block text-xs font-normal text-loam-700">
-            Sequential (type I) sums of squares; SS and MS in ({unit.label})².
-            {result.model === 'mixed'
-              ? ' Shown for reference: the ranks and letters come from the mixed model.'
-              : ''}
-            {result.design === 'multisite'
-              ? ' Variety is tested against site × variety, site against blocks within sites.'
-              : ''}
-          </span>
-        </caption>
-        <thead className="bg-leaf-50 text-leaf-900">
-          <tr>
-            <th scope="col" className={th}>
-              Source
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              df
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              SS
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              MS
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              F
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              p
-            </th>
-            <th scope="col" className={th}>
-              Tested against
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {result.anova.map((l) => (
-            <tr key={l.source} className="border-t border-leaf-50">
-              <th scope="row" className="p-2 font-medium">
-                {sourceWords[l.source] ?? l.source}
-              </th>
-              <td className={`${td} text-right`}>{l.df}</td>
-              <td className={`${td} text-right`}>{formatNumber(l.ss * f2)}</td>
-              <td className={`${td} text-right`}>
-                {l.ms === null ? '—' : formatNumber(l.ms * f2)}
-              </td>
-              <td className={`${td} text-right`} data-f={l.f ?? ''}>
-                {formatF(l.f)}
-              </td>
-              <td className={`${td} text-right`}>
-                {formatP(l.p)}
-                {l.p !== null && l.p < result.alpha ? (
+      <DataTable
+        showCaption
+        sortable={false}
+        className="min-w-[36rem]"
+        caption={
+          <>
+            Analysis of variance: {title}
+            <span className="block text-xs font-normal text-loam-700">
+              Sequential (type I) sums of squares; SS and MS in ({unit.label})².
+              {result.model === 'mixed'
+                ? ' Shown for reference: the ranks and letters come from the mixed model.'
+                : ''}
+              {result.design === 'multisite'
+                ? ' Variety is tested against site × variety, site against blocks within sites.'
+                : ''}
+            </span>
+          </>
+        }
+        data={result.anova}
+        rowId={(l) => l.source}
+        rowHeader="source"
+        columns={[
+          anovaCol.accessor((l) => sourceWords[l.source] ?? l.source, {
+            id: 'source',
+            header: 'Source',
+          }),
+          anovaCol.accessor('df', { header: 'df', meta: { align: 'right' } }),
+          anovaCol.accessor('ss', {
+            header: 'SS',
+            cell: (c) => formatNumber(c.getValue() * f2),
+            meta: { align: 'right' },
+          }),
+          anovaCol.accessor('ms', {
+            header: 'MS',
+            cell: (c) => (c.getValue() === null ? '—' : formatNumber(c.getValue()! * f2)),
+            meta: { align: 'right' },
+          }),
+          anovaCol.accessor('f', {
+            header: 'F',
+            cell: (c) => formatF(c.getValue()),
+            meta: { align: 'right', cellProps: (l) => ({ 'data-f': l.f ?? '' }) },
+          }),
+          anovaCol.accessor('p', {
+            header: 'p',
+            cell: (c) => (
+              <>
+                {formatP(c.getValue())}
+                {c.getValue() !== null && c.getValue()! < result.alpha ? (
                   <span className="ml-1 font-semibold text-leaf-700">*</span>
                 ) : null}
-              </td>
-              <td className="p-2 text-loam-700">
-                {l.testedAgainst ? (sourceWords[l.testedAgainst] ?? l.testedAgainst) : ''}
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+              </>
+            ),
+            meta: { align: 'right' },
+          }),
+          anovaCol.accessor(
+            (l) => (l.testedAgainst ? (sourceWords[l.testedAgainst] ?? l.testedAgainst) : ''),
+            {
+              id: 'testedAgainst',
+              header: 'Tested against',
+              meta: { cellClassName: () => 'text-loam-700' },
+            },
+          ),
+        ]}
+      />
       <p className="px-2 pb-2 text-xs text-loam-700">* p below α = {result.alpha}</p>
     </ScrollRegion>
   );
@@ -245,79 +247,88 @@ export function MeansTable({
       : null;
   return (
     <ScrollRegion label={`Entry means: ${title}`} className={tableWrap}>
-      <table className="w-full min-w-[34rem] text-left text-sm">
-        <caption className="p-2 text-left font-semibold text-leaf-900">
-          Entry means: {title} ({unit.label})
-          <span className="block text-xs font-normal text-loam-700">
-            Entries sharing a letter are not significantly different ({test}, α = {result.alpha}).
-            SE is each entry’s own SD ÷ √n.
-            {mixed
-              ? ' Ranks and letters come from the mixed model’s estimates of the entry means (BLUEs), with the model’s SE.'
-              : adjusted
-                ? ' Ranks and letters come from the adjusted (least-squares) means: the model’s predictions averaged over blocks, with the model’s SE.'
-                : ''}
-          </span>
-        </caption>
-        <thead className="bg-leaf-50 text-leaf-900">
-          <tr>
-            <th scope="col" className={`${th} text-right`}>
-              Rank
-            </th>
-            <th scope="col" className={th}>
-              Entry
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              Plots
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              Mean ± SE
-            </th>
-            {adjusted ? (
-              <th scope="col" className={`${th} text-right`}>
-                {mixed ? 'Model estimate ± SE' : 'Adjusted mean ± SE'}
-              </th>
-            ) : null}
-            <th scope="col" className={th}>
-              Letters
-            </th>
-            <th scope="col" className={`${th} text-right`}>
-              Range
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {result.means.map((m) => (
-            <tr key={m.variety} className="border-t border-leaf-50">
-              <td className={`${td} text-right`}>{m.rank ?? '—'}</td>
-              <th scope="row" className="p-2 font-medium">
-                {codes?.[m.variety] ? (
-                  <span className="mr-1 font-mono text-xs text-loam-700">{codes[m.variety]}</span>
+      <DataTable
+        showCaption
+        className="min-w-[34rem]"
+        caption={
+          <>
+            Entry means: {title} ({unit.label})
+            <span className="block text-xs font-normal text-loam-700">
+              Entries sharing a letter are not significantly different ({test}, α = {result.alpha}).
+              SE is each entry’s own SD ÷ √n.
+              {mixed
+                ? ' Ranks and letters come from the mixed model’s estimates of the entry means (BLUEs), with the model’s SE.'
+                : adjusted
+                  ? ' Ranks and letters come from the adjusted (least-squares) means: the model’s predictions averaged over blocks, with the model’s SE.'
+                  : ''}
+            </span>
+          </>
+        }
+        data={result.means}
+        rowId={(m) => m.variety}
+        rowHeader="variety"
+        columns={[
+          meanCol.accessor((m) => m.rank ?? undefined, {
+            id: 'rank',
+            header: 'Rank',
+            cell: (c) => c.getValue() ?? '—',
+            // Unranked entries (no direction) sort last either way.
+            sortUndefined: 'last',
+            meta: { align: 'right' },
+          }),
+          meanCol.accessor('variety', {
+            header: 'Entry',
+            cell: (c) => (
+              <>
+                {codes?.[c.getValue()] ? (
+                  <span className="mr-1 font-mono text-xs text-loam-700">
+                    {codes[c.getValue()]}
+                  </span>
                 ) : null}
-                {m.variety}
-              </th>
-              <td className={`${td} text-right`}>{m.n}</td>
-              <td className={`${td} text-right`}>
-                {formatNumber(m.mean * unit.factor)}
-                {m.se === null ? '' : ` ± ${formatNumber(m.se * unit.factor, 3)}`}
-              </td>
-              {adjusted ? (
-                <td className={`${td} text-right`} data-adjusted={adjusted.get(m.variety)?.mean}>
-                  {formatNumber((adjusted.get(m.variety)?.mean ?? NaN) * unit.factor)}
-                  {adjusted.get(m.variety)?.se == null
-                    ? ''
-                    : ` ± ${formatNumber(adjusted.get(m.variety)!.se! * unit.factor, 3)}`}
-                </td>
-              ) : null}
-              <td className="p-2 font-mono font-semibold text-leaf-700" data-letters={m.group}>
-                {m.group}
-              </td>
-              <td className={`${td} text-right text-loam-700`}>
-                {formatNumber(m.min * unit.factor)}–{formatNumber(m.max * unit.factor)}
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+                {c.getValue()}
+              </>
+            ),
+          }),
+          meanCol.accessor('n', { header: 'Plots', meta: { align: 'right' } }),
+          meanCol.accessor('mean', {
+            header: 'Mean ± SE',
+            cell: ({ row: { original: m } }) =>
+              `${formatNumber(m.mean * unit.factor)}${m.se === null ? '' : ` ± ${formatNumber(m.se * unit.factor, 3)}`}`,
+            meta: { align: 'right' },
+          }),
+          ...(adjusted
+            ? [
+                meanCol.accessor((m) => adjusted.get(m.variety)?.mean, {
+                  id: 'adjusted',
+                  header: mixed ? 'Model estimate ± SE' : 'Adjusted mean ± SE',
+                  cell: ({ row: { original: m } }) => {
+                    const a = adjusted.get(m.variety);
+                    return `${formatNumber((a?.mean ?? NaN) * unit.factor)}${a?.se == null ? '' : ` ± ${formatNumber(a.se * unit.factor, 3)}`}`;
+                  },
+                  meta: {
+                    align: 'right',
+                    cellProps: (m) => ({ 'data-adjusted': adjusted.get(m.variety)?.mean }),
+                  },
+                }),
+              ]
+            : []),
+          meanCol.accessor('group', {
+            header: 'Letters',
+            enableSorting: false,
+            meta: {
+              cellClassName: () => 'font-mono font-semibold text-leaf-700',
+              cellProps: (m) => ({ 'data-letters': m.group }),
+            },
+          }),
+          meanCol.display({
+            id: 'range',
+            header: 'Range',
+            cell: ({ row: { original: m } }) =>
+              `${formatNumber(m.min * unit.factor)}–${formatNumber(m.max * unit.factor)}`,
+            meta: { align: 'right', cellClassName: () => 'text-loam-700' },
+          }),
+        ]}
+      />
     </ScrollRegion>
   );
 }

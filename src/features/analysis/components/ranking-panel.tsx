@@ -7,6 +7,11 @@ import { useRanking } from '../api/get-ranking';
 import { displayNumber } from '@common/precision';
 import { formatP } from '@common/display-units';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { DataTable } from '@/components/ui/data-table';
+import type { Ranking } from '@common/contracts/analysis';
+import { createColumnHelper } from '@tanstack/react-table';
+
+const rankCol = createColumnHelper<Ranking['entries'][number]>();
 
 const directionWords = { higher: 'higher is better', lower: 'lower is better', none: '' };
 
@@ -93,58 +98,62 @@ export function RankingPanel({
             </ul>
           ) : null}
           <ScrollRegion label="Weighted index" className="mt-2 rounded-lg bg-white shadow-sm">
-            <table className="w-full min-w-[40rem] text-left text-sm">
-              <caption className="p-2 text-left font-semibold text-leaf-900">
-                Weighted index and each trait’s contribution (z-score units)
-              </caption>
-              <thead className="bg-leaf-50 text-leaf-900">
-                <tr>
-                  <th scope="col" className="p-2 text-right">
-                    Rank
-                  </th>
-                  <th scope="col" className="p-2">
-                    Entry
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Index
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Rank-sum rank
-                  </th>
-                  {data.traits.map((t) => (
-                    <th key={t.key} scope="col" className="p-2 text-right">
-                      {labelOf[t.key] ?? t.key}
-                      <span className="block text-xs font-normal text-loam-700">
-                        weight {t.weight}; variety p {formatP(t.varietyP)}
-                      </span>
-                    </th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {data.entries.map((e) => (
-                  <tr key={e.entry} className="border-t border-leaf-50">
-                    <td className="p-2 text-right tabular-nums">{e.indexRank}</td>
-                    <th scope="row" className="p-2 font-medium">
+            <DataTable
+              showCaption
+              className="min-w-[40rem]"
+              caption="Weighted index and each trait’s contribution (z-score units)"
+              data={data.entries}
+              rowId={(e) => e.entry}
+              rowHeader="entry"
+              columns={[
+                rankCol.accessor('indexRank', { header: 'Rank', meta: { align: 'right' } }),
+                rankCol.accessor('entry', {
+                  header: 'Entry',
+                  cell: ({ row: { original: e } }) => (
+                    <>
                       <span className="mr-1 font-mono text-xs text-loam-700">{e.entryCode}</span>
                       {e.entry}
-                    </th>
-                    <td className="p-2 text-right font-semibold tabular-nums">
-                      {displayNumber(e.index, 2)}
-                    </td>
-                    <td className="p-2 text-right tabular-nums">
+                    </>
+                  ),
+                }),
+                rankCol.accessor('index', {
+                  header: 'Index',
+                  cell: (c) => displayNumber(c.getValue(), 2),
+                  meta: { align: 'right', cellClassName: () => 'font-semibold' },
+                }),
+                rankCol.accessor('rankSumRank', {
+                  header: 'Rank-sum rank',
+                  cell: ({ row: { original: e } }) => (
+                    <>
                       {e.rankSumRank} <span className="text-xs text-loam-700">({e.rankSum})</span>
-                    </td>
-                    {e.contributions.map((c) => (
-                      <td key={c.trait} className="p-2 text-right tabular-nums">
-                        {/* z-scale figures: 2 decimals (common/precision.ts), no "-0.00" */}
-                        {displayNumber(c.contribution, 2).replace(/^(?!-)/, '+')}
-                      </td>
-                    ))}
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+                    </>
+                  ),
+                  meta: { align: 'right' },
+                }),
+                ...data.traits.map((t) =>
+                  rankCol.accessor(
+                    (e) => e.contributions.find((c) => c.trait === t.key)?.contribution,
+                    {
+                      id: `trait-${t.key}`,
+                      header: () => (
+                        <>
+                          {labelOf[t.key] ?? t.key}
+                          <span className="block text-xs font-normal text-loam-700">
+                            weight {t.weight}; variety p {formatP(t.varietyP)}
+                          </span>
+                        </>
+                      ),
+                      // z-scale figures: 2 decimals (common/precision.ts), no "-0.00"
+                      cell: (c) =>
+                        c.getValue() === undefined
+                          ? '—'
+                          : displayNumber(c.getValue()!, 2).replace(/^(?!-)/, '+'),
+                      meta: { align: 'right' },
+                    },
+                  ),
+                ),
+              ]}
+            />
           </ScrollRegion>
         </>
       ) : null}

@@ -8,6 +8,12 @@ import { cToF, formatDegreeDays, formatNumber } from '@common/display-units';
 import { WeatherDayForm } from './weather-day-form';
 import { WeatherImport } from './weather-import';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { DataTable } from '@/components/ui/data-table';
+import type { SeasonSite } from '@common/contracts/weather';
+import { createColumnHelper } from '@tanstack/react-table';
+
+const siteCol = createColumnHelper<SeasonSite>();
+const harvestCol = createColumnHelper<SeasonSite['harvests'][number]>();
 
 export function SeasonPanel({
   slug,
@@ -42,62 +48,53 @@ export function SeasonPanel({
             label="Degree days, hot days and water per site"
             className="mt-2 rounded-lg bg-white shadow-sm"
           >
-            <table className="w-full min-w-[40rem] text-left text-sm">
-              <caption className="p-2 text-left font-semibold text-leaf-900">
-                Degree days, hot days and water received per site
-              </caption>
-              <thead className="bg-leaf-50 text-leaf-900">
-                <tr>
-                  <th scope="col" className="p-2">
-                    Site
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Degree days
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Hot days
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Rain
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Irrigation
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Total water
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Harvest days
-                  </th>
-                </tr>
-              </thead>
-              <tbody>
-                {data.sites.map((s) => (
-                  <tr key={s.siteId} className="border-t border-leaf-50">
-                    <th scope="row" className="p-2 font-medium">
+            <DataTable
+              showCaption
+              className="min-w-[40rem]"
+              caption="Degree days, hot days and water received per site"
+              data={data.sites}
+              rowId={(s) => s.siteId}
+              rowHeader="site"
+              columns={[
+                siteCol.accessor('siteName', {
+                  id: 'site',
+                  header: 'Site',
+                  cell: ({ row: { original: s } }) => (
+                    <>
                       {s.siteName}
                       <span className="block text-xs font-normal text-loam-700">
                         {s.weatherDays} weather days; rain from {s.rainSource}
                       </span>
-                    </th>
-                    <td className="p-2 text-right tabular-nums">
-                      {formatDegreeDays(s.degreeDays, system)}
-                    </td>
-                    <td className="p-2 text-right tabular-nums">{s.hotDays}</td>
-                    <td className="p-2 text-right tabular-nums">
-                      {formatDepth(s.water.rainMm, system)}
-                    </td>
-                    <td className="p-2 text-right tabular-nums">
-                      {formatDepth(s.water.irrigationMm, system)}
-                    </td>
-                    <td className="p-2 text-right tabular-nums">
-                      {formatDepth(s.water.totalMm, system)}
-                    </td>
-                    <td className="p-2 text-right tabular-nums">{s.harvests.length}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+                    </>
+                  ),
+                }),
+                siteCol.accessor('degreeDays', {
+                  header: 'Degree days',
+                  cell: (c) => formatDegreeDays(c.getValue(), system),
+                  meta: { align: 'right' },
+                }),
+                siteCol.accessor('hotDays', { header: 'Hot days', meta: { align: 'right' } }),
+                ...(
+                  [
+                    ['rainMm', 'Rain'],
+                    ['irrigationMm', 'Irrigation'],
+                    ['totalMm', 'Total water'],
+                  ] as const
+                ).map(([part, header]) =>
+                  siteCol.accessor((s) => s.water[part], {
+                    id: part,
+                    header,
+                    cell: (c) => formatDepth(c.getValue(), system),
+                    meta: { align: 'right' },
+                  }),
+                ),
+                siteCol.accessor((s) => s.harvests.length, {
+                  id: 'harvestDays',
+                  header: 'Harvest days',
+                  meta: { align: 'right' },
+                }),
+              ]}
+            />
           </ScrollRegion>
           {data.sites.map((s) =>
             s.harvests.length > 0 ? (
@@ -106,47 +103,37 @@ export function SeasonPanel({
                   {s.siteName}: harvests against degree days and water
                 </summary>
                 <ScrollRegion label={`${s.siteName}: harvests against degree days and water`}>
-                  <table className="w-full min-w-[32rem] text-left text-sm">
-                    <caption className="sr-only">
-                      Harvest dates at {s.siteName} with degree days and water to date
-                    </caption>
-                    <thead className="bg-leaf-50 text-leaf-900">
-                      <tr>
-                        <th scope="col" className="p-2">
-                          Date
-                        </th>
-                        <th scope="col" className="p-2 text-right">
-                          Days from start
-                        </th>
-                        <th scope="col" className="p-2 text-right">
-                          Plots picked
-                        </th>
-                        <th scope="col" className="p-2 text-right">
-                          Degree days to date
-                        </th>
-                        <th scope="col" className="p-2 text-right">
-                          Water since last pick
-                        </th>
-                      </tr>
-                    </thead>
-                    <tbody>
-                      {s.harvests.map((h) => (
-                        <tr key={h.date} className="border-t border-leaf-50">
-                          <th scope="row" className="p-2 font-normal">
-                            {h.date}
-                          </th>
-                          <td className="p-2 text-right tabular-nums">{h.daysFromStart ?? '—'}</td>
-                          <td className="p-2 text-right tabular-nums">{h.plotsHarvested}</td>
-                          <td className="p-2 text-right tabular-nums">
-                            {formatDegreeDays(h.degreeDays, system)}
-                          </td>
-                          <td className="p-2 text-right tabular-nums">
-                            {formatDepth(h.sinceLastHarvestMm, system)}
-                          </td>
-                        </tr>
-                      ))}
-                    </tbody>
-                  </table>
+                  <DataTable
+                    className="min-w-[32rem]"
+                    caption={`Harvest dates at ${s.siteName} with degree days and water to date`}
+                    data={s.harvests}
+                    rowId={(h) => h.date}
+                    rowHeader="date"
+                    columns={[
+                      harvestCol.accessor('date', { header: 'Date' }),
+                      harvestCol.accessor((h) => h.daysFromStart ?? undefined, {
+                        id: 'daysFromStart',
+                        header: 'Days from start',
+                        cell: (c) => c.getValue() ?? '—',
+                        sortUndefined: 'last',
+                        meta: { align: 'right' },
+                      }),
+                      harvestCol.accessor('plotsHarvested', {
+                        header: 'Plots picked',
+                        meta: { align: 'right' },
+                      }),
+                      harvestCol.accessor('degreeDays', {
+                        header: 'Degree days to date',
+                        cell: (c) => formatDegreeDays(c.getValue(), system),
+                        meta: { align: 'right' },
+                      }),
+                      harvestCol.accessor('sinceLastHarvestMm', {
+                        header: 'Water since last pick',
+                        cell: (c) => formatDepth(c.getValue(), system),
+                        meta: { align: 'right' },
+                      }),
+                    ]}
+                  />
                 </ScrollRegion>
                 <p className="mt-1 text-xs text-loam-700">
                   {formatNumber(s.weeks.length)} weeks of records.

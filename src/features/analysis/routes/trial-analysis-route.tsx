@@ -33,6 +33,11 @@ import { VarietiesRandomPanel } from '../components/varieties-random-panel';
 import { SeasonPanel } from '../components/season-panel';
 import { TwoFactorPanel } from '../components/two-factor-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { DataTable } from '@/components/ui/data-table';
+import type { TrialAnalysis } from '@common/contracts/analysis';
+import { createColumnHelper } from '@tanstack/react-table';
+
+const plotCol = createColumnHelper<TrialAnalysis['plotValues'][number]>();
 
 const select = 'mt-1 min-h-11 w-full rounded-lg border border-leaf-300 bg-white px-2';
 
@@ -253,49 +258,27 @@ export function Component() {
               The {result.plotValues.length} plot values used
             </summary>
             <ScrollRegion label="Plot values used">
-              <table className="w-full min-w-[28rem] text-left text-sm">
-                <caption className="sr-only">Plot values for {result.traitLabel}</caption>
-                <thead className="bg-leaf-50">
-                  <tr>
-                    <th scope="col" className="p-2">
-                      Site
-                    </th>
-                    <th scope="col" className="p-2 text-right">
-                      Block
-                    </th>
-                    <th scope="col" className="p-2 text-right">
-                      Plot
-                    </th>
-                    {result.twoFactor ? (
-                      <th scope="col" className="p-2">
-                        {result.twoFactor.factor}
-                      </th>
-                    ) : null}
-                    <th scope="col" className="p-2">
-                      Entry
-                    </th>
-                    <th scope="col" className="p-2 text-right">
-                      Value ({unit.label})
-                    </th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {result.plotValues.map((p) => (
-                    <tr key={p.plotId} className="border-t border-leaf-50">
-                      <td className="p-2">{p.site}</td>
-                      <td className="p-2 text-right">{p.block}</td>
-                      <th scope="row" className="p-2 text-right font-normal">
-                        {p.plotNumber}
-                      </th>
-                      {result.twoFactor ? <td className="p-2">{p.treatment}</td> : null}
-                      <td className="p-2">{p.entryCode}</td>
-                      <td className="p-2 text-right tabular-nums">
-                        {formatNumber(p.value * unit.factor)}
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
+              <DataTable
+                className="min-w-[28rem]"
+                caption={`Plot values for ${result.traitLabel}`}
+                data={result.plotValues}
+                rowId={(p) => p.plotId}
+                rowHeader="plotNumber"
+                columns={[
+                  plotCol.accessor('site', { header: 'Site' }),
+                  plotCol.accessor('block', { header: 'Block', meta: { align: 'right' } }),
+                  plotCol.accessor('plotNumber', { header: 'Plot', meta: { align: 'right' } }),
+                  ...(result.twoFactor
+                    ? [plotCol.accessor('treatment', { header: result.twoFactor.factor })]
+                    : []),
+                  plotCol.accessor('entryCode', { header: 'Entry' }),
+                  plotCol.accessor('value', {
+                    header: `Value (${unit.label})`,
+                    cell: (c) => formatNumber(c.getValue() * unit.factor),
+                    meta: { align: 'right' },
+                  }),
+                ]}
+              />
             </ScrollRegion>
           </details>
           <div className="mt-3 flex flex-wrap gap-2">

@@ -36,6 +36,8 @@ function FieldSheet({ design }: { design: Design }) {
         </p>
       </header>
       <ScrollRegion label="Field sheet">
+        {/* A sheet printed to be written on, in walking order: the order is the point and the
+            blank cells are for a pencil, so it stays a plain table rather than DataTable. */}
         <table className="field-sheet w-full min-w-[40rem] border-collapse text-left text-sm">
           <thead>
             <tr className="border-b-2 border-ink">

@@ -1,6 +1,8 @@
 import type { FieldEvent } from '@common/contracts/records';
 import { formatDepth, formatLength } from '@common/units';
-import { weeklyWaterSummary } from '@common/water';
+import { type WaterWeek, weeklyWaterSummary } from '@common/water';
+import { createColumnHelper } from '@tanstack/react-table';
+import { DataTable } from '@/components/ui/data-table';
 import { useState } from 'react';
 import { useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
@@ -18,6 +20,7 @@ import { ScrollRegion } from '@/components/ui/scroll-region';
 import { SiteChooser } from '../components/site-chooser';
 import { mySitesOf, useRoundSite } from '../api/field-log-memory';
 
+const weekCol = createColumnHelper<WaterWeek>();
 const kindWord: Record<FieldEvent['kind'], string> = {
   irrigation: 'Irrigation',
   rainfall: 'Rain',
@@ -108,31 +111,31 @@ export function Component() {
               </p>
             ) : (
               <ScrollRegion label="Water received per week">
-                <table className="mt-2 w-full text-left text-sm">
-                  <caption className="sr-only">
-                    Rain plus irrigation depth per week (weeks start on Monday)
-                  </caption>
-                  <thead className="bg-leaf-50">
-                    <tr>
-                      <th className="p-2">Week of</th>
-                      <th className="p-2 text-right">Rain</th>
-                      <th className="p-2 text-right">Irrigation</th>
-                      <th className="p-2 text-right">Total</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {weeks.map((w) => (
-                      <tr key={w.weekStart} className="border-t border-leaf-50">
-                        <td className="p-2">{w.weekStart}</td>
-                        <td className="p-2 text-right">{formatDepth(w.rainMm, units)}</td>
-                        <td className="p-2 text-right">{formatDepth(w.irrigationMm, units)}</td>
-                        <td className="p-2 text-right font-semibold">
-                          {formatDepth(w.totalMm, units)}
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
+                <DataTable
+                  className="mt-2"
+                  caption="Rain plus irrigation depth per week (weeks start on Monday)"
+                  data={weeks}
+                  rowId={(w) => w.weekStart}
+                  rowHeader="weekStart"
+                  columns={[
+                    weekCol.accessor('weekStart', { header: 'Week of' }),
+                    weekCol.accessor('rainMm', {
+                      header: 'Rain',
+                      cell: (c) => formatDepth(c.getValue(), units),
+                      meta: { align: 'right' },
+                    }),
+                    weekCol.accessor('irrigationMm', {
+                      header: 'Irrigation',
+                      cell: (c) => formatDepth(c.getValue(), units),
+                      meta: { align: 'right' },
+                    }),
+                    weekCol.accessor('totalMm', {
+                      header: 'Total',
+                      cell: (c) => formatDepth(c.getValue(), units),
+                      meta: { align: 'right', cellClassName: () => 'font-semibold' },
+                    }),
+                  ]}
+                />
               </ScrollRegion>
             )}
           </section>

@@ -236,6 +236,8 @@ export function Component() {
           plots in field order · leave a cell blank when nothing was recorded
         </p>
         <ScrollRegion label="Recording sheet (scrolls sideways on a narrow screen)">
+          {/* A form printed to be written on in the field (blank cells, field order, fixed
+              columns), not rows a reader sorts: a plain table, not DataTable. */}
           <table className="w-full border-collapse text-left text-sm" data-testid="recording-sheet">
             <thead>
               <tr className="border-b-2 border-ink align-bottom">

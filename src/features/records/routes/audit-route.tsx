@@ -1,5 +1,7 @@
 import type { AuditEntry } from '@common/contracts/records';
+import { createColumnHelper } from '@tanstack/react-table';
 import { useState } from 'react';
+import { DataTable } from '@/components/ui/data-table';
 import { useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
@@ -7,6 +9,7 @@ import { useTrial } from '@/lib/trial';
 import { useAuditLog, useRestoreRecord } from '../api/record-api';
 import { RecordsNav } from '../components/records-nav';
 
+const changeCol = createColumnHelper<{ field: string; entry: AuditEntry }>();
 const tableWord: Record<AuditEntry['table'], string> = {
   harvests: 'Harvest',
   observations: 'Observation',
@@ -96,24 +99,30 @@ export function Component() {
               </p>
               {e.action === 'update' || e.action === 'delete' || e.action === 'restore' ? (
                 e.changedFields.length ? (
-                  <table className="mt-1 text-left">
-                    <thead>
-                      <tr>
-                        <th className="pr-3">Field</th>
-                        <th className="pr-3">Before</th>
-                        <th>After</th>
-                      </tr>
-                    </thead>
-                    <tbody>
-                      {e.changedFields.map((f) => (
-                        <tr key={f}>
-                          <td className="pr-3 font-mono">{f}</td>
-                          <td className="pr-3">{show(e.before?.[f])}</td>
-                          <td>{show(e.after[f])}</td>
-                        </tr>
-                      ))}
-                    </tbody>
-                  </table>
+                  <DataTable
+                    className="mt-1"
+                    sortable={false}
+                    caption={`Fields changed in ${e.recordId}`}
+                    data={e.changedFields.map((f) => ({ field: f, entry: e }))}
+                    rowId={(r) => r.field}
+                    rowHeader="field"
+                    columns={[
+                      changeCol.accessor('field', {
+                        header: 'Field',
+                        meta: { cellClassName: () => 'font-mono' },
+                      }),
+                      changeCol.display({
+                        id: 'before',
+                        header: 'Before',
+                        cell: ({ row: { original: r } }) => show(r.entry.before?.[r.field]),
+                      }),
+                      changeCol.display({
+                        id: 'after',
+                        header: 'After',
+                        cell: ({ row: { original: r } }) => show(r.entry.after[r.field]),
+                      }),
+                    ]}
+                  />
                 ) : null
               ) : (
                 <p className="mt-1 break-words font-mono text-xs">

@@ -4,7 +4,11 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useTrial } from '@/lib/trial';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { DataTable } from '@/components/ui/data-table';
+import type { TrialWithPermissions } from '@/lib/trial';
+import { createColumnHelper } from '@tanstack/react-table';
 
+const entryCol = createColumnHelper<TrialWithPermissions['entries'][number]>();
 const entryTypeLabel = {
   heirloom: 'Heirloom',
   open_pollinated: 'Open-pollinated',
@@ -132,39 +136,42 @@ export function Component() {
           Entries
         </h2>
         <ScrollRegion label="Entries" className="mt-2 rounded-lg bg-white shadow-sm">
-          <table className="w-full min-w-[32rem] text-left text-sm">
-            <thead className="bg-leaf-50 text-leaf-900">
-              <tr>
-                <th className="p-2">Code</th>
-                <th className="p-2">Variety</th>
-                <th className="p-2">Type</th>
-                <th className="p-2">Seed source</th>
-                <th className="p-2">Claimed days</th>
-              </tr>
-            </thead>
-            <tbody>
-              {trial.entries.map((e) => (
-                <tr key={e.id} className="border-t border-leaf-50">
-                  <td className="p-2 font-mono font-semibold">{e.code}</td>
-                  <td className="p-2">
-                    {e.varietySlug ? (
-                      <Link
-                        to={`/varieties/${e.varietySlug}`}
-                        className="text-leaf-800 underline decoration-leaf-300 underline-offset-2 hover:decoration-leaf-700"
-                      >
-                        {e.name}
-                      </Link>
-                    ) : (
-                      e.name
-                    )}
-                  </td>
-                  <td className="p-2">{entryTypeLabel[e.entryType]}</td>
-                  <td className="p-2">{e.seedSource}</td>
-                  <td className="p-2">{e.daysToMaturityClaimed ?? '—'}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <DataTable
+            className="min-w-[32rem]"
+            caption={`Entries in ${trial.title}`}
+            data={trial.entries}
+            rowId={(e) => e.id}
+            rowHeader="code"
+            columns={[
+              entryCol.accessor('code', {
+                header: 'Code',
+                meta: { cellClassName: () => 'font-mono' },
+              }),
+              entryCol.accessor('name', {
+                header: 'Variety',
+                cell: ({ row: { original: e } }) =>
+                  e.varietySlug ? (
+                    <Link
+                      to={`/varieties/${e.varietySlug}`}
+                      className="text-leaf-800 underline decoration-leaf-300 underline-offset-2 hover:decoration-leaf-700"
+                    >
+                      {e.name}
+                    </Link>
+                  ) : (
+                    e.name
+                  ),
+              }),
+              entryCol.accessor((e) => entryTypeLabel[e.entryType], { id: 'type', header: 'Type' }),
+              entryCol.accessor('seedSource', { header: 'Seed source' }),
+              entryCol.accessor((e) => e.daysToMaturityClaimed ?? undefined, {
+                id: 'claimedDays',
+                header: 'Claimed days to maturity (d)',
+                cell: (c) => c.getValue() ?? '—',
+                sortUndefined: 'last',
+                meta: { align: 'right' },
+              }),
+            ]}
+          />
         </ScrollRegion>
       </section>
 
