@@ -443,6 +443,9 @@ describe('the register migration', () => {
     try {
       const db = d.db;
       const migration = migrations['2026-12-02T3500-variety-register']!;
+      // Seed lots hang on the register: taken down first, put back after.
+      const seedLots = migrations['2026-12-02T4400-seed-lots']!;
+      await seedLots.down!(db);
       await migration.down!(db);
       const owner = await createUser(db, { name: 'Hester Vane' });
       const other = await createUser(db, { name: 'Ivo Brandt' });
@@ -539,6 +542,7 @@ describe('the register migration', () => {
       const left = await db.introspection.getTables();
       expect(left.map((x) => x.name)).not.toContain('varieties');
       await migration.up(db);
+      await seedLots.up(db);
     } finally {
       await d.close();
     }

@@ -6,7 +6,7 @@
 import type { Comparison } from '@common/contracts/varieties';
 import { displayUnit, formatInUnit, typicalOf } from '@common/display-units';
 import { createColumnHelper } from '@tanstack/react-table';
-import { useMemo } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useSearchParams } from 'react-router-dom';
 import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
@@ -28,6 +28,22 @@ function VarietyChooser({
   onChange: (slugs: string[]) => void;
 }) {
   const varieties = useVarieties();
+  // The boxes answer at once and quick clicks build on each other; the address follows (its
+  // update may land a render later).
+  const [picked, setPicked] = useState(chosen);
+  const latest = useRef(chosen);
+  const chosenKey = chosen.join(',');
+  useEffect(() => {
+    latest.current = chosenKey ? chosenKey.split(',') : [];
+    setPicked(latest.current);
+  }, [chosenKey]);
+  const toggle = (slug: string, on: boolean) => {
+    const rest = latest.current.filter((s) => s !== slug);
+    const next = on ? [...rest, slug] : rest;
+    latest.current = next;
+    setPicked(next);
+    onChange(next);
+  };
   if (varieties.isPending) return <Spinner label="Loading the register…" />;
   if (varieties.error) return <ErrorPanel error={varieties.error} />;
   const crops = [...new Set(varieties.data.varieties.map((v) => v.crop))];
@@ -45,14 +61,8 @@ function VarietyChooser({
                   <input
                     type="checkbox"
                     className="h-5 w-5"
-                    checked={chosen.includes(v.slug)}
-                    onChange={(e) =>
-                      onChange(
-                        e.target.checked
-                          ? [...chosen, v.slug]
-                          : chosen.filter((s) => s !== v.slug),
-                      )
-                    }
+                    checked={picked.includes(v.slug)}
+                    onChange={(e) => toggle(v.slug, e.target.checked)}
                   />
                   {v.name}
                   <span className="text-loam-700">
