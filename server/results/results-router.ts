@@ -104,7 +104,8 @@ const cachePublished = (res: Response) => res.setHeader('Cache-Control', 'public
 function sendFrozen(req: Request, res: Response, frozen: service.FrozenVersion) {
   cachePublished(res);
   res.setHeader('Vary', 'Accept-Encoding');
-  const gzip = /\bgzip\b/.test(req.headers['accept-encoding'] ?? '');
+  // Express's negotiation, as the compression middleware's: honours q=0 and `*`.
+  const gzip = req.acceptsEncodings('gzip', 'identity') === 'gzip';
   const etag = gzip ? frozen.gzipEtag : frozen.etag;
   res.setHeader('ETag', etag);
   const asked = req.headers['if-none-match'];

@@ -345,6 +345,16 @@ describe('the results sheet', () => {
     expect(same.body).toEqual(first.body);
     const older = await as(null).get(`/api/results/${SLUG}/v/1`);
     expect(older.headers.etag).not.toBe(etag);
+    // supertest asks for gzip; a reader who refuses it (identity, or gzip;q=0: RFC 9110 §12.5.3)
+    // gets the same JSON unencoded, under a tag of its own (§8.8.3: one per representation).
+    expect(first.headers['content-encoding']).toBe('gzip');
+    for (const refusing of ['identity', 'gzip;q=0, identity']) {
+      const plain = await as(null).get(`/api/results/${SLUG}`).set('Accept-Encoding', refusing);
+      expect(plain.headers['content-encoding']).toBeUndefined();
+      expect(plain.headers.etag).toMatch(/^"[^"]+"$/);
+      expect(plain.headers.etag).not.toBe(etag);
+      expect(plain.body).toEqual(first.body);
+    }
 
     await as(lead).send('post', `/api/trials/${SLUG}/results-sheet/publish`, {
       changeNote: 'One more picking added.',
