@@ -6,7 +6,7 @@
  */
 import { analyzePlotRows, type PlotRow } from '../server/analysis/engine/analyze.js';
 import { fictionalTrialRows } from './fictional-trial.js';
-import { verdict } from './support/bench-app';
+import { closingVerdict, verdict } from './support/bench-app';
 
 /** Median ms per trait analysis: complete layout, and with one missing plot. */
 const TARGET_MS = { complete: 5, missing: 20 } as const;
@@ -55,7 +55,4 @@ const lines = [
   verdict('analysis one missing plot, median ms', missing, TARGET_MS.missing, true),
 ];
 for (const line of lines) console.log(line);
-const met = lines.filter((l) => l.endsWith(') met')).length;
-console.log(
-  `analysis: ratio ${met}/${lines.length} targets (target ${lines.length}/${lines.length}) ${met === lines.length ? 'met' : 'NOT met'}`,
-);
+console.log(closingVerdict('analysis', lines));
