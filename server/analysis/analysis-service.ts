@@ -9,8 +9,7 @@ import {
   type analysisBases,
   type designs,
 } from '../../common/contracts/analysis';
-import { designLabels } from '../../common/contracts/trials';
-import { isIncompleteDesign } from '../../common/contracts/trials';
+import { designLabels, isIncompleteDesign } from '../../common/contracts/trials';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial, TrialDesign } from '../../db/schema';
@@ -20,6 +19,7 @@ import type { AnalysisResult as EngineResult, PlotRow, TwoFactorResult } from '.
 import { cachedForTrialData } from './analysis-cache';
 import { AnalysisStopped, runAnalysis } from './analysis-pool';
 import type { AnalysisTask } from './analysis-worker';
+import { describe } from './engine/descriptives';
 import { rankAcrossTraits } from './engine/ranking';
 import * as repo from './analysis-repository';
 import { buildPlotValues, PlotValueError, type TraitSource } from './trial-plot-values';
@@ -281,7 +281,11 @@ function twoFactorTrialResult(
   factor: { name: string; levels: string[] },
 ): Omit<TrialAnalysis, Described | 'warnings'> {
   const byVariety = new Map<string, number[]>();
-  for (const v of values) byVariety.set(v.entry, [...(byVariety.get(v.entry) ?? []), v.value]);
+  for (const v of values) {
+    const xs = byVariety.get(v.entry);
+    if (xs) xs.push(v.value);
+    else byVariety.set(v.entry, [v.value]);
+  }
   return {
     design: 'rcbd',
     trait: r.trait,
@@ -291,19 +295,8 @@ function twoFactorTrialResult(
     cvPercent: r.cvPercent,
     anova: r.anova,
     means: r.means.map((m) => {
-      const xs = byVariety.get(m.variety) ?? [];
-      const mean = xs.reduce((s, x) => s + x, 0) / xs.length;
-      const sd =
-        xs.length > 1
-          ? Math.sqrt(xs.reduce((s, x) => s + (x - mean) ** 2, 0) / (xs.length - 1))
-          : null;
-      return {
-        ...m,
-        sd,
-        cvPercent: sd !== null && mean !== 0 ? (100 * sd) / Math.abs(mean) : null,
-        min: Math.min(...xs),
-        max: Math.max(...xs),
-      };
+      const { sd, cvPercent, min, max } = describe(byVariety.get(m.variety) ?? []);
+      return { ...m, sd, cvPercent, min, max };
     }),
     lsd: r.lsd,
     hsd: r.hsd,
@@ -404,11 +397,11 @@ export async function analyseTrialTrait(
 
 /** A model the trial's design cannot be analysed with is the caller's mistake, named. */
 function refuseModelOutsideDesign(trial: Trial, model: AnalysisModel) {
-  if (modelsForDesign(trial.design, trialFactor(trial) !== null).includes(model)) return;
-  const message =
-    trialFactor(trial) !== null
-      ? 'A two-factor trial is analysed with the classical analysis only.'
-      : `A ${designLabels[trial.design].toLowerCase()} trial is analysed with the classical analysis only.`;
+  const twoFactor = trialFactor(trial) !== null;
+  if (modelsForDesign(trial.design, twoFactor).includes(model)) return;
+  const message = twoFactor
+    ? 'A two-factor trial is analysed with the classical analysis only.'
+    : `A ${designLabels[trial.design].toLowerCase()} trial is analysed with the classical analysis only.`;
   throw new AppError('validation_failed', message, {
     fields: [{ path: 'query.model', message }],
   });
