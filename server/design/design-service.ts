@@ -753,8 +753,8 @@ async function layOutPlots(
         'body.blockSize',
         `With ${entries.length} entries, ${what} from 2 to ${entries.length - 1} of them (all ${entries.length} would be complete blocks).`,
       );
+    const perReplicate = gardensPerReplicate(entries.length, b.blockSize);
     if (trial.design === 'network') {
-      const perReplicate = gardensPerReplicate(entries.length, b.blockSize);
       if (sites.length < 2 * perReplicate)
         throw new AppError(
           'unprocessable',
@@ -762,10 +762,10 @@ async function layOutPlots(
         );
     } else if (b.replicates < 2)
       throw fieldError('body.replicates', 'Incomplete blocks need at least 2 replicates.');
-    else if (b.replicates * gardensPerReplicate(entries.length, b.blockSize) > MAX_BLOCKS)
+    else if (b.replicates * perReplicate > MAX_BLOCKS)
       throw fieldError(
         'body.replicates',
-        `${b.replicates} replicates of ${gardensPerReplicate(entries.length, b.blockSize)} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
+        `${b.replicates} replicates of ${perReplicate} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
       );
   }
   const unspaced = entries.filter((e) => e.in_row_spacing_mm == null).map((e) => e.code);
