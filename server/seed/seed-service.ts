@@ -346,6 +346,12 @@ export async function closeOffer(db: DB, actor: Actor | null, offerId: string): 
   await repo.closeOffer(db, offerId, actor!.userId);
 }
 
+/** Why someone signed in may not ask for a packet: who the group offers its seed to. */
+const whoMayRequest = (offer: { seed_requests_open: boolean; group_name: string }) =>
+  offer.seed_requests_open
+    ? 'Confirm your e-mail address to ask for a packet.'
+    : `This seed is offered to members of ${offer.group_name}.`;
+
 /**
  * An offer's page: an open offer is public (a published sheet links to it); a closed one only
  * for the group's people.
@@ -363,9 +369,7 @@ export async function offerView(db: DB, actor: Actor | null, offerId: string): P
   const whyNot = !actor
     ? 'Sign in to ask for a packet.'
     : !allowed
-      ? offer.seed_requests_open
-        ? 'Confirm your e-mail address to ask for a packet.'
-        : `This seed is offered to members of ${offer.group_name}.`
+      ? whoMayRequest(offer)
       : mine
         ? 'You have asked for a packet of this offer.'
         : offer.status !== 'open'
@@ -422,12 +426,7 @@ export async function requestPacket(
   const verified = await repo.emailVerified(db, me.userId);
   if (!canRequestSeed(me, role, { requestsOpen: offer.seed_requests_open }, verified)) {
     if (offer.status !== 'open') throw AppError.notFound('The offer');
-    throw new AppError(
-      'forbidden',
-      offer.seed_requests_open
-        ? 'Confirm your e-mail address to ask for a packet.'
-        : `This seed is offered to members of ${offer.group_name}.`,
-    );
+    throw new AppError('forbidden', whoMayRequest(offer));
   }
   return db.transaction().execute(async (trx) => {
     // Taking the packet first locks the offer's row, so two last requests cannot both get it.
