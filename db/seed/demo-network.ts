@@ -9,7 +9,8 @@ import { randomizeLayout } from '../../common/layout';
 import { createRandom } from '../../common/random';
 import type { DB } from '../database';
 import { demoGroup, joinDemoRegister } from './demo-register';
-import { demoAccounts } from './demo-season';
+import type { DemoAccountKey } from './demo-season';
+import { demoUserIds } from './demo-lead';
 
 export const NETWORK_SLUG = 'larkhaven-pole-bean-network-2026';
 /** The seed the plan was randomized from (stored on the trial, as the layout page does). */
@@ -144,17 +145,8 @@ const yieldTrait = {
 
 /** Writes the network trial and joins it to the seed library's register. */
 export async function seedNetworkTrial(db: DB): Promise<void> {
-  const users = await db
-    .selectFrom('users')
-    .select(['id', 'email'])
-    .where(
-      'email',
-      'in',
-      demoAccounts.map((a) => a.email),
-    )
-    .execute();
-  const idOf = (key: string) =>
-    users.find((u) => u.email === demoAccounts.find((a) => a.key === key)!.email)!.id;
+  const userIds = await demoUserIds(db);
+  const idOf = (key: DemoAccountKey) => userIds.get(key)!;
   const leadId = idOf('lead');
   const by = { created_by: leadId, updated_by: leadId };
   await db.transaction().execute(async (trx) => {

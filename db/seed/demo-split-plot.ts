@@ -10,7 +10,8 @@ import { randomizeLayout } from '../../common/layout';
 import { createRandom } from '../../common/random';
 import type { DB } from '../database';
 import { demoGroup, joinDemoRegister } from './demo-register';
-import { DEMO_SEED, demoAccounts } from './demo-season';
+import { DEMO_SEED, type DemoAccountKey } from './demo-season';
+import { demoUserIds } from './demo-lead';
 
 export const SPLIT_PLOT_SLUG = 'wendle-fertilizer-beans-2026';
 const SOWN = '2026-05-20';
@@ -48,17 +49,8 @@ export function splitPlotDays(
 }
 
 export async function seedSplitPlotTrial(db: DB): Promise<void> {
-  const users = await db
-    .selectFrom('users')
-    .select(['id', 'email'])
-    .where(
-      'email',
-      'in',
-      demoAccounts.map((a) => a.email),
-    )
-    .execute();
-  const idOf = (key: string) =>
-    users.find((u) => u.email === demoAccounts.find((a) => a.key === key)!.email)!.id;
+  const userIds = await demoUserIds(db);
+  const idOf = (key: DemoAccountKey) => userIds.get(key)!;
   const leadId = idOf('lead');
   const growerId = idOf('grower2');
   const by = { created_by: leadId, updated_by: leadId };

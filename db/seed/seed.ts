@@ -10,6 +10,7 @@ import { demoGroup, joinDemoRegister, seedDemoRegister } from './demo-register';
 import { EARLIER_SEASON_SEED, earlierDemoTrials } from './demo-earlier-seasons';
 import { DEMO_SEED, demoAccounts, type DemoTrial, demoTrials, generateSeason } from './demo-season';
 import { seedNetworkTrial } from './demo-network';
+import { demoUserIds } from './demo-lead';
 import { publishDemoSheet } from './demo-sheet';
 import { seedSplitPlotTrial } from './demo-split-plot';
 import { generateDemoWeather } from './demo-weather';
@@ -303,18 +304,7 @@ async function writeDemoTrial(
  * and joined to the same register, so varieties have a record across seasons.
  */
 export async function seedEarlierSeasons(db: DB): Promise<void> {
-  const users = await db
-    .selectFrom('users')
-    .select(['id', 'email'])
-    .where(
-      'email',
-      'in',
-      demoAccounts.map((a) => a.email),
-    )
-    .execute();
-  const userIds = new Map(
-    demoAccounts.map((a) => [a.key, users.find((u) => u.email === a.email)!.id]),
-  );
+  const userIds = await demoUserIds(db);
   const group = await db
     .selectFrom('groups')
     .select('id')

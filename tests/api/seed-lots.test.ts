@@ -224,7 +224,7 @@ describe('seed lots and germination tests', () => {
       seedsGerminated: 70,
       days: 10,
     });
-    // 70 % is below the default 80 % threshold, and 2020 is long ago.
+    // 70 % is below the default 80 % threshold (common practice, no source), and 2020 is long ago.
     expect((await lotIn(old)).warnings.map((w) => w.kind)).toEqual(['test_old', 'below_threshold']);
 
     const settings = `/api/seed/groups/${await groupId()}/settings`;
