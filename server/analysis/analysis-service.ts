@@ -181,14 +181,6 @@ async function analyseTrait(
   }
   if (built.values.length === 0)
     throw new AppError('unprocessable', `No records for ${trait.label} yet: nothing to analyse.`);
-  const layout = engineLayout(trial.design);
-  const rows: PlotRow[] = built.values.map(({ plot, value }) => ({
-    variety: plot.entry_name,
-    site: layout.sitesAre === 'replicate' ? `Replicate ${plot.replicate ?? 1}` : plot.site_name,
-    block: trial.design === 'crd' ? null : String(plot.block),
-    plot: String(plot.plot_number),
-    value,
-  }));
   const entryCodes = Object.fromEntries(plots.map((p) => [p.entry_name, p.entry_code]));
   const plotValues = built.values.map(({ plot, value }) => ({
     plotId: plot.id,
@@ -248,6 +240,14 @@ async function analyseTrait(
       ...described,
     });
   }
+  const layout = engineLayout(trial.design);
+  const rows: PlotRow[] = built.values.map(({ plot, value }) => ({
+    variety: plot.entry_name,
+    site: layout.sitesAre === 'replicate' ? `Replicate ${plot.replicate ?? 1}` : plot.site_name,
+    block: trial.design === 'crd' ? null : String(plot.block),
+    plot: String(plot.plot_number),
+    value,
+  }));
   const result = await analyse({
     kind: 'rows',
     rows,
