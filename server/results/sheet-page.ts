@@ -9,7 +9,7 @@ import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { ResultSnapshot } from '../../common/contracts/results';
 import type { TrialOffer } from '../../common/contracts/seed';
-import { trialOffers } from '../seed/seed-service';
+import { openOffersOf } from '../seed/seed-service';
 import type { DB } from '../../db/database';
 import { AppError } from '../lib/app-error';
 import type { Trial } from '../../db/schema';
@@ -84,7 +84,8 @@ export async function sheetPage(
     if (err instanceof AppError && err.status === 404) return { meta, markup: null };
     throw err;
   }
-  const { offers } = await trialOffers(db, null, trial.slug);
+  // The trial is already read as published: only its open offers are asked for.
+  const offers = await openOffersOf(db, trial.id);
   const offersKey = JSON.stringify(offers);
   let byOffers = drawn.get(frozen);
   if (!byOffers) {

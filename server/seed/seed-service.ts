@@ -402,15 +402,18 @@ export async function offerView(db: DB, actor: Actor | null, offerId: string): P
 /** Open offers of the varieties a trial grew, for its published sheet (or its members). */
 export async function trialOffers(db: DB, actor: Actor | null, slug: string): Promise<TrialOffers> {
   const { trial } = await trialForAction(db, slug, actor, 'results.read');
-  const rows = await repo.openOffersOfTrial(db, trial.id);
-  return {
-    offers: rows.map((r) => ({
-      id: r.id,
-      varietyName: r.variety_name,
-      entryName: r.entry_name,
-      packetsLeft: r.packets_left,
-    })),
-  };
+  return { offers: await openOffersOf(db, trial.id) };
+}
+
+/** The open offers of a trial the caller has already read as readable (e.g. as published). */
+export async function openOffersOf(db: DB, trialId: string): Promise<TrialOffers['offers']> {
+  const rows = await repo.openOffersOfTrial(db, trialId);
+  return rows.map((r) => ({
+    id: r.id,
+    varietyName: r.variety_name,
+    entryName: r.entry_name,
+    packetsLeft: r.packets_left,
+  }));
 }
 
 export async function requestPacket(
