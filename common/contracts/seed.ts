@@ -73,6 +73,10 @@ const lotFields = {
   notes: text(1000, 'notes'),
 };
 
+const seedsCountWhole = (b: { amountUnit?: string; amount?: number | null }) =>
+  b.amountUnit !== 'seeds' || b.amount == null || Number.isInteger(b.amount);
+const seedsCountMessage = { path: ['amount'], message: 'A count of seeds is a whole number.' };
+
 /* POST /api/varieties/:slug/seed/lots (group coordinators) */
 export const createLotBody = z
   .object({
@@ -83,10 +87,7 @@ export const createLotBody = z
     storagePlace: lotFields.storagePlace.default(''),
     notes: lotFields.notes.default(''),
   })
-  .refine((b) => b.amountUnit !== 'seeds' || b.amount === null || Number.isInteger(b.amount), {
-    path: ['amount'],
-    message: 'A count of seeds is a whole number.',
-  });
+  .refine(seedsCountWhole, seedsCountMessage);
 export type CreateLotBody = z.input<typeof createLotBody>;
 
 /* PATCH /api/seed/lots/:lotId: only the fields sent change. */
@@ -94,10 +95,7 @@ export const updateLotBody = z
   .object(lotFields)
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.')
-  .refine((b) => b.amountUnit !== 'seeds' || b.amount == null || Number.isInteger(b.amount), {
-    path: ['amount'],
-    message: 'A count of seeds is a whole number.',
-  });
+  .refine(seedsCountWhole, seedsCountMessage);
 export type UpdateLotBody = z.input<typeof updateLotBody>;
 
 /** The lot form: numbers typed as text, the amount in grams, ounces or seeds. */
@@ -111,10 +109,7 @@ export const lotForm = z
     storagePlace: lotFields.storagePlace,
     notes: lotFields.notes,
   })
-  .refine((b) => b.amountUnit !== 'seeds' || b.amount === null || Number.isInteger(b.amount), {
-    path: ['amount'],
-    message: 'A count of seeds is a whole number.',
-  })
+  .refine(seedsCountWhole, seedsCountMessage)
   .transform(({ amountUnit, amount, ...rest }) => ({
     ...rest,
     // Ounces are kept as grams, rounded to a tenth of a gram (a packet scale's step).
