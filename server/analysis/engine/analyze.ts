@@ -853,7 +853,8 @@ export interface TwoFactorResult extends Omit<TwoFactorAnalysis, 'cellMeans' | '
   grandMean: number;
   cvPercent: number | null;
   letters: SeparationMethod;
-  model: 'anova' | 'mixed';
+  /** Two-factor trials have the classical analysis only (the mixed model is refused). */
+  model: 'anova';
   /** 'means' on a balanced layout; 'least-squares' when plots are missing. */
   method: 'means' | 'least-squares';
   /** One object per treatment × variety cell (emmeans' emmean and SE). */
