@@ -46,8 +46,6 @@ export interface DataTableProps<T> {
   sortable?: boolean;
   /** Extra classes for the table (e.g. a minimum width before it scrolls sideways). */
   className?: string;
-  /** Extra classes for a row, from its data. */
-  rowClassName?: (row: T) => string;
 }
 
 const ariaSort = { asc: 'ascending', desc: 'descending' } as const;
@@ -62,7 +60,6 @@ export function DataTable<T>({
   showCaption = false,
   sortable = true,
   className = '',
-  rowClassName,
 }: DataTableProps<T>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>({});
@@ -141,10 +138,7 @@ export function DataTable<T>({
         </thead>
         <tbody>
           {table.getRowModel().rows.map((row) => (
-            <tr
-              key={row.id}
-              className={`border-t border-leaf-50 ${rowClassName ? rowClassName(row.original) : ''}`}
-            >
+            <tr key={row.id} className="border-t border-leaf-50">
               {row.getVisibleCells().map((cell) => {
                 const content = flexRender(cell.column.columnDef.cell, cell.getContext());
                 const className = cellClass(row, cell.column.columnDef.meta);
