@@ -73,9 +73,13 @@ const lotFields = {
   notes: text(1000, 'notes'),
 };
 
-const seedsCountWhole = (b: { amountUnit?: string; amount?: number | null }) =>
+/** A lot's amount counted in seeds is a whole number (the PATCH checks it against the stored lot). */
+export const seedsCountWhole = (b: { amountUnit?: string; amount?: number | null }) =>
   b.amountUnit !== 'seeds' || b.amount == null || Number.isInteger(b.amount);
-const seedsCountMessage = { path: ['amount'], message: 'A count of seeds is a whole number.' };
+export const seedsCountMessage = {
+  path: ['amount'],
+  message: 'A count of seeds is a whole number.',
+};
 
 /* POST /api/varieties/:slug/seed/lots (group coordinators) */
 export const createLotBody = z

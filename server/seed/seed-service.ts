@@ -22,6 +22,7 @@ import type {
   updateLotBody,
   VarietySeed,
 } from '../../common/contracts/seed';
+import { seedsCountMessage, seedsCountWhole } from '../../common/contracts/seed';
 import { lotWarnings, standPercent } from '../../common/seed-lots';
 import type { DB } from '../../db/database';
 import type { AppDeps } from '../app-deps';
@@ -198,8 +199,8 @@ export async function updateLot(
   const lot = await lotFor(db, actor, lotId, 'seed.edit');
   const unit = b.amountUnit ?? lot.amount_unit;
   const amount = b.amount === undefined ? lot.amount : b.amount;
-  if (unit === 'seeds' && amount !== null && !Number.isInteger(amount))
-    throw fieldError('body.amount', 'A count of seeds is a whole number.');
+  if (!seedsCountWhole({ amountUnit: unit, amount }))
+    throw fieldError('body.amount', seedsCountMessage.message);
   await unlessTaken(
     repo.updateLot(db, lot.id, {
       label: b.label,
