@@ -6,18 +6,13 @@
  */
 import { analyzePlotRows, type PlotRow } from '../server/analysis/engine/analyze.js';
 import { fictionalTrialRows } from './fictional-trial.js';
-import { closingVerdict, verdict } from './support/bench-app';
+import { closingVerdict, percentile, verdict } from './support/bench-app';
 
-/** Median ms per trait analysis: complete layout, and with one missing plot. */
+/** Median ms per trait analysis (complete; one plot missing): common practice (no source). */
 const TARGET_MS = { complete: 5, missing: 20 } as const;
 const ENTRIES = 100;
 const BLOCKS = 4;
 const SITES = 6;
-
-function percentile(sorted: number[], p: number): number {
-  const i = Math.min(sorted.length - 1, Math.ceil(p * sorted.length) - 1);
-  return sorted[Math.max(0, i)]!;
-}
 
 /** Median and p95 of `runs` timed analyses after a warm-up. */
 function time(label: string, data: PlotRow[], runs: number, warmUp: number): number {

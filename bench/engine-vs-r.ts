@@ -25,6 +25,7 @@ const BLOCKS = 4;
 const ROUNDS = 3;
 const IN_PROCESS_REPS = 60;
 const PROCESS_RUNS = 4;
+/** Engine ÷ R time ratios at most these: our own targets, common practice (no source). */
 const TARGET_IN_PROCESS = 0.15;
 const TARGET_PROCESS = 0.6;
 
