@@ -188,6 +188,13 @@ describe('seed lots and germination tests', () => {
     expect(late.status).toBe(400);
     expect(fieldsOf(late)).toEqual(['body.testedOn']);
     expect((await lotIn(lot)).tests).toEqual([]);
+    // A change of unit alone is checked against the stored amount (42.5 g is no count of seeds).
+    const recount = await as('lead').send('patch', `/api/seed/lots/${lot}`, {
+      amountUnit: 'seeds',
+    });
+    expect(recount.status).toBe(400);
+    expect(fieldsOf(recount)).toEqual(['body.amount']);
+    expect((await lotIn(lot)).amount).toBe(42.5);
   });
 
   it('gives each test its percent and 95 % Wilson interval, newest first', async () => {
