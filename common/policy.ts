@@ -135,7 +135,11 @@ export type GroupAction = (typeof groupActions)[number];
 
 export const groupPermissionTable: Record<
   GroupAction,
-  Record<GroupRole, boolean> & { note: string }
+  Record<GroupRole, boolean> & {
+    note: string;
+    /** Who else may, beyond the group's people (the permission table's "anyone" column). */
+    anyone?: string;
+  }
 > = {
   'register.read': {
     coordinator: true,
@@ -166,6 +170,7 @@ export const groupPermissionTable: Record<
     coordinator: true,
     member: true,
     note: 'ask for a packet of offered seed (anyone with a confirmed e-mail too, when the group allows)',
+    anyone: 'confirmed e-mail, if the group allows',
   },
 };
 
@@ -198,8 +203,7 @@ export function groupPermissionTableMarkdown(): string {
   const yes = (b: boolean) => (b ? 'yes' : '—');
   const rows = groupActions.map((a) => {
     const r = groupPermissionTable[a];
-    const anyone = a === 'seed.request' ? 'confirmed e-mail, if the group allows' : '—';
-    return `| \`${a}\` | ${yes(r.coordinator)} | ${yes(r.member)} | ${anyone} | yes | ${r.note} |`;
+    return `| \`${a}\` | ${yes(r.coordinator)} | ${yes(r.member)} | ${r.anyone ?? '—'} | yes | ${r.note} |`;
   });
   return [
     '| group action | coordinator | member | anyone | admin | what it covers |',
