@@ -47,7 +47,9 @@ const tagging: PhotoTagging = {
     { id: entryA, code: 'E1', name: 'Marrowdale Long', coverPhotoId: null },
     { id: entryB, code: 'E2', name: 'Tansy Ribbed', coverPhotoId: null },
   ],
-  plots: [{ id: plotA, entryId: entryA, siteId, siteName: 'Hollin Yard', plotNumber: 101, block: 1 }],
+  plots: [
+    { id: plotA, entryId: entryA, siteId, siteName: 'Hollin Yard', plotNumber: 101, block: 1 },
+  ],
   permissions: { upload: true, chooseCover: true },
   limits: {
     maxBytes: 10_000_000,
@@ -90,7 +92,11 @@ describe('the photo tag form', () => {
     fireEvent.change(within(form).getByLabelText(/^Caption/), { target: { value: '   ' } });
     fireEvent.click(within(form).getByRole('button', { name: 'Save tags' }));
     await screen.findByText(/Describe the photo: the caption is what people hear/);
-    expect(within(form).getByLabelText(/^Caption/).getAttribute('aria-invalid')).toBe('true');
+    expect(
+      within(form)
+        .getByLabelText(/^Caption/)
+        .getAttribute('aria-invalid'),
+    ).toBe('true');
     expect(sent).toEqual([]);
     expect(onDone).not.toHaveBeenCalled();
   });

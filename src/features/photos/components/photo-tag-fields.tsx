@@ -100,7 +100,10 @@ export function PhotoTagFields({
         label="Subject"
         disabled={disabled}
         error={error('subject')}
-        options={[['', 'Not said'], ...photoSubjects.map((s) => [s, photoSubjectLabels[s]] as const)]}
+        options={[
+          ['', 'Not said'],
+          ...photoSubjects.map((s) => [s, photoSubjectLabels[s]] as const),
+        ]}
         {...form.register(path('subject'))}
       />
     </div>
