@@ -10,7 +10,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Photo, PhotoTagging } from '../../common/contracts/photos';
 import { WeatherImport } from '../../src/features/analysis/components/weather-import';
 import { EditTags } from '../../src/features/photos/components/photo-lightbox';
-import { FollowForm } from '../../src/features/results/routes/public-sheet-route';
+import { FollowForm } from '../../src/features/results/components/follow-form';
 
 const json = (status: number, body: unknown) =>
   new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });

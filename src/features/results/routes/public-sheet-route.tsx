@@ -1,50 +1,20 @@
 import { utcDateOf } from '@common/calendar-date';
-import { followBody } from '@common/contracts/results';
-import { useLayoutEffect } from 'react';
+import { lazy, Suspense, useLayoutEffect } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { FormMessage, TextField } from '@/components/ui/text-field';
-import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { removePrerenderedSheet } from '@/lib/prerendered-sheet';
-import { useFollowResults } from '../api/follow-results';
 import { usePublishedSheet } from '../api/get-published-sheet';
 import { useTrialOffers } from '../api/get-trial-offers';
 import { useVersions } from '../api/get-versions';
 import { SheetView } from '../components/sheet-view';
 
-export function FollowForm({ slug }: { slug: string }) {
-  const follow = useFollowResults(slug);
-  const form = useContractForm(followBody, { email: '' });
-  const onSubmit = submitTo(form, ({ email }) => follow.mutateAsync(email));
-  const refusal = formRefusal(form);
-  if (follow.isSuccess) {
-    return (
-      <p role="status" className="rounded-lg bg-leaf-50 p-3">
-        {follow.data.message} Open the link in it to start following.
-      </p>
-    );
-  }
-  return (
-    <form className="space-y-2" noValidate onSubmit={onSubmit}>
-      <div className="flex flex-col gap-2 sm:flex-row sm:items-start">
-        <TextField
-          className="flex-1 text-sm"
-          label="E-mail me when new results are published"
-          type="email"
-          autoComplete="email"
-          error={form.formState.errors.email?.message}
-          {...form.register('email')}
-        />
-        <Button type="submit" className="sm:mt-7" disabled={form.formState.isSubmitting}>
-          {form.formState.isSubmitting ? 'Sending…' : 'Follow'}
-        </Button>
-      </div>
-      {refusal ? <FormMessage tone="error">{refusal}</FormMessage> : null}
-    </form>
-  );
-}
+// The follow form (react-hook-form and its resolver) is not needed to read the sheet, so it is
+// loaded after the sheet shows.
+const FollowForm = lazy(() =>
+  import('../components/follow-form').then((m) => ({ default: m.FollowForm })),
+);
 
 export function Component() {
   const { slug = '', version } = useParams();
@@ -124,7 +94,9 @@ export function Component() {
         className="no-print mx-auto mt-6 max-w-4xl rounded-lg bg-white p-4 shadow-sm"
         aria-label="Follow these results"
       >
-        <FollowForm slug={slug} />
+        <Suspense fallback={<p className="min-h-[4.75rem] text-sm">Loading the follow form…</p>}>
+          <FollowForm slug={slug} />
+        </Suspense>
         <p className="mt-2 text-xs text-loam-700">
           We send a confirmation first; every message has a one-click unsubscribe link.
         </p>
