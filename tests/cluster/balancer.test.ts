@@ -246,12 +246,16 @@ describe('when an instance dies or is replaced', () => {
       }
     };
     const reader = async () => {
-      // A connection per read, no retry: every read must be answered 200.
+      // A connection per read; every read must be answered 200. A connection that fails before
+      // any answer is tried once more on a new one, as browsers do for a GET (RFC 9110 §9.2.2:
+      // idempotent requests may be retried automatically): nginx's old workers close their
+      // connections while a reload hands over. An HTTP error is never retried.
       const visitor = new Visitor(t.cluster.url, { keepAlive: false });
+      const read = () => visitor.call('GET', `/api/results/${SLUG}`);
       while (writing) {
         reads++;
-        const sheet = await visitor
-          .call('GET', `/api/results/${SLUG}`)
+        const sheet = await read()
+          .catch(() => read())
           .catch((err: unknown) => String(err));
         if (typeof sheet === 'string') readFailures.push(sheet);
         else if (sheet.status !== 200) readFailures.push(`${sheet.status} from ${sheet.upstream}`);
