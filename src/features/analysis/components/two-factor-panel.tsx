@@ -15,9 +15,9 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
+import { seriesColour } from '@/components/ui/chart-palette';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
-const palette = ['#2f5d3a', '#d98e2b', '#6b4f36', '#4a8a57', '#a8631a', '#1b3822', '#c7ad92'];
 const th = 'p-2 font-semibold';
 const td = 'p-2 tabular-nums text-right';
 
@@ -69,7 +69,7 @@ export function TwoFactorPanel({
           key={s.key}
           dataKey={s.key}
           name={s.name}
-          stroke={palette[i % palette.length]}
+          stroke={seriesColour(i)}
           isAnimationActive={false}
         />
       ))}

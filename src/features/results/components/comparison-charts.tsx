@@ -12,18 +12,8 @@ import {
   YAxis,
 } from 'recharts';
 import type { DisplayUnit } from '@common/display-units';
+import { seriesColour } from '@/components/ui/chart-palette';
 import { entrySiteTable, harvestCurveTable, type ChartTable } from './comparison-chart-data';
-
-const chartPalette = [
-  '#2f5d3a',
-  '#d98e2b',
-  '#6b4f36',
-  '#4a8a57',
-  '#a8631a',
-  '#8fbf98',
-  '#1b3822',
-  '#c7ad92',
-];
 
 /** A fixed size for tests (jsdom has no layout); the page fills its box. */
 type Size = { width: number; height: number } | undefined;
@@ -68,7 +58,7 @@ function TableLines({
             key={s.key}
             dataKey={s.key}
             name={s.name}
-            stroke={chartPalette[i % chartPalette.length]}
+            stroke={seriesColour(i)}
             dot={dots}
             isAnimationActive={false}
           />

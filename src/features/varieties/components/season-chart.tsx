@@ -11,8 +11,7 @@ import {
   YAxis,
 } from 'recharts';
 import type { SeasonChartTable } from './season-chart-data';
-
-const sitePalette = ['#2f5d3a', '#d98e2b', '#6b4f36', '#4a8a57', '#a8631a', '#1b3822'];
+import { seriesColour } from '@/components/ui/chart-palette';
 
 export function SeasonChart({ table, unit }: { table: SeasonChartTable; unit: DisplayUnit }) {
   return (
@@ -31,7 +30,7 @@ export function SeasonChart({ table, unit }: { table: SeasonChartTable; unit: Di
             key={s.key}
             dataKey={s.key}
             name={s.name}
-            stroke={sitePalette[i % sitePalette.length]}
+            stroke={seriesColour(i)}
             connectNulls
             dot
             isAnimationActive={false}
