@@ -65,7 +65,7 @@ describe('season journey', () => {
     await page.getByRole('link', { name: 'Compare entries' }).click();
     await page.getByRole('heading', { name: 'Compare entries' }).waitFor();
     // The table reads the analysis API: Mossbank Long's marketable yield cell carries a letter group.
-    await page.getByRole('cell', { name: 'Mossbank Long' }).waitFor();
+    await page.getByRole('rowheader', { name: 'Mossbank Long' }).waitFor();
     await page.getByText('Cumulative marketable harvest per plot').waitFor();
     await expectNoSeriousA11yViolations(page);
     await screenshot(page, 'compare-desktop');

@@ -1,13 +1,4 @@
-import type { TrialAnalysis } from '@common/contracts/analysis';
-import { type DisplayUnit, displayUnit, formatInUnit, formatNumber } from '@common/display-units';
-import {
-  createColumnHelper,
-  flexRender,
-  getCoreRowModel,
-  getSortedRowModel,
-  type SortingState,
-  useReactTable,
-} from '@tanstack/react-table';
+import { type DisplayUnit, displayUnit } from '@common/display-units';
 import { useMemo, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import {
@@ -25,31 +16,9 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
-import { directionSign, directionWords, type TraitDirection } from '@common/ranking';
 import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparison';
-import { ScrollRegion } from '@/components/ui/scroll-region';
 import { EntrySiteChart, HarvestCurveChart } from '../components/comparison-charts';
-
-type Row = {
-  variety: string;
-  code: string;
-  cells: Record<string, TrialAnalysis['means'][number] | undefined>;
-};
-const column = createColumnHelper<Row>();
-
-/** Trait columns sort best first on the first press; a trait with no direction, highest first. */
-function sortText(direction: TraitDirection, sorted: false | 'asc' | 'desc') {
-  if (!sorted) return '';
-  if (direction === 'none') return sorted === 'desc' ? ' ▼' : ' ▲';
-  return sorted === 'desc' ? ' (best first)' : ' (worst first)';
-}
-
-/** aria-sort describes the shown means, which run opposite to "best" when lower is better. */
-function ariaSort(direction: TraitDirection | undefined, sorted: false | 'asc' | 'desc') {
-  if (!sorted) return 'none' as const;
-  const flip = direction === 'lower';
-  return (sorted === 'desc') !== flip ? ('descending' as const) : ('ascending' as const);
-}
+import { ComparisonTable } from '../components/comparison-table';
 
 export function Component() {
   const { slug = '' } = useParams();
@@ -59,7 +28,6 @@ export function Component() {
   const [shown, setShown] = useState<string[] | null>(null);
   const visible = shown ?? traitKeys.slice(0, 4);
   const analyses = useTraitAnalyses(slug, visible);
-  const [sorting, setSorting] = useState<SortingState>([]);
   const [chartTrait, setChartTrait] = useState<string | null>(null);
   const chartKey = chartTrait ?? visible[0] ?? '';
   const chartIndex = visible.indexOf(chartKey);
@@ -69,69 +37,17 @@ export function Component() {
   const entrySite = useEntrySite(slug, chartKey, Boolean(multisite && chartKey));
 
   const byKey = new Map(visible.map((k, i) => [k, analyses[i]?.data]));
-  const rows: Row[] = useMemo(() => {
-    const entries = trial.data?.entries ?? [];
-    return entries.map((e) => ({
-      variety: e.name,
-      code: e.code,
-      cells: Object.fromEntries(
-        visible.map((k) => [k, byKey.get(k)?.means.find((m) => m.variety === e.name)]),
-      ),
-    }));
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [trial.data, visible.join(','), analyses.map((a) => a.dataUpdatedAt).join(',')]);
-
-  const columns = useMemo(
-    () => [
-      column.accessor('variety', {
-        header: 'Variety',
-        cell: (c) => <span className="font-medium">{c.getValue()}</span>,
-      }),
-      ...visible.map((k) => {
-        const trait = trial.data?.traits.find((t) => t.key === k);
-        const label = trait?.label ?? k;
-        const direction = trait?.direction ?? 'none';
-        const analysis = byKey.get(k);
-        const du = displayUnit(analysis?.unit ?? '', units, analysis?.grandMean ?? 0);
-        // Sorted by how good the mean is, so "descending" always puts the best entry first.
-        const goodness = directionSign(direction) || 1;
-        return column.accessor((r) => (r.cells[k] ? goodness * r.cells[k].mean : null), {
-          id: k,
-          header: label,
-          sortDescFirst: true,
-          sortUndefined: 'last',
-          cell: (c) => {
-            const m = c.row.original.cells[k];
-            if (!m) return '—';
-            return (
-              <span className="tabular-nums">
-                {formatInUnit(m.mean, du)} ± {formatNumber(m.se === null ? null : m.se * du.factor)}{' '}
-                <span className="font-mono text-leaf-700">{m.group}</span>
-                {m.rank === null ? null : <span className="text-xs text-loam-700"> #{m.rank}</span>}
-              </span>
-            );
-          },
-        });
-      }),
-    ],
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-    [visible.join(','), units, trial.data, analyses.map((a) => a.dataUpdatedAt).join(',')],
-  );
-  const table = useReactTable({
-    data: rows,
-    columns,
-    state: { sorting },
-    onSortingChange: setSorting,
-    getCoreRowModel: getCoreRowModel(),
-    getSortedRowModel: getSortedRowModel(),
-  });
-
-  const directionOf = (key: string) => trial.data?.traits.find((t) => t.key === key)?.direction;
   if (trial.isPending) return <Spinner label="Loading the trial…" />;
   if (trial.error) return <ErrorPanel error={trial.error} />;
   const loading = analyses.some((a) => a.isPending);
   const failed = analyses.find((a) => a.error);
-  const chartUnit: DisplayUnit = displayUnit(chart?.unit ?? '', units, chart?.grandMean ?? 0);
+  // The chart's axis in the same unit as the trait's column in the table.
+  const chartUnit: DisplayUnit = displayUnit(
+    chart?.unit ?? '',
+    units,
+    chart?.grandMean ?? 0,
+    trial.data.traits.find((t) => t.key === chartKey)?.displayUnit,
+  );
   const conv = (v: number) => v * chartUnit.factor;
   const meansData =
     chart?.means.map((m) => ({
@@ -188,54 +104,12 @@ export function Component() {
       ) : null}
       {loading ? <Spinner label="Analysing the chosen traits…" /> : null}
 
-      <ScrollRegion label="Entries compared" className="mt-3 rounded-lg bg-white shadow-sm">
-        <table className="w-full min-w-[28rem] text-left text-sm">
-          <caption className="p-2 text-left text-xs text-loam-700">
-            Mean ± SE, letter group (same letter: not significantly different, Tukey's HSD at α =
-            0.05) and rank (#1 = best in the trait's direction; traits with no preferred direction
-            are not ranked). Select a header to sort, best first.
-          </caption>
-          <thead className="bg-leaf-50">
-            {table.getHeaderGroups().map((hg) => (
-              <tr key={hg.id}>
-                {hg.headers.map((h) => (
-                  <th
-                    key={h.id}
-                    scope="col"
-                    className="p-2"
-                    aria-sort={ariaSort(directionOf(h.column.id), h.column.getIsSorted())}
-                  >
-                    <button
-                      type="button"
-                      className="min-h-11 text-left font-semibold"
-                      onClick={h.column.getToggleSortingHandler()}
-                    >
-                      {flexRender(h.column.columnDef.header, h.getContext())}
-                      {directionOf(h.column.id) ? (
-                        <span className="block text-xs font-normal text-loam-700">
-                          {directionWords[directionOf(h.column.id)!]}
-                        </span>
-                      ) : null}
-                      {sortText(directionOf(h.column.id) ?? 'none', h.column.getIsSorted())}
-                    </button>
-                  </th>
-                ))}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.map((r) => (
-              <tr key={r.id} className="border-t border-leaf-50">
-                {r.getVisibleCells().map((c) => (
-                  <td key={c.id} className="p-2">
-                    {flexRender(c.column.columnDef.cell, c.getContext())}
-                  </td>
-                ))}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </ScrollRegion>
+      <ComparisonTable
+        entries={trial.data.entries}
+        traits={visible.flatMap((k) => trial.data.traits.filter((t) => t.key === k))}
+        analyses={byKey}
+        units={units}
+      />
 
       <section className="mt-6" aria-labelledby="chart-heading">
         <div className="flex flex-wrap items-end gap-3">
