@@ -214,6 +214,12 @@ export const resultSnapshotSchema = z.object({
       name: z.string(),
       seedSource: z.string(),
       entryType: z.enum(entryTypes),
+      /**
+       * The register variety the entry was grown as (its page is `/varieties/<slug>`); null when
+       * the entry is linked to none. Versions published before this field lack it: the server
+       * fills it in from the entry's register link when it reads them (see `frozenFromStamp`).
+       */
+      varietySlug: z.string().nullable().optional(),
       note: z.string(),
       caution: z.string().nullable(),
       photo: z

@@ -130,6 +130,16 @@ export function findVersion(db: DB, trialId: string, version: number) {
     .executeTakeFirst();
 }
 
+/** Each entry of a trial with the slug of the register variety it is linked to (null: none). */
+export function entryVarietySlugs(db: DB, trialId: string) {
+  return db
+    .selectFrom('entries as e')
+    .leftJoin('varieties as v', 'v.id', 'e.variety_id')
+    .select(['e.id', 'v.slug'])
+    .where('e.trial_id', '=', trialId)
+    .execute();
+}
+
 export function listVersions(db: DB, trialId: string) {
   return db
     .selectFrom('result_versions')

@@ -270,6 +270,7 @@ async function frozenFromStamp(
   const parsed = resultSnapshotSchema.safeParse(row.snapshot);
   if (!parsed.success)
     throw new AppError('internal', 'This version of the results sheet could not be read.');
+  await linkEntriesToVarieties(db, trialId, parsed.data);
   const json = JSON.stringify(parsed.data);
   const tag = crypto.createHash('sha256').update(key).update(json).digest('base64url').slice(0, 27);
   const body = Buffer.from(json, 'utf8');
@@ -285,6 +286,22 @@ async function frozenFromStamp(
     frozenVersions.delete(frozenVersions.keys().next().value!);
   frozenVersions.set(key, frozen);
   return frozen;
+}
+
+/**
+ * Versions published before snapshots named each entry's register variety lack `varietySlug`.
+ * Their stored rows stay as published (a trigger keeps them from changing, and readers must see
+ * exactly the numbers that were published); the link to a variety's page is a way to get there,
+ * not a published figure, so it is filled in here from the entry's register link, the same link
+ * the variety's page reads to list that trial. Newer versions keep the slug from publishing.
+ */
+async function linkEntriesToVarieties(db: DB, trialId: string, snapshot: ResultSnapshot) {
+  if (snapshot.entries.every((e) => e.varietySlug !== undefined)) return;
+  const slugs = new Map(
+    (await repo.entryVarietySlugs(db, trialId)).map((r) => [r.id, r.slug ?? null]),
+  );
+  for (const e of snapshot.entries)
+    if (e.varietySlug === undefined) e.varietySlug = slugs.get(e.id) ?? null;
 }
 
 export async function publicVersion(

@@ -114,7 +114,14 @@ export async function buildSnapshot(
 ): Promise<ResultSnapshot> {
   const [sites, entries, traitRows, plotCount, photos] = await Promise.all([
     db.selectFrom('sites').selectAll().where('trial_id', '=', trial.id).orderBy('name').execute(),
-    db.selectFrom('entries').selectAll().where('trial_id', '=', trial.id).orderBy('code').execute(),
+    db
+      .selectFrom('entries as e')
+      .leftJoin('varieties as v', 'v.id', 'e.variety_id')
+      .selectAll('e')
+      .select('v.slug as variety_slug')
+      .where('e.trial_id', '=', trial.id)
+      .orderBy('e.code')
+      .execute(),
     db.selectFrom('traits').selectAll().where('trial_id', '=', trial.id).execute(),
     db
       .selectFrom('plots')
@@ -254,6 +261,7 @@ export async function buildSnapshot(
         name: e.name,
         seedSource: e.seed_source,
         entryType: e.entry_type,
+        varietySlug: e.variety_slug,
         note,
         caution: mentionsIrritation ? `${spiny.title}: ${spiny.points[0]}` : null,
         photo: photo
