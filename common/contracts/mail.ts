@@ -9,6 +9,7 @@ export const mailKinds = [
   'follow_confirmation',
   'publish_notice',
   'seed_request_answer',
+  'seed_request_received',
 ] as const;
 export type MailKind = (typeof mailKinds)[number];
 
@@ -20,6 +21,7 @@ export const mailKindLabels: Record<MailKind, string> = {
   follow_confirmation: 'Follow confirmation',
   publish_notice: 'Results notice',
   seed_request_answer: 'Seed request answer',
+  seed_request_received: 'Seed request received',
 };
 
 /** pending: queued, not yet accepted by the relay (retried with growing waits); failed: given up. */

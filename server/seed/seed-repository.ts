@@ -267,6 +267,22 @@ export function findOffer(db: DB, offerId: string) {
     .executeTakeFirst();
 }
 
+/** The group's coordinators, who answer its seed requests, with their addresses. */
+export function groupCoordinators(db: DB, groupId: string) {
+  return db
+    .selectFrom('group_members as m')
+    .innerJoin('users as u', 'u.id', 'm.user_id')
+    .select(['u.id', 'u.name', 'u.email'])
+    .where('m.group_id', '=', groupId)
+    .where('m.role', '=', 'coordinator')
+    .orderBy('u.name')
+    .execute();
+}
+
+export function userName(db: DB, userId: string) {
+  return db.selectFrom('users').select('name').where('id', '=', userId).executeTakeFirstOrThrow();
+}
+
 export function closeOffer(db: DB, offerId: string, by: string) {
   return db
     .updateTable('seed_offers')

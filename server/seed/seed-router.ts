@@ -122,7 +122,7 @@ export function seedRouter(deps: Pick<AppDeps, 'db' | 'mail' | 'baseUrl'>) {
     endpoint(
       { params: offerParams, body: seedRequestBody },
       async ({ params, body }, _req, res) => {
-        res.status(201).json(await service.requestPacket(db, actorOf(res), params.offerId, body));
+        res.status(201).json(await service.requestPacket(deps, actorOf(res), params.offerId, body));
       },
     ),
   );

@@ -417,12 +417,18 @@ export async function openOffersOf(db: DB, trialId: string): Promise<TrialOffers
   }));
 }
 
+/**
+ * Takes a packet for the caller and tells the group's coordinators by mail. The mail is queued
+ * in the same transaction and sent by the queue's worker, so a relay that is down delays the
+ * letters but never loses or refuses the request.
+ */
 export async function requestPacket(
-  db: DB,
+  deps: SeedDeps,
   actor: Actor | null,
   offerId: string,
   b: Out<typeof seedRequestBody>,
 ): Promise<{ id: string }> {
+  const { db } = deps;
   const me = signedIn(actor);
   const offer = await repo.findOffer(db, offerId);
   if (!offer) throw AppError.notFound('The offer');
@@ -440,7 +446,7 @@ export async function requestPacket(
         'conflict',
         offer.status === 'open' ? 'No packets are left of this offer.' : 'This offer is closed.',
       );
-    return unlessTaken(
+    const created = await unlessTaken(
       repo.insertRequest(trx, {
         offer_id: offer.id,
         requester_id: me.userId,
@@ -450,7 +456,45 @@ export async function requestPacket(
       'seed_requests_offer_id_requester_id_key',
       new AppError('conflict', 'You have already asked for a packet of this offer.'),
     );
+    await tellCoordinators(deps, trx, offer, me.userId, b, taken.packets_left);
+    return created;
   });
+}
+
+/** One letter to each coordinator of the offer's group (not to one who asked for the packet). */
+async function tellCoordinators(
+  deps: SeedDeps,
+  trx: DB,
+  offer: NonNullable<Awaited<ReturnType<typeof repo.findOffer>>>,
+  requesterId: string,
+  b: Out<typeof seedRequestBody>,
+  packetsLeft: number,
+) {
+  const [coordinators, requester] = await Promise.all([
+    repo.groupCoordinators(trx, offer.group_id),
+    repo.userName(trx, requesterId),
+  ]);
+  for (const c of coordinators.filter((x) => x.id !== requesterId)) {
+    await deps.mail.enqueue(
+      trx,
+      composeMail({
+        to: c.email,
+        subject: `${requester.name} asks for a packet of ${offer.variety_name} seed`,
+        lines: [
+          `Hello ${c.name},`,
+          `${requester.name} has asked ${offer.group_name} for a packet of ${offer.variety_name} seed (lot ${offer.lot_label}). ${packetsLeft === 1 ? '1 packet is' : `${packetsLeft} packets are`} left of this offer.`,
+          ...(b.message ? [`Their note: ${b.message}`] : []),
+          // The postal address stays in Rowtally, where only the group's coordinators see it.
+          'Where to send it is on the request list, where you mark the packet sent or declined.',
+        ],
+        action: {
+          label: 'Answer the request',
+          url: `${deps.baseUrl}/varieties/${offer.variety_slug}/seed`,
+        },
+      }),
+      { kind: 'seed_request_received' },
+    );
+  }
 }
 
 export async function offerRequests(

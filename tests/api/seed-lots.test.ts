@@ -22,6 +22,7 @@ import {
   TEST_ORIGIN,
   type TestApp,
 } from '../support/test-app';
+import { type CaptureServer, startCaptureServer } from '../../server/mail/capture-server';
 
 const OKRA = 'larkhaven-okra-2026';
 const BEAN = 'fennick-bush-beans-2026';
@@ -386,6 +387,17 @@ describe('seed offers and requests', () => {
     expect(blank.status).toBe(400);
     expect(fieldsOf(blank)).toEqual(['body.shipTo']);
     expect((await as('grower').send('post', url, body)).status).toBe(201);
+    // The group's coordinator hears of it by mail, with the note and where to answer; the
+    // postal address stays in the app.
+    const told = await t.mailbox.waitFor(
+      (m) =>
+        m.to.includes('marisol@larkhaven-seeds.example') && m.subject.includes('Tobiah Wrenfield'),
+    );
+    expect(told.subject).toBe('Tobiah Wrenfield asks for a packet of Silverfern Bush seed');
+    expect(told.text).toContain('For the school beds.');
+    expect(told.text).toContain('1 packet is left of this offer.');
+    expect(told.text).toContain(`${TEST_ORIGIN}/varieties/silverfern-bush/seed`);
+    expect(told.text).not.toContain('14 Orchard Row');
     const twice = await as('grower').send('post', url, body);
     expect(twice.status).toBe(409);
     expect(twice.body.error.message).toMatch(/already asked/);
@@ -397,6 +409,17 @@ describe('seed offers and requests', () => {
       packetsLeft: 0,
       canRequest: false,
     });
+    // One letter per request taken, none for the refused ones.
+    await t.mailSettled();
+    const asked = t.mailbox
+      .messages()
+      .filter((m) => m.to.includes('marisol@larkhaven-seeds.example'))
+      .map((m) => m.subject)
+      .filter((s) => s.includes('asks for a packet'));
+    expect(asked.sort()).toEqual([
+      'Jun Halloway asks for a packet of Silverfern Bush seed',
+      'Tobiah Wrenfield asks for a packet of Silverfern Bush seed',
+    ]);
   });
 
   it('lets anyone with a confirmed e-mail ask when the group allows it', async () => {
@@ -488,5 +511,51 @@ describe('seed offers and requests', () => {
     expect(sheet.body.offers.map((o: { id: string }) => o.id)).not.toContain(offerId);
     expect((await as('signedOut').get(`/api/seed/offers/${offerId}`)).status).toBe(404);
     expect((await as('grower').get(`/api/seed/offers/${offerId}`)).status).toBe(200);
+  });
+
+  it('keeps a request while the mail relay is down, and tells the coordinator once it is back', async () => {
+    const made = await as('lead').send('post', `/api/varieties/${BEAN_VARIETY}/seed/offers`, {
+      lotId,
+      packets: 1,
+    });
+    expect(made.status).toBe(201);
+    const port = t.mailbox.port;
+    await t.mailbox.close();
+    let relay: CaptureServer | null = null;
+    try {
+      const res = await as('grower2').send('post', `/api/seed/offers/${made.body.id}/requests`, {
+        shipTo: 'Mill Pond Cottage',
+      });
+      // The member is answered at once; the letter waits in the queue.
+      expect(res.status).toBe(201);
+      const letter = () =>
+        t.db
+          .selectFrom('outgoing_mail')
+          .select(['status', 'attempts', 'last_error'])
+          .where('kind', '=', 'seed_request_received')
+          .where('subject', 'like', 'Ada Pellwright%')
+          .executeTakeFirstOrThrow();
+      await expect
+        .poll(async () => (await letter()).attempts, { timeout: 10_000 })
+        .toBeGreaterThanOrEqual(1);
+      expect(await letter()).toMatchObject({ status: 'pending' });
+      expect((await letter()).last_error).toMatch(/ECONNREFUSED/);
+      const list = await as('lead').get(`/api/seed/offers/${made.body.id}/requests`);
+      expect(list.body.requests).toEqual([
+        expect.objectContaining({ shipTo: 'Mill Pond Cottage', status: 'requested' }),
+      ]);
+
+      relay = await startCaptureServer(port);
+      const told = await relay.waitFor(
+        (m) =>
+          m.to.includes('marisol@larkhaven-seeds.example') &&
+          m.subject.startsWith('Ada Pellwright'),
+        20_000,
+      );
+      expect(told.subject).toMatch(/asks for a packet of Silverfern Bush seed$/);
+      await expect.poll(async () => (await letter()).status, { timeout: 10_000 }).toBe('sent');
+    } finally {
+      await relay?.close();
+    }
   });
 });

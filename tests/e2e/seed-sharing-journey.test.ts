@@ -109,6 +109,10 @@ describe('sharing seed', () => {
       .getByRole('link', { name: /\/offers\// })
       .first()
       .waitFor();
+    // The coordinator's letter about the request, sent when the member asked.
+    await page
+      .getByRole('article', { name: /Tobiah Wrenfield asks for a packet of Dovecote Purple seed/ })
+      .waitFor();
     await expectNoSeriousA11yViolations(page, 'mailbox at 360 px');
     await phone.close();
     await desk.close();
