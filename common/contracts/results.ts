@@ -3,10 +3,12 @@
  * A published snapshot is what readers see, print and download; it never changes.
  */
 import { z } from 'zod';
+import { formatF, formatP } from '../display-units';
 import { decimalsFor, recordedDecimals } from '../precision';
 import {
   analysisBases,
   analysisModels,
+  twoFactorSchema,
   varianceComponentSchema,
   varietyTestSchema,
 } from './analysis';
@@ -168,6 +170,12 @@ export const snapshotTraitSchema = z.object({
   varianceComponents: z.array(varianceComponentSchema).optional(),
   fixedTest: varietyTestSchema.optional(),
   varianceSummary: z.string().optional(),
+  /**
+   * Two-factor trials only: the cell, treatment and variety means with their SEs, the simple
+   * effects, and the strata in words as published (the interaction test is the anova's
+   * `variety:treatment` line). `means` above are the variety means over every level.
+   */
+  twoFactor: twoFactorSchema.extend({ strata: z.string() }).optional(),
   warnings: z.array(z.string()),
 });
 export type SnapshotTrait = z.infer<typeof snapshotTraitSchema>;
@@ -250,6 +258,8 @@ export const resultSnapshotSchema = z.object({
       block: z.string().nullable(),
       plot: z.string().nullable(),
       variety: z.string(),
+      /** Two-factor trials only: the plot's level of the treatment. */
+      treatment: z.string().optional(),
       value: z.number(),
     }),
   ),
@@ -318,3 +328,19 @@ export function sheetTraitDecimals(
 
 /** The model a published version used; versions from before the choice used the classical one. */
 export const sheetModel = (s: Pick<ResultSnapshot, 'model'>) => s.model ?? 'anova';
+
+/**
+ * A two-factor trait's interaction test in one line, from its analysis of variance, e.g.
+ * "Variety × fertilizer: F(3, 18) = 12.40, p < 0.001"; null without one.
+ */
+export function interactionNote(t: Pick<SnapshotTrait, 'anova' | 'twoFactor'>): string | null {
+  const line = t.anova.find((l) => l.source === 'variety:treatment');
+  if (!t.twoFactor || !line || line.f === null) return null;
+  const error = t.anova.find((l) => l.source === line.testedAgainst);
+  const p = formatP(line.p);
+  return `Variety × ${t.twoFactor.factor.toLowerCase()}: F(${line.df}, ${error?.df ?? '?'}) = ${formatF(line.f)}, p ${p.startsWith('<') ? p : `= ${p}`}`;
+}
+
+/** The treatment of a two-factor sheet (name, levels, layout), from its first trait; else null. */
+export const sheetFactor = (s: Pick<ResultSnapshot, 'traits'>) =>
+  s.traits.find((t) => t.twoFactor)?.twoFactor ?? null;

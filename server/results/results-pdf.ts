@@ -4,6 +4,7 @@ import { utcDateOf } from '../../common/calendar-date';
 import { modelNote, varietyTestNote } from '../../common/contracts/analysis';
 import {
   licenseLabels,
+  interactionNote,
   sheetModel,
   sheetTraitDecimals,
   type ResultSnapshot,
@@ -100,6 +101,34 @@ export function renderSheetPdf(
       doc.text(
         `${m.rank === null ? '' : `${m.rank}. `}${m.variety}   ${v(m.mean)} ± ${v(m.se)}${m.adjustedMean === undefined ? '' : ` (adjusted ${v(m.adjustedMean)} ± ${v(m.adjustedSe ?? null)})`}   ${m.group}`,
       );
+    const two = t.twoFactor;
+    if (two) {
+      // Entries rank on their means over every level; the cells and the treatment follow.
+      const interaction = interactionNote(t);
+      doc
+        .fontSize(9)
+        .fillColor('#6b4f36')
+        .text(`Entries ranked on their means over all levels of ${two.factor.toLowerCase()}.`)
+        .text(two.strata);
+      if (interaction) doc.text(interaction);
+      doc
+        .font('Helvetica-Bold')
+        .fillColor('#1f2a1c')
+        .text(`Cell means, variety × ${two.factor.toLowerCase()} (± SE)`)
+        .font('Helvetica');
+      for (const variety of t.means.map((m) => m.variety))
+        doc.text(
+          `${variety}   ${two.levels
+            .map((level) => {
+              const c = two.cellMeans.find((x) => x.variety === variety && x.treatment === level);
+              return `${level}: ${c ? `${v(c.mean)} ± ${v(c.se)}` : '—'}`;
+            })
+            .join('   ')}`,
+        );
+      doc.text(
+        `${two.factor} means: ${two.treatmentMeans.map((m) => `${m.treatment} ${v(m.mean)} ± ${v(m.se)}`).join('   ')}`,
+      );
+    }
     for (const w of t.warnings)
       doc.fontSize(8).fillColor('#a8631a').text(w).fillColor('#1f2a1c').fontSize(10);
     doc.moveDown(0.6);

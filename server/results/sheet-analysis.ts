@@ -32,6 +32,7 @@ export async function analyzeForSheet(
         block: v.block === null || v.block === undefined ? null : String(v.block),
         plot: String(v.plotNumber),
         variety: v.entry,
+        ...(v.treatment != null ? { treatment: v.treatment } : {}),
         value: v.value,
       })),
     };

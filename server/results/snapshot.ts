@@ -3,7 +3,11 @@
  * the lead's text, the chosen photos, the growing conditions. Nothing here is recomputed later:
  * readers always see exactly what was published.
  */
-import { defaultModelFor, type AnalysisModel } from '../../common/contracts/analysis';
+import {
+  defaultModelFor,
+  twoFactorNote,
+  type AnalysisModel,
+} from '../../common/contracts/analysis';
 import type { ResultSnapshot, SaveSheetBody, SnapshotTrait } from '../../common/contracts/results';
 import { cautions, isSpinyCrop } from '../../common/cautions';
 import type { DB } from '../../db/database';
@@ -98,12 +102,26 @@ export async function generatedMethods(
     `${Number(entries.n)} entries of ${trial.crop.toLowerCase()} were compared in ${layout}, ${plural(Number(plots.n), 'plot')} in all, in the ${trial.season} season${dates ? ` (${dates})` : ''}.`,
     sites.length ? `${sites.length === 1 ? 'Site' : 'Sites'}: ${siteText}.` : '',
     fertilizer,
-    modelOfSheet(trial, sheet) === 'mixed'
-      ? `Plot values were analysed with a linear mixed model fitted by REML: entries fixed; ${trial.design === 'multisite' ? 'sites, blocks within sites and, where the data allow, site × entry' : 'blocks'} random. Entries were tested by a Wald F test with Satterthwaite's denominator degrees of freedom, and ranked and separated on their estimated means (BLUEs) by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`
-      : `Plot values were analysed by analysis of variance (sequential sums of squares${trial.design === 'multisite' ? '; entries tested against the site × entry interaction' : ''}); means were separated by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`,
+    factorMethods(trial, sheet, test) ||
+      (modelOfSheet(trial, sheet) === 'mixed'
+        ? `Plot values were analysed with a linear mixed model fitted by REML: entries fixed; ${trial.design === 'multisite' ? 'sites, blocks within sites and, where the data allow, site × entry' : 'blocks'} random. Entries were tested by a Wald F test with Satterthwaite's denominator degrees of freedom, and ranked and separated on their estimated means (BLUEs) by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`
+        : `Plot values were analysed by analysis of variance (sequential sums of squares${trial.design === 'multisite' ? '; entries tested against the site × entry interaction' : ''}); means were separated by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`),
   ]
     .filter(Boolean)
     .join(' ');
+}
+
+/** A two-factor trial's layout and analysis in words (empty for a one-factor trial). */
+function factorMethods(trial: Trial, sheet: SaveSheetBody, test: string): string {
+  const factor = trialFactor(trial);
+  if (!factor) return '';
+  const f = factor.name.toLowerCase();
+  const layout = factor.arrangement === 'split_plot' ? 'split-plot' : 'factorial';
+  return [
+    `Every entry was grown at each level of ${f} (${factor.levels.join(', ')}), ${layout === 'split-plot' ? `the levels of ${f} on main plots within each block and the entries on subplots` : `every entry × ${f} combination randomized within each block`}.`,
+    twoFactorNote({ layout, factor: factor.name }, modelOfSheet(trial, sheet)),
+    `Entries were ranked and separated on their means over all levels of ${f} by ${test} at α = ${sheet.alpha}. Means followed by the same letter are not significantly different.`,
+  ].join(' ');
 }
 
 export async function buildSnapshot(
@@ -200,6 +218,14 @@ export async function buildSnapshot(
           }
         : {}),
       ...(result.varianceSummary ? { varianceSummary: result.varianceSummary } : {}),
+      ...(result.twoFactor
+        ? {
+            twoFactor: {
+              ...result.twoFactor,
+              strata: twoFactorNote(result.twoFactor, result.model ?? model),
+            },
+          }
+        : {}),
       warnings: result.warnings,
     });
     for (const v of result.plotValues) plotValues.push({ trait: trait.key, ...v });
