@@ -57,6 +57,61 @@ export function waterDepthMm(inputs: IrrigationInputs): number {
   }
 }
 
+/** The irrigation fields of a field event, in stored units, as stored or as sent. */
+export interface IrrigationFields {
+  irrigationMethod: IrrigationInputs['method'] | null;
+  runTimeMin: number | null;
+  dripEmitterFlowLPerH: number | null;
+  dripEmitterSpacingMm: number | null;
+  dripLineFlowLPerHPerM: number | null;
+  wettedWidthMm: number | null;
+  sprinklerRateMmPerH: number | null;
+  handVolumeL: number | null;
+  wettedAreaM2: number | null;
+}
+
+/**
+ * The inputs of the depth of water from an irrigation event's fields (a drip line given by
+ * its flow per length when that is filled in, else by its emitters), or null without a method.
+ * A missing input is NaN, so `waterDepthMm` names it.
+ */
+export function irrigationInputsOf(e: IrrigationFields): IrrigationInputs | null {
+  const runTimeMin = e.runTimeMin ?? NaN;
+  switch (e.irrigationMethod) {
+    case null:
+      return null;
+    case 'drip':
+      return e.dripLineFlowLPerHPerM !== null
+        ? {
+            method: 'drip',
+            lineFlowLPerHPerM: e.dripLineFlowLPerHPerM,
+            wettedWidthMm: e.wettedWidthMm ?? NaN,
+            runTimeMin,
+          }
+        : {
+            method: 'drip',
+            emitterFlowLPerH: e.dripEmitterFlowLPerH ?? NaN,
+            emitterSpacingMm: e.dripEmitterSpacingMm ?? NaN,
+            wettedWidthMm: e.wettedWidthMm ?? NaN,
+            runTimeMin,
+          };
+    case 'overhead':
+      return { method: 'overhead', sprinklerRateMmPerH: e.sprinklerRateMmPerH ?? NaN, runTimeMin };
+    case 'hand':
+      return {
+        method: 'hand',
+        volumeL: e.handVolumeL ?? NaN,
+        wettedAreaM2: e.wettedAreaM2 ?? NaN,
+        runTimeMin,
+      };
+    default: {
+      // Every method is handled above; a new one in irrigationMethods stops the build here.
+      const unhandled: never = e.irrigationMethod;
+      throw new Error(`No irrigation inputs for the method ${String(unhandled)}.`);
+    }
+  }
+}
+
 /** Litres over square metres, as depth (mm). */
 export const depthFromVolumeMm = (litres: number, areaM2: number) =>
   positive('Volume', litres) / positive('Area', areaM2);

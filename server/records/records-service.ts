@@ -17,7 +17,7 @@ import {
   observationValueProblem,
 } from '../../common/contracts/records';
 import type { Actor } from '../../common/policy';
-import { waterDepthMm, type IrrigationInputs } from '../../common/water';
+import { irrigationInputsOf, waterDepthMm } from '../../common/water';
 import type { DB } from '../../db/database';
 import { writeAudit } from './record-audit-repository';
 import { requireActorOf } from './records-actor';
@@ -375,38 +375,9 @@ export function updateObservation(
 function eventColumns(e: FieldEventInput) {
   const irrigation = e.kind === 'irrigation';
   const only = <T>(when: boolean, v: T) => (when ? v : null);
-  let depth: number | null = null;
-  if (irrigation && e.irrigationMethod && e.runTimeMin) {
-    const inputs: IrrigationInputs | null =
-      e.irrigationMethod === 'drip'
-        ? e.dripLineFlowLPerHPerM !== null
-          ? {
-              method: 'drip',
-              lineFlowLPerHPerM: e.dripLineFlowLPerHPerM,
-              wettedWidthMm: e.wettedWidthMm!,
-              runTimeMin: e.runTimeMin,
-            }
-          : {
-              method: 'drip',
-              emitterFlowLPerH: e.dripEmitterFlowLPerH!,
-              emitterSpacingMm: e.dripEmitterSpacingMm!,
-              wettedWidthMm: e.wettedWidthMm!,
-              runTimeMin: e.runTimeMin,
-            }
-        : e.irrigationMethod === 'overhead'
-          ? {
-              method: 'overhead',
-              sprinklerRateMmPerH: e.sprinklerRateMmPerH!,
-              runTimeMin: e.runTimeMin,
-            }
-          : {
-              method: 'hand',
-              volumeL: e.handVolumeL!,
-              wettedAreaM2: e.wettedAreaM2!,
-              runTimeMin: e.runTimeMin,
-            };
-    depth = waterDepthMm(inputs);
-  }
+  // The contract made sure every input of the chosen method is there.
+  const inputs = irrigation ? irrigationInputsOf(e) : null;
+  const depth = inputs ? waterDepthMm(inputs) : null;
   const drip = irrigation && e.irrigationMethod === 'drip';
   const byLine = drip && e.dripLineFlowLPerHPerM !== null;
   return {

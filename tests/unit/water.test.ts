@@ -7,6 +7,7 @@ import {
   gallonsToLitres,
   gphPer100FtToLPerHPerM,
   inchesPerHourToMmPerHour,
+  irrigationInputsOf,
   squareFeetToSquareMetres,
   waterDepthMm,
   weeklyWaterSummary,
@@ -110,6 +111,45 @@ describe('drip lines', () => {
     expect(() =>
       waterDepthMm({ method: 'overhead', sprinklerRateMmPerH: Number.NaN, runTimeMin: 5 }),
     ).toThrow('Sprinkler rate must be a number above 0.');
+  });
+});
+
+describe("an event's stored irrigation fields as depth inputs", () => {
+  const none = {
+    runTimeMin: 60,
+    dripEmitterFlowLPerH: null,
+    dripEmitterSpacingMm: null,
+    dripLineFlowLPerHPerM: null,
+    wettedWidthMm: 12 * MM_PER_INCH,
+    sprinklerRateMmPerH: null,
+    handVolumeL: null,
+    wettedAreaM2: null,
+  };
+
+  it('reads a drip line by its flow per length when given, else by its emitters', () => {
+    const byLine = irrigationInputsOf({
+      ...none,
+      irrigationMethod: 'drip',
+      dripLineFlowLPerHPerM: gphPer100FtToLPerHPerM(0.45),
+      dripEmitterFlowLPerH: 2,
+    })!;
+    // The same tape as above: 231 × 0.0045 / 144 in over an hour.
+    expect(inchesOf(waterDepthMm(byLine))).toBeCloseTo((231 * 0.0045) / 144, 10);
+    const byEmitters = irrigationInputsOf({
+      ...none,
+      irrigationMethod: 'drip',
+      dripEmitterFlowLPerH: gallonsToLitres(1),
+      dripEmitterSpacingMm: 12 * MM_PER_INCH,
+    })!;
+    // 1 gal/h per foot of line over a 12 in strip: 231 / 144 in per hour.
+    expect(inchesOf(waterDepthMm(byEmitters))).toBeCloseTo(231 / 144, 10);
+  });
+
+  it('has no inputs without a method, and names a missing one when the depth is asked for', () => {
+    expect(irrigationInputsOf({ ...none, irrigationMethod: null })).toBeNull();
+    expect(() => waterDepthMm(irrigationInputsOf({ ...none, irrigationMethod: 'hand' })!)).toThrow(
+      'Volume must be a number above 0.',
+    );
   });
 });
 
