@@ -5,7 +5,14 @@
  */
 import { z } from 'zod';
 import { calendarDate, latestRecordDate } from '../calendar-date';
-import { typedNumber } from './typed-input';
+import { G_PER_POUND, toStored, type UnitSystem } from '../units';
+import {
+  gallonsToLitres,
+  gphPer100FtToLPerHPerM,
+  inchesPerHourToMmPerHour,
+  squareFeetToSquareMetres,
+} from '../water';
+import { readTypedNumber, typedNumber } from './typed-input';
 
 export const harvestGrades = ['marketable', 'cull'] as const;
 export const fieldEventKinds = [
@@ -266,11 +273,13 @@ const eventShape = z.object({
   ...eventFields,
 });
 export type FieldEventInput = z.output<typeof eventShape>;
+/** An event's details without its date, as the field-event form gives them. */
+type EventDetails = Omit<FieldEventInput, 'occurredOn'>;
 
-/** What each kind of event must carry; shared by create and update. */
-export function fieldEventProblems(e: FieldEventInput): { path: string; message: string }[] {
+/** What each kind of event must carry; shared by create, update and the field-event form. */
+export function fieldEventProblems(e: EventDetails): { path: string; message: string }[] {
   const out: { path: string; message: string }[] = [];
-  const need = (path: keyof FieldEventInput, message: string) => {
+  const need = (path: keyof EventDetails, message: string) => {
     if (e[path] === null || e[path] === '') out.push({ path, message });
   };
   if (e.kind === 'irrigation') {
@@ -300,7 +309,7 @@ export function fieldEventProblems(e: FieldEventInput): { path: string; message:
   return out;
 }
 
-function checkEvent(e: FieldEventInput, ctx: z.RefinementCtx) {
+function checkEvent(e: EventDetails, ctx: z.RefinementCtx) {
   for (const p of fieldEventProblems(e))
     ctx.addIssue({ code: 'custom', path: [p.path], message: p.message });
 }
@@ -604,3 +613,145 @@ export const standCountEntryForm = (plantsSet: number | null) =>
 
 /** A note about one plot. */
 export const plotNoteForm = z.object({ note: noteText.min(1, 'Write the note.') });
+
+/** How a drip line's flow is typed: per emitter with their spacing, or per length of line. */
+export const dripFlowBases = ['emitters', 'line'] as const;
+
+const same = (v: number) => v;
+/**
+ * The unit each amount of a field event is typed in, by the reader's unit system, and how it
+ * becomes the stored unit (exact factors, common/units.ts). Lengths are typed in cm or inches.
+ */
+export function fieldEventUnits(system: UnitSystem) {
+  const us = system === 'us';
+  const length = us
+    ? { unit: 'in', toStored: (v: number) => toStored(v, 'in') }
+    : { unit: 'cm', toStored: (v: number) => toStored(v, 'cm') };
+  return {
+    runTimeMin: { unit: 'min', toStored: same },
+    dripEmitterFlowLPerH: us
+      ? { unit: 'gal/h', toStored: gallonsToLitres }
+      : { unit: 'L/h', toStored: same },
+    dripEmitterSpacingMm: length,
+    dripLineFlowLPerHPerM: us
+      ? { unit: 'gal/h per 100 ft', toStored: gphPer100FtToLPerHPerM }
+      : { unit: 'L/h per m', toStored: same },
+    wettedWidthMm: length,
+    sprinklerRateMmPerH: us
+      ? { unit: 'in/h', toStored: inchesPerHourToMmPerHour }
+      : { unit: 'mm/h', toStored: same },
+    handVolumeL: us ? { unit: 'gal', toStored: gallonsToLitres } : { unit: 'L', toStored: same },
+    wettedAreaM2: us
+      ? { unit: 'ft²', toStored: squareFeetToSquareMetres }
+      : { unit: 'm²', toStored: same },
+    rainMm: us
+      ? { unit: 'in', toStored: (v: number) => toStored(v, 'in') }
+      : { unit: 'mm', toStored: same },
+    rateGPerM2: us
+      ? {
+          unit: 'lb/100 ft²',
+          toStored: (v: number) => (v * G_PER_POUND) / squareFeetToSquareMetres(100),
+        }
+      : { unit: 'g/m²', toStored: same },
+    targetSpacingMm: length,
+  } satisfies Record<string, { unit: string; toStored: (typed: number) => number }>;
+}
+export type FieldEventAmount = keyof ReturnType<typeof fieldEventUnits>;
+const eventAmounts = Object.keys(fieldEventUnits('metric')) as FieldEventAmount[];
+
+/** The amounts a kind of event (and an irrigation method, a drip basis) carries. */
+function amountsFor(kind: FieldEventKind, method: string, drip: string): FieldEventAmount[] {
+  switch (kind) {
+    case 'irrigation':
+      return [
+        'runTimeMin',
+        ...(method === 'drip'
+          ? drip === 'line'
+            ? (['dripLineFlowLPerHPerM', 'wettedWidthMm'] as const)
+            : (['dripEmitterFlowLPerH', 'dripEmitterSpacingMm', 'wettedWidthMm'] as const)
+          : method === 'overhead'
+            ? (['sprinklerRateMmPerH'] as const)
+            : (['handVolumeL', 'wettedAreaM2'] as const)),
+      ];
+    case 'rainfall':
+      return ['rainMm'];
+    case 'fertilizer':
+      return ['rateGPerM2'];
+    case 'thinning':
+      return ['targetSpacingMm'];
+    case 'pruning':
+    case 'transplanting':
+    case 'note':
+      return [];
+    default: {
+      // Every kind is handled above; a new kind in fieldEventKinds stops the build here.
+      const unhandled: never = kind;
+      throw new Error(`No amounts for the field event kind ${String(unhandled)}.`);
+    }
+  }
+}
+
+/**
+ * A field event as typed at a site: every amount in the reader's unit (`fieldEventUnits`), the
+ * ones the chosen kind and method do not use are left out, and the rest are checked by the
+ * body's own fields and rules, so the form's messages are the contract's.
+ */
+export const fieldEventForm = (system: UnitSystem) => {
+  const units = fieldEventUnits(system);
+  const amountText = Object.fromEntries(eventAmounts.map((k) => [k, z.string()])) as Record<
+    FieldEventAmount,
+    z.ZodString
+  >;
+  const amounts = Object.fromEntries(eventAmounts.map((k) => [k, eventFields[k].removeDefault()]));
+  return z
+    .object({
+      kind: eventShape.shape.kind,
+      irrigationMethod: z.enum(irrigationMethods),
+      dripFlowBasis: z.enum(dripFlowBases),
+      noneApplied: z.boolean(),
+      amendmentKind: z.string(),
+      note: z.string(),
+      ...amountText,
+    })
+    .transform(
+      ({ kind, irrigationMethod, dripFlowBasis, noneApplied, amendmentKind, note, ...typed }) => {
+        const fertilizer = kind === 'fertilizer';
+        const applied = fertilizer && !noneApplied;
+        const kept = new Set(
+          amountsFor(kind, irrigationMethod, dripFlowBasis).filter(
+            (k) => applied || k !== 'rateGPerM2',
+          ),
+        );
+        const read = (k: FieldEventAmount) =>
+          kept.has(k)
+            ? (readTypedNumber(typed[k], { blank: null, toStored: units[k].toStored }) ?? null)
+            : null;
+        return {
+          kind,
+          irrigationMethod: kind === 'irrigation' ? irrigationMethod : null,
+          noneApplied: fertilizer && noneApplied,
+          amendmentKind: applied ? amendmentKind.trim() || null : null,
+          note,
+          ...(Object.fromEntries(eventAmounts.map((k) => [k, read(k)])) as Record<
+            FieldEventAmount,
+            number | null
+          >),
+        };
+      },
+    )
+    .pipe(
+      z
+        .object({
+          kind: eventShape.shape.kind,
+          irrigationMethod: eventFields.irrigationMethod.removeDefault(),
+          noneApplied: eventFields.noneApplied.removeDefault(),
+          amendmentKind: eventFields.amendmentKind.removeDefault(),
+          note: noteText,
+          ...(amounts as {
+            [K in FieldEventAmount]: ReturnType<(typeof eventFields)[K]['removeDefault']>;
+          }),
+        })
+        .superRefine(checkEvent),
+    );
+};
+export type FieldEventFormValues = z.input<ReturnType<typeof fieldEventForm>>;

@@ -188,7 +188,7 @@ function SureCheck({
  * A new record for the outbox. Its client-made id is also the outbox id, so a retry sends the
  * same record again.
  */
-function newRecord(
+export function newRecord(
   slug: string,
   kind: QueuedEntry['kind'],
   path: string,
