@@ -737,14 +737,40 @@ export function analyzeTwoFactorCsv(
   return analyzeTwoFactorRows(rows, { ...rest, trait, splitPlot: splitPlot ?? false, factor });
 }
 
+/**
+ * The records of a sheet written without quotes and with one kind of line end, split directly;
+ * null for anything else (quotes, mixed or bare-CR line ends, rows of unequal length), which the
+ * full CSV reader takes, with its own messages. Gives what that reader gives for such text: no
+ * BOM, empty lines skipped.
+ */
+function plainCsvRecords(csvText: string): string[][] | null {
+  const text = csvText.charCodeAt(0) === 0xfeff ? csvText.slice(1) : csvText;
+  if (text.includes('"')) return null;
+  const crs = text.split('\r').length - 1;
+  if (crs > 0 && (text.split('\r\n').length - 1 !== crs || text.split('\n').length - 1 !== crs))
+    return null;
+  const records: string[][] = [];
+  let width = -1;
+  for (const line of text.split(crs > 0 ? '\r\n' : '\n')) {
+    if (line === '') continue;
+    const fields = line.split(',');
+    if (width < 0) width = fields.length;
+    else if (fields.length !== width) return null;
+    records.push(fields);
+  }
+  return records;
+}
+
 function readCsvRows(csvText: string, options: AnalyzeCsvOptions, factor?: string) {
   let records: string[][];
   try {
-    records = parse(csvText, {
-      bom: true,
-      skip_empty_lines: true,
-      relax_column_count: false,
-    }) as string[][];
+    records =
+      plainCsvRecords(csvText) ??
+      (parse(csvText, {
+        bom: true,
+        skip_empty_lines: true,
+        relax_column_count: false,
+      }) as string[][]);
   } catch (err) {
     const msg = err instanceof Error ? err.message : String(err);
     throw new AnalysisInputError(

@@ -43,7 +43,7 @@ export interface CentredValues {
  * is not plain or has more than EXACT_DIGITS significant digits (then the integer may not be
  * exact). The integer is built digit by digit, exactly, since it stays below 10^15.
  */
-function readScaled(text: string, ints: Float64Array, i: number): number {
+function readScaled(text: string, ints: Float64Array, i: number, negativeExponent = false): number {
   let at = 0;
   let negative = false;
   const first = text.charCodeAt(0);
@@ -55,7 +55,18 @@ function readScaled(text: string, ints: Float64Array, i: number): number {
   let significant = 0;
   let digits = 0;
   let fraction = -1;
-  for (; at < text.length; at++) {
+  let end = text.length;
+  let shift = 0;
+  if (negativeExponent) {
+    // "1.5e-7", as String() writes small numbers: the exponent widens the scale.
+    const e = text.indexOf('e-');
+    if (e >= 0) {
+      shift = Number(text.slice(e + 2));
+      if (!(shift >= 1 && shift <= 400 && Number.isInteger(shift))) return -1;
+      end = e;
+    }
+  }
+  for (; at < end; at++) {
     const c = text.charCodeAt(at);
     if (c === 46 /* . */ && fraction < 0) {
       fraction = 0;
@@ -71,7 +82,7 @@ function readScaled(text: string, ints: Float64Array, i: number): number {
   }
   if (digits === 0) return -1;
   ints[i] = negative ? -v : v;
-  return fraction < 0 ? 0 : fraction;
+  return (fraction < 0 ? 0 : fraction) + shift;
 }
 
 /**
@@ -149,8 +160,45 @@ function indexOfMedian(values: Float64Array): number {
 export function addOffset(offset: string, deviation: number): number {
   if (deviation === 0) return Number(offset);
   // One analysis adds the same offset to every mean: read it once.
-  if (offset !== lastOffset.text) lastOffset = { text: offset, exact: new Decimal(offset) };
-  return lastOffset.exact.plus(new Decimal(deviation)).toNumber();
+  if (offset !== lastOffset.text) lastOffset = readOffset(offset);
+  const o = lastOffset;
+  // The deviation is taken as its shortest decimal text (as the exact sum below reads it).
+  // When both are short fixed-point numbers the sum is an integer count of 10^-scale below
+  // 2^53: exact in double, and one division by an exact power of ten rounds it once.
+  const dScale = o.scale >= 0 ? readScaled(String(deviation), scratch, 0, true) : -1;
+  if (dScale >= 0) {
+    const scale = o.scale > dScale ? o.scale : dScale;
+    if (scale <= 22) {
+      const a = o.int * POWERS_OF_TEN[scale - o.scale]!;
+      const b = scratch[0]! * POWERS_OF_TEN[scale - dScale]!;
+      const sum = a + b;
+      if (Math.abs(a) < TWO_53 && Math.abs(b) < TWO_53 && Math.abs(sum) < TWO_53)
+        return sum / POWERS_OF_TEN[scale]!;
+    }
+  }
+  o.exact ??= new Decimal(offset);
+  return o.exact.plus(new Decimal(deviation)).toNumber();
 }
 
-let lastOffset = { text: '0', exact: new Decimal(0) };
+interface Offset {
+  text: string;
+  /** Exact decimal, made on first use. */
+  exact: Decimal | null;
+  /** The text as int × 10^-scale, scale −1 when it is not short plain fixed-point. */
+  int: number;
+  scale: number;
+}
+
+function readOffset(text: string): Offset {
+  const scale = readScaled(text, scratch, 0);
+  return { text, exact: null, int: scale >= 0 ? scratch[0]! : 0, scale };
+}
+
+const TWO_53 = 2 ** 53;
+/** 10^0 … 10^22, each exact in double (written out, not computed). */
+const POWERS_OF_TEN = [
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17,
+  1e18, 1e19, 1e20, 1e21, 1e22,
+];
+const scratch = new Float64Array(1);
+let lastOffset: Offset = readOffset('0');

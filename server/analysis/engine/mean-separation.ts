@@ -112,15 +112,25 @@ export function separateMeans(
     );
   }
   if (!equal) warnings.push('unequal replication: LSD and HSD vary by pair (Tukey-Kramer for HSD)');
-  const seOf =
-    pairSe ?? ((i: number, j: number) => Math.sqrt(ms * (1 / means[i]!.n + 1 / means[j]!.n)));
+  // Equal replication: one standard error for every pair, so each test is one threshold.
+  const seEqual = Math.sqrt(ms * (1 / n0 + 1 / n0));
+  const m = Float64Array.from(means, (e) => e.mean);
+  const se =
+    pairSe ??
+    (equal
+      ? () => seEqual
+      : (i: number, j: number) => Math.sqrt(ms * (1 / means[i]!.n + 1 / means[j]!.n)));
 
   // Pairs are tested when asked, never stored as a k × k table: memory stays linear in k.
-  const se = seOf;
-  const d = (i: number, j: number) => Math.abs(means[i]!.mean - means[j]!.mean);
   // Threshold form of the tests; a zero error MS separates any unequal means.
-  const lsdSeparated = (i: number, j: number) => d(i, j) > t * se(i, j);
-  const hsdSeparated = (i: number, j: number) => d(i, j) > (q * se(i, j)) / Math.SQRT2;
+  const lsdAt = t * seEqual;
+  const hsdAt = (q * seEqual) / Math.SQRT2;
+  const lsdSeparated = equal
+    ? (i: number, j: number) => Math.abs(m[i]! - m[j]!) > lsdAt
+    : (i: number, j: number) => Math.abs(m[i]! - m[j]!) > t * se(i, j);
+  const hsdSeparated = equal
+    ? (i: number, j: number) => Math.abs(m[i]! - m[j]!) > hsdAt
+    : (i: number, j: number) => Math.abs(m[i]! - m[j]!) > (q * se(i, j)) / Math.SQRT2;
 
   let pairs: PairComparison[] | undefined;
   if (options.includePairs) {
