@@ -32,6 +32,7 @@ import {
   type TwoFactorAnalysis,
 } from './two-factor.js';
 import { analyseUnbalancedFactorial } from './two-factor-unbalanced.js';
+import { analyseSplitPlotMixed, type SplitPlotMixedAnalysis } from './split-plot-mixed.js';
 import type { AnalysisModel } from '../../../common/contracts/analysis';
 
 export type { Design } from './anova.js';
@@ -879,8 +880,20 @@ export interface TwoFactorResult extends Omit<TwoFactorAnalysis, 'cellMeans' | '
   grandMean: number;
   cvPercent: number | null;
   letters: SeparationMethod;
-  /** Two-factor trials have the classical analysis only (the mixed model is refused). */
-  model: 'anova';
+  /**
+   * 'anova': the classical strata (or least squares for a factorial that lost plots); 'mixed':
+   * a split plot by REML, the model a split plot with missing plots is given unless the
+   * classical analysis is asked for by name (which is then refused).
+   */
+  model: 'anova' | 'mixed';
+  /** Mixed model only: REML variance components (block, block:treatment, residual). */
+  varianceComponents?: SplitPlotMixedAnalysis['varianceComponents'];
+  /** Mixed model only: sequential Wald F tests with Satterthwaite's denominator df. */
+  fixedTests?: SplitPlotMixedAnalysis['fixedTests'];
+  /** Mixed model only: the REML log-likelihood. */
+  logLik?: number;
+  /** Mixed model only: a variance component was estimated as zero and kept there. */
+  boundary?: boolean;
   /** 'means' on a balanced layout; 'least-squares' when plots are missing. */
   method: 'means' | 'least-squares';
   /** One object per treatment × variety cell (emmeans' emmean and SE). */
@@ -904,9 +917,9 @@ export function analyzeTwoFactorRows(
   const alpha = options.alpha ?? 0.05;
   if (!(alpha > 0 && alpha < 1))
     throw new AnalysisInputError(`alpha must be between 0 and 1, got ${alpha}`);
-  if (options.model === 'mixed')
+  if (options.model === 'mixed' && !options.splitPlot)
     throw new AnalysisInputError(
-      'two-factor trials are analysed by the classical analysis of variance only (--model anova)',
+      'the mixed model is offered for split plots (--split-plot); a factorial in blocks is analysed by the classical analysis of variance (--model anova), by least squares when plots are missing',
     );
   const trait = options.trait ?? 'value';
   const factor = options.factor ?? 'treatment';
@@ -953,14 +966,29 @@ export function analyzeTwoFactorRows(
   const missingPlots =
     layout.block.levels.length * layout.treatment.levels.length * layout.variety.levels.length -
     layout.y.length;
-  // A factorial that lost plots is fitted by least squares; a split plot's strata need balance.
-  const unbalanced = problem !== null && problem.startsWith('missing plots') && !options.splitPlot;
-  if (problem && !unbalanced) throw new AnalysisInputError(problem);
+  const lostPlots = problem !== null && problem.startsWith('missing plots');
+  const lost = `${missingPlots} missing plot${missingPlots === 1 ? '' : 's'}`;
+  // A split plot that lost plots: the classical strata need balance, the mixed model does not.
+  if (lostPlots && options.splitPlot && options.model === 'anova')
+    throw new AnalysisInputError(
+      `${problem}; a split plot with missing plots is analysed by the mixed model (--model mixed)`,
+    );
+  const model = options.model ?? (lostPlots && options.splitPlot ? 'mixed' : 'anova');
+  // A factorial that lost plots is fitted by least squares.
+  const unbalanced = lostPlots && !options.splitPlot;
+  const mixedTakes = lostPlots || (problem?.endsWith('hold more than one plot') ?? false);
+  if (problem && !unbalanced && !(model === 'mixed' && mixedTakes))
+    throw new AnalysisInputError(problem);
   if (unbalanced)
     warnings.push(
-      `${missingPlots} missing plot${missingPlots === 1 ? '' : 's'}: sequential sums of squares in the order block, ${factor}, variety, variety × ${factor}; means are least-squares means averaged over blocks.`,
+      `${lost}: sequential sums of squares in the order block, ${factor}, variety, variety × ${factor}; means are least-squares means averaged over blocks.`,
+    );
+  if (model === 'mixed' && lostPlots)
+    warnings.push(
+      `${lost}: the split plot's classical strata need every plot, so it is analysed by the mixed model (REML: blocks and main plots random; sequential Wald F tests in the order ${factor}, variety, variety × ${factor} with Satterthwaite's df; means are the model's, averaged with equal weights).`,
     );
   let result: TwoFactorAnalysis;
+  let mixed: SplitPlotMixedAnalysis | null = null;
   try {
     const input = {
       ...layout,
@@ -970,10 +998,17 @@ export function analyzeTwoFactorRows(
       letters: options.letters ?? 'hsd',
       direction: options.direction ?? ('higher' as const),
     };
-    result = unbalanced ? analyseUnbalancedFactorial(input) : analyseTwoFactor(input);
+    if (model === 'mixed') mixed = analyseSplitPlotMixed(input);
+    result = mixed ?? (unbalanced ? analyseUnbalancedFactorial(input) : analyseTwoFactor(input));
   } catch (err) {
     if (err instanceof RangeError) throw new AnalysisInputError(err.message);
     throw err;
+  }
+  if (mixed?.boundary) {
+    const zero = mixed.varianceComponents.filter((c) => c.variance === 0).map((c) => c.source);
+    warnings.push(
+      `mixed model at the boundary: the ${zero.join(' and ')} variance was estimated as zero and kept at zero`,
+    );
   }
   const grandMean = addOffset(centred.offset, accurateMean(layout.y));
   const { cellMeans, ...rest } = result;
@@ -987,8 +1022,8 @@ export function analyzeTwoFactorRows(
     cvPercent:
       grandMean !== 0 ? (100 * Math.sqrt(result.errorTerm.ms)) / Math.abs(grandMean) : null,
     letters: options.letters ?? 'hsd',
-    model: 'anova',
-    method: unbalanced ? 'least-squares' : 'means',
+    model,
+    method: unbalanced || model === 'mixed' ? 'least-squares' : 'means',
     ...rest,
     adjustedMeans: cellMeans,
     counts: {
@@ -996,7 +1031,7 @@ export function analyzeTwoFactorRows(
       treatments: layout.treatment.levels.length,
       blocks: layout.block.levels.length,
       rows: rows.length,
-      missingPlots: unbalanced ? missingPlots : 0,
+      missingPlots: lostPlots ? missingPlots : 0,
     },
     warnings,
   };

@@ -1,0 +1,276 @@
+/**
+ * A split plot (treatment on main plots within blocks, varieties on sub-plots) as a mixed model,
+ *   y ~ treatment * variety + (1|block) + (1|block:treatment),
+ * fitted by REML: blocks and main plots (block × treatment, the main-plot error) random. Unlike
+ * the classical strata, it stays valid when plots are missing.
+ *   - Fixed effects are the treatment × variety cell means (BLUEs); cell, treatment and variety
+ *     means are emmeans' defaults (equal weights over the other factor's levels), each with its
+ *     SE and Satterthwaite df; simple effects likewise.
+ *   - Wald F tests for treatment, variety and variety × treatment are sequential (type I, in
+ *     that order, as lmerTest's anova(type = 1)) with Satterthwaite's denominator df. On a
+ *     balanced layout with positive variance components they equal the classical strata's tests.
+ * Every treatment × variety cell needs at least one plot. Pure: no I/O.
+ */
+import { fitReml, sequentialContrasts, type MixedFit } from './mixed-model.js';
+import { separateMeans } from './mean-separation.js';
+import { studentTTwoSided } from './distributions.js';
+import { rankMeans } from '../../../common/ranking';
+import { addOffset } from './decimal-input.js';
+import type { SimpleEffect, TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
+
+export type SplitPlotVarianceSource = 'block' | 'block:treatment' | 'residual';
+export type SplitPlotFixedSource = 'treatment' | 'variety' | 'variety:treatment';
+
+export interface SplitPlotFixedTest {
+  source: SplitPlotFixedSource;
+  numDf: number;
+  denDf: number;
+  f: number;
+  p: number;
+  method: 'satterthwaite';
+}
+
+export interface SplitPlotMixedAnalysis extends TwoFactorAnalysis {
+  varianceComponents: { source: SplitPlotVarianceSource; variance: number; se: number | null }[];
+  fixedTests: SplitPlotFixedTest[];
+  /** REML log-likelihood. */
+  logLik: number;
+  /** A variance component was estimated as zero and kept there. */
+  boundary: boolean;
+}
+
+/**
+ * The rows of each sequential hypothesis on the cell means. The treatment-coded model's
+ * parameters (intercept, treatment 2…a, variety 2…v, their products with the treatment
+ * varying fastest, as R's model.matrix orders them) are mapped to cell means m(t, e) by
+ * μ = m(1,1), τ_t = m(t,1) − m(1,1), ν_e = m(1,e) − m(1,1), (τν)_te = m(t,e) − m(t,1) − m(1,e) + m(1,1).
+ * (The F does not depend on the basis; Satterthwaite's df for a multi-df test does.)
+ */
+function sequentialCellContrasts(
+  counts: ArrayLike<number>,
+  a: number,
+  v: number,
+): Record<SplitPlotFixedSource, Float64Array[]> {
+  const p = a * v;
+  const tCol = (t: number) => t; // t = 1 … a−1
+  const vCol = (e: number) => a - 1 + e; // e = 1 … v−1
+  const iCol = (t: number, e: number) => a + v - 1 + (e - 1) * (a - 1) + (t - 1);
+  const codedRow = (t: number, e: number) => {
+    const cols = [0];
+    if (t > 0) cols.push(tCol(t));
+    if (e > 0) cols.push(vCol(e));
+    if (t > 0 && e > 0) cols.push(iCol(t, e));
+    return cols;
+  };
+  const xtx = new Float64Array(p * p);
+  for (let t = 0; t < a; t++)
+    for (let e = 0; e < v; e++) {
+      const n = counts[t * v + e]!;
+      const cols = codedRow(t, e);
+      for (const i of cols) for (const j of cols) xtx[i * p + j]! += n;
+    }
+  // γ = G m, so l'γ = (G'l)'m.
+  const toCells = (l: Float64Array) => {
+    const w = new Float64Array(p);
+    const add = (t: number, e: number, c: number) => (w[t * v + e]! += c);
+    add(0, 0, l[0]!);
+    for (let t = 1; t < a; t++) {
+      add(t, 0, l[tCol(t)]!);
+      add(0, 0, -l[tCol(t)]!);
+    }
+    for (let e = 1; e < v; e++) {
+      add(0, e, l[vCol(e)]!);
+      add(0, 0, -l[vCol(e)]!);
+    }
+    for (let t = 1; t < a; t++)
+      for (let e = 1; e < v; e++) {
+        const c = l[iCol(t, e)]!;
+        add(t, e, c);
+        add(t, 0, -c);
+        add(0, e, -c);
+        add(0, 0, c);
+      }
+    return w;
+  };
+  const rows = (from: number, to: number) => sequentialContrasts(xtx, p, from, to).map(toCells);
+  return {
+    treatment: rows(1, a),
+    variety: rows(a, a + v - 1),
+    'variety:treatment': rows(a + v - 1, p),
+  };
+}
+
+export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnalysis {
+  const { y, offset } = input;
+  const n = y.length;
+  const r = input.block.levels.length;
+  const a = input.treatment.levels.length;
+  const v = input.variety.levels.length;
+  const B = input.block.codes;
+  const T = input.treatment.codes;
+  const V = input.variety.codes;
+  const p = a * v;
+  const cellOf = Int32Array.from({ length: n }, (_, i) => T[i]! * v + V[i]!);
+  const counts = new Float64Array(p);
+  for (let i = 0; i < n; i++) counts[cellOf[i]!]!++;
+  const empty = [...counts.keys()].filter((c) => counts[c] === 0);
+  if (empty.length > 0)
+    throw new RangeError(
+      `no plot left of ${empty
+        .map((c) => `${input.variety.levels[c % v]} / ${input.treatment.levels[Math.floor(c / v)]}`)
+        .join(', ')}: a cell without plots has no mean`,
+    );
+  if (r < 2) throw new RangeError('the split plot needs at least two blocks');
+  // Main plots present in the data (block × treatment), coded in order of appearance.
+  const mainPlot = new Int32Array(n);
+  const seen = new Map<number, number>();
+  for (let i = 0; i < n; i++) {
+    const key = B[i]! * a + T[i]!;
+    let c = seen.get(key);
+    if (c === undefined) seen.set(key, (c = seen.size));
+    mainPlot[i] = c;
+  }
+  if (n - p - seen.size + r <= 0)
+    throw new RangeError('too few plots left to estimate the sub-plot (residual) variance');
+
+  const fit: MixedFit = fitReml({
+    y,
+    fixedCells: cellOf,
+    fixedLevels: p,
+    random: [
+      { source: 'block', cells: B, levels: r },
+      { source: 'block:treatment', cells: mainPlot, levels: seen.size },
+    ],
+  });
+  const hypotheses = sequentialCellContrasts(counts, a, v);
+  const fixedTests = (['treatment', 'variety', 'variety:treatment'] as const).map((source) => ({
+    source,
+    ...fit.waldF(hypotheses[source]),
+    method: 'satterthwaite' as const,
+  }));
+
+  const weights = (pick: (t: number, e: number) => number) => {
+    const l = new Float64Array(p);
+    for (let t = 0; t < a; t++) for (let e = 0; e < v; e++) l[t * v + e] = pick(t, e);
+    return l;
+  };
+  const estimate = (l: Float64Array) => fit.contrast(l);
+  const cellMeans = input.variety.levels.flatMap((variety, e) =>
+    input.treatment.levels.map((treatment, t) => {
+      const c = estimate(weights((tt, ee) => (tt === t && ee === e ? 1 : 0)));
+      return { variety, treatment, mean: addOffset(offset, c.estimate), se: c.se, df: c.df };
+    }),
+  );
+  const treatmentMeans = input.treatment.levels.map((treatment, t) => {
+    const c = estimate(weights((tt) => (tt === t ? 1 / v : 0)));
+    return { treatment, mean: addOffset(offset, c.estimate), se: c.se, df: c.df };
+  });
+  const varietyFits = input.variety.levels.map((_, e) =>
+    estimate(weights((_t, ee) => (ee === e ? 1 / a : 0))),
+  );
+  const varietyMeans = input.variety.levels.map((variety, e) => ({
+    variety,
+    mean: addOffset(offset, varietyFits[e]!.estimate),
+    se: varietyFits[e]!.se,
+    df: varietyFits[e]!.df,
+  }));
+
+  const effect = (within: string, aName: string, bName: string, l: Float64Array): SimpleEffect => {
+    const c = estimate(l);
+    const t = c.estimate / c.se;
+    return {
+      within,
+      a: aName,
+      b: bName,
+      difference: c.estimate,
+      se: c.se,
+      df: c.df,
+      t,
+      p: studentTTwoSided(t, c.df),
+    };
+  };
+  const treatmentWithinVariety: SimpleEffect[] = [];
+  input.variety.levels.forEach((variety, e) => {
+    for (let i = 0; i < a; i++)
+      for (let j = i + 1; j < a; j++)
+        treatmentWithinVariety.push(
+          effect(
+            variety,
+            input.treatment.levels[i]!,
+            input.treatment.levels[j]!,
+            weights((t, ee) => (ee !== e ? 0 : t === i ? 1 : t === j ? -1 : 0)),
+          ),
+        );
+  });
+  const varietyWithinTreatment: SimpleEffect[] = [];
+  input.treatment.levels.forEach((treatment, t) => {
+    for (let i = 0; i < v; i++)
+      for (let j = i + 1; j < v; j++)
+        varietyWithinTreatment.push(
+          effect(
+            treatment,
+            input.variety.levels[i]!,
+            input.variety.levels[j]!,
+            weights((tt, e) => (tt !== t ? 0 : e === i ? 1 : e === j ? -1 : 0)),
+          ),
+        );
+  });
+
+  // Variety means ranked and lettered on their own pairwise SEs, with the variety test's
+  // denominator df (as the one-factor mixed model does).
+  const varietyTest = fixedTests[1]!;
+  const residual = fit.varianceComponents.at(-1)!.variance;
+  const plotsOf = new Array<number>(v).fill(0);
+  for (let i = 0; i < n; i++) plotsOf[V[i]!]!++;
+  const sep = separateMeans(
+    input.variety.levels.map((name, e) => ({
+      entry: name,
+      mean: varietyFits[e]!.estimate,
+      n: plotsOf[e]!,
+    })),
+    residual,
+    varietyTest.denDf,
+    input.alpha,
+    varietyTest.p,
+    {
+      pairSe: (i, j) => estimate(weights((_t, e) => (e === i ? 1 / a : e === j ? -1 / a : 0))).se,
+    },
+  );
+  const index = new Map(input.variety.levels.map((name, e) => [name, e]));
+  const means = rankMeans(
+    sep.ranked.map((s) => ({ s, mean: s.mean })),
+    input.direction,
+  ).map(({ s, rank }) => ({
+    variety: s.entry,
+    n: s.n,
+    mean: addOffset(offset, s.mean),
+    se: varietyFits[index.get(s.entry)!]!.se,
+    rank,
+    group: input.letters === 'lsd' ? s.lsdGroup : s.hsdGroup,
+    groupLsd: s.lsdGroup,
+    groupHsd: s.hsdGroup,
+  }));
+
+  return {
+    layout: 'split-plot',
+    // The classical strata do not apply; the model's tests are in `fixedTests`.
+    anova: [],
+    cellMeans,
+    treatmentMeans,
+    varietyMeans,
+    treatmentWithinVariety,
+    varietyWithinTreatment,
+    means,
+    lsd: sep.lsd,
+    hsd: { ...sep.hsd, df: varietyTest.denDf },
+    errorTerm: { source: 'residual', df: varietyTest.denDf, ms: residual },
+    varianceComponents: fit.varianceComponents.map((c) => ({
+      source: c.source as SplitPlotVarianceSource,
+      variance: c.variance,
+      se: c.se,
+    })),
+    fixedTests,
+    logLik: fit.logLik,
+    boundary: fit.boundary,
+  };
+}
