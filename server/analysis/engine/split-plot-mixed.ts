@@ -13,10 +13,10 @@
  */
 import { fitReml, sequentialContrasts, type MixedFit } from './mixed-model.js';
 import { separateMeans } from './mean-separation.js';
-import { studentTTwoSided } from './distributions.js';
 import { rankMeans } from '../../../common/ranking';
 import { addOffset } from './decimal-input.js';
-import type { SimpleEffect, TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
+import { cellModelMeans } from './two-factor-means.js';
+import type { TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
 
 export type SplitPlotVarianceSource = 'block' | 'block:treatment' | 'residual';
 export type SplitPlotFixedSource = 'treatment' | 'variety' | 'variety:treatment';
@@ -149,72 +149,15 @@ export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnal
     method: 'satterthwaite' as const,
   }));
 
-  const weights = (pick: (t: number, e: number) => number) => {
-    const l = new Float64Array(p);
-    for (let t = 0; t < a; t++) for (let e = 0; e < v; e++) l[t * v + e] = pick(t, e);
-    return l;
-  };
-  const estimate = (l: Float64Array) => fit.contrast(l);
-  const cellMeans = input.variety.levels.flatMap((variety, e) =>
-    input.treatment.levels.map((treatment, t) => {
-      const c = estimate(weights((tt, ee) => (tt === t && ee === e ? 1 : 0)));
-      return { variety, treatment, mean: addOffset(offset, c.estimate), se: c.se, df: c.df };
-    }),
-  );
-  const treatmentMeans = input.treatment.levels.map((treatment, t) => {
-    const c = estimate(weights((tt) => (tt === t ? 1 / v : 0)));
-    return { treatment, mean: addOffset(offset, c.estimate), se: c.se, df: c.df };
-  });
-  const varietyFits = input.variety.levels.map((_, e) =>
-    estimate(weights((_t, ee) => (ee === e ? 1 / a : 0))),
-  );
-  const varietyMeans = input.variety.levels.map((variety, e) => ({
-    variety,
-    mean: addOffset(offset, varietyFits[e]!.estimate),
-    se: varietyFits[e]!.se,
-    df: varietyFits[e]!.df,
-  }));
-
-  const effect = (within: string, aName: string, bName: string, l: Float64Array): SimpleEffect => {
-    const c = estimate(l);
-    const t = c.estimate / c.se;
-    return {
-      within,
-      a: aName,
-      b: bName,
-      difference: c.estimate,
-      se: c.se,
-      df: c.df,
-      t,
-      p: studentTTwoSided(t, c.df),
-    };
-  };
-  const treatmentWithinVariety: SimpleEffect[] = [];
-  input.variety.levels.forEach((variety, e) => {
-    for (let i = 0; i < a; i++)
-      for (let j = i + 1; j < a; j++)
-        treatmentWithinVariety.push(
-          effect(
-            variety,
-            input.treatment.levels[i]!,
-            input.treatment.levels[j]!,
-            weights((t, ee) => (ee !== e ? 0 : t === i ? 1 : t === j ? -1 : 0)),
-          ),
-        );
-  });
-  const varietyWithinTreatment: SimpleEffect[] = [];
-  input.treatment.levels.forEach((treatment, t) => {
-    for (let i = 0; i < v; i++)
-      for (let j = i + 1; j < v; j++)
-        varietyWithinTreatment.push(
-          effect(
-            treatment,
-            input.variety.levels[i]!,
-            input.variety.levels[j]!,
-            weights((tt, e) => (tt !== t ? 0 : e === i ? 1 : e === j ? -1 : 0)),
-          ),
-        );
-  });
+  const {
+    cellMeans,
+    treatmentMeans,
+    varietyMeans,
+    varietyFits,
+    treatmentWithinVariety,
+    varietyWithinTreatment,
+    varietyPairSe,
+  } = cellModelMeans(input, (l) => fit.contrast(l));
 
   // Variety means ranked and lettered on their own pairwise SEs, with the variety test's
   // denominator df (as the one-factor mixed model does).
@@ -232,9 +175,7 @@ export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnal
     varietyTest.denDf,
     input.alpha,
     varietyTest.p,
-    {
-      pairSe: (i, j) => estimate(weights((_t, e) => (e === i ? 1 / a : e === j ? -1 / a : 0))).se,
-    },
+    { pairSe: varietyPairSe },
   );
   const index = new Map(input.variety.levels.map((name, e) => [name, e]));
   const means = rankMeans(

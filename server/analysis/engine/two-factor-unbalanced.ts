@@ -10,11 +10,11 @@
 import { invertSpd } from './adjusted-means.js';
 import { sequentialSumsOfSquares } from './linear-model.js';
 import { separateMeans } from './mean-separation.js';
-import { fUpperTail, studentTTwoSided } from './distributions.js';
+import { fUpperTail } from './distributions.js';
 import { rankMeans } from '../../../common/ranking';
 import { addOffset } from './decimal-input.js';
+import { cellModelMeans } from './two-factor-means.js';
 import type {
-  SimpleEffect,
   TwoFactorAnalysis,
   TwoFactorInput,
   TwoFactorLine,
@@ -101,7 +101,7 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
   const inv = invertSpd(xtx, p);
   const beta = new Float64Array(p);
   for (let j = 0; j < p; j++) for (let k = 0; k < p; k++) beta[j]! += inv[j * p + k]! * xty[k]!;
-  /** l'β and its SE, l given on the cells only. */
+  /** l'β with its SE on the residual df, l given on the cells only. */
   const combine = (l: Float64Array) => {
     let est = 0;
     let q = 0;
@@ -110,72 +110,17 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
       est += l[j]! * beta[j]!;
       for (let k = 0; k < a * v; k++) q += l[j]! * inv[j * p + k]! * l[k]!;
     }
-    return { est, se: Math.sqrt(res.ms * q) };
+    return { estimate: est, se: Math.sqrt(res.ms * q), df: res.df };
   };
-  const weights = (pick: (t: number, e: number) => number) => {
-    const l = new Float64Array(a * v);
-    for (let t = 0; t < a; t++) for (let e = 0; e < v; e++) l[t * v + e] = pick(t, e);
-    return l;
-  };
-  const cellMeans = input.variety.levels.flatMap((variety, e) =>
-    input.treatment.levels.map((treatment, t) => {
-      const c = combine(weights((tt, ee) => (tt === t && ee === e ? 1 : 0)));
-      return { variety, treatment, mean: addOffset(offset, c.est), se: c.se, df: res.df };
-    }),
-  );
-  const tMean = (t: number) => weights((tt) => (tt === t ? 1 / v : 0));
-  const vMean = (e: number) => weights((_, ee) => (ee === e ? 1 / a : 0));
-  const treatmentMeans = input.treatment.levels.map((treatment, t) => {
-    const c = combine(tMean(t));
-    return { treatment, mean: addOffset(offset, c.est), se: c.se, df: res.df };
-  });
-  const varietyFits = input.variety.levels.map((_, e) => combine(vMean(e)));
-  const varietyMeans = input.variety.levels.map((variety, e) => ({
-    variety,
-    mean: addOffset(offset, varietyFits[e]!.est),
-    se: varietyFits[e]!.se,
-    df: res.df,
-  }));
-  const effect = (within: string, aName: string, bName: string, l: Float64Array): SimpleEffect => {
-    const c = combine(l);
-    const t = c.est / c.se;
-    return {
-      within,
-      a: aName,
-      b: bName,
-      difference: c.est,
-      se: c.se,
-      df: res.df,
-      t,
-      p: studentTTwoSided(t, res.df),
-    };
-  };
-  const treatmentWithinVariety: SimpleEffect[] = [];
-  input.variety.levels.forEach((variety, e) => {
-    for (let i = 0; i < a; i++)
-      for (let j = i + 1; j < a; j++)
-        treatmentWithinVariety.push(
-          effect(
-            variety,
-            input.treatment.levels[i]!,
-            input.treatment.levels[j]!,
-            weights((t, ee) => (ee !== e ? 0 : t === i ? 1 : t === j ? -1 : 0)),
-          ),
-        );
-  });
-  const varietyWithinTreatment: SimpleEffect[] = [];
-  input.treatment.levels.forEach((treatment, t) => {
-    for (let i = 0; i < v; i++)
-      for (let j = i + 1; j < v; j++)
-        varietyWithinTreatment.push(
-          effect(
-            treatment,
-            input.variety.levels[i]!,
-            input.variety.levels[j]!,
-            weights((tt, e) => (tt !== t ? 0 : e === i ? 1 : e === j ? -1 : 0)),
-          ),
-        );
-  });
+  const {
+    cellMeans,
+    treatmentMeans,
+    varietyMeans,
+    varietyFits,
+    treatmentWithinVariety,
+    varietyWithinTreatment,
+    varietyPairSe,
+  } = cellModelMeans(input, combine);
 
   const varietyLine = anova.find((l) => l.source === 'variety')!;
   const counts = new Array<number>(v).fill(0);
@@ -183,14 +128,14 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
   const sep = separateMeans(
     input.variety.levels.map((name, e) => ({
       entry: name,
-      mean: varietyFits[e]!.est,
+      mean: varietyFits[e]!.estimate,
       n: counts[e]!,
     })),
     res.ms,
     res.df,
     input.alpha,
     varietyLine.p,
-    { pairSe: (i, j) => combine(weights((_, e) => (e === i ? 1 / a : e === j ? -1 / a : 0))).se },
+    { pairSe: varietyPairSe },
   );
   const index = new Map(input.variety.levels.map((name, e) => [name, e]));
   const ranked = rankMeans(

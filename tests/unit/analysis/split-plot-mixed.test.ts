@@ -181,19 +181,22 @@ describe('split plot, balanced: the mixed model equals the classical strata', ()
   ] as const) {
     it(`${mixedName}: F, df and p of each test, and the simple effects`, () => {
       const ref = JSON.parse(read(`two-factor-${classicalName}.json`)) as {
-        anova: { source: string; df: number; f: number | null; p: number | null }[];
-        testedAgainst?: never;
+        anova: {
+          source: string;
+          df: number;
+          f: number | null;
+          p: number | null;
+          testedAgainst: string | null;
+        }[];
         treatmentWithinVariety: Effect[];
         varietyWithinTreatment: Effect[];
-      } & { anova: { testedAgainst: string | null }[] };
+      };
       const { csv } = load(mixedName);
       const result = mixed(csv);
       expect(result.varianceComponents!.every((c) => c.variance > 0)).toBe(true);
       for (const t of result.fixedTests!) {
         const line = ref.anova.find((l) => l.source === t.source)!;
-        const error = ref.anova.find(
-          (l) => l.source === (line as { testedAgainst: string | null }).testedAgainst,
-        )!;
+        const error = ref.anova.find((l) => l.source === line.testedAgainst)!;
         expect(t.numDf).toBe(line.df);
         close(t.f, line.f!, 6);
         close(t.denDf, error.df, 4);
