@@ -9,5 +9,6 @@ times <- replicate(runs, system.time({
   a <- anova(fit, ddf = "Satterthwaite")
 })[["elapsed"]])
 vc <- as.data.frame(VarCorr(fit))
-cat(sprintf("lmer + anova (Satterthwaite), %s: median_ms=%.1f over %d runs\n", R.version.string, 1000 * median(times), runs))
+cat(sprintf("lmer + anova (Satterthwaite), %s, lme4 %s, lmerTest %s\n", R.version.string, packageVersion("lme4"), packageVersion("lmerTest")))
+cat(sprintf("times_ms=%s\n", paste(sprintf("%.1f", 1000 * times), collapse = ",")))
 cat("lmer variance components:", paste(vc$grp, signif(vc$vcov, 6), collapse = ", "), "\n")

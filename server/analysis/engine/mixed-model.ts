@@ -102,7 +102,7 @@ interface Evaluation {
   l: Float64Array;
   /** Forward-solved right-hand side L⁻¹ rhs. */
   c: Float64Array;
-  /** Diagonal of the absorbed classification's block. */
+  /** Diagonal of the absorbed classification's block, per level. */
   d: Float64Array;
   /** Column scales (θ of the column's term, 1 for fixed). */
   s: Float64Array;
@@ -117,6 +117,11 @@ interface Evaluation {
  * plot lies in exactly one level of each, so any one classification's block of the system is
  * diagonal; the one with most levels is absorbed level by level and the others form a small
  * dense system ("rest": random terms first, fixed cells last when they are not absorbed).
+ *
+ * Absorbing level j subtracts w_j b_j b_j' (b_j its cross-products with the rest) with a weight
+ * w_j = s_a²/(s_a² N_j + 1) that depends on θ only through the level's plot count N_j. So the
+ * levels are summed once per distinct count (a handful: most levels hold the same number of
+ * plots), and an evaluation is a few sparse updates, a scaling and one m × m Cholesky.
  */
 class RemlProblem {
   readonly n: number;
@@ -128,6 +133,7 @@ class RemlProblem {
   readonly offset: number[];
   /** Size of the rest system. */
   readonly m: number;
+  /** Lower triangle of the rest's cross-products (row-major m × m), its X'y part and y'y. */
   private readonly rest0: Float64Array;
   private readonly rhs0: Float64Array;
   private readonly yy: number;
@@ -138,6 +144,21 @@ class RemlProblem {
   private readonly absVals: Float64Array[];
   /** Classification of each rest column (k = fixed). */
   private readonly groupOf: Int32Array;
+  /** Absorbed levels by plot count: the count, how many levels, the level's class. */
+  private readonly classN: Float64Array;
+  private readonly classLevels: Float64Array;
+  private readonly classOf: Int32Array;
+  /** Per class: Σ b_j b_j' (lower triangle, sparse positions), Σ b_j z_j'y, Σ (z_j'y)². */
+  private readonly classPos: Int32Array[];
+  private readonly classVal: Float64Array[];
+  private readonly classRhsPos: Int32Array[];
+  private readonly classRhsVal: Float64Array[];
+  private readonly classYy: Float64Array;
+  /** Scratch for the optimiser's evaluations (no allocation per θ). */
+  private readonly scratchA: Float64Array;
+  private readonly scratchRhs: Float64Array;
+  private readonly scratchS: Float64Array;
+  private readonly scratchD: Float64Array;
 
   constructor(readonly input: MixedModelInput) {
     const { y, random } = input;
@@ -183,7 +204,7 @@ class RemlProblem {
       yy += yi * yi;
       for (let a = 0; a < nz; a++) {
         rhs0[cols[a]!]! += yi;
-        for (let b = 0; b < nz; b++) rest0[cols[a]! * m + cols[b]!]! += 1;
+        for (let b = 0; b < nz; b++) if (cols[b]! <= cols[a]!) rest0[cols[a]! * m + cols[b]!]! += 1;
       }
       const j = abs.cells[i]!;
       this.absN[j]! += 1;
@@ -196,73 +217,136 @@ class RemlProblem {
     this.yy = yy;
     this.absCols = absRows.map((r) => Int32Array.from(r.keys()));
     this.absVals = absRows.map((r) => Float64Array.from(r.values()));
+
+    // Levels with the same plot count share their absorption weight: sum them once.
+    const classIndex = new Map<number, number>();
+    this.classOf = new Int32Array(abs.levels);
+    for (let j = 0; j < abs.levels; j++) {
+      const count = this.absN[j]!;
+      let c = classIndex.get(count);
+      if (c === undefined) classIndex.set(count, (c = classIndex.size));
+      this.classOf[j] = c;
+    }
+    const classes = classIndex.size;
+    this.classN = Float64Array.from(classIndex.keys());
+    this.classLevels = new Float64Array(classes);
+    this.classYy = new Float64Array(classes);
+    const outer: Map<number, number>[] = Array.from({ length: classes }, () => new Map());
+    const rhsSum: Map<number, number>[] = Array.from({ length: classes }, () => new Map());
+    for (let j = 0; j < abs.levels; j++) {
+      const c = this.classOf[j]!;
+      this.classLevels[c]! += 1;
+      const zy = this.absZy[j]!;
+      this.classYy[c]! += zy * zy;
+      const cj = this.absCols[j]!;
+      const vj = this.absVals[j]!;
+      const sum = outer[c]!;
+      const rs = rhsSum[c]!;
+      for (let x = 0; x < cj.length; x++) {
+        rs.set(cj[x]!, (rs.get(cj[x]!) ?? 0) + vj[x]! * zy);
+        for (let z = 0; z < cj.length; z++) {
+          if (cj[z]! > cj[x]!) continue;
+          const pos = cj[x]! * m + cj[z]!;
+          sum.set(pos, (sum.get(pos) ?? 0) + vj[x]! * vj[z]!);
+        }
+      }
+    }
+    this.classPos = outer.map((s) => Int32Array.from(s.keys()));
+    this.classVal = outer.map((s) => Float64Array.from(s.values()));
+    this.classRhsPos = rhsSum.map((s) => Int32Array.from(s.keys()));
+    this.classRhsVal = rhsSum.map((s) => Float64Array.from(s.values()));
+    this.scratchA = new Float64Array(m * m);
+    this.scratchRhs = new Float64Array(m);
+    this.scratchS = new Float64Array(m);
+    this.scratchD = new Float64Array(classes);
   }
 
-  evaluate(theta: readonly number[]): Evaluation {
+  /**
+   * Builds and factors M(θ) with the absorbed classification taken out, into `a` (lower
+   * Cholesky factor), `rhs` (forward-solved, L⁻¹ rhs), `s` (column scales) and `dc` (the
+   * absorbed diagonal per count class); returns the deviance and its parts.
+   */
+  private factor(
+    theta: readonly number[],
+    a: Float64Array,
+    rhs: Float64Array,
+    s: Float64Array,
+    dc: Float64Array,
+  ): { deviance: number; r2: number; logdet: number; sa: number } {
     const { m, n, p, k } = this;
-    const s = new Float64Array(m);
     for (let c = 0; c < m; c++) {
       const g = this.groupOf[c]!;
       s[c] = g === k ? 1 : theta[g]!;
     }
-    const a = new Float64Array(m * m);
-    const rhs = new Float64Array(m);
-    for (let i = 0; i < m; i++) {
-      rhs[i] = s[i]! * this.rhs0[i]!;
-      for (let j = 0; j <= i; j++) a[i * m + j] = s[i]! * s[j]! * this.rest0[i * m + j]!;
-      if (this.groupOf[i]! < k) a[i * m + i]! += 1;
-    }
+    a.set(this.rest0);
+    rhs.set(this.rhs0);
     const fixedAbsorbed = this.absorbed === k;
     const sa = fixedAbsorbed ? 1 : theta[this.absorbed]!;
     const sa2 = sa * sa;
     let logdet = 0;
     let yy = this.yy;
-    const d = new Float64Array(this.absN.length);
-    for (let j = 0; j < this.absN.length; j++) {
-      const dj = sa2 * this.absN[j]! + (fixedAbsorbed ? 0 : 1);
-      d[j] = dj;
-      logdet += Math.log(dj);
+    for (let c = 0; c < dc.length; c++) {
+      const d = sa2 * this.classN[c]! + (fixedAbsorbed ? 0 : 1);
+      dc[c] = d;
+      logdet += this.classLevels[c]! * Math.log(d);
       if (sa2 === 0) continue;
-      const w = sa2 / dj;
-      const cols = this.absCols[j]!;
-      const vals = this.absVals[j]!;
-      const zy = this.absZy[j]!;
-      yy -= w * zy * zy;
-      for (let x = 0; x < cols.length; x++) {
-        const cx = cols[x]!;
-        const vx = w * s[cx]! * vals[x]!;
-        if (vx === 0) continue;
-        rhs[cx]! -= vx * zy;
-        const row = cx * m;
-        for (let z = 0; z < cols.length; z++) {
-          const cz = cols[z]!;
-          if (cz <= cx) a[row + cz]! -= vx * s[cz]! * vals[z]!;
-        }
-      }
+      const w = sa2 / d;
+      const pos = this.classPos[c]!;
+      const val = this.classVal[c]!;
+      for (let x = 0; x < pos.length; x++) a[pos[x]!]! -= w * val[x]!;
+      const rp = this.classRhsPos[c]!;
+      const rv = this.classRhsVal[c]!;
+      for (let x = 0; x < rp.length; x++) rhs[rp[x]!]! -= w * rv[x]!;
+      yy -= w * this.classYy[c]!;
+    }
+    for (let i = 0; i < m; i++) {
+      const si = s[i]!;
+      const row = i * m;
+      for (let j = 0; j <= i; j++) a[row + j]! *= si * s[j]!;
+      if (this.groupOf[i]! < k) a[row + i]! += 1;
+      rhs[i]! *= si;
     }
     const ld = cholesky(a, m);
-    const c = new Float64Array(m);
     let cc = 0;
     for (let i = 0; i < m; i++) {
       let v = rhs[i]!;
       const row = i * m;
-      for (let q = 0; q < i; q++) v -= a[row + q]! * c[q]!;
-      c[i] = v / a[row + i]!;
-      cc += c[i]! * c[i]!;
+      for (let q = 0; q < i; q++) v -= a[row + q]! * rhs[q]!;
+      v /= a[row + i]!;
+      rhs[i] = v;
+      cc += v * v;
     }
     logdet += ld;
     // Guard against cancellation leaving a tiny negative residual.
     const r2 = Math.max(yy - cc, 1e-300);
     const nu = n - p;
     const deviance = logdet + nu * (1 + Math.log((2 * Math.PI * r2) / nu));
-    return { deviance: Number.isFinite(ld) ? deviance : Infinity, r2, logdet, l: a, c, d, s, sa };
+    return { deviance: Number.isFinite(ld) ? deviance : Infinity, r2, logdet, sa };
+  }
+
+  /** The profiled deviance and its parts, in scratch space (for the optimiser). */
+  deviance(theta: readonly number[]): { deviance: number; r2: number; logdet: number } {
+    return this.factor(theta, this.scratchA, this.scratchRhs, this.scratchS, this.scratchD);
+  }
+
+  /** A full evaluation whose arrays the caller keeps. */
+  evaluate(theta: readonly number[]): Evaluation {
+    const { m } = this;
+    const l = new Float64Array(m * m);
+    const c = new Float64Array(m);
+    const s = new Float64Array(m);
+    const dc = new Float64Array(this.classN.length);
+    const { deviance, r2, logdet, sa } = this.factor(theta, l, c, s, dc);
+    const d = new Float64Array(this.absN.length);
+    for (let j = 0; j < d.length; j++) d[j] = dc[this.classOf[j]!]!;
+    return { deviance, r2, logdet, l, c, d, s, sa };
   }
 
   /** REML deviance at given (θ, σ) — not profiled — as lmerTest defines it. */
   devianceAt(varpar: readonly number[]): number {
     const theta = varpar.slice(0, this.k);
     const sigma2 = varpar[this.k]! ** 2;
-    const e = this.evaluate(theta);
+    const e = this.deviance(theta);
     return e.logdet + e.r2 / sigma2 + (this.n - this.p) * Math.log(2 * Math.PI * sigma2);
   }
 
@@ -295,21 +379,28 @@ class RemlProblem {
     // Fixed cells absorbed: D⁻¹ + D⁻¹ B' S⁻¹ B D⁻¹ with B the cross-products with the rest.
     const w = new Float64Array(p * m);
     for (let j = 0; j < p; j++) {
-      const col = new Float64Array(m);
       const cols = this.absCols[j]!;
       const vals = this.absVals[j]!;
-      for (let z = 0; z < cols.length; z++) col[cols[z]!] = (e.s[cols[z]!]! * vals[z]!) / e.d[j]!;
-      // Forward substitution: W_j = L⁻¹ (B_j / D_j).
-      for (let i = 0; i < m; i++) {
-        let t = col[i]!;
-        for (let q = 0; q < i; q++) t -= e.l[i * m + q]! * w[j * m + q]!;
-        w[j * m + i] = t / e.l[i * m + i]!;
+      const wj = j * m;
+      let first = m;
+      for (let z = 0; z < cols.length; z++) {
+        w[wj + cols[z]!] = (e.s[cols[z]!]! * vals[z]!) / e.d[j]!;
+        first = Math.min(first, cols[z]!);
+      }
+      // Forward substitution in place: W_j = L⁻¹ (B_j / D_j), zero above its first entry.
+      for (let i = first; i < m; i++) {
+        let t = w[wj + i]!;
+        const row = i * m;
+        for (let q = first; q < i; q++) t -= e.l[row + q]! * w[wj + q]!;
+        w[wj + i] = t / e.l[row + i]!;
       }
     }
     for (let i = 0; i < p; i++) {
+      const wi = i * m;
       for (let j = 0; j <= i; j++) {
         let s = i === j ? 1 / e.d[i]! : 0;
-        for (let q = 0; q < m; q++) s += w[i * m + q]! * w[j * m + q]!;
+        const wj = j * m;
+        for (let q = 0; q < m; q++) s += w[wi + q]! * w[wj + q]!;
         v[i * p + j] = sigma2 * s;
         v[j * p + i] = sigma2 * s;
       }
@@ -416,7 +507,7 @@ const BOUNDARY_THETA = 1e-4;
 export function fitReml(input: MixedModelInput): MixedFit {
   const problem = new RemlProblem(input);
   const k = problem.k;
-  const profiled = (theta: readonly number[]) => problem.evaluate(theta).deviance;
+  const profiled = (theta: readonly number[]) => problem.deviance(theta).deviance;
   let opt = nelderMead((t) => profiled(t), new Array<number>(k).fill(1));
   let theta = opt.x.map(Math.abs);
   // A component near zero: fix it at zero and re-optimise the others; keep it there when the
@@ -522,18 +613,25 @@ export function fitReml(input: MixedModelInput): MixedFit {
     },
     waldF(rows) {
       const r = rows.length;
+      // L Var(β̂) L' through Var(β̂) L' (p × r), so the work is 2p²r rather than p²r².
+      const vl = new Float64Array(p * r);
+      for (let b = 0; b < r; b++) {
+        const lb = rows[b]!;
+        for (let i = 0; i < p; i++) {
+          let t = 0;
+          const row = i * p;
+          for (let j = 0; j < p; j++) t += vcovBeta[row + j]! * lb[j]!;
+          vl[i * r + b] = t;
+        }
+      }
       const lvl = new Float64Array(r * r);
       for (let a = 0; a < r; a++) {
+        const la = rows[a]!;
         for (let b = 0; b <= a; b++) {
-          let s = 0;
-          for (let i = 0; i < p; i++) {
-            if (rows[a]![i] === 0) continue;
-            let t = 0;
-            for (let j = 0; j < p; j++) t += vcovBeta[i * p + j]! * rows[b]![j]!;
-            s += rows[a]![i]! * t;
-          }
-          lvl[a * r + b] = s;
-          lvl[b * r + a] = s;
+          let t = 0;
+          for (let i = 0; i < p; i++) t += la[i]! * vl[i * r + b]!;
+          lvl[a * r + b] = t;
+          lvl[b * r + a] = t;
         }
       }
       const eg = symmetricEigen(lvl, r);

@@ -28,29 +28,33 @@ export function jacobian(
   g: (x: readonly number[]) => Float64Array,
   x: readonly number[],
   d = 1e-4,
+  levels = 4,
 ): Float64Array[] {
   return x.map((xi, i) => {
     const h0 = step(xi, d);
-    const cache = new Map<number, Float64Array>();
-    const diff = (h: number) => {
-      let v = cache.get(h);
-      if (!v) {
-        const plus = [...x];
-        const minus = [...x];
-        plus[i] = xi + h;
-        minus[i] = xi - h;
-        const a = g(plus);
-        const b = g(minus);
-        v = new Float64Array(a.length);
-        for (let j = 0; j < a.length; j++) v[j] = (a[j]! - b[j]!) / (2 * h);
-        cache.set(h, v);
+    // Central differences at h0, h0/2, … for every output, then the same extrapolation as
+    // `richardson`, element by element in place (no arrays per output).
+    const rows: Float64Array[] = [];
+    const arg = [...x];
+    for (let k = 0; k < levels; k++) {
+      const h = h0 / 2 ** k;
+      arg[i] = xi + h;
+      const a = g(arg);
+      arg[i] = xi - h;
+      const b = g(arg);
+      const v = new Float64Array(a.length);
+      for (let j = 0; j < a.length; j++) v[j] = (a[j]! - b[j]!) / (2 * h);
+      rows.push(v);
+    }
+    for (let m = 1; m < levels; m++) {
+      const f = 4 ** m;
+      for (let k = 0; k + m < levels; k++) {
+        const lo = rows[k]!;
+        const hi = rows[k + 1]!;
+        for (let j = 0; j < lo.length; j++) lo[j] = (f * hi[j]! - lo[j]!) / (f - 1);
       }
-      return v;
-    };
-    const size = diff(h0).length;
-    const out = new Float64Array(size);
-    for (let j = 0; j < size; j++) out[j] = richardson((h) => diff(h)[j]!, h0);
-    return out;
+    }
+    return rows[0]!;
   });
 }
 
