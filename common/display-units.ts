@@ -178,6 +178,10 @@ export function formatTraitValue(
   return formatInUnit(value, columnUnit(quantityKind, system, [], chosen).shown);
 }
 
+/** A column header for one quantity with its unit ("Marketable yield (kg/m²)"); unitless stays plain. */
+export const withUnit = (header: string, unit: DisplayUnit) =>
+  unit.label ? `${header} (${unit.label})` : header;
+
 /** Numbers for tables: about four significant digits, grouped thousands. */
 export function formatNumber(value: number | null | undefined, significant = 4): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';

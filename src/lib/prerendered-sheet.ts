@@ -18,6 +18,11 @@ export function takeEmbeddedSheet(): unknown {
   }
 }
 
+/** Whether the server's drawing of the sheet is still on the page. */
+export function hasPrerenderedSheet(): boolean {
+  return document.getElementById(DRAWN) !== null;
+}
+
 export function removePrerenderedSheet(): void {
   document.getElementById(DRAWN)?.remove();
 }

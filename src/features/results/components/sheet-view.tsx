@@ -16,13 +16,88 @@ import {
   formatInUnit,
   formatScaled,
   formatTemperature,
+  withUnit,
+  type DisplayUnit,
 } from '@common/display-units';
 import { useUnitSystem } from '@/lib/session';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { DataTable } from '@/components/ui/data-table';
+import { createColumnHelper } from '@tanstack/react-table';
 import { directionWords, rankMeans } from '@common/ranking';
 
 function photoUrl(s: ResultSnapshot, photoId: string, variant: 'thumb' | 'display') {
   return `/api/results/${s.trial.slug}/v/${s.version}/photos/${photoId}/${variant}`;
+}
+
+type SheetTrait = ResultSnapshot['traits'][number];
+type RankedEntry = ResultSnapshot['ranking'][number];
+type RankedMean = ReturnType<typeof rankMeans<SheetTrait['means'][number]>>[number];
+
+const rankingCol = createColumnHelper<RankedEntry>();
+const meanCol = createColumnHelper<RankedMean>();
+
+// Neither table sorts by its headers: the order of the rows is the sheet's finding (rank order),
+// the same on screen, on paper and in the server's drawing, and a re-sorted ranking would show
+// its ranks out of order. What sorting by a trait's column would give, each trait's own table
+// below already shows: its entries best first by that trait.
+
+/** The ranking across traits: rank, variety, index, then each trait's mean and letter group. */
+function rankingColumns(
+  sheet: ResultSnapshot,
+  du: (t: SheetTrait) => DisplayUnit,
+  dm: (t: SheetTrait) => number,
+) {
+  return [
+    rankingCol.accessor('rank', {
+      header: 'Rank',
+      cell: (c) => c.getValue(),
+      meta: { cellClassName: () => 'font-semibold' },
+    }),
+    rankingCol.accessor('variety', { header: 'Variety' }),
+    rankingCol.accessor('index', {
+      header: 'Index',
+      cell: (c) => displayNumber(c.getValue(), 2),
+      meta: { align: 'right' },
+    }),
+    ...sheet.traits.map((t) =>
+      rankingCol.accessor((r) => t.means.find((m) => m.variety === r.variety), {
+        id: `trait-${t.key}`,
+        header: withUnit(t.label, du(t)),
+        cell: (c) => {
+          const m = c.getValue();
+          return m ? `${formatScaled(m.mean, du(t), dm(t))} ${m.group}` : '—';
+        },
+        meta: { align: 'right', cellClassName: () => 'whitespace-nowrap' },
+      }),
+    ),
+  ];
+}
+
+/** One trait's entry means, best first: rank (when the trait has a direction), mean ± SE, letters, plots. */
+function meansColumns(t: SheetTrait, unit: DisplayUnit, decimals: number) {
+  return [
+    ...(t.direction === 'none'
+      ? []
+      : [meanCol.accessor('rank', { header: 'Rank', cell: (c) => c.getValue() })]),
+    meanCol.accessor('variety', { header: 'Variety' }),
+    meanCol.accessor('mean', {
+      header: withUnit('Mean ± SE', unit),
+      cell: ({ row: { original: m } }) => (
+        <>
+          {formatScaled(m.mean, unit, decimals)} ± {formatScaled(m.se, unit, decimals)}
+          {m.adjustedMean === undefined ? null : (
+            <span className="block text-xs text-loam-700">
+              adjusted {formatScaled(m.adjustedMean, unit, decimals)}
+              {m.adjustedSe == null ? '' : ` ± ${formatScaled(m.adjustedSe, unit, decimals)}`}
+            </span>
+          )}
+        </>
+      ),
+      meta: { align: 'right', cellClassName: () => 'whitespace-nowrap' },
+    }),
+    meanCol.accessor('group', { header: 'Group', meta: { cellClassName: () => 'font-mono' } }),
+    meanCol.accessor('n', { header: 'Plots', meta: { align: 'right' } }),
+  ];
 }
 
 /** The results sheet as readers see it; the lead's preview uses the same view. */
@@ -78,49 +153,20 @@ export function SheetView({
         <h2 id="ranking-heading" className="text-xl font-semibold text-leaf-900">
           Ranking
         </h2>
-        <ScrollRegion label="Ranking" className="mt-2 rounded-lg bg-white shadow-sm">
-          <table className="w-full min-w-[20rem] text-left text-sm">
-            <caption className="sr-only">
-              Entries ranked by the weighted index across the chosen traits
-            </caption>
-            <thead className="bg-leaf-50">
-              <tr>
-                <th scope="col" className="p-2">
-                  Rank
-                </th>
-                <th scope="col" className="p-2">
-                  Variety
-                </th>
-                <th scope="col" className="p-2 text-right">
-                  Index
-                </th>
-                {sheet.traits.map((t) => (
-                  <th key={t.key} scope="col" className="p-2 text-right">
-                    {t.label}
-                  </th>
-                ))}
-              </tr>
-            </thead>
-            <tbody>
-              {sheet.ranking.map((r) => (
-                <tr key={r.variety} className="border-t border-leaf-50">
-                  <td className="p-2 font-semibold">{r.rank}</td>
-                  <th scope="row" className="p-2 font-medium">
-                    {r.variety}
-                  </th>
-                  <td className="p-2 text-right tabular-nums">{displayNumber(r.index, 2)}</td>
-                  {sheet.traits.map((t) => {
-                    const m = t.means.find((x) => x.variety === r.variety);
-                    return (
-                      <td key={t.key} className="p-2 text-right tabular-nums">
-                        {m ? `${formatInUnit(m.mean, du(t), dm(t))} ${m.group}` : '—'}
-                      </td>
-                    );
-                  })}
-                </tr>
-              ))}
-            </tbody>
-          </table>
+        <ScrollRegion
+          label="Ranking"
+          hint="More traits to the side: swipe or scroll sideways"
+          className="mt-2 rounded-lg bg-white shadow-sm"
+        >
+          <DataTable
+            caption="Entries ranked by the weighted index across the chosen traits"
+            className="min-w-[20rem]"
+            data={sheet.ranking}
+            columns={rankingColumns(sheet, du, dm)}
+            rowId={(r) => r.variety}
+            rowHeader="variety"
+            sortable={false}
+          />
         </ScrollRegion>
         <p className="mt-1 text-xs text-loam-700">
           Index: weighted mean of each trait's standardised entry means, signed so that better is
@@ -149,58 +195,17 @@ export function SheetView({
             label={`${t.label}: entry means`}
             className="mt-2 rounded-lg bg-white shadow-sm"
           >
-            <table className="w-full min-w-[20rem] text-left text-sm">
-              <caption className="sr-only">
-                {t.label}: entry means with standard errors and letter groups
-                {t.direction === 'none'
-                  ? ''
-                  : `, ranked best first (${directionWords[t.direction]})`}
-              </caption>
-              <thead className="bg-leaf-50">
-                <tr>
-                  {t.direction === 'none' ? null : (
-                    <th scope="col" className="p-2">
-                      Rank
-                    </th>
-                  )}
-                  <th scope="col" className="p-2">
-                    Variety
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Mean ± SE
-                  </th>
-                  <th scope="col" className="p-2">
-                    Group
-                  </th>
-                  <th scope="col" className="p-2 text-right">
-                    Plots
-                  </th>
-                </tr>
-              </thead>
-              <tbody>
-                {rankMeans(t.means, t.direction).map((m) => (
-                  <tr key={m.variety} className="border-t border-leaf-50">
-                    {m.rank === null ? null : <td className="p-2">{m.rank}</td>}
-                    <th scope="row" className="p-2 font-medium">
-                      {m.variety}
-                    </th>
-                    <td className="p-2 text-right tabular-nums">
-                      {formatInUnit(m.mean, du(t), dm(t))} ± {formatScaled(m.se, du(t), dm(t))}
-                      {m.adjustedMean === undefined ? null : (
-                        <span className="block text-xs text-loam-700">
-                          adjusted {formatInUnit(m.adjustedMean, du(t), dm(t))}
-                          {m.adjustedSe == null
-                            ? ''
-                            : ` ± ${formatScaled(m.adjustedSe, du(t), dm(t))}`}
-                        </span>
-                      )}
-                    </td>
-                    <td className="p-2 font-mono">{m.group}</td>
-                    <td className="p-2 text-right">{m.n}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <DataTable
+              caption={`${t.label}: entry means with standard errors and letter groups${
+                t.direction === 'none' ? '' : `, ranked best first (${directionWords[t.direction]})`
+              }`}
+              className="min-w-[20rem]"
+              data={rankMeans(t.means, t.direction)}
+              columns={meansColumns(t, du(t), dm(t))}
+              rowId={(m) => m.variety}
+              rowHeader="variety"
+              sortable={false}
+            />
           </ScrollRegion>
           {t.warnings.length ? (
             <ul className="mt-1 list-disc pl-5 text-xs text-pod-700">
