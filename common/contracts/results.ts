@@ -333,7 +333,10 @@ export const sheetModel = (s: Pick<ResultSnapshot, 'model'>) => s.model ?? 'anov
  * A two-factor trait's interaction test in one line, from its analysis of variance, e.g.
  * "Variety × fertilizer: F(3, 18) = 12.40, p < 0.001"; null without one.
  */
-export function interactionNote(t: Pick<SnapshotTrait, 'anova' | 'twoFactor'>): string | null {
+export function interactionNote(t: {
+  anova: Pick<SnapshotTrait['anova'][number], 'source' | 'df' | 'f' | 'p' | 'testedAgainst'>[];
+  twoFactor?: { factor: string } | undefined;
+}): string | null {
   const line = t.anova.find((l) => l.source === 'variety:treatment');
   if (!t.twoFactor || !line || line.f === null) return null;
   const error = t.anova.find((l) => l.source === line.testedAgainst);

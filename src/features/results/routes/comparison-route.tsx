@@ -1,3 +1,4 @@
+import { interactionNote } from '@common/contracts/results';
 import { type DisplayUnit, displayUnit } from '@common/display-units';
 import { useMemo, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
@@ -18,6 +19,7 @@ import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparison';
 import { EntrySiteChart, HarvestCurveChart } from '../components/comparison-charts';
+import { CellMeansTable } from '../components/cell-means-table';
 import { ComparisonTable } from '../components/comparison-table';
 
 export function Component() {
@@ -157,6 +159,25 @@ export function Component() {
           </figcaption>
         </figure>
       </section>
+
+      {trial.data.factor && chart?.twoFactor ? (
+        <section className="mt-6" aria-labelledby="cells-heading">
+          <h2 id="cells-heading" className="text-xl font-semibold text-leaf-900">
+            Entries × {trial.data.factor.name.toLowerCase()}
+          </h2>
+          <p className="text-sm text-loam-700">
+            {trial.data.traits.find((t) => t.key === chartKey)?.label}: the trait chosen for the
+            chart above. {interactionNote(chart)}
+          </p>
+          <CellMeansTable
+            twoFactor={chart.twoFactor}
+            varieties={chart.means.map((m) => m.variety)}
+            traitLabel={trial.data.traits.find((t) => t.key === chartKey)?.label ?? chartKey}
+            unit={chartUnit}
+            decimals={chart.decimals.mean}
+          />
+        </section>
+      ) : null}
 
       <section className="mt-6" aria-labelledby="curve-heading">
         <h2 id="curve-heading" className="text-xl font-semibold text-leaf-900">
