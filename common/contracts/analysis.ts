@@ -46,8 +46,11 @@ export function modelsForDesign(
   design: (typeof trialDesigns)[number],
   /** A two-factor trial: its strata come from the classical analysis only, so far. */
   twoFactor = false,
+  /** A two-factor trial laid out as a split plot: the mixed model takes it too. */
+  splitPlot = false,
 ): AnalysisModel[] {
-  return design === 'crd' || twoFactor ? ['anova'] : ['anova', 'mixed'];
+  if (twoFactor) return splitPlot ? ['anova', 'mixed'] : ['anova'];
+  return design === 'crd' ? ['anova'] : ['anova', 'mixed'];
 }
 
 /**
@@ -93,6 +96,7 @@ export function modelReasonFor(design: (typeof trialDesigns)[number]): string | 
   }
 }
 export const varianceSources = [
+  'block:treatment',
   'site',
   'site:block',
   'block',
@@ -102,6 +106,7 @@ export const varianceSources = [
   'residual',
 ] as const;
 export const varianceSourceLabels: Record<(typeof varianceSources)[number], string> = {
+  'block:treatment': 'Main plots (block × treatment)',
   site: 'Gardens (sites)',
   'site:block': 'Blocks within gardens',
   block: 'Blocks',
@@ -354,6 +359,19 @@ export const twoFactorSchema = z.object({
   varietyMeans: z.array(z.object({ variety: z.string(), ...meanWithSe })),
   treatmentWithinVariety: z.array(simpleEffectSchema),
   varietyWithinTreatment: z.array(simpleEffectSchema),
+  /** Split plot by the mixed model: sequential Wald F tests with Satterthwaite's df. */
+  fixedTests: z
+    .array(
+      z.object({
+        source: z.enum(['treatment', 'variety', 'variety:treatment']),
+        numDf: z.number(),
+        denDf: z.number(),
+        f: z.number(),
+        p: z.number(),
+        method: z.literal('satterthwaite'),
+      }),
+    )
+    .optional(),
 });
 export type TwoFactor = z.infer<typeof twoFactorSchema>;
 

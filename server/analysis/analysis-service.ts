@@ -147,6 +147,8 @@ async function analyseTrait(
     alpha: number;
     letters: 'hsd' | 'lsd';
     model?: AnalysisModel;
+    /** False: the caller chose no model, so a split plot that lost plots takes the mixed one. */
+    modelAsked?: boolean;
     varietiesRandom?: boolean;
   },
 ): Promise<TrialAnalysis> {
@@ -229,7 +231,7 @@ async function analyseTrait(
         alpha: options.alpha,
         letters: options.letters,
         direction: trait.direction,
-        model: options.model ?? 'anova',
+        ...(options.modelAsked === false ? {} : { model: options.model ?? 'anova' }),
         splitPlot: factor.arrangement === 'split_plot',
         factor: factor.name,
       },
@@ -304,6 +306,14 @@ function twoFactorTrialResult(
     errorTerm: r.errorTerm,
     method: r.method,
     model: r.model,
+    ...(r.varianceComponents && r.fixedTests
+      ? {
+          varianceComponents: r.varianceComponents,
+          fixedTest: { ...r.fixedTests.find((x) => x.source === 'variety')!, source: 'variety' },
+          logLik: r.logLik,
+          boundary: r.boundary,
+        }
+      : {}),
     adjustedMeans: r.varietyMeans.map(({ variety, mean, se }) => ({ variety, mean, se })),
     counts: {
       entries: r.counts.entries,
@@ -321,6 +331,7 @@ function twoFactorTrialResult(
       varietyMeans: r.varietyMeans,
       treatmentWithinVariety: r.treatmentWithinVariety,
       varietyWithinTreatment: r.varietyWithinTreatment,
+      ...(r.fixedTests ? { fixedTests: r.fixedTests } : {}),
     },
   };
 }
@@ -381,7 +392,10 @@ export async function analyseTrialTrait(
   // Blocks (or gardens) that hold only some entries are analysed by the mixed model unless the
   // caller asks otherwise; other designs keep the classical analysis as the default here.
   const model = query.model ?? (isIncompleteDesign(trial.design) ? 'mixed' : 'anova');
+  // A split plot asked for no model gets the mixed model when it lost plots (the engine decides).
+  const modelAsked = query.model !== undefined;
   const question = {
+    modelAsked,
     trait: query.trait,
     basis: query.basis,
     alpha: query.alpha,
@@ -391,16 +405,20 @@ export async function analyseTrialTrait(
   };
   return cachedForTrialData(trial, question, async () => {
     const trait = await resolveTrait(traitsOfTrial, query.trait);
-    return analyseTrait(db, trial, trait, query.basis, { ...query, model });
+    return analyseTrait(db, trial, trait, query.basis, { ...query, model, modelAsked });
   });
 }
 
 /** A model the trial's design cannot be analysed with is the caller's mistake, named. */
 function refuseModelOutsideDesign(trial: Trial, model: AnalysisModel) {
-  const twoFactor = trialFactor(trial) !== null;
-  if (modelsForDesign(trial.design, twoFactor).includes(model)) return;
+  const factor = trialFactor(trial);
+  const twoFactor = factor !== null;
+  if (
+    modelsForDesign(trial.design, twoFactor, factor?.arrangement === 'split_plot').includes(model)
+  )
+    return;
   const message = twoFactor
-    ? 'A two-factor trial is analysed with the classical analysis only.'
+    ? 'A factorial in blocks is analysed with the classical analysis only (the mixed model is offered for split plots).'
     : `A ${designLabels[trial.design].toLowerCase()} trial is analysed with the classical analysis only.`;
   throw new AppError('validation_failed', message, {
     fields: [{ path: 'query.model', message }],

@@ -245,7 +245,7 @@ describe('the demo season', () => {
     expect(Math.abs(effect('Corvale Prime').difference)).toBeLessThan(2);
     expect(a.anova.find((l) => l.source === 'variety:treatment')!.p).toBeLessThan(0.05);
 
-    // The trial says it has a second factor, and only the classical analysis is offered for it.
+    // The trial says it has a second factor; a split plot also takes the mixed model.
     const detail = await request(t.app).get(`/api/trials/${SPLIT_PLOT_SLUG}`).set('Cookie', cookie);
     expect(detail.body.factor).toEqual({
       name: 'Fertilizer',
@@ -255,10 +255,12 @@ describe('the demo season', () => {
     const mixed = await request(t.app)
       .get(`/api/trials/${SPLIT_PLOT_SLUG}/analysis?trait=days_to_first_pods&model=mixed`)
       .set('Cookie', cookie);
-    expect(mixed.status).toBe(400);
-    expect(mixed.body.error.details.fields[0]).toEqual({
-      path: 'query.model',
-      message: 'A two-factor trial is analysed with the classical analysis only.',
-    });
+    expect(mixed.status).toBe(200);
+    expect(mixed.body.model).toBe('mixed');
+    expect((mixed.body as typeof a).twoFactor!.fixedTests!.map((f) => f.source)).toEqual([
+      'treatment',
+      'variety',
+      'variety:treatment',
+    ]);
   });
 });

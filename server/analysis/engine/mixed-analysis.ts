@@ -54,6 +54,7 @@ export interface MixedVarietyAnalysis {
 }
 
 const SOURCE_WORDS: Record<VarianceSource | 'variety', string> = {
+  'block:treatment': 'main plots (block × treatment)',
   variety: 'varieties',
   site: 'gardens (sites)',
   'site:block': 'blocks within gardens',
