@@ -221,6 +221,36 @@ describe('seed lots and germination tests', () => {
     expect(tests[0]!.upperPercent).toBeCloseTo(97.94, 2);
   });
 
+  it('deletes a germination test entered by mistake (coordinators only), and the lot’s warnings follow', async () => {
+    const lot = await newLot('VL-mistyped');
+    const add = (testedOn: string, seedsGerminated: number) =>
+      as('lead').send('post', `/api/seed/lots/${lot}/tests`, {
+        testedOn,
+        seedsTested: 100,
+        seedsGerminated,
+        days: 10,
+      });
+    const good = (await add('2026-09-01', 91)).body.id as string;
+    // Typed 19 for 91: the newest test is then below the 80 % threshold (common practice, no source).
+    const slip = (await add('2026-09-02', 19)).body.id as string;
+    expect((await lotIn(lot)).warnings.map((w) => w.kind)).toEqual(['below_threshold']);
+    const url = `/api/seed/lots/${lot}/tests/${slip}`;
+    expect((await as('grower').send('delete', url)).status).toBe(403);
+    expect((await as('outsider').send('delete', url)).status).toBe(404);
+    expect((await as('signedOut').send('delete', url)).status).toBe(404);
+    // A test of another lot is not this lot's to delete.
+    const other = await newLot('VL-other');
+    expect((await as('lead').send('delete', `/api/seed/lots/${other}/tests/${slip}`)).status).toBe(
+      404,
+    );
+    expect((await as('lead').send('delete', url)).status).toBe(204);
+    const after = await lotIn(lot);
+    expect(after.tests.map((x) => x.testedOn)).toEqual(['2026-09-01']);
+    expect(after.warnings).toEqual([]);
+    expect((await as('lead').send('delete', url)).status).toBe(404);
+    expect(good).toMatch(/^[0-9a-f-]{36}$/);
+  });
+
   it('warns when a lot is untested, its last test is over a year old, or below the group’s threshold', async () => {
     const untested = await newLot('VL-untested');
     expect((await lotIn(untested)).warnings.map((w) => w.kind)).toEqual(['untested']);

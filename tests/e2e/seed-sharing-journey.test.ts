@@ -2,7 +2,8 @@
  * Seed sharing in a real browser against the built app: a member on a phone follows the
  * published sheet's link to the open offer and asks for a packet through the form; the
  * coordinator, on a desktop, sees the request beside the variety's lots and marks the packet
- * sent; the member's letter arrives in the development mailbox. Every wait is for a state on
+ * sent, corrects a lot and deletes a germination test typed wrong; the member's letter and the
+ * coordinator's arrive in the development mailbox. Every wait is for a state on
  * the page, never for time.
  */
 import type { Browser } from 'playwright-core';
@@ -90,6 +91,56 @@ describe('sharing seed', () => {
     await deskPage.getByRole('button', { name: 'Mark Tobiah Wrenfield’s packet sent' }).click();
     await deskPage.getByText('Tobiah Wrenfield (tobiah@larkhaven-seeds.example) · Sent').waitFor();
     await screenshot(deskPage, 'seed-requests-desktop');
+
+    // The coordinator corrects where the lot is kept; the amount, not touched, stays as stored.
+    const lotCard = deskPage.getByRole('region', { name: 'Lot DP-26', exact: true });
+    await lotCard.getByRole('button', { name: 'Change lot DP-26' }).click();
+    const lotEdit = deskPage.getByRole('form', { name: 'Change lot DP-26' });
+    expect(await lotEdit.getByLabel('Storage place').inputValue()).toBe('Seed tin 5, north shed');
+    await lotEdit.getByLabel('Storage place').fill('Seed tin 6, cellar');
+    await lotEdit.getByRole('button', { name: 'Save the changes' }).click();
+    await lotCard.getByText(/stored: Seed tin 6, cellar/).waitFor();
+    const stored = await live.db
+      .selectFrom('seed_lots')
+      .select(['amount', 'storage_place'])
+      .where('label', '=', 'DP-26')
+      .executeTakeFirstOrThrow();
+    expect(stored).toEqual({ amount: 250, storage_place: 'Seed tin 6, cellar' });
+
+    // A germination test typed wrong (9 for 93) is deleted after the coordinator confirms.
+    const testForm = lotCard.getByRole('form', { name: 'Add a germination test' });
+    await testForm.getByLabel('Test read on').fill('2026-11-02');
+    await testForm.getByLabel('Seeds tested').fill('100');
+    await testForm.getByLabel('Seeds germinated').fill('9');
+    await testForm.getByLabel('Days').fill('8');
+    await testForm.getByRole('button', { name: 'Add the test' }).click();
+    const slip = lotCard.getByRole('row', { name: /2026-11-02/ });
+    await slip.waitFor();
+    const remove = lotCard.getByRole('button', { name: 'Delete the test read on 2026-11-02' });
+    let asked = '';
+    deskPage.once('dialog', (d) => {
+      asked = d.message();
+      void d.dismiss();
+    });
+    await remove.click();
+    expect(asked).toBe(
+      'Delete the germination test of lot DP-26 read on 2026-11-02 (9 of 100 germinated)? This cannot be undone.',
+    );
+    expect(await slip.count()).toBe(1);
+    deskPage.once('dialog', (d) => void d.accept());
+    await remove.click();
+    await slip.waitFor({ state: 'detached' });
+    await lotCard.getByText('93 %', { exact: true }).waitFor();
+
+    // The same page on a phone: the tables scroll inside their frames, not the page.
+    await deskPage.setViewportSize({ width: 360, height: 780 });
+    await lotCard.getByRole('button', { name: 'Change lot DP-26' }).waitFor();
+    expect(await deskPage.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+      360,
+    );
+    await expectNoSeriousA11yViolations(deskPage, 'variety seed page at 360 px');
+    await screenshot(deskPage, 'seed-lots-phone');
+    await deskPage.setViewportSize({ width: 1280, height: 900 });
 
     // The lead sees which lot each okra entry was sown from, on the trial's entries.
     await deskPage.goto('/t/larkhaven-okra-2026/entries');

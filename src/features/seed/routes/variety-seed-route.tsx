@@ -1,6 +1,8 @@
 import {
+  type GerminationTest,
   germinationTestForm,
   lotForm,
+  type LotFormValues,
   offerForm,
   type OfferSummary,
   type SeedLot,
@@ -11,14 +13,17 @@ import {
   type VarietySeed,
 } from '@common/contracts/seed';
 import { formatPercent } from '@common/seed-lots';
-import { formatMass } from '@common/units';
+import { formatMass, fromStored } from '@common/units';
 import { localToday } from '@common/calendar-date';
-import { useState } from 'react';
+import { createColumnHelper } from '@tanstack/react-table';
+import { useMemo, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
+import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { TODAY_HINT } from '@/components/ui/field-date';
 import { Spinner } from '@/components/ui/spinner';
+import { ScrollRegion } from '@/components/ui/scroll-region';
 import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
 import { useUnitSystem } from '@/lib/session';
@@ -27,8 +32,10 @@ import { answerSeedRequest } from '../api/answer-seed-request';
 import { closeOffer } from '../api/close-offer';
 import { createLot } from '../api/create-lot';
 import { createOffer } from '../api/create-offer';
+import { deleteGerminationTest } from '../api/delete-germination-test';
 import { useSeedRequests } from '../api/get-seed-requests';
 import { useSeedChanged, useVarietySeed } from '../api/get-variety-seed';
+import { updateLot } from '../api/update-lot';
 import { updateSeedSettings } from '../api/update-seed-settings';
 import { GerminationFigure } from '../components/germination-figure';
 
@@ -107,12 +114,124 @@ function TestForm({ lotId }: { lotId: string }) {
   );
 }
 
-function LotCard({ lot, canEdit }: { lot: SeedLot; canEdit: boolean }) {
+type StandPlot = SeedLot['sown'][number]['plots'][number];
+const standColumn = createColumnHelper<StandPlot>();
+const standColumns = [
+  standColumn.accessor('site', { header: 'Site' }),
+  standColumn.accessor('plotNumber', { id: 'plot', header: 'Plot', meta: { align: 'right' } }),
+  standColumn.accessor((p) => p.plantsSet ?? undefined, {
+    id: 'set',
+    header: 'Plants set',
+    sortUndefined: 'last',
+    meta: { align: 'right' },
+    cell: (c) => c.getValue() ?? '—',
+  }),
+  standColumn.accessor((p) => p.plantsSurviving ?? undefined, {
+    id: 'standing',
+    header: 'Standing',
+    sortUndefined: 'last',
+    meta: { align: 'right' },
+    cell: (c) => c.getValue() ?? '—',
+  }),
+];
+
+const testColumn = createColumnHelper<GerminationTest>();
+const testColumns = [
+  testColumn.accessor('testedOn', {
+    header: 'Read on',
+    meta: { cellClassName: () => 'whitespace-nowrap' },
+  }),
+  testColumn.accessor('seedsGerminated', {
+    header: 'Germinated',
+    meta: { align: 'right' },
+    cell: (c) => `${c.getValue()} of ${c.row.original.seedsTested}`,
+  }),
+  testColumn.accessor('days', { header: 'Days', meta: { align: 'right' } }),
+  testColumn.accessor('percent', {
+    header: 'Germination (95 % interval)',
+    meta: { align: 'right' },
+    cell: (c) => <GerminationFigure test={c.row.original} />,
+  }),
+];
+
+/** A lot's germination tests, newest first; a coordinator may delete one entered by mistake. */
+function TestsTable({ lot, canEdit }: { lot: SeedLot; canEdit: boolean }) {
+  const changed = useSeedChanged();
+  const [busy, setBusy] = useState<string | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+  const columns = useMemo(() => {
+    if (!canEdit) return testColumns;
+    const remove = async (test: GerminationTest) => {
+      const what = `the germination test of lot ${lot.label} read on ${test.testedOn} (${test.seedsGerminated} of ${test.seedsTested} germinated)`;
+      if (!window.confirm(`Delete ${what}? This cannot be undone.`)) return;
+      setBusy(test.id);
+      setProblem(null);
+      try {
+        await deleteGerminationTest(lot.id, test.id);
+        await changed();
+      } catch (err) {
+        setProblem(err instanceof Error ? err.message : 'Not deleted: try again.');
+      } finally {
+        setBusy(null);
+      }
+    };
+    return [
+      ...testColumns,
+      testColumn.display({
+        id: 'delete',
+        // A visible header: a visually hidden one would stick out of the scroll frame at 360 px.
+        header: 'Delete',
+        cell: (c) => (
+          <Button
+            type="button"
+            variant="ghost"
+            disabled={busy === c.row.original.id}
+            aria-label={`Delete the test read on ${c.row.original.testedOn}`}
+            onClick={() => void remove(c.row.original)}
+          >
+            Delete
+          </Button>
+        ),
+      }),
+    ];
+  }, [canEdit, lot.id, lot.label, busy, changed]);
+  return (
+    <>
+      {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
+      <ScrollRegion label={`Germination tests of lot ${lot.label}`} className="mt-1">
+        <DataTable
+          caption={`Germination tests of lot ${lot.label}`}
+          data={lot.tests}
+          columns={columns}
+          rowId={(t) => t.id}
+          rowHeader="testedOn"
+          className="min-w-[28rem] text-sm"
+        />
+      </ScrollRegion>
+    </>
+  );
+}
+
+function LotCard({ slug, lot, canEdit }: { slug: string; lot: SeedLot; canEdit: boolean }) {
+  const [editing, setEditing] = useState(false);
+  if (editing) return <LotForm slug={slug} lot={lot} onDone={() => setEditing(false)} />;
   return (
     <section className={card} aria-labelledby={`lot-${lot.id}`}>
-      <h3 id={`lot-${lot.id}`} className="text-lg font-semibold text-leaf-900">
-        Lot {lot.label}
-      </h3>
+      <div className="flex flex-wrap items-center justify-between gap-2">
+        <h3 id={`lot-${lot.id}`} className="text-lg font-semibold text-leaf-900">
+          Lot {lot.label}
+        </h3>
+        {canEdit ? (
+          <Button
+            type="button"
+            variant="secondary"
+            aria-label={`Change lot ${lot.label}`}
+            onClick={() => setEditing(true)}
+          >
+            Change
+          </Button>
+        ) : null}
+      </div>
       <p className="text-sm text-loam-700">
         {[
           lot.source || null,
@@ -139,32 +258,7 @@ function LotCard({ lot, canEdit }: { lot: SeedLot; canEdit: boolean }) {
       {lot.tests.length === 0 ? (
         <p className="text-sm text-loam-700">None yet.</p>
       ) : (
-        <div className="overflow-x-auto">
-          <table className="mt-1 w-full text-sm">
-            <thead>
-              <tr className="text-left">
-                <th className="py-1 pr-3">Read on</th>
-                <th className="py-1 pr-3">Germinated</th>
-                <th className="py-1 pr-3">Days</th>
-                <th className="py-1">Germination (95 % interval)</th>
-              </tr>
-            </thead>
-            <tbody>
-              {lot.tests.map((t) => (
-                <tr key={t.id} className="border-t border-straw-200">
-                  <td className="py-1 pr-3">{t.testedOn}</td>
-                  <td className="py-1 pr-3">
-                    {t.seedsGerminated} of {t.seedsTested}
-                  </td>
-                  <td className="py-1 pr-3">{t.days}</td>
-                  <td className="py-1">
-                    <GerminationFigure test={t} />
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <TestsTable lot={lot} canEdit={canEdit} />
       )}
       {canEdit ? <TestForm lotId={lot.id} /> : null}
       <h4 className="mt-4 font-semibold">Sown in trials</h4>
@@ -186,28 +280,19 @@ function LotCard({ lot, canEdit }: { lot: SeedLot; canEdit: boolean }) {
                 : `stand ${formatPercent(s.standPercent)} of plants set`}
             </p>
             {s.plots.length ? (
-              <div className="overflow-x-auto">
-                <table className="mt-1 text-sm">
-                  <thead>
-                    <tr className="text-left">
-                      <th className="py-1 pr-3">Site</th>
-                      <th className="py-1 pr-3">Plot</th>
-                      <th className="py-1 pr-3">Plants set</th>
-                      <th className="py-1">Standing</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {s.plots.map((p) => (
-                      <tr key={`${p.site}-${p.plotNumber}`} className="border-t border-straw-200">
-                        <td className="py-1 pr-3">{p.site}</td>
-                        <td className="py-1 pr-3">{p.plotNumber}</td>
-                        <td className="py-1 pr-3">{p.plantsSet ?? '—'}</td>
-                        <td className="py-1">{p.plantsSurviving ?? '—'}</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
+              <ScrollRegion
+                label={`Plots of ${s.trialTitle} sown from lot ${lot.label}`}
+                className="mt-1"
+              >
+                <DataTable
+                  caption={`Stand of the plots of ${s.trialTitle} sown from lot ${lot.label}`}
+                  data={s.plots}
+                  columns={standColumns}
+                  rowId={(p) => `${p.site}-${p.plotNumber}`}
+                  rowHeader="plot"
+                  className="min-w-[20rem] text-sm"
+                />
+              </ScrollRegion>
             ) : null}
           </div>
         ))
@@ -216,29 +301,71 @@ function LotCard({ lot, canEdit }: { lot: SeedLot; canEdit: boolean }) {
   );
 }
 
-function LotForm({ slug, onDone }: { slug: string; onDone: () => void }) {
+/** What the lot form starts with: blank for a new lot, else the lot's own values as typed text. */
+function lotDefaults(lot: SeedLot | undefined, system: 'metric' | 'us'): LotFormValues {
+  if (!lot)
+    return {
+      label: '',
+      source: '',
+      harvestYear: '',
+      amount: '',
+      amountUnit: system === 'us' ? 'oz' : 'g',
+      storagePlace: '',
+      notes: '',
+    };
+  // A mass is shown in the reader's units: ounces to two decimals in US units.
+  const unit = lot.amountUnit === 'seeds' ? 'seeds' : system === 'us' ? 'oz' : 'g';
+  const amount =
+    lot.amount === null
+      ? ''
+      : unit === 'oz'
+        ? String(Math.round(fromStored(lot.amount, 'oz') * 100) / 100)
+        : String(lot.amount);
+  return {
+    label: lot.label,
+    source: lot.source,
+    harvestYear: lot.harvestYear === null ? '' : String(lot.harvestYear),
+    amount,
+    amountUnit: unit,
+    storagePlace: lot.storagePlace,
+    notes: lot.notes,
+  };
+}
+
+/** Adds a lot, or changes one: then only the fields changed are sent, so an amount shown in
+ * ounces and left alone is not rounded into the stored grams. */
+function LotForm({ slug, lot, onDone }: { slug: string; lot?: SeedLot; onDone: () => void }) {
   const system = useUnitSystem();
   const changed = useSeedChanged();
-  const blank = {
-    label: '',
-    source: '',
-    harvestYear: '',
-    amount: '',
-    amountUnit: system === 'us' ? ('oz' as const) : ('g' as const),
-    storagePlace: '',
-    notes: '',
-  };
-  const form = useContractForm(lotForm, blank);
+  const [defaults] = useState(() => lotDefaults(lot, system));
+  const form = useContractForm(lotForm, defaults);
   const { errors, isSubmitting } = form.formState;
   const onSubmit = submitTo(form, async (body) => {
-    await createLot(slug, body);
-    form.reset(blank);
+    if (lot) {
+      const typed = form.getValues();
+      const differs = (k: keyof LotFormValues) => typed[k] !== defaults[k];
+      const changes = {
+        ...(differs('label') ? { label: body.label } : {}),
+        ...(differs('source') ? { source: body.source } : {}),
+        ...(differs('harvestYear') ? { harvestYear: body.harvestYear } : {}),
+        ...(differs('amount') || differs('amountUnit')
+          ? { amount: body.amount, amountUnit: body.amountUnit }
+          : {}),
+        ...(differs('storagePlace') ? { storagePlace: body.storagePlace } : {}),
+        ...(differs('notes') ? { notes: body.notes } : {}),
+      };
+      if (Object.keys(changes).length) await updateLot(lot.id, changes);
+    } else {
+      await createLot(slug, body);
+      form.reset(defaults);
+    }
     await changed();
     onDone();
   });
+  const title = lot ? `Change lot ${lot.label}` : 'Add a lot';
   return (
-    <form onSubmit={onSubmit} noValidate className={`${card} space-y-3`} aria-label="Add a lot">
-      <h3 className="text-lg font-semibold text-leaf-900">Add a lot</h3>
+    <form onSubmit={onSubmit} noValidate className={`${card} space-y-3`} aria-label={title}>
+      <h3 className="text-lg font-semibold text-leaf-900">{title}</h3>
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField label="Lot label" error={errors.label?.message} {...form.register('label')} />
         <TextField label="Source" error={errors.source?.message} {...form.register('source')} />
@@ -268,9 +395,14 @@ function LotForm({ slug, onDone }: { slug: string; onDone: () => void }) {
       </div>
       <TextArea label="Notes" error={errors.notes?.message} {...form.register('notes')} />
       {formRefusal(form) ? <FormMessage tone="error">{formRefusal(form)}</FormMessage> : null}
-      <Button type="submit" disabled={isSubmitting}>
-        {isSubmitting ? 'Saving…' : 'Save the lot'}
-      </Button>
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" disabled={isSubmitting}>
+          {isSubmitting ? 'Saving…' : lot ? 'Save the changes' : 'Save the lot'}
+        </Button>
+        <Button type="button" variant="secondary" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
     </form>
   );
 }
@@ -472,7 +604,7 @@ export function Component() {
       <h2 className="text-xl font-semibold text-leaf-900">Lots</h2>
       {seed.lots.length === 0 ? <p>No lots recorded yet.</p> : null}
       {seed.lots.map((lot) => (
-        <LotCard key={lot.id} lot={lot} canEdit={seed.canEdit} />
+        <LotCard key={lot.id} slug={slug} lot={lot} canEdit={seed.canEdit} />
       ))}
       {seed.canEdit ? (
         adding ? (
