@@ -1,6 +1,8 @@
 // Mixed models (REML) against R 4.2.2 with lme4 1.1-31, lmerTest 3.1-3 (Satterthwaite) and
 // emmeans 1.8.4-1, computed once by fixtures/analysis/r/mixed-models.R (the exact call, the
 // versions and the refinement of lme4's optimum are stored in each mixed-<name>.json).
+// The single-site incomplete-block case (mixed-incomplete-alpha) comes from
+// fixtures/analysis/r/incomplete-alpha.R on a layout made by our own generator.
 // Published data: R datasets::npk (Yates 1935). Agreement asked for: adjusted means and SEs to
 // 6 significant digits, variance components to 5, Satterthwaite df to 4, p to 1e-6 absolute.
 import { readFileSync } from 'node:fs';
@@ -74,6 +76,7 @@ const cases = [
   'multisite-missing-sv',
   'network',
   'boundary',
+  'incomplete-alpha',
 ];
 
 describe('REML fits against lme4 / lmerTest / emmeans', () => {
