@@ -8,7 +8,4 @@ import path from 'node:path';
 import { networkCsv } from '../db/seed/demo-network';
 import { projectRoot } from '../server/env';
 
-writeFileSync(
-  path.join(projectRoot, 'fixtures/analysis/mixed-demo-network.csv'),
-  `${networkCsv()}\n`,
-);
+writeFileSync(path.join(projectRoot, 'fixtures/analysis/mixed-demo-network.csv'), networkCsv());

@@ -7,6 +7,7 @@
 import { defaultPlausibleRange } from '../../common/trait-presets';
 import { randomizeLayout } from '../../common/layout';
 import { createRandom } from '../../common/random';
+import { writeCsv } from '../../common/csv';
 import type { DB } from '../database';
 import { demoGroup, joinDemoRegister } from './demo-register';
 import type { DemoAccountKey } from './demo-season';
@@ -130,8 +131,9 @@ export function networkSeason(): NetworkPlot[] {
 /** The recorded plots as the analysis reads them (site = garden), for the reference fixture. */
 export function networkCsv(): string {
   const rows = networkSeason().filter((p) => p.yieldG !== null);
-  return ['site,variety,value', ...rows.map((p) => `${p.garden},${p.entryName},${p.yieldG}`)].join(
-    '\n',
+  return writeCsv(
+    ['site', 'variety', 'value'],
+    rows.map((p) => [p.garden, p.entryName, p.yieldG]),
   );
 }
 
