@@ -1,4 +1,5 @@
 import type { OutboxItem } from '../api/outbox';
+import type { useOutbox } from '../api/use-outbox';
 
 const stateLabel: Record<OutboxItem['state'], string> = {
   waiting: 'Waiting',
@@ -112,5 +113,18 @@ export function OutboxPanel({
         <p className="mt-2 text-sm text-loam-700">Nothing entered yet on this device.</p>
       )}
     </section>
+  );
+}
+
+/** The panel for a field-log page's own outbox (`useOutbox`). */
+export function DeviceOutbox({ outbox }: { outbox: ReturnType<typeof useOutbox> }) {
+  return (
+    <OutboxPanel
+      items={outbox.items}
+      online={outbox.online}
+      accountId={outbox.account?.id ?? null}
+      onRetry={() => void outbox.retryNow()}
+      onDiscard={(id) => void outbox.discard(id)}
+    />
   );
 }

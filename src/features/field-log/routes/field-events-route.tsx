@@ -15,7 +15,7 @@ import { useFieldEvents } from '../api/get-field-events';
 import { useOutbox } from '../api/use-outbox';
 import { FieldEventForm } from '../components/field-event-form';
 import { FieldLogCrumbs } from '../components/field-log-crumbs';
-import { OutboxPanel } from '../components/outbox-panel';
+import { DeviceOutbox } from '../components/outbox-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { SiteChooser } from '../components/site-chooser';
 import { mySitesOf, useRoundSite } from '../api/field-log-memory';
@@ -160,13 +160,7 @@ export function Component() {
         <p>Choose a site to record events and see its water.</p>
       )}
 
-      <OutboxPanel
-        items={outbox.items}
-        online={outbox.online}
-        accountId={outbox.account?.id ?? null}
-        onRetry={() => void outbox.retryNow()}
-        onDiscard={(id) => void outbox.discard(id)}
-      />
+      <DeviceOutbox outbox={outbox} />
     </article>
   );
 }

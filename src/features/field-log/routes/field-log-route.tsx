@@ -18,7 +18,7 @@ import {
   ScoreForm,
   StandCountForm,
 } from '../components/entry-forms';
-import { OutboxPanel } from '../components/outbox-panel';
+import { DeviceOutbox } from '../components/outbox-panel';
 import { CautionOnce } from '../components/caution-once';
 import { LabelScanner } from '../components/label-scanner';
 import { PlotPhoto } from '../components/plot-photo';
@@ -239,13 +239,7 @@ export function Component() {
         </section>
       ) : null}
 
-      <OutboxPanel
-        items={outbox.items}
-        online={outbox.online}
-        accountId={outbox.account?.id ?? null}
-        onRetry={() => void outbox.retryNow()}
-        onDiscard={(id) => void outbox.discard(id)}
-      />
+      <DeviceOutbox outbox={outbox} />
     </article>
   );
 }
