@@ -85,6 +85,8 @@ export const photoTagForm = z.object({
   takenOn: blankAsAbsent(isoDate.optional()),
   subject: blankAsNull(z.enum(photoSubjects).nullable()),
 });
+/** The caption typed beside "Add photo" in the field log; the rest is the plot in hand. */
+export const plotPhotoForm = photoTagForm.pick({ caption: true });
 /** What the tag fields hold while a person types. */
 export interface PhotoTagText {
   caption: string;
