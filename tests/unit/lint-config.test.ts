@@ -22,6 +22,16 @@ describe('the lint rules on imports', { timeout: 60_000 }, () => {
     ],
     ['src never imports db/', 'src/lib/lint-probe.ts', "import '../../db/schema';"],
     ['src/app never imports db/', 'src/app/lint-probe.ts', "import '../../db/database';"],
+    [
+      'a feature never imports db/',
+      'src/features/records/lint-probe.ts',
+      "import '../../../db/schema';",
+    ],
+    [
+      'the server never imports the client',
+      'server/records/lint-probe.ts',
+      "import '../../src/lib/api-client';",
+    ],
     ['common never imports src/', 'common/lint-probe.ts', "import '../src/lib/session';"],
     ['common never imports the @ alias', 'common/lint-probe.ts', "import '@/lib/session';"],
     ['common never imports server/', 'common/lint-probe.ts', "import '../server/env';"],
