@@ -1,5 +1,6 @@
 import { utcDateOf } from '@common/calendar-date';
 import {
+  interactionNote,
   licenseLabels,
   sheetModel,
   sheetTraitDecimals,
@@ -24,6 +25,7 @@ import { ScrollRegion } from '@/components/ui/scroll-region';
 import { DataTable } from '@/components/ui/data-table';
 import { createColumnHelper } from '@tanstack/react-table';
 import { directionWords, rankMeans } from '@common/ranking';
+import { CellMeansTable } from './cell-means-table';
 
 function photoUrl(s: ResultSnapshot, photoId: string, variant: 'thumb' | 'display') {
   return `/api/results/${s.trial.slug}/v/${s.version}/photos/${photoId}/${variant}`;
@@ -98,6 +100,39 @@ function meansColumns(t: SheetTrait, unit: DisplayUnit, decimals: number) {
     meanCol.accessor('group', { header: 'Group', meta: { cellClassName: () => 'font-mono' } }),
     meanCol.accessor('n', { header: 'Plots', meta: { align: 'right' } }),
   ];
+}
+
+/**
+ * A two-factor trait: the entries above are ranked on their means over every level of the
+ * treatment; here the strata, the interaction test and the entry × treatment cells.
+ */
+function TreatmentCells({
+  trait: t,
+  unit,
+  decimals,
+}: {
+  trait: SheetTrait;
+  unit: DisplayUnit;
+  decimals: number;
+}) {
+  const two = t.twoFactor!;
+  const factor = two.factor.toLowerCase();
+  return (
+    <div className="mt-3" data-strata={two.layout}>
+      <p className="text-sm text-loam-700">
+        Entries are ranked on their means over all levels of {factor} ({two.levels.join(', ')}).{' '}
+        {two.strata}
+      </p>
+      <p className="text-sm font-semibold">{interactionNote(t)}</p>
+      <CellMeansTable
+        twoFactor={two}
+        varieties={rankMeans(t.means, t.direction).map((m) => m.variety)}
+        traitLabel={t.label}
+        unit={unit}
+        decimals={decimals}
+      />
+    </div>
+  );
 }
 
 /** The results sheet as readers see it; the lead's preview uses the same view. */
@@ -207,6 +242,7 @@ export function SheetView({
               sortable={false}
             />
           </ScrollRegion>
+          {t.twoFactor ? <TreatmentCells trait={t} unit={du(t)} decimals={dm(t)} /> : null}
           {t.warnings.length ? (
             <ul className="mt-1 list-disc pl-5 text-xs text-pod-700">
               {t.warnings.map((w) => (
