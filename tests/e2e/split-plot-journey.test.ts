@@ -1,9 +1,11 @@
 // The fertilizer × variety split plot's analysis page in Debian's Chromium, at 360 px and on
-// desktop: the strata, the interaction plot and its table alternative.
+// desktop: the strata, the interaction plot and its table alternative; then its published sheet
+// (drawn by the server, then in the browser) with the fertilizer's cells.
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { SPLIT_PLOT_SLUG, seedSplitPlotTrial } from '../../db/seed/demo-split-plot';
+import { publish } from '../../server/results/results-service';
 import {
   closeBrowserSuite,
   contextAs,
@@ -21,7 +23,18 @@ const lead = demoAccounts.find((a) => a.key === 'lead')!;
 beforeAll(async () => {
   ({ live, browser } = await openBrowserSuite({ demo: true }));
   await seedSplitPlotTrial(live.db);
-});
+  const leadRow = await live.db
+    .selectFrom('users')
+    .select('id')
+    .where('email', '=', lead.email)
+    .executeTakeFirstOrThrow();
+  await publish(
+    { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
+    SPLIT_PLOT_SLUG,
+    { userId: leadRow.id, isAdmin: false },
+    '',
+  );
+}, 120_000);
 afterAll(() => closeBrowserSuite(live, browser));
 
 describe('a split-plot trial', () => {
@@ -76,6 +89,50 @@ describe('a split-plot trial', () => {
       expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
       await expectNoSeriousA11yViolations(page);
       await screenshot(page, `split-plot-analysis-${viewport.width}`);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+
+  it('publishes a sheet that shows the fertilizer cells and the interaction at 360 px and on desktop', async () => {
+    // The server draws the sheet before any script runs: the cells are in the page itself.
+    const html = (await (await fetch(`${live.url}/r/${SPLIT_PLOT_SLUG}`)).text()).replace(
+      /<!-- -->/g,
+      '',
+    );
+    expect(html).toContain('Cell means: Days to first pods, variety × fertilizer');
+    expect(html).toContain('data-strata="split-plot"');
+    for (const viewport of [
+      { width: 1280, height: 900 },
+      { width: 360, height: 780 },
+    ]) {
+      const context = await browser.newContext({ baseURL: live.url, viewport });
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      await page.goto(`/r/${SPLIT_PLOT_SLUG}`);
+      await page.getByRole('heading', { level: 1 }).waitFor();
+      const cells = page.getByRole('table', {
+        name: /Cell means: Days to first pods, variety × fertilizer/,
+      });
+      await cells.waitFor();
+      await expect(cells.getByRole('columnheader').allTextContents()).resolves.toEqual([
+        expect.stringMatching(/^Variety/),
+        expect.stringMatching(/^none/),
+        expect.stringMatching(/^pre-plant/),
+        expect.stringMatching(/^Over all levels/),
+      ]);
+      await expect(cells.getByRole('rowheader').count()).resolves.toBe(4);
+      await page.getByText(/^Variety × fertilizer: F\(3, 18\) = [\d.]+, p < 0\.001$/).waitFor();
+      await page.getByText(/^Fertilizer means: none /).waitFor();
+      await page
+        .getByText('Entries are ranked on their means over all levels of fertilizer', {
+          exact: false,
+        })
+        .waitFor();
+      const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
+      expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
+      await expectNoSeriousA11yViolations(page);
+      await screenshot(page, `split-plot-sheet-${viewport.width}`);
       expect(errors).toEqual([]);
       await context.close();
     }
