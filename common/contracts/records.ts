@@ -111,12 +111,20 @@ export const maxLogPageSize = 200;
 /** Rows a log page carries when the request does not say. */
 export const defaultLogPageSize = 50;
 
+/** What a record log can be sorted by, across every page (the server sorts). */
+export const logSortKeys = ['date', 'plot', 'entry'] as const;
+export type LogSortKey = (typeof logSortKeys)[number];
+export const sortOrders = ['asc', 'desc'] as const;
+
 /**
- * A page of a record log, newest first: site, date range and a search over the entry, site,
- * plot and note, then `page` (from 1) of `limit` rows.
+ * A page of a record log: site, date range and a search over the entry, site, plot and note;
+ * sorted by `sort` (newest first by default; plot and entry from the lowest unless `order`
+ * says), then `page` (from 1) of `limit` rows.
  */
 const logPageQuery = listQuery.extend({
   q: z.string().trim().max(100, 'Search for at most 100 characters.').optional(),
+  sort: z.enum(logSortKeys, { error: 'Sort by date, plot or entry.' }).default('date'),
+  order: z.enum(sortOrders, { error: 'Sort ascending (asc) or descending (desc).' }).optional(),
   page: z.coerce
     .number({ error: 'The page is a whole number from 1.' })
     .int('The page is a whole number from 1.')

@@ -2,11 +2,12 @@ import {
   type Expression,
   type Insertable,
   type Selectable,
+  type SelectQueryBuilder,
   type SqlBool,
   type Updateable,
   sql,
 } from 'kysely';
-import type { RecordTable } from '../../common/contracts/records';
+import type { LogSortKey, RecordTable } from '../../common/contracts/records';
 import type { DB } from '../../db/database';
 import type { Database, PlotsTable } from '../../db/schema';
 
@@ -272,10 +273,44 @@ export interface ListFilters {
   /** words to find in the entry, site, plot number or note (and the trait of an observation) */
   search?: string;
 }
-/** Which rows of the ordered list one page holds. */
+/** Which rows of the ordered list one page holds, and the column a reader sorted it by. */
 export interface PageWindow {
   offset: number;
   limit: number;
+  sort?: { by: LogSortKey; desc: boolean };
+}
+
+/**
+ * The columns a log sorted by `by` is ordered by first (the log's own order then breaks the
+ * ties): a plot by its number, then its site, as several sites number their plots alike.
+ */
+function sortColumns(by: LogSortKey, date: 'r.harvested_on' | 'r.observed_on') {
+  switch (by) {
+    case 'date':
+      return [date];
+    case 'plot':
+      return ['p.plot_number', 's.name'];
+    case 'entry':
+      return ['e.name', 'e.code'];
+    default: {
+      const never: never = by;
+      return never;
+    }
+  }
+}
+
+/** Orders a log query by the reader's column first, when one was chosen. */
+function sortedFirst<D, TB extends keyof D, O>(
+  query: SelectQueryBuilder<D, TB, O>,
+  window: PageWindow | undefined,
+  date: 'r.harvested_on' | 'r.observed_on',
+): SelectQueryBuilder<D, TB, O> {
+  const sort = window?.sort;
+  if (!sort) return query;
+  return sortColumns(sort.by, date).reduce(
+    (q, column) => q.orderBy(sql.ref(column), sort.desc ? 'desc' : 'asc'),
+    query,
+  );
 }
 
 // Every record list selects its table as `r`, with plots as `p`, sites `s` and entries `e`.
@@ -343,7 +378,7 @@ const harvestsOf = (db: DB, trialId: string, f: HarvestFilters) =>
     .where(plotRecordFilter(f, 'r.harvested_on'))
     .$if(f.grade !== undefined, (q) => q.where('r.grade', '=', f.grade!));
 
-/** Harvests newest first; one page of them when a window is given. */
+/** Harvests newest first (or as the window sorts them); one page of them when a window is given. */
 export function listHarvests(db: DB, trialId: string, f: HarvestFilters, window?: PageWindow) {
   return harvestsOf(db, trialId, f)
     .select([
@@ -355,6 +390,7 @@ export function listHarvests(db: DB, trialId: string, f: HarvestFilters, window?
       'r.grade',
       'r.note',
     ])
+    .$call((q) => sortedFirst(q, window, 'r.harvested_on'))
     .orderBy('r.harvested_on', 'desc')
     .orderBy('s.name')
     .orderBy('p.plot_number')
@@ -385,7 +421,7 @@ const observationsOf = (db: DB, trialId: string, f: ListFilters & { traitId?: st
     .where(plotRecordFilter(f, 'r.observed_on', ['t.label']))
     .$if(f.traitId !== undefined, (q) => q.where('r.trait_id', '=', f.traitId!));
 
-/** Observations newest first; one page of them when a window is given. */
+/** Observations newest first (or as the window sorts them); one page of them when a window is given. */
 export function listObservations(
   db: DB,
   trialId: string,
@@ -406,6 +442,7 @@ export function listObservations(
       'r.plant_number as plantNumber',
       'r.note',
     ])
+    .$call((q) => sortedFirst(q, window, 'r.observed_on'))
     .orderBy('r.observed_on', 'desc')
     .orderBy('s.name')
     .orderBy('p.plot_number')

@@ -14,6 +14,7 @@ import type {
 import {
   type FieldEventInput,
   fieldEventProblems,
+  type LogSortKey,
   observationValueProblem,
 } from '../../common/contracts/records';
 import type { Actor } from '../../common/policy';
@@ -133,12 +134,18 @@ async function logPage<Row, Totals extends { total: number }>(
   db: DB,
   slug: string,
   actor: Actor | null,
-  q: { page: number; limit: number },
+  q: { page: number; limit: number; sort: LogSortKey; order?: 'asc' | 'desc' },
   read: (trialId: string, window: repo.PageWindow) => [Promise<Row[]>, Promise<Totals>],
 ) {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
+  // Newest first unless asked otherwise; plots and entries from the lowest.
+  const desc = q.order ? q.order === 'desc' : q.sort === 'date';
   const [rows, totals] = await Promise.all(
-    read(trial.id, { offset: (q.page - 1) * q.limit, limit: q.limit }),
+    read(trial.id, {
+      offset: (q.page - 1) * q.limit,
+      limit: q.limit,
+      sort: { by: q.sort, desc },
+    }),
   );
   return { rows, page: q.page, limit: q.limit, ...totals };
 }

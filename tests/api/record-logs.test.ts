@@ -150,6 +150,50 @@ describe('the harvest log, a page at a time', () => {
     expect(percent.body.total).toBe(0);
   });
 
+  it('sorts every page by date, plot or entry, either way, before it pages', async () => {
+    type Row = { harvestedOn: string; siteName: string; entryName: string; plotNumber: number };
+    const pageOf = async (query: string) => {
+      const res = await get(log('harvests', `${query}&limit=200`));
+      expect(res.status, query).toBe(200);
+      expect(res.body.total).toBe(HARVESTS);
+      return res.body.harvests as Row[];
+    };
+    // Oldest first: the first 200 of the season's dates sorted up.
+    const oldest = await pageOf('sort=date&order=asc');
+    const dates = seeded.map((h) => h.date).sort();
+    expect(oldest.map((h) => h.harvestedOn)).toEqual(dates.slice(0, 200));
+    // Both plots are numbered 101 (one at each site): by plot, then site, then newest first.
+    const site = { A: 'Site A', B: 'Site B' } as const;
+    const byPlot = (desc: boolean) =>
+      [...seeded]
+        .sort(
+          (a, b) =>
+            (desc ? -1 : 1) * site[a.plot].localeCompare(site[b.plot]) ||
+            b.date.localeCompare(a.date),
+        )
+        .map((h) => `${site[h.plot]} ${h.date}`);
+    const plotKey = (h: Row) => `${h.siteName} ${h.harvestedOn}`;
+    expect((await pageOf('sort=plot')).map(plotKey)).toEqual(byPlot(false).slice(0, 200));
+    expect((await pageOf('sort=plot&order=desc')).map(plotKey)).toEqual(byPlot(true).slice(0, 200));
+    // By entry: Matrix Green grows on plot A, Matrix Red on plot B; descending starts at Red.
+    const reds = seeded.filter((h) => h.plot === 'B').length;
+    const lastPage = Math.ceil(HARVESTS / 200);
+    const red = await pageOf('sort=entry&order=desc');
+    expect(new Set(red.map((h) => h.entryName))).toEqual(new Set(['Matrix Red']));
+    const green = await get(log('harvests', `sort=entry&limit=200&page=${lastPage}`));
+    // Ascending, the last page holds the last of the Red harvests, oldest last.
+    const tail: Row[] = green.body.harvests;
+    expect(tail.every((h) => h.entryName === 'Matrix Red')).toBe(true);
+    expect(tail).toHaveLength(HARVESTS - (lastPage - 1) * 200);
+    expect(tail.at(-1)!.harvestedOn).toBe(
+      seeded
+        .filter((h) => h.plot === 'B')
+        .map((h) => h.date)
+        .sort()[0],
+    );
+    expect(reds).toBeGreaterThan(200);
+  });
+
   it('refuses bad filters with 400 naming the field', async () => {
     const cases: [string, string][] = [
       ['from=2026-02-30', 'query.from'],
@@ -161,6 +205,8 @@ describe('the harvest log, a page at a time', () => {
       ['page=two', 'query.page'],
       ['limit=201', 'query.limit'],
       ['limit=0', 'query.limit'],
+      ['sort=mass', 'query.sort'],
+      ['sort=date&order=up', 'query.order'],
     ];
     for (const [query, path] of cases) {
       const res = await get(log('harvests', query));

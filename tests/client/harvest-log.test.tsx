@@ -4,7 +4,7 @@
  * log asks the server for one page at a time with the filters chosen, and checks them first.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { act, fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { act, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { Profiler } from 'react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
@@ -102,7 +102,7 @@ describe('the harvest log', () => {
 });
 
 describe('the harvest log, a page at a time', () => {
-  it('asks for the next page and for the filters chosen, and refuses a reversed date range without asking', async () => {
+  it('asks for the next page, the order and the filters chosen, and refuses a reversed date range without asking', async () => {
     const asked: URL[] = [];
     vi.stubGlobal(
       'fetch',
@@ -149,6 +149,26 @@ describe('the harvest log, a page at a time', () => {
     expect((screen.getByRole('button', { name: 'Next page' }) as HTMLButtonElement).disabled).toBe(
       true,
     );
+
+    // A sort goes to the server (it sorts every page, not this one) and starts from the first
+    // page; the headers say the order, newest first until asked otherwise.
+    const header = (name: string) => screen.getByRole('columnheader', { name });
+    expect(header('Date').getAttribute('aria-sort')).toBe('descending');
+    fireEvent.click(screen.getByRole('button', { name: /^Plot/ }));
+    await waitFor(() => expect(asked.at(-1)!.searchParams.get('sort')).toBe('plot'));
+    expect(asked.at(-1)!.searchParams.get('order')).toBe('asc');
+    expect(asked.at(-1)!.searchParams.get('page')).toBe('1');
+    await screen.findByText('Rows 1–50 of 120 · page 1 of 3');
+    expect(header('Plot').getAttribute('aria-sort')).toBe('ascending');
+    expect(header('Date').getAttribute('aria-sort')).toBeNull();
+    fireEvent.click(screen.getByRole('button', { name: /^Plot/ }));
+    await waitFor(() => expect(asked.at(-1)!.searchParams.get('order')).toBe('desc'));
+    await waitFor(() => expect(header('Plot').getAttribute('aria-sort')).toBe('descending'));
+    // The rows stay in the server's order (this fake server does not sort: plot 100 first).
+    const firstRow = within(screen.getByRole('table')).getAllByRole('row')[1]!;
+    expect(within(firstRow).getAllByRole('cell')[2]!.textContent).toBe('100');
+    // Columns the server does not sort by have no sort button.
+    expect(screen.queryByRole('button', { name: /^Mass/ })).toBeNull();
 
     // A filter starts its list from the first page and goes to the server.
     fireEvent.change(screen.getByLabelText('Site'), { target: { value: trial.sites[0]!.id } });

@@ -44,6 +44,13 @@ export interface DataTableProps<T> {
   chooseColumns?: boolean;
   /** False where the order of the rows is itself the content. */
   sortable?: boolean;
+  /**
+   * Rows that arrive already sorted (by the server, across pages): the headers show and change
+   * this order and the table keeps the rows as given. One column at a time, never none.
+   */
+  sort?: { state: SortingState; onChange: (next: SortingState) => void };
+  /** A new set of rows is on its way (aria-busy). */
+  busy?: boolean;
   /** Extra classes for the table (e.g. a minimum width before it scrolls sideways). */
   className?: string;
 }
@@ -59,15 +66,25 @@ export function DataTable<T>({
   chooseColumns = false,
   showCaption = false,
   sortable = true,
+  sort,
+  busy,
   className = '',
 }: DataTableProps<T>) {
-  const [sorting, setSorting] = useState<SortingState>([]);
+  const [ownSorting, setOwnSorting] = useState<SortingState>([]);
+  const sorting = sort?.state ?? ownSorting;
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>({});
   const table = useReactTable({
     data,
     columns,
     state: { sorting, columnVisibility },
-    onSortingChange: setSorting,
+    onSortingChange: (change) => {
+      const next = typeof change === 'function' ? change(sorting) : change;
+      if (sort) sort.onChange(next);
+      else setOwnSorting(next);
+    },
+    manualSorting: sort !== undefined,
+    enableSortingRemoval: sort === undefined,
+    enableMultiSort: sort === undefined,
     onColumnVisibilityChange: setColumnVisibility,
     enableSorting: sortable,
     getRowId: (row: T) => rowId(row),
@@ -100,7 +117,7 @@ export function DataTable<T>({
           </div>
         </fieldset>
       ) : null}
-      <table className={`w-full text-left text-sm ${className}`}>
+      <table className={`w-full text-left text-sm ${className}`} aria-busy={busy || undefined}>
         <caption className={showCaption ? 'p-2 text-left font-semibold text-leaf-900' : 'sr-only'}>
           {caption}
         </caption>

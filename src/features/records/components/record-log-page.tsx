@@ -3,11 +3,13 @@
  * kind's own choice, a search), one page of rows from the server newest first, a pager, edit
  * in place with the version read (a stale save shows what changed), delete with undo.
  */
-import type { ConflictDetails } from '@common/contracts/records';
+import type { ConflictDetails, LogSortKey } from '@common/contracts/records';
+import { type ColumnDef, createColumnHelper, type SortingState } from '@tanstack/react-table';
 import { keepPreviousData, type QueryKey, useQuery } from '@tanstack/react-query';
 import { type ReactNode, useCallback, useEffect, useState } from 'react';
 import { useParams, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
+import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
@@ -30,6 +32,10 @@ export interface LogColumn<R, D> {
   header: string;
   cell: (row: R) => ReactNode;
   edit?: (draft: D, change: (next: D) => void, row: R) => ReactNode;
+  /** The server's sort key when the log can be sorted by this column (across every page). */
+  sort?: LogSortKey;
+  /** Numbers line up on the right. */
+  align?: 'right';
 }
 
 /** The filters a log page is asked for, as the address holds them. */
@@ -82,7 +88,13 @@ export interface RecordLogKind<R extends Stored, D, T extends PageOf = PageOf> {
 
 /** Filters typed into the search box reach the address after this pause. */
 const SEARCH_PAUSE_MS = 300;
-const filterFields = ['siteId', 'from', 'to', 'q'] as const;
+const filterFields = ['siteId', 'from', 'to', 'q', 'sort', 'order'] as const;
+
+/** The order the address asks for, as the table's sort state: newest first unless it says. */
+function sortingOf(filters: LogFilters): SortingState {
+  const by = String(filters.sort ?? 'date');
+  return [{ id: by, desc: filters.order ? filters.order === 'desc' : by === 'date' }];
+}
 
 /** The filters in the address, with the page (from 1). */
 function useLogFilters(choiceField: string) {
@@ -107,7 +119,22 @@ function useLogFilters(choiceField: string) {
       ),
     [setParams],
   );
-  return [filters, set] as const;
+  /** Another order starts from the first page again. */
+  const setSort = useCallback(
+    (by: string, desc: boolean) =>
+      setParams(
+        (p) => {
+          const next = new URLSearchParams(p);
+          next.set('sort', by);
+          next.set('order', desc ? 'desc' : 'asc');
+          next.delete('page');
+          return next;
+        },
+        { replace: true },
+      ),
+    [setParams],
+  );
+  return [filters, set, setSort] as const;
 }
 
 /** The route around a log: the trial, then the log once it is loaded. */
@@ -133,7 +160,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
   useKind: (slug: string, trial: TrialWithPermissions) => RecordLogKind<R, D, T>;
 }) {
   const kind = useKind(slug, trial);
-  const [filters, setFilter] = useLogFilters(kind.choice.field);
+  const [filters, setFilter, setSort] = useLogFilters(kind.choice.field);
   const checked = kind.query.safeParse(filters);
   const list = useQuery({
     ...kind.list(filters),
@@ -148,7 +175,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
     return () => clearTimeout(timer);
   }, [search, filters.q, setFilter]);
 
-  const [draft, setDraft] = useState<{ id: string; version: number; values: D } | null>(null);
+  const [draft, setDraft] = useState<Draft<D> | null>(null);
   const [conflict, setConflict] = useState<ConflictDetails | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
   const [deleted, setDeleted] = useState<R | null>(null);
@@ -270,67 +297,43 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
       ) : (
         <>
           <ScrollRegion label={heading} className="rounded-lg bg-white shadow-sm">
-            <table
-              className="w-full min-w-[48rem] text-left text-sm"
-              aria-busy={list.isFetching || undefined}
-            >
-              <caption className="p-2 text-left text-loam-700">{data.summary}</caption>
-              <thead className="bg-leaf-50">
-                <tr>
-                  {data.columns.map((c) => (
-                    <th key={c.header} scope="col" className="p-2 font-semibold">
-                      {c.header}
-                    </th>
-                  ))}
-                  {canWrite ? (
-                    <th scope="col" className="p-2 font-semibold">
-                      Change
-                    </th>
-                  ) : null}
-                </tr>
-              </thead>
-              <tbody>
-                {data.rows.map((row) => {
-                  const editing = draft?.id === row.id ? draft : null;
-                  return (
-                    <tr
-                      key={row.id}
-                      className={`border-t border-leaf-50 ${editing ? 'bg-straw-50' : ''}`}
-                    >
-                      {data.columns.map((c) => (
-                        <td key={c.header} className={editing && c.edit ? 'p-1' : 'p-2'}>
-                          {editing && c.edit
-                            ? c.edit(
-                                editing.values,
-                                (values) => setDraft({ ...editing, values }),
-                                row,
-                              )
-                            : c.cell(row)}
-                        </td>
-                      ))}
-                      {canWrite ? (
-                        <td className="flex gap-1 p-1">
-                          {editing ? (
-                            <EditActions
-                              onSave={() => void save(row)}
-                              onCancel={() => setDraft(null)}
-                              saving={kind.saving}
-                            />
-                          ) : (
-                            <RowActions
-                              onEdit={() => startEdit(row)}
-                              onDelete={() => void deleteRow(row)}
-                              editLabel={`Edit ${kind.rowName(row)}`}
-                              deleteLabel={`Delete ${kind.rowName(row)}`}
-                            />
-                          )}
-                        </td>
-                      ) : null}
-                    </tr>
-                  );
-                })}
-              </tbody>
-            </table>
+            <DataTable
+              showCaption
+              caption={data.summary}
+              className="min-w-[48rem]"
+              busy={list.isFetching}
+              data={data.rows}
+              rowId={(row) => row.id}
+              columns={logColumns(data.columns, {
+                draft,
+                setDraft,
+                actions: canWrite
+                  ? (row, editing) =>
+                      editing ? (
+                        <EditActions
+                          onSave={() => void save(row)}
+                          onCancel={() => setDraft(null)}
+                          saving={kind.saving}
+                        />
+                      ) : (
+                        <RowActions
+                          onEdit={() => startEdit(row)}
+                          onDelete={() => void deleteRow(row)}
+                          editLabel={`Edit ${kind.rowName(row)}`}
+                          deleteLabel={`Delete ${kind.rowName(row)}`}
+                        />
+                      )
+                  : null,
+              })}
+              sort={{
+                state: sortingOf(filters),
+                onChange: ([first]) => {
+                  if (!first) return;
+                  setDraft(null);
+                  setSort(first.id, first.desc);
+                },
+              }}
+            />
           </ScrollRegion>
           <Pager
             label={`Pages of the ${kind.title.toLowerCase()}`}
@@ -360,6 +363,59 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
       ) : null}
     </article>
   );
+}
+
+type Draft<D> = { id: string; version: number; values: D };
+
+/**
+ * The log's columns for the one table: a row being edited shows its inputs in place, and the
+ * last column holds the row's buttons when the reader may change records.
+ */
+function logColumns<R extends Stored, D>(
+  columns: LogColumn<R, D>[],
+  {
+    draft,
+    setDraft,
+    actions,
+  }: {
+    draft: Draft<D> | null;
+    setDraft: (draft: Draft<D>) => void;
+    actions: ((row: R, editing: boolean) => ReactNode) | null;
+  },
+): ColumnDef<R, any>[] {
+  const col = createColumnHelper<R>();
+  const editing = (row: R) => (draft?.id === row.id ? draft : null);
+  const highlight = (row: R) => (editing(row) ? 'bg-straw-50' : '');
+  return [
+    ...columns.map((c) =>
+      // The server sorts (across pages); the value is only what makes the header a sort button.
+      col.accessor((row) => row.id, {
+        id: c.sort ?? c.header,
+        header: c.header,
+        enableSorting: c.sort !== undefined,
+        sortDescFirst: c.sort === 'date',
+        cell: ({ row: { original: row } }) => {
+          const d = editing(row);
+          return d && c.edit
+            ? c.edit(d.values, (values) => setDraft({ ...d, values }), row)
+            : c.cell(row);
+        },
+        meta: { align: c.align, cellClassName: highlight },
+      }),
+    ),
+    ...(actions
+      ? [
+          col.display({
+            id: 'change',
+            header: 'Change',
+            cell: ({ row: { original: row } }) => (
+              <span className="flex gap-1">{actions(row, editing(row) !== null)}</span>
+            ),
+            meta: { cellClassName: highlight },
+          }),
+        ]
+      : []),
+  ];
 }
 
 /** Previous and next, and where this page stands: "Rows 51–100 of 2,158 · page 2 of 44". */

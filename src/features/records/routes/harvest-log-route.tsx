@@ -71,19 +71,22 @@ function useHarvestLog(
         columns: [
           {
             header: 'Date',
+            sort: 'date',
             cell: (h) => h.harvestedOn,
             edit: editText<Draft>('harvestedOn', 'Date', { type: () => 'date' }),
           },
           { header: 'Site', cell: (h) => h.siteName },
-          { header: 'Plot', cell: (h) => h.plotNumber },
-          { header: 'Entry', cell: (h) => `${h.entryName} (${h.entryCode})` },
+          { header: 'Plot', sort: 'plot', align: 'right', cell: (h) => h.plotNumber },
+          { header: 'Entry', sort: 'entry', cell: (h) => `${h.entryName} (${h.entryCode})` },
           {
             header: 'Fruit',
+            align: 'right',
             cell: (h) => h.fruitCount,
             edit: editText<Draft>('fruitCount', 'Fruit count', { inputMode: 'numeric' }),
           },
           {
             header: `Mass (${col.shown.label})`,
+            align: 'right',
             cell: (h) => (
               <>
                 {formatScaled(h.massG, col.shown, decimals)}

@@ -95,19 +95,20 @@ function useObservationLog(
           };
         },
         columns: [
-          { header: 'Date', cell: (o) => o.observedOn },
+          { header: 'Date', sort: 'date', cell: (o) => o.observedOn },
           { header: 'Site', cell: (o) => o.siteName },
-          { header: 'Plot', cell: (o) => o.plotNumber },
-          { header: 'Entry', cell: (o) => `${o.entryName} (${o.entryCode})` },
+          { header: 'Plot', sort: 'plot', align: 'right', cell: (o) => o.plotNumber },
+          { header: 'Entry', sort: 'entry', cell: (o) => `${o.entryName} (${o.entryCode})` },
           {
             header: 'Trait',
             cell: (o) =>
               unitLabel(o.traitId) ? `${o.traitLabel} (${unitLabel(o.traitId)})` : o.traitLabel,
           },
-          { header: 'Plant', cell: (o) => o.plantNumber },
+          { header: 'Plant', align: 'right', cell: (o) => o.plantNumber },
           {
             // With one trait shown, the heading names its unit once.
             header: only && unitLabel(only) ? `Value (${unitLabel(only)})` : 'Value',
+            align: 'right',
             cell: show,
             edit: editText<Draft>('value', (x) => `Value${x.unit ? ` (${x.unit})` : ''}`, {
               type: (x) => (x.isDate ? 'date' : 'text'),
