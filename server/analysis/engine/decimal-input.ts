@@ -162,6 +162,16 @@ export function addOffset(offset: string, deviation: number): number {
   // One analysis adds the same offset to every mean: read it once.
   if (offset !== lastOffset.text) lastOffset = readOffset(offset);
   const o = lastOffset;
+  // The same deviation comes back (an entry's mean and its adjusted mean on a balanced layout).
+  const known = o.sums.get(deviation);
+  if (known !== undefined) return known;
+  const sum = exactSum(o, deviation);
+  if (o.sums.size >= 4096) o.sums.clear();
+  o.sums.set(deviation, sum);
+  return sum;
+}
+
+function exactSum(o: Offset, deviation: number): number {
   // The deviation is taken as its shortest decimal text (as the exact sum below reads it).
   // When both are short fixed-point numbers the sum is an integer count of 10^-scale below
   // 2^53: exact in double, and one division by an exact power of ten rounds it once.
@@ -176,7 +186,7 @@ export function addOffset(offset: string, deviation: number): number {
         return sum / POWERS_OF_TEN[scale]!;
     }
   }
-  o.exact ??= new Decimal(offset);
+  o.exact ??= new Decimal(o.text);
   return o.exact.plus(new Decimal(deviation)).toNumber();
 }
 
@@ -184,6 +194,8 @@ interface Offset {
   text: string;
   /** Exact decimal, made on first use. */
   exact: Decimal | null;
+  /** Sums already worked out, by deviation. */
+  sums: Map<number, number>;
   /** The text as int × 10^-scale, scale −1 when it is not short plain fixed-point. */
   int: number;
   scale: number;
@@ -191,7 +203,7 @@ interface Offset {
 
 function readOffset(text: string): Offset {
   const scale = readScaled(text, scratch, 0);
-  return { text, exact: null, int: scale >= 0 ? scratch[0]! : 0, scale };
+  return { text, exact: null, sums: new Map(), int: scale >= 0 ? scratch[0]! : 0, scale };
 }
 
 const TWO_53 = 2 ** 53;

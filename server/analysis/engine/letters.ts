@@ -117,12 +117,14 @@ export function compactLettersWithin(
 
   // Letter order: by the best (lowest-position) member, then by the next members.
   const has = (g: number[], p: number) => ((g[wordOf[p]!]! & bitOf[p]!) !== 0 ? 1 : 0);
-  const firstMember = (g: number[]) => {
-    for (let p = 0; p < k; p++) if (has(g, p)) return p;
-    return k;
-  };
+  const firstMember = new Map<number[], number>();
+  for (const g of groups) {
+    let p = 0;
+    while (p < k && !has(g, p)) p++;
+    firstMember.set(g, p);
+  }
   groups = groups.slice().sort((a, b) => {
-    for (let p = Math.min(firstMember(a), firstMember(b)); p < k; p++) {
+    for (let p = Math.min(firstMember.get(a)!, firstMember.get(b)!); p < k; p++) {
       const d = has(b, p) - has(a, p);
       if (d !== 0) return d;
     }
