@@ -186,6 +186,11 @@ export function absorbedBlockSs(
     n: new Float64Array(k),
   }));
   const count = new Float64Array(k);
+  // A site whose every block holds the same entries once each is complete (orthogonal): its
+  // system C = r(I − J/k) is solved in closed form. Per site: blocks, and the entries of its
+  // first block (-1 once a block differs or holds an entry twice).
+  const siteBlocks = new Int32Array(nSites);
+  const siteWidth = new Int32Array(nSites).fill(-2);
   for (let start = 0; start < n;) {
     const b = block[order[start]!]!;
     let end = start;
@@ -199,6 +204,10 @@ export function absorbedBlockSs(
     }
     const sys = perSite[siteOfBlock[b]!]!;
     const nb = end - start;
+    const sb = siteOfBlock[b]!;
+    siteBlocks[sb]!++;
+    if (siteWidth[sb] === -2) siteWidth[sb] = present.length;
+    if (present.length !== nb || present.length !== siteWidth[sb]) siteWidth[sb] = -1;
     for (const e of present) {
       const ce = count[e]!;
       sys.n[e] = sys.n[e]! + ce;
@@ -215,7 +224,13 @@ export function absorbedBlockSs(
 
   const whole: Reduced = perSite.length === 1 ? perSite[0]! : sumSystems(perSite, k);
   const variety = solveReduced(whole, k);
-  const solutions = site ? perSite.map((sys) => solveReduced(sys, k)) : [variety];
+  const solutions = site
+    ? perSite.map(
+        (sys, g) =>
+          (siteWidth[g]! >= 0 && completeSolution(sys, k, siteBlocks[g]!, siteWidth[g]!)) ||
+          solveReduced(sys, k),
+      )
+    : [variety];
 
   // Residual plot by plot: y − ȳ_block − (τ_e − mean of τ over the block's plots).
   const tauBlockSum = new Float64Array(blocks);
@@ -250,6 +265,31 @@ export function absorbedBlockSs(
     residualSs,
     totalSs,
   };
+}
+
+/**
+ * The solution of a complete site's system, or null when the site is not complete. Complete:
+ * each of its `blocks` blocks holds `width` entries once each (checked by the caller) and every
+ * entry present has a plot in every block, so all blocks hold the same entries. Then
+ * C = r(I − J/width) on those entries and Q sums to zero, so τ = Q / r, the reduction is Qᵀτ
+ * and the rank is width − 1.
+ */
+function completeSolution(sys: Reduced, k: number, blocks: number, width: number): Solution | null {
+  let present = 0;
+  for (let e = 0; e < k; e++) {
+    if (sys.n[e] === 0) continue;
+    if (sys.n[e] !== blocks) return null;
+    present++;
+  }
+  if (present !== width) return null;
+  const tau = new Float64Array(k);
+  let ss = 0;
+  for (let e = 0; e < k; e++) {
+    if (sys.n[e] === 0) continue;
+    tau[e] = sys.q[e]! / blocks;
+    ss += sys.q[e]! * tau[e]!;
+  }
+  return { rank: width - 1, ss, tau };
 }
 
 function sumSystems(systems: Reduced[], k: number): Reduced {
