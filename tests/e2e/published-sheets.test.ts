@@ -42,6 +42,19 @@ beforeAll(async () => {
 }, 120_000);
 afterAll(() => closeBrowserSuite(live, browser));
 
+/** The register's address of the okra entry Mossbank Long, read from the tables. */
+const mossbankSlug = async () =>
+  (
+    await live.db
+      .selectFrom('entries as e')
+      .innerJoin('trials as t', 't.id', 'e.trial_id')
+      .innerJoin('varieties as v', 'v.id', 'e.variety_id')
+      .select('v.slug')
+      .where('t.slug', '=', SLUG)
+      .where('e.name', '=', 'Mossbank Long')
+      .executeTakeFirstOrThrow()
+  ).slug;
+
 const viewports = [
   { width: 1280, height: 900 },
   { width: 360, height: 780 },
@@ -92,6 +105,21 @@ describe('reaching a published sheet', () => {
       await expect(
         page.evaluate(async () => (await navigator.serviceWorker.getRegistrations()).length),
       ).resolves.toBe(0);
+
+      // From the ranking to a variety's page, still signed out: the figures this sheet published.
+      await page
+        .getByRole('table', { name: /Entries ranked/ })
+        .getByRole('link', { name: 'Mossbank Long' })
+        .click();
+      await page.waitForURL(`**/varieties/${await mossbankSlug()}`);
+      await page.getByRole('heading', { level: 1, name: 'Mossbank Long' }).waitFor();
+      await page
+        .getByRole('region', { name: 'Figures season by season' })
+        .getByRole('link', { name: TITLE })
+        .first()
+        .waitFor();
+      await page.getByText('published version 1').first().waitFor();
+      await expectFits(page, viewport.width);
       expect(errors).toEqual([]);
       await context.close();
     }
@@ -146,6 +174,9 @@ describe('the sheet drawn on the server', () => {
     const embedded = JSON.parse(data![1]!) as { trial: { slug: string }; version: number };
     expect(embedded.trial.slug).toBe(SLUG);
     expect(embedded.version).toBe(1);
+    // Each entry links to its variety's page in the server's drawing too.
+    const drawn = html.slice(html.indexOf('id="sheet-prerender"'), html.indexOf('id="sheet-data"'));
+    expect(drawn).toContain(`href="/varieties/${await mossbankSlug()}"`);
     // A version's own address is drawn too; one that does not exist gets the plain page.
     await expect(fetch(`${live.url}/r/${SLUG}/v/1`).then((r) => r.text())).resolves.toContain(
       'id="sheet-prerender"',

@@ -55,7 +55,10 @@ function rankingColumns(
       cell: (c) => c.getValue(),
       meta: { cellClassName: () => 'font-semibold' },
     }),
-    rankingCol.accessor('variety', { header: 'Variety' }),
+    rankingCol.accessor('variety', {
+      header: 'Variety',
+      cell: (c) => <VarietyName sheet={sheet} name={c.getValue()} />,
+    }),
     rankingCol.accessor('index', {
       header: 'Index',
       cell: (c) => displayNumber(c.getValue(), 2),
@@ -73,6 +76,20 @@ function rankingColumns(
       }),
     ),
   ];
+}
+
+/**
+ * An entry's name, linked to its register variety's page when the entry names one (readers
+ * signed out see there what published versions show). A plain link: the server draws this too.
+ */
+function VarietyName({ sheet, name }: { sheet: ResultSnapshot; name: string }) {
+  const slug = sheet.entries.find((e) => e.name === name)?.varietySlug;
+  if (!slug) return <>{name}</>;
+  return (
+    <a className="text-leaf-800 underline" href={`/varieties/${slug}`}>
+      {name}
+    </a>
+  );
 }
 
 /** One trait's entry means, best first: rank (when the trait has a direction), mean ± SE, letters, plots. */
@@ -291,7 +308,7 @@ export function SheetView({
               .map((e) => (
                 <div key={e.id} className="rounded-lg bg-white p-3 shadow-sm">
                   <dt className="font-semibold">
-                    {e.name}{' '}
+                    <VarietyName sheet={sheet} name={e.name} />{' '}
                     <span className="text-sm font-normal text-loam-700">
                       ({e.seedSource || 'seed source not given'})
                     </span>
