@@ -456,6 +456,26 @@ export const importRowErrorSchema = z.object({
   message: z.string(),
 });
 export type ImportRowError = z.infer<typeof importRowErrorSchema>;
+/** What a row of an import would record, in stored units (the reader's units are the client's). */
+export const importedRecordSchema = z.discriminatedUnion('kind', [
+  z.object({
+    kind: z.literal('harvest'),
+    date: z.string(),
+    fruitCount: z.number().int(),
+    massG: z.number(),
+    grade: z.enum(harvestGrades),
+  }),
+  z.object({
+    kind: z.literal('observation'),
+    date: z.string(),
+    traitKey: z.string(),
+    traitLabel: z.string(),
+    plantNumber: z.number().int().nullable(),
+    value: z.number().nullable(),
+    valueDate: z.string().nullable(),
+  }),
+]);
+export type ImportedRecord = z.infer<typeof importedRecordSchema>;
 export const importPreviewSchema = z.object({
   kind: z.enum(importKinds),
   columns: z.array(z.string()),
@@ -464,7 +484,7 @@ export const importPreviewSchema = z.object({
       row: z.number().int(),
       status: z.enum(['new', 'already_recorded', 'error']),
       plotLabel: z.string(),
-      summary: z.string(),
+      record: importedRecordSchema,
     }),
   ),
   errors: z.array(importRowErrorSchema),

@@ -1,7 +1,12 @@
 import { createHash } from 'node:crypto';
 import { parse } from 'csv-parse/sync';
 import { decimalsFor, exportNumber, recordedDecimals } from '../../common/precision';
-import type { ExportDataset, ImportKind, ImportPreview } from '../../common/contracts/records';
+import type {
+  ExportDataset,
+  ImportedRecord,
+  ImportKind,
+  ImportPreview,
+} from '../../common/contracts/records';
 import { storedUnitOf } from '../../common/contracts/records';
 import {
   type CsvCheck,
@@ -102,9 +107,6 @@ async function lookupsFor(
   };
 }
 
-/** Counts and scores are numbers without a unit. */
-const unitless = new Set(['count', 'score']);
-
 interface Checked {
   loaded: LoadedTrial;
   forbiddenRows: number[];
@@ -167,10 +169,24 @@ async function check(
     else r.id = null; // an id from another trial's export: a new record here
   }
   const errorRows = new Set(errors.map((e) => e.row));
-  const describe = (r: (typeof result.records)[number]) =>
+  const recordOf = (r: (typeof result.records)[number]): ImportedRecord =>
     'harvestedOn' in r
-      ? `${r.harvestedOn}: ${r.fruitCount} fruit, ${Math.round(r.massG * 10) / 10} g, ${r.grade}`
-      : `${r.observedOn}: ${r.trait.label}${r.plantNumber ? ` plant ${r.plantNumber}` : ''} = ${r.value ?? r.valueDate}${r.value !== null && !unitless.has(r.trait.quantityKind) ? ` ${storedUnitOf(r.trait.quantityKind)}` : ''}`;
+      ? {
+          kind: 'harvest',
+          date: r.harvestedOn,
+          fruitCount: r.fruitCount,
+          massG: r.massG,
+          grade: r.grade,
+        }
+      : {
+          kind: 'observation',
+          date: r.observedOn,
+          traitKey: r.trait.key,
+          traitLabel: r.trait.label,
+          plantNumber: r.plantNumber,
+          value: r.value,
+          valueDate: r.valueDate,
+        };
   const preview: ImportPreview = {
     kind,
     columns: result.columns,
@@ -178,7 +194,7 @@ async function check(
       row: r.row,
       status: errorRows.has(r.row) ? 'error' : already.has(r) ? 'already_recorded' : 'new',
       plotLabel: r.plot.label,
-      summary: describe(r),
+      record: recordOf(r),
     })),
     errors: errors.sort((a, b) => a.row - b.row),
     newCount: result.records.filter((r) => !already.has(r) && !errorRows.has(r.row)).length,

@@ -239,12 +239,27 @@ describe('a sheet with bad rows', () => {
     ]);
     // Row 2 is good: one harvest and four observations, the decimal comma read as a point.
     expect(res.body.newCount).toBe(5);
-    expect(res.body.rows.map((r: { summary: string }) => r.summary)).toEqual([
-      `${today}: 12 fruit, 1800 g, marketable`,
-      `${today}: Plant height plant 1 = 410 mm`,
-      `${today}: Plant height plant 2 = 395 mm`,
-      `${today}: Disease = 2`,
-      `${today}: Pods set = 30`,
+    // What each would record, in stored units (g, mm): the reader's units are the client's.
+    const seen = (
+      traitKey: string,
+      traitLabel: string,
+      plantNumber: number | null,
+      value: number,
+    ) => ({
+      kind: 'observation',
+      date: today,
+      traitKey,
+      traitLabel,
+      plantNumber,
+      value,
+      valueDate: null,
+    });
+    expect(res.body.rows.map((r: { record: unknown }) => r.record)).toEqual([
+      { kind: 'harvest', date: today, fruitCount: 12, massG: 1800, grade: 'marketable' },
+      seen('plant_height', 'Plant height', 1, 410),
+      seen('plant_height', 'Plant height', 2, 395),
+      seen('disease', 'Disease', null, 2),
+      seen('pods_set', 'Pods set', null, 30),
     ]);
   });
 

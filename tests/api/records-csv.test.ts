@@ -164,7 +164,7 @@ describe('a file with bad rows', () => {
         row: 6,
         status: 'new',
         plotLabel: 'Tansy Row plot 102 (LW)',
-        summary: `${today}: 3 fruit, 41.5 g, marketable`,
+        record: { kind: 'harvest', date: today, fruitCount: 3, massG: 41.5, grade: 'marketable' },
       },
     ]);
   });

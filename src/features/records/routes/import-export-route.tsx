@@ -6,10 +6,11 @@ import { Link, useParams } from 'react-router-dom';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { ApiError } from '@/lib/api-client';
+import { useUnitSystem } from '@/lib/session';
 import { useTrial } from '@/lib/trial';
 import { exportUrl, previewImport, useCommitImport } from '../api/record-api';
+import { ImportProblems, ImportRowsRead } from '../components/import-tables';
 import { RecordsNav } from '../components/records-nav';
-import { ScrollRegion } from '@/components/ui/scroll-region';
 
 const downloads = [
   ['harvests', 'Harvests (raw, one row per harvest; mass_g)'],
@@ -25,6 +26,7 @@ const downloads = [
 export function Component() {
   const { slug = '' } = useParams();
   const trial = useTrial(slug);
+  const units = useUnitSystem();
   const [kind, setKind] = useState<ImportKind>('harvests');
   const [csv, setCsv] = useState('');
   const [fileName, setFileName] = useState<string | null>(null);
@@ -199,60 +201,8 @@ export function Component() {
                 {preview.newCount} new · {preview.alreadyRecordedCount} already recorded ·{' '}
                 {preview.errors.length} problems
               </p>
-              {preview.errors.length ? (
-                <ScrollRegion label="Problems in the file">
-                  <table className="w-full text-left text-sm">
-                    <caption className="text-left font-semibold text-frost-600">
-                      Problems (nothing will be imported until they are fixed)
-                    </caption>
-                    <thead className="bg-straw-100">
-                      <tr>
-                        <th className="p-2">Row</th>
-                        <th className="p-2">Column</th>
-                        <th className="p-2">Problem</th>
-                      </tr>
-                    </thead>
-                    <tbody>
-                      {preview.errors.map((e, i) => (
-                        <tr key={i} className="border-t border-leaf-50">
-                          <td className="p-2">{e.row}</td>
-                          <td className="p-2 font-mono">{e.column}</td>
-                          <td className="p-2">{e.message}</td>
-                        </tr>
-                      ))}
-                    </tbody>
-                  </table>
-                </ScrollRegion>
-              ) : null}
-              <ScrollRegion label="Rows read" className="max-h-80 overflow-y-auto">
-                <table className="w-full text-left text-sm">
-                  <caption className="text-left font-semibold">Rows read</caption>
-                  <thead className="bg-leaf-50">
-                    <tr>
-                      <th className="p-2">Row</th>
-                      <th className="p-2">Plot</th>
-                      <th className="p-2">Record</th>
-                      <th className="p-2">Status</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {preview.rows.map((r, i) => (
-                      <tr key={i} className="border-t border-leaf-50">
-                        <td className="p-2">{r.row}</td>
-                        <td className="p-2">{r.plotLabel}</td>
-                        <td className="p-2">{r.summary}</td>
-                        <td className="p-2">
-                          {r.status === 'new'
-                            ? 'new'
-                            : r.status === 'already_recorded'
-                              ? 'already recorded'
-                              : 'problem'}
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </ScrollRegion>
+              {preview.errors.length ? <ImportProblems errors={preview.errors} /> : null}
+              <ImportRowsRead rows={preview.rows} traits={trial.data.traits} units={units} />
             </div>
           ) : null}
         </section>
