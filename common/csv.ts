@@ -47,3 +47,12 @@ export function writeCsvSections(
 ): string {
   return sections.map((s) => writeCsv(s.header, s.rows)).join('\n');
 }
+
+/**
+ * The header of a two-factor trial's treatment column: the treatment's own name (as the lead
+ * wrote it, e.g. "Fertilizer") unless that names another column of the file, else "treatment".
+ */
+export function treatmentColumn(name: string, columns: readonly string[]): string {
+  const lower = name.trim().toLowerCase();
+  return lower && !columns.some((c) => c.toLowerCase() === lower) ? name.trim() : 'treatment';
+}

@@ -25,9 +25,9 @@ import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import { AppError } from '../lib/app-error';
 import { authorize, type LoadedTrial } from '../trials/trial-access';
-import { trialForAction } from '../trials/trials-service';
+import { trialFactor, trialForAction } from '../trials/trials-service';
 import { createOnce } from './record-changes';
-import { fromSpreadsheetSafe, writeCsv } from '../../common/csv';
+import { fromSpreadsheetSafe, treatmentColumn, writeCsv } from '../../common/csv';
 import * as repo from './records-repository';
 import { requireActorOf } from './records-actor';
 
@@ -404,6 +404,8 @@ export async function exportDataset(
     repo.traitsOfTrial(db, trial.id),
   ]);
   const numeric = traits.filter((t) => t.quantity_kind !== 'date');
+  // A two-factor trial's plots carry their level of the treatment, under the treatment's name.
+  const factor = trialFactor(trial);
   // Sums keep the recorded decimals, plot means one more (common/precision.ts).
   const massDecimals = recordedDecimals(harvests.map((h) => h.massG));
   const traitDecimals = new Map(
@@ -423,6 +425,7 @@ export async function exportDataset(
     'block',
     'entry_code',
     'entry_name',
+    ...(factor ? ['treatment'] : []),
     'plants_set',
     'plants_surviving',
     'harvests',
@@ -459,6 +462,7 @@ export async function exportDataset(
       p.block,
       p.entryCode,
       p.entryName,
+      ...(factor ? [p.treatment ?? ''] : []),
       p.plantsSet ?? '',
       p.plantsSurviving ?? '',
       hs.length,
@@ -470,5 +474,8 @@ export async function exportDataset(
       ...traitCells,
     ];
   });
-  return { filename, body: writeCsv(columns, rows) };
+  const header = factor
+    ? columns.map((c) => (c === 'treatment' ? treatmentColumn(factor.name, columns) : c))
+    : columns;
+  return { filename, body: writeCsv(header, rows) };
 }

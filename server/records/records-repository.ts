@@ -218,6 +218,7 @@ export function plotsOfTrial(db: DB, trialId: string, siteId?: string) {
       'e.name as entryName',
       'p.plants_set as plantsSet',
       'p.plants_surviving as plantsSurviving',
+      'p.treatment',
     ])
     .where('p.trial_id', '=', trialId)
     .$if(siteId !== undefined, (q) => q.where('p.site_id', '=', siteId!))

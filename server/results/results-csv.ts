@@ -1,4 +1,4 @@
-import { writeCsv } from '../../common/csv';
+import { treatmentColumn, writeCsv } from '../../common/csv';
 import {
   sheetFactor,
   sheetModel,
@@ -109,12 +109,6 @@ export function plotsCsv(s: ResultSnapshot, trait?: string): string {
   // The treatment beside the variety, under its own name: `analyze --factor <name>` reads it.
   const columns = ['trait', 'unit', 'variety', 'treatment', ...PLOT_COLUMNS.slice(3)] as const;
   return csvOf(columns, rows, { treatment: treatmentColumn(factor.factor, columns) });
-}
-
-/** The treatment's column header: its own name unless that names another column. */
-function treatmentColumn(name: string, columns: readonly string[]): string {
-  const lower = name.trim().toLowerCase();
-  return lower && !columns.includes(lower) ? name.trim() : 'treatment';
 }
 
 const MEANS_COLUMNS = [

@@ -242,4 +242,26 @@ describe('a published two-factor sheet', () => {
     expect(text).toContain(`Variety × fertilizer: F(3, 18) = ${line.f!.toFixed(2)}, p < 0.001`);
     expect(text).toMatch(/Fertilizer means: none \d/);
   });
+
+  it('exports the plot totals with each plot’s fertilizer level', async () => {
+    const res = await request(t.app)
+      .get(`/api/trials/${SPLIT_PLOT_SLUG}/records/export/plot-totals`)
+      .set('Cookie', lead);
+    expect(res.status).toBe(200);
+    const lines = res.text.trim().split('\n');
+    const header = lines[0]!.split(',');
+    expect(header.slice(0, 6)).toEqual([
+      'site',
+      'plot_number',
+      'block',
+      'entry_code',
+      'entry_name',
+      'Fertilizer',
+    ]);
+    // The same level per plot as the published plot values (from the trial's layout).
+    const levelOf = new Map(sheet.plotValues.map((v) => [v.plot, v.treatment]));
+    const rows = lines.slice(1).map((l) => l.split(','));
+    expect(rows).toHaveLength(32);
+    for (const r of rows) expect(r[5]).toBe(levelOf.get(r[1]!));
+  });
 });
