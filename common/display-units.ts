@@ -162,10 +162,15 @@ export function columnUnit(
   };
 }
 
-/** A plant or row spacing: always cm (or inches), never mm on one line and m on the next. */
-export function formatSpacing(mm: number, system: UnitSystem): string {
+/** The unit spacings are shown in: always cm (or inches), never mm on one line and m on the next. */
+export function spacingDisplayUnit(system: UnitSystem): DisplayUnit {
   const unit = entryUnit('spacing', system);
-  return formatInUnit(mm, { label: unit, factor: perStored[unit] });
+  return { label: unit, factor: perStored[unit] };
+}
+
+/** A plant or row spacing with its unit. */
+export function formatSpacing(mm: number, system: UnitSystem): string {
+  return formatInUnit(mm, spacingDisplayUnit(system));
 }
 
 /** One trait value with its unit, for a table whose rows mix traits (the observation log). */

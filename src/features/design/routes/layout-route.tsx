@@ -7,7 +7,7 @@ import {
   isIncompleteDesign,
 } from '@common/contracts/trials';
 import { gardensPerReplicate } from '@common/layout';
-import { formatSpacing } from '@common/display-units';
+import { DataTable } from '@/components/ui/data-table';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -19,6 +19,7 @@ import { useUnitSystem } from '@/lib/session';
 import { useClearLayout, useGenerateLayout } from '../api/layout';
 import { DesignPage } from '../components/design-page';
 import { firstSiteWithPlots, SitePicker } from '../components/site-picker';
+import { planColumns } from '../components/plan-columns';
 import { lengthInput, rowLengthUnit, spacingUnit } from '../components/units';
 
 /** Which button sent the form: "Re-randomize" asks for a fresh seed. */
@@ -300,7 +301,6 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
   const system = useUnitSystem();
   const [siteId, setSiteId] = useState(firstSiteWithPlots(design));
   const plots = design.plots.filter((p) => p.siteId === siteId);
-  const entry = new Map(design.entries.map((e) => [e.id, e]));
   if (design.plots.length === 0)
     return <p className="rounded-lg bg-white p-4 shadow-sm">No plots yet: generate the layout.</p>;
   const total = plots.reduce((s, p) => s + (p.plannedPlants ?? 0), 0);
@@ -322,39 +322,19 @@ function PlotPlan({ design, slug }: { design: Design; slug: string }) {
           Field sheet
         </Link>
       </p>
-      <ScrollRegion label="Plots in field order" className="rounded-lg bg-white shadow-sm">
-        <table className="w-full text-left text-sm">
-          <caption className="sr-only">Plots of the site in field order</caption>
-          <thead className="bg-leaf-50 text-leaf-900">
-            <tr>
-              <th className="p-2">Plot</th>
-              {design.layout.blocks ? <th className="p-2">Replicate</th> : null}
-              <th className="p-2">Block</th>
-              {design.factor ? <th className="p-2">{design.factor.name}</th> : null}
-              <th className="p-2">Entry</th>
-              <th className="p-2">In-row spacing</th>
-              <th className="p-2">Plants planned</th>
-            </tr>
-          </thead>
-          <tbody>
-            {plots.map((p) => (
-              <tr key={p.id} className="border-t border-leaf-50">
-                <td className="p-2 font-semibold">{p.plotNumber}</td>
-                {design.layout.blocks ? <td className="p-2">{p.replicate ?? '—'}</td> : null}
-                <td className="p-2">{p.block}</td>
-                {design.factor ? <td className="p-2">{p.treatment}</td> : null}
-                <td className="p-2">
-                  <span className="font-mono font-semibold">{entry.get(p.entryId)?.code}</span>{' '}
-                  {entry.get(p.entryId)?.name}
-                </td>
-                <td className="p-2">
-                  {p.inRowSpacingMm ? formatSpacing(p.inRowSpacingMm, system) : '—'}
-                </td>
-                <td className="p-2">{p.plannedPlants ?? '—'}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+      <ScrollRegion
+        label="Plots in field order"
+        hint="More columns to the side: swipe or scroll sideways"
+        className="rounded-lg bg-white shadow-sm"
+      >
+        <DataTable
+          caption="Plots of the site in field order"
+          className="min-w-[36rem]"
+          data={plots}
+          columns={planColumns(design, system)}
+          rowId={(p) => p.id}
+          rowHeader="plot"
+        />
       </ScrollRegion>
       <p className="text-xs text-loam-700">
         Plants planned per plot = rows × whole in-row spacings that fit in the row length.
