@@ -1,6 +1,7 @@
 // The fertilizer × variety split plot's analysis page in Debian's Chromium, at 360 px and on
 // desktop: the strata, the interaction plot and its table alternative; then its published sheet
-// (drawn by the server, then in the browser) with the fertilizer's cells.
+// (drawn by the server, then in the browser) with the fertilizer's cells; and, once a plot's
+// record is withdrawn, the mixed model the analysis page then shows instead of the strata.
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
@@ -133,6 +134,64 @@ describe('a split-plot trial', () => {
       expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
       await expectNoSeriousA11yViolations(page);
       await screenshot(page, `split-plot-sheet-${viewport.width}`);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+
+  it('with a plot lost, shows the mixed model, its tests and variances at both widths', async () => {
+    const trial = await live.db
+      .selectFrom('trials')
+      .select('id')
+      .where('slug', '=', SPLIT_PLOT_SLUG)
+      .executeTakeFirstOrThrow();
+    const plot = await live.db
+      .selectFrom('plots')
+      .select('id')
+      .where('trial_id', '=', trial.id)
+      .orderBy('plot_number')
+      .executeTakeFirstOrThrow();
+    await live.db
+      .updateTable('observations')
+      .set({ deleted_at: new Date() })
+      .where('plot_id', '=', plot.id)
+      .where('deleted_at', 'is', null)
+      .execute();
+    for (const viewport of [
+      { width: 1280, height: 900 },
+      { width: 360, height: 780 },
+    ]) {
+      const context = await contextAs(browser, live, lead, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      await page.goto(`/t/${SPLIT_PLOT_SLUG}/analysis`);
+      await page.getByRole('heading', { level: 1, name: 'Analysis' }).waitFor();
+      await page.locator('[data-model="mixed"]').waitFor();
+      await expect(page.getByRole('combobox', { name: /^Model/ }).inputValue()).resolves.toBe(
+        'mixed',
+      );
+      const tests = page.getByRole('table', { name: /Wald F tests/ });
+      await expect(tests.getByRole('rowheader').allTextContents()).resolves.toEqual([
+        'Fertilizer',
+        'Variety',
+        'Variety × fertilizer',
+      ]);
+      const components = page.getByRole('table', { name: /Variance components/ });
+      await expect(components.getByRole('rowheader').allTextContents()).resolves.toEqual([
+        'Blocks',
+        'Main plots (block × treatment)',
+        'Plot to plot (residual)',
+      ]);
+      await expect(
+        page.getByText(/1 missing plot: the split plot's classical strata/).count(),
+      ).resolves.toBe(1);
+      await expect(
+        page.getByRole('table', { name: /Analysis of variance: Days to first pods/ }).count(),
+      ).resolves.toBe(0);
+      const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
+      expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
+      await expectNoSeriousA11yViolations(page);
+      await screenshot(page, `split-plot-mixed-${viewport.width}`);
       expect(errors).toEqual([]);
       await context.close();
     }

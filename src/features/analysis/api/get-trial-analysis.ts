@@ -12,7 +12,8 @@ export interface TrialAnalysisParams {
   basis: AnalysisBasis;
   alpha: number;
   letters: 'hsd' | 'lsd';
-  model: AnalysisModel;
+  /** Left out: the server chooses (a split plot that lost plots takes the mixed model). */
+  model: AnalysisModel | undefined;
   /** Mixed model only: also fit varieties as random (heritability, BLUPs). */
   varietiesRandom?: boolean;
 }

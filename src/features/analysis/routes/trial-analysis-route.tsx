@@ -32,6 +32,7 @@ import { RankingPanel } from '../components/ranking-panel';
 import { VarietiesRandomPanel } from '../components/varieties-random-panel';
 import { SeasonPanel } from '../components/season-panel';
 import { TwoFactorPanel } from '../components/two-factor-panel';
+import { FixedTestsTable } from '../components/fixed-tests-table';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { DataTable } from '@/components/ui/data-table';
 import type { TrialAnalysis } from '@common/contracts/analysis';
@@ -70,18 +71,21 @@ export function Component() {
   // The model: the lead's choice where the design allows it, else the one the design suggests.
   const design = trial.data?.design ?? 'crd';
   const twoFactor = Boolean(trial.data?.factor);
-  const models = modelsForDesign(design, twoFactor);
+  const splitPlot = trial.data?.factor?.arrangement === 'split_plot';
+  const models = modelsForDesign(design, twoFactor, splitPlot);
   const modelParam = params.get('model') as AnalysisModel | null;
-  const model: AnalysisModel =
-    modelParam && models.includes(modelParam) ? modelParam : defaultModelFor(design, twoFactor);
-  // Nothing is asked for until the trial (and so its design) is known.
+  const chosenModel = modelParam && models.includes(modelParam) ? modelParam : null;
+  // Nothing is asked for until the trial (and so its design) is known. A split plot with no
+  // model chosen is left to the server: one that lost plots gets the mixed model.
   const analysis = useTrialAnalysis(slug, {
     trait: trial.data ? traitKey : '',
     basis,
     alpha,
     letters,
-    model,
+    model: chosenModel ?? (splitPlot ? undefined : defaultModelFor(design, twoFactor)),
   });
+  const model: AnalysisModel =
+    chosenModel ?? analysis.data?.model ?? defaultModelFor(design, twoFactor);
 
   const set = (key: string, value: string) => {
     const next = new URLSearchParams(params);
@@ -191,11 +195,13 @@ export function Component() {
             ))}
           </select>
           <span id={`${id}-model-help`} className="text-xs text-loam-700">
-            {twoFactor
-              ? 'A two-factor trial is analysed with its strata by the classical analysis.'
-              : models.length < 2
-                ? 'No blocks or gardens to treat as random.'
-                : `Suggested by the design: ${modelLabels[defaultModelFor(design)]}.`}
+            {splitPlot
+              ? 'A split plot is analysed with its strata by the classical analysis; one that lost plots by the mixed model, whose tests stay valid without every plot.'
+              : twoFactor
+                ? 'A two-factor trial is analysed with its strata by the classical analysis.'
+                : models.length < 2
+                  ? 'No blocks or gardens to treat as random.'
+                  : `Suggested by the design: ${modelLabels[defaultModelFor(design)]}.`}
           </span>
         </label>
       </form>
@@ -236,7 +242,10 @@ export function Component() {
           <ResultSummary result={result} unit={unit} trialDesign={t.design} />
           <WarningsList warnings={result.warnings} />
           <MixedModelPanel result={result} unit={unit} />
-          {result.model === 'mixed' ? (
+          {result.twoFactor?.fixedTests ? (
+            <FixedTestsTable tests={result.twoFactor.fixedTests} factor={result.twoFactor.factor} />
+          ) : null}
+          {result.model === 'mixed' && !result.twoFactor ? (
             <VarietiesRandomPanel
               key={`${result.traitKey}-${basis}`}
               slug={slug}
@@ -244,7 +253,9 @@ export function Component() {
               unit={unit}
             />
           ) : null}
-          <AnovaTable result={result} unit={unit} title={result.traitLabel} />
+          {result.anova.length > 0 ? (
+            <AnovaTable result={result} unit={unit} title={result.traitLabel} />
+          ) : null}
           <TwoFactorPanel result={result} unit={unit} />
           <MeansTable
             result={result}
@@ -300,7 +311,10 @@ export function Component() {
         </section>
       ) : null}
 
-      <RankingPanel trial={t} alpha={alpha} model={model} />
+      {/* A split plot left to the server: rank under the model its analysis answered with. */}
+      {splitPlot && !chosenModel && !analysis.data ? null : (
+        <RankingPanel trial={t} alpha={alpha} model={model} />
+      )}
       <SeasonPanel
         slug={slug}
         system={system}
