@@ -86,14 +86,28 @@ describe('a variety across seasons', () => {
       // The 2025 marketable yield row shows the API's mean in the record's one unit, and its rank.
       const yields = record.trials.map((t) => t.traits.find((x) => x.key === 'marketable_yield')!);
       const unit = displayUnit('g', 'metric', typicalOf(yields.map((y) => y.mean)));
-      const row2025 = figures
-        .getByRole('row')
-        .filter({ hasText: 'first season' })
-        .filter({ hasText: 'Marketable yield' });
+      // A phone shows a card per trial with a line per trait; a wider screen the table's rows.
+      const row2025 =
+        viewport.width < 640
+          ? figures
+              .getByRole('listitem')
+              .filter({ hasText: 'first season' })
+              .first()
+              .getByRole('listitem')
+              .filter({ hasText: 'Marketable yield' })
+          : figures
+              .getByRole('row')
+              .filter({ hasText: 'first season' })
+              .filter({ hasText: 'Marketable yield' });
       await row2025.waitFor();
       const text = await row2025.innerText();
       expect(text).toContain(formatInUnit(yields[0]!.mean, unit, yields[0]!.decimals));
       expect(text).toContain(`${yields[0]!.rank} of ${yields[0]!.entryCount}`);
+      if (viewport.width < 640) {
+        // No table at this width, and a card no taller than a few lines per trait.
+        expect(await page.getByRole('table').count()).toBe(0);
+        expect((await row2025.boundingBox())!.height).toBeLessThan(160);
+      }
       // The chart: the trait over seasons, one line per garden.
       const chart = page.locator('figure').filter({ hasText: 'one line per site' });
       await chart.locator('.recharts-line').first().waitFor();

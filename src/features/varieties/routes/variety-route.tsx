@@ -270,10 +270,57 @@ function Record({ record }: { record: VarietyRecord }) {
           trial’s entries in the trait’s direction (1 = best; traits with no preferred direction are
           not ranked), and letter group (entries sharing a letter did not differ significantly).
         </p>
+        {/* A phone reads one card per trial (a wide table's trial names wrapped to many lines);
+            a wider screen the table. Only the one shown is in the accessibility tree. */}
+        <section aria-label="Figures season by season" className="mt-2 sm:hidden">
+          <ul className="space-y-3">
+            {record.trials.map((t) => (
+              <li key={t.slug} className="rounded-lg bg-white p-3 shadow-sm">
+                <p className="text-sm uppercase tracking-wide text-loam-700">{t.season}</p>
+                <p className="font-semibold">
+                  <Link to={trialHref(t)} className="text-leaf-800 underline">
+                    {t.title}
+                  </Link>
+                </p>
+                <ul className="mt-2 divide-y divide-straw-200">
+                  {t.traits.map((x) => {
+                    const unit = units.get(x.key)!;
+                    return (
+                      <li key={x.key} className="py-2">
+                        <p className="font-medium">{x.label}</p>
+                        <p className="tabular-nums">
+                          {formatInUnit(x.mean, unit, x.decimals)}
+                          {' · '}
+                          {x.rank === null ? 'not ranked' : `rank ${x.rank} of ${x.entryCount}`}
+                          {x.group ? (
+                            <>
+                              {' · group '}
+                              <span className="font-mono">{x.group}</span>
+                            </>
+                          ) : null}
+                        </p>
+                        {x.sites.length > 1 ? (
+                          <p className="text-sm text-loam-700">
+                            {x.sites
+                              .map(
+                                (site) =>
+                                  `${site.site}: ${formatInUnit(site.mean, unit, x.decimals)}`,
+                              )
+                              .join(' · ')}
+                          </p>
+                        ) : null}
+                      </li>
+                    );
+                  })}
+                </ul>
+              </li>
+            ))}
+          </ul>
+        </section>
         <ScrollRegion
           label="Figures season by season"
           hint="The table scrolls sideways."
-          className="mt-2 rounded-lg bg-white shadow-sm"
+          className="mt-2 hidden rounded-lg bg-white shadow-sm sm:block"
         >
           <div className="min-w-[44rem]">
             <DataTable
