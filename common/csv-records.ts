@@ -4,6 +4,7 @@
  * the lookups. Row numbers count the header as row 1, as a spreadsheet shows them.
  */
 import { DATE_HINT, isCalendarDate, latestRecordDate } from './calendar-date';
+import { treatmentColumn } from './csv';
 import { observationValueProblem, storedUnitOf, type ImportRowError } from './contracts/records';
 import { readDecimal } from './decimal';
 import {
@@ -41,6 +42,20 @@ export const observationCsvColumns = [
   'note',
 ] as const;
 
+/**
+ * An export's header: a two-factor trial's rows carry their plot's level of the treatment
+ * after the entry code, under the treatment's name (the import reads the same header and
+ * leaves that column alone: the plot number already says where the record was taken).
+ */
+export function recordCsvHeader(
+  columns: readonly string[],
+  factorName: string | null | undefined,
+): string[] {
+  if (!factorName) return [...columns];
+  const at = columns.indexOf('entry_code') + 1;
+  return [...columns.slice(0, at), treatmentColumn(factorName, columns), ...columns.slice(at)];
+}
+
 /** Mass columns a harvest file may use instead of mass_g (typed from a scale in kg, oz or lb). */
 const massColumns: Record<string, QuantityUnit> = {
   mass_g: 'g',
@@ -63,6 +78,8 @@ export interface CsvLookups {
   siteNames: string[];
   plot(siteName: string, plotNumber: number): CsvPlot | undefined;
   trait?(key: string): CsvTrait | undefined;
+  /** a two-factor trial's treatment name: its column in an export is accepted and not read */
+  factorName?: string | null;
   /** every trait of the trial, for a recording sheet's columns */
   traits?: readonly CsvTrait[];
   today?: string;
@@ -228,7 +245,12 @@ const isBlank = (row: string[]) => row.every((c) => c.trim() === '');
 export function checkHarvestCsv(rows: string[][], lookups: CsvLookups): CsvCheck<ParsedHarvestRow> {
   const errors: ImportRowError[] = [];
   const today = lookups.today ?? latestRecordDate();
-  const known = [...harvestCsvColumns.filter((c) => c !== 'mass_g'), ...Object.keys(massColumns)];
+  const known = [
+    ...recordCsvHeader(harvestCsvColumns, lookups.factorName)
+      .filter((c) => c !== 'mass_g')
+      .map((c) => c.toLowerCase()),
+    ...Object.keys(massColumns),
+  ];
   const head = begin(rows, ['plot_number', 'harvested_on', 'fruit_count', 'grade'], known, errors);
   const massName = head?.names.find((n) => n in massColumns);
   if (head && !massName)
@@ -292,7 +314,7 @@ export function checkObservationCsv(
   const head = begin(
     rows,
     ['plot_number', 'trait_key', 'observed_on'],
-    observationCsvColumns,
+    recordCsvHeader(observationCsvColumns, lookups.factorName).map((c) => c.toLowerCase()),
     errors,
   );
   if (head && head.col('value') < 0 && head.col('value_date') < 0)

@@ -87,6 +87,8 @@ const plotRef = {
   entryId: z.uuid(),
   entryCode: z.string(),
   entryName: z.string(),
+  /** a two-factor trial's plot: its level of the treatment (null or absent for one factor) */
+  treatment: z.string().nullable().optional(),
 };
 
 /** A 409 answer's details: the record as stored now and which fields differ. */

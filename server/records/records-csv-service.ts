@@ -20,6 +20,7 @@ import {
   checkRecordingSheetCsv,
   harvestCsvColumns,
   observationCsvColumns,
+  recordCsvHeader,
 } from '../../common/csv-records';
 import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
@@ -66,6 +67,7 @@ function parseCsv(text: string): string[][] {
 async function lookupsFor(
   db: DB,
   trialId: string,
+  factorName: string | null,
 ): Promise<{ lookups: CsvLookups; plotSite: Map<string, string> }> {
   const [plots, traits, sites] = await Promise.all([
     repo.plotsOfTrial(db, trialId),
@@ -102,6 +104,7 @@ async function lookupsFor(
       plot: (site, n) => byKey.get(`${site.toLowerCase()}#${n}`),
       trait: (key) => traitByKey.get(key.toLowerCase()),
       traits: [...traitByKey.values()],
+      factorName,
     },
     plotSite,
   };
@@ -122,7 +125,11 @@ async function check(
   csv: string,
 ): Promise<Checked> {
   const loaded = await trialForAction(db, slug, actor, 'records.write');
-  const { lookups, plotSite } = await lookupsFor(db, loaded.trial.id);
+  const { lookups, plotSite } = await lookupsFor(
+    db,
+    loaded.trial.id,
+    trialFactor(loaded.trial)?.name ?? null,
+  );
   const rows = parseCsv(csv);
   const result: CsvCheck<ParsedHarvestRow | ParsedObservationRow> =
     kind === 'harvests'
@@ -299,17 +306,21 @@ export async function exportDataset(
 ) {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
   const filename = `${trial.slug}-${dataset}.csv`;
+  // A two-factor trial's records carry their plot's level of the treatment, under its name.
+  const factorName = trialFactor(trial)?.name ?? null;
+  const level = (r: { treatment: string | null }) => (factorName ? [r.treatment ?? ''] : []);
   if (dataset === 'harvests') {
     const rows = await repo.listHarvests(db, trial.id, {});
     return {
       filename,
       body: writeCsv(
-        harvestCsvColumns,
+        recordCsvHeader(harvestCsvColumns, factorName),
         rows.map((h) => [
           h.id,
           h.siteName,
           h.plotNumber,
           h.entryCode,
+          ...level(h),
           h.harvestedOn,
           h.fruitCount,
           h.massG,
@@ -324,12 +335,13 @@ export async function exportDataset(
     return {
       filename,
       body: writeCsv(
-        observationCsvColumns,
+        recordCsvHeader(observationCsvColumns, factorName),
         rows.map((o) => [
           o.id,
           o.siteName,
           o.plotNumber,
           o.entryCode,
+          ...level(o),
           o.traitKey,
           o.observedOn,
           o.plantNumber ?? '',

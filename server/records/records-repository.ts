@@ -336,6 +336,7 @@ const plotColumns = [
   'p.entry_id as entryId',
   'e.code as entryCode',
   'e.name as entryName',
+  'p.treatment',
 ] as const;
 
 /** `%text%` for ILIKE, with the user's own % and _ taken literally. */

@@ -47,6 +47,8 @@ export interface PlotPlace {
   entryId: string;
   entryCode: string;
   entryName: string;
+  /** a two-factor trial's plot: its level of the treatment */
+  treatment: string | null;
 }
 
 /**
@@ -84,7 +86,7 @@ export function trialWithAccess(
             .select(
               sql<PlotPlace>`json_build_object('plotId', p.id, 'siteId', p.site_id, 'siteName', s.name,
                 'plotNumber', p.plot_number, 'block', p.block, 'entryId', p.entry_id,
-                'entryCode', e.code, 'entryName', e.name)`.as('place'),
+                'entryCode', e.code, 'entryName', e.name, 'treatment', p.treatment)`.as('place'),
             )
             .whereRef('p.trial_id', '=', 't.id')
             .where('p.id', '=', plotId)
