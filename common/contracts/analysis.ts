@@ -428,8 +428,8 @@ export const rankingQuery = z
           .optional(),
       ),
     alpha,
-    /** The model each trait's means come from, as on the analysis page (same default). */
-    model: z.enum(analysisModels).default('anova'),
+    /** The model each trait's means come from; left out, the analysis API's default. */
+    model: z.enum(analysisModels).optional(),
   })
   .superRefine((q, ctx) => {
     if (q.weights && !q.traits)

@@ -9,6 +9,7 @@ import {
   analysisBases,
   analysisModels,
   twoFactorSchema,
+  type TwoFactor,
   varianceComponentSchema,
   varietyTestSchema,
 } from './analysis';
@@ -335,13 +336,22 @@ export const sheetModel = (s: Pick<ResultSnapshot, 'model'>) => s.model ?? 'anov
  */
 export function interactionNote(t: {
   anova: Pick<SnapshotTrait['anova'][number], 'source' | 'df' | 'f' | 'p' | 'testedAgainst'>[];
-  twoFactor?: { factor: string } | undefined;
+  twoFactor?: { factor: string; fixedTests?: TwoFactor['fixedTests'] } | undefined;
 }): string | null {
+  if (!t.twoFactor) return null;
+  const name = `Variety × ${t.twoFactor.factor.toLowerCase()}`;
+  const pText = (p: number | null) => {
+    const text = formatP(p);
+    return text.startsWith('<') ? text : `= ${text}`;
+  };
+  // The mixed model (a split plot that lost plots) tests it by Wald F with Satterthwaite's df.
+  const wald = t.twoFactor.fixedTests?.find((l) => l.source === 'variety:treatment');
+  if (wald)
+    return `${name}: F(${wald.numDf}, ${wald.denDf.toFixed(1)}) = ${formatF(wald.f)}, p ${pText(wald.p)} (Wald, Satterthwaite df)`;
   const line = t.anova.find((l) => l.source === 'variety:treatment');
-  if (!t.twoFactor || !line || line.f === null) return null;
+  if (!line || line.f === null) return null;
   const error = t.anova.find((l) => l.source === line.testedAgainst);
-  const p = formatP(line.p);
-  return `Variety × ${t.twoFactor.factor.toLowerCase()}: F(${line.df}, ${error?.df ?? '?'}) = ${formatF(line.f)}, p ${p.startsWith('<') ? p : `= ${p}`}`;
+  return `${name}: F(${line.df}, ${error?.df ?? '?'}) = ${formatF(line.f)}, p ${pText(line.p)}`;
 }
 
 /** The treatment of a two-factor sheet (name, levels, layout), from its first trait; else null. */

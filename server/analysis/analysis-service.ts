@@ -437,10 +437,10 @@ export async function trialRanking(
   db: DB,
   slug: string,
   actor: Actor | null,
-  query: { traits?: string[]; weights?: number[]; alpha: number; model: AnalysisModel },
+  query: { traits?: string[]; weights?: number[]; alpha: number; model?: AnalysisModel },
 ): Promise<Ranking> {
   const { trial } = await trialForAction(db, slug, actor, 'trial.read');
-  refuseModelOutsideDesign(trial, query.model);
+  refuseModelOutsideDesign(trial, query.model ?? 'anova');
   const warnings: string[] = [];
   const explicit = query.traits !== undefined;
   let traitRows: Promise<TrialTraits> | undefined;
@@ -460,7 +460,13 @@ export async function trialRanking(
       const result = await analyseTrialTrait(
         db,
         trial,
-        { trait: key, basis: 'plot', alpha: query.alpha, letters: 'hsd', model: query.model },
+        {
+          trait: key,
+          basis: 'plot',
+          alpha: query.alpha,
+          letters: 'hsd',
+          ...(query.model ? { model: query.model } : {}),
+        },
         traitsOfTrial,
       );
       analysed.push({ trait, weight: query.weights?.[i] ?? 1, result });

@@ -99,13 +99,18 @@ async function assertSheetRefersToTrial(db: DB, trial: Trial, body: SaveSheetBod
   const traitKeys = new Set(traits.map((t) => t.key));
   const entryIds = new Set(entries.map((e) => e.id));
   const fields: { path: string; message: string }[] = [];
+  const factor = trialFactor(trial);
   if (
     body.model &&
-    !modelsForDesign(trial.design, trialFactor(trial) !== null).includes(body.model)
+    !modelsForDesign(trial.design, factor !== null, factor?.arrangement === 'split_plot').includes(
+      body.model,
+    )
   )
     fields.push({
       path: 'body.model',
-      message: `A ${designLabels[trial.design].toLowerCase()} trial is analysed by the classical analysis of variance only.`,
+      message: factor
+        ? 'A factorial in blocks is analysed by the classical analysis of variance only (the mixed model is offered for split plots).'
+        : `A ${designLabels[trial.design].toLowerCase()} trial is analysed by the classical analysis of variance only.`,
     });
   body.traits.forEach((t, i) => {
     if (!traitKeys.has(t.key))

@@ -20,7 +20,8 @@ export async function analyzeForSheet(
     basis: SnapshotTrait['basis'];
     alpha: number;
     letters: 'hsd' | 'lsd';
-    model: AnalysisModel;
+    /** Left out: the analysis decides (a split plot that lost plots takes the mixed model). */
+    model?: AnalysisModel;
   },
 ) {
   try {

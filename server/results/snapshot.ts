@@ -155,7 +155,10 @@ export async function buildSnapshot(
   ]);
   const traitByKey = new Map(traitRows.map((t) => [t.key, t]));
 
-  const model = modelOfSheet(trial, sheet);
+  const splitPlot = trialFactor(trial)?.arrangement === 'split_plot';
+  // A split plot the lead left to the design is analysed as the analysis page does: by the
+  // classical strata while complete, by the mixed model once it has lost plots.
+  const asked = sheet.model ?? (splitPlot ? undefined : modelOfSheet(trial, sheet));
   const traits: SnapshotTrait[] = [];
   const plotValues: ResultSnapshot['plotValues'] = [];
   for (const choice of sheet.traits) {
@@ -166,7 +169,7 @@ export async function buildSnapshot(
       basis: choice.basis,
       alpha: sheet.alpha,
       letters: sheet.letters,
-      model,
+      ...(asked ? { model: asked } : {}),
     });
     if (!result) continue;
     traits.push({
@@ -222,7 +225,7 @@ export async function buildSnapshot(
         ? {
             twoFactor: {
               ...result.twoFactor,
-              strata: twoFactorNote(result.twoFactor, result.model ?? model),
+              strata: twoFactorNote(result.twoFactor, result.model ?? modelOfSheet(trial, sheet)),
             },
           }
         : {}),
@@ -231,6 +234,10 @@ export async function buildSnapshot(
     for (const v of result.plotValues) plotValues.push({ trait: trait.key, ...v });
   }
 
+  // The sheet's model: the lead's, else the one every trait was analysed with, else the design's.
+  const traitModels = new Set(traits.map((t) => t.model ?? 'anova'));
+  const model =
+    sheet.model ?? (traitModels.size === 1 ? [...traitModels][0]! : modelOfSheet(trial, sheet));
   const ranking = rankForSheet(traits);
   const conditions = await seasonForSheet(db, trial);
   const photoById = new Map(photos.map((p) => [p.id, p]));
@@ -257,7 +264,7 @@ export async function buildSnapshot(
     model,
     license: sheet.license,
     summary: sheet.summary,
-    methods: sheet.methods ?? (await generatedMethods(db, trial, sheet)),
+    methods: sheet.methods ?? (await generatedMethods(db, trial, { ...sheet, model })),
     plotCount: Number(plotCount.n),
     // Town or region only: a volunteer's garden is never located more closely on a public page.
     sites: sites.map((s) => {

@@ -8,12 +8,13 @@ import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { TrialAnalysis } from '../../common/contracts/analysis';
+import type { Ranking, TrialAnalysis } from '../../common/contracts/analysis';
+import { interactionNote, type ResultSnapshot } from '../../common/contracts/results';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { SPLIT_PLOT_SLUG } from '../../db/seed/demo-split-plot';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
 import { localStorage } from '../../server/storage/local-storage';
-import { createTestApp, mintSessionCookie, type TestApp } from '../support/test-app';
+import { createTestApp, mintSessionCookie, TEST_ORIGIN, type TestApp } from '../support/test-app';
 
 let t: TestApp;
 let cookie: string;
@@ -163,5 +164,83 @@ describe('a split plot with a missing plot', () => {
         m.group,
       ]),
     );
+  });
+
+  it('ranks across traits with the same model when none is named, and by the mixed model when asked', async () => {
+    const analysis = (await request(t.app).get(url).set('Cookie', cookie)).body as TrialAnalysis;
+    for (const q of ['', '&model=mixed']) {
+      const res = await request(t.app)
+        .get(`/api/trials/${SPLIT_PLOT_SLUG}/ranking?traits=days_to_first_pods${q}`)
+        .set('Cookie', cookie);
+      expect(res.status).toBe(200);
+      const ranking = res.body as Ranking;
+      // One trait: its contribution is the adjusted mean the analysis ranks by.
+      for (const m of analysis.means) {
+        const row = ranking.entries.find((e) => e.entry === m.variety)!;
+        expect(row.contributions[0]!.mean).toBeCloseTo(
+          analysis.twoFactor!.varietyMeans.find((v) => v.variety === m.variety)!.mean,
+          9,
+        );
+      }
+    }
+  });
+
+  it('publishes a sheet left to the design with the mixed model, its Wald test and its words', async () => {
+    const put = await request(t.app)
+      .put(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet`)
+      .set('Origin', TEST_ORIGIN)
+      .set('Cookie', cookie)
+      .send({
+        summary: '',
+        methods: null,
+        traits: [{ key: 'days_to_first_pods', basis: 'plot', weight: 1 }],
+        entryNotes: {},
+        coverPhotos: {},
+        alpha: 0.05,
+        letters: 'hsd',
+        license: 'CC-BY-4.0',
+      });
+    expect(put.status).toBe(200);
+    const pub = await request(t.app)
+      .post(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet/publish`)
+      .set('Origin', TEST_ORIGIN)
+      .set('Cookie', cookie)
+      .send({ changeNote: '' });
+    expect(pub.status).toBe(201);
+    const sheet = (await request(t.app).get(`/api/results/${SPLIT_PLOT_SLUG}`))
+      .body as ResultSnapshot;
+    const api = (await request(t.app).get(url).set('Cookie', cookie)).body as TrialAnalysis;
+    const trait = sheet.traits[0]!;
+    expect(sheet.model).toBe('mixed');
+    expect(trait.model).toBe('mixed');
+    expect(trait.twoFactor!.cellMeans).toEqual(api.twoFactor!.cellMeans);
+    expect(trait.twoFactor!.fixedTests).toEqual(api.twoFactor!.fixedTests);
+    expect(trait.means.map((m) => [m.variety, m.rank, m.group])).toEqual(
+      api.means.map((m) => [m.variety, m.rank, m.group]),
+    );
+    expect(trait.twoFactor!.strata).toMatch(/mixed model \(REML\)/);
+    expect(sheet.methods).toMatch(/mixed model \(REML\)/);
+    const wald = api.twoFactor!.fixedTests!.find((f) => f.source === 'variety:treatment')!;
+    expect(interactionNote(trait)).toContain(`F(${wald.numDf}, ${wald.denDf.toFixed(1)})`);
+    expect(interactionNote(trait)).toContain('Wald, Satterthwaite df');
+  });
+
+  it('accepts the mixed model chosen by name for the sheet of a split plot', async () => {
+    const res = await request(t.app)
+      .put(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet`)
+      .set('Origin', TEST_ORIGIN)
+      .set('Cookie', cookie)
+      .send({
+        summary: '',
+        methods: null,
+        traits: [{ key: 'days_to_first_pods', basis: 'plot', weight: 1 }],
+        entryNotes: {},
+        coverPhotos: {},
+        alpha: 0.05,
+        letters: 'hsd',
+        model: 'mixed',
+        license: 'CC-BY-4.0',
+      });
+    expect(res.status).toBe(200);
   });
 });

@@ -971,7 +971,7 @@ export function analyzeTwoFactorRows(
   // A split plot that lost plots: the classical strata need balance, the mixed model does not.
   if (lostPlots && options.splitPlot && options.model === 'anova')
     throw new AnalysisInputError(
-      `${problem}; a split plot with missing plots is analysed by the mixed model (--model mixed)`,
+      `${problem}; a split plot with missing plots is analysed by the mixed model (choose the mixed model, or leave the model unset)`,
     );
   const model = options.model ?? (lostPlots && options.splitPlot ? 'mixed' : 'anova');
   // A factorial that lost plots is fitted by least squares.

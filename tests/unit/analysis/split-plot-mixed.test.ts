@@ -236,7 +236,7 @@ describe('choosing the model for a split plot with missing plots', () => {
       });
     expect(run).toThrow(AnalysisInputError);
     expect(run).toThrow(
-      /missing plots \(block \/ treatment \/ variety: B1 \/ pre-plant \/ Fenwick Red\).*analysed by the mixed model \(--model mixed\)/,
+      /missing plots \(block \/ treatment \/ variety: B1 \/ pre-plant \/ Fenwick Red\).*analysed by the mixed model \(choose the mixed model, or leave the model unset\)/,
     );
   });
   it('refuses the mixed model for a factorial in blocks', () => {

@@ -212,11 +212,15 @@ function SheetEditor({
               options={[
                 [
                   '',
-                  `As the design suggests (${modelLabels[defaultModelFor(t.design, Boolean(t.factor))]})`,
+                  t.factor?.arrangement === 'split_plot'
+                    ? 'As the data suggest (classical strata; the mixed model once plots are lost)'
+                    : `As the design suggests (${modelLabels[defaultModelFor(t.design, Boolean(t.factor))]})`,
                 ],
-                ...modelsForDesign(t.design, Boolean(t.factor)).map(
-                  (m) => [m, modelLabels[m]] as const,
-                ),
+                ...modelsForDesign(
+                  t.design,
+                  Boolean(t.factor),
+                  t.factor?.arrangement === 'split_plot',
+                ).map((m) => [m, modelLabels[m]] as const),
               ]}
               error={errors.model?.message}
               {...form.register('model')}
