@@ -60,7 +60,8 @@ export interface LogView<R, D> {
 }
 type LogAnswer<R, D> = LogView<R, D> & PageOf;
 
-type Stored = { id: string; version: number };
+/** a two-factor trial's record also names its plot's level of the treatment */
+type Stored = { id: string; version: number; treatment?: string | null };
 /** Where a page stands, as every log endpoint answers it. */
 type PageOf = { total: number; page: number; limit: number };
 
@@ -304,7 +305,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
               busy={list.isFetching}
               data={data.rows}
               rowId={(row) => row.id}
-              columns={logColumns(data.columns, {
+              columns={logColumns(withTreatment(data.columns, trial.factor?.name), {
                 draft,
                 setDraft,
                 actions: canWrite
@@ -366,6 +367,25 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
 }
 
 type Draft<D> = { id: string; version: number; values: D };
+
+/**
+ * A two-factor trial's log shows each record's plot level of the treatment after the entry,
+ * headed by the treatment's name (a one-factor trial's log is as it was).
+ */
+function withTreatment<R extends Stored, D>(
+  columns: LogColumn<R, D>[],
+  factorName: string | undefined,
+): LogColumn<R, D>[] {
+  if (!factorName) return columns;
+  const at = columns.findIndex((c) => c.sort === 'entry') + 1;
+  // A treatment named like another column ("Note") is headed "Treatment", so ids stay unique.
+  const taken = columns.some((c) => c.header.toLowerCase() === factorName.trim().toLowerCase());
+  const level: LogColumn<R, D> = {
+    header: taken ? 'Treatment' : factorName.trim(),
+    cell: (row) => row.treatment ?? '',
+  };
+  return [...columns.slice(0, at), level, ...columns.slice(at)];
+}
 
 /**
  * The log's columns for the one table: a row being edited shows its inputs in place, and the
