@@ -455,6 +455,28 @@ describe('seed offers and requests', () => {
   it('lets anyone with a confirmed e-mail ask when the group allows it', async () => {
     const settings = `/api/seed/groups/${await groupId()}/settings`;
     await as('lead').send('patch', settings, { requestsOpen: true });
+    // A fresh offer with a packet left: the outsider (confirmed e-mail, in no group) asks and is heard.
+    const made = await as('lead').send('post', '/api/varieties', {
+      groupId: await groupId(),
+      name: 'Ashgrove Runner',
+      crop: 'Bean',
+    });
+    expect(made.status).toBe(201);
+    const seed = `/api/varieties/${made.body.slug}/seed`;
+    const lot = await as('lead').send('post', `${seed}/lots`, {
+      label: 'AR-2026',
+      amountUnit: 'seeds',
+      amount: 60,
+    });
+    const offer = await as('lead').send('post', `${seed}/offers`, {
+      lotId: lot.body.id,
+      packets: 1,
+    });
+    expect(offer.status).toBe(201);
+    const open = await as('outsider').send('post', `/api/seed/offers/${offer.body.id}/requests`, {
+      shipTo: '2 Weir Cottages, Dunmarsh',
+    });
+    expect(open.status).toBe(201);
     const view = await as('outsider').get(`/api/seed/offers/${offerId}`);
     expect(view.body.whyNot).toBe('No packets are left.');
     await t.db

@@ -213,6 +213,8 @@ export const rows: MatrixRow[] = [
     route: '/api/trials/:slug/entry-lots',
     request: (w) => ({ url: `/api/trials/${w.trial.slug}/entry-lots` }),
     expect: memberRead,
+    // The lots sown belong to the trial: the group's coordinator outside it sees none of it.
+    expectExtra: { coordinator: 404, outsider: 404 },
   },
   {
     method: 'PUT',
@@ -222,5 +224,6 @@ export const rows: MatrixRow[] = [
       body: { lotId: null },
     }),
     expect: leadOnly(204),
+    expectExtra: { coordinator: 404, outsider: 404 },
   },
 ];
