@@ -54,17 +54,18 @@ describe('a split-plot trial', () => {
       await anova.waitFor();
       // aov(value ~ block + treatment * variety + Error(block/treatment)) strata.
       await expect(anova.getByRole('rowheader').allTextContents()).resolves.toEqual([
-        'Block (within site)',
-        'Treatment',
-        'Block × treatment (main-plot error)',
+        // One site: plain blocks; the treatment under the trial's own name for it.
+        'Block',
+        'Fertilizer',
+        'Block × fertilizer (main-plot error)',
         'Variety',
-        'Variety × treatment',
+        'Variety × fertilizer',
         'Residual',
         'Total',
       ]);
-      const treatmentRow = anova.getByRole('row').filter({ hasText: /^Treatment/ });
+      const treatmentRow = anova.getByRole('row').filter({ hasText: /^Fertilizer/ });
       await expect(treatmentRow.textContent()).resolves.toContain(
-        'Block × treatment (main-plot error)',
+        'Block × fertilizer (main-plot error)',
       );
       await page.locator('[data-strata="split-plot"]').waitFor();
       // The interaction plot is drawn (one line per variety), with its table beside it.
@@ -75,9 +76,9 @@ describe('a split-plot trial', () => {
       const cells = page.getByRole('table', { name: /Cell means: variety × fertilizer/ });
       await expect(cells.getByRole('columnheader').allTextContents()).resolves.toEqual([
         'Variety',
-        'none',
-        'pre-plant',
-        'Variety mean',
+        'none (d)',
+        'pre-plant (d)',
+        'Variety mean (d)',
       ]);
       const effects = page.getByRole('table', { name: /Fertilizer within each variety/ });
       await expect(effects.getByRole('rowheader').allTextContents()).resolves.toEqual([

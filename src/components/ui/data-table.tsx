@@ -53,6 +53,13 @@ export interface DataTableProps<T> {
   busy?: boolean;
   /** Extra classes for the table (e.g. a minimum width before it scrolls sideways). */
   className?: string;
+  /** Extra classes for a row (e.g. a rule above a totals row, a card's grid on a phone). */
+  rowClassName?: (row: T) => string;
+  /**
+   * Below this width each row is a card: the header row is left to screen readers, and the
+   * cells say their own column names (a form's inputs carry their labels).
+   */
+  cardsBelow?: 'sm';
 }
 
 const ariaSort = { asc: 'ascending', desc: 'descending' } as const;
@@ -69,6 +76,8 @@ export function DataTable<T>({
   sort,
   busy,
   className = '',
+  rowClassName,
+  cardsBelow,
 }: DataTableProps<T>) {
   const [ownSorting, setOwnSorting] = useState<SortingState>([]);
   const sorting = sort?.state ?? ownSorting;
@@ -121,7 +130,7 @@ export function DataTable<T>({
         <caption className={showCaption ? 'p-2 text-left font-semibold text-leaf-900' : 'sr-only'}>
           {caption}
         </caption>
-        <thead className="bg-leaf-50">
+        <thead className={`bg-leaf-50 ${cardsBelow === 'sm' ? 'max-sm:sr-only' : ''}`}>
           {table.getHeaderGroups().map((group) => (
             <tr key={group.id}>
               {group.headers.map((header) => {
@@ -155,7 +164,10 @@ export function DataTable<T>({
         </thead>
         <tbody>
           {table.getRowModel().rows.map((row) => (
-            <tr key={row.id} className="border-t border-leaf-50">
+            <tr
+              key={row.id}
+              className={`border-t border-leaf-50 ${rowClassName ? rowClassName(row.original) : ''}`}
+            >
               {row.getVisibleCells().map((cell) => {
                 const content = flexRender(cell.column.columnDef.cell, cell.getContext());
                 const className = cellClass(row, cell.column.columnDef.meta);

@@ -18,17 +18,40 @@ const designWords = {
   multisite: 'blocks at several sites',
 } as const;
 
-const sourceWords: Record<string, string> = {
-  site: 'Site',
-  block: 'Block (within site)',
-  treatment: 'Treatment',
-  'block:treatment': 'Block × treatment (main-plot error)',
-  variety: 'Variety',
-  'variety:treatment': 'Variety × treatment',
-  'site:variety': 'Site × variety',
-  residual: 'Residual',
-  total: 'Total',
-};
+/**
+ * An ANOVA line's source in words: a two-factor trial's treatment under the trial's own name for
+ * it (e.g. "Fertilizer"), and blocks "within site" only when there are several sites.
+ */
+export function anovaSourceLabel(
+  source: AnalysisResult['anova'][number]['source'],
+  { factor = 'Treatment', sites }: { factor?: string; sites: number },
+) {
+  const f = factor.toLowerCase();
+  switch (source) {
+    case 'site':
+      return 'Site';
+    case 'block':
+      return sites > 1 ? 'Block (within site)' : 'Block';
+    case 'treatment':
+      return factor;
+    case 'block:treatment':
+      return `Block × ${f} (main-plot error)`;
+    case 'variety':
+      return 'Variety';
+    case 'variety:treatment':
+      return `Variety × ${f}`;
+    case 'site:variety':
+      return 'Site × variety';
+    case 'residual':
+      return 'Residual';
+    case 'total':
+      return 'Total';
+    default: {
+      const never: never = source;
+      return never;
+    }
+  }
+}
 
 const tableWrap = 'mt-2 rounded-lg bg-white shadow-sm';
 const componentCol =
@@ -149,12 +172,17 @@ export function AnovaTable({
   result,
   unit,
   title,
+  factor,
 }: {
   result: AnalysisResult;
   unit: DisplayUnit;
   title: string;
+  /** A two-factor trial's name for its treatment. */
+  factor?: string;
 }) {
   const f2 = unit.factor * unit.factor;
+  const label = (source: AnalysisResult['anova'][number]['source']) =>
+    anovaSourceLabel(source, { factor, sites: result.counts.sites });
   return (
     <ScrollRegion label={`Analysis of variance: ${title}`} className={tableWrap}>
       <DataTable
@@ -179,7 +207,7 @@ export function AnovaTable({
         rowId={(l) => l.source}
         rowHeader="source"
         columns={[
-          anovaCol.accessor((l) => sourceWords[l.source] ?? l.source, {
+          anovaCol.accessor((l) => label(l.source), {
             id: 'source',
             header: 'Source',
           }),
@@ -211,14 +239,11 @@ export function AnovaTable({
             ),
             meta: { align: 'right' },
           }),
-          anovaCol.accessor(
-            (l) => (l.testedAgainst ? (sourceWords[l.testedAgainst] ?? l.testedAgainst) : ''),
-            {
-              id: 'testedAgainst',
-              header: 'Tested against',
-              meta: { cellClassName: () => 'text-loam-700' },
-            },
-          ),
+          anovaCol.accessor((l) => (l.testedAgainst ? label(l.testedAgainst) : ''), {
+            id: 'testedAgainst',
+            header: 'Tested against',
+            meta: { cellClassName: () => 'text-loam-700' },
+          }),
         ]}
       />
       <p className="px-2 pb-2 text-xs text-loam-700">* p below α = {result.alpha}</p>

@@ -15,11 +15,22 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
+import { createColumnHelper } from '@tanstack/react-table';
 import { seriesColour } from '@/components/ui/chart-palette';
+import { DataTable } from '@/components/ui/data-table';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
-const th = 'p-2 font-semibold';
-const td = 'p-2 tabular-nums text-right';
+type Mean = { mean: number; se: number };
+/** A row of the cell means table: a variety's cells and its mean, or the treatment means. */
+type MeanRow = {
+  id: string;
+  kind: 'variety' | 'margin';
+  name: string;
+  cells: (Mean | undefined)[];
+  margin?: Mean;
+};
+const meanCol = createColumnHelper<MeanRow>();
+const effectCol = createColumnHelper<TwoFactor['treatmentWithinVariety'][number]>();
 
 /** One row per treatment level, one column per variety (keys v0, v1 …: names may hold dots). */
 export function interactionTable(t: TwoFactor, factor: number) {
@@ -48,11 +59,27 @@ export function TwoFactorPanel({
   const t = result.twoFactor;
   if (!t) return null;
   const f = unit.factor;
-  const inUnit = unit.label ? `, ${unit.label}` : '';
+  const inUnit = unit.label ? ` (${unit.label})` : '';
+  const factor = t.factor.toLowerCase();
+  const meanText = (m: Mean | undefined) =>
+    m ? `${formatNumber(m.mean * f)} ± ${formatNumber(m.se * f, 3)}` : '—';
   const { rows, series } = interactionTable(t, f);
   const varieties = series.map((s) => s.name);
-  const cell = (variety: string, level: string) =>
-    t.cellMeans.find((c) => c.variety === variety && c.treatment === level);
+  const meanRows: MeanRow[] = [
+    ...varieties.map((v, i) => ({
+      id: `v${i}`,
+      kind: 'variety' as const,
+      name: v,
+      cells: t.levels.map((l) => t.cellMeans.find((c) => c.variety === v && c.treatment === l)),
+      margin: t.varietyMeans.find((m) => m.variety === v),
+    })),
+    {
+      id: 'margin',
+      kind: 'margin',
+      name: `${t.factor} mean`,
+      cells: t.levels.map((l) => t.treatmentMeans.find((m) => m.treatment === l)),
+    },
+  ];
   const chart = (
     <LineChart data={rows} margin={{ left: 8, right: 8 }} {...(size ?? {})}>
       <CartesianGrid strokeDasharray="3 3" />
@@ -86,10 +113,10 @@ export function TwoFactorPanel({
 
       <figure className="rounded-lg bg-white p-3 shadow-sm">
         <figcaption className="font-semibold text-leaf-900">
-          Interaction plot: {result.traitLabel} by {t.factor.toLowerCase()}, one line per variety
+          Interaction plot: {result.traitLabel} by {factor}, one line per variety
           <span className="block text-xs font-normal text-loam-700">
-            Lines that are not parallel show varieties answering the {t.factor.toLowerCase()}{' '}
-            differently. The same numbers are in the table below.
+            Lines that are not parallel show varieties answering the {factor} differently. The same
+            numbers are in the table below.
           </span>
         </figcaption>
         <div
@@ -109,128 +136,102 @@ export function TwoFactorPanel({
       </figure>
 
       <ScrollRegion label="Cell means" className="rounded-lg bg-white shadow-sm">
-        <table className="w-full min-w-[28rem] text-left text-sm">
-          <caption className="p-2 text-left font-semibold text-leaf-900">
-            Cell means: variety × {t.factor.toLowerCase()} (± SE{inUnit})
-            <span className="block text-xs font-normal text-loam-700">
-              Least-squares means averaged over blocks; the last row and column are the{' '}
-              {t.factor.toLowerCase()} and variety means.
-            </span>
-          </caption>
-          <thead className="bg-leaf-50 text-leaf-900">
-            <tr>
-              <th scope="col" className={th}>
-                Variety
-              </th>
-              {t.levels.map((l) => (
-                <th key={l} scope="col" className={`${th} text-right`}>
-                  {l}
-                </th>
-              ))}
-              <th scope="col" className={`${th} text-right`}>
-                Variety mean
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {varieties.map((v) => {
-              const vm = t.varietyMeans.find((m) => m.variety === v);
-              return (
-                <tr key={v} className="border-t border-leaf-50">
-                  <th scope="row" className="p-2 font-medium">
-                    {v}
-                  </th>
-                  {t.levels.map((l) => {
-                    const c = cell(v, l);
-                    return (
-                      <td key={l} className={td} data-mean={c?.mean ?? ''}>
-                        {c ? `${formatNumber(c.mean * f)} ± ${formatNumber(c.se * f, 3)}` : '—'}
-                      </td>
-                    );
-                  })}
-                  <td className={td}>
-                    {vm ? `${formatNumber(vm.mean * f)} ± ${formatNumber(vm.se * f, 3)}` : '—'}
-                  </td>
-                </tr>
-              );
-            })}
-            <tr className="border-t-2 border-leaf-100">
-              <th scope="row" className="p-2 font-medium">
-                {t.factor} mean
-              </th>
-              {t.levels.map((l) => {
-                const m = t.treatmentMeans.find((x) => x.treatment === l);
-                return (
-                  <td key={l} className={td}>
-                    {m ? `${formatNumber(m.mean * f)} ± ${formatNumber(m.se * f, 3)}` : '—'}
-                  </td>
-                );
-              })}
-              <td />
-            </tr>
-          </tbody>
-        </table>
+        <DataTable
+          showCaption
+          sortable={false}
+          className="min-w-[28rem]"
+          caption={
+            <>
+              Cell means: variety × {factor} (± SE)
+              <span className="block text-xs font-normal text-loam-700">
+                Least-squares means averaged over blocks; the last row and column are the {factor}{' '}
+                and variety means.
+              </span>
+            </>
+          }
+          data={meanRows}
+          rowId={(r) => r.id}
+          rowHeader="name"
+          rowClassName={(r) => (r.kind === 'margin' ? 'border-t-2 border-leaf-100' : '')}
+          columns={[
+            meanCol.accessor('name', { header: 'Variety' }),
+            ...t.levels.map((l, i) =>
+              meanCol.display({
+                id: `level${i}`,
+                header: `${l}${inUnit}`,
+                cell: ({ row: { original: r } }) => meanText(r.cells[i]),
+                meta: {
+                  align: 'right',
+                  cellProps: (r) => ({ 'data-mean': r.cells[i]?.mean ?? '' }),
+                },
+              }),
+            ),
+            meanCol.display({
+              id: 'varietyMean',
+              header: `Variety mean${inUnit}`,
+              cell: ({ row: { original: r } }) => (r.kind === 'margin' ? '' : meanText(r.margin)),
+              meta: { align: 'right' },
+            }),
+          ]}
+        />
       </ScrollRegion>
 
       <ScrollRegion
         label={`${t.factor} within each variety`}
         className="rounded-lg bg-white shadow-sm"
       >
-        <table className="w-full min-w-[32rem] text-left text-sm">
-          <caption className="p-2 text-left font-semibold text-leaf-900">
-            {t.factor} within each variety (simple effects{inUnit})
-            <span className="block text-xs font-normal text-loam-700">
-              {t.layout === 'split-plot'
-                ? 'Two levels compared within a variety lie on different main plots: the SE carries both errors, on Satterthwaite’s df.'
-                : 'Every comparison is on the residual error.'}
-            </span>
-          </caption>
-          <thead className="bg-leaf-50 text-leaf-900">
-            <tr>
-              <th scope="col" className={th}>
-                Variety
-              </th>
-              <th scope="col" className={th}>
-                Comparison
-              </th>
-              <th scope="col" className={`${th} text-right`}>
-                Difference
-              </th>
-              <th scope="col" className={`${th} text-right`}>
-                SE
-              </th>
-              <th scope="col" className={`${th} text-right`}>
-                df
-              </th>
-              <th scope="col" className={`${th} text-right`}>
-                p
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {t.treatmentWithinVariety.map((e) => (
-              <tr key={`${e.within}|${e.a}|${e.b}`} className="border-t border-leaf-50">
-                <th scope="row" className="p-2 font-medium">
-                  {e.within}
-                </th>
-                <td className="p-2">
-                  {e.a} − {e.b}
-                </td>
-                <td className={td} data-difference={e.difference}>
-                  {formatNumber(e.difference * f)}
-                </td>
-                <td className={td}>{formatNumber(e.se * f, 3)}</td>
-                <td className={td}>{Number.isInteger(e.df) ? e.df : e.df.toFixed(1)}</td>
-                <td className={td}>
-                  {formatP(e.p)}
-                  {e.p < result.alpha ? (
+        <DataTable
+          showCaption
+          className="min-w-[32rem]"
+          caption={
+            <>
+              {t.factor} within each variety (simple effects)
+              <span className="block text-xs font-normal text-loam-700">
+                {t.layout === 'split-plot'
+                  ? 'Two levels compared within a variety lie on different main plots: the SE carries both errors, on Satterthwaite’s df.'
+                  : 'Every comparison is on the residual error.'}
+              </span>
+            </>
+          }
+          data={t.treatmentWithinVariety}
+          rowId={(e) => `${e.within}|${e.a}|${e.b}`}
+          rowHeader="within"
+          columns={[
+            effectCol.accessor('within', { header: 'Variety' }),
+            effectCol.accessor((e) => `${e.a} − ${e.b}`, {
+              id: 'comparison',
+              header: 'Comparison',
+            }),
+            effectCol.accessor('difference', {
+              header: `Difference${inUnit}`,
+              cell: (c) => formatNumber(c.getValue() * f),
+              meta: { align: 'right', cellProps: (e) => ({ 'data-difference': e.difference }) },
+            }),
+            effectCol.accessor('se', {
+              header: `SE${inUnit}`,
+              cell: (c) => formatNumber(c.getValue() * f, 3),
+              meta: { align: 'right' },
+            }),
+            effectCol.accessor('df', {
+              header: 'df',
+              cell: (c) =>
+                Number.isInteger(c.getValue()) ? c.getValue() : c.getValue().toFixed(1),
+              meta: { align: 'right' },
+            }),
+            effectCol.accessor('p', {
+              header: 'p',
+              cell: (c) => (
+                <>
+                  {formatP(c.getValue())}
+                  {c.getValue() < result.alpha ? (
                     <span className="ml-1 font-semibold text-leaf-700">*</span>
                   ) : null}
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+                </>
+              ),
+              meta: { align: 'right' },
+            }),
+          ]}
+        />
         <p className="px-2 pb-2 text-xs text-loam-700">* p below α = {result.alpha}</p>
       </ScrollRegion>
     </section>

@@ -254,7 +254,12 @@ export function Component() {
             />
           ) : null}
           {result.anova.length > 0 ? (
-            <AnovaTable result={result} unit={unit} title={result.traitLabel} />
+            <AnovaTable
+              result={result}
+              unit={unit}
+              title={result.traitLabel}
+              factor={result.twoFactor?.factor}
+            />
           ) : null}
           <TwoFactorPanel result={result} unit={unit} />
           <MeansTable
