@@ -74,11 +74,12 @@ describe('a split-plot trial', () => {
       await plot.locator('.recharts-line').first().waitFor();
       await expect(plot.locator('.recharts-line').count()).resolves.toBe(4);
       const cells = page.getByRole('table', { name: /Cell means: variety × fertilizer/ });
+      // Days counted carry no unit label, so the headers are the levels alone.
       await expect(cells.getByRole('columnheader').allTextContents()).resolves.toEqual([
         'Variety',
-        'none (d)',
-        'pre-plant (d)',
-        'Variety mean (d)',
+        'none',
+        'pre-plant',
+        'Variety mean',
       ]);
       const effects = page.getByRole('table', { name: /Fertilizer within each variety/ });
       await expect(effects.getByRole('rowheader').allTextContents()).resolves.toEqual([
