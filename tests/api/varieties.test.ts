@@ -96,6 +96,19 @@ describe('GET /api/varieties', () => {
         trialCount: 1,
         seasonCount: 1,
       });
+      // The promised shape: each variety carries at least these, typed as addresses rely on.
+      for (const v of res.body.varieties) {
+        expect(v).toEqual(
+          expect.objectContaining({
+            id: expect.stringMatching(/^[0-9a-f-]{36}$/),
+            slug: expect.stringMatching(/^[a-z0-9]+(-[a-z0-9]+)*$/),
+            name: expect.any(String),
+            crop: expect.any(String),
+            trialCount: expect.any(Number),
+            seasonCount: expect.any(Number),
+          }),
+        );
+      }
     }
   });
 
