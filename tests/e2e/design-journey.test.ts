@@ -188,8 +188,18 @@ async function journey(page: Page, title: string, tag: string): Promise<string> 
   await page.getByRole('button', { name: 'Save what was planted' }).click();
   await page.getByText('Survivors cannot outnumber the plants set.', { exact: true }).waitFor();
   await page.getByRole('alert').filter({ hasText: 'nothing was saved' }).waitFor();
-  await page.getByLabel(`Survivors, plot ${plot}`).fill('1');
-  await page.getByLabel(`Gaps, plot ${plot}`).fill('0');
+  // By keyboard: while the form re-checks each change the row's inputs keep the caret, and Tab
+  // goes on to the next count of the same plot.
+  const survivors = page.getByLabel(`Survivors, plot ${plot}`);
+  await survivors.selectText();
+  await page.keyboard.type('1');
+  await page.keyboard.press('Tab');
+  await expect
+    .poll(() => page.evaluate(() => document.activeElement?.getAttribute('aria-label')))
+    .toBe(`Gaps, plot ${plot}`);
+  await page.keyboard.type('0');
+  await expect(survivors.inputValue()).resolves.toBe('1');
+  await expect(page.getByLabel(`Gaps, plot ${plot}`).inputValue()).resolves.toBe('0');
   await page.getByRole('button', { name: 'Save what was planted' }).click();
   await page.getByRole('status').filter({ hasText: 'Saved 15 plots.' }).waitFor();
   return slug;

@@ -1,6 +1,8 @@
 import { type Design, type DesignPlot, plantingForm } from '@common/contracts/design';
-import { useState } from 'react';
+import { createColumnHelper } from '@tanstack/react-table';
+import { useMemo, useState } from 'react';
 import { Button } from '@/components/ui/button';
+import { DataTable } from '@/components/ui/data-table';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { FormMessage } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
@@ -15,6 +17,7 @@ const rowOf = (p: DesignPlot) => ({
   gaps: p.gaps?.toString() ?? '',
   note: p.plantedNote,
 });
+const plotCol = createColumnHelper<DesignPlot>();
 const countLabels = {
   plantsSet: 'Plants set',
   plantsSurviving: 'Survivors',
@@ -30,6 +33,89 @@ const phoneLabel = (text: string) => (
   </span>
 );
 
+type PlantingForm = ReturnType<typeof useContractForm<typeof plantingForm>>;
+
+/** A plot row's problems in words (read at render time, so the columns can stay the same). */
+const problemAt = (form: PlantingForm, i: number) =>
+  (['plantsSet', 'plantsSurviving', 'gaps', 'note'] as const)
+    .map((k) => form.formState.errors.plots?.[i]?.[k]?.message)
+    .filter(Boolean)
+    .join(' ');
+
+/**
+ * A row per plot in field order, each a card on a phone; the cells are the form's inputs. Made
+ * once per form: a new cell renderer would remount its input (and lose the caret) on each render.
+ */
+function plantingColumns(form: PlantingForm, entryCode: (entryId: string) => string) {
+  const rowError = (i: number) => form.formState.errors.plots?.[i];
+  const count = (k: keyof typeof countLabels) =>
+    plotCol.display({
+      id: k,
+      header: countLabels[k],
+      cell: ({ row: { original: p, index: i } }) => (
+        <>
+          {phoneLabel(countLabels[k])}
+          <input
+            aria-label={`${countLabels[k]}, plot ${p.plotNumber}`}
+            inputMode="numeric"
+            aria-invalid={rowError(i)?.[k] ? true : undefined}
+            className={cellInput(!!rowError(i)?.[k])}
+            {...form.register(`plots.${i}.${k}`)}
+          />
+        </>
+      ),
+    });
+  // A row per plot in field order, each a card on a phone; the cells are the form's inputs.
+  return [
+    plotCol.accessor('plotNumber', {
+      id: 'plot',
+      header: 'Plot',
+      cell: (c) => (
+        <>
+          <span className="sm:hidden">Plot </span>
+          {c.getValue()}
+        </>
+      ),
+    }),
+    plotCol.accessor((p) => entryCode(p.entryId), {
+      id: 'entry',
+      header: 'Entry',
+      meta: { cellClassName: () => 'font-mono' },
+    }),
+    plotCol.accessor('plannedPlants', {
+      header: 'Planned',
+      cell: (c) => (
+        <>
+          <span className="sm:hidden">Planned </span>
+          {c.getValue() ?? '—'}
+        </>
+      ),
+    }),
+    count('plantsSet'),
+    count('plantsSurviving'),
+    count('gaps'),
+    plotCol.display({
+      id: 'note',
+      header: 'Note',
+      cell: ({ row: { original: p, index: i } }) => {
+        const problem = problemAt(form, i);
+        return (
+          <>
+            {phoneLabel('Note')}
+            <input
+              aria-label={`Note, plot ${p.plotNumber}`}
+              className="min-h-11 w-full rounded border border-leaf-300 bg-white px-2 sm:w-48"
+              {...form.register(`plots.${i}.note`)}
+            />
+            {problem ? <p className="mt-1 text-frost-600">{problem}</p> : null}
+          </>
+        );
+      },
+      meta: { cellClassName: () => 'max-sm:col-span-3' },
+    }),
+  ];
+}
+
 /** The plots of one site, one row of counts each; saving sends this site's rows. */
 function SitePlanting({
   design,
@@ -43,16 +129,13 @@ function SitePlanting({
   const save = useRecordPlanting(slug);
   const form = useContractForm(plantingForm, { plots: plots.map(rowOf) });
   const { errors, isSubmitting, isSubmitSuccessful } = form.formState;
-  const entry = new Map(design.entries.map((e) => [e.id, e]));
+  const columns = useMemo(() => {
+    const code = new Map(design.entries.map((e) => [e.id, e.code]));
+    return plantingColumns(form, (id) => code.get(id) ?? '');
+  }, [form, design.entries]);
   const onSubmit = submitTo(form, (body) => save.mutateAsync(body));
   const refusal = formRefusal(form);
-  const rowErrors = errors.plots ?? [];
-  const problemAt = (i: number) =>
-    (['plantsSet', 'plantsSurviving', 'gaps', 'note'] as const)
-      .map((k) => rowErrors[i]?.[k]?.message)
-      .filter(Boolean)
-      .join(' ');
-  const anyRowProblem = plots.some((_, i) => problemAt(i));
+  const anyRowProblem = errors.plots !== undefined && plots.some((_, i) => problemAt(form, i));
 
   return (
     <form noValidate aria-label="What was planted" onSubmit={onSubmit} className="space-y-3">
@@ -77,61 +160,17 @@ function SitePlanting({
       </p>
       <fieldset disabled={!design.canEdit}>
         <ScrollRegion label="What was planted per plot" className="rounded-lg bg-white shadow-sm">
-          <table className="w-full text-left text-sm sm:min-w-[40rem]">
-            <thead className="bg-leaf-50 text-leaf-900 max-sm:sr-only">
-              <tr>
-                <th className="p-2">Plot</th>
-                <th className="p-2">Entry</th>
-                <th className="p-2">Planned</th>
-                <th className="p-2">Plants set</th>
-                <th className="p-2">Survivors</th>
-                <th className="p-2">Gaps</th>
-                <th className="p-2">Note</th>
-              </tr>
-            </thead>
-            <tbody>
-              {plots.map((p, i) => {
-                const problem = problemAt(i);
-                return (
-                  <tr
-                    key={p.id}
-                    className="border-t border-leaf-50 align-top max-sm:grid max-sm:grid-cols-3 max-sm:gap-x-2"
-                  >
-                    <th scope="row" className="p-2">
-                      <span className="sm:hidden">Plot </span>
-                      {p.plotNumber}
-                    </th>
-                    <td className="p-2 font-mono">{entry.get(p.entryId)?.code}</td>
-                    <td className="p-2">
-                      <span className="sm:hidden">Planned </span>
-                      {p.plannedPlants ?? '—'}
-                    </td>
-                    {(['plantsSet', 'plantsSurviving', 'gaps'] as const).map((k) => (
-                      <td key={k} className="p-2">
-                        {phoneLabel(countLabels[k])}
-                        <input
-                          aria-label={`${countLabels[k]}, plot ${p.plotNumber}`}
-                          inputMode="numeric"
-                          aria-invalid={rowErrors[i]?.[k] ? true : undefined}
-                          className={cellInput(!!rowErrors[i]?.[k])}
-                          {...form.register(`plots.${i}.${k}`)}
-                        />
-                      </td>
-                    ))}
-                    <td className="p-2 max-sm:col-span-3">
-                      {phoneLabel('Note')}
-                      <input
-                        aria-label={`Note, plot ${p.plotNumber}`}
-                        className="min-h-11 w-full rounded border border-leaf-300 bg-white px-2 sm:w-48"
-                        {...form.register(`plots.${i}.note`)}
-                      />
-                      {problem ? <p className="mt-1 text-frost-600">{problem}</p> : null}
-                    </td>
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
+          <DataTable
+            caption="What was planted per plot"
+            sortable={false}
+            cardsBelow="sm"
+            className="sm:min-w-[40rem]"
+            data={plots}
+            rowId={(p) => p.id}
+            rowHeader="plot"
+            rowClassName={() => 'align-top max-sm:grid max-sm:grid-cols-3 max-sm:gap-x-2'}
+            columns={columns}
+          />
         </ScrollRegion>
       </fieldset>
       {anyRowProblem ? (
