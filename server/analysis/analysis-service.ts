@@ -306,10 +306,10 @@ function twoFactorTrialResult(
     errorTerm: r.errorTerm,
     method: r.method,
     model: r.model,
-    ...(r.varianceComponents && r.fixedTests
+    ...(r.varianceComponents && r.fixedTest
       ? {
           varianceComponents: r.varianceComponents,
-          fixedTest: { ...r.fixedTests.find((x) => x.source === 'variety')!, source: 'variety' },
+          fixedTest: r.fixedTest,
           logLik: r.logLik,
           boundary: r.boundary,
         }

@@ -890,6 +890,8 @@ export interface TwoFactorResult extends Omit<TwoFactorAnalysis, 'cellMeans' | '
   varianceComponents?: SplitPlotMixedAnalysis['varianceComponents'];
   /** Mixed model only: sequential Wald F tests with Satterthwaite's denominator df. */
   fixedTests?: SplitPlotMixedAnalysis['fixedTests'];
+  /** Mixed model only: the variety test of `fixedTests`, where a one-factor analysis gives it. */
+  fixedTest?: Omit<SplitPlotMixedAnalysis['fixedTests'][number], 'source'> & { source: 'variety' };
   /** Mixed model only: the REML log-likelihood. */
   logLik?: number;
   /** Mixed model only: a variance component was estimated as zero and kept there. */
@@ -1025,6 +1027,14 @@ export function analyzeTwoFactorRows(
     model,
     method: unbalanced || model === 'mixed' ? 'least-squares' : 'means',
     ...rest,
+    ...(mixed
+      ? {
+          fixedTest: {
+            ...mixed.fixedTests.find((t) => t.source === 'variety')!,
+            source: 'variety',
+          },
+        }
+      : {}),
     adjustedMeans: cellMeans,
     counts: {
       entries: layout.variety.levels.length,

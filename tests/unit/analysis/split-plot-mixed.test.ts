@@ -110,6 +110,8 @@ describe.each(['balanced', 'missing1', 'missing3', 'oats'])(
         expect(Math.abs(t.p - r.p)).toBeLessThan(1e-6);
         expect(t.method).toBe('satterthwaite');
       });
+      // The variety test also stands where a one-factor analysis gives it.
+      expect(result.fixedTest).toEqual({ ...tests[1]!, source: 'variety' });
     });
 
     it('gives lme4’s fixed effects (treatment coding) from the cell means', () => {
