@@ -2,15 +2,29 @@ import type { RecordPlot } from '@common/contracts/records';
 import { useId, useState } from 'react';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
-/** Pick a plot by typing its number, by entry, or by tapping it on the grid of blocks. */
+/** A two-factor trial's plot level, named by the treatment ("Fertilizer: none"); else null. */
+export function plotTreatment(
+  factorName: string | null | undefined,
+  plot: Pick<RecordPlot, 'treatment'>,
+): string | null {
+  return factorName && plot.treatment ? `${factorName}: ${plot.treatment}` : null;
+}
+
+/**
+ * Pick a plot by typing its number, by entry, or by tapping it on the grid of blocks; in a
+ * two-factor trial each plot on the grid also shows its level of the treatment.
+ */
 export function PlotPicker({
   plots,
   currentId,
   onPick,
+  factorName,
 }: {
   plots: RecordPlot[];
   currentId: string | null;
   onPick: (plotId: string) => void;
+  /** the trial's treatment, when it has a second factor */
+  factorName?: string | null;
 }) {
   const id = useId();
   const [number, setNumber] = useState('');
@@ -99,7 +113,9 @@ export function PlotPicker({
                     type="button"
                     aria-pressed={p.plotId === currentId}
                     onClick={() => onPick(p.plotId)}
-                    className={`min-h-11 min-w-11 shrink-0 rounded-md border px-1 text-xs leading-tight ${
+                    // relative: the screen-reader words inside stay within the scrolling grid
+                    // (absolutely placed, they would otherwise widen the whole page on a phone)
+                    className={`relative min-h-11 min-w-11 shrink-0 rounded-md border px-1 text-xs leading-tight ${
                       p.plotId === currentId
                         ? 'border-pod-500 bg-pod-500 font-bold text-ink'
                         : 'border-leaf-300 bg-white text-leaf-900'
@@ -110,6 +126,13 @@ export function PlotPicker({
                     <br />
                     <span className="font-mono">{p.entryCode}</span>
                     <span className="sr-only">, {p.entryName}</span>
+                    {plotTreatment(factorName, p) ? (
+                      <>
+                        <br />
+                        <span className="sr-only">, {factorName}: </span>
+                        <span className="text-[0.7rem]">{p.treatment}</span>
+                      </>
+                    ) : null}
                   </button>
                 ))}
             </div>

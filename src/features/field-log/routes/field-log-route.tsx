@@ -22,7 +22,7 @@ import { DeviceOutbox } from '../components/outbox-panel';
 import { CautionOnce } from '../components/caution-once';
 import { LabelScanner } from '../components/label-scanner';
 import { PlotPhoto } from '../components/plot-photo';
-import { PlotPicker } from '../components/plot-picker';
+import { PlotPicker, plotTreatment } from '../components/plot-picker';
 import { SiteChooser } from '../components/site-chooser';
 import { mySitesOf, useCautionSeen, useRoundSite } from '../api/field-log-memory';
 
@@ -76,6 +76,8 @@ export function Component() {
   const plot =
     sitePlots.find((p) => p.plotId === plotId) ??
     (plotId === null && siteId ? (sitePlots[0] ?? null) : null);
+  // A two-factor trial's plot is named with its level of the treatment ("Fertilizer: none").
+  const level = plot ? plotTreatment(t.factor?.name, plot) : null;
   const spiny = isSpinyCrop(t.crop) || t.traits.some((tr) => tr.key === 'spines');
   const available = (Object.keys(forms) as FormKey[]).filter((k) =>
     k === 'note' ? canNote : canWrite,
@@ -161,7 +163,12 @@ export function Component() {
           <div className="my-2">
             <LabelScanner onFound={onScanned} />
           </div>
-          <PlotPicker plots={sitePlots} currentId={plot?.plotId ?? null} onPick={setPlotId} />
+          <PlotPicker
+            plots={sitePlots}
+            currentId={plot?.plotId ?? null}
+            onPick={setPlotId}
+            factorName={t.factor?.name}
+          />
         </section>
       ) : null}
 
@@ -174,7 +181,8 @@ export function Component() {
           >
             Plot {plot.plotNumber} · {plot.entryName}{' '}
             <span className="text-base font-normal text-loam-700">
-              ({plot.entryCode}, block {plot.block})
+              ({plot.entryCode}, block {plot.block}
+              {level ? `, ${level}` : ''})
             </span>
           </h2>
           <FieldDate date={date} onChange={setDate} className="mt-2 w-56" />
