@@ -465,8 +465,11 @@ export function analyzePlotRows(
   }
 
   if (design !== 'crd' && missingPlots > 0) {
+    // Under the mixed model the ranks come from its estimated means, not the ANOVA's.
     warnings.push(
-      `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); sequential (type I) sums of squares in the order ${design === 'multisite' ? 'site, block, variety, site:variety' : 'block, variety'}; ranks and letters come from adjusted (least-squares) means, arithmetic means are shown beside them`,
+      options.model === 'mixed'
+        ? `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); the mixed model uses every plot left, and ranks and letters come from its estimated means (BLUEs), arithmetic means are shown beside them`
+        : `unbalanced: ${missingPlots} missing plot(s) (block × variety cells with no value); sequential (type I) sums of squares in the order ${design === 'multisite' ? 'site, block, variety, site:variety' : 'block, variety'}; ranks and letters come from adjusted (least-squares) means, arithmetic means are shown beside them`,
     );
   } else if (!orthogonal) {
     warnings.push(

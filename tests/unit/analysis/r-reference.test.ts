@@ -169,6 +169,12 @@ describe('against R reference analyses', () => {
     expect(missing.method).toBe('least-squares');
     expect(missing.counts.missingPlots).toBe(1);
     expect(missing.warnings.some((w) => w.startsWith('unbalanced: 1 missing plot'))).toBe(true);
+    expect(missing.warnings.join(' ')).toContain('sequential (type I) sums of squares');
+    // Under the mixed model the same file is ranked on the model's means, and says so.
+    const mixed = analyzeCsv(load('npk-rcbd-missing').csv, { model: 'mixed' });
+    const unbalanced = mixed.warnings.find((w) => w.startsWith('unbalanced: 1 missing plot'))!;
+    expect(unbalanced).toContain('estimated means (BLUEs)');
+    expect(unbalanced).not.toContain('sequential');
     const sub = analyzeCsv(load('subsamples').csv);
     expect(sub.n).toBe(16);
     expect(sub.counts.rows).toBe(48);
