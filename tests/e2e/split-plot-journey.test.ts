@@ -181,7 +181,7 @@ describe('a split-plot trial', () => {
       const components = page.getByRole('table', { name: /Variance components/ });
       await expect(components.getByRole('rowheader').allTextContents()).resolves.toEqual([
         'Blocks',
-        'Main plots (block × treatment)',
+        'Main plots (block × fertilizer)',
         'Plot to plot (residual)',
       ]);
       await expect(

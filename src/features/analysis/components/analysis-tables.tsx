@@ -108,7 +108,20 @@ export function WarningsList({ warnings }: { warnings: string[] }) {
  * Which model the ranks and letters came from and, for the mixed model, its variance
  * components, the variety test and the REML log-likelihood.
  */
-export function MixedModelPanel({ result, unit }: { result: AnalysisResult; unit: DisplayUnit }) {
+export function MixedModelPanel({
+  result,
+  unit,
+  factor,
+}: {
+  result: AnalysisResult;
+  unit: DisplayUnit;
+  /** A two-factor trial's name for its treatment (its main plots are block × that). */
+  factor?: string;
+}) {
+  const componentLabel = (source: keyof typeof varianceSourceLabels) =>
+    source === 'block:treatment' && factor
+      ? `Main plots (block × ${factor.toLowerCase()})`
+      : varianceSourceLabels[source];
   const f2 = unit.factor * unit.factor;
   const components = result.varianceComponents ?? [];
   const total = components.reduce((s, c) => s + c.variance, 0);
@@ -142,7 +155,7 @@ export function MixedModelPanel({ result, unit }: { result: AnalysisResult; unit
             rowId={(c) => c.source}
             rowHeader="source"
             columns={[
-              componentCol.accessor((c) => varianceSourceLabels[c.source], {
+              componentCol.accessor((c) => componentLabel(c.source), {
                 id: 'source',
                 header: 'Source',
               }),

@@ -241,7 +241,7 @@ export function Component() {
           <p className="text-sm text-loam-700">Plot value: {result.valueNote}.</p>
           <ResultSummary result={result} unit={unit} trialDesign={t.design} />
           <WarningsList warnings={result.warnings} />
-          <MixedModelPanel result={result} unit={unit} />
+          <MixedModelPanel result={result} unit={unit} factor={result.twoFactor?.factor} />
           {result.twoFactor?.fixedTests ? (
             <FixedTestsTable tests={result.twoFactor.fixedTests} factor={result.twoFactor.factor} />
           ) : null}
