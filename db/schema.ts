@@ -211,6 +211,8 @@ export interface VarietiesTable {
   updated_at: Generated<Date>;
   created_by: string | null;
   updated_by: string | null;
+  /** The variety's own cover, a photo of one of its entries (cleared when the photo goes). */
+  cover_photo_id: Generated<string | null>;
 }
 
 export interface PlotsTable extends Written {

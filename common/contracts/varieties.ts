@@ -40,6 +40,12 @@ export const groupListSchema = z.object({
 });
 export type GroupList = z.infer<typeof groupListSchema>;
 
+/** A variety's own cover photo, as a URL of each of its sizes; null when it has none. */
+export const varietyCoverSchema = z
+  .object({ id: z.string(), thumbUrl: z.string(), displayUrl: z.string() })
+  .nullable();
+export type VarietyCover = z.infer<typeof varietyCoverSchema>;
+
 /* GET /api/varieties: the register of every group the caller belongs to. */
 export const varietySummarySchema = z.object({
   id: z.uuid(),
@@ -52,6 +58,7 @@ export const varietySummarySchema = z.object({
   /** Trials (and distinct seasons) with an entry of this variety. */
   trialCount: z.number().int(),
   seasonCount: z.number().int(),
+  cover: varietyCoverSchema,
 });
 export type VarietySummary = z.infer<typeof varietySummarySchema>;
 export const varietyListSchema = z.object({ varieties: z.array(varietySummarySchema) });
@@ -93,7 +100,11 @@ export type CreateVarietyBody = z.input<typeof createVarietyBody>;
 
 /* PATCH /api/varieties/:slug: only the fields sent change. */
 export const updateVarietyBody = z
-  .object(varietyFields)
+  .object({
+    ...varietyFields,
+    /** A photo of one of the variety's entries; null clears the cover. */
+    coverPhotoId: z.uuid('Choose one of this variety’s photos.').nullable(),
+  })
   .partial()
   .refine((b) => Object.keys(b).length > 0, 'Change at least one field.');
 export type UpdateVarietyBody = z.input<typeof updateVarietyBody>;
@@ -131,6 +142,8 @@ export const varietySchema = z.object({
   expectedTraits: z.array(z.string()),
   aliases: z.array(z.string()),
   group: z.object({ id: z.uuid(), slug: z.string(), name: z.string() }),
+  /** Shown only where the caller may already see that photo on this page. */
+  cover: varietyCoverSchema,
 });
 export type Variety = z.infer<typeof varietySchema>;
 

@@ -24,8 +24,18 @@ export function listVarieties(db: DB, groupIds: string[] | 'all') {
     .selectFrom('varieties as v')
     .leftJoin('entries as e', 'e.variety_id', 'v.id')
     .leftJoin('trials as t', 't.id', 'e.trial_id')
+    // The cover while its photo is kept (a photo moved to the bin shows no cover).
+    .leftJoin('photos as cp', (j) =>
+      j
+        .onRef('cp.id', '=', 'v.cover_photo_id')
+        .on('cp.deleted_at', 'is', null)
+        .on('cp.purged_at', 'is', null),
+    )
+    .leftJoin('trials as ct', 'ct.id', 'cp.trial_id')
     .select([
       'v.id',
+      'cp.id as cover_id',
+      'ct.slug as cover_trial_slug',
       'v.slug',
       'v.name',
       'v.crop',
@@ -35,7 +45,7 @@ export function listVarieties(db: DB, groupIds: string[] | 'all') {
       sql<number>`count(distinct t.id)::int`.as('trial_count'),
       sql<number>`count(distinct t.season)::int`.as('season_count'),
     ])
-    .groupBy('v.id')
+    .groupBy(['v.id', 'cp.id', 'ct.slug'])
     .orderBy('v.crop')
     .orderBy('v.name');
   if (groupIds !== 'all') {
@@ -131,8 +141,14 @@ export function sheetSettings(db: DB, trialId: string) {
     .executeTakeFirst();
 }
 
-/** Photos of an entry (of the entry or of its plots), newest first. */
-export function entryPhotos(db: DB, trialId: string, entryId: string, limit: number) {
+/** Photos of an entry (of the entry or of its plots): the variety's cover first, then newest. */
+export function entryPhotos(
+  db: DB,
+  trialId: string,
+  entryId: string,
+  limit: number,
+  coverId: string | null,
+) {
   return db
     .selectFrom('photos as p')
     .leftJoin('plots as pl', 'pl.id', 'p.plot_id')
@@ -141,6 +157,7 @@ export function entryPhotos(db: DB, trialId: string, entryId: string, limit: num
     .where('p.deleted_at', 'is', null)
     .where('p.purged_at', 'is', null)
     .where((eb) => eb.or([eb('p.entry_id', '=', entryId), eb('pl.entry_id', '=', entryId)]))
+    .orderBy(sql`p.id = ${coverId}`, sql`desc nulls last`)
     .orderBy('p.is_cover', 'desc')
     .orderBy('p.created_at', 'desc')
     .limit(limit)
@@ -226,5 +243,26 @@ export function findVarietyInGroup(db: DB, groupId: string, varietyId: string) {
     .select(['id', 'name'])
     .where('id', '=', varietyId)
     .where('group_id', '=', groupId)
+    .executeTakeFirst();
+}
+
+/** A kept photo of one of the variety's entries (or their plots) in a trial of its group. */
+export function photoOfVariety(db: DB, variety: { id: string; groupId: string }, photoId: string) {
+  return db
+    .selectFrom('photos as p')
+    .innerJoin('trials as t', 't.id', 'p.trial_id')
+    .leftJoin('plots as pl', 'pl.id', 'p.plot_id')
+    .innerJoin('entries as e', (j) =>
+      j.on((eb) =>
+        eb.or([eb('e.id', '=', eb.ref('p.entry_id')), eb('e.id', '=', eb.ref('pl.entry_id'))]),
+      ),
+    )
+    .select('p.id')
+    .where('p.id', '=', photoId)
+    .where('p.deleted_at', 'is', null)
+    .where('p.purged_at', 'is', null)
+    .where('e.variety_id', '=', variety.id)
+    .where('e.trial_id', '=', (eb) => eb.ref('p.trial_id'))
+    .where('t.group_id', '=', variety.groupId)
     .executeTakeFirst();
 }

@@ -54,8 +54,17 @@ export async function listVarieties(db: DB, actor: Actor | null): Promise<Variet
       groupId: v.group_id,
       trialCount: v.trial_count,
       seasonCount: v.season_count,
+      cover:
+        v.cover_id && v.cover_trial_slug
+          ? photoUrls(`/api/trials/${v.cover_trial_slug}/photos/${v.cover_id}`, v.cover_id)
+          : null,
     })),
   };
+}
+
+/** A photo's sizes, as the photo routes serve them under `base`. */
+function photoUrls(base: string, id: string) {
+  return { id, thumbUrl: `${base}/thumb`, displayUrl: `${base}/display` };
 }
 
 /** A unique-name clash in a register, as a refusal on the name field. */
@@ -125,8 +134,25 @@ export async function updateVariety(
   const variety = await repo.findVarietyBySlug(db, slug);
   if (!variety) throw AppError.notFound('The variety');
   await groupForAction(db, variety.group_id, actor, 'register.edit');
+  if (b.coverPhotoId) {
+    const photo = await repo.photoOfVariety(
+      db,
+      { id: variety.id, groupId: variety.group_id },
+      b.coverPhotoId,
+    );
+    if (!photo) {
+      const message = 'Choose a photo of this variety from one of its group’s trials.';
+      throw new AppError('validation_failed', message, {
+        fields: [{ path: 'body.coverPhotoId', message }],
+      });
+    }
+  }
   await uniqueName(
-    repo.updateVariety(db, variety.id, { ...varietyColumns(b), updated_by: actor!.userId }),
+    repo.updateVariety(db, variety.id, {
+      ...varietyColumns(b),
+      cover_photo_id: b.coverPhotoId,
+      updated_by: actor!.userId,
+    }),
   );
 }
 
@@ -191,30 +217,27 @@ export async function varietyRecord(
       warnings: f.warnings,
     });
     if (f.view === 'trial') {
-      for (const p of await repo.entryPhotos(db, trial.id, entry.id, 6)) {
-        const base = `/api/trials/${trial.slug}/photos/${p.id}`;
+      const kept = await repo.entryPhotos(db, trial.id, entry.id, 6, variety.cover_photo_id);
+      for (const p of kept)
         photos.push({
-          id: p.id,
+          ...photoUrls(`/api/trials/${trial.slug}/photos/${p.id}`, p.id),
           caption: p.caption,
           trialSlug: trial.slug,
           season: trial.season,
-          thumbUrl: `${base}/thumb`,
-          displayUrl: `${base}/display`,
         });
-      }
     } else if (sheetEntry?.photo) {
-      const base = `/api/results/${trial.slug}/v/${f.version}/photos/${sheetEntry.photo.id}`;
+      const { id, caption } = sheetEntry.photo;
       photos.push({
-        id: sheetEntry.photo.id,
-        caption: sheetEntry.photo.caption,
+        ...photoUrls(`/api/results/${trial.slug}/v/${f.version}/photos/${id}`, id),
+        caption,
         trialSlug: trial.slug,
         season: f.snapshot!.trial.season,
-        thumbUrl: `${base}/thumb`,
-        displayUrl: `${base}/display`,
       });
     }
   }
   if (!inGroup && trials.length === 0) throw AppError.notFound('The variety');
+  // The cover only where this page already shows that photo to the caller (live or published).
+  const cover = photos.find((p) => p.id === variety.cover_photo_id);
   return {
     variety: {
       id: variety.id,
@@ -228,6 +251,9 @@ export async function varietyRecord(
       expectedTraits: variety.expected_traits,
       aliases: variety.aliases,
       group: { id: variety.group_id, slug: variety.group_slug, name: variety.group_name },
+      cover: cover
+        ? { id: cover.id, thumbUrl: cover.thumbUrl, displayUrl: cover.displayUrl }
+        : null,
     },
     canEdit: canGroup(actor, 'register.edit', role),
     trials,

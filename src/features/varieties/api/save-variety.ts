@@ -26,3 +26,12 @@ export function useSaveVariety(slug: string | null) {
     onSuccess: () => queryClient.invalidateQueries({ queryKey: [trialKeys.varieties()[0]] }),
   });
 }
+
+/** PATCH /api/varieties/:slug with only the cover (null clears it). */
+export function useSetVarietyCover(slug: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (coverPhotoId: string | null) => updateVariety(slug, { coverPhotoId }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: [trialKeys.varieties()[0]] }),
+  });
+}

@@ -15,12 +15,22 @@ const columns = [
   column.accessor('name', {
     header: 'Variety',
     cell: (c) => (
-      <Link
-        to={`/varieties/${c.row.original.slug}`}
-        className="font-semibold text-leaf-800 underline decoration-leaf-300 underline-offset-2 hover:decoration-leaf-700"
-      >
-        {c.getValue()}
-      </Link>
+      <span className="flex items-center gap-2">
+        {c.row.original.cover ? (
+          <img
+            src={c.row.original.cover.thumbUrl}
+            alt={`${c.getValue()}, cover photo`}
+            className="size-10 shrink-0 rounded object-cover"
+            loading="lazy"
+          />
+        ) : null}
+        <Link
+          to={`/varieties/${c.row.original.slug}`}
+          className="font-semibold text-leaf-800 underline decoration-leaf-300 underline-offset-2 hover:decoration-leaf-700"
+        >
+          {c.getValue()}
+        </Link>
+      </span>
     ),
   }),
   column.accessor('crop', { header: 'Crop' }),

@@ -22,6 +22,7 @@ import { useGroups } from '../api/get-varieties';
 import { useVariety } from '../api/get-variety';
 import { seasonSiteTable } from '../components/season-chart-data';
 import { SeasonChart } from '../components/season-chart';
+import { CoverPicker } from '../components/cover-picker';
 import { VarietyForm } from '../components/variety-form';
 
 const trialHref = (t: VarietyTrial) =>
@@ -105,6 +106,13 @@ function About({ record, onEdit }: { record: VarietyRecord; onEdit?: () => void 
   const inGroup = groups?.groups.some((g) => g.id === v.group.id) ?? false;
   return (
     <>
+      {v.cover ? (
+        <img
+          src={v.cover.displayUrl}
+          alt={`${v.name}, cover photo`}
+          className="mb-3 max-h-80 w-full rounded-lg object-cover"
+        />
+      ) : null}
       <p className="text-sm uppercase tracking-wide text-loam-700">
         {v.crop} · {varietyTypeLabels[v.type]} · {v.group.name}
       </p>
@@ -390,6 +398,9 @@ export function Component() {
       ) : (
         <About record={data} onEdit={data.canEdit ? () => setEditing(true) : undefined} />
       )}
+      {data.canEdit && data.photos.length ? (
+        <CoverPicker key={data.variety.cover?.id ?? ''} record={data} />
+      ) : null}
       <Record record={data} />
     </article>
   );
