@@ -52,6 +52,24 @@ afterAll(async () => {
   fs.rmSync(folder, { recursive: true, force: true });
 });
 
+/** The lead saves the sheet of the split plot's one trait, with a model or left to the design. */
+const saveSheet = (model?: 'mixed') =>
+  request(t.app)
+    .put(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet`)
+    .set('Origin', TEST_ORIGIN)
+    .set('Cookie', cookie)
+    .send({
+      summary: '',
+      methods: null,
+      traits: [{ key: 'days_to_first_pods', basis: 'plot', weight: 1 }],
+      entryNotes: {},
+      coverPhotos: {},
+      alpha: 0.05,
+      letters: 'hsd',
+      ...(model ? { model } : {}),
+      license: 'CC-BY-4.0',
+    });
+
 describe('a split plot with a missing plot', () => {
   it('gets the mixed model by default, says why, and gives its tests and variances', async () => {
     const res = await request(t.app).get(url).set('Cookie', cookie);
@@ -186,21 +204,7 @@ describe('a split plot with a missing plot', () => {
   });
 
   it('publishes a sheet left to the design with the mixed model, its Wald test and its words', async () => {
-    const put = await request(t.app)
-      .put(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet`)
-      .set('Origin', TEST_ORIGIN)
-      .set('Cookie', cookie)
-      .send({
-        summary: '',
-        methods: null,
-        traits: [{ key: 'days_to_first_pods', basis: 'plot', weight: 1 }],
-        entryNotes: {},
-        coverPhotos: {},
-        alpha: 0.05,
-        letters: 'hsd',
-        license: 'CC-BY-4.0',
-      });
-    expect(put.status).toBe(200);
+    expect((await saveSheet()).status).toBe(200);
     const pub = await request(t.app)
       .post(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet/publish`)
       .set('Origin', TEST_ORIGIN)
@@ -226,21 +230,6 @@ describe('a split plot with a missing plot', () => {
   });
 
   it('accepts the mixed model chosen by name for the sheet of a split plot', async () => {
-    const res = await request(t.app)
-      .put(`/api/trials/${SPLIT_PLOT_SLUG}/results-sheet`)
-      .set('Origin', TEST_ORIGIN)
-      .set('Cookie', cookie)
-      .send({
-        summary: '',
-        methods: null,
-        traits: [{ key: 'days_to_first_pods', basis: 'plot', weight: 1 }],
-        entryNotes: {},
-        coverPhotos: {},
-        alpha: 0.05,
-        letters: 'hsd',
-        model: 'mixed',
-        license: 'CC-BY-4.0',
-      });
-    expect(res.status).toBe(200);
+    expect((await saveSheet('mixed')).status).toBe(200);
   });
 });

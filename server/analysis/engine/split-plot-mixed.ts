@@ -12,10 +12,7 @@
  * Every treatment × variety cell needs at least one plot. Pure: no I/O.
  */
 import { fitReml, sequentialContrasts, type MixedFit } from './mixed-model.js';
-import { separateMeans } from './mean-separation.js';
-import { rankMeans } from '../../../common/ranking';
-import { addOffset } from './decimal-input.js';
-import { cellModelMeans } from './two-factor-means.js';
+import { cellModelMeans, rankedVarietyMeans } from './two-factor-means.js';
 import type { TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
 
 export type SplitPlotVarianceSource = 'block' | 'block:treatment' | 'residual';
@@ -101,7 +98,7 @@ function sequentialCellContrasts(
 }
 
 export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnalysis {
-  const { y, offset } = input;
+  const { y } = input;
   const n = y.length;
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
@@ -149,48 +146,24 @@ export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnal
     method: 'satterthwaite' as const,
   }));
 
+  const fits = cellModelMeans(input, (l) => fit.contrast(l));
   const {
     cellMeans,
     treatmentMeans,
     varietyMeans,
-    varietyFits,
     treatmentWithinVariety,
     varietyWithinTreatment,
-    varietyPairSe,
-  } = cellModelMeans(input, (l) => fit.contrast(l));
+  } = fits;
 
   // Variety means ranked and lettered on their own pairwise SEs, with the variety test's
   // denominator df (as the one-factor mixed model does).
   const varietyTest = fixedTests[1]!;
   const residual = fit.varianceComponents.at(-1)!.variance;
-  const plotsOf = new Array<number>(v).fill(0);
-  for (let i = 0; i < n; i++) plotsOf[V[i]!]!++;
-  const sep = separateMeans(
-    input.variety.levels.map((name, e) => ({
-      entry: name,
-      mean: varietyFits[e]!.estimate,
-      n: plotsOf[e]!,
-    })),
-    residual,
-    varietyTest.denDf,
-    input.alpha,
-    varietyTest.p,
-    { pairSe: varietyPairSe },
-  );
-  const index = new Map(input.variety.levels.map((name, e) => [name, e]));
-  const means = rankMeans(
-    sep.ranked.map((s) => ({ s, mean: s.mean })),
-    input.direction,
-  ).map(({ s, rank }) => ({
-    variety: s.entry,
-    n: s.n,
-    mean: addOffset(offset, s.mean),
-    se: varietyFits[index.get(s.entry)!]!.se,
-    rank,
-    group: input.letters === 'lsd' ? s.lsdGroup : s.hsdGroup,
-    groupLsd: s.lsdGroup,
-    groupHsd: s.hsdGroup,
-  }));
+  const sep = rankedVarietyMeans(input, V, fits, {
+    ms: residual,
+    df: varietyTest.denDf,
+    varietyP: varietyTest.p,
+  });
 
   return {
     layout: 'split-plot',
@@ -201,7 +174,7 @@ export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnal
     varietyMeans,
     treatmentWithinVariety,
     varietyWithinTreatment,
-    means,
+    means: sep.means,
     lsd: sep.lsd,
     hsd: { ...sep.hsd, df: varietyTest.denDf },
     errorTerm: { source: 'residual', df: varietyTest.denDf, ms: residual },

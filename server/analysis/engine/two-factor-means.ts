@@ -7,6 +7,8 @@
  */
 import { studentTTwoSided } from './distributions.js';
 import { addOffset } from './decimal-input.js';
+import { separateMeans } from './mean-separation.js';
+import { rankMeans } from '../../../common/ranking';
 import type { SimpleEffect, TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
 
 export type CellEstimate = (l: Float64Array) => { estimate: number; se: number; df: number };
@@ -102,4 +104,47 @@ export function cellModelMeans(
     varietyPairSe: (i, j) =>
       estimate(weights((_t, e) => (e === i ? 1 / a : e === j ? -1 / a : 0))).se,
   };
+}
+
+/**
+ * Variety means of a cell-means model ranked and lettered on their own pairwise SEs, with the
+ * error variance and df the variety test used (least squares: the residual; REML: the residual
+ * variance with the Wald test's denominator df).
+ */
+export function rankedVarietyMeans(
+  input: Pick<TwoFactorInput, 'offset' | 'variety' | 'alpha' | 'letters' | 'direction'>,
+  plotVariety: ArrayLike<number>,
+  fits: ReturnType<typeof cellModelMeans>,
+  error: { ms: number; df: number; varietyP: number | null },
+) {
+  const v = input.variety.levels.length;
+  const plotsOf = new Array<number>(v).fill(0);
+  for (let i = 0; i < plotVariety.length; i++) plotsOf[plotVariety[i]!]!++;
+  const sep = separateMeans(
+    input.variety.levels.map((name, e) => ({
+      entry: name,
+      mean: fits.varietyFits[e]!.estimate,
+      n: plotsOf[e]!,
+    })),
+    error.ms,
+    error.df,
+    input.alpha,
+    error.varietyP,
+    { pairSe: fits.varietyPairSe },
+  );
+  const index = new Map(input.variety.levels.map((name, e) => [name, e]));
+  const means = rankMeans(
+    sep.ranked.map((s) => ({ s, mean: s.mean })),
+    input.direction,
+  ).map(({ s, rank }) => ({
+    variety: s.entry,
+    n: s.n,
+    mean: addOffset(input.offset, s.mean),
+    se: fits.varietyFits[index.get(s.entry)!]!.se,
+    rank,
+    group: input.letters === 'lsd' ? s.lsdGroup : s.hsdGroup,
+    groupLsd: s.lsdGroup,
+    groupHsd: s.hsdGroup,
+  }));
+  return { lsd: sep.lsd, hsd: sep.hsd, means };
 }

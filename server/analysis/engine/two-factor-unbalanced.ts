@@ -9,11 +9,8 @@
  */
 import { invertSpd } from './adjusted-means.js';
 import { sequentialSumsOfSquares } from './linear-model.js';
-import { separateMeans } from './mean-separation.js';
 import { fUpperTail } from './distributions.js';
-import { rankMeans } from '../../../common/ranking';
-import { addOffset } from './decimal-input.js';
-import { cellModelMeans } from './two-factor-means.js';
+import { cellModelMeans, rankedVarietyMeans } from './two-factor-means.js';
 import type {
   TwoFactorAnalysis,
   TwoFactorInput,
@@ -22,7 +19,7 @@ import type {
 } from './two-factor.js';
 
 export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnalysis {
-  const { y, offset } = input;
+  const { y } = input;
   const n = y.length;
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
@@ -112,46 +109,21 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
     }
     return { estimate: est, se: Math.sqrt(res.ms * q), df: res.df };
   };
+  const fits = cellModelMeans(input, combine);
   const {
     cellMeans,
     treatmentMeans,
     varietyMeans,
-    varietyFits,
     treatmentWithinVariety,
     varietyWithinTreatment,
-    varietyPairSe,
-  } = cellModelMeans(input, combine);
+  } = fits;
 
   const varietyLine = anova.find((l) => l.source === 'variety')!;
-  const counts = new Array<number>(v).fill(0);
-  for (let i = 0; i < n; i++) counts[V[i]!]!++;
-  const sep = separateMeans(
-    input.variety.levels.map((name, e) => ({
-      entry: name,
-      mean: varietyFits[e]!.estimate,
-      n: counts[e]!,
-    })),
-    res.ms,
-    res.df,
-    input.alpha,
-    varietyLine.p,
-    { pairSe: varietyPairSe },
-  );
-  const index = new Map(input.variety.levels.map((name, e) => [name, e]));
-  const ranked = rankMeans(
-    sep.ranked.map((s) => ({ s, mean: s.mean })),
-    input.direction,
-  );
-  const means = ranked.map(({ s, rank }) => ({
-    variety: s.entry,
-    n: s.n,
-    mean: addOffset(offset, s.mean),
-    se: varietyFits[index.get(s.entry)!]!.se,
-    rank,
-    group: input.letters === 'lsd' ? s.lsdGroup : s.hsdGroup,
-    groupLsd: s.lsdGroup,
-    groupHsd: s.hsdGroup,
-  }));
+  const sep = rankedVarietyMeans(input, V, fits, {
+    ms: res.ms,
+    df: res.df,
+    varietyP: varietyLine.p,
+  });
   return {
     layout: 'factorial',
     anova,
@@ -160,7 +132,7 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
     varietyMeans,
     treatmentWithinVariety,
     varietyWithinTreatment,
-    means,
+    means: sep.means,
     lsd: sep.lsd,
     hsd: { ...sep.hsd, df: res.df },
     errorTerm: res,
