@@ -122,3 +122,50 @@ describe('a variety’s cover photo', () => {
     expect((await listed()).cover).toBeNull();
   });
 });
+
+describe('a variety’s cover signed out', () => {
+  it('shows only where the published version shows that photo', async () => {
+    const id = photoOf['velvet-lantern']!;
+    await t.db.updateTable('photos').set({ deleted_at: null }).where('id', '=', id).execute();
+    expect(
+      (await as('lead').patch('/api/varieties/velvet-lantern', { coverPhotoId: id })).status,
+    ).toBe(204);
+    const entry = await t.db
+      .selectFrom('photos')
+      .select('entry_id')
+      .where('id', '=', id)
+      .executeTakeFirstOrThrow();
+    const publish = async (coverPhotos: Record<string, string>, changeNote: string) => {
+      const sheet = {
+        summary: 'Published for the cover test.',
+        methods: null,
+        traits: [{ key: 'marketable_yield', basis: 'plot', weight: 1 }],
+        entryNotes: {},
+        coverPhotos,
+        alpha: 0.05,
+        letters: 'hsd',
+        license: 'CC-BY-4.0',
+      };
+      const put = await request(t.app)
+        .put(`/api/trials/${OKRA}/results-sheet`)
+        .set('Origin', TEST_ORIGIN)
+        .set('Cookie', cookies.lead!)
+        .send(sheet);
+      expect(put.status).toBe(200);
+      const res = await request(t.app)
+        .post(`/api/trials/${OKRA}/results-sheet/publish`)
+        .set('Origin', TEST_ORIGIN)
+        .set('Cookie', cookies.lead!)
+        .send({ changeNote });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+    };
+    await publish({}, '');
+    expect((await record('signedOut')).variety.cover).toBeNull();
+    await publish({ [entry.entry_id!]: id }, 'A cover photo for Velvet Lantern.');
+    const cover = (await record('signedOut')).variety.cover;
+    expect(cover.id).toBe(id);
+    expect(cover.displayUrl).toMatch(
+      new RegExp(`^/api/results/${OKRA}/v/\\d+/photos/${id}/display$`),
+    );
+  });
+});
