@@ -86,6 +86,9 @@ const createTrialFields = {
   transplantDate: isoDate.nullable().default(null),
   /** Instance administrators only: the account that will lead the trial. */
   leadEmail: z.email('Enter the lead’s e-mail address.').optional(),
+  /** The group the trial belongs to (its coordinators may start trials in it); left out, the
+   * first group the lead coordinates, else a group of the lead's own. */
+  groupId: z.uuid('Choose a group.').optional(),
 };
 export const createTrialBody = z
   .object(createTrialFields)
@@ -98,6 +101,7 @@ export const createTrialForm = z
     sowingDate: blankAsNull(createTrialFields.sowingDate),
     transplantDate: blankAsNull(createTrialFields.transplantDate),
     leadEmail: blankAsAbsent(createTrialFields.leadEmail),
+    groupId: blankAsAbsent(createTrialFields.groupId),
   })
   .refine(transplantAfterSowing, transplantMessage);
 export const createTrialResponse = z.object({ id: z.uuid(), slug: z.string() });
@@ -109,6 +113,8 @@ export const copyTrialBody = z.object({
 });
 export type CopyTrialBody = z.input<typeof copyTrialBody>;
 export const copyTrialResponse = createTrialResponse.extend({
+  /** The copy's group: the source's when the copier may start trials there, else their own. */
+  sameGroup: z.boolean(),
   /** The new layout's seed, or null when the trial copied had no layout. */
   seed: z.number().int().nullable(),
 });

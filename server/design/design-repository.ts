@@ -189,6 +189,15 @@ export function groupRegister(db: Conn, groupId: string) {
 }
 
 /** What an entry's register variety is found by. */
+/** A trial's entries with what links each to its group's register. */
+export function entriesOf(db: Conn, trialId: string) {
+  return db
+    .selectFrom('entries')
+    .select(['id', 'name', 'entry_type', 'seed_source'])
+    .where('trial_id', '=', trialId)
+    .execute();
+}
+
 export function findEntry(db: Conn, trialId: string, id: string) {
   return db
     .selectFrom('entries')

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { type Actor, can, canInstance } from '../../common/policy';
+import { type Actor, can, canGroup, canInstance } from '../../common/policy';
 import {
   type copyTrialBody,
   type createTrialBody,
@@ -36,7 +36,14 @@ import { copySheetSettings, latestPublishedVersion } from '../results/results-se
 import type { z } from 'zod';
 import { newAddress, wordsOf } from '../lib/address';
 import { AppError, fieldError } from '../lib/app-error';
-import { trialFactor, trialForAction, trialHeading, traitView } from '../trials/trials-service';
+import {
+  groupForAction,
+  groupRoleOf,
+  trialFactor,
+  trialForAction,
+  trialHeading,
+  traitView,
+} from '../trials/trials-service';
 import { groupForNewTrial, joinGroup, varietyForEntry } from '../varieties/varieties-service';
 import * as repo from './design-repository';
 import type { Conn } from './design-repository';
@@ -82,6 +89,7 @@ export async function createTrial(
     if (!lead) throw fieldError('body.leadEmail', 'No account uses this e-mail address.');
     leadId = lead.id;
   }
+  if (body.groupId !== undefined) await groupForNewTrialChosen(db, body.groupId, actor);
   return withFreshSlug(body.title, (slug) =>
     db.transaction().execute(async (trx) => {
       const trial = await repo.insertTrial(trx, {
@@ -93,14 +101,30 @@ export async function createTrial(
         description: body.description,
         sowing_date: body.sowingDate,
         transplant_date: body.transplantDate,
-        group_id: await groupForNewTrial(trx, leadId),
+        group_id: body.groupId ?? (await groupForNewTrial(trx, leadId)),
         created_by: actor.userId,
         updated_by: actor.userId,
       });
       await repo.insertLead(trx, trial.id, leadId, actor.userId);
+      if (body.groupId !== undefined) await joinGroup(trx, body.groupId, leadId);
       return trial;
     }),
   );
+}
+
+/**
+ * Starting a trial in a chosen group takes `group.trial.create` there; the refusal (404 outside
+ * the group, 403 for a member without the role) names the field.
+ */
+async function groupForNewTrialChosen(db: DB, groupId: string, actor: Actor) {
+  try {
+    await groupForAction(db, groupId, actor, 'group.trial.create');
+  } catch (err) {
+    if (!(err instanceof AppError)) throw err;
+    throw new AppError(err.code, err.message, {
+      fields: [{ path: 'body.groupId', message: err.message }],
+    });
+  }
 }
 
 /** Runs `create` with a new trial address, drawing again when two new trials drew the same. */
@@ -132,9 +156,13 @@ export async function copyTrial(
   slug: string,
   actor: Actor | null,
   body: Out<typeof copyTrialBody>,
-): Promise<{ id: string; slug: string; seed: number | null }> {
+): Promise<{ id: string; slug: string; sameGroup: boolean; seed: number | null }> {
   const { trial: source } = await trialForAction(db, slug, actor, 'trial.edit');
   const userId = actor!.userId;
+  // The copy stays in the source's group only for someone who may start trials there.
+  const sameGroup =
+    source.group_id !== null &&
+    canGroup(actor, 'group.trial.create', await groupRoleOf(db, source.group_id, actor!));
   const hadLayout =
     (await repo.countPlots(db, source.id)) > 0 &&
     source.replicates !== null &&
@@ -142,6 +170,7 @@ export async function copyTrial(
     source.row_spacing_mm !== null;
   return withFreshSlug(body.title, (newSlug) =>
     db.transaction().execute(async (trx) => {
+      const groupId = (sameGroup && source.group_id) || (await groupForNewTrial(trx, userId));
       const copy = await repo.insertTrial(trx, {
         slug: newSlug,
         title: body.title,
@@ -158,17 +187,27 @@ export async function copyTrial(
         row_spacing_mm: source.row_spacing_mm,
         in_row_spacing_mm: source.in_row_spacing_mm,
         copied_from_trial_id: source.id,
-        // The copy stays in the group, so its entries keep their register varieties.
-        group_id: source.group_id,
+        group_id: groupId,
         created_by: userId,
         updated_by: userId,
       });
       await repo.insertLead(trx, copy.id, userId, userId);
-      if (source.group_id) await joinGroup(trx, source.group_id, userId);
+      if (sameGroup) await joinGroup(trx, groupId, userId);
       for (const part of ['entries', 'sites', 'traits'] as const)
         await repo.copyTrialParts(trx, part, source.id, copy.id, userId);
+      // In another group the entries join that group's register, by name.
+      if (!sameGroup)
+        for (const e of await repo.entriesOf(trx, copy.id))
+          await repo.updateEntryRow(trx, copy.id, e.id, {
+            variety_id: await varietyForEntry(
+              trx,
+              { group_id: groupId, crop: source.crop },
+              { varietyId: null, name: e.name, entryType: e.entry_type, seedSource: e.seed_source },
+              userId,
+            ),
+          });
       await copySheetSettings(trx, source.id, copy.id, userId);
-      if (!hadLayout) return { ...copy, seed: null };
+      if (!hadLayout) return { ...copy, sameGroup, seed: null };
       let seed = crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
       if (seed === source.layout_seed) seed = (seed + 1) % (MAX_LAYOUT_SEED + 1);
       const laid = await layOutPlots(trx, { id: copy.id, design: source.design }, userId, {
@@ -184,7 +223,7 @@ export async function copyTrial(
         factorLevels: source.factor_levels ?? [],
         factorArrangement: source.factor_arrangement ?? 'factorial',
       });
-      return { ...copy, seed: laid.seed };
+      return { ...copy, sameGroup, seed: laid.seed };
     }),
   );
 }

@@ -660,3 +660,69 @@ describe('entries, sites and traits', () => {
     );
   });
 });
+
+describe('starting a trial in a chosen group', () => {
+  const body = { crop: 'Okra', season: '2027', design: 'rcbd' };
+  const groupOf = async (slug: string) =>
+    (
+      await t.db
+        .selectFrom('trials')
+        .select('group_id')
+        .where('slug', '=', slug)
+        .executeTakeFirstOrThrow()
+    ).group_id;
+
+  it('lets a coordinator choose among their groups, keeps the default without a choice, and refuses others by field', async () => {
+    const first = await as('lead').post('/api/trials', {
+      ...body,
+      title: 'Fenwright, default group',
+    });
+    expect(first.status).toBe(201);
+    const ownGroup = await groupOf(first.body.slug);
+    const second = await t.db
+      .insertInto('groups')
+      .values({
+        slug: 'fenwright-second',
+        name: 'Fenwright second plot',
+        created_by: null,
+        updated_by: null,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await t.db
+      .insertInto('group_members')
+      .values({ group_id: second.id, user_id: lead.id, role: 'coordinator', created_by: null })
+      .execute();
+
+    const chosen = await as('lead').post('/api/trials', {
+      ...body,
+      title: 'Fenwright, second group',
+      groupId: second.id,
+    });
+    expect(chosen.status, JSON.stringify(chosen.body)).toBe(201);
+    expect(await groupOf(chosen.body.slug)).toBe(second.id);
+    const again = await as('lead').post('/api/trials', { ...body, title: 'Fenwright, no choice' });
+    expect(await groupOf(again.body.slug)).toBe(ownGroup);
+
+    const before = await t.db.selectFrom('trials').select('id').execute();
+    const outside = await as('other').post('/api/trials', {
+      ...body,
+      title: 'Not my group',
+      groupId: second.id,
+    });
+    expect(outside.status).toBe(404);
+    expect(outside.body.error.details.fields[0].path).toBe('body.groupId');
+    await t.db
+      .insertInto('group_members')
+      .values({ group_id: second.id, user_id: other.id, role: 'member', created_by: null })
+      .execute();
+    const member = await as('other').post('/api/trials', {
+      ...body,
+      title: 'Member only',
+      groupId: second.id,
+    });
+    expect(member.status).toBe(403);
+    expect(member.body.error.details.fields[0].path).toBe('body.groupId');
+    expect(await t.db.selectFrom('trials').select('id').execute()).toHaveLength(before.length);
+  });
+});

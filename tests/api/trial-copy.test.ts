@@ -298,4 +298,64 @@ describe('copying a trial to next season', () => {
     ]);
     expect(await t.db.selectFrom('trials').select('id').execute()).toHaveLength(before.length);
   });
+
+  it('stays in the group only for someone who may start trials there; else goes to the copier’s own group', async () => {
+    const source = await trialBySlug(SLUG);
+    const byCoordinator = await copy('lead', { title: 'Larkhaven okra, kept', season: '2027' });
+    expect(byCoordinator.status).toBe(201);
+    expect(byCoordinator.body.sameGroup).toBe(true);
+    expect((await trialBySlug(byCoordinator.body.slug)).group_id).toBe(source.group_id);
+
+    // A second lead of the trial who is only a member of its group.
+    const member = await createUser(t.db);
+    await t.db
+      .insertInto('trial_members')
+      .values({ trial_id: source.id, user_id: member.id, role: 'lead' })
+      .execute();
+    await t.db
+      .insertInto('group_members')
+      .values({ group_id: source.group_id!, user_id: member.id, role: 'member' })
+      .execute();
+    const res = await request(t.app)
+      .post(`/api/trials/${SLUG}/copy`)
+      .set('Origin', TEST_ORIGIN)
+      .set('Cookie', await mintSessionCookie(t, member))
+      .send({ title: 'Larkhaven okra, elsewhere', season: '2027' });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.sameGroup).toBe(false);
+    const made = await trialBySlug(res.body.slug);
+    expect(made.group_id).not.toBe(source.group_id);
+    const own = await t.db
+      .selectFrom('group_members')
+      .select('role')
+      .where('group_id', '=', made.group_id!)
+      .where('user_id', '=', member.id)
+      .executeTakeFirstOrThrow();
+    expect(own.role).toBe('coordinator');
+    // The copier did not join the source's group as a coordinator, and stays a member there.
+    const there = await t.db
+      .selectFrom('group_members')
+      .select('role')
+      .where('group_id', '=', source.group_id!)
+      .where('user_id', '=', member.id)
+      .executeTakeFirstOrThrow();
+    expect(there.role).toBe('member');
+    // Each entry names a variety of the copy's own group's register, of the entry's name.
+    const linked = await t.db
+      .selectFrom('entries as e')
+      .innerJoin('varieties as v', 'v.id', 'e.variety_id')
+      .select(['e.name', 'v.name as variety', 'v.group_id'])
+      .where('e.trial_id', '=', made.id)
+      .execute();
+    const entries = await t.db
+      .selectFrom('entries')
+      .select('name')
+      .where('trial_id', '=', source.id)
+      .execute();
+    expect(linked).toHaveLength(entries.length);
+    for (const l of linked) {
+      expect(l.group_id).toBe(made.group_id);
+      expect(l.variety).toBe(l.name);
+    }
+  });
 });

@@ -99,6 +99,32 @@ export const rows: MatrixRow[] = [
     },
   },
   {
+    // Into a chosen group: its coordinators only; the trial's people are members there (403),
+    // someone outside the group is told it does not exist.
+    method: 'POST',
+    route: '/api/trials',
+    request: (w, caller) => ({
+      url: '/api/trials',
+      body: {
+        title: `In the group by ${caller}`,
+        crop: 'Okra',
+        season: '2027',
+        design: 'rcbd',
+        groupId: w.groupId,
+      },
+    }),
+    expect: {
+      anonymous: 401,
+      viewer: 403,
+      contributor: 403,
+      growerInSite: 403,
+      growerOtherSite: 403,
+      lead: 403,
+      admin: 201,
+    },
+    expectExtra: { coordinator: 201, outsider: 404 },
+  },
+  {
     method: 'PATCH',
     route: '/api/trials/:slug',
     request: (w) => ({

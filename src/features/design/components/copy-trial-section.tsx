@@ -50,7 +50,8 @@ export function CopyTrialSection({
         A new trial with the same entries, sites, traits and settings (the results sheet's traits,
         alpha, letters and licence too), and a freshly randomized layout. Records, photos, members
         and results stay with this trial; you lead the copy and invite its growers again. The copy
-        links back here.
+        links back here. It stays in this trial's group when you coordinate that group; otherwise it
+        goes to your own group, and its entries join that group's register by name.
       </p>
       <form noValidate onSubmit={onSubmit} className="mt-3 space-y-3">
         <div className="grid gap-4 sm:grid-cols-2">

@@ -1,9 +1,11 @@
 import { createTrialForm } from '@common/contracts/design';
 import { designLabels, trialDesigns } from '@common/contracts/trials';
+import { useEffect } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { FormMessage, SelectField, TextArea, TextField } from '@/components/ui/text-field';
 import { formRefusal, submitTo, useContractForm } from '@/lib/contract-form';
+import { useGroups } from '@/lib/groups';
 import { useMe } from '@/lib/session';
 import { useCreateTrial } from '../api/create-trial';
 
@@ -20,8 +22,17 @@ export function Component() {
     sowingDate: '',
     transplantDate: '',
     leadEmail: '',
+    groupId: '',
   });
   const { errors, isSubmitting } = form.formState;
+  const { data: groups } = useGroups(Boolean(me));
+  // Someone coordinating several groups chooses where the trial goes; otherwise the server's default.
+  const coordinated = groups?.groups.filter((g) => g.myRole === 'coordinator') ?? [];
+  const choose = coordinated.length > 1;
+  const firstGroup = choose ? coordinated[0]!.id : '';
+  useEffect(() => {
+    if (firstGroup && !form.getValues('groupId')) form.setValue('groupId', firstGroup);
+  }, [firstGroup, form]);
   if (isPending) return null;
   if (!me)
     return (
@@ -72,6 +83,15 @@ export function Component() {
             {...form.register('season')}
           />
         </div>
+        {choose ? (
+          <SelectField
+            label="Group"
+            hint="The group whose register the trial's varieties join; you coordinate each of these."
+            error={errors.groupId?.message}
+            options={coordinated.map((g) => [g.id, g.name] as const)}
+            {...form.register('groupId')}
+          />
+        ) : null}
         <SelectField
           label="Design"
           error={errors.design?.message}

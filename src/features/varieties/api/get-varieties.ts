@@ -1,4 +1,4 @@
-import { groupListSchema, varietyListSchema } from '@common/contracts/varieties';
+import { varietyListSchema } from '@common/contracts/varieties';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 import { trialKeys } from '@/lib/trial-keys';
@@ -10,9 +10,3 @@ export const varietiesQueryOptions = () =>
   queryOptions({ queryKey: trialKeys.varieties(), queryFn: getVarieties });
 
 export const useVarieties = (enabled = true) => useQuery({ ...varietiesQueryOptions(), enabled });
-
-/** GET /api/groups: the caller's groups and their role in each. */
-export const getGroups = () => api('/api/groups', groupListSchema);
-
-export const useGroups = (enabled = true) =>
-  useQuery({ queryKey: trialKeys.groups(), queryFn: getGroups, enabled });

@@ -14,7 +14,8 @@ import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
 import { useMe, useUnitSystem } from '@/lib/session';
 import { useVarietyComparison } from '../api/compare-varieties';
-import { useGroups, useVarieties } from '../api/get-varieties';
+import { useGroups } from '@/lib/groups';
+import { useVarieties } from '../api/get-varieties';
 import { StabilitySection } from '../components/stability-section';
 
 type MeansRow = Comparison['rows'][number] & { name: string };

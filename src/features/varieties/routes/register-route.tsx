@@ -7,7 +7,8 @@ import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
-import { useGroups, useVarieties } from '../api/get-varieties';
+import { useGroups } from '@/lib/groups';
+import { useVarieties } from '../api/get-varieties';
 import { VarietyForm } from '../components/variety-form';
 
 const column = createColumnHelper<VarietySummary>();

@@ -18,7 +18,7 @@ import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
 import { useMe, useUnitSystem } from '@/lib/session';
-import { useGroups } from '../api/get-varieties';
+import { useGroups } from '@/lib/groups';
 import { useVariety } from '../api/get-variety';
 import { seasonSiteTable } from '../components/season-chart-data';
 import { SeasonChart } from '../components/season-chart';
