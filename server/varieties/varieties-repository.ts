@@ -18,8 +18,11 @@ export function allGroups(db: DB) {
   return db.selectFrom('groups').select(['id', 'slug', 'name']).orderBy('name').execute();
 }
 
-/** The registers of these groups, each variety with the trials and seasons it was grown in. */
-export function listVarieties(db: DB, groupIds: string[] | 'all') {
+/**
+ * The registers of these groups, each variety with the trials and seasons it was grown in, and
+ * whether `viewerId` is a member of the trial that holds the variety's cover photo.
+ */
+export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: string | null = null) {
   let q = db
     .selectFrom('varieties as v')
     .leftJoin('entries as e', 'e.variety_id', 'v.id')
@@ -36,6 +39,16 @@ export function listVarieties(db: DB, groupIds: string[] | 'all') {
       'v.id',
       'cp.id as cover_id',
       'ct.slug as cover_trial_slug',
+      (eb) =>
+        eb
+          .exists(
+            eb
+              .selectFrom('trial_members as cm')
+              .select('cm.user_id')
+              .whereRef('cm.trial_id', '=', 'ct.id')
+              .where('cm.user_id', '=', viewerId ?? ''),
+          )
+          .as('cover_trial_member'),
       'v.slug',
       'v.name',
       'v.crop',
@@ -45,7 +58,7 @@ export function listVarieties(db: DB, groupIds: string[] | 'all') {
       sql<number>`count(distinct t.id)::int`.as('trial_count'),
       sql<number>`count(distinct t.season)::int`.as('season_count'),
     ])
-    .groupBy(['v.id', 'cp.id', 'ct.slug'])
+    .groupBy(['v.id', 'cp.id', 'ct.id', 'ct.slug'])
     .orderBy('v.crop')
     .orderBy('v.name');
   if (groupIds !== 'all') {

@@ -42,7 +42,7 @@ export async function listVarieties(db: DB, actor: Actor | null): Promise<Variet
   const groupIds = actor.isAdmin
     ? ('all' as const)
     : (await repo.groupsOf(db, actor.userId)).map((g) => g.id);
-  const rows = await repo.listVarieties(db, groupIds);
+  const rows = await repo.listVarieties(db, groupIds, actor.userId);
   return {
     varieties: rows.map((v) => ({
       id: v.id,
@@ -54,8 +54,9 @@ export async function listVarieties(db: DB, actor: Actor | null): Promise<Variet
       groupId: v.group_id,
       trialCount: v.trial_count,
       seasonCount: v.season_count,
+      // Only a cover the caller may open: its photo is served to the trial's members (and admins).
       cover:
-        v.cover_id && v.cover_trial_slug
+        v.cover_id && v.cover_trial_slug && (actor.isAdmin || v.cover_trial_member)
           ? photoUrls(`/api/trials/${v.cover_trial_slug}/photos/${v.cover_id}`, v.cover_id)
           : null,
     })),

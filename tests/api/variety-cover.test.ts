@@ -84,6 +84,23 @@ describe('a variety’s cover photo', () => {
     expect((await listed()).cover).toEqual(cover);
     // A member of the trial sees the same cover.
     expect((await record('grower')).variety.cover).toEqual(cover);
+    // A member of the group who is not in the trial could not open that photo: no cover listed.
+    const stranger = await createUser(t.db, { name: 'Odile Farrow' });
+    const group = await t.db
+      .selectFrom('varieties')
+      .select('group_id')
+      .where('slug', '=', 'velvet-lantern')
+      .executeTakeFirstOrThrow();
+    await t.db
+      .insertInto('group_members')
+      .values({ group_id: group.group_id, user_id: stranger.id, role: 'member' })
+      .execute();
+    cookies.groupOnly = await mintSessionCookie(t, stranger);
+    const theirs = (await as('groupOnly').get('/api/varieties')).body.varieties.find(
+      (v: { slug: string }) => v.slug === 'velvet-lantern',
+    );
+    expect(theirs).toBeDefined();
+    expect(theirs.cover).toBeNull();
   });
 
   it('refuses a photo of another variety, or no photo at all, on the cover field', async () => {
