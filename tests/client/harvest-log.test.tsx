@@ -82,7 +82,14 @@ describe('the harvest log', () => {
     await act(async () => {});
     await act(async () => {});
     expect(commits - afterEdit).toBeLessThan(3);
-    fireEvent.change(screen.getByLabelText('Fruit count'), { target: { value: '11' } });
+    // Typing keeps the same input (and so the caret and focus): the table must not remount it.
+    const input = screen.getByLabelText('Fruit count');
+    input.focus();
+    fireEvent.change(input, { target: { value: '1' } });
+    expect(screen.getByLabelText('Fruit count')).toBe(input);
+    expect(document.activeElement).toBe(input);
+    fireEvent.change(input, { target: { value: '11' } });
+    expect(screen.getByLabelText('Fruit count')).toBe(input);
     fireEvent.click(screen.getByRole('button', { name: 'Save' }));
     const alert = await screen.findByText(/Not saved: someone else changed this record/);
     expect(alert).toBeTruthy();

@@ -6,7 +6,7 @@
 import type { ConflictDetails, LogSortKey } from '@common/contracts/records';
 import { type ColumnDef, createColumnHelper, type SortingState } from '@tanstack/react-table';
 import { keepPreviousData, type QueryKey, useQuery } from '@tanstack/react-query';
-import { type ReactNode, useCallback, useEffect, useState } from 'react';
+import { type ReactNode, useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { useParams, useSearchParams } from 'react-router-dom';
 import type { z } from 'zod';
 import { DataTable } from '@/components/ui/data-table';
@@ -219,6 +219,37 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
     limit: list.data.limit,
     ...kind.answer(list.data),
   };
+  // The table draws each cell as a component: cells made anew at every render would remount
+  // the input being typed in, so the columns keep their identity while their shape is the
+  // same, and the cells read the page's columns and the draft at render time.
+  const live = useRef<LiveLog<R, D>>(null!);
+  live.current = {
+    columns: data ? withTreatment(data.columns, trial.factor?.name) : [],
+    draft,
+    setDraft,
+    actions: canWrite
+      ? (row, editing) =>
+          editing ? (
+            <EditActions
+              onSave={() => void save(row)}
+              onCancel={() => setDraft(null)}
+              saving={kind.saving}
+            />
+          ) : (
+            <RowActions
+              onEdit={() => startEdit(row)}
+              onDelete={() => void deleteRow(row)}
+              editLabel={`Edit ${kind.rowName(row)}`}
+              deleteLabel={`Delete ${kind.rowName(row)}`}
+            />
+          )
+      : null,
+  };
+  const shape = live.current.columns
+    .map((c) => `${c.sort ?? ''}\t${c.header}\t${c.align ?? ''}\t${c.edit ? 1 : 0}`)
+    .join('\n');
+  // eslint-disable-next-line react-hooks/exhaustive-deps -- rebuilt when the shape changes
+  const tableColumns = useMemo(() => logColumns(live), [shape, canWrite]);
   const pages = data ? Math.max(1, Math.ceil(data.total / data.limit)) : 1;
   // A page left empty by deletions or narrower filters: show the last page that has rows.
   const pastEnd = data !== undefined && data.rows.length === 0 && data.total > 0;
@@ -305,27 +336,7 @@ function RecordLog<R extends Stored, D, T extends PageOf>({
               busy={list.isFetching}
               data={data.rows}
               rowId={(row) => row.id}
-              columns={logColumns(withTreatment(data.columns, trial.factor?.name), {
-                draft,
-                setDraft,
-                actions: canWrite
-                  ? (row, editing) =>
-                      editing ? (
-                        <EditActions
-                          onSave={() => void save(row)}
-                          onCancel={() => setDraft(null)}
-                          saving={kind.saving}
-                        />
-                      ) : (
-                        <RowActions
-                          onEdit={() => startEdit(row)}
-                          onDelete={() => void deleteRow(row)}
-                          editLabel={`Edit ${kind.rowName(row)}`}
-                          deleteLabel={`Delete ${kind.rowName(row)}`}
-                        />
-                      )
-                  : null,
-              })}
+              columns={tableColumns}
               sort={{
                 state: sortingOf(filters),
                 onChange: ([first]) => {
@@ -387,27 +398,28 @@ function withTreatment<R extends Stored, D>(
   return [...columns.slice(0, at), level, ...columns.slice(at)];
 }
 
+/** What the log's cells read at render time (see `logColumns`). */
+interface LiveLog<R, D> {
+  columns: LogColumn<R, D>[];
+  draft: Draft<D> | null;
+  setDraft: (draft: Draft<D>) => void;
+  actions: ((row: R, editing: boolean) => ReactNode) | null;
+}
+
 /**
  * The log's columns for the one table: a row being edited shows its inputs in place, and the
- * last column holds the row's buttons when the reader may change records.
+ * last column holds the row's buttons when the reader may change records. Headers come from
+ * the columns as they are now; cells read `live` when they draw.
  */
-function logColumns<R extends Stored, D>(
-  columns: LogColumn<R, D>[],
-  {
-    draft,
-    setDraft,
-    actions,
-  }: {
-    draft: Draft<D> | null;
-    setDraft: (draft: Draft<D>) => void;
-    actions: ((row: R, editing: boolean) => ReactNode) | null;
-  },
-): ColumnDef<R, any>[] {
+function logColumns<R extends Stored, D>(live: { current: LiveLog<R, D> }): ColumnDef<R, any>[] {
   const col = createColumnHelper<R>();
-  const editing = (row: R) => (draft?.id === row.id ? draft : null);
+  const editing = (row: R) => {
+    const { draft } = live.current;
+    return draft?.id === row.id ? draft : null;
+  };
   const highlight = (row: R) => (editing(row) ? 'bg-straw-50' : '');
   return [
-    ...columns.map((c) =>
+    ...live.current.columns.map((c, i) =>
       // The server sorts (across pages); the value is only what makes the header a sort button.
       col.accessor((row) => row.id, {
         id: c.sort ?? c.header,
@@ -415,21 +427,24 @@ function logColumns<R extends Stored, D>(
         enableSorting: c.sort !== undefined,
         sortDescFirst: c.sort === 'date',
         cell: ({ row: { original: row } }) => {
+          const now = live.current.columns[i] ?? c;
           const d = editing(row);
-          return d && c.edit
-            ? c.edit(d.values, (values) => setDraft({ ...d, values }), row)
-            : c.cell(row);
+          return d && now.edit
+            ? now.edit(d.values, (values) => live.current.setDraft({ ...d, values }), row)
+            : now.cell(row);
         },
         meta: { align: c.align, cellClassName: highlight },
       }),
     ),
-    ...(actions
+    ...(live.current.actions
       ? [
           col.display({
             id: 'change',
             header: 'Change',
             cell: ({ row: { original: row } }) => (
-              <span className="flex gap-1">{actions(row, editing(row) !== null)}</span>
+              <span className="flex gap-1">
+                {live.current.actions?.(row, editing(row) !== null)}
+              </span>
             ),
             meta: { cellClassName: highlight },
           }),
