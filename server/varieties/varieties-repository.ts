@@ -27,12 +27,28 @@ export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: stri
     .selectFrom('varieties as v')
     .leftJoin('entries as e', 'e.variety_id', 'v.id')
     .leftJoin('trials as t', 't.id', 'e.trial_id')
-    // The cover while its photo is kept (a photo moved to the bin shows no cover).
+    // The cover while its photo is kept (a photo moved to the bin shows no cover) and still
+    // shows one of this variety's entries (an entry relinked to another variety takes it along).
     .leftJoin('photos as cp', (j) =>
       j
         .onRef('cp.id', '=', 'v.cover_photo_id')
         .on('cp.deleted_at', 'is', null)
-        .on('cp.purged_at', 'is', null),
+        .on('cp.purged_at', 'is', null)
+        .on((eb) =>
+          eb.exists(
+            eb
+              .selectFrom('entries as ce')
+              .leftJoin('plots as cpl', 'cpl.entry_id', 'ce.id')
+              .select('ce.id')
+              .whereRef('ce.variety_id', '=', 'v.id')
+              .where((w) =>
+                w.or([
+                  w('ce.id', '=', w.ref('cp.entry_id')),
+                  w('cpl.id', '=', w.ref('cp.plot_id')),
+                ]),
+              ),
+          ),
+        ),
     )
     .leftJoin('trials as ct', 'ct.id', 'cp.trial_id')
     .select([

@@ -185,4 +185,44 @@ describe('a variety’s cover signed out', () => {
       new RegExp(`^/api/results/${OKRA}/v/\\d+/photos/${id}/display$`),
     );
   });
+
+  it('leaves the list when its entry is relinked to another variety', async () => {
+    const id = photoOf['velvet-lantern']!;
+    expect(
+      (await as('lead').patch('/api/varieties/velvet-lantern', { coverPhotoId: id })).status,
+    ).toBe(204);
+    expect((await listed()).cover.id).toBe(id);
+    const photo = await t.db
+      .selectFrom('photos')
+      .select('entry_id')
+      .where('id', '=', id)
+      .executeTakeFirstOrThrow();
+    const entry = await t.db
+      .selectFrom('entries')
+      .select('variety_id')
+      .where('id', '=', photo.entry_id!)
+      .executeTakeFirstOrThrow();
+    const other = Object.keys(photoOf).find((s) => s !== 'velvet-lantern')!;
+    const otherVariety = await t.db
+      .selectFrom('varieties')
+      .select('id')
+      .where('slug', '=', other)
+      .executeTakeFirstOrThrow();
+    await t.db
+      .updateTable('entries')
+      .set({ variety_id: otherVariety.id })
+      .where('id', '=', photo.entry_id!)
+      .execute();
+    try {
+      expect((await listed()).cover).toBeNull();
+      expect((await record()).variety.cover).toBeNull();
+    } finally {
+      await t.db
+        .updateTable('entries')
+        .set({ variety_id: entry.variety_id })
+        .where('id', '=', photo.entry_id!)
+        .execute();
+    }
+    expect((await listed()).cover.id).toBe(id);
+  });
 });
