@@ -264,7 +264,11 @@ export async function buildSnapshot(
     model,
     license: sheet.license,
     summary: sheet.summary,
-    methods: sheet.methods ?? (await generatedMethods(db, trial, { ...sheet, model })),
+    methods:
+      sheet.methods ??
+      [await generatedMethods(db, trial, { ...sheet, model }), mixedTraitsNote(traits, model)]
+        .filter(Boolean)
+        .join(' '),
     plotCount: Number(plotCount.n),
     // Town or region only: a volunteer's garden is never located more closely on a public page.
     sites: sites.map((s) => {
@@ -312,4 +316,17 @@ export async function buildSnapshot(
     cautions: hasSpines ? [`${spiny.title}: ${spiny.points.join(' ')}`] : [],
     plotValues,
   };
+}
+
+/**
+ * Traits analysed by another model than the sheet's (a split plot left to the design: those
+ * that lost plots by the mixed model), named so the methods never contradict their numbers.
+ */
+export function mixedTraitsNote(traits: SnapshotTrait[], model: AnalysisModel): string {
+  const other = traits.filter((t) => (t.model ?? 'anova') !== model);
+  if (other.length === 0) return '';
+  const names = other.map((t) => t.label).join(', ');
+  return model === 'anova'
+    ? `${names} lost plots, so ${other.length === 1 ? 'it was' : 'they were'} analysed by the mixed model instead (REML: blocks and main plots random; Wald F tests with Satterthwaite's df), and ranked on that model's means.`
+    : `${names} ${other.length === 1 ? 'was' : 'were'} analysed by the classical analysis of variance instead.`;
 }
