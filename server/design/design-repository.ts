@@ -188,7 +188,6 @@ export function groupRegister(db: Conn, groupId: string) {
     .execute();
 }
 
-/** What an entry's register variety is found by. */
 /** A trial's entries with what links each to its group's register. */
 export function entriesOf(db: Conn, trialId: string) {
   return db
@@ -198,6 +197,7 @@ export function entriesOf(db: Conn, trialId: string) {
     .execute();
 }
 
+/** What an entry's register variety is found by. */
 export function findEntry(db: Conn, trialId: string, id: string) {
   return db
     .selectFrom('entries')
