@@ -12,7 +12,7 @@
  * Every treatment × variety cell needs at least one plot. Pure: no I/O.
  */
 import { fitReml, sequentialContrasts, type MixedFit } from './mixed-model.js';
-import { cellModelMeans, rankedVarietyMeans } from './two-factor-means.js';
+import { cellModelMeans, rankedVarietyMeans, twoFactorCells } from './two-factor-means.js';
 import type { TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
 
 export type SplitPlotVarianceSource = 'block' | 'block:treatment' | 'residual';
@@ -98,25 +98,8 @@ function sequentialCellContrasts(
 }
 
 export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnalysis {
-  const { y } = input;
-  const n = y.length;
-  const r = input.block.levels.length;
-  const a = input.treatment.levels.length;
-  const v = input.variety.levels.length;
-  const B = input.block.codes;
-  const T = input.treatment.codes;
-  const V = input.variety.codes;
+  const { y, n, r, a, v, B, T, V, cellOf, counts } = twoFactorCells(input);
   const p = a * v;
-  const cellOf = Int32Array.from({ length: n }, (_, i) => T[i]! * v + V[i]!);
-  const counts = new Float64Array(p);
-  for (let i = 0; i < n; i++) counts[cellOf[i]!]!++;
-  const empty = [...counts.keys()].filter((c) => counts[c] === 0);
-  if (empty.length > 0)
-    throw new RangeError(
-      `no plot left of ${empty
-        .map((c) => `${input.variety.levels[c % v]} / ${input.treatment.levels[Math.floor(c / v)]}`)
-        .join(', ')}: a cell without plots has no mean`,
-    );
   if (r < 2) throw new RangeError('the split plot needs at least two blocks');
   // Main plots present in the data (block × treatment), coded in order of appearance.
   const mainPlot = new Int32Array(n);

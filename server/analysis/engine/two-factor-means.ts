@@ -11,6 +11,33 @@ import { separateMeans } from './mean-separation.js';
 import { rankMeans } from '../../../common/ranking';
 import type { SimpleEffect, TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
 
+/**
+ * The plots of a two-factor layout unpacked: level counts, each plot's block, treatment and
+ * variety codes, its treatment × variety cell (t × v + e) and the plots in each cell. A cell
+ * without plots has no mean, so it is refused here, naming the variety and treatment.
+ */
+export function twoFactorCells(input: TwoFactorInput) {
+  const { y } = input;
+  const n = y.length;
+  const r = input.block.levels.length;
+  const a = input.treatment.levels.length;
+  const v = input.variety.levels.length;
+  const B = input.block.codes;
+  const T = input.treatment.codes;
+  const V = input.variety.codes;
+  const cellOf = Int32Array.from({ length: n }, (_, i) => T[i]! * v + V[i]!);
+  const counts = new Float64Array(a * v);
+  for (let i = 0; i < n; i++) counts[cellOf[i]!]!++;
+  const empty = [...counts.keys()].filter((c) => counts[c] === 0);
+  if (empty.length > 0)
+    throw new RangeError(
+      `no plot left of ${empty
+        .map((c) => `${input.variety.levels[c % v]} / ${input.treatment.levels[Math.floor(c / v)]}`)
+        .join(', ')}: a cell without plots has no mean`,
+    );
+  return { y, n, r, a, v, B, T, V, cellOf, counts };
+}
+
 export type CellEstimate = (l: Float64Array) => { estimate: number; se: number; df: number };
 
 export function cellModelMeans(

@@ -10,7 +10,7 @@
 import { invertSpd } from './adjusted-means.js';
 import { sequentialSumsOfSquares } from './linear-model.js';
 import { fUpperTail } from './distributions.js';
-import { cellModelMeans, rankedVarietyMeans } from './two-factor-means.js';
+import { cellModelMeans, rankedVarietyMeans, twoFactorCells } from './two-factor-means.js';
 import type {
   TwoFactorAnalysis,
   TwoFactorInput,
@@ -19,24 +19,7 @@ import type {
 } from './two-factor.js';
 
 export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnalysis {
-  const { y } = input;
-  const n = y.length;
-  const r = input.block.levels.length;
-  const a = input.treatment.levels.length;
-  const v = input.variety.levels.length;
-  const B = input.block.codes;
-  const T = input.treatment.codes;
-  const V = input.variety.codes;
-  const cellOf = Int32Array.from({ length: n }, (_, i) => T[i]! * v + V[i]!);
-  const seen = new Uint32Array(a * v);
-  for (let i = 0; i < n; i++) seen[cellOf[i]!]!++;
-  const empty = [...seen.keys()].filter((c) => seen[c] === 0);
-  if (empty.length > 0)
-    throw new RangeError(
-      `no plot left of ${empty
-        .map((c) => `${input.variety.levels[c % v]} / ${input.treatment.levels[Math.floor(c / v)]}`)
-        .join(', ')}: a cell without plots has no mean`,
-    );
+  const { y, n, r, a, v, B, T, V, cellOf } = twoFactorCells(input);
 
   const fit = sequentialSumsOfSquares(y, [
     { name: 'block', cells: B, levels: r },

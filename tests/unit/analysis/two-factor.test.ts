@@ -156,6 +156,21 @@ describe('two-factor trials the classical analysis cannot take', () => {
       '2 missing plots: sequential sums of squares in the order block, treatment, variety, variety × treatment; means are least-squares means averaged over blocks.',
     );
   });
+  // A cell that lost every plot has no estimable mean (from memory: Searle, Linear Models for
+  // Unbalanced Data, 1987, on empty cells), so both engines that take lost plots refuse it alike.
+  it('refuses a variety × treatment cell with no plot left, by least squares and by the mixed model', () => {
+    const lines = csv.trim().split('\n');
+    const without = lines.filter((l) => !/^B\d+,none,Amberlow,/.test(l)).join('\n');
+    expect(without.split('\n').length).toBeLessThan(lines.length - 1);
+    const message = /no plot left of Amberlow \/ none: a cell without plots has no mean/;
+    for (const options of [
+      { factor: 'treatment', trait: 'value' },
+      { factor: 'treatment', splitPlot: true, trait: 'value', model: 'mixed' },
+    ] as const) {
+      expect(() => analyzeTwoFactorCsv(without, options)).toThrow(AnalysisInputError);
+      expect(() => analyzeTwoFactorCsv(without, options)).toThrow(message);
+    }
+  });
   it('refuses a factor column that is not there', () => {
     expect(() => analyzeTwoFactorCsv(csv, { factor: 'irrigation', trait: 'value' })).toThrow(
       /column "irrigation": not found/,
