@@ -12,6 +12,7 @@
  * equal variance by their largest concurrence. Random restarts per replicate, and of the whole
  * plan, keep the best. Pure: no I/O.
  */
+import { traceOfSpdInverse } from './cholesky';
 import type { Random } from './random';
 
 export interface IncompleteBlockPlan {
@@ -229,38 +230,9 @@ export function efficiencyFactor(blocks: readonly (readonly number[])[], v: numb
     for (const x of b) for (const y of b) m[x * v + y]! -= 1 / (r * k);
   }
   for (let i = 0; i < v * v; i++) m[i]! += 1 / v;
-  const traceInverse = traceOfInverse(m, v);
+  const traceInverse = traceOfSpdInverse(m, v);
   if (traceInverse === null) return null;
   return (v - 1) / (traceInverse - 1);
-}
-
-/** Trace of the inverse of a symmetric positive-definite matrix (Cholesky); null if singular. */
-function traceOfInverse(a: Float64Array, n: number): number | null {
-  const l = new Float64Array(n * n);
-  for (let j = 0; j < n; j++) {
-    let d = a[j * n + j]!;
-    for (let p = 0; p < j; p++) d -= l[j * n + p]! ** 2;
-    if (!(d > 1e-10)) return null;
-    l[j * n + j] = Math.sqrt(d);
-    for (let i = j + 1; i < n; i++) {
-      let s = a[i * n + j]!;
-      for (let p = 0; p < j; p++) s -= l[i * n + p]! * l[j * n + p]!;
-      l[i * n + j] = s / l[j * n + j]!;
-    }
-  }
-  // trace(A⁻¹) = Σ over columns of L⁻¹ squared.
-  let trace = 0;
-  const x = new Float64Array(n);
-  for (let c = 0; c < n; c++) {
-    x.fill(0);
-    for (let i = c; i < n; i++) {
-      let s = i === c ? 1 : 0;
-      for (let p = c; p < i; p++) s -= l[i * n + p]! * x[p]!;
-      x[i] = s / l[i * n + i]!;
-      trace += x[i]! * x[i]!;
-    }
-  }
-  return trace;
 }
 
 /** The properties of a laid-out plan, read back from its plots. */

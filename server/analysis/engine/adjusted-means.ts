@@ -14,6 +14,7 @@
  * means and SE = √(MS/n) exactly, so they are returned in that closed form.
  */
 import { groupMeans } from './anova.js';
+import { invertSpd as invertSpdOrNull } from '../../../common/cholesky';
 
 export interface AdjustedMeansInput {
   /** Plot values (deviations from an offset are fine: differences and SEs do not change). */
@@ -43,38 +44,8 @@ export class NotConnectedError extends Error {}
 
 /** Inverse of a symmetric positive definite matrix (row-major, p × p) by Cholesky. */
 export function invertSpd(a: Float64Array, p: number): Float64Array {
-  const l = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) {
-    let d = a[j * p + j]!;
-    for (let k = 0; k < j; k++) d -= l[j * p + k]! ** 2;
-    if (!(d > 1e-10 * Math.max(1, a[j * p + j]!))) throw new NotConnectedError();
-    const root = Math.sqrt(d);
-    l[j * p + j] = root;
-    for (let i = j + 1; i < p; i++) {
-      let s = a[i * p + j]!;
-      for (let k = 0; k < j; k++) s -= l[i * p + k]! * l[j * p + k]!;
-      l[i * p + j] = s / root;
-    }
-  }
-  // L⁻¹ (lower triangular), then A⁻¹ = L⁻ᵀ L⁻¹.
-  const li = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) {
-    li[j * p + j] = 1 / l[j * p + j]!;
-    for (let i = j + 1; i < p; i++) {
-      let s = 0;
-      for (let k = j; k < i; k++) s -= l[i * p + k]! * li[k * p + j]!;
-      li[i * p + j] = s / l[i * p + i]!;
-    }
-  }
-  const inv = new Float64Array(p * p);
-  for (let i = 0; i < p; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = 0;
-      for (let k = i; k < p; k++) s += li[k * p + i]! * li[k * p + j]!;
-      inv[i * p + j] = s;
-      inv[j * p + i] = s;
-    }
-  }
+  const inv = invertSpdOrNull(a, p);
+  if (!inv) throw new NotConnectedError();
   return inv;
 }
 

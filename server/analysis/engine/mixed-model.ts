@@ -20,6 +20,7 @@
  * inverse Hessian of the REML deviance, and the gradient of Var(Lβ̂) comes from numerical
  * derivatives; a multi-degree-of-freedom F is split along the eigenvectors of L Var(β̂) L'.
  */
+import { choleskyInPlace } from '../../../common/cholesky';
 import { fUpperTail, studentTTwoSided } from './distributions.js';
 import { hessian, jacobian } from './numeric-derivatives.js';
 import { symmetricEigen } from './symmetric-eigen.js';
@@ -72,25 +73,6 @@ export interface MixedFit {
   contrast(l: ArrayLike<number>): { estimate: number; se: number; df: number };
   /** Wald F test of Lβ = 0 with Satterthwaite denominator df (lmerTest's method). */
   waldF(rows: readonly ArrayLike<number>[]): WaldTest;
-}
-
-/** Lower Cholesky factor in place (row-major m × m); returns log determinant, or NaN. */
-function cholesky(a: Float64Array, m: number): number {
-  let logdet = 0;
-  for (let j = 0; j < m; j++) {
-    let d = a[j * m + j]!;
-    for (let k = 0; k < j; k++) d -= a[j * m + k]! ** 2;
-    if (!(d > 0)) return NaN;
-    const root = Math.sqrt(d);
-    a[j * m + j] = root;
-    logdet += 2 * Math.log(root);
-    for (let i = j + 1; i < m; i++) {
-      let s = a[i * m + j]!;
-      for (let k = 0; k < j; k++) s -= a[i * m + k]! * a[j * m + k]!;
-      a[i * m + j] = s / root;
-    }
-  }
-  return logdet;
 }
 
 interface Evaluation {
@@ -306,7 +288,7 @@ class RemlProblem {
       if (this.groupOf[i]! < k) a[row + i]! += 1;
       rhs[i]! *= si;
     }
-    const ld = cholesky(a, m);
+    const ld = choleskyInPlace(a, m);
     let cc = 0;
     for (let i = 0; i < m; i++) {
       let v = rhs[i]!;
