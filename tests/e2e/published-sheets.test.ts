@@ -213,4 +213,82 @@ describe('the sheet drawn on the server', () => {
       await context.close();
     }
   });
+
+  it('the server’s drawing stays on screen until the client’s sheet replaces it', async () => {
+    for (const viewport of viewports) {
+      const context = await contextAs(browser, live, null, viewport);
+      // Every frame from the first: where the ranking table is, how many level-1 headings, main
+      // regions and page banners there are, and whether the app (its header) and the client's
+      // sheet (its Print button) are on the page.
+      await context.addInitScript(() => {
+        const frames: Record<string, unknown>[] = [];
+        (window as unknown as { sheetFrames: typeof frames }).sheetFrames = frames;
+        const sample = () => {
+          const caption = [...document.querySelectorAll('caption')].find((c) =>
+            c.textContent?.startsWith('Entries ranked'),
+          );
+          const box = caption?.closest('table')?.getBoundingClientRect();
+          frames.push({
+            app: document.querySelector('#root header') !== null,
+            client: [...document.querySelectorAll('button')].some((b) => b.textContent === 'Print'),
+            ranking: box ? box.height > 0 && box.top < window.innerHeight && box.bottom > 0 : null,
+            h1: document.querySelectorAll('h1').length,
+            main: document.querySelectorAll('main').length,
+            banners: [...document.querySelectorAll('header')].filter(
+              (h) => !h.closest('main, section, article, aside, nav'),
+            ).length,
+          });
+          requestAnimationFrame(sample);
+        };
+        requestAnimationFrame(sample);
+      });
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      // The sheet's code is held back until the app has drawn several frames around the drawing.
+      let release!: () => void;
+      const released = new Promise<void>((resolve) => (release = resolve));
+      let held = false;
+      await page.route('**/assets/sheet-view-*.js', async (route) => {
+        held = true;
+        await released;
+        await route.continue();
+      });
+      await page.goto(`/r/${SLUG}`, { waitUntil: 'commit' });
+      await page.locator('#root header').first().waitFor({ state: 'attached' });
+      await page.waitForFunction(
+        () =>
+          (window as unknown as { sheetFrames: { app: boolean }[] }).sheetFrames.filter(
+            (f) => f.app,
+          ).length >= 5,
+      );
+      expect(held).toBe(true);
+      await expectNoSeriousA11yViolations(page, `drawn sheet at ${viewport.width}px`);
+      release();
+      await page.getByRole('button', { name: 'Print' }).waitFor();
+      const frames = await page.evaluate(
+        () =>
+          (
+            window as unknown as {
+              sheetFrames: {
+                app: boolean;
+                client: boolean;
+                ranking: boolean | null;
+                h1: number;
+                main: number;
+                banners: number;
+              }[];
+            }
+          ).sheetFrames,
+      );
+      const waiting = frames.filter((f) => f.app && !f.client);
+      expect(waiting.length).toBeGreaterThanOrEqual(5);
+      // From the first frame that shows the ranking, it stays in view; never two of anything.
+      const shown = frames.slice(frames.findIndex((f) => f.ranking !== null));
+      expect(shown.filter((f) => f.ranking !== true)).toEqual([]);
+      expect(frames.filter((f) => f.h1 > 1 || f.main > 1 || f.banners > 1)).toEqual([]);
+      await expectNoSeriousA11yViolations(page, `sheet at ${viewport.width}px`);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
 });

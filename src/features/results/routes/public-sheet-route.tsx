@@ -1,10 +1,14 @@
 import { utcDateOf } from '@common/calendar-date';
-import { lazy, Suspense, useLayoutEffect } from 'react';
+import { lazy, Suspense, useLayoutEffect, useRef } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
-import { hasPrerenderedSheet, removePrerenderedSheet } from '@/lib/prerendered-sheet';
+import {
+  hasPrerenderedSheet,
+  keepPrerenderedSheetIn,
+  removePrerenderedSheet,
+} from '@/lib/prerendered-sheet';
 import { usePublishedSheet } from '../api/get-published-sheet';
 import { useTrialOffers } from '../api/get-trial-offers';
 import { useVersions } from '../api/get-versions';
@@ -29,6 +33,18 @@ function SheetOverDrawing(props: { sheet: ResultSnapshot; offers?: readonly Tria
   return <SheetView {...props} />;
 }
 
+/**
+ * While the client's drawing loads: the server's, moved to where the client's will go (before the
+ * first paint of the app around it), and taken away with this holder when the client's mounts.
+ */
+function DrawingMeanwhile() {
+  const holder = useRef<HTMLDivElement>(null);
+  useLayoutEffect(() => {
+    if (holder.current) keepPrerenderedSheetIn(holder.current);
+  }, []);
+  return <div ref={holder} />;
+}
+
 export function Component() {
   const { slug = '', version } = useParams();
   const number = version ? Number(version) : undefined;
@@ -46,7 +62,11 @@ export function Component() {
   const base = `/api/results/${sheet.trial.slug}/v/${sheet.version}`;
   return (
     // Nothing of the page shows above the server's drawing while the client's loads.
-    <Suspense fallback={hasPrerenderedSheet() ? null : <Spinner label="Loading the results…" />}>
+    <Suspense
+      fallback={
+        hasPrerenderedSheet() ? <DrawingMeanwhile /> : <Spinner label="Loading the results…" />
+      }
+    >
       <div>
         <div className="no-print mb-4 flex flex-wrap items-center gap-2">
           <Button type="button" variant="secondary" onClick={() => window.print()}>
