@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { type Actor, can, canGroup, canInstance } from '../../common/policy';
+import { type Actor, can, canInstance } from '../../common/policy';
 import {
   type copyTrialBody,
   type createTrialBody,
@@ -37,8 +37,8 @@ import type { z } from 'zod';
 import { newAddress, wordsOf } from '../lib/address';
 import { AppError, fieldError } from '../lib/app-error';
 import {
+  groupAllows,
   groupForAction,
-  groupRoleOf,
   trialFactor,
   trialForAction,
   trialHeading,
@@ -162,7 +162,7 @@ export async function copyTrial(
   // The copy stays in the source's group only for someone who may start trials there.
   const sameGroup =
     source.group_id !== null &&
-    canGroup(actor, 'group.trial.create', await groupRoleOf(db, source.group_id, actor!));
+    (await groupAllows(db, source.group_id, actor, 'group.trial.create'));
   const hadLayout =
     (await repo.countPlots(db, source.id)) > 0 &&
     source.replicates !== null &&

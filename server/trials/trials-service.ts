@@ -65,6 +65,14 @@ export function groupRoleOf(db: DB, groupId: string, actor: Actor): Promise<Grou
   return repo.groupRole(db, groupId, actor.userId);
 }
 
+/** The group, the actor's role in it and whether the policy allows the action: both forms below read this. */
+async function groupAccess(db: DB, groupId: string, actor: Actor | null, action: GroupAction) {
+  const group = await repo.findGroup(db, groupId);
+  if (!group) return null;
+  const role = actor ? await repo.groupRole(db, groupId, actor.userId) : null;
+  return { group, role, allowed: canGroup(actor, action, role) };
+}
+
 /**
  * The same entry point for a group's actions (its register, trials it starts). Someone outside
  * the group, signed in or not, is told it does not exist (404); a member lacking the role gets 403.
@@ -75,12 +83,26 @@ export async function groupForAction(
   actor: Actor | null,
   action: GroupAction,
 ): Promise<{ group: { id: string; slug: string; name: string }; role: GroupRole | null }> {
-  const group = await repo.findGroup(db, groupId);
-  if (!group) throw AppError.notFound('The group');
-  const role = actor ? await repo.groupRole(db, groupId, actor.userId) : null;
-  if (canGroup(actor, action, role)) return { group, role };
+  const access = await groupAccess(db, groupId, actor, action);
+  if (!access) throw AppError.notFound('The group');
+  const { group, role } = access;
+  if (access.allowed) return { group, role };
   if (!role) throw AppError.notFound('The group');
   throw new AppError('forbidden', 'Your role in this group does not allow this.');
+}
+
+/**
+ * The entry point asked without refusing: whether the actor may take the action in the group,
+ * for choices that fall back rather than fail (a copied trial leaves a group its copier may not
+ * start trials in). A group that does not exist allows nothing.
+ */
+export async function groupAllows(
+  db: DB,
+  groupId: string,
+  actor: Actor | null,
+  action: GroupAction,
+): Promise<boolean> {
+  return (await groupAccess(db, groupId, actor, action))?.allowed ?? false;
 }
 
 export async function trialDetail(

@@ -8,14 +8,18 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { randomizeLayout } from '../../common/layout';
+import { type Actor, canGroup, groupActions } from '../../common/policy';
+import type { GroupRole } from '../../common/contracts/varieties';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { seedDemoIfEmpty } from '../../db/seed/seed';
+import { groupAllows, groupForAction } from '../../server/trials/trials-service';
 import {
   createTestApp,
   createUser,
   mintSessionCookie,
   TEST_ORIGIN,
   type TestApp,
+  type TestUser,
 } from '../support/test-app';
 
 const SLUG = 'larkhaven-okra-2026';
@@ -40,6 +44,20 @@ const copy = async (key: string, body: object, slug = SLUG) =>
     .set('Origin', TEST_ORIGIN)
     .set('Cookie', await cookieOf(key))
     .send(body);
+
+/** A new user made a second lead of the source trial, copying it. */
+async function copyAsNewLead(user: TestUser, title: string) {
+  const source = await trialBySlug(SLUG);
+  await t.db
+    .insertInto('trial_members')
+    .values({ trial_id: source.id, user_id: user.id, role: 'lead' })
+    .execute();
+  return request(t.app)
+    .post(`/api/trials/${SLUG}/copy`)
+    .set('Origin', TEST_ORIGIN)
+    .set('Cookie', await mintSessionCookie(t, user))
+    .send({ title, season: '2027' });
+}
 
 async function trialBySlug(slug: string) {
   return t.db.selectFrom('trials').selectAll().where('slug', '=', slug).executeTakeFirstOrThrow();
@@ -309,18 +327,10 @@ describe('copying a trial to next season', () => {
     // A second lead of the trial who is only a member of its group.
     const member = await createUser(t.db);
     await t.db
-      .insertInto('trial_members')
-      .values({ trial_id: source.id, user_id: member.id, role: 'lead' })
-      .execute();
-    await t.db
       .insertInto('group_members')
       .values({ group_id: source.group_id!, user_id: member.id, role: 'member' })
       .execute();
-    const res = await request(t.app)
-      .post(`/api/trials/${SLUG}/copy`)
-      .set('Origin', TEST_ORIGIN)
-      .set('Cookie', await mintSessionCookie(t, member))
-      .send({ title: 'Larkhaven okra, elsewhere', season: '2027' });
+    const res = await copyAsNewLead(member, 'Larkhaven okra, elsewhere');
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.sameGroup).toBe(false);
     const made = await trialBySlug(res.body.slug);
@@ -354,5 +364,68 @@ describe('copying a trial to next season', () => {
       expect(l.group_id).toBe(made.group_id);
       expect(l.variety).toBe(l.name);
     }
+  });
+
+  it('goes to the copier’s own group for a lead outside the source’s group, and stays for an administrator', async () => {
+    const source = await trialBySlug(SLUG);
+    const res = await copyAsNewLead(await createUser(t.db), 'Larkhaven okra, outside');
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.sameGroup).toBe(false);
+    expect((await trialBySlug(res.body.slug)).group_id).not.toBe(source.group_id);
+
+    const byAdmin = await copy('admin', { title: 'Larkhaven okra, kept by admin', season: '2027' });
+    expect(byAdmin.status, JSON.stringify(byAdmin.body)).toBe(201);
+    expect(byAdmin.body.sameGroup).toBe(true);
+    expect((await trialBySlug(byAdmin.body.slug)).group_id).toBe(source.group_id);
+  });
+});
+
+/**
+ * The group entry point asked without refusing answers as the refusing form does, for every
+ * group action and every kind of reader: the policy table (common/policy.ts) is the expectation.
+ */
+describe('asking a group action without refusing', () => {
+  it('allows exactly what groupForAction lets through, and nothing in a group that does not exist', async () => {
+    const source = await trialBySlug(SLUG);
+    const groupId = source.group_id!;
+    const member = await createUser(t.db);
+    await t.db
+      .insertInto('group_members')
+      .values({ group_id: groupId, user_id: member.id, role: 'member' })
+      .execute();
+    const outsider = await createUser(t.db);
+    const admin = await createUser(t.db, { isAdmin: true });
+    const lead = demoAccounts.find((a) => a.key === 'lead')!;
+    const leadId = (
+      await t.db
+        .selectFrom('users')
+        .select('id')
+        .where('email', '=', lead.email)
+        .executeTakeFirstOrThrow()
+    ).id;
+    const readers: { who: string; actor: Actor | null; role: GroupRole | null }[] = [
+      { who: 'coordinator', actor: { userId: leadId, isAdmin: false }, role: 'coordinator' },
+      { who: 'member', actor: { userId: member.id, isAdmin: false }, role: 'member' },
+      { who: 'outsider', actor: { userId: outsider.id, isAdmin: false }, role: null },
+      { who: 'administrator', actor: { userId: admin.id, isAdmin: true }, role: null },
+      { who: 'signed out', actor: null, role: null },
+    ];
+    for (const { who, actor, role } of readers)
+      for (const action of groupActions) {
+        const allowed = await groupAllows(t.db, groupId, actor, action);
+        const passes = await groupForAction(t.db, groupId, actor, action).then(
+          () => true,
+          () => false,
+        );
+        expect(allowed, `${who} ${action}`).toBe(canGroup(actor, action, role));
+        expect(passes, `${who} ${action}`).toBe(allowed);
+        expect(
+          await groupAllows(t.db, crypto.randomUUID(), actor, action),
+          `${who} ${action} in no group`,
+        ).toBe(false);
+      }
+    // What copying rests on: the coordinator may start trials in the group, the member may not.
+    expect(await groupAllows(t.db, groupId, readers[0]!.actor, 'group.trial.create')).toBe(true);
+    expect(await groupAllows(t.db, groupId, readers[1]!.actor, 'group.trial.create')).toBe(false);
   });
 });
