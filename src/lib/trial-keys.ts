@@ -161,6 +161,26 @@ export async function invalidateTrial(
   });
 }
 
+/**
+ * What seed writes change. Seed belongs to a group, above single trials: a lot, a germination
+ * test, an offer or a request changes the seed pages and offers, and in every trial the entries'
+ * lot choices (labels, years) and the open offers its sheet links to.
+ */
+const seedInTrial = [trialKeys.entryLots('').slice(2), trialKeys.trialOffers('').slice(2)];
+export const isSeedKey = (key: QueryKey) =>
+  (key[0] === trialKeys.varietySeeds()[0] && key[1] === trialKeys.varietySeeds()[1]) ||
+  key[0] === trialKeys.seedOffers()[0] ||
+  (key[0] === 'trial' && seedInTrial.some(([v, part]) => key[2] === v && key[3] === part));
+
+/**
+ * After a seed write: one awaited invalidation of everything `isSeedKey` names. No trial view is
+ * marked written (the on-device copy of a trial's design is what the field log needs offline, and
+ * a reload asks the server for the lots anyway).
+ */
+export async function invalidateSeed(queryClient: QueryClient): Promise<void> {
+  await queryClient.invalidateQueries({ predicate: ({ queryKey }) => isSeedKey(queryKey) });
+}
+
 /** After the trial itself is deleted: everything cached about it goes, and the list refreshes. */
 export async function forgetTrial(queryClient: QueryClient, slug: string): Promise<void> {
   markTrialWritten(slug, trialViews);

@@ -2,7 +2,7 @@ import { varietySeedSchema } from '@common/contracts/seed';
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useCallback } from 'react';
 import { api } from '@/lib/api-client';
-import { trialKeys } from '@/lib/trial-keys';
+import { invalidateSeed, trialKeys } from '@/lib/trial-keys';
 
 /** GET /api/varieties/:slug/seed: lots, tests, the stand of plots sown from each, offers. */
 export const getVarietySeed = (slug: string) =>
@@ -13,13 +13,11 @@ export const varietySeedQueryOptions = (slug: string) =>
 
 export const useVarietySeed = (slug: string) => useQuery(varietySeedQueryOptions(slug));
 
-/** After any seed write: every variety's seed and every offer (with its requests) read again. */
+/**
+ * After any seed write: every variety's seed, every offer (with its requests), and in each trial
+ * the entries' lots and the sheet's offers read again (`invalidateSeed`).
+ */
 export function useSeedChanged() {
   const queryClient = useQueryClient();
-  return useCallback(async () => {
-    await Promise.all([
-      queryClient.invalidateQueries({ queryKey: trialKeys.varietySeeds() }),
-      queryClient.invalidateQueries({ queryKey: trialKeys.seedOffers() }),
-    ]);
-  }, [queryClient]);
+  return useCallback(() => invalidateSeed(queryClient), [queryClient]);
 }
