@@ -245,8 +245,18 @@ export const varietiesRandomSchema = z.object({
   varianceComponents: z.array(
     varianceComponentSchema.extend({ source: z.enum(['variety', ...varianceSources]) }),
   ),
-  /** μ̂ + BLUP per variety, best first in the trait's direction. */
-  blups: z.array(z.object({ variety: z.string(), blup: z.number(), predicted: z.number() })),
+  /**
+   * μ̂ + BLUP per variety, best first in the trait's direction; rank 1 = best (ties share it),
+   * null with no direction.
+   */
+  blups: z.array(
+    z.object({
+      variety: z.string(),
+      blup: z.number(),
+      predicted: z.number(),
+      rank: z.number().int().positive().nullable(),
+    }),
+  ),
   /** Mean variance of a difference of two BLUEs (varieties fixed). */
   meanVarianceOfBlueDifferences: z.number(),
   /** σ²g ÷ (σ²g + v̄/2), on an entry-mean basis (Piepho & Möhring 2007). */

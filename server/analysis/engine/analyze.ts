@@ -190,8 +190,11 @@ export interface AnalysisResult {
       variance: number;
       se: number | null;
     }[];
-    /** Predicted mean = overall mean + BLUP, best first in the trait's direction. */
-    blups: { variety: string; blup: number; predicted: number }[];
+    /**
+     * Predicted mean = overall mean + BLUP, best first in the trait's direction, with its rank
+     * (1 = best; null with no direction).
+     */
+    blups: { variety: string; blup: number; predicted: number; rank: number | null }[];
     meanVarianceOfBlueDifferences: number;
     heritability: number;
     logLik: number;
@@ -507,18 +510,18 @@ export function analyzePlotRows(
       else
         varietiesRandom = {
           varianceComponents: r.varianceComponents,
-          blups: entry.levels
-            .map((variety, i) => ({
-              variety,
-              blup: r.blup[i]!,
-              predicted: addOffset(centred.offset, r.predicted[i]!),
-            }))
-            .sort(
-              (a, b) =>
-                (options.direction === 'lower'
-                  ? a.predicted - b.predicted
-                  : b.predicted - a.predicted) || a.variety.localeCompare(b.variety),
-            ),
+          // Ranked on the predicted means like every other ranking; tied predictions keep
+          // the entries' alphabetical order.
+          blups: rankMeans(
+            entry.levels
+              .map((variety, i) => ({
+                variety,
+                blup: r.blup[i]!,
+                mean: addOffset(centred.offset, r.predicted[i]!),
+              }))
+              .sort((a, b) => a.variety.localeCompare(b.variety)),
+            options.direction ?? 'higher',
+          ).map(({ variety, blup, mean, rank }) => ({ variety, blup, predicted: mean, rank })),
           meanVarianceOfBlueDifferences: r.meanVarianceOfBlueDifferences,
           heritability: r.heritability,
           logLik: r.logLik,

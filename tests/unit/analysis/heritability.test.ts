@@ -50,6 +50,22 @@ describe.each([
     expect(predicted).toEqual([...predicted].sort((a, b) => b - a));
   });
 
+  // Ranks through the one ranking of every output, in the trait's direction: the order of R's
+  // own predicted means, largest first when higher is better, smallest first when lower is.
+  it.each(['higher', 'lower', 'none'] as const)(
+    "ranks the predictions in the order of R's, %s is better",
+    (direction) => {
+      const ranked = analyzeCsv(csv(file), { model: 'mixed', varietiesRandom: true, direction })
+        .varietiesRandom!.blups;
+      const sign = direction === 'lower' ? 1 : -1;
+      const order = [...r.blups].sort((a, b) => sign * (a.predicted - b.predicted));
+      expect(ranked.map((b) => b.variety)).toEqual(order.map((b) => b.variety));
+      expect(ranked.map((b) => b.rank)).toEqual(
+        order.map((_, i) => (direction === 'none' ? null : i + 1)),
+      );
+    },
+  );
+
   it('heritability and the mean variance of BLUE differences to 5 significant digits', () => {
     expect(rel(random.meanVarianceOfBlueDifferences, r.meanVarianceOfBlueDifferences)).toBeLessThan(
       1e-5,

@@ -9,6 +9,7 @@ import { type DisplayUnit, formatF, formatNumber, formatP } from '@common/displa
 import { createColumnHelper } from '@tanstack/react-table';
 import { DataTable } from '@/components/ui/data-table';
 import { ScrollRegion } from '@/components/ui/scroll-region';
+import { rankColumn } from './rank-column';
 
 type TrialDesign = (typeof trialDesigns)[number];
 
@@ -306,14 +307,7 @@ export function MeansTable({
         rowId={(m) => m.variety}
         rowHeader="variety"
         columns={[
-          meanCol.accessor((m) => m.rank ?? undefined, {
-            id: 'rank',
-            header: 'Rank',
-            cell: (c) => c.getValue() ?? '—',
-            // Unranked entries (no direction) sort last either way.
-            sortUndefined: 'last',
-            meta: { align: 'right' },
-          }),
+          rankColumn(meanCol),
           meanCol.accessor('variety', {
             header: 'Entry',
             cell: (c) => (

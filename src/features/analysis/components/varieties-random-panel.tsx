@@ -11,10 +11,11 @@ import { DataTable } from '@/components/ui/data-table';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 import { Spinner } from '@/components/ui/spinner';
+import { rankColumn } from './rank-column';
 import { type TrialAnalysisParams, useTrialAnalysis } from '../api/get-trial-analysis';
 
 type Random = NonNullable<TrialAnalysis['varietiesRandom']>;
-type Blup = Random['blups'][number] & { rank: number };
+type Blup = Random['blups'][number];
 type Component = Random['varianceComponents'][number];
 const blupCol = createColumnHelper<Blup>();
 const componentCol = createColumnHelper<Component>();
@@ -97,11 +98,11 @@ export function VarietiesRandomPanel({
           <ScrollRegion label="Predicted entry means (BLUPs)" className="mt-2">
             <DataTable
               caption={`Predicted entry means with varieties random (${unit.label})`}
-              data={random.blups.map((b, i) => ({ ...b, rank: i + 1 }))}
+              data={random.blups}
               rowId={(b) => b.variety}
               rowHeader="variety"
               columns={[
-                blupCol.accessor('rank', { header: 'Order' }),
+                rankColumn(blupCol),
                 blupCol.accessor('variety', { header: 'Entry' }),
                 blupCol.accessor('predicted', {
                   header: `Predicted mean (${unit.label})`,
