@@ -227,13 +227,33 @@ export interface FrozenVersion {
 }
 
 /**
- * Published versions never change once written, so each is checked, serialised and compressed
- * once per process and kept (the most recent few hundred). The key holds the version's row
- * identity and publication time, so a republished or deleted trial can never be answered from
- * it; whether the trial is still published is asked of the database on every request.
+ * Published versions never change once written, so each is checked once per process and kept
+ * (the most recent few hundred). The key holds the version's row identity and publication time,
+ * so a republished or deleted trial can never be answered from it; whether the trial is still
+ * published is asked of the database on every request.
+ *
+ * Versions published before snapshots named each entry's register variety lack `varietySlug`.
+ * Their stored rows stay as published (a trigger keeps them from changing, and readers must see
+ * exactly the numbers that were published); the link to a variety's page is a way to get there,
+ * not a published figure, so it is filled in on every read from the entry's register link, the
+ * same link the variety's page reads to list that trial, and an entry relinked since is followed
+ * at once. Each set of links is serialised and compressed once (`served`), so its bytes and ETag
+ * (and the page drawn from it, see sheet-page.ts) are those of the links it carries. Newer
+ * versions keep the slug from publishing and are served from memory alone.
  */
-const frozenVersions = new Map<string, FrozenVersion>();
+interface StoredVersion {
+  key: string;
+  /** As stored and checked; never changed (the served copies are built beside it). */
+  snapshot: ResultSnapshot;
+  /** Whether some entry lacks the variety link, so it is read from the register on each request. */
+  unlinked: boolean;
+  /** The version as served, by the links filled in ('' when none are). */
+  served: Map<string, FrozenVersion>;
+}
+const frozenVersions = new Map<string, StoredVersion>();
 const FROZEN_VERSIONS_KEPT = 200;
+/** Sets of links kept per version: a relink replaces the set, so a few cover any churn. */
+const LINK_SETS_KEPT = 4;
 
 /** A published sheet's version for anyone: one query for the stamp, the rest from memory. */
 export async function frozenVersion(
@@ -267,6 +287,39 @@ async function frozenFromStamp(
   trialId: string,
   meta: { version: number; published_at: Date },
 ): Promise<FrozenVersion> {
+  const stored = await storedVersion(db, trialId, meta);
+  const links = stored.unlinked ? await entryVarietyLinks(db, trialId) : null;
+  const snapshot = links ? withVarietyLinks(stored.snapshot, links) : stored.snapshot;
+  const linksKey = links ? JSON.stringify(snapshot.entries.map((e) => e.varietySlug ?? null)) : '';
+  const kept = stored.served.get(linksKey);
+  if (kept) return kept;
+  const json = JSON.stringify(snapshot);
+  const tag = crypto
+    .createHash('sha256')
+    .update(stored.key)
+    .update(json)
+    .digest('base64url')
+    .slice(0, 27);
+  const body = Buffer.from(json, 'utf8');
+  const frozen: FrozenVersion = {
+    snapshot,
+    json,
+    body,
+    gzip: zlib.gzipSync(body, { level: zlib.constants.Z_BEST_COMPRESSION }),
+    etag: `"${tag}"`,
+    gzipEtag: `"${tag}-gz"`,
+  };
+  if (stored.served.size >= LINK_SETS_KEPT) stored.served.clear();
+  stored.served.set(linksKey, frozen);
+  return frozen;
+}
+
+/** The version as stored, read and checked once per process (see `frozenVersions`). */
+async function storedVersion(
+  db: DB,
+  trialId: string,
+  meta: { version: number; published_at: Date },
+): Promise<StoredVersion> {
   const key = `${trialId}:${meta.version}:${meta.published_at.getTime()}`;
   const kept = frozenVersions.get(key);
   if (kept) return kept;
@@ -275,38 +328,34 @@ async function frozenFromStamp(
   const parsed = resultSnapshotSchema.safeParse(row.snapshot);
   if (!parsed.success)
     throw new AppError('internal', 'This version of the results sheet could not be read.');
-  await linkEntriesToVarieties(db, trialId, parsed.data);
-  const json = JSON.stringify(parsed.data);
-  const tag = crypto.createHash('sha256').update(key).update(json).digest('base64url').slice(0, 27);
-  const body = Buffer.from(json, 'utf8');
-  const frozen: FrozenVersion = {
+  const stored: StoredVersion = {
+    key,
     snapshot: parsed.data,
-    json,
-    body,
-    gzip: zlib.gzipSync(body, { level: zlib.constants.Z_BEST_COMPRESSION }),
-    etag: `"${tag}"`,
-    gzipEtag: `"${tag}-gz"`,
+    unlinked: parsed.data.entries.some((e) => e.varietySlug === undefined),
+    served: new Map(),
   };
   if (frozenVersions.size >= FROZEN_VERSIONS_KEPT)
     frozenVersions.delete(frozenVersions.keys().next().value!);
-  frozenVersions.set(key, frozen);
-  return frozen;
+  frozenVersions.set(key, stored);
+  return stored;
 }
 
-/**
- * Versions published before snapshots named each entry's register variety lack `varietySlug`.
- * Their stored rows stay as published (a trigger keeps them from changing, and readers must see
- * exactly the numbers that were published); the link to a variety's page is a way to get there,
- * not a published figure, so it is filled in here from the entry's register link, the same link
- * the variety's page reads to list that trial. Newer versions keep the slug from publishing.
- */
-async function linkEntriesToVarieties(db: DB, trialId: string, snapshot: ResultSnapshot) {
-  if (snapshot.entries.every((e) => e.varietySlug !== undefined)) return;
-  const slugs = new Map(
-    (await repo.entryVarietySlugs(db, trialId)).map((r) => [r.id, r.slug ?? null]),
-  );
-  for (const e of snapshot.entries)
-    if (e.varietySlug === undefined) e.varietySlug = slugs.get(e.id) ?? null;
+/** Entry id → the slug of the register variety it is linked to now (null: none). */
+async function entryVarietyLinks(db: DB, trialId: string): Promise<Map<string, string | null>> {
+  return new Map((await repo.entryVarietySlugs(db, trialId)).map((r) => [r.id, r.slug ?? null]));
+}
+
+/** A copy of the version with each entry that lacks a variety link given its register link. */
+function withVarietyLinks(
+  snapshot: ResultSnapshot,
+  links: ReadonlyMap<string, string | null>,
+): ResultSnapshot {
+  return {
+    ...snapshot,
+    entries: snapshot.entries.map((e) =>
+      e.varietySlug === undefined ? { ...e, varietySlug: links.get(e.id) ?? null } : e,
+    ),
+  };
 }
 
 export async function publicVersion(

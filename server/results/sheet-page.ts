@@ -2,7 +2,8 @@
  * The published results sheet's page, drawn on the server: the ranked sheet as HTML (from the
  * client's own `SheetView`, built by `vite build` into dist/sheet-html) and its numbers as JSON
  * for the client to mount over it. A published version never changes, so each is drawn once per
- * process and kept with the version (see `frozenVersionOf`).
+ * process and kept with the version as served (see `frozenVersionOf`; an older version's entry
+ * relinked to another variety is served anew, so it is drawn anew).
  */
 import fs from 'node:fs';
 import path from 'node:path';

@@ -4,6 +4,10 @@
  * the field existed get it from the entry's register link when read, their stored row unchanged.
  * The variety's page answers anyone signed out for what the published version shows.
  */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PUBLISHED_SLUG, publishDemoSheet } from '../../db/seed/demo-sheet';
@@ -11,12 +15,28 @@ import { seedDemo } from '../../db/seed/seed';
 import { createTestApp, type TestApp } from '../support/test-app';
 
 let t: TestApp;
+let builtDir: string;
 let trialId: string;
 /** Entry id → the slug of the variety it is linked to in the register, read from the tables. */
 let linked: Map<string, string | null>;
 
 beforeAll(async () => {
-  t = await createTestApp();
+  // An app shell, and the sheet's server drawing made by the client's own SheetView (the module
+  // `vite build` puts beside the client, here taken from its source), so the page is drawn as served.
+  builtDir = fs.mkdtempSync(path.join(os.tmpdir(), 'rowtally-sheet-links-'));
+  const clientDir = path.join(builtDir, 'client');
+  fs.mkdirSync(clientDir);
+  fs.writeFileSync(
+    path.join(clientDir, 'index.html'),
+    '<!doctype html><html><head><title>Rowtally</title></head><body><div id="root"></div></body></html>',
+  );
+  fs.mkdirSync(path.join(builtDir, 'sheet-html'));
+  const source = pathToFileURL(path.resolve('src/entry-sheet-html.tsx')).href;
+  fs.writeFileSync(
+    path.join(builtDir, 'sheet-html', 'entry-sheet-html.js'),
+    `export { renderSheetHtml } from ${JSON.stringify(source)};\n`,
+  );
+  t = await createTestApp({ clientDir });
   await seedDemo(t.db);
   await publishDemoSheet(t.db);
   trialId = (
@@ -36,6 +56,7 @@ beforeAll(async () => {
 }, 60_000);
 afterAll(async () => {
   await t.close();
+  fs.rmSync(builtDir, { recursive: true, force: true });
 });
 
 type SheetEntry = { id: string; name: string; varietySlug?: string | null };
@@ -116,5 +137,106 @@ describe('the published sheet’s links to variety pages', () => {
       .executeTakeFirstOrThrow();
     const storedEntries = (stored.snapshot as { entries: SheetEntry[] }).entries;
     expect(storedEntries.every((e) => !('varietySlug' in e))).toBe(true);
+  });
+
+  it('follows an entry relinked after such a version was read, in the API and the drawn page, with new ETags', async () => {
+    const v1 = await request(t.app).get(`/api/results/${DEMO_PUBLISHED_SLUG}/v/1`);
+    const old = structuredClone(v1.body) as { version: number; entries: SheetEntry[] };
+    old.version = 3;
+    for (const e of old.entries) delete e.varietySlug;
+    await t.db
+      .insertInto('result_versions')
+      .values({
+        trial_id: trialId,
+        version: 3,
+        snapshot: JSON.stringify(old),
+        published_at: new Date(),
+        change_note: 'Another version of the earlier shape.',
+        published_by: null,
+      })
+      .execute();
+    // Read afresh: the test before this one unlinked an entry.
+    const now = new Map(
+      (
+        await t.db
+          .selectFrom('entries as e')
+          .innerJoin('varieties as v', 'v.id', 'e.variety_id')
+          .select(['e.id', 'v.slug'])
+          .where('e.trial_id', '=', trialId)
+          .execute()
+      ).map((r) => [r.id, r.slug]),
+    );
+    const [moved, other] = old.entries.filter((e) => now.has(e.id));
+    const before = now.get(moved!.id)!;
+    const after = now.get(other!.id)!;
+    expect(after).not.toBe(before);
+    const sheetOf = (res: request.Response) =>
+      res.body as { entries: SheetEntry[]; version: number };
+    const linkOf = (res: request.Response) =>
+      sheetOf(res).entries.find((e) => e.id === moved!.id)!.varietySlug;
+    /** The entry's link in the server's drawing (before the embedded numbers). */
+    const drawnLink = (html: string) => {
+      const drawn = html.slice(
+        html.indexOf('id="sheet-prerender"'),
+        html.indexOf('id="sheet-data"'),
+      );
+      expect(drawn.length).toBeGreaterThan(0);
+      return [...drawn.matchAll(/href="\/varieties\/([a-z0-9-]+)"[^>]*>([^<]*)</g)]
+        .filter((m) => m[2] === moved!.name)
+        .map((m) => m[1]);
+    };
+    const embeddedLink = (html: string) =>
+      (
+        JSON.parse(/id="sheet-data">([^]*?)<\/script>/.exec(html)![1]!) as {
+          entries: SheetEntry[];
+        }
+      ).entries.find((e) => e.id === moved!.id)!.varietySlug;
+
+    const api = `/api/results/${DEMO_PUBLISHED_SLUG}/v/3`;
+    const page = `/r/${DEMO_PUBLISHED_SLUG}/v/3`;
+    const first = await request(t.app).get(api);
+    expect(first.status).toBe(200);
+    expect(linkOf(first)).toBe(before);
+    const firstPage = await request(t.app).get(page);
+    expect(firstPage.status).toBe(200);
+    expect(drawnLink(firstPage.text)).toEqual([before]);
+    expect(embeddedLink(firstPage.text)).toBe(before);
+    // Read again unchanged: the reader's copy is still good.
+    const again = await request(t.app).get(api).set('If-None-Match', first.headers.etag!);
+    expect(again.status).toBe(304);
+
+    // The entry is relinked to another register variety.
+    const otherVariety = await t.db
+      .selectFrom('entries')
+      .select('variety_id')
+      .where('id', '=', other!.id)
+      .executeTakeFirstOrThrow();
+    await t.db
+      .updateTable('entries')
+      .set({ variety_id: otherVariety.variety_id })
+      .where('id', '=', moved!.id)
+      .execute();
+
+    const relinked = await request(t.app).get(api).set('If-None-Match', first.headers.etag!);
+    expect(relinked.status).toBe(200);
+    expect(relinked.headers.etag).not.toBe(first.headers.etag);
+    expect(linkOf(relinked)).toBe(after);
+    // Everything else of the version is as it was served before.
+    const unchanged = (res: request.Response) =>
+      sheetOf(res).entries.map((e) => (e.id === moved!.id ? { ...e, varietySlug: null } : e));
+    expect(unchanged(relinked)).toEqual(unchanged(first));
+    const latest = await request(t.app).get(`/api/results/${DEMO_PUBLISHED_SLUG}`);
+    expect(sheetOf(latest).version).toBe(3);
+    expect(linkOf(latest)).toBe(after);
+
+    const relinkedPage = await request(t.app)
+      .get(page)
+      .set('If-None-Match', firstPage.headers.etag ?? '"none"');
+    expect(relinkedPage.status).toBe(200);
+    expect(relinkedPage.headers.etag).not.toBe(firstPage.headers.etag);
+    expect(drawnLink(relinkedPage.text)).toEqual([after]);
+    expect(embeddedLink(relinkedPage.text)).toBe(after);
+    const latestPage = await request(t.app).get(`/r/${DEMO_PUBLISHED_SLUG}`);
+    expect(drawnLink(latestPage.text)).toEqual([after]);
   });
 });
