@@ -127,9 +127,14 @@ describe('sharing seed', () => {
       'Delete the germination test of lot DP-26 read on 2026-11-02 (9 of 100 germinated)? This cannot be undone.',
     );
     expect(await slip.count()).toBe(1);
+    // By keyboard: once the row is gone the focus is on the next test's Delete, not lost.
     deskPage.once('dialog', (d) => void d.accept());
-    await remove.click();
+    await remove.focus();
+    await deskPage.keyboard.press('Enter');
     await slip.waitFor({ state: 'detached' });
+    await deskPage.waitForFunction(() =>
+      document.activeElement?.getAttribute('aria-label')?.startsWith('Delete the test read on '),
+    );
     await lotCard.getByText('93 %', { exact: true }).waitFor();
 
     // The same page on a phone: the tables scroll inside their frames, not the page.

@@ -16,7 +16,15 @@ import { formatPercent } from '@common/seed-lots';
 import { formatMass, fromStored } from '@common/units';
 import { localToday } from '@common/calendar-date';
 import { createColumnHelper } from '@tanstack/react-table';
-import { useMemo, useState } from 'react';
+import {
+  createContext,
+  type RefObject,
+  useContext,
+  useEffect,
+  useMemo,
+  useRef,
+  useState,
+} from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { DataTable } from '@/components/ui/data-table';
@@ -154,66 +162,111 @@ const testColumns = [
   }),
 ];
 
-/** A lot's germination tests, newest first; a coordinator may delete one entered by mistake. */
-function TestsTable({ lot, canEdit }: { lot: SeedLot; canEdit: boolean }) {
+/** What the Delete cells read: kept out of the columns, so the columns never change. */
+const TestDeletes = createContext<{
+  deleting: string | null;
+  remove: (test: GerminationTest) => void;
+} | null>(null);
+
+function DeleteTestButton({ test }: { test: GerminationTest }) {
+  const deletes = useContext(TestDeletes)!;
+  const deleting = deletes.deleting === test.id;
+  // aria-disabled, not disabled: a disabled button drops the keyboard focus while it waits.
+  return (
+    <Button
+      type="button"
+      variant="ghost"
+      data-germination-test={test.id}
+      aria-disabled={deleting || undefined}
+      aria-label={`Delete the test read on ${test.testedOn}`}
+      onClick={() => {
+        if (!deleting) deletes.remove(test);
+      }}
+    >
+      {deleting ? 'Deleting…' : 'Delete'}
+    </Button>
+  );
+}
+
+const editableTestColumns = [
+  ...testColumns,
+  testColumn.display({
+    id: 'delete',
+    // A visible header: a visually hidden one would stick out of the scroll frame at 360 px.
+    header: 'Delete',
+    cell: (c) => <DeleteTestButton test={c.row.original} />,
+  }),
+];
+
+/**
+ * A lot's germination tests, newest first; a coordinator may delete one entered by mistake. The
+ * keyboard focus then goes to the next row's Delete (the previous one after the last row), or to
+ * `heading` once no test is left.
+ */
+function TestsTable({
+  lot,
+  canEdit,
+  heading,
+}: {
+  lot: SeedLot;
+  canEdit: boolean;
+  heading: RefObject<HTMLHeadingElement | null>;
+}) {
   const changed = useSeedChanged();
-  const [busy, setBusy] = useState<string | null>(null);
+  const [deleting, setDeleting] = useState<string | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
-  const columns = useMemo(() => {
-    if (!canEdit) return testColumns;
+  const table = useRef<HTMLDivElement>(null);
+  const focusNext = useRef<string | null>(null);
+  useEffect(() => {
+    const next = focusNext.current;
+    if (next === null || lot.tests.some((t) => t.id === deleting)) return;
+    focusNext.current = null;
+    table.current?.querySelector<HTMLElement>(`[data-germination-test="${next}"]`)?.focus();
+  }, [lot.tests, deleting]);
+  const deletes = useMemo(() => {
     const remove = async (test: GerminationTest) => {
       const what = `the germination test of lot ${lot.label} read on ${test.testedOn} (${test.seedsGerminated} of ${test.seedsTested} germinated)`;
       if (!window.confirm(`Delete ${what}? This cannot be undone.`)) return;
-      setBusy(test.id);
+      const at = lot.tests.findIndex((t) => t.id === test.id);
+      const next = lot.tests[at + 1] ?? lot.tests[at - 1];
+      setDeleting(test.id);
       setProblem(null);
       try {
         await deleteGerminationTest(lot.id, test.id);
+        // The last test gone, this table goes too: the lot's "Germination tests" heading holds it.
+        if (next) focusNext.current = next.id;
         await changed();
+        if (!next) heading.current?.focus();
       } catch (err) {
         setProblem(err instanceof Error ? err.message : 'Not deleted: try again.');
       } finally {
-        setBusy(null);
+        setDeleting(null);
       }
     };
-    return [
-      ...testColumns,
-      testColumn.display({
-        id: 'delete',
-        // A visible header: a visually hidden one would stick out of the scroll frame at 360 px.
-        header: 'Delete',
-        cell: (c) => (
-          <Button
-            type="button"
-            variant="ghost"
-            disabled={busy === c.row.original.id}
-            aria-label={`Delete the test read on ${c.row.original.testedOn}`}
-            onClick={() => void remove(c.row.original)}
-          >
-            Delete
-          </Button>
-        ),
-      }),
-    ];
-  }, [canEdit, lot.id, lot.label, busy, changed]);
+    return { deleting, remove: (test: GerminationTest) => void remove(test) };
+  }, [lot.id, lot.label, lot.tests, deleting, changed, heading]);
   return (
-    <>
+    <TestDeletes.Provider value={deletes}>
       {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
       <ScrollRegion label={`Germination tests of lot ${lot.label}`} className="mt-1">
-        <DataTable
-          caption={`Germination tests of lot ${lot.label}`}
-          data={lot.tests}
-          columns={columns}
-          rowId={(t) => t.id}
-          rowHeader="testedOn"
-          className="min-w-[28rem] text-sm"
-        />
+        <div ref={table}>
+          <DataTable
+            caption={`Germination tests of lot ${lot.label}`}
+            data={lot.tests}
+            columns={canEdit ? editableTestColumns : testColumns}
+            rowId={(t) => t.id}
+            rowHeader="testedOn"
+            className="min-w-[28rem] text-sm"
+          />
+        </div>
       </ScrollRegion>
-    </>
+    </TestDeletes.Provider>
   );
 }
 
 function LotCard({ slug, lot, canEdit }: { slug: string; lot: SeedLot; canEdit: boolean }) {
   const [editing, setEditing] = useState(false);
+  const testsHeading = useRef<HTMLHeadingElement>(null);
   if (editing) return <LotForm slug={slug} lot={lot} onDone={() => setEditing(false)} />;
   return (
     <section className={card} aria-labelledby={`lot-${lot.id}`}>
@@ -254,11 +307,13 @@ function LotCard({ slug, lot, canEdit }: { slug: string; lot: SeedLot; canEdit: 
           {w.message}
         </p>
       ))}
-      <h4 className="mt-3 font-semibold">Germination tests</h4>
+      <h4 ref={testsHeading} tabIndex={-1} className="mt-3 font-semibold">
+        Germination tests
+      </h4>
       {lot.tests.length === 0 ? (
         <p className="text-sm text-loam-700">None yet.</p>
       ) : (
-        <TestsTable lot={lot} canEdit={canEdit} />
+        <TestsTable lot={lot} canEdit={canEdit} heading={testsHeading} />
       )}
       {canEdit ? <TestForm lotId={lot.id} /> : null}
       <h4 className="mt-4 font-semibold">Sown in trials</h4>
