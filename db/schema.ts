@@ -275,6 +275,24 @@ export interface HarvestsTable extends Written, Versioned {
   note: Generated<string>;
 }
 
+/**
+ * Each plot's live harvests added up, kept by triggers on harvests (never written by the app).
+ * Masses are numeric, which pg hands over as text: read them cast to float8.
+ */
+export interface PlotHarvestTotalsTable {
+  plot_id: string;
+  trial_id: string;
+  harvests: number;
+  fruit_count: number;
+  mass_g: string;
+  marketable_fruit_count: number;
+  marketable_mass_g: string;
+  harvest_days: number;
+  first_harvested_on: DateText;
+  last_harvested_on: DateText;
+  mass_decimals: number;
+}
+
 export interface ObservationsTable extends Written, Versioned {
   id: Generated<string>;
   trial_id: string;
@@ -562,6 +580,7 @@ export interface Database {
   plots: PlotsTable;
   traits: TraitsTable;
   harvests: HarvestsTable;
+  plot_harvest_totals: PlotHarvestTotalsTable;
   observations: ObservationsTable;
   field_events: FieldEventsTable;
   photos: PhotosTable;

@@ -25,6 +25,7 @@ import * as harvestTotalsIndex from './2026-12-02T4200-harvest-totals-index';
 import * as seedLots from './2026-12-02T4400-seed-lots';
 import * as seedRequestMail from './2026-12-03T0400-seed-request-mail';
 import * as varietyCoverPhoto from './2026-12-03T1300-variety-cover-photo';
+import * as plotHarvestTotals from './2026-12-03T2200-plot-harvest-totals';
 import * as incompleteBlocks from './2026-12-02T4500-incomplete-blocks';
 import * as trialSecondFactor from './2026-12-02T4600-trial-second-factor';
 
@@ -53,4 +54,5 @@ export const migrations: Record<string, Migration> = {
   '2026-12-02T4600-trial-second-factor': trialSecondFactor,
   '2026-12-03T0400-seed-request-mail': seedRequestMail,
   '2026-12-03T1300-variety-cover-photo': varietyCoverPhoto,
+  '2026-12-03T2200-plot-harvest-totals': plotHarvestTotals,
 };

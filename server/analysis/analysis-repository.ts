@@ -1,6 +1,5 @@
 /** Reads the records an analysis needs. Soft-deleted records (deleted_at set) never count. */
 import { sql } from 'kysely';
-import { MAX_DECIMALS } from '../../common/precision';
 import type { DB } from '../../db/database';
 import type { HarvestTotals } from './trial-plot-values';
 
@@ -52,49 +51,34 @@ export function trialEntries(db: DB, trialId: string) {
 }
 
 /**
- * Decimals a recorded mass needs, worked out by the database with the test decimalsOf uses
- * (the fewest decimals that give the value back within 1e-9 relative), so no row leaves it.
- */
-const massDecimals = sql<number>`max(case ${sql.join(
-  Array.from(
-    { length: MAX_DECIMALS },
-    (_, d) =>
-      sql`when abs(round(mass_g * ${sql.lit(10 ** d)}) / ${sql.lit(10 ** d)} - mass_g) <= 1e-9 * greatest(1, abs(mass_g)) then ${sql.lit(d)}`,
-  ),
-  sql` `,
-)} else ${sql.lit(MAX_DECIMALS)} end)`;
-
-/**
- * A trial's live harvests added up per plot by the database (GROUP BY), so an analysis reads
- * one row per plot however many pickings were logged.
+ * A trial's live harvests added up per plot. The database keeps these totals on every change to
+ * a harvest (the plot_harvest_totals triggers), so an analysis reads one row per plot however
+ * many pickings were logged. Masses are kept as exact decimals and read as float8.
  */
 export async function harvestTotals(db: DB, trialId: string): Promise<HarvestTotals> {
-  const marketable = sql`grade = 'marketable'`;
   const rows = await db
-    .selectFrom('harvests')
+    .selectFrom('plot_harvest_totals')
     .select([
       'plot_id',
-      sql<number>`sum(fruit_count)`.as('total_count'),
-      sql<number>`sum(mass_g)`.as('total_mass'),
-      sql<number>`coalesce(sum(fruit_count) filter (where ${marketable}), 0)`.as('market_count'),
-      sql<number>`coalesce(sum(mass_g) filter (where ${marketable}), 0)`.as('market_mass'),
-      sql<number>`count(distinct harvested_on)::int`.as('days'),
-      sql<string>`min(harvested_on)`.as('first'),
-      sql<string>`max(harvested_on)`.as('last'),
-      massDecimals.as('mass_decimals'),
+      'fruit_count',
+      sql<number>`mass_g::float8`.as('mass_g'),
+      'marketable_fruit_count',
+      sql<number>`marketable_mass_g::float8`.as('marketable_mass_g'),
+      'harvest_days',
+      'first_harvested_on',
+      'last_harvested_on',
+      'mass_decimals',
     ])
     .where('trial_id', '=', trialId)
-    .where('deleted_at', 'is', null)
-    .groupBy('plot_id')
     .execute();
   return {
     plots: rows.map((r) => ({
       plotId: r.plot_id,
-      marketable: { count: r.market_count, massG: r.market_mass },
-      total: { count: r.total_count, massG: r.total_mass },
-      days: r.days,
-      first: r.first,
-      last: r.last,
+      marketable: { count: r.marketable_fruit_count, massG: r.marketable_mass_g },
+      total: { count: r.fruit_count, massG: r.mass_g },
+      days: r.harvest_days,
+      first: r.first_harvested_on,
+      last: r.last_harvested_on,
     })),
     massDecimals: rows.reduce((d, r) => Math.max(d, r.mass_decimals), 0),
   };
