@@ -28,7 +28,22 @@ export interface LayoutInput {
   /** A second factor, laid out in complete blocks (rcbd or multisite). */
   factor?: { levels: readonly string[]; arrangement: FactorArrangement } | null;
   /** Entries per block (incomplete blocks) or per garden (network). */
-  blockSize?: number;
+  blockSize?: number | null;
+}
+
+/** The layout form's field a refusal is about; null when it is the trial's entries, sites or design. */
+export type LayoutField = 'replicates' | 'blockSize' | 'factorName' | 'factorLevels';
+
+export interface LayoutProblem {
+  field: LayoutField | null;
+  message: string;
+}
+
+/** A layout refused for its arguments (`problem` says which field and why). */
+export class LayoutRefused extends Error {
+  constructor(readonly problem: LayoutProblem) {
+    super(problem.message);
+  }
 }
 
 export interface PlannedPlot {
@@ -59,23 +74,68 @@ export function plotNumberOf(block: number, position: number, positionsPerBlock:
   return block * width + position;
 }
 
-export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
-  const { design, entryIds, replicates, siteIds, seed } = input;
-  if (entryIds.length < 2) throw new Error('A trial needs at least two entries to compare.');
+/**
+ * Why a layout cannot be drawn from these arguments, in the lead's words (the first reason), or
+ * null. Every check on randomizeLayout's arguments is here, so the server's refusal and the
+ * plan's own agree.
+ */
+export function layoutProblem(input: Omit<LayoutInput, 'seed'>): LayoutProblem | null {
+  const { design, entryIds, replicates, siteIds } = input;
+  const v = entryIds.length;
+  const problem = (field: LayoutField | null, message: string) => ({ field, message });
+  if (v < 2) return problem(null, 'Add at least two entries before laying out plots.');
   if (design !== 'network' && (!Number.isInteger(replicates) || replicates < 1))
-    throw new Error('Replicates must be a whole number of 1 or more.');
-  if (siteIds.length < 1) throw new Error('Add a site before laying out plots.');
-  if (design !== 'multisite' && design !== 'network' && siteIds.length > 1) {
-    throw new Error('Only the several-sites designs lay out plots at more than one site.');
+    return problem('replicates', 'Replicates must be a whole number of 1 or more.');
+  if (siteIds.length < 1) return problem(null, 'Add a site before laying out plots.');
+  if (design !== 'multisite' && design !== 'network' && siteIds.length > 1)
+    return problem(
+      null,
+      `This design lays out one site, but the trial has ${siteIds.length}. Choose “Blocks at several sites” in the settings, or remove the extra sites.`,
+    );
+  if (design === 'incomplete' || design === 'network') {
+    const what = design === 'network' ? 'each garden grows' : 'each block holds';
+    const k = input.blockSize;
+    if (k == null) return problem('blockSize', `Give how many entries ${what}.`);
+    if (!Number.isInteger(k) || k < 2 || k >= v)
+      return problem(
+        'blockSize',
+        `With ${v} entries, ${what} from 2 to ${v - 1} of them${k >= v ? ` (all ${v} would be complete blocks)` : ''}.`,
+      );
+    const perReplicate = gardensPerReplicate(v, k);
+    if (design === 'network') {
+      if (siteIds.length < 2 * perReplicate)
+        return problem(
+          null,
+          `With ${v} entries and ${k} to a garden, ${perReplicate} gardens grow every entry once: add gardens as sites until there are at least ${2 * perReplicate} (the trial has ${siteIds.length}), so each entry is grown in two or more.`,
+        );
+    } else if (!Number.isInteger(replicates) || replicates < 2)
+      return problem('replicates', 'Incomplete blocks need at least 2 replicates.');
+    else if (replicates * perReplicate > MAX_BLOCKS)
+      return problem(
+        'replicates',
+        `${replicates} replicates of ${perReplicate} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
+      );
   }
   const factor = input.factor ?? null;
   if (factor) {
     if (design === 'crd' || design === 'incomplete' || design === 'network')
-      throw new Error('A second factor is laid out in complete blocks: choose a block design.');
-    if (factor.levels.length < 2) throw new Error('A treatment needs at least two levels.');
+      return problem(
+        'factorName',
+        'A second factor is laid out in complete blocks: choose randomized complete blocks (or blocks at several sites) in the settings first.',
+      );
+    if (factor.levels.length < 2)
+      return problem('factorLevels', 'A treatment needs at least two levels.');
     if (new Set(factor.levels).size !== factor.levels.length)
-      throw new Error('Each treatment level needs its own name.');
+      return problem('factorLevels', 'Each treatment level needs its own name.');
   }
+  return null;
+}
+
+export function randomizeLayout(input: LayoutInput): PlannedPlot[] {
+  const { design, entryIds, replicates, siteIds, seed } = input;
+  const problem = layoutProblem(input);
+  if (problem) throw new LayoutRefused(problem);
+  const factor = input.factor ?? null;
   const random = createRandom(seed);
   if (design === 'incomplete' || design === 'network') return incompleteLayout(input, random);
   const plots: PlannedPlot[] = [];
@@ -160,18 +220,13 @@ function twoFactorBlocks(
 function incompleteLayout(input: LayoutInput, random: ReturnType<typeof createRandom>) {
   const { design, entryIds, replicates, siteIds } = input;
   const v = entryIds.length;
-  const k = input.blockSize ?? 0;
-  if (!Number.isInteger(k) || k < 2 || k >= v)
-    throw new Error(`Each block holds from 2 to ${v - 1} of the ${v} entries.`);
+  // layoutProblem has checked the block size, the gardens and the replicates.
+  const k = input.blockSize!;
   const perReplicate = gardensPerReplicate(v, k);
   const plots: PlannedPlot[] = [];
   if (design === 'network') {
     // Each garden is one block; every full set of gardens grows every entry once.
     const full = Math.floor(siteIds.length / perReplicate);
-    if (full < 2)
-      throw new Error(
-        `With ${v} entries and ${k} to a garden, ${perReplicate} gardens grow every entry once: add at least ${2 * perReplicate} gardens so each entry is grown in two or more.`,
-      );
     const plan = planIncompleteBlocks(v, k, full, random, siteIds.length % perReplicate);
     const gardens = random.shuffle(siteIds);
     let g = 0;
@@ -194,13 +249,6 @@ function incompleteLayout(input: LayoutInput, random: ReturnType<typeof createRa
     );
     return plots;
   }
-  if (siteIds.length !== 1) throw new Error('Incomplete blocks are laid out at one site.');
-  if (!Number.isInteger(replicates) || replicates < 2)
-    throw new Error('Incomplete blocks need at least 2 replicates.');
-  if (replicates * perReplicate > MAX_BLOCKS)
-    throw new Error(
-      `${replicates} replicates of ${perReplicate} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
-    );
   const plan = planIncompleteBlocks(v, k, replicates, random);
   plan.replicates.forEach((blocks, rep) =>
     blocks.forEach((entries, b) => {

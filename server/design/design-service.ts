@@ -24,7 +24,7 @@ import {
   type updateTrialBody,
 } from '../../common/contracts/design';
 import { describePlan } from '../../common/incomplete-blocks';
-import { gardensPerReplicate, MAX_BLOCKS, randomizeLayout } from '../../common/layout';
+import { gardensPerReplicate, layoutProblem, randomizeLayout } from '../../common/layout';
 import { plantsPerPlot } from '../../common/planting';
 import { isIncompleteDesign } from '../../common/contracts/trials';
 import type { DB } from '../../db/database';
@@ -775,68 +775,38 @@ async function layOutPlots(
     repo.listEntries(trx, trialId),
     repo.listSites(trx, trialId),
   ]);
-  if (entries.length < 2)
-    throw new AppError('unprocessable', 'Add at least two entries before laying out plots.');
-  if (sites.length < 1) throw new AppError('unprocessable', 'Add a site before laying out plots.');
-  if (trial.design !== 'multisite' && trial.design !== 'network' && sites.length > 1)
-    throw new AppError(
-      'unprocessable',
-      `This design lays out one site, but the trial has ${sites.length}. Choose “Blocks at several sites” in the settings, or remove the extra sites.`,
-    );
   const incomplete = isIncompleteDesign(trial.design);
-  if (incomplete) {
-    const what = trial.design === 'network' ? 'each garden grows' : 'each block holds';
-    if (b.blockSize == null) throw fieldError('body.blockSize', `Give how many entries ${what}.`);
-    if (b.blockSize >= entries.length)
-      throw fieldError(
-        'body.blockSize',
-        `With ${entries.length} entries, ${what} from 2 to ${entries.length - 1} of them (all ${entries.length} would be complete blocks).`,
-      );
-    const perReplicate = gardensPerReplicate(entries.length, b.blockSize);
-    if (trial.design === 'network') {
-      if (sites.length < 2 * perReplicate)
-        throw new AppError(
-          'unprocessable',
-          `With ${entries.length} entries and ${b.blockSize} to a garden, ${perReplicate} gardens grow every entry once: add gardens as sites until there are at least ${2 * perReplicate} (the trial has ${sites.length}), so each entry is grown in two or more.`,
-        );
-    } else if (b.replicates < 2)
-      throw fieldError('body.replicates', 'Incomplete blocks need at least 2 replicates.');
-    else if (b.replicates * perReplicate > MAX_BLOCKS)
-      throw fieldError(
-        'body.replicates',
-        `${b.replicates} replicates of ${perReplicate} blocks make more than ${MAX_BLOCKS} blocks: use fewer replicates or larger blocks.`,
-      );
-  }
+  const factor =
+    b.factorLevels.length > 0
+      ? { name: b.factorName, levels: b.factorLevels, arrangement: b.factorArrangement }
+      : null;
+  const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
+  const plan = {
+    factor,
+    design: trial.design,
+    // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
+    entryIds: entries.map((e) => e.id),
+    replicates: b.replicates,
+    siteIds: sites.map((s) => s.id),
+    seed,
+    ...(incomplete ? { blockSize: b.blockSize } : {}),
+  };
+  const problem = layoutProblem(plan);
+  if (problem)
+    throw problem.field
+      ? fieldError(`body.${problem.field}`, problem.message)
+      : new AppError('unprocessable', problem.message);
   const unspaced = entries.filter((e) => e.in_row_spacing_mm == null).map((e) => e.code);
   if (unspaced.length > 0 && b.inRowSpacingMm == null)
     throw fieldError(
       'body.inRowSpacingMm',
       `Give an in-row spacing for the entries without their own (${unspaced.join(', ')}).`,
     );
-  const factor =
-    b.factorLevels.length > 0
-      ? { name: b.factorName, levels: b.factorLevels, arrangement: b.factorArrangement }
-      : null;
-  if (factor && (trial.design === 'crd' || isIncompleteDesign(trial.design)))
-    throw fieldError(
-      'body.factorName',
-      'A second factor is laid out in complete blocks: choose randomized complete blocks (or blocks at several sites) in the settings first.',
-    );
-  const seed = b.seed ?? crypto.randomInt(0, MAX_LAYOUT_SEED + 1);
   let planned;
   try {
-    planned = randomizeLayout({
-      factor,
-      design: trial.design,
-      // Sorted by code and name, so the same seed gives the same plan in any copy of the trial.
-      entryIds: entries.map((e) => e.id),
-      replicates: b.replicates,
-      siteIds: sites.map((s) => s.id),
-      seed,
-      ...(incomplete ? { blockSize: b.blockSize! } : {}),
-    });
+    planned = randomizeLayout(plan);
   } catch (err) {
-    // The checks above name the field; anything the plan itself refuses is said as it is.
+    // Anything the plan itself refuses beyond the checks above is said as it is.
     throw new AppError('unprocessable', (err as Error).message);
   }
   // A network's replicates follow from its gardens: store the full ones.

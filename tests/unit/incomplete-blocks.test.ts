@@ -211,7 +211,7 @@ describe('incomplete-block layouts', () => {
     const base = { entryIds: ids(12), replicates: 2, blockSize: 4, seed: 1 };
     expect(() =>
       randomizeLayout({ ...base, design: 'network', siteIds: ['a', 'b', 'c', 'd', 'e'] }),
-    ).toThrow(/add at least 6 gardens/);
+    ).toThrow(/at least 6 \(the trial has 5\)/);
     expect(() => randomizeLayout({ ...base, design: 'incomplete', siteIds: ['a', 'b'] })).toThrow(
       /one site/,
     );

@@ -1,6 +1,13 @@
 import jStatDefault from 'jstat';
 import { describe, expect, it } from 'vitest';
-import { fitToPage, mapGeometry, paperSizes, randomizeLayout } from '../../common/layout';
+import {
+  fitToPage,
+  layoutProblem,
+  LayoutRefused,
+  mapGeometry,
+  paperSizes,
+  randomizeLayout,
+} from '../../common/layout';
 import { MM_PER_INCH } from '../../common/units';
 
 // The package ships no types for this part; the shape is jStat's documented chisquare API.
@@ -102,11 +109,41 @@ describe('completely randomized', () => {
   it('refuses designs it cannot lay out', () => {
     const base = { entryIds: entries, replicates: 2, seed: 1 };
     expect(() => randomizeLayout({ ...base, design: 'rcbd', siteIds: ['a', 'b'] })).toThrow(
-      /several-sites/,
+      /lays out one site/,
     );
     expect(() =>
       randomizeLayout({ ...base, design: 'rcbd', siteIds: ['a'], entryIds: ['x'] }),
     ).toThrow(/two entries/);
+  });
+
+  // The product's own rules (no outside source): one check of the layout's arguments names the
+  // field of the layout form the lead can change, or none when the trial itself must change.
+  it('names the form field a refusal is about', () => {
+    const base = { entryIds: entries, replicates: 2, siteIds: ['a'] };
+    expect(layoutProblem({ ...base, design: 'rcbd' })).toBeNull();
+    expect(layoutProblem({ ...base, design: 'rcbd', siteIds: ['a', 'b'] })?.field).toBeNull();
+    expect(layoutProblem({ ...base, design: 'incomplete' })).toEqual({
+      field: 'blockSize',
+      message: 'Give how many entries each block holds.',
+    });
+    expect(layoutProblem({ ...base, design: 'incomplete', blockSize: 5 })).toEqual({
+      field: 'blockSize',
+      message:
+        'With 5 entries, each block holds from 2 to 4 of them (all 5 would be complete blocks).',
+    });
+    expect(
+      layoutProblem({ ...base, design: 'incomplete', blockSize: 2, replicates: 1 })?.field,
+    ).toBe('replicates');
+    expect(
+      layoutProblem({
+        ...base,
+        design: 'crd',
+        factor: { levels: ['none', 'mulch'], arrangement: 'factorial' },
+      })?.field,
+    ).toBe('factorName');
+    expect(() => randomizeLayout({ ...base, design: 'incomplete', seed: 1 })).toThrow(
+      LayoutRefused,
+    );
   });
 });
 
