@@ -43,14 +43,21 @@ export function rankMeans<T extends { mean: number; adjustedMean?: number }>(
   direction: TraitDirection,
 ): (Omit<T, 'rank'> & { rank: number | null })[] {
   // Where the layout was unbalanced the adjusted (least-squares) mean is the one ranked.
-  const rankedOn = (m: T) => m.adjustedMean ?? m.mean;
-  const ranks = rankByDirection(means.map(rankedOn), direction);
+  const rankedOn = means.map((m) => m.adjustedMean ?? m.mean);
+  const ranks = rankByDirection(rankedOn, direction);
   const sign = directionSign(direction) || 1;
   return means
-    .map((m, i) => ({ ...m, rank: ranks[i]! }))
-    .map((m, i) => ({ m, i }))
-    .sort((a, b) => sign * (rankedOn(b.m) - rankedOn(a.m)) || a.i - b.i)
-    .map(({ m }) => m);
+    .map((_, i) => i)
+    .sort((a, b) => sign * (rankedOn[b]! - rankedOn[a]!) || a - b)
+    .map((i) => {
+      // A copy, then the rank set on it: the same object as `{ ...m, rank }`, which V8 makes
+      // far more slowly (an object spread followed by a new key).
+      const ranked = Object.assign({}, means[i]!) as unknown as Omit<T, 'rank'> & {
+        rank: number | null;
+      };
+      ranked.rank = ranks[i]!;
+      return ranked;
+    });
 }
 
 /** How a reader is told which end is better. */

@@ -320,8 +320,9 @@ export function analyzePlotRows(
   // One pass over the rows: check them, read values as exact decimal text, and code the
   // factors as integers in order of first appearance (rows sharing (site, plot) are
   // sub-samples of one plot, so a plot's factors are those of its first row).
+  // Per value and per plot, in typed arrays sized for the rows (at most one plot per row).
   const texts: string[] = [];
-  const plotOfValue: number[] = [];
+  const plotOfValue = new Int32Array(rows.length);
   const missingRows: number[] = [];
   const entry = new Coder();
   const site = new Coder();
@@ -329,12 +330,13 @@ export function analyzePlotRows(
   // Per site: block label → global block code, plot label → plot index.
   const blocksAt: Map<string, number>[] = [];
   const plotsAt: Map<string, number>[] = [];
-  const plotEntry: number[] = [];
-  const plotSite: number[] = [];
-  const plotBlock: number[] = [];
+  const plotEntry = new Int32Array(rows.length);
+  const plotSite = new Int32Array(rows.length);
+  const plotBlock = new Int32Array(rows.length);
   const plotBlockLabel: (string | null)[] = [];
-  const plotFirstRow: number[] = [];
-  const plotRows: number[] = [];
+  const plotFirstRow = new Float64Array(rows.length);
+  const plotRows = new Int32Array(rows.length);
+  let plotCount = 0;
   for (let i = 0; i < rows.length; i++) {
     const r = rows[i]!;
     const rowNo = r.row ?? i + 1;
@@ -370,14 +372,14 @@ export function analyzePlotRows(
         );
       }
       plotRows[existing]!++;
+      plotOfValue[texts.length] = existing;
       texts.push(text);
-      plotOfValue.push(existing);
       continue;
     }
-    const p = plotEntry.length;
+    const p = plotCount++;
     if (plot !== null) plotsHere.set(plot, p);
-    plotEntry.push(entry.code(variety));
-    plotSite.push(s);
+    plotEntry[p] = entry.code(variety);
+    plotSite[p] = s;
     const blocksHere = (blocksAt[s] ??= new Map());
     const blockKey = blockLabel ?? '';
     let b = blocksHere.get(blockKey);
@@ -385,16 +387,15 @@ export function analyzePlotRows(
       b = block.code(`${siteLabel ?? ''}\u0000${blockKey}`);
       blocksHere.set(blockKey, b);
     }
-    plotBlock.push(b);
-    plotBlockLabel.push(blockLabel);
-    plotFirstRow.push(rowNo);
-    plotRows.push(1);
+    plotBlock[p] = b;
+    if (hasPlot) plotBlockLabel[p] = blockLabel;
+    plotFirstRow[p] = rowNo;
+    plotRows[p] = 1;
+    plotOfValue[texts.length] = p;
     texts.push(text);
-    plotOfValue.push(p);
   }
   if (missingRows.length > 0) warnings.push(leftOutWarning(missingRows));
   if (texts.length === 0) throw new AnalysisInputError(`column "${trait}": no values`);
-  const plotCount = plotEntry.length;
   let subSampled = 0;
   for (let p = 0; p < plotCount; p++) if (plotRows[p]! > 1) subSampled++;
   if (subSampled > 0) {
@@ -408,9 +409,9 @@ export function analyzePlotRows(
   const y = new Float64Array(plotCount);
   for (let j = 0; j < texts.length; j++) y[plotOfValue[j]!]! += centred.deviations[j]!;
   if (subSampled > 0) for (let p = 0; p < plotCount; p++) y[p] = y[p]! / plotRows[p]!;
-  entry.codes = Int32Array.from(plotEntry);
-  site.codes = Int32Array.from(plotSite);
-  block.codes = Int32Array.from(plotBlock);
+  entry.codes = plotEntry.slice(0, plotCount);
+  site.codes = plotSite.slice(0, plotCount);
+  block.codes = plotBlock.slice(0, plotCount);
 
   if (limits.maxEntries !== undefined && entry.levels.length > limits.maxEntries)
     throw new AnalysisLimitError('entries', limits.maxEntries, entry.levels.length);
@@ -447,10 +448,19 @@ export function analyzePlotRows(
   // Missing plots: block × variety cells with no plot.
   let missingPlots = 0;
   if (design !== 'crd') {
-    const seen = new Set<number>();
-    for (let i = 0; i < y.length; i++)
-      seen.add(block.codes[i]! * entry.levels.length + entry.codes[i]!);
-    missingPlots = block.levels.length * entry.levels.length - seen.size;
+    const cells = block.levels.length * entry.levels.length;
+    // One flag per cell while that stays small; a set of the cells met otherwise.
+    const seen = cells <= 1 << 24 ? new Uint8Array(cells) : null;
+    const met = seen ? null : new Set<number>();
+    let filled = 0;
+    for (let i = 0; i < y.length; i++) {
+      const cell = block.codes[i]! * entry.levels.length + entry.codes[i]!;
+      if (seen) {
+        filled += 1 - seen[cell]!;
+        seen[cell] = 1;
+      } else met!.add(cell);
+    }
+    missingPlots = cells - (met ? met.size : filled);
   }
   const orthogonal = isOrthogonal(design, layout);
 
@@ -596,10 +606,16 @@ export function analyzePlotRows(
   }
   for (const w of sep.warnings) if (!w.startsWith('unequal replication')) warnings.push(w);
 
-  const indexOf = new Map(entry.levels.map((n, i) => [n, i]));
   const lettersFrom = options.letters ?? 'hsd';
-  const unranked = sep.ranked.map((r) => {
-    const d = descs[indexOf.get(r.entry)!]!;
+  // Ranks in the trait's direction, by the adjusted means (equal to the arithmetic ones when
+  // balanced); each entry's line is made once, in rank order.
+  const adjustedMean = Array.from(adjusted.mean, (m) => addOffset(centred.offset, m));
+  const ranked = rankMeans(
+    sep.ranked.map((r) => ({ r, mean: adjustedMean[r.index]! })),
+    options.direction ?? 'higher',
+  );
+  const means: EntrySummary[] = ranked.map(({ r, rank }) => {
+    const d = descs[r.index]!;
     const mean = addOffset(centred.offset, d.mean);
     return {
       variety: r.entry,
@@ -613,17 +629,9 @@ export function analyzePlotRows(
       group: lettersFrom === 'lsd' ? r.lsdGroup : r.hsdGroup,
       groupLsd: r.lsdGroup,
       groupHsd: r.hsdGroup,
+      rank,
     };
   });
-  // Ranks in the trait's direction, by the adjusted means (equal to the arithmetic ones when
-  // balanced).
-  // Each adjusted mean is needed twice (ranks, the listing): offset added once per entry.
-  const adjustedMean = Array.from(adjusted.mean, (m) => addOffset(centred.offset, m));
-  const adjustedOf = (variety: string) => adjustedMean[indexOf.get(variety)!]!;
-  const means: EntrySummary[] = rankMeans(
-    unranked.map((row) => ({ row, mean: adjustedOf(row.variety) })),
-    options.direction ?? 'higher',
-  ).map(({ row, rank }) => ({ ...row, rank }));
 
   const grandMean = addOffset(centred.offset, accurateMean(y));
   const result: AnalysisResult = {
@@ -648,10 +656,10 @@ export function analyzePlotRows(
     },
     method: av.method,
     model,
-    adjustedMeans: means.map((m) => ({
-      variety: m.variety,
-      mean: adjustedOf(m.variety),
-      se: adjusted.se[indexOf.get(m.variety)!]!,
+    adjustedMeans: ranked.map(({ r }) => ({
+      variety: r.entry,
+      mean: adjustedMean[r.index]!,
+      se: adjusted.se[r.index]!,
     })),
     counts: {
       entries: entry.levels.length,
@@ -680,12 +688,18 @@ export function analyzePlotRows(
   };
   if (sep.pairs) {
     const k = entry.levels.length;
+    const indexOf = new Map(entry.levels.map((n, i) => [n, i]));
     result.pairs = sep.pairs.map((pair) => {
       const t = pair.se > 0 ? pair.difference / pair.se : pair.difference === 0 ? 0 : Infinity;
       // Mixed model: each difference on its own Satterthwaite df, as emmeans gives.
       const pairDf = mixed ? mixed.pairDf(indexOf.get(pair.a)!, indexOf.get(pair.b)!) : av.error.df;
       return {
-        ...pair,
+        a: pair.a,
+        b: pair.b,
+        difference: pair.difference,
+        se: pair.se,
+        lsdSeparated: pair.lsdSeparated,
+        hsdSeparated: pair.hsdSeparated,
         t,
         p: studentTTwoSided(t, pairDf),
         pTukey: Math.min(1, studentizedRangeUpperTail(Math.abs(t) * Math.SQRT2, k, separationDf)),
@@ -756,14 +770,29 @@ function plainCsvRecords(csvText: string): string[][] | null {
   const crs = text.split('\r').length - 1;
   if (crs > 0 && (text.split('\r\n').length - 1 !== crs || text.split('\n').length - 1 !== crs))
     return null;
+  const eol = crs > 0 ? '\r\n' : '\n';
   const records: string[][] = [];
   let width = -1;
-  for (const line of text.split(crs > 0 ? '\r\n' : '\n')) {
-    if (line === '') continue;
-    const fields = line.split(',');
-    if (width < 0) width = fields.length;
-    else if (fields.length !== width) return null;
-    records.push(fields);
+  // Cut at the positions of line ends and commas (faster than splitting each line apart).
+  for (let start = 0; start < text.length;) {
+    let end = text.indexOf(eol, start);
+    if (end < 0) end = text.length;
+    if (end > start) {
+      const fields: string[] = [];
+      for (let from = start; ;) {
+        const comma = text.indexOf(',', from);
+        if (comma < 0 || comma >= end) {
+          fields.push(text.slice(from, end));
+          break;
+        }
+        fields.push(text.slice(from, comma));
+        from = comma + 1;
+      }
+      if (width < 0) width = fields.length;
+      else if (fields.length !== width) return null;
+      records.push(fields);
+    }
+    start = end + eol.length;
   }
   return records;
 }

@@ -138,6 +138,69 @@ export function compactLettersWithin(
   return out;
 }
 
+/**
+ * The same letters as compactLettersWithin(order, separated, workLimit) when the test is one
+ * critical difference: separated(i, j) ⇔ |means[i] − means[j]| > critical (equal replication).
+ * Along means sorted from the highest, the entries an entry is separated from further down are
+ * then a tail of the order that starts no earlier than the previous entry's, so one sweep finds
+ * every group (each a run of the order: the maximal sets with no separated pair) and the work
+ * insert-and-absorb would have counted, so the display is given up at the very same point.
+ * Falls back to insert-and-absorb when `order` does not sort the means from the highest or a
+ * mean is not finite.
+ */
+export function compactLettersByDifference(
+  order: readonly number[],
+  means: ArrayLike<number>,
+  critical: number,
+  workLimit: number = LETTER_WORK_LIMIT,
+): string[] | null {
+  const k = order.length;
+  const separated = (i: number, j: number) => Math.abs(means[i]! - means[j]!) > critical;
+  for (let p = 0; p < k; p++) {
+    const here = means[order[p]!]!;
+    if (!Number.isFinite(here) || (p > 0 && !(means[order[p - 1]!]! >= here)))
+      return compactLettersWithin(order, separated, workLimit);
+  }
+  const words32 = Math.ceil(k / 32) || 1;
+  // Insert-and-absorb tests every pair once.
+  let work = (k * (k - 1)) / 2;
+  if (work > workLimit) return null;
+  // Entry p (a position in `order`) is separated from positions firstApart[p] … k − 1. Before
+  // entry p is taken the groups are the runs [a, firstApart[a] − 1] of the entries a < p that
+  // start a new tail, and [p, k − 1]: only that last one splits, into [p + 1, k − 1] and
+  // [p, firstApart[p] − 1], the latter absorbed when entry p − 1 has the same tail.
+  const starts: number[] = [];
+  const ends: number[] = [];
+  let groups = 1;
+  let q = 1;
+  let last = k;
+  for (let p = 0; p < k; p++) {
+    if (q <= p) q = p + 1;
+    while (q < k && !separated(order[p]!, order[q]!)) q++;
+    if (q === k) {
+      // No entry from here on is separated from any further down: the rest is one group.
+      starts.push(p);
+      ends.push(k - 1);
+      break;
+    }
+    // One scan over the groups to split, then the two new ones checked against all kept.
+    work += groups * words32 + 2 * (groups + 1) * words32;
+    if (work > workLimit) return null;
+    if (q !== last) {
+      starts.push(p);
+      ends.push(q - 1);
+      groups++;
+    }
+    last = q;
+  }
+  const out: string[] = new Array<string>(k).fill('');
+  for (let g = 0; g < starts.length; g++) {
+    const letter = letterName(g);
+    for (let p = starts[g]!; p <= ends[g]!; p++) out[order[p]!] += letter;
+  }
+  return out;
+}
+
 /** Entries per storage word of a group's bit set (below 31, so words stay small integers). */
 const BITS = 30;
 

@@ -9,7 +9,7 @@
  * single values are null.
  */
 import { studentTQuantile, studentizedRangeQuantile } from './distributions.js';
-import { compactLettersWithin, LETTER_WORK_LIMIT } from './letters.js';
+import { compactLettersByDifference, compactLettersWithin, LETTER_WORK_LIMIT } from './letters.js';
 import { rankDescending } from '../../../common/ranking';
 
 export type SeparationMethod = 'lsd' | 'hsd';
@@ -47,6 +47,8 @@ export interface MeanSeparation {
   lettersOmitted: string | null;
   /** Entries with rank (1 = highest mean) and letters for both tests, highest mean first. */
   ranked: {
+    /** Position of this entry in the `means` given. */
+    index: number;
     entry: string;
     mean: number;
     n: number;
@@ -151,8 +153,14 @@ export function separateMeans(
 
   const order = means.map((_, i) => i).sort((x, y) => means[y]!.mean - means[x]!.mean);
   const workLimit = options.letterWorkLimit ?? LETTER_WORK_LIMIT;
-  const lsdLetters = compactLettersWithin(order, lsdSeparated, workLimit);
-  const hsdLetters = lsdLetters && compactLettersWithin(order, hsdSeparated, workLimit);
+  // Equal replication: each test is one critical difference, and a sweep down the sorted
+  // means gives the letters (the same as insert-and-absorb, in time linear in the entries).
+  const letters = (separated: typeof lsdSeparated, critical: number) =>
+    equal
+      ? compactLettersByDifference(order, m, critical, workLimit)
+      : compactLettersWithin(order, separated, workLimit);
+  const lsdLetters = letters(lsdSeparated, lsdAt);
+  const hsdLetters = lsdLetters && letters(hsdSeparated, hsdAt);
   const lettersOmitted =
     lsdLetters && hsdLetters
       ? null
@@ -160,6 +168,7 @@ export function separateMeans(
   if (lettersOmitted) warnings.push(lettersOmitted);
   const ranks = rankDescending(means.map((m) => m.mean));
   const ranked = order.map((i) => ({
+    index: i,
     entry: means[i]!.entry,
     mean: means[i]!.mean,
     n: means[i]!.n,
