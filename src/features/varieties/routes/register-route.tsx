@@ -20,7 +20,8 @@ const columns = [
         {c.row.original.cover ? (
           <img
             src={c.row.original.cover.thumbUrl}
-            alt={`${c.getValue()}, cover photo`}
+            // Beside the variety's name: read out, the name would be heard twice.
+            alt=""
             className="size-10 shrink-0 rounded object-cover"
             loading="lazy"
           />

@@ -104,12 +104,14 @@ function About({ record, onEdit }: { record: VarietyRecord; onEdit?: () => void 
   // The group's people keep and share its seed; the seed page is theirs.
   const { data: groups } = useGroups(Boolean(me));
   const inGroup = groups?.groups.some((g) => g.id === v.group.id) ?? false;
+  // The cover is one of the photos this page shows, each with the caption its uploader wrote.
+  const coverCaption = v.cover ? record.photos.find((p) => p.id === v.cover!.id)?.caption : '';
   return (
     <>
       {v.cover ? (
         <img
           src={v.cover.displayUrl}
-          alt={`${v.name}, cover photo`}
+          alt={coverCaption || `${v.name}, cover photo`}
           className="mb-3 max-h-80 w-full rounded-lg object-cover"
         />
       ) : null}
