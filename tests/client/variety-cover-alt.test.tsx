@@ -31,7 +31,12 @@ beforeEach(() =>
 );
 afterEach(() => vi.unstubAllGlobals());
 
-function show(path: string, route: string, page: React.ReactNode, answers: [unknown[], unknown][]) {
+function show(
+  path: string,
+  route: string,
+  page: React.ReactNode,
+  answers: [readonly unknown[], unknown][],
+) {
   const client = new QueryClient({
     defaultOptions: { queries: { retry: false, staleTime: Infinity } },
   });
