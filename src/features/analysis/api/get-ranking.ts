@@ -7,7 +7,8 @@ export interface RankingParams {
   traits: string[];
   weights: number[];
   alpha: number;
-  model: AnalysisModel;
+  /** Left out, each trait's means come from the model the analysis API chooses for it. */
+  model?: AnalysisModel;
 }
 
 export const getRanking = (slug: string, q: RankingParams) =>

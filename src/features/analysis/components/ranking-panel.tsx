@@ -23,8 +23,11 @@ export function RankingPanel({
 }: {
   trial: TrialWithPermissions;
   alpha: number;
-  /** The page's model, so the ranking uses the means the tables above show. */
-  model: AnalysisModel;
+  /**
+   * The page's model, so the ranking uses the means the tables above show; left out where the
+   * model is the analysis API's choice per trait (a split plot: mixed for a trait that lost plots).
+   */
+  model?: AnalysisModel;
 }) {
   const id = useId();
   const ranked = trial.traits.filter((t) => t.direction !== 'none');
@@ -45,7 +48,7 @@ export function RankingPanel({
     traits: chosen.map((t) => t.key),
     weights: chosen.map((t) => Number(settled[t.key])),
     alpha,
-    model,
+    ...(model ? { model } : {}),
   };
   const { data, error, isFetching } = useRanking(trial.slug, query);
   if (ranked.length === 0) return null;

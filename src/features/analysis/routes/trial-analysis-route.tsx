@@ -316,10 +316,9 @@ export function Component() {
         </section>
       ) : null}
 
-      {/* A split plot left to the server: rank under the model its analysis answered with. */}
-      {splitPlot && !chosenModel && !analysis.data ? null : (
-        <RankingPanel trial={t} alpha={alpha} model={model} />
-      )}
+      {/* A split plot with no model chosen: each trait ranked under the model the server
+          chooses for it, not under the one the trait shown above happened to get. */}
+      <RankingPanel trial={t} alpha={alpha} model={splitPlot && !chosenModel ? undefined : model} />
       <SeasonPanel
         slug={slug}
         system={system}

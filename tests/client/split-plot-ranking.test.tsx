@@ -1,0 +1,137 @@
+/**
+ * The ranking across traits on a split plot's analysis page: with no model chosen, each trait's
+ * means come from the model the analysis API chooses for that trait (the split-plot analysis, or
+ * the mixed model for a trait that lost plots), so the ranking request names no model, whatever
+ * model the trait shown above was answered with. A model the lead chooses applies to every trait.
+ * The analysis shown is the engine's own mixed-model result on
+ * fixtures/analysis/multisite-missing.csv (the file the R reference checks use).
+ */
+import { readFileSync } from 'node:fs';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { render, screen, waitFor } from '@testing-library/react';
+import { MemoryRouter, Route, Routes } from 'react-router-dom';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { trialActions } from '../../common/policy';
+import { analyzeCsv } from '../../server/analysis/engine/analyze';
+import { Component as TrialAnalysis } from '../../src/features/analysis/routes/trial-analysis-route';
+
+const csv = readFileSync('fixtures/analysis/multisite-missing.csv', 'utf8');
+const uuid = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
+
+const trait = (n: number, key: string, label: string) => ({
+  id: uuid(n),
+  key,
+  label,
+  quantityKind: 'mass',
+  basis: 'plot',
+  direction: 'higher',
+  scaleMin: null,
+  scaleMax: null,
+  displayUnit: null,
+  plausibleMin: null,
+  plausibleMax: null,
+});
+
+const splitPlotTrial = {
+  id: uuid(1),
+  slug: 'wend-hollow-okra',
+  title: 'Wend Hollow okra under two mulches',
+  crop: 'Okra',
+  season: '2026',
+  design: 'rcbd',
+  status: 'active',
+  siteCount: 1,
+  entryCount: 3,
+  plotCount: 18,
+  myRole: 'lead',
+  description: '',
+  sowingDate: null,
+  transplantDate: null,
+  sites: [],
+  entries: [],
+  traits: [trait(2, 'pod_yield', 'Pod yield'), trait(3, 'pod_count', 'Pod count')],
+  harvestCount: 0,
+  observationCount: 0,
+  mySiteIds: null,
+  factor: { name: 'Mulch', levels: ['straw', 'bare'], arrangement: 'split_plot' },
+  permissions: Object.fromEntries(trialActions.map((a) => [a, a === 'trial.read'])),
+};
+
+/** The shown trait lost plots: the API answered it with the mixed model. */
+const mixedAnswer = JSON.parse(
+  JSON.stringify({
+    ...analyzeCsv(csv, { model: 'mixed' }),
+    traitKey: 'pod_yield',
+    traitLabel: 'Pod yield',
+    quantityKind: 'mass',
+    direction: 'higher',
+    basis: 'plot',
+    unit: 'g',
+    decimals: { plotValue: 0, mean: 1 },
+    valueNote: 'sum of the plot’s harvests',
+    plotValues: [],
+    entryCodes: {},
+  }),
+);
+
+const json = (body: unknown, status = 200) =>
+  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+
+afterEach(() => vi.unstubAllGlobals());
+
+/** The page at `address`; returns the ranking requests and the analysis requests it made. */
+function renderPage(address: string) {
+  const ranking: URL[] = [];
+  const analysis: URL[] = [];
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async (input: string) => {
+      const url = new URL(input, 'http://127.0.0.1');
+      if (url.pathname === '/api/trials/wend-hollow-okra') return json(splitPlotTrial);
+      if (url.pathname.endsWith('/analysis')) {
+        analysis.push(url);
+        return json(mixedAnswer);
+      }
+      if (url.pathname.endsWith('/ranking')) ranking.push(url);
+      // The ranking's figures, the season and the session are not what this test is about.
+      return json({ error: { code: 'not_found', message: 'Not here.' } }, 404);
+    }),
+  );
+  render(
+    <QueryClientProvider
+      client={new QueryClient({ defaultOptions: { queries: { retry: false } } })}
+    >
+      <MemoryRouter initialEntries={[address]}>
+        <Routes>
+          <Route path="/t/:slug/analysis" element={<TrialAnalysis />} />
+        </Routes>
+      </MemoryRouter>
+    </QueryClientProvider>,
+  );
+  return { ranking, analysis };
+}
+
+describe('the ranking panel of a split plot', () => {
+  it('with no model chosen, leaves each trait’s model to the API, not the shown trait’s', async () => {
+    const asked = renderPage('/t/wend-hollow-okra/analysis');
+    await screen.findByRole('heading', { name: 'Ranking across traits' });
+    await waitFor(() => expect(asked.analysis.length).toBeGreaterThan(0));
+    // The shown trait came back under the mixed model…
+    await screen.findByRole('table', { name: /Variance components/ });
+    await waitFor(() => expect(asked.ranking.length).toBeGreaterThan(0));
+    // …and no ranking request, before or after it, named a model.
+    expect(asked.ranking.map((u) => u.searchParams.get('model'))).toEqual(
+      asked.ranking.map(() => null),
+    );
+    expect(asked.ranking.at(-1)!.searchParams.get('traits')).toBe('pod_yield,pod_count');
+  });
+
+  it('a model the lead chose applies to every trait', async () => {
+    const asked = renderPage('/t/wend-hollow-okra/analysis?model=anova');
+    await screen.findByRole('heading', { name: 'Ranking across traits' });
+    await waitFor(() => expect(asked.ranking.length).toBeGreaterThan(0));
+    expect(new Set(asked.ranking.map((u) => u.searchParams.get('model')))).toEqual(
+      new Set(['anova']),
+    );
+  });
+});
