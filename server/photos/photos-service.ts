@@ -16,7 +16,8 @@ import type { PhotosTable, Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
 import type { ObjectStorage, StoredObject } from '../storage/object-storage';
 import type { LoadedTrial } from '../trials/trial-access';
-import { trialForAction } from '../trials/trials-service';
+import type { TrialMembership } from '../trials/trial-membership';
+import { trialAllows, trialForAction } from '../trials/trials-service';
 import {
   acceptedTypes,
   defaultPhotoLimits,
@@ -76,6 +77,19 @@ export function isPhotoPublic(
   photo: Pick<PhotoRow, 'is_cover' | 'deleted_at'>,
 ): boolean {
   return trial.status === 'published' && photo.is_cover && photo.deleted_at === null;
+}
+
+/**
+ * Whether the actor may see a photo's thumbnail and display size, as `photoFile` serves them: a
+ * public photo anyone, any other whoever may read its trial. A list that links to a photo of a
+ * trial it does not load asks this, so it links only what the photo routes serve.
+ */
+export function maySeePhoto(
+  actor: Actor | null,
+  trial: TrialMembership,
+  photo: Pick<PhotoRow, 'is_cover' | 'deleted_at'>,
+): boolean {
+  return isPhotoPublic(trial, photo) || trialAllows(actor, 'trial.read', trial);
 }
 
 function urlOf(slug: string, row: Pick<PhotoRow, 'id' | 'sha256'>, variant: PhotoVariant) {

@@ -2,6 +2,7 @@ import { type Actor, type TrialAccess, type TrialAction, can } from '../../commo
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import { AppError } from '../lib/app-error';
+import { membershipAccess } from './trial-membership';
 import { type PlotPlace, trialWithAccess } from './trials-repository';
 
 export interface LoadedTrial {
@@ -17,12 +18,9 @@ export function accessOf(
   actor: Actor | null,
 ): LoadedTrial & { plot: PlotPlace | null; actorName: string | null } {
   const { member_role, member_site_ids, plot, actor_name, ...trial } = row;
-  const role = actor ? (member_role ?? null) : null;
-  const growerSiteIds =
-    role === 'grower' && member_site_ids && member_site_ids.length ? member_site_ids : null;
   return {
     trial,
-    access: { status: trial.status, role, growerSiteIds },
+    access: membershipAccess({ status: trial.status, member_role, member_site_ids }, actor),
     plot,
     actorName: actor_name,
   };

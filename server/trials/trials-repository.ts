@@ -1,5 +1,6 @@
 import { sql } from 'kysely';
 import type { DB } from '../../db/database';
+import { membershipColumns } from './trial-membership';
 
 const counts = {
   siteCount: sql<number>`(select count(*)::int from sites s where s.trial_id = t.id)`,
@@ -64,19 +65,8 @@ export function trialWithAccess(
   return db
     .selectFrom('trials as t')
     .selectAll('t')
+    .select(membershipColumns('t.id', userId))
     .select((eb) => [
-      eb
-        .selectFrom('trial_members as m')
-        .select('m.role')
-        .whereRef('m.trial_id', '=', 't.id')
-        .where('m.user_id', '=', userId ?? '')
-        .as('member_role'),
-      eb
-        .selectFrom('trial_member_sites as ms')
-        .select(sql<string[] | null>`array_agg(ms.site_id order by ms.site_id)`.as('ids'))
-        .whereRef('ms.trial_id', '=', 't.id')
-        .where('ms.user_id', '=', userId ?? '')
-        .as('member_site_ids'),
       plotId === undefined
         ? sql<PlotPlace | null>`null::json`.as('plot')
         : eb

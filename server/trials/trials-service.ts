@@ -14,6 +14,7 @@ import type { Selectable } from 'kysely';
 import { AppError, fieldError } from '../lib/app-error';
 import type { ObjectStorage } from '../storage/object-storage';
 import { accessOf, authorize, type LoadedTrial, loadTrialAccess } from './trial-access';
+import { membershipAccess, type TrialMembership } from './trial-membership';
 import * as repo from './trials-repository';
 
 export async function listVisibleTrials(db: DB, actor: Actor | null): Promise<TrialSummary[]> {
@@ -58,6 +59,20 @@ export async function trialForAction(
   if (!place) throw fieldError(plot.field, 'This plot is not in the trial.');
   authorize(actor, action, loaded, place.siteId);
   return { ...loaded, plot: place, actorName };
+}
+
+/**
+ * The entry point asked of a trial read in a list, without refusing: whether the actor may take
+ * the action there, from the trial's status and the actor's membership columns
+ * (`membershipColumns`), by the same policy as `trialForAction`. For lists that show something
+ * of many trials, where loading each trial would cost a query apiece.
+ */
+export function trialAllows(
+  actor: Actor | null,
+  action: TrialAction,
+  trial: TrialMembership,
+): boolean {
+  return can(actor, action, membershipAccess(trial, actor));
 }
 
 /** The actor's role in a group, or null outside it. */

@@ -3,6 +3,7 @@ import type { VarietyType } from '../../common/contracts/varieties';
 import type { DB } from '../../db/database';
 import type { Trial, VarietiesTable } from '../../db/schema';
 import { newAddress } from '../lib/address';
+import { membershipColumns } from '../trials/trial-membership';
 
 export function groupsOf(db: DB, userId: string) {
   return db
@@ -20,7 +21,8 @@ export function allGroups(db: DB) {
 
 /**
  * The registers of these groups, each variety with the trials and seasons it was grown in, and
- * whether `viewerId` is a member of the trial that holds the variety's cover photo.
+ * its cover photo with what the photo routes decide by: the photo's trial's status, whether the
+ * photo is a sheet cover, and `viewerId`'s part in that trial.
  */
 export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: string | null = null) {
   let q = db
@@ -54,17 +56,11 @@ export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: stri
     .select([
       'v.id',
       'cp.id as cover_id',
+      'cp.is_cover as cover_is_sheet_cover',
+      'cp.deleted_at as cover_deleted_at',
       'ct.slug as cover_trial_slug',
-      (eb) =>
-        eb
-          .exists(
-            eb
-              .selectFrom('trial_members as cm')
-              .select('cm.user_id')
-              .whereRef('cm.trial_id', '=', 'ct.id')
-              .where('cm.user_id', '=', viewerId ?? ''),
-          )
-          .as('cover_trial_member'),
+      'ct.status as cover_trial_status',
+      ...membershipColumns('ct.id', viewerId),
       'v.slug',
       'v.name',
       'v.crop',
@@ -74,7 +70,7 @@ export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: stri
       sql<number>`count(distinct t.id)::int`.as('trial_count'),
       sql<number>`count(distinct t.season)::int`.as('season_count'),
     ])
-    .groupBy(['v.id', 'cp.id', 'ct.id', 'ct.slug'])
+    .groupBy(['v.id', 'cp.id', 'ct.id'])
     .orderBy('v.crop')
     .orderBy('v.name');
   if (groupIds !== 'all') {
@@ -82,6 +78,17 @@ export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: stri
     q = q.where('v.group_id', 'in', groupIds);
   }
   return q.execute();
+}
+
+/** A group's register, the varieties alone (no trials or covers), in the list's order. */
+export function registerVarieties(db: DB, groupId: string) {
+  return db
+    .selectFrom('varieties as v')
+    .select(['v.id', 'v.slug', 'v.name', 'v.crop'])
+    .where('v.group_id', '=', groupId)
+    .orderBy('v.crop')
+    .orderBy('v.name')
+    .execute();
 }
 
 export function findVarietyBySlug(db: DB, slug: string) {

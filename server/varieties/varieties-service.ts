@@ -23,6 +23,7 @@ import {
   stabilityAnalysis,
 } from '../analysis/engine/stability';
 import { AppError } from '../lib/app-error';
+import { maySeePhoto } from '../photos/photos-service';
 import { newAddress } from '../lib/address';
 import { groupForAction, groupRoleOf } from '../trials/trials-service';
 import { type Analyse, siteMeans, type TrialFigures, trialFigures } from './variety-figures';
@@ -54,13 +55,27 @@ export async function listVarieties(db: DB, actor: Actor | null): Promise<Variet
       groupId: v.group_id,
       trialCount: v.trial_count,
       seasonCount: v.season_count,
-      // Only a cover the caller may open: its photo is served to the trial's members (and admins).
+      // Only a cover the caller may open, as the photo routes decide it.
       cover:
-        v.cover_id && v.cover_trial_slug && (actor.isAdmin || v.cover_trial_member)
+        v.cover_id && v.cover_trial_slug && coverVisible(actor, v)
           ? photoUrls(`/api/trials/${v.cover_trial_slug}/photos/${v.cover_id}`, v.cover_id)
           : null,
     })),
   };
+}
+
+/** Whether the caller may open a listed variety's cover (its photo, trial and membership read with it). */
+function coverVisible(actor: Actor, v: Awaited<ReturnType<typeof repo.listVarieties>>[number]) {
+  if (!v.cover_trial_status) return false;
+  return maySeePhoto(
+    actor,
+    {
+      status: v.cover_trial_status,
+      member_role: v.member_role,
+      member_site_ids: v.member_site_ids,
+    },
+    { is_cover: v.cover_is_sheet_cover ?? false, deleted_at: v.cover_deleted_at },
+  );
 }
 
 /** A photo's sizes, as the photo routes serve them under `base`. */
@@ -436,7 +451,7 @@ export async function varietyStability(
   q: Out<typeof stabilityQuery>,
 ): Promise<Stability> {
   const { group } = await groupForAction(db, q.group, actor, 'register.read');
-  const register = await repo.listVarieties(db, [group.id]);
+  const register = await repo.registerVarieties(db, group.id);
   const crops = [...new Set(register.map((v) => v.crop))].sort();
   const ofCrop = register.filter((v) => v.crop.toLowerCase() === q.crop.toLowerCase());
   if (ofCrop.length === 0)

@@ -226,3 +226,87 @@ describe('a variety’s cover signed out', () => {
     expect((await listed()).cover.id).toBe(id);
   });
 });
+
+/**
+ * The register list links a cover exactly where the photo routes serve it: anyone once it is a
+ * published trial's sheet cover (the results sheet's picture), else whoever may read its trial
+ * (the permission table in common/policy.ts: trial members and administrators).
+ */
+describe('a cover in the register list, for each reader', () => {
+  it('is listed for whoever the photo routes serve it to, and to no one else', async () => {
+    const id = photoOf['velvet-lantern']!;
+    const photo = await t.db
+      .selectFrom('photos as p')
+      .innerJoin('trials as tr', 'tr.id', 'p.trial_id')
+      .select(['p.storage_key', 'p.original_ext', 'tr.id as trial_id', 'tr.status', 'tr.group_id'])
+      .where('p.id', '=', id)
+      .executeTakeFirstOrThrow();
+    await t.db.updateTable('photos').set({ deleted_at: null }).where('id', '=', id).execute();
+    expect(
+      (await as('lead').patch('/api/varieties/velvet-lantern', { coverPhotoId: id })).status,
+    ).toBe(204);
+    // The stored thumbnail, so the photo route answers with the file where it allows it.
+    await t.runtime.deps.storage.put(
+      `${photo.storage_key}/thumb.webp`,
+      Buffer.from('RIFF\0\0\0\0WEBP'),
+      'image/webp',
+    );
+    // A member of the trial's group who has no part in the trial.
+    const member = await createUser(t.db, { name: 'Orla Groupwide' });
+    await t.db
+      .insertInto('group_members')
+      .values({ group_id: photo.group_id!, user_id: member.id, role: 'member' })
+      .execute();
+    cookies.groupMember = await mintSessionCookie(t, member);
+
+    const states = [
+      { status: 'active', sheetCover: false },
+      { status: 'active', sheetCover: true },
+      { status: 'published', sheetCover: true },
+      { status: 'published', sheetCover: false },
+    ] as const;
+    const readers = ['lead', 'viewer', 'grower', 'admin', 'groupMember'];
+    try {
+      for (const state of states) {
+        await t.db
+          .updateTable('trials')
+          .set({ status: state.status })
+          .where('id', '=', photo.trial_id)
+          .execute();
+        await t.db
+          .updateTable('photos')
+          .set({ is_cover: state.sheetCover })
+          .where('id', '=', id)
+          .execute();
+        const route = `/api/trials/${OKRA}/photos/${id}/thumb`;
+        for (const who of readers) {
+          const list = await as(who).get('/api/varieties');
+          expect(list.status).toBe(200);
+          const cover = list.body.varieties.find(
+            (v: { slug: string }) => v.slug === 'velvet-lantern',
+          ).cover as { thumbUrl: string } | null;
+          const served = (await as(who).get(route)).status === 200;
+          // Trial members and administrators always; the group's other people only once public.
+          const expected =
+            who !== 'groupMember' || (state.status === 'published' && state.sheetCover);
+          const what = `${who}, ${state.status}, sheet cover ${state.sheetCover}`;
+          expect(cover !== null, what).toBe(expected);
+          expect(served, what).toBe(expected);
+          if (cover) expect(cover.thumbUrl).toBe(route);
+        }
+        // Outside the group the variety is not listed at all; signed out, there is no list.
+        const outside = await as('outsider').get('/api/varieties');
+        expect(outside.body.varieties.map((v: { slug: string }) => v.slug)).not.toContain(
+          'velvet-lantern',
+        );
+        expect((await as('signedOut').get('/api/varieties')).status).toBe(401);
+      }
+    } finally {
+      await t.db
+        .updateTable('trials')
+        .set({ status: photo.status })
+        .where('id', '=', photo.trial_id)
+        .execute();
+    }
+  });
+});
