@@ -124,8 +124,8 @@ try {
     console.log(
       `  ${k.padEnd(13)} ${p95[k].toFixed(1).padStart(8)} ms  (${samples[k].length} requests)`,
     );
-  // The same analysis uncached: the data version moved on before each request, so the
-  // database sums and the engine run every time (median of 5, alternating trials).
+  // The same analysis uncached: the data version moved on before each request, so the plots'
+  // harvest totals are read and the engine runs every time (median of 5, alternating trials).
   const cold: Record<'small' | 'large', number[]> = { small: [], large: [] };
   for (let i = 0; i < 5; i++)
     for (const [name, slug] of [

@@ -2,7 +2,9 @@
  * Benchmark: harvest records written through the app (POST /api/trials/:slug/harvests, signed
  * in, 20 clients at once) against the same rows written bare — one transaction per record
  * holding the INSERT and its audit row — by 20 database clients into the same table. Rounds
- * alternate in one run so the machine's other load hits both alike.
+ * alternate in one run so the machine's other load hits both alike. Both sides write the same
+ * table, so the database's own work on every harvest (its triggers: the trial data version, the
+ * plot's harvest totals) is paid on both: the ratio is what the app adds around the write.
  *   npm run bench:writes
  */
 import crypto from 'node:crypto';
