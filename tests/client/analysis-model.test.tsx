@@ -4,84 +4,19 @@
  * completely randomized trial offers the classical analysis only. The numbers shown are the
  * engine's own on fixtures/analysis/multisite-missing.csv, the file the R reference checks use.
  */
-import { readFileSync } from 'node:fs';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { AnalysisModel } from '../../common/contracts/analysis';
-import { trialActions } from '../../common/policy';
 import { analyzeCsv } from '../../server/analysis/engine/analyze';
 import { Component as TrialAnalysis } from '../../src/features/analysis/routes/trial-analysis-route';
-
-const csv = readFileSync('fixtures/analysis/multisite-missing.csv', 'utf8');
-const uuid = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
-
-function trial(design: 'crd' | 'rcbd' | 'multisite') {
-  return {
-    id: uuid(1),
-    slug: 'wend-hollow-okra',
-    title: 'Wend Hollow okra',
-    crop: 'Okra',
-    season: '2026',
-    design,
-    status: 'active',
-    siteCount: 1,
-    entryCount: 3,
-    plotCount: 9,
-    myRole: 'lead',
-    description: '',
-    sowingDate: null,
-    transplantDate: null,
-    sites: [],
-    entries: [],
-    traits: [
-      {
-        id: uuid(2),
-        key: 'pod_yield',
-        label: 'Pod yield',
-        quantityKind: 'mass',
-        basis: 'plot',
-        direction: 'higher',
-        scaleMin: null,
-        scaleMax: null,
-        displayUnit: null,
-        plausibleMin: null,
-        plausibleMax: null,
-      },
-    ],
-    harvestCount: 0,
-    observationCount: 0,
-    mySiteIds: null,
-    permissions: Object.fromEntries(trialActions.map((a) => [a, a === 'trial.read'])),
-  };
-}
-
-/** The API's answer: the engine's result on the fixture, with the trait's own fields. */
-function analysisAnswer(model: AnalysisModel, design: 'crd' | 'rcbd' | 'multisite') {
-  const result = analyzeCsv(csv, { model, ...(design === 'crd' ? { design: 'crd' } : {}) });
-  return JSON.parse(
-    JSON.stringify({
-      ...result,
-      traitKey: 'pod_yield',
-      traitLabel: 'Pod yield',
-      quantityKind: 'mass',
-      direction: 'higher',
-      basis: 'plot',
-      unit: 'g',
-      decimals: { plotValue: 0, mean: 1 },
-      valueNote: 'sum of the plot’s harvests',
-      plotValues: [],
-      entryCodes: {},
-    }),
-  );
-}
-
-const json = (body: unknown, status = 200) =>
-  new Response(JSON.stringify(body), {
-    status,
-    headers: { 'Content-Type': 'application/json' },
-  });
+import {
+  analysisAnswer,
+  analysisCsv as csv,
+  jsonAnswer as json,
+  okraTrial as trial,
+} from '../support/analysis-page';
 
 afterEach(() => vi.unstubAllGlobals());
 

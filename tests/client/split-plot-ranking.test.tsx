@@ -6,76 +6,22 @@
  * The analysis shown is the engine's own mixed-model result on
  * fixtures/analysis/multisite-missing.csv (the file the R reference checks use).
  */
-import { readFileSync } from 'node:fs';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { render, screen, waitFor } from '@testing-library/react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { trialActions } from '../../common/policy';
-import { analyzeCsv } from '../../server/analysis/engine/analyze';
 import { Component as TrialAnalysis } from '../../src/features/analysis/routes/trial-analysis-route';
+import { analysisAnswer, jsonAnswer as json, massTrait, okraTrial } from '../support/analysis-page';
 
-const csv = readFileSync('fixtures/analysis/multisite-missing.csv', 'utf8');
-const uuid = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
-
-const trait = (n: number, key: string, label: string) => ({
-  id: uuid(n),
-  key,
-  label,
-  quantityKind: 'mass',
-  basis: 'plot',
-  direction: 'higher',
-  scaleMin: null,
-  scaleMax: null,
-  displayUnit: null,
-  plausibleMin: null,
-  plausibleMax: null,
+const splitPlotTrial = okraTrial('rcbd', {
+  title: 'Wend Hollow okra under two mulches',
+  plotCount: 18,
+  traits: [massTrait(2, 'pod_yield', 'Pod yield'), massTrait(3, 'pod_count', 'Pod count')],
+  factor: { name: 'Mulch', levels: ['straw', 'bare'], arrangement: 'split_plot' },
 });
 
-const splitPlotTrial = {
-  id: uuid(1),
-  slug: 'wend-hollow-okra',
-  title: 'Wend Hollow okra under two mulches',
-  crop: 'Okra',
-  season: '2026',
-  design: 'rcbd',
-  status: 'active',
-  siteCount: 1,
-  entryCount: 3,
-  plotCount: 18,
-  myRole: 'lead',
-  description: '',
-  sowingDate: null,
-  transplantDate: null,
-  sites: [],
-  entries: [],
-  traits: [trait(2, 'pod_yield', 'Pod yield'), trait(3, 'pod_count', 'Pod count')],
-  harvestCount: 0,
-  observationCount: 0,
-  mySiteIds: null,
-  factor: { name: 'Mulch', levels: ['straw', 'bare'], arrangement: 'split_plot' },
-  permissions: Object.fromEntries(trialActions.map((a) => [a, a === 'trial.read'])),
-};
-
 /** The shown trait lost plots: the API answered it with the mixed model. */
-const mixedAnswer = JSON.parse(
-  JSON.stringify({
-    ...analyzeCsv(csv, { model: 'mixed' }),
-    traitKey: 'pod_yield',
-    traitLabel: 'Pod yield',
-    quantityKind: 'mass',
-    direction: 'higher',
-    basis: 'plot',
-    unit: 'g',
-    decimals: { plotValue: 0, mean: 1 },
-    valueNote: 'sum of the plot’s harvests',
-    plotValues: [],
-    entryCodes: {},
-  }),
-);
-
-const json = (body: unknown, status = 200) =>
-  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+const mixedAnswer = analysisAnswer('mixed', 'multisite');
 
 afterEach(() => vi.unstubAllGlobals());
 
