@@ -5,7 +5,7 @@
  * decimalsOf (common/precision.ts): after every step of a seeded random sequence of writes —
  * through the API (new records, repeated sends from the offline outbox, edits, deletes, undo,
  * CSV imports) and straight in SQL (a harvest moved to another plot, hard deletes, one
- * statement changing rows of several plots, a plot deleted) — the kept totals equal that
+ * statement changing rows of several plots, a plot or trial deleted) — the kept totals equal that
  * definition, row for row. Concurrent writers to one plot lose nothing.
  */
 import pg from 'pg';
@@ -300,6 +300,9 @@ describe('kept per-plot harvest totals', () => {
     await t.db.deleteFrom('plots').where('id', '=', first!.plot_id).execute();
     expect(await kept(trial.trialId)).toEqual(await fromRawRows(trial.trialId));
     expect((await kept(trial.trialId)).some((r) => r.plot_id === first!.plot_id)).toBe(false);
+    // So does a deleted trial.
+    await t.db.deleteFrom('trials').where('id', '=', trial.trialId).execute();
+    expect(await kept(trial.trialId)).toEqual([]);
   }, 120_000);
 
   it('lose no harvest when several connections write to one plot at once', async () => {
