@@ -20,9 +20,10 @@ export const basisLabels: Record<AnalysisBasis, string> = {
 
 /** Traits the API derives from harvest records, beside the trial's own traits. */
 export const derivedTraits = {
+  // Counted in days from sowing or transplant, like a trait recorded as a date.
   days_to_first_harvest: {
     label: 'Days to first harvest',
-    quantityKind: 'count',
+    quantityKind: 'date',
     direction: 'lower',
   },
   mean_fruit_mass: { label: 'Mean marketable fruit mass', quantityKind: 'mass', direction: 'none' },

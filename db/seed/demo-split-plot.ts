@@ -2,7 +2,8 @@
  * The demo's fertilizer × variety split plot (invented people, places, varieties and data): does
  * withholding fertilizer bring pods earlier in heirloom bush beans, but not in a modern productive
  * one? Fertilizer (none / pre-plant) on main plots within four blocks, four varieties on the
- * subplots, one "days to first pods" reading per plot. Written after the other demo trials.
+ * subplots, one "days to first pods" reading per plot (the date the first pods showed). Written
+ * after the other demo trials.
  */
 import crypto from 'node:crypto';
 import { addDays } from '../../common/calendar-date';
@@ -116,7 +117,8 @@ export async function seedSplitPlotTrial(db: DB): Promise<void> {
         trial_id: trial.id,
         key: 'days_to_first_pods',
         label: 'Days to first pods',
-        quantity_kind: 'count',
+        // Recorded as the date the first pods showed; the analysis counts days from sowing.
+        quantity_kind: 'date',
         basis: 'plot',
         direction: 'lower',
         sort_order: 0,
@@ -172,7 +174,7 @@ export async function seedSplitPlotTrial(db: DB): Promise<void> {
           plot_id: p.id,
           trait_id: trait.id,
           observed_on: addDays(SOWN, days[i]!),
-          value: days[i]!,
+          value_date: addDays(SOWN, days[i]!),
           created_by: growerId,
           updated_by: growerId,
         })),

@@ -230,6 +230,10 @@ describe('the demo season', () => {
       ['total', 31, null],
     ]);
     expect(a.plotValues).toHaveLength(32);
+    // Recorded as the date the first pods showed, analysed as days from sowing.
+    expect(a.quantityKind).toBe('date');
+    expect(a.unit).toBe('d');
+    expect(a.valueNote).toBe('days from sowing to the recorded date, averaged per plot');
     expect(a.twoFactor).toMatchObject({
       factor: 'Fertilizer',
       levels: ['none', 'pre-plant'],

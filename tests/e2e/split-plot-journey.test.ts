@@ -74,12 +74,12 @@ describe('a split-plot trial', () => {
       await plot.locator('.recharts-line').first().waitFor();
       await expect(plot.locator('.recharts-line').count()).resolves.toBe(4);
       const cells = page.getByRole('table', { name: /Cell means: variety × fertilizer/ });
-      // Days counted carry no unit label, so the headers are the levels alone.
+      // Days from sowing carry their unit, the same in metric and US customary.
       await expect(cells.getByRole('columnheader').allTextContents()).resolves.toEqual([
         'Variety',
-        'none',
-        'pre-plant',
-        'Variety mean',
+        'none (d)',
+        'pre-plant (d)',
+        'Variety mean (d)',
       ]);
       const effects = page.getByRole('table', { name: /Fertilizer within each variety/ });
       await expect(effects.getByRole('rowheader').allTextContents()).resolves.toEqual([
@@ -103,7 +103,7 @@ describe('a split-plot trial', () => {
       /<!-- -->/g,
       '',
     );
-    expect(html).toContain('Cell means: Days to first pods, variety × fertilizer');
+    expect(html).toContain('Cell means: Days to first pods (d), variety × fertilizer');
     expect(html).toContain('data-strata="split-plot"');
     for (const viewport of [
       { width: 1280, height: 900 },
@@ -115,7 +115,7 @@ describe('a split-plot trial', () => {
       await page.goto(`/r/${SPLIT_PLOT_SLUG}`);
       await page.getByRole('heading', { level: 1 }).waitFor();
       const cells = page.getByRole('table', {
-        name: /Cell means: Days to first pods, variety × fertilizer/,
+        name: /Cell means: Days to first pods \(d\), variety × fertilizer/,
       });
       await cells.waitFor();
       await expect(cells.getByRole('columnheader').allTextContents()).resolves.toEqual([
