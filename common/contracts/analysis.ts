@@ -390,7 +390,7 @@ export type TwoFactor = z.infer<typeof twoFactorSchema>;
 export function twoFactorNote(t: Pick<TwoFactor, 'layout' | 'factor'>, model: AnalysisModel) {
   const f = t.factor.toLowerCase();
   if (model === 'mixed')
-    return `Split plot, mixed model (REML): blocks and main plots (block:treatment) random; ${f}, variety and their interaction fixed, tested by Wald F with Satterthwaite's df.`;
+    return `Split plot, mixed model (REML): blocks and main plots (block × ${f}) random; ${f}, variety and their interaction fixed, tested by Wald F with Satterthwaite's df.`;
   return t.layout === 'split-plot'
     ? `Split plot: ${f} is on main plots and is tested against the main-plot error (block × ${f}); variety and variety × ${f} are tested against the subplot error (residual).`
     : `Factorial in complete blocks: every line is tested against the residual; sequential sums of squares in the order block, ${f}, variety, variety × ${f}.`;

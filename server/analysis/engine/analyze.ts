@@ -999,7 +999,7 @@ export function analyzeTwoFactorRows(
     treatment: code(kept.map((k) => k.treatment)),
     variety: code(kept.map((k) => k.variety)),
   };
-  const problem = balancedTwoFactorProblem(layout);
+  const problem = balancedTwoFactorProblem(layout, factor);
   const missingPlots =
     layout.block.levels.length * layout.treatment.levels.length * layout.variety.levels.length -
     layout.y.length;
@@ -1042,7 +1042,9 @@ export function analyzeTwoFactorRows(
     throw err;
   }
   if (mixed?.boundary) {
-    const zero = mixed.varianceComponents.filter((c) => c.variance === 0).map((c) => c.source);
+    const zero = mixed.varianceComponents
+      .filter((c) => c.variance === 0)
+      .map((c) => (c.source === 'block:treatment' ? `block × ${factor}` : c.source));
     warnings.push(
       `mixed model at the boundary: the ${zero.join(' and ')} variance was estimated as zero and kept at zero`,
     );

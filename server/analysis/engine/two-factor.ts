@@ -99,11 +99,13 @@ function satterthwaite(parts: { c: number; ms: number; df: number }[]): number {
 
 export function balancedTwoFactorProblem(
   input: Omit<TwoFactorInput, 'alpha' | 'letters' | 'direction' | 'splitPlot' | 'offset'>,
+  /** The treatment under the trial's (or the column's) own name, as the lead sees it. */
+  factor = 'treatment',
 ): string | null {
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
   const v = input.variety.levels.length;
-  if (a < 2) return `the treatment has only one level ("${input.treatment.levels[0]}")`;
+  if (a < 2) return `${factor} has only one level ("${input.treatment.levels[0]}")`;
   if (v < 2) return `only one variety ("${input.variety.levels[0]}")`;
   if (r < 2) return 'a two-factor trial needs at least two blocks';
   const seen = new Uint32Array(r * a * v);
@@ -123,8 +125,8 @@ export function balancedTwoFactorProblem(
         if (n > 1) repeated++;
       }
   if (missing.length > 0)
-    return `missing plots (block / treatment / variety: ${missing.slice(0, 5).join('; ')}${missing.length > 5 ? '; …' : ''}): the classical two-factor analysis needs every plot`;
-  if (repeated > 0) return `${repeated} block × treatment × variety cells hold more than one plot`;
+    return `missing plots (block / ${factor} / variety: ${missing.slice(0, 5).join('; ')}${missing.length > 5 ? '; …' : ''}): the classical two-factor analysis needs every plot`;
+  if (repeated > 0) return `${repeated} block × ${factor} × variety cells hold more than one plot`;
   return null;
 }
 

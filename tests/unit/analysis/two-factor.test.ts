@@ -147,6 +147,20 @@ describe('two-factor trials the classical analysis cannot take', () => {
       /missing plots \(block \/ treatment \/ variety: B1 \/ none \/ Amberlow\)/,
     );
   });
+  it('names the treatment as the sheet does in its refusals', () => {
+    const lines = csv.trim().split('\n');
+    const renamed = [lines[0]!.replace('treatment', 'Mulch'), ...lines.slice(2)].join('\n');
+    const classical = { factor: 'Mulch', splitPlot: true, trait: 'value', model: 'anova' } as const;
+    expect(() => analyzeTwoFactorCsv(renamed, classical)).toThrow(
+      /missing plots \(block \/ Mulch \/ variety: B1 \/ none \/ Amberlow\)/,
+    );
+    const oneLevel = [lines[0], ...lines.slice(1).filter((l) => l.includes(',none,'))]
+      .join('\n')
+      .replace('treatment', 'Mulch');
+    expect(() => analyzeTwoFactorCsv(oneLevel, { factor: 'Mulch', trait: 'value' })).toThrow(
+      'Mulch has only one level ("none")',
+    );
+  });
   it('says a factorial that lost plots is fitted by least squares, and counts them', () => {
     const { csv: lost } = load('factorial-missing2');
     const r = analyzeTwoFactorCsv(lost, { factor: 'treatment', trait: 'value' });
