@@ -16,7 +16,7 @@ import {
   YAxis,
 } from 'recharts';
 import { createColumnHelper } from '@tanstack/react-table';
-import { seriesColour } from '@/components/ui/chart-palette';
+import { seriesColour, tooltipStyle } from '@/components/ui/chart-palette';
 import { DataTable } from '@/components/ui/data-table';
 import { ScrollRegion } from '@/components/ui/scroll-region';
 
@@ -89,7 +89,7 @@ export function TwoFactorPanel({
         domain={['auto', 'auto']}
         label={{ value: unit.label, angle: -90, position: 'insideLeft' }}
       />
-      <Tooltip />
+      <Tooltip {...tooltipStyle} />
       <Legend />
       {series.map((s, i) => (
         <Line

@@ -12,7 +12,7 @@ import {
   YAxis,
 } from 'recharts';
 import type { DisplayUnit } from '@common/display-units';
-import { seriesColour } from '@/components/ui/chart-palette';
+import { seriesColour, tooltipStyle } from '@/components/ui/chart-palette';
 import { entrySiteTable, harvestCurveTable, type ChartTable } from './comparison-chart-data';
 
 /** A fixed size for tests (jsdom has no layout); the page fills its box. */
@@ -51,7 +51,7 @@ function TableLines({
           interval={category === 'site' ? 0 : 'preserveStartEnd'}
         />
         <YAxis label={{ value: unit.label, angle: -90, position: 'insideLeft' }} />
-        <Tooltip />
+        <Tooltip {...tooltipStyle} />
         <Legend />
         {table.series.map((s, i) => (
           <Line

@@ -21,6 +21,7 @@ import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparis
 import { EntrySiteChart, HarvestCurveChart } from '../components/comparison-charts';
 import { CellMeansTable } from '../components/cell-means-table';
 import { ComparisonTable } from '../components/comparison-table';
+import { tooltipStyle } from '@/components/ui/chart-palette';
 
 export function Component() {
   const { slug = '' } = useParams();
@@ -147,7 +148,7 @@ export function Component() {
                 height={60}
               />
               <YAxis label={{ value: chartUnit.label, angle: -90, position: 'insideLeft' }} />
-              <Tooltip />
+              <Tooltip {...tooltipStyle} />
               <Bar dataKey="mean" name={`Mean (${chartUnit.label})`} fill="#8fbf98">
                 <ErrorBar dataKey="se" width={6} stroke="#1b3822" />
               </Bar>

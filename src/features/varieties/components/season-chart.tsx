@@ -11,7 +11,7 @@ import {
   YAxis,
 } from 'recharts';
 import type { SeasonChartTable } from './season-chart-data';
-import { seriesColour } from '@/components/ui/chart-palette';
+import { seriesColour, tooltipStyle } from '@/components/ui/chart-palette';
 
 export function SeasonChart({ table, unit }: { table: SeasonChartTable; unit: DisplayUnit }) {
   return (
@@ -22,8 +22,7 @@ export function SeasonChart({ table, unit }: { table: SeasonChartTable; unit: Di
         <YAxis
           label={unit.label ? { value: unit.label, angle: -90, position: 'insideLeft' } : undefined}
         />
-        {/* Dark item text: the line colours are too light to read as text. */}
-        <Tooltip itemStyle={{ color: '#1f2a1c' }} />
+        <Tooltip {...tooltipStyle} />
         <Legend />
         {table.series.map((s, i) => (
           <Line
