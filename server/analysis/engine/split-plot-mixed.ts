@@ -130,19 +130,12 @@ export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnal
   }));
 
   const fits = cellModelMeans(input, (l) => fit.contrast(l));
-  const {
-    cellMeans,
-    treatmentMeans,
-    varietyMeans,
-    treatmentWithinVariety,
-    varietyWithinTreatment,
-  } = fits;
 
   // Variety means ranked and lettered on their own pairwise SEs, with the variety test's
   // denominator df (as the one-factor mixed model does).
   const varietyTest = fixedTests[1]!;
   const residual = fit.varianceComponents.at(-1)!.variance;
-  const sep = rankedVarietyMeans(input, V, fits, {
+  const means = rankedVarietyMeans(input, V, fits, {
     ms: residual,
     df: varietyTest.denDf,
     varietyP: varietyTest.p,
@@ -152,14 +145,7 @@ export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnal
     layout: 'split-plot',
     // The classical strata do not apply; the model's tests are in `fixedTests`.
     anova: [],
-    cellMeans,
-    treatmentMeans,
-    varietyMeans,
-    treatmentWithinVariety,
-    varietyWithinTreatment,
-    means: sep.means,
-    lsd: sep.lsd,
-    hsd: { ...sep.hsd, df: varietyTest.denDf },
+    ...means,
     errorTerm: { source: 'residual', df: varietyTest.denDf, ms: residual },
     varianceComponents: fit.varianceComponents.map((c) => ({
       source: c.source as SplitPlotVarianceSource,

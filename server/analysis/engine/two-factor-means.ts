@@ -134,7 +134,8 @@ export function cellModelMeans(
 }
 
 /**
- * Variety means of a cell-means model ranked and lettered on their own pairwise SEs, with the
+ * The means part of a cell-means model's analysis: its cell, treatment and variety means and
+ * simple effects, and the variety means ranked and lettered on their own pairwise SEs, with the
  * error variance and df the variety test used (least squares: the residual; REML: the residual
  * variance with the Wald test's denominator df).
  */
@@ -173,5 +174,14 @@ export function rankedVarietyMeans(
     groupLsd: s.lsdGroup,
     groupHsd: s.hsdGroup,
   }));
-  return { lsd: sep.lsd, hsd: sep.hsd, means };
+  return {
+    cellMeans: fits.cellMeans,
+    treatmentMeans: fits.treatmentMeans,
+    varietyMeans: fits.varietyMeans,
+    treatmentWithinVariety: fits.treatmentWithinVariety,
+    varietyWithinTreatment: fits.varietyWithinTreatment,
+    means,
+    lsd: sep.lsd,
+    hsd: { ...sep.hsd, df: error.df },
+  };
 }

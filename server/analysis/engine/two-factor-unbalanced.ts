@@ -93,16 +93,9 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
     return { estimate: est, se: Math.sqrt(res.ms * q), df: res.df };
   };
   const fits = cellModelMeans(input, combine);
-  const {
-    cellMeans,
-    treatmentMeans,
-    varietyMeans,
-    treatmentWithinVariety,
-    varietyWithinTreatment,
-  } = fits;
 
   const varietyLine = anova.find((l) => l.source === 'variety')!;
-  const sep = rankedVarietyMeans(input, V, fits, {
+  const means = rankedVarietyMeans(input, V, fits, {
     ms: res.ms,
     df: res.df,
     varietyP: varietyLine.p,
@@ -110,14 +103,7 @@ export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnal
   return {
     layout: 'factorial',
     anova,
-    cellMeans,
-    treatmentMeans,
-    varietyMeans,
-    treatmentWithinVariety,
-    varietyWithinTreatment,
-    means: sep.means,
-    lsd: sep.lsd,
-    hsd: { ...sep.hsd, df: res.df },
+    ...means,
     errorTerm: res,
   };
 }
