@@ -29,6 +29,7 @@ import { rankMeans, type TraitDirection } from '../../../common/ranking';
 import {
   analyseTwoFactor,
   balancedTwoFactorProblem,
+  twoFactorCells,
   type TwoFactorAnalysis,
 } from './two-factor.js';
 import { analyseUnbalancedFactorial } from './two-factor-unbalanced.js';
@@ -999,10 +1000,10 @@ export function analyzeTwoFactorRows(
     treatment: code(kept.map((k) => k.treatment)),
     variety: code(kept.map((k) => k.variety)),
   };
-  const problem = balancedTwoFactorProblem(layout, factor);
-  const missingPlots =
-    layout.block.levels.length * layout.treatment.levels.length * layout.variety.levels.length -
-    layout.y.length;
+  const cells = twoFactorCells(layout);
+  const problem = balancedTwoFactorProblem(layout, factor, cells);
+  // The empty cells themselves: a cell holding two plots must not hide one holding none.
+  const missingPlots = cells.missing.length;
   const lostPlots = problem !== null && problem.startsWith('missing plots');
   const lost = `${missingPlots} missing plot${missingPlots === 1 ? '' : 's'}`;
   // A split plot that lost plots: the classical strata need balance, the mixed model does not.

@@ -97,17 +97,16 @@ function satterthwaite(parts: { c: number; ms: number; df: number }[]): number {
   return num / den;
 }
 
-export function balancedTwoFactorProblem(
-  input: Omit<TwoFactorInput, 'alpha' | 'letters' | 'direction' | 'splitPlot' | 'offset'>,
-  /** The treatment under the trial's (or the column's) own name, as the lead sees it. */
-  factor = 'treatment',
-): string | null {
+type TwoFactorLayout = Omit<
+  TwoFactorInput,
+  'alpha' | 'letters' | 'direction' | 'splitPlot' | 'offset'
+>;
+
+/** The block × treatment × variety cells with no plot (named), and how many hold more than one. */
+export function twoFactorCells(input: TwoFactorLayout): { missing: string[]; repeated: number } {
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
   const v = input.variety.levels.length;
-  if (a < 2) return `${factor} has only one level ("${input.treatment.levels[0]}")`;
-  if (v < 2) return `only one variety ("${input.variety.levels[0]}")`;
-  if (r < 2) return 'a two-factor trial needs at least two blocks';
   const seen = new Uint32Array(r * a * v);
   for (let i = 0; i < input.y.length; i++)
     seen[(input.block.codes[i]! * a + input.treatment.codes[i]!) * v + input.variety.codes[i]!]! +=
@@ -124,6 +123,22 @@ export function balancedTwoFactorProblem(
           );
         if (n > 1) repeated++;
       }
+  return { missing, repeated };
+}
+
+export function balancedTwoFactorProblem(
+  input: TwoFactorLayout,
+  /** The treatment under the trial's (or the column's) own name, as the lead sees it. */
+  factor = 'treatment',
+  cells: { missing: string[]; repeated: number } = twoFactorCells(input),
+): string | null {
+  const r = input.block.levels.length;
+  const a = input.treatment.levels.length;
+  const v = input.variety.levels.length;
+  if (a < 2) return `${factor} has only one level ("${input.treatment.levels[0]}")`;
+  if (v < 2) return `only one variety ("${input.variety.levels[0]}")`;
+  if (r < 2) return 'a two-factor trial needs at least two blocks';
+  const { missing, repeated } = cells;
   if (missing.length > 0)
     return `missing plots (block / ${factor} / variety: ${missing.slice(0, 5).join('; ')}${missing.length > 5 ? '; …' : ''}): the classical two-factor analysis needs every plot`;
   if (repeated > 0) return `${repeated} block × ${factor} × variety cells hold more than one plot`;

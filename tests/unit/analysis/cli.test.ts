@@ -116,6 +116,31 @@ describe('analyze command', { timeout: 60_000 }, () => {
     expect(out.warnings).toContain('rows 7, 9 have no value: 2 rows left out');
   });
 
+  // The file is two-factor-factorial.csv (4 blocks × 2 treatments × 4 varieties = 32 cells) with
+  // the B2 / pre-plant / Sallow Bay row removed and a second B3 / none / Amberlow row added: 32
+  // rows, one cell empty and one holding two plots, counted by hand from the file.
+  it.each([
+    ['a factorial', [], 'anova'],
+    ['a split plot', ['--split-plot'], 'mixed'],
+  ])(
+    'counts the empty cell of %s with one cell doubled and one missing',
+    (_label, extra, model) => {
+      const r = run(
+        fx('cli/two-factor-doubled-and-missing.csv'),
+        '--factor',
+        'treatment',
+        ...extra,
+      );
+      expect(r.stderr).toBe('');
+      expect(r.code).toBe(0);
+      const out = JSON.parse(r.stdout);
+      expect(out.model).toBe(model);
+      expect(out.n).toBe(32);
+      expect(out.counts).toMatchObject({ rows: 32, blocks: 4, treatments: 2, missingPlots: 1 });
+      expect(out.warnings.filter((w: string) => w.startsWith('1 missing plot:'))).toHaveLength(1);
+    },
+  );
+
   const bad: [string, string[], RegExp][] = [
     ['empty file', [fx('cli/empty.csv')], /empty/],
     ['header only', [fx('cli/header-only.csv')], /no data rows/],
