@@ -87,13 +87,18 @@ export async function varietySeed(
 ): Promise<VarietySeed> {
   const { variety, role } = await varietyFor(db, actor, slug, 'seed.read');
   const canEdit = canGroup(actor, 'seed.edit', role);
-  const settings = await repo.groupSettings(db, variety.group_id);
-  const lots = await repo.lotsOfVariety(db, variety.id);
+  // Read together: only the lots' tests and sowings wait for the lots.
+  const [settings, lots, offers] = await Promise.all([
+    repo.groupSettings(db, variety.group_id),
+    repo.lotsOfVariety(db, variety.id),
+    repo.offersOfVariety(db, variety.id),
+  ]);
   const lotIds = lots.map((l) => l.id);
-  const tests = await repo.testsOfLots(db, lotIds);
-  // Coordinators follow every trial of their group; a member sees the trials they may read.
-  const sown = await repo.sownFromLots(db, lotIds, canEdit ? 'all' : actor!.userId);
-  const offers = await repo.offersOfVariety(db, variety.id);
+  const [tests, sown] = await Promise.all([
+    repo.testsOfLots(db, lotIds),
+    // Coordinators follow every trial of their group; a member sees the trials they may read.
+    repo.sownFromLots(db, lotIds, canEdit ? 'all' : actor!.userId),
+  ]);
   return {
     variety: { slug: variety.slug, name: variety.name, crop: variety.crop },
     group: { id: variety.group_id, name: variety.group_name },
