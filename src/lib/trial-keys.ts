@@ -167,7 +167,7 @@ export async function invalidateTrial(
  * lot choices (labels, years) and the open offers its sheet links to.
  */
 const seedInTrial = [trialKeys.entryLots('').slice(2), trialKeys.trialOffers('').slice(2)];
-export const isSeedKey = (key: QueryKey) =>
+const isSeedKey = (key: QueryKey) =>
   (key[0] === trialKeys.varietySeeds()[0] && key[1] === trialKeys.varietySeeds()[1]) ||
   key[0] === trialKeys.seedOffers()[0] ||
   (key[0] === 'trial' && seedInTrial.some(([v, part]) => key[2] === v && key[3] === part));
