@@ -255,7 +255,10 @@ const FROZEN_VERSIONS_KEPT = 200;
 /** Sets of links kept per version: a relink replaces the set, so a few cover any churn. */
 const LINK_SETS_KEPT = 4;
 
-/** A published sheet's version for anyone: one query for the stamp, the rest from memory. */
+/**
+ * A published sheet's version for anyone: one query for the stamp, the rest from memory (a
+ * version lacking variety links asks one more, for its entries' links).
+ */
 export async function frozenVersion(
   db: DB,
   slug: string,

@@ -29,7 +29,7 @@ import { rankMeans, type TraitDirection } from '../../../common/ranking';
 import {
   analyseTwoFactor,
   balancedTwoFactorProblem,
-  twoFactorCells,
+  blockTreatmentVarietyCells,
   type TwoFactorAnalysis,
 } from './two-factor.js';
 import { analyseUnbalancedFactorial } from './two-factor-unbalanced.js';
@@ -1000,7 +1000,7 @@ export function analyzeTwoFactorRows(
     treatment: code(kept.map((k) => k.treatment)),
     variety: code(kept.map((k) => k.variety)),
   };
-  const cells = twoFactorCells(layout);
+  const cells = blockTreatmentVarietyCells(layout);
   const problem = balancedTwoFactorProblem(layout, factor, cells);
   // The empty cells themselves: a cell holding two plots must not hide one holding none.
   const missingPlots = cells.missing.length;

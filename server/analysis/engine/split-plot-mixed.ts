@@ -12,7 +12,7 @@
  * Every treatment × variety cell needs at least one plot. Pure: no I/O.
  */
 import { fitReml, sequentialContrasts, type MixedFit } from './mixed-model.js';
-import { cellModelMeans, rankedVarietyMeans, twoFactorCells } from './two-factor-means.js';
+import { cellModelMeans, rankedVarietyMeans, treatmentVarietyCells } from './two-factor-means.js';
 import type { TwoFactorAnalysis, TwoFactorInput } from './two-factor.js';
 
 export type SplitPlotVarianceSource = 'block' | 'block:treatment' | 'residual';
@@ -98,7 +98,7 @@ function sequentialCellContrasts(
 }
 
 export function analyseSplitPlotMixed(input: TwoFactorInput): SplitPlotMixedAnalysis {
-  const { y, n, r, a, v, B, T, V, cellOf, counts } = twoFactorCells(input);
+  const { y, n, r, a, v, B, T, V, cellOf, counts } = treatmentVarietyCells(input);
   const p = a * v;
   if (r < 2) throw new RangeError('the split plot needs at least two blocks');
   // Main plots present in the data (block × treatment), coded in order of appearance.

@@ -16,7 +16,7 @@ import type { SimpleEffect, TwoFactorAnalysis, TwoFactorInput } from './two-fact
  * variety codes, its treatment × variety cell (t × v + e) and the plots in each cell. A cell
  * without plots has no mean, so it is refused here, naming the variety and treatment.
  */
-export function twoFactorCells(input: TwoFactorInput) {
+export function treatmentVarietyCells(input: TwoFactorInput) {
   const { y } = input;
   const n = y.length;
   const r = input.block.levels.length;

@@ -10,7 +10,7 @@
 import { invertSpd } from './adjusted-means.js';
 import { sequentialSumsOfSquares } from './linear-model.js';
 import { fUpperTail } from './distributions.js';
-import { cellModelMeans, rankedVarietyMeans, twoFactorCells } from './two-factor-means.js';
+import { cellModelMeans, rankedVarietyMeans, treatmentVarietyCells } from './two-factor-means.js';
 import type {
   TwoFactorAnalysis,
   TwoFactorInput,
@@ -19,7 +19,7 @@ import type {
 } from './two-factor.js';
 
 export function analyseUnbalancedFactorial(input: TwoFactorInput): TwoFactorAnalysis {
-  const { y, n, r, a, v, B, T, V, cellOf } = twoFactorCells(input);
+  const { y, n, r, a, v, B, T, V, cellOf } = treatmentVarietyCells(input);
 
   const fit = sequentialSumsOfSquares(y, [
     { name: 'block', cells: B, levels: r },

@@ -103,7 +103,10 @@ type TwoFactorLayout = Omit<
 >;
 
 /** The block × treatment × variety cells with no plot (named), and how many hold more than one. */
-export function twoFactorCells(input: TwoFactorLayout): { missing: string[]; repeated: number } {
+export function blockTreatmentVarietyCells(input: TwoFactorLayout): {
+  missing: string[];
+  repeated: number;
+} {
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
   const v = input.variety.levels.length;
@@ -130,7 +133,7 @@ export function balancedTwoFactorProblem(
   input: TwoFactorLayout,
   /** The treatment under the trial's (or the column's) own name, as the lead sees it. */
   factor = 'treatment',
-  cells: { missing: string[]; repeated: number } = twoFactorCells(input),
+  cells: { missing: string[]; repeated: number } = blockTreatmentVarietyCells(input),
 ): string | null {
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
