@@ -599,6 +599,20 @@ function Requests({ offer }: { offer: OfferSummary }) {
 function Offers({ seed, slug }: { seed: VarietySeed; slug: string }) {
   const changed = useSeedChanged();
   const open = seed.offers.find((o) => o.status === 'open');
+  const [problem, setProblem] = useState<string | null>(null);
+  const [closing, setClosing] = useState(false);
+  const close = async (offerId: string) => {
+    setClosing(true);
+    setProblem(null);
+    try {
+      await closeOffer(offerId);
+      await changed();
+    } catch (err) {
+      setProblem(err instanceof Error ? err.message : 'Not closed: try again.');
+    } finally {
+      setClosing(false);
+    }
+  };
   return (
     <section className={card} aria-labelledby="offer-heading">
       <h2 id="offer-heading" className="text-xl font-semibold text-leaf-900">
@@ -616,11 +630,13 @@ function Offers({ seed, slug }: { seed: VarietySeed; slug: string }) {
           {seed.canEdit ? (
             <>
               <Requests offer={open} />
+              {problem ? <FormMessage tone="error">{problem}</FormMessage> : null}
               <Button
                 type="button"
                 variant="secondary"
                 className="mt-3"
-                onClick={() => void closeOffer(open.id).then(changed)}
+                disabled={closing}
+                onClick={() => void close(open.id)}
               >
                 Close the offer
               </Button>

@@ -1,0 +1,109 @@
+/**
+ * Closing a seed offer: a refusal from the server is shown beside the button (the coordinator
+ * knows the offer is still open), and a close that went through refreshes the page, which then
+ * offers to start a new offer. The product's own behaviour; no outside source applies.
+ */
+import type { VarietySeed } from '@common/contracts/seed';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { MemoryRouter, Route, Routes } from 'react-router-dom';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { Component as VarietySeedPage } from '../../src/features/seed/routes/variety-seed-route';
+import { sessionKeys } from '../../src/lib/session';
+
+const lotId = '00000000-0000-4000-8000-0000000000d1';
+const offerId = '00000000-0000-4000-8000-0000000000f1';
+
+const seedWith = (status: 'open' | 'closed'): VarietySeed => ({
+  variety: { slug: 'brook-runner', name: 'Brook Runner', crop: 'Pole bean' },
+  group: { id: '00000000-0000-4000-8000-0000000000e1', name: 'Fenwold seed circle' },
+  canEdit: true,
+  settings: { germinationThresholdPercent: 80, requestsOpen: true },
+  lots: [
+    {
+      id: lotId,
+      label: 'BR-26',
+      source: 'own saving',
+      harvestYear: 2026,
+      amount: null,
+      amountUnit: 'g',
+      storagePlace: '',
+      notes: '',
+      tests: [],
+      warnings: [],
+      sown: [],
+    },
+  ],
+  offers: [
+    {
+      id: offerId,
+      lotId,
+      lotLabel: 'BR-26',
+      packetsOffered: 12,
+      packetsLeft: 7,
+      note: '',
+      status,
+      createdAt: '2026-11-20T10:00:00.000Z',
+    },
+  ],
+});
+
+const json = (body: unknown, status = 200) =>
+  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+
+afterEach(() => vi.unstubAllGlobals());
+
+/** The page against a server whose PATCH answers with `patch`. */
+function openPage(patch: () => Response) {
+  let status: 'open' | 'closed' = 'open';
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async (url: string, init?: RequestInit) => {
+      if (init?.method === 'PATCH') {
+        const answer = patch();
+        if (answer.ok) status = 'closed';
+        return answer;
+      }
+      if (url.endsWith('/requests')) return json({ requests: [] });
+      return json(seedWith(status));
+    }),
+  );
+  const client = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+  client.setQueryData(sessionKeys.me, null);
+  render(
+    <QueryClientProvider client={client}>
+      <MemoryRouter initialEntries={['/varieties/brook-runner/seed']}>
+        <Routes>
+          <Route path="/varieties/:slug/seed" element={<VarietySeedPage />} />
+        </Routes>
+      </MemoryRouter>
+    </QueryClientProvider>,
+  );
+}
+
+describe('closing a seed offer', () => {
+  it('shows the server’s refusal and leaves the offer open', async () => {
+    openPage(() =>
+      json(
+        { error: { code: 'forbidden', message: 'Only the group’s coordinators may do that.' } },
+        403,
+      ),
+    );
+    const close = await screen.findByRole('button', { name: 'Close the offer' });
+    fireEvent.click(close);
+    expect(await screen.findByText('Only the group’s coordinators may do that.')).toBeTruthy();
+    expect(screen.getByText(/7 of 12 packets left/)).toBeTruthy();
+    await waitFor(() =>
+      expect(
+        (screen.getByRole('button', { name: 'Close the offer' }) as HTMLButtonElement).disabled,
+      ).toBe(false),
+    );
+  });
+
+  it('once closed, the page is read again and no longer shows the open offer', async () => {
+    openPage(() => new Response(null, { status: 204 }));
+    fireEvent.click(await screen.findByRole('button', { name: 'Close the offer' }));
+    await waitFor(() => expect(screen.queryByText(/7 of 12 packets left/)).toBeNull());
+    expect(screen.queryByRole('button', { name: 'Close the offer' })).toBeNull();
+  });
+});
