@@ -62,18 +62,21 @@ const figureColumns = [
     ),
   }),
   column.accessor((r) => r.trait.label, { id: 'trait', header: 'Trait' }),
-  column.accessor((r) => r.trait.mean, {
+  // null → undefined: react-table puts only undefined last whichever way a column sorts.
+  column.accessor((r) => r.trait.mean ?? undefined, {
     id: 'mean',
     header: 'Mean',
     sortUndefined: 'last',
     cell: (c) => formatInUnit(c.getValue(), c.row.original.unit, c.row.original.trait.decimals),
   }),
-  column.accessor((r) => r.trait.rank, {
+  column.accessor((r) => r.trait.rank ?? undefined, {
     id: 'rank',
     header: 'Rank',
+    // Rank 1 is the best: the first press puts it on top.
+    sortDescFirst: false,
     sortUndefined: 'last',
     cell: (c) =>
-      c.getValue() === null
+      c.getValue() === undefined
         ? 'not ranked'
         : `${c.getValue()} of ${c.row.original.trait.entryCount}`,
   }),
