@@ -5,15 +5,15 @@
  * heading when no test is left, never back to the top of the page (WCAG 2.2 success criterion
  * 2.4.3 Focus Order: focus moves in an order that keeps meaning and operability).
  */
-import type { GerminationTest, VarietySeed } from '@common/contracts/seed';
+import type { GerminationTest } from '@common/contracts/seed';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, fireEvent, render, screen, waitFor } from '@testing-library/react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { Component as VarietySeedPage } from '../../src/features/seed/routes/variety-seed-route';
 import { sessionKeys } from '../../src/lib/session';
+import { brookRunnerSeed } from '../support/variety-fixtures';
 
-const lotId = '00000000-0000-4000-8000-0000000000d1';
 const test = (n: number, testedOn: string, germinated: number): GerminationTest => ({
   id: `00000000-0000-4000-8000-00000000000${n}`,
   testedOn,
@@ -27,29 +27,6 @@ const test = (n: number, testedOn: string, germinated: number): GerminationTest 
   upperPercent: Math.min(100, germinated + 5),
 });
 const tests = [test(1, '2026-11-20', 91), test(2, '2026-11-02', 9), test(3, '2026-10-15', 88)];
-
-const seedWith = (left: GerminationTest[]): VarietySeed => ({
-  variety: { slug: 'brook-runner', name: 'Brook Runner', crop: 'Pole bean' },
-  group: { id: '00000000-0000-4000-8000-0000000000e1', name: 'Fenwold seed circle' },
-  canEdit: true,
-  settings: { germinationThresholdPercent: 80, requestsOpen: false },
-  lots: [
-    {
-      id: lotId,
-      label: 'BR-26',
-      source: 'own saving',
-      harvestYear: 2026,
-      amount: null,
-      amountUnit: 'g',
-      storagePlace: '',
-      notes: '',
-      tests: left,
-      warnings: [],
-      sown: [],
-    },
-  ],
-  offers: [],
-});
 
 afterEach(() => vi.unstubAllGlobals());
 
@@ -65,7 +42,7 @@ function openPage(held: GerminationTest[]) {
         left = left.filter((t) => !url.endsWith(`/tests/${t.id}`));
         return new Response(null, { status: 204 });
       }
-      return new Response(JSON.stringify(seedWith(left)), {
+      return new Response(JSON.stringify(brookRunnerSeed(left)), {
         status: 200,
         headers: { 'Content-Type': 'application/json' },
       });

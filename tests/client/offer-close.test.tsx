@@ -10,43 +10,27 @@ import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { Component as VarietySeedPage } from '../../src/features/seed/routes/variety-seed-route';
 import { sessionKeys } from '../../src/lib/session';
+import { brookRunnerSeed, fixtureLotId } from '../support/variety-fixtures';
 
-const lotId = '00000000-0000-4000-8000-0000000000d1';
 const offerId = '00000000-0000-4000-8000-0000000000f1';
 
-const seedWith = (status: 'open' | 'closed'): VarietySeed => ({
-  variety: { slug: 'brook-runner', name: 'Brook Runner', crop: 'Pole bean' },
-  group: { id: '00000000-0000-4000-8000-0000000000e1', name: 'Fenwold seed circle' },
-  canEdit: true,
-  settings: { germinationThresholdPercent: 80, requestsOpen: true },
-  lots: [
-    {
-      id: lotId,
-      label: 'BR-26',
-      source: 'own saving',
-      harvestYear: 2026,
-      amount: null,
-      amountUnit: 'g',
-      storagePlace: '',
-      notes: '',
-      tests: [],
-      warnings: [],
-      sown: [],
-    },
-  ],
-  offers: [
-    {
-      id: offerId,
-      lotId,
-      lotLabel: 'BR-26',
-      packetsOffered: 12,
-      packetsLeft: 7,
-      note: '',
-      status,
-      createdAt: '2026-11-20T10:00:00.000Z',
-    },
-  ],
-});
+const seedWith = (status: 'open' | 'closed'): VarietySeed =>
+  brookRunnerSeed(
+    [],
+    [
+      {
+        id: offerId,
+        lotId: fixtureLotId,
+        lotLabel: 'BR-26',
+        packetsOffered: 12,
+        packetsLeft: 7,
+        note: '',
+        status,
+        createdAt: '2026-11-20T10:00:00.000Z',
+      },
+    ],
+    true,
+  );
 
 const json = (body: unknown, status = 200) =>
   new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });

@@ -14,8 +14,8 @@ import { Component as RegisterPage } from '../../src/features/varieties/routes/r
 import { Component as VarietyPage } from '../../src/features/varieties/routes/variety-route';
 import { sessionKeys } from '../../src/lib/session';
 import { trialKeys } from '../../src/lib/trial-keys';
+import { brookRunner, fixtureGroupId } from '../support/variety-fixtures';
 
-const groupId = '00000000-0000-4000-8000-0000000000e1';
 const cover = {
   id: '00000000-0000-4000-8000-0000000000f1',
   thumbUrl: '/api/trials/fenwold-beans-2026/photos/f1/thumb',
@@ -55,20 +55,7 @@ function show(
 }
 
 const record = (caption: string): VarietyRecord => ({
-  variety: {
-    id: '00000000-0000-4000-8000-0000000000a1',
-    slug: 'brook-runner',
-    name: 'Brook Runner',
-    crop: 'Pole bean',
-    type: 'heirloom',
-    origin: '',
-    seedSource: '',
-    description: '',
-    expectedTraits: [],
-    aliases: [],
-    group: { id: groupId, slug: 'fenwold-seed-circle', name: 'Fenwold seed circle' },
-    cover,
-  },
+  variety: brookRunner(cover),
   canEdit: false,
   trials: [],
   photos: [{ ...cover, caption, trialSlug: 'fenwold-beans-2026', season: '2026' }],
@@ -85,7 +72,7 @@ describe('a variety’s cover photo', () => {
           crop: 'Pole bean',
           type: 'heirloom',
           aliases: [],
-          groupId,
+          groupId: fixtureGroupId,
           trialCount: 1,
           seasonCount: 1,
           cover,

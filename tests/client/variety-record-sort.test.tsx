@@ -12,8 +12,7 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { Component as VarietyPage } from '../../src/features/varieties/routes/variety-route';
 import { sessionKeys } from '../../src/lib/session';
 import { trialKeys } from '../../src/lib/trial-keys';
-
-const groupId = '00000000-0000-4000-8000-0000000000e1';
+import { brookRunner } from '../support/variety-fixtures';
 
 const trait = (
   key: string,
@@ -34,20 +33,7 @@ const trait = (
 });
 
 const record: VarietyRecord = {
-  variety: {
-    id: '00000000-0000-4000-8000-0000000000a1',
-    slug: 'brook-runner',
-    name: 'Brook Runner',
-    crop: 'Pole bean',
-    type: 'heirloom',
-    origin: '',
-    seedSource: '',
-    description: '',
-    expectedTraits: [],
-    aliases: [],
-    group: { id: groupId, slug: 'fenwold-seed-circle', name: 'Fenwold seed circle' },
-    cover: null,
-  },
+  variety: brookRunner(),
   canEdit: false,
   trials: [
     {
