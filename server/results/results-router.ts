@@ -90,11 +90,12 @@ const downloadQuery = z.object({
 });
 
 /**
- * A published version's JSON as stored, with its strong ETag: a reader who has it gets 304 and
- * no body (RFC 9110 §13.1.2, If-None-Match).
+ * Any cache may keep a published answer but must ask again before each use (RFC 9111 §5.2.2.4,
+ * no-cache): the latest version's address and the version list change when the lead publishes,
+ * all of them when the sheet is withdrawn or an entry relinked, and a reader must not be shown the
+ * old numbers meanwhile. Asking again is cheap: the strong ETag answers 304 with no body.
  */
-/** A published version may be read from a shared cache for five minutes. */
-const cachePublished = (res: Response) => res.setHeader('Cache-Control', 'public, max-age=300');
+const cachePublished = (res: Response) => res.setHeader('Cache-Control', 'public, no-cache');
 
 /**
  * A frozen version as stored bytes: gzip-compressed once at freezing for a reader who accepts

@@ -336,12 +336,18 @@ describe('the results sheet', () => {
     expect(first.status).toBe(200);
     const etag = first.headers.etag as string;
     expect(etag).toMatch(/^"[^"]+"$/);
+    // Kept by any cache but asked again before each use (RFC 9111 §5.2.2.4), so a new version
+    // or a withdrawal reaches a reader at once; the version list too.
+    expect(first.headers['cache-control']).toBe('public, no-cache');
+    const list = await as(null).get(`/api/results/${SLUG}/versions`);
+    expect(list.headers['cache-control']).toBe('public, no-cache');
     const again = await as(null).get(`/api/results/${SLUG}`).set('If-None-Match', etag);
     expect(again.status).toBe(304);
     expect(again.text).toBe('');
     // The same version at its own address has the same tag; an older one has another.
     const same = await as(null).get(`/api/results/${SLUG}/v/${first.body.version}`);
     expect(same.headers.etag).toBe(etag);
+    expect(same.headers['cache-control']).toBe('public, no-cache');
     expect(same.body).toEqual(first.body);
     const older = await as(null).get(`/api/results/${SLUG}/v/1`);
     expect(older.headers.etag).not.toBe(etag);

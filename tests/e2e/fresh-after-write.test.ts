@@ -5,6 +5,9 @@
  *
  * Expected grand means are the arithmetic mean of the plot totals (marketable mass summed per
  * plot over the season), computed by hand below.
+ *
+ * And a published sheet: a reader who comes back after the lead published a new version gets
+ * the new version and its place in the version list, not a copy their browser kept.
  */
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -16,6 +19,7 @@ import {
   screenshot,
   watchErrors,
 } from '../support/browser';
+import { publish } from '../../server/results/results-service';
 import { createUser, type TestUser } from '../support/test-app';
 import { insertBlocksTrial, type SmallTrial } from '../support/trial-fixture';
 
@@ -155,6 +159,48 @@ describe('fresh numbers after a write', () => {
 
       const scrollWidth = await page.evaluate(() => document.documentElement.scrollWidth);
       expect(scrollWidth).toBeLessThanOrEqual(viewport.width);
+      expect(errors).toEqual([]);
+      await context.close();
+    });
+});
+
+describe('a published sheet after a new version', () => {
+  for (const viewport of [
+    { width: 360, height: 780 },
+    { width: 1280, height: 900 },
+  ])
+    it(`a signed-out reader who opens it again from the index reads the new version (${viewport.width} px)`, async () => {
+      const slug = `hollowmere-sheet-${viewport.width}`;
+      const title = `Hollowmere runner bean sheet ${viewport.width}`;
+      const ids = await seedTrial(slug, title);
+      const deps = { db: live.db, mail: live.runtime.mail, baseUrl: live.url };
+      const actor = { userId: lead.id, isAdmin: false };
+      await publish(deps, slug, actor, '');
+
+      const context = await contextAs(browser, live, null, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      // Through the index, so the sheet's numbers are fetched by the page (the browser may
+      // keep that answer) rather than embedded in it.
+      const openFromIndex = async () => {
+        await page.goto('/r');
+        await page.getByRole('heading', { level: 1, name: 'Published results sheets' }).waitFor();
+        await page.getByRole('link', { name: new RegExp(title) }).click();
+        await page.waitForURL(`**/r/${slug}`);
+        await page.getByRole('heading', { level: 1, name: title }).waitFor();
+      };
+      await openFromIndex();
+      await page.getByText(/^Version 1, published/).waitFor();
+
+      // A late picking, then version 2 — within seconds, as a lead mending a sheet would.
+      await addHarvest(ids, 103, 900, grower);
+      await publish(deps, slug, actor, 'A late picking at plot 103 added.');
+
+      await openFromIndex();
+      await page.getByText(/^Version 2, published/).waitFor({ timeout: 30_000 });
+      const versions = page.getByRole('navigation', { name: 'Versions' });
+      await versions.getByRole('link', { name: 'Version 1' }).waitFor();
+      await versions.getByText('A late picking at plot 103 added.').waitFor();
       expect(errors).toEqual([]);
       await context.close();
     });
