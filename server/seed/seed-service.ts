@@ -1,12 +1,13 @@
 /**
  * A group's seed: lots and germination tests (coordinators write, members read), which lot each
  * trial entry was sown from, and offers of packets that members ask for and coordinators answer
- * (by mail). Every check goes through the group's entry point, `groupForAction`.
+ * (by mail). Every check goes through the group's entry points: `groupForAction` refuses,
+ * `groupStanding` tells a page what to show.
  */
 import type { z } from 'zod';
 import { utcDateOf } from '../../common/calendar-date';
 import { germinationRate } from '../../common/germination';
-import { type Actor, canGroup, canRequestSeed } from '../../common/policy';
+import { type Actor, canRequestSeed } from '../../common/policy';
 import type {
   answerSeedRequestBody,
   createLotBody,
@@ -28,7 +29,7 @@ import type { DB } from '../../db/database';
 import type { AppDeps } from '../app-deps';
 import { AppError, fieldError } from '../lib/app-error';
 import { composeMail } from '../mail/mailer';
-import { groupForAction, groupRoleOf, trialForAction } from '../trials/trials-service';
+import { groupForAction, groupStanding, trialForAction } from '../trials/trials-service';
 import * as repo from './seed-repository';
 
 type Out<T extends z.ZodType> = z.output<T>;
@@ -64,8 +65,8 @@ async function varietyFor(
 ) {
   const variety = await repo.findVariety(db, slug);
   if (!variety) throw AppError.notFound('The variety');
-  const { role } = await groupForAction(db, variety.group_id, actor, action);
-  return { variety, role };
+  const { allows } = await groupForAction(db, variety.group_id, actor, action);
+  return { variety, allows };
 }
 
 /** A lot and the caller's standing in its variety's group. */
@@ -85,8 +86,8 @@ export async function varietySeed(
   slug: string,
   today = utcDateOf(new Date()),
 ): Promise<VarietySeed> {
-  const { variety, role } = await varietyFor(db, actor, slug, 'seed.read');
-  const canEdit = canGroup(actor, 'seed.edit', role);
+  const { variety, allows } = await varietyFor(db, actor, slug, 'seed.read');
+  const canEdit = allows('seed.edit');
   // Read together: only the lots' tests and sowings wait for the lots.
   const [settings, lots, offers] = await Promise.all([
     repo.groupSettings(db, variety.group_id),
@@ -274,8 +275,7 @@ export async function entryLots(db: DB, actor: Actor | null, slug: string): Prom
   const { trial, access } = await trialForAction(db, slug, actor, 'trial.read');
   const entries = await repo.entriesWithLots(db, trial.id);
   // The lots to choose from are the group's seed records: its people see them.
-  const role = actor && trial.group_id ? await groupRoleOf(db, trial.group_id, actor) : null;
-  const seesLots = canGroup(actor, 'seed.read', role);
+  const seesLots = (await groupStanding(db, trial.group_id, actor)).allows('seed.read');
   const lots = seesLots
     ? await repo.lotsOfVarieties(db, [
         ...new Set(entries.flatMap((e) => (e.variety_id ? [e.variety_id] : []))),
@@ -365,9 +365,8 @@ const whoMayRequest = (offer: { seed_requests_open: boolean; group_name: string 
 export async function offerView(db: DB, actor: Actor | null, offerId: string): Promise<Offer> {
   const offer = await repo.findOffer(db, offerId);
   if (!offer) throw AppError.notFound('The offer');
-  const role = actor ? await groupRoleOf(db, offer.group_id, actor) : null;
-  if (offer.status !== 'open' && !canGroup(actor, 'seed.read', role))
-    throw AppError.notFound('The offer');
+  const { role, allows } = await groupStanding(db, offer.group_id, actor);
+  if (offer.status !== 'open' && !allows('seed.read')) throw AppError.notFound('The offer');
   const verified = actor ? await repo.emailVerified(db, actor.userId) : false;
   const allowed = canRequestSeed(actor, role, { requestsOpen: offer.seed_requests_open }, verified);
   const mine = actor ? await repo.myRequest(db, offer.id, actor.userId) : undefined;
@@ -398,7 +397,7 @@ export async function offerView(db: DB, actor: Actor | null, offerId: string): P
     status: offer.status,
     canRequest: whyNot === null,
     whyNot,
-    canManage: canGroup(actor, 'seed.edit', role),
+    canManage: allows('seed.edit'),
     myRequest: mine
       ? { status: mine.status, createdAt: mine.created_at.toISOString(), answer: mine.answer }
       : null,
@@ -437,7 +436,7 @@ export async function requestPacket(
   const me = signedIn(actor);
   const offer = await repo.findOffer(db, offerId);
   if (!offer) throw AppError.notFound('The offer');
-  const role = await groupRoleOf(db, offer.group_id, me);
+  const { role } = await groupStanding(db, offer.group_id, me);
   const verified = await repo.emailVerified(db, me.userId);
   if (!canRequestSeed(me, role, { requestsOpen: offer.seed_requests_open }, verified)) {
     if (offer.status !== 'open') throw AppError.notFound('The offer');

@@ -75,34 +75,59 @@ export function trialAllows(
   return can(actor, action, membershipAccess(trial, actor));
 }
 
-/** The actor's role in a group, or null outside it. */
-export function groupRoleOf(db: DB, groupId: string, actor: Actor): Promise<GroupRole | null> {
-  return repo.groupRole(db, groupId, actor.userId);
+/**
+ * The actor's standing in a group: their role (null outside it) and what the policy allows them
+ * there. Every group check asks `allows`, so `canGroup` is read in this one place.
+ */
+export interface GroupStanding {
+  role: GroupRole | null;
+  allows(action: GroupAction): boolean;
 }
 
-/** The group, the actor's role in it and whether the policy allows the action: both forms below read this. */
-async function groupAccess(db: DB, groupId: string, actor: Actor | null, action: GroupAction) {
+/**
+ * The standing from a role already read (e.g. all the caller's groups at once, for a list):
+ * the same decision as the entry points below, without a query.
+ */
+export function groupStandingOf(actor: Actor | null, role: GroupRole | null): GroupStanding {
+  return { role, allows: (action) => canGroup(actor, action, role) };
+}
+
+/**
+ * The entry point asked without refusing, for a group known to exist (a variety's, an offer's,
+ * a trial's, which may have none): the actor's standing there, for pages that show more or less
+ * by it. Someone signed out, or no group, costs no query.
+ */
+export async function groupStanding(
+  db: DB,
+  groupId: string | null,
+  actor: Actor | null,
+): Promise<GroupStanding> {
+  const role = actor && groupId ? await repo.groupRole(db, groupId, actor.userId) : null;
+  return groupStandingOf(actor, role);
+}
+
+/** The group and the actor's standing in it, or null if there is no such group: both forms below read this. */
+async function groupAccess(db: DB, groupId: string, actor: Actor | null) {
   const group = await repo.findGroup(db, groupId);
   if (!group) return null;
-  const role = actor ? await repo.groupRole(db, groupId, actor.userId) : null;
-  return { group, role, allowed: canGroup(actor, action, role) };
+  return { group, ...(await groupStanding(db, groupId, actor)) };
 }
 
 /**
  * The same entry point for a group's actions (its register, trials it starts). Someone outside
  * the group, signed in or not, is told it does not exist (404); a member lacking the role gets 403.
+ * The standing returned answers other actions in the group without another query.
  */
 export async function groupForAction(
   db: DB,
   groupId: string,
   actor: Actor | null,
   action: GroupAction,
-): Promise<{ group: { id: string; slug: string; name: string }; role: GroupRole | null }> {
-  const access = await groupAccess(db, groupId, actor, action);
+): Promise<{ group: { id: string; slug: string; name: string } } & GroupStanding> {
+  const access = await groupAccess(db, groupId, actor);
   if (!access) throw AppError.notFound('The group');
-  const { group, role } = access;
-  if (access.allowed) return { group, role };
-  if (!role) throw AppError.notFound('The group');
+  if (access.allows(action)) return access;
+  if (!access.role) throw AppError.notFound('The group');
   throw new AppError('forbidden', 'Your role in this group does not allow this.');
 }
 
@@ -117,7 +142,7 @@ export async function groupAllows(
   actor: Actor | null,
   action: GroupAction,
 ): Promise<boolean> {
-  return (await groupAccess(db, groupId, actor, action))?.allowed ?? false;
+  return (await groupAccess(db, groupId, actor))?.allows(action) ?? false;
 }
 
 export async function trialDetail(

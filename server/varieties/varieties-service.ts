@@ -12,7 +12,7 @@ import type {
   VarietyRecord,
   VarietyTrial,
 } from '../../common/contracts/varieties';
-import { type Actor, canGroup } from '../../common/policy';
+import type { Actor } from '../../common/policy';
 import type { DB } from '../../db/database';
 import type { Trial } from '../../db/schema';
 import {
@@ -25,7 +25,7 @@ import {
 import { AppError } from '../lib/app-error';
 import { maySeePhoto } from '../photos/photos-service';
 import { newAddress } from '../lib/address';
-import { groupForAction, groupRoleOf } from '../trials/trials-service';
+import { groupForAction, groupStanding, groupStandingOf } from '../trials/trials-service';
 import { type Analyse, siteMeans, type TrialFigures, trialFigures } from './variety-figures';
 import * as repo from './varieties-repository';
 
@@ -137,8 +137,7 @@ function varietyColumns(b: Partial<Out<typeof updateVarietyBody>>) {
 async function visibleVariety(db: DB, actor: Actor | null, slug: string) {
   const variety = await repo.findVarietyBySlug(db, slug);
   if (!variety) throw AppError.notFound('The variety');
-  const role = actor ? await groupRoleOf(db, variety.group_id, actor) : null;
-  return { variety, role, inGroup: canGroup(actor, 'register.read', role) };
+  return { variety, ...(await groupStanding(db, variety.group_id, actor)) };
 }
 
 export async function updateVariety(
@@ -190,7 +189,7 @@ export async function varietyRecord(
   actor: Actor | null,
   slug: string,
 ): Promise<VarietyRecord> {
-  const { variety, role, inGroup } = await visibleVariety(db, actor, slug);
+  const { variety, allows } = await visibleVariety(db, actor, slug);
   const figuresOf = figuresOnce(db, actor, 'all');
   const trials: VarietyTrial[] = [];
   const photos: VarietyRecord['photos'] = [];
@@ -251,7 +250,7 @@ export async function varietyRecord(
       });
     }
   }
-  if (!inGroup && trials.length === 0) throw AppError.notFound('The variety');
+  if (!allows('register.read') && trials.length === 0) throw AppError.notFound('The variety');
   // The cover only where this page already shows that photo to the caller (live or published).
   const cover = photos.find((p) => p.id === variety.cover_photo_id);
   return {
@@ -271,7 +270,7 @@ export async function varietyRecord(
         ? { id: cover.id, thumbUrl: cover.thumbUrl, displayUrl: cover.displayUrl }
         : null,
     },
-    canEdit: canGroup(actor, 'register.edit', role),
+    canEdit: allows('register.edit'),
     trials,
     photos,
   };
@@ -306,7 +305,7 @@ export async function compareVarieties(
     const grownVisibly = entries.some(
       (e) => e.entry.varietyId === v.id && visibleTrials.has(e.trial.id),
     );
-    if (!canGroup(actor, 'register.read', role) && !grownVisibly)
+    if (!groupStandingOf(actor, role).allows('register.read') && !grownVisibly)
       throw AppError.notFound(`The variety "${v.slug}"`);
   }
   const traits = [...traitLabels].map(([key, label]) => ({ key, label }));
