@@ -79,14 +79,18 @@ export async function sheetPage(
   const render = await rendererFor(clientDir);
   if (!render) return { meta, markup: null };
   let frozen: FrozenVersion;
+  let offers: TrialOffer[];
   try {
-    frozen = await frozenVersionOf(db, trial, sheet[1] ? Number(sheet[1]) : undefined);
+    // Both need only the trial, already read as published through its entry point: one round
+    // trip for the version's stamp and the trial's open offers.
+    [frozen, offers] = await Promise.all([
+      frozenVersionOf(db, trial, sheet[1] ? Number(sheet[1]) : undefined),
+      openOffersOf(db, trial.id),
+    ]);
   } catch (err) {
     if (err instanceof AppError && err.status === 404) return { meta, markup: null };
     throw err;
   }
-  // The trial is already read as published: only its open offers are asked for.
-  const offers = await openOffersOf(db, trial.id);
   const offersKey = JSON.stringify(offers);
   let byOffers = drawn.get(frozen);
   if (!byOffers) {
