@@ -26,7 +26,13 @@ import { AppError } from '../lib/app-error';
 import { maySeePhoto } from '../photos/photos-service';
 import { newAddress } from '../lib/address';
 import { groupForAction, groupStanding, groupStandingOf } from '../trials/trials-service';
-import { type Analyse, siteMeans, type TrialFigures, trialFigures } from './variety-figures';
+import {
+  type Analyse,
+  readTrial,
+  siteMeans,
+  type TrialFigures,
+  type TrialReading,
+} from './variety-figures';
 import * as repo from './varieties-repository';
 
 type Out<T extends z.ZodType> = z.output<T>;
@@ -171,18 +177,31 @@ export async function updateVariety(
   );
 }
 
-/** Each trial's figures once per request, however many of the chosen varieties it grew. */
-function figuresOnce(db: DB, actor: Actor | null, analyse: Analyse) {
-  const cache = new Map<string, Promise<TrialFigures | null>>();
+type ReadingOf = (trial: Trial) => Promise<TrialReading | null>;
+
+/** Each trial once per request, keyed by its id, however many of the chosen varieties it grew. */
+function oncePerTrial<T>(read: (trial: Trial) => Promise<T>) {
+  const cache = new Map<string, Promise<T>>();
   return (trial: Trial) => {
     let f = cache.get(trial.id);
     if (!f) {
-      f = trialFigures(db, actor, trial, analyse);
+      f = read(trial);
       cache.set(trial.id, f);
     }
     return f;
   };
 }
+
+/** Each trial read once per request, whichever traits are then analysed of it. */
+const readingsOnce = (db: DB, actor: Actor | null): ReadingOf =>
+  oncePerTrial((trial) => readTrial(db, actor, trial));
+
+/** Each trial's figures for the traits chosen, analysed once from its one reading. */
+const figuresOnce = (readingOf: ReadingOf, analyse: Analyse) =>
+  oncePerTrial(async (trial): Promise<TrialFigures | null> => {
+    const reading = await readingOf(trial);
+    return reading && { ...reading, ...(await reading.analyse(analyse)) };
+  });
 
 export async function varietyRecord(
   db: DB,
@@ -190,7 +209,7 @@ export async function varietyRecord(
   slug: string,
 ): Promise<VarietyRecord> {
   const { variety, allows } = await visibleVariety(db, actor, slug);
-  const figuresOf = figuresOnce(db, actor, 'all');
+  const figuresOf = figuresOnce(readingsOnce(db, actor), 'all');
   const trials: VarietyTrial[] = [];
   const photos: VarietyRecord['photos'] = [];
   for (const { entry, trial } of await repo.entriesOfVarieties(db, [variety.id])) {
@@ -297,7 +316,9 @@ export async function compareVarieties(
     db,
     chosen.map((v) => v.id),
   );
-  const { traitLabels, visibleTrials } = await visibleTraits(db, actor, entries);
+  // Each trial is read once: first to list its traits, then to analyse the one chosen.
+  const readingOf = readingsOnce(db, actor);
+  const { traitLabels, visibleTrials } = await visibleTraits(readingOf, entries);
   // A variety is compared only when the caller may see it (group member or a visible trial).
   const myGroups = actor ? await repo.groupsOf(db, actor.userId) : [];
   for (const v of chosen) {
@@ -311,8 +332,7 @@ export async function compareVarieties(
   const traits = [...traitLabels].map(([key, label]) => ({ key, label }));
   const traitKey = chosenTraitKey(traitLabels, q.trait);
   const { trait, columns, cells } = await environmentMeans(
-    db,
-    actor,
+    readingOf,
     entries,
     visibleTrials,
     traitKey,
@@ -359,12 +379,11 @@ export async function compareVarieties(
 type VarietyEntries = Awaited<ReturnType<typeof repo.entriesOfVarieties>>;
 
 /** Every trait of every trial (of these entries) whose figures the caller may see. */
-async function visibleTraits(db: DB, actor: Actor | null, entries: VarietyEntries) {
-  const listed = figuresOnce(db, actor, 'none');
+async function visibleTraits(readingOf: ReadingOf, entries: VarietyEntries) {
   const traitLabels = new Map<string, string>();
   const visibleTrials = new Set<string>();
   for (const { trial } of entries) {
-    const f = await listed(trial);
+    const f = await readingOf(trial);
     if (!f) continue;
     visibleTrials.add(trial.id);
     for (const t of f.traits) if (!traitLabels.has(t.key)) traitLabels.set(t.key, t.label);
@@ -392,8 +411,7 @@ function chosenTraitKey(traitLabels: Map<string, string>, asked: string | undefi
  * site (an environment), oldest season first; `cells` by variety id, then column.
  */
 async function environmentMeans(
-  db: DB,
-  actor: Actor | null,
+  readingOf: ReadingOf,
   entries: VarietyEntries,
   visibleTrials: Set<string>,
   traitKey: string | undefined,
@@ -402,7 +420,7 @@ async function environmentMeans(
   const cells = new Map<string, Map<number, number>>();
   let trait: Comparison['trait'] = null;
   if (traitKey === undefined) return { trait, columns, cells };
-  const figuresOf = figuresOnce(db, actor, { trait: traitKey });
+  const figuresOf = figuresOnce(readingOf, { trait: traitKey });
   const columnIndex = new Map<string, number>();
   for (const { entry, trial: row } of entries) {
     if (!visibleTrials.has(row.id)) continue;
@@ -461,11 +479,12 @@ export async function varietyStability(
     db,
     ofCrop.map((v) => v.id),
   );
-  const { traitLabels, visibleTrials } = await visibleTraits(db, actor, entries);
+  // Each trial is read once: first to list its traits, then to analyse the one chosen.
+  const readingOf = readingsOnce(db, actor);
+  const { traitLabels, visibleTrials } = await visibleTraits(readingOf, entries);
   const traitKey = chosenTraitKey(traitLabels, q.trait);
   const { trait, columns, cells } = await environmentMeans(
-    db,
-    actor,
+    readingOf,
     entries,
     visibleTrials,
     traitKey,

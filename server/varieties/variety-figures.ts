@@ -25,16 +25,22 @@ export interface TraitFigures {
   plotValues: { entry: string; site: string; value: number }[];
 }
 
-export interface TrialFigures {
+/** What a caller may see of a trial, read once; its traits are analysed on demand. */
+export interface TrialReading {
   view: 'trial' | 'sheet';
   version: number | null;
   /** Entry id → the name its means are kept under. */
   entryNames: Map<string, string>;
   /** Every trait of the trial (the analysed ones are in `figures`). */
   traits: { key: string; label: string }[];
+  snapshot: ResultSnapshot | null;
+  /** The figures of the traits chosen, from what was read (live: one analysis per trait). */
+  analyse(which: Analyse): Promise<{ figures: TraitFigures[]; warnings: string[] }>;
+}
+
+export interface TrialFigures extends TrialReading {
   figures: TraitFigures[];
   warnings: string[];
-  snapshot: ResultSnapshot | null;
 }
 
 function fromAnalysis(a: TrialAnalysis): TraitFigures {
@@ -81,13 +87,15 @@ export type Analyse = 'all' | 'none' | { trait: string };
 const wanted = (analyse: Analyse, key: string) =>
   analyse === 'all' || (analyse !== 'none' && analyse.trait === key);
 
-/** The trial's figures for this caller, or null when the caller may see none. */
-export async function trialFigures(
+/**
+ * What this caller may see of the trial, or null when nothing: the trial's own records for its
+ * members, else its latest published version. Nothing is analysed yet.
+ */
+export async function readTrial(
   db: DB,
   actor: Actor | null,
   trial: Trial,
-  analyse: Analyse,
-): Promise<TrialFigures | null> {
+): Promise<TrialReading | null> {
   const { access } = await loadTrialAccess(db, trial, actor);
   if (can(actor, 'trial.read', access)) {
     const [traits, settings, entries] = await Promise.all([
@@ -95,31 +103,32 @@ export async function trialFigures(
       repo.sheetSettings(db, trial.id),
       repo.trialEntryNames(db, trial.id),
     ]);
-    const figures: TraitFigures[] = [];
-    const warnings: string[] = [];
-    for (const t of traits) {
-      if (!wanted(analyse, t.key)) continue;
-      try {
-        const a = await analyseTrialTrait(db, trial, {
-          trait: t.key,
-          basis: 'plot',
-          alpha: settings?.alpha ?? 0.05,
-          letters: settings?.letters ?? 'hsd',
-        });
-        figures.push(fromAnalysis(a));
-      } catch (err) {
-        if (!(err instanceof AppError) || err.status >= 500) throw err;
-        warnings.push(`${t.label}: ${err.message}`);
-      }
-    }
     return {
       view: 'trial',
       version: null,
       entryNames: new Map(entries.map((e) => [e.id, e.name])),
       traits: traits.map((t) => ({ key: t.key, label: t.label })),
-      figures,
-      warnings,
       snapshot: null,
+      async analyse(which) {
+        const figures: TraitFigures[] = [];
+        const warnings: string[] = [];
+        for (const t of traits) {
+          if (!wanted(which, t.key)) continue;
+          try {
+            const a = await analyseTrialTrait(db, trial, {
+              trait: t.key,
+              basis: 'plot',
+              alpha: settings?.alpha ?? 0.05,
+              letters: settings?.letters ?? 'hsd',
+            });
+            figures.push(fromAnalysis(a));
+          } catch (err) {
+            if (!(err instanceof AppError) || err.status >= 500) throw err;
+            warnings.push(`${t.label}: ${err.message}`);
+          }
+        }
+        return { figures, warnings };
+      },
     };
   }
   if (trial.status !== 'published') return null;
@@ -135,11 +144,14 @@ export async function trialFigures(
     version: snapshot.version,
     entryNames: new Map(snapshot.entries.map((e) => [e.id, e.name])),
     traits: snapshot.traits.map((t) => ({ key: t.key, label: t.label })),
-    figures: snapshot.traits
-      .filter((t) => wanted(analyse, t.key))
-      .map((t) => fromSnapshot(snapshot, t)),
-    warnings: [],
     snapshot,
+    analyse: (which) =>
+      Promise.resolve({
+        figures: snapshot.traits
+          .filter((t) => wanted(which, t.key))
+          .map((t) => fromSnapshot(snapshot, t)),
+        warnings: [],
+      }),
   };
 }
 

@@ -9,11 +9,15 @@
  * is 1 + the number of entries with a better mean in the trait's direction (common practice,
  * no source), checked for a higher-is-better and a lower-is-better trait.
  */
+import { Kysely, PostgresDialect } from 'kysely';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { DB } from '../../db/database';
 import { migrations } from '../../db/migrations';
+import type { Database } from '../../db/schema';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { seedDemo } from '../../db/seed/seed';
+import { compareVarieties } from '../../server/varieties/varieties-service';
 import {
   createTestApp,
   createUser,
@@ -431,6 +435,39 @@ describe('GET /api/varieties/compare', () => {
       sharedEnvironments: 0,
       difference: null,
     });
+  }, 60_000);
+
+  it('reads each trial once: its traits listed and the chosen one analysed from that reading', async () => {
+    // Every statement the comparison sends, through a second Kysely on the same pool.
+    const sent: { sql: string; parameters: readonly unknown[] }[] = [];
+    const logged: DB = new Kysely<Database>({
+      dialect: new PostgresDialect({ pool: t.database.pool }),
+      log: (e) => {
+        if (e.level === 'query') sent.push({ sql: e.query.sql, parameters: e.query.parameters });
+      },
+    });
+    const lead = demoAccounts.find((a) => a.key === 'lead')!;
+    const { id: userId } = await t.db
+      .selectFrom('users')
+      .select('id')
+      .where('email', '=', lead.email)
+      .executeTakeFirstOrThrow();
+    const c = await compareVarieties(
+      logged,
+      { userId, isAdmin: false },
+      {
+        varieties: ['velvet-lantern', 'mossbank-long', 'pennywhistle-wax'],
+        trait: 'marketable_yield',
+      },
+    );
+    expect(c.columns.length).toBeGreaterThan(0);
+    // The trial's trait list, as the reading asks it: once per trial, not again for the analysis.
+    const traitLists = sent.filter((q) => q.sql.startsWith('select "key", "label" from "traits"'));
+    const perTrial = new Map<unknown, number>();
+    for (const q of traitLists)
+      perTrial.set(q.parameters[0], (perTrial.get(q.parameters[0]) ?? 0) + 1);
+    expect(perTrial.size).toBeGreaterThanOrEqual(2);
+    expect([...perTrial.values()]).toEqual([...perTrial.values()].map(() => 1));
   }, 60_000);
 
   it('keeps hidden varieties hidden and checks its input', async () => {
