@@ -89,8 +89,8 @@ describe('season journey', () => {
     const phone = await reader.newPage();
     const readerErrors = watchErrors(phone);
     await phone.goto(`/r/${SLUG}`);
-    // The sheet arrives drawn by the server; the page's own controls show once the client holds it.
-    await phone.getByRole('button', { name: 'Print' }).waitFor();
+    // The sheet arrives drawn by the server; its Print works once the client holds it.
+    await phone.getByRole('button', { name: 'Print', disabled: false }).waitFor();
     await phone
       .getByRole('heading', { level: 1, name: 'Larkhaven heirloom okra, three gardens' })
       .waitFor();

@@ -1,7 +1,6 @@
 import { utcDateOf } from '@common/calendar-date';
 import { lazy, Suspense, useLayoutEffect, useRef } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { Button } from '@/components/ui/button';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import {
@@ -12,6 +11,7 @@ import {
 import { usePublishedSheet } from '../api/get-published-sheet';
 import { useTrialOffers } from '../api/get-trial-offers';
 import { useVersions } from '../api/get-versions';
+import { SheetToolbar } from '../components/sheet-toolbar';
 import type { ResultSnapshot } from '@common/contracts/results';
 import type { TrialOffer } from '@common/contracts/seed';
 
@@ -59,7 +59,6 @@ export function Component() {
 
   if (isPending) return <Spinner label="Loading the results…" />;
   if (error) return <ErrorPanel error={error} title="These results are not available" />;
-  const base = `/api/results/${sheet.trial.slug}/v/${sheet.version}`;
   return (
     // Nothing of the page shows above the server's drawing while the client's loads.
     <Suspense
@@ -68,41 +67,7 @@ export function Component() {
       }
     >
       <div>
-        <div className="no-print mb-4 flex flex-wrap items-center gap-2">
-          <Button type="button" variant="secondary" onClick={() => window.print()}>
-            Print
-          </Button>
-          <a
-            className="inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-3 font-semibold text-leaf-700"
-            href={`${base}/sheet.pdf?size=a4`}
-          >
-            PDF (A4)
-          </a>
-          <a
-            className="inline-flex min-h-11 items-center rounded-lg border border-leaf-700 bg-white px-3 font-semibold text-leaf-700"
-            href={`${base}/sheet.pdf?size=letter`}
-          >
-            PDF (Letter)
-          </a>
-          <a
-            className="inline-flex min-h-11 items-center rounded-lg px-3 font-semibold text-leaf-700 underline"
-            href={`${base}/means.csv`}
-          >
-            Means (CSV)
-          </a>
-          <a
-            className="inline-flex min-h-11 items-center rounded-lg px-3 font-semibold text-leaf-700 underline"
-            href={`${base}/plots.csv`}
-          >
-            Plot data (CSV)
-          </a>
-          <a
-            className="inline-flex min-h-11 items-center rounded-lg px-3 font-semibold text-leaf-700 underline"
-            href={`${base}/results.json`}
-          >
-            All numbers (JSON)
-          </a>
-        </div>
+        <SheetToolbar sheet={sheet} printable />
         <SheetOverDrawing sheet={sheet} offers={offers?.offers} />
         {versions && versions.versions.length > 1 ? (
           <nav aria-label="Versions" className="no-print mx-auto mt-6 max-w-4xl">
