@@ -2,7 +2,7 @@ import { entryLotsSchema, type SetEntryLotBody } from '@common/contracts/seed';
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useCallback } from 'react';
 import { api } from '@/lib/api-client';
-import { trialKeys } from '@/lib/trial-keys';
+import { invalidateSeed, trialKeys } from '@/lib/trial-keys';
 
 /** GET /api/trials/:slug/entry-lots: the lot each entry was sown from, and its variety's lots. */
 export const getEntryLots = (slug: string) =>
@@ -13,7 +13,7 @@ export const entryLotsQueryOptions = (slug: string) =>
 
 export const useEntryLots = (slug: string) => useQuery(entryLotsQueryOptions(slug));
 
-/** PUT /api/trials/:slug/entry-lots/:entryId (trial leads); the lots' pages read again after. */
+/** PUT /api/trials/:slug/entry-lots/:entryId (trial leads); then the seed views read again. */
 export function useSetEntryLot(slug: string) {
   const queryClient = useQueryClient();
   return useCallback(
@@ -22,10 +22,8 @@ export function useSetEntryLot(slug: string) {
         method: 'PUT',
         body,
       });
-      await Promise.all([
-        queryClient.invalidateQueries({ queryKey: trialKeys.entryLots(slug) }),
-        queryClient.invalidateQueries({ queryKey: trialKeys.varietySeeds() }),
-      ]);
+      // A lot's sowings are seed facts: the variety's seed page lists them beside its stands.
+      await invalidateSeed(queryClient);
     },
     [queryClient, slug],
   );
