@@ -321,6 +321,11 @@ describe('the sheet drawn on the server', () => {
       await print.waitFor();
       await expect(page.locator('#sheet-prerender').count()).resolves.toBe(0);
       const mounted = await sheetPlace(page);
+      await page.waitForFunction(() =>
+        (window as unknown as { sheetFrames: { client: boolean }[] }).sheetFrames.some(
+          (f) => f.client,
+        ),
+      );
       const frames = await page.evaluate(
         () =>
           (
@@ -382,6 +387,49 @@ describe('the sheet drawn on the server', () => {
         page.evaluate(() => (window as unknown as { printed: number }).printed),
       ).resolves.toBe(1);
       await expectNoSeriousA11yViolations(page, `sheet at ${viewport.width}px`);
+      expect(errors).toEqual([]);
+      await context.close();
+    }
+  });
+
+  // Last in this file: it publishes a second version.
+  it('an older version’s page does not move either when the versions list and the follow form come in below', async () => {
+    const leadRow = await live.db
+      .selectFrom('users')
+      .select('id')
+      .where('email', '=', lead.email)
+      .executeTakeFirstOrThrow();
+    await publish(
+      { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
+      SLUG,
+      { userId: leadRow.id, isAdmin: false },
+      'Republished unchanged, to have a second version.',
+    );
+    for (const viewport of viewports) {
+      const context = await contextAs(browser, live, null, viewport);
+      const page = await context.newPage();
+      const errors = watchErrors(page);
+      let release!: () => void;
+      const released = new Promise<void>((resolve) => (release = resolve));
+      await page.route('**/assets/sheet-view-*.js', async (route) => {
+        await released;
+        await route.continue();
+      });
+      await page.goto(`/r/${SLUG}/v/1`, { waitUntil: 'commit' });
+      await page.locator('main #sheet-prerender').waitFor({ state: 'attached' });
+      await page.getByRole('link', { name: 'Sign in' }).waitFor();
+      const drawn = await sheetPlace(page);
+      release();
+      await page.getByRole('button', { name: 'Print', disabled: false }).waitFor();
+      await page.getByRole('navigation', { name: 'Versions' }).getByRole('link').first().waitFor();
+      await page
+        .getByRole('button', { name: /follow/i })
+        .first()
+        .waitFor();
+      const mounted = await sheetPlace(page);
+      expect(Math.abs(mounted.ranking - drawn.ranking)).toBeLessThanOrEqual(2);
+      expect(drawn.links[0]).toBe(`/api/results/${SLUG}/v/1/sheet.pdf?size=a4`);
+      expect(mounted.links).toEqual(drawn.links);
       expect(errors).toEqual([]);
       await context.close();
     }
