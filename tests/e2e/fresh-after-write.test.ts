@@ -15,11 +15,11 @@ import {
   closeBrowserSuite,
   contextAs,
   openBrowserSuite,
+  publishAs,
   type LiveApp,
   screenshot,
   watchErrors,
 } from '../support/browser';
-import { publish } from '../../server/results/results-service';
 import { createUser, type TestUser } from '../support/test-app';
 import { insertBlocksTrial, type SmallTrial } from '../support/trial-fixture';
 
@@ -173,9 +173,7 @@ describe('a published sheet after a new version', () => {
       const slug = `hollowmere-sheet-${viewport.width}`;
       const title = `Hollowmere runner bean sheet ${viewport.width}`;
       const ids = await seedTrial(slug, title);
-      const deps = { db: live.db, mail: live.runtime.mail, baseUrl: live.url };
-      const actor = { userId: lead.id, isAdmin: false };
-      await publish(deps, slug, actor, '');
+      await publishAs(live, lead.email, slug);
 
       const context = await contextAs(browser, live, null, viewport);
       const page = await context.newPage();
@@ -194,7 +192,7 @@ describe('a published sheet after a new version', () => {
 
       // A late picking, then version 2 — within seconds, as a lead mending a sheet would.
       await addHarvest(ids, 103, 900, grower);
-      await publish(deps, slug, actor, 'A late picking at plot 103 added.');
+      await publishAs(live, lead.email, slug, 'A late picking at plot 103 added.');
 
       await openFromIndex();
       await page.getByText(/^Version 2, published/).waitFor({ timeout: 30_000 });

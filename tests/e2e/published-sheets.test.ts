@@ -6,12 +6,12 @@
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
-import { publish } from '../../server/results/results-service';
 import {
   closeBrowserSuite,
   contextAs,
   expectNoSeriousA11yViolations,
   openBrowserSuite,
+  publishAs,
   type LiveApp,
   screenshot,
   watchErrors,
@@ -27,17 +27,7 @@ const lead = demoAccounts.find((a) => a.key === 'lead')!;
 
 beforeAll(async () => {
   ({ live, browser } = await openBrowserSuite({ demo: true }));
-  const leadRow = await live.db
-    .selectFrom('users')
-    .select('id')
-    .where('email', '=', lead.email)
-    .executeTakeFirstOrThrow();
-  await publish(
-    { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
-    SLUG,
-    { userId: leadRow.id, isAdmin: false },
-    '',
-  );
+  await publishAs(live, lead.email, SLUG);
   outsider = await createUser(live.db, { name: 'Oswin Tarrant' });
 }, 120_000);
 afterAll(() => closeBrowserSuite(live, browser));
@@ -394,17 +384,7 @@ describe('the sheet drawn on the server', () => {
 
   // Last in this file: it publishes a second version.
   it('an older version’s page does not move either when the versions list and the follow form come in below', async () => {
-    const leadRow = await live.db
-      .selectFrom('users')
-      .select('id')
-      .where('email', '=', lead.email)
-      .executeTakeFirstOrThrow();
-    await publish(
-      { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
-      SLUG,
-      { userId: leadRow.id, isAdmin: false },
-      'Republished unchanged, to have a second version.',
-    );
+    await publishAs(live, lead.email, SLUG, 'Republished unchanged, to have a second version.');
     for (const viewport of viewports) {
       const context = await contextAs(browser, live, null, viewport);
       const page = await context.newPage();

@@ -6,13 +6,13 @@ import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoAccounts } from '../../db/seed/demo-season';
 import { SPLIT_PLOT_SLUG, seedSplitPlotTrial } from '../../db/seed/demo-split-plot';
-import { publish } from '../../server/results/results-service';
 import {
   closeBrowserSuite,
   contextAs,
   expectNoSeriousA11yViolations,
   type LiveApp,
   openBrowserSuite,
+  publishAs,
   screenshot,
   watchErrors,
 } from '../support/browser';
@@ -24,17 +24,7 @@ const lead = demoAccounts.find((a) => a.key === 'lead')!;
 beforeAll(async () => {
   ({ live, browser } = await openBrowserSuite({ demo: true }));
   await seedSplitPlotTrial(live.db);
-  const leadRow = await live.db
-    .selectFrom('users')
-    .select('id')
-    .where('email', '=', lead.email)
-    .executeTakeFirstOrThrow();
-  await publish(
-    { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
-    SPLIT_PLOT_SLUG,
-    { userId: leadRow.id, isAdmin: false },
-    '',
-  );
+  await publishAs(live, lead.email, SPLIT_PLOT_SLUG);
 }, 120_000);
 afterAll(() => closeBrowserSuite(live, browser));
 

@@ -7,6 +7,7 @@ import { type Browser, type BrowserContext, chromium, type Page } from 'playwrig
 import { seedDemo } from '../../db/seed/seed';
 import { defaultClientDir } from '../../server/app';
 import { freePort } from '../../db/pg-server';
+import { publish } from '../../server/results/results-service';
 import { createTestApp, mintSessionCookie, type TestApp, type TestUser } from './test-app';
 
 export const screenshotDir = path.resolve('.test-artifacts', 'screenshots');
@@ -112,6 +113,21 @@ export async function openBrowserSuite(opts: {
   const live = await startLiveApp();
   if (opts.demo) await seedDemo(live.db);
   return { live, browser: await launchBrowser() };
+}
+
+/** Publishes a version of the trial's results sheet on the live app, as the user with this e-mail. */
+export async function publishAs(live: LiveApp, email: string, slug: string, changeNote = '') {
+  const { id } = await live.db
+    .selectFrom('users')
+    .select('id')
+    .where('email', '=', email)
+    .executeTakeFirstOrThrow();
+  return publish(
+    { db: live.db, mail: live.runtime.mail, baseUrl: live.url },
+    slug,
+    { userId: id, isAdmin: false },
+    changeNote,
+  );
 }
 
 export async function closeBrowserSuite(
