@@ -137,8 +137,10 @@ function varietyColumns(b: Partial<Out<typeof updateVarietyBody>>) {
 }
 
 /**
- * A variety the caller may see: in one of their groups' registers, or grown in a trial whose
- * figures they may see (its members; anyone once its results are published). Otherwise 404.
+ * The variety by its address (404 if there is none) and the caller's standing in its group. The
+ * caller may see it if it is in one of their groups' registers, or grown in a trial whose figures
+ * they may see (its members; anyone once its results are published): the page decides the
+ * second, from the trials it reads, and answers 404 when neither holds.
  */
 async function visibleVariety(db: DB, actor: Actor | null, slug: string) {
   const variety = await repo.findVarietyBySlug(db, slug);
