@@ -132,12 +132,22 @@ export async function trialParts(db: DB, trialId: string) {
   return { sites, entries, traits, tallies };
 }
 
-export function findGroup(db: DB, groupId: string) {
-  return db
-    .selectFrom('groups')
-    .select(['id', 'slug', 'name'])
-    .where('id', '=', groupId)
+/** The group and the user's role in it (null outside it, or for no user), in one query. */
+export async function findGroupWithRole(db: DB, groupId: string, userId: string | null) {
+  const row = await db
+    .selectFrom('groups as g')
+    .leftJoin('group_members as gm', (join) =>
+      join
+        .onRef('gm.group_id', '=', 'g.id')
+        // Signed out: `= NULL` matches no member row, so the role comes back null.
+        .on('gm.user_id', '=', sql<string>`${userId}`),
+    )
+    .select(['g.id', 'g.slug', 'g.name', 'gm.role'])
+    .where('g.id', '=', groupId)
     .executeTakeFirst();
+  if (!row) return undefined;
+  const { role, ...group } = row;
+  return { group, role: role ?? null };
 }
 
 export async function groupRole(db: DB, groupId: string, userId: string) {

@@ -108,9 +108,9 @@ export async function groupStanding(
 
 /** The group and the actor's standing in it, or null if there is no such group: both forms below read this. */
 async function groupAccess(db: DB, groupId: string, actor: Actor | null) {
-  const group = await repo.findGroup(db, groupId);
-  if (!group) return null;
-  return { group, ...(await groupStanding(db, groupId, actor)) };
+  const found = await repo.findGroupWithRole(db, groupId, actor?.userId ?? null);
+  if (!found) return null;
+  return { group: found.group, ...groupStandingOf(actor, found.role) };
 }
 
 /**
