@@ -6,13 +6,10 @@
  * 2.4.3 Focus Order: focus moves in an order that keeps meaning and operability).
  */
 import type { GerminationTest } from '@common/contracts/seed';
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { act, fireEvent, render, screen, waitFor } from '@testing-library/react';
-import { MemoryRouter, Route, Routes } from 'react-router-dom';
+import { act, fireEvent, screen, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { Component as VarietySeedPage } from '../../src/features/seed/routes/variety-seed-route';
-import { sessionKeys } from '../../src/lib/session';
 import { brookRunnerSeed } from '../support/variety-fixtures';
+import { renderBrookRunnerSeedPage } from '../support/variety-seed-page';
 
 const test = (n: number, testedOn: string, germinated: number): GerminationTest => ({
   id: `00000000-0000-4000-8000-00000000000${n}`,
@@ -49,17 +46,7 @@ function openPage(held: GerminationTest[]) {
     }),
   );
   vi.stubGlobal('confirm', () => true);
-  const client = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  client.setQueryData(sessionKeys.me, null);
-  render(
-    <QueryClientProvider client={client}>
-      <MemoryRouter initialEntries={['/varieties/brook-runner/seed']}>
-        <Routes>
-          <Route path="/varieties/:slug/seed" element={<VarietySeedPage />} />
-        </Routes>
-      </MemoryRouter>
-    </QueryClientProvider>,
-  );
+  renderBrookRunnerSeedPage();
   return { answer: () => act(() => answer()) };
 }
 

@@ -4,13 +4,10 @@
  * offers to start a new offer. The product's own behaviour; no outside source applies.
  */
 import type { VarietySeed } from '@common/contracts/seed';
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { fireEvent, render, screen, waitFor } from '@testing-library/react';
-import { MemoryRouter, Route, Routes } from 'react-router-dom';
+import { fireEvent, screen, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { Component as VarietySeedPage } from '../../src/features/seed/routes/variety-seed-route';
-import { sessionKeys } from '../../src/lib/session';
 import { brookRunnerSeed, fixtureLotId } from '../support/variety-fixtures';
+import { renderBrookRunnerSeedPage } from '../support/variety-seed-page';
 
 const offerId = '00000000-0000-4000-8000-0000000000f1';
 
@@ -52,17 +49,7 @@ function openPage(patch: () => Response) {
       return json(seedWith(status));
     }),
   );
-  const client = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  client.setQueryData(sessionKeys.me, null);
-  render(
-    <QueryClientProvider client={client}>
-      <MemoryRouter initialEntries={['/varieties/brook-runner/seed']}>
-        <Routes>
-          <Route path="/varieties/:slug/seed" element={<VarietySeedPage />} />
-        </Routes>
-      </MemoryRouter>
-    </QueryClientProvider>,
-  );
+  renderBrookRunnerSeedPage();
 }
 
 describe('closing a seed offer', () => {
