@@ -132,8 +132,9 @@ export function blockTreatmentVarietyCells(input: TwoFactorLayout): {
 export function balancedTwoFactorProblem(
   input: TwoFactorLayout,
   /** The treatment under the trial's (or the column's) own name, as the lead sees it. */
-  factor = 'treatment',
-  cells: { missing: string[]; repeated: number } = blockTreatmentVarietyCells(input),
+  factor: string,
+  /** blockTreatmentVarietyCells(input), which the caller also counts the missing plots from. */
+  cells: ReturnType<typeof blockTreatmentVarietyCells>,
 ): string | null {
   const r = input.block.levels.length;
   const a = input.treatment.levels.length;
