@@ -45,11 +45,8 @@ beforeAll(async () => {
     entryNames: ['Ashen Crookneck', 'Tallow Pie', 'Verdigris Turban'],
     blocks: 3,
     trait: vigorScoreTrait,
+    leadId: lead.id,
   });
-  await t.db
-    .insertInto('trial_members')
-    .values({ trial_id: trial.trialId, user_id: lead.id, role: 'lead' })
-    .execute();
   await t.db
     .insertInto('observations')
     .values(

@@ -30,11 +30,8 @@ beforeAll(async () => {
     entryNames: ['Cobalt Runner', 'Marrow Fat'],
     blocks: 2,
     trait: vigorScoreTrait,
+    leadId: lead.id,
   });
-  await t.db
-    .insertInto('trial_members')
-    .values({ trial_id: trial.trialId, user_id: lead.id, role: 'lead' })
-    .execute();
   cookie = await mintSessionCookie(t, lead);
 }, 60_000);
 afterAll(async () => {

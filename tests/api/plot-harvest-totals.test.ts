@@ -40,11 +40,8 @@ beforeAll(async () => {
     entryNames: ['Amber Lantern', 'Drumlin Green', 'Saltmarsh Gold'],
     blocks: 2,
     trait: vigorScoreTrait,
+    leadId: lead.id,
   });
-  await t.db
-    .insertInto('trial_members')
-    .values({ trial_id: trial.trialId, user_id: lead.id, role: 'lead' })
-    .execute();
   cookie = await mintSessionCookie(t, lead);
 }, 60_000);
 afterAll(async () => {

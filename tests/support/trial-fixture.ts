@@ -1,6 +1,7 @@
 /**
  * A small randomized-complete-blocks trial written straight into the database: one site,
- * the given entries in every block (plot number = block × 100 + position), one trait.
+ * the given entries in every block (plot number = block × 100 + position), one trait, and its
+ * lead when one is named.
  */
 import type { Insertable } from 'kysely';
 import type { DB } from '../../db/database';
@@ -35,6 +36,8 @@ export async function insertBlocksTrial(
     entryNames: string[];
     blocks: number;
     trait: Omit<Insertable<Database['traits']>, 'trial_id'>;
+    /** A user made the trial's lead. */
+    leadId?: string;
   },
 ): Promise<SmallTrial> {
   const trial = await db
@@ -80,6 +83,11 @@ export async function insertBlocksTrial(
     )
     .returning(['id', 'plot_number'])
     .execute();
+  if (opts.leadId)
+    await db
+      .insertInto('trial_members')
+      .values({ trial_id: trial.id, user_id: opts.leadId, role: 'lead' })
+      .execute();
   return {
     trialId: trial.id,
     siteId: site.id,
