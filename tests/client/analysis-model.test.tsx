@@ -11,12 +11,8 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { AnalysisModel } from '../../common/contracts/analysis';
 import { analyzeCsv } from '../../server/analysis/engine/analyze';
 import { Component as TrialAnalysis } from '../../src/features/analysis/routes/trial-analysis-route';
-import {
-  analysisAnswer,
-  analysisCsv as csv,
-  jsonAnswer as json,
-  okraTrial as trial,
-} from '../support/analysis-page';
+import { analysisAnswer, analysisCsv as csv, okraTrial as trial } from '../support/analysis-page';
+import { jsonResponse } from '../support/record-log-fixture';
 
 afterEach(() => vi.unstubAllGlobals());
 
@@ -26,15 +22,16 @@ function renderPage(design: 'crd' | 'rcbd' | 'multisite') {
     'fetch',
     vi.fn(async (input: string) => {
       const url = new URL(input, 'http://127.0.0.1');
-      if (url.pathname === '/api/trials/wend-hollow-okra') return json(trial(design));
+      if (url.pathname === '/api/trials/wend-hollow-okra') return jsonResponse(200, trial(design));
       if (url.pathname.endsWith('/analysis')) {
         asked.push(url);
-        return json(
+        return jsonResponse(
+          200,
           analysisAnswer((url.searchParams.get('model') ?? 'anova') as AnalysisModel, design),
         );
       }
       // The ranking, season and session panels are not what this test is about.
-      return json({ error: { code: 'not_found', message: 'Not here.' } }, 404);
+      return jsonResponse(404, { error: { code: 'not_found', message: 'Not here.' } });
     }),
   );
   render(

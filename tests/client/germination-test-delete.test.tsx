@@ -8,6 +8,7 @@
 import type { GerminationTest } from '@common/contracts/seed';
 import { act, fireEvent, screen, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
+import { jsonResponse } from '../support/record-log-fixture';
 import { brookRunnerSeed } from '../support/variety-fixtures';
 import { renderBrookRunnerSeedPage } from '../support/variety-seed-page';
 
@@ -39,10 +40,7 @@ function openPage(held: GerminationTest[]) {
         left = left.filter((t) => !url.endsWith(`/tests/${t.id}`));
         return new Response(null, { status: 204 });
       }
-      return new Response(JSON.stringify(brookRunnerSeed(left)), {
-        status: 200,
-        headers: { 'Content-Type': 'application/json' },
-      });
+      return jsonResponse(200, brookRunnerSeed(left));
     }),
   );
   vi.stubGlobal('confirm', () => true);

@@ -6,6 +6,7 @@
 import type { VarietySeed } from '@common/contracts/seed';
 import { fireEvent, screen, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
+import { jsonResponse } from '../support/record-log-fixture';
 import { brookRunnerSeed, fixtureLotId } from '../support/variety-fixtures';
 import { renderBrookRunnerSeedPage } from '../support/variety-seed-page';
 
@@ -29,9 +30,6 @@ const seedWith = (status: 'open' | 'closed'): VarietySeed =>
     true,
   );
 
-const json = (body: unknown, status = 200) =>
-  new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
-
 afterEach(() => vi.unstubAllGlobals());
 
 /** The page against a server whose PATCH answers with `patch`. */
@@ -45,8 +43,8 @@ function openPage(patch: () => Response) {
         if (answer.ok) status = 'closed';
         return answer;
       }
-      if (url.endsWith('/requests')) return json({ requests: [] });
-      return json(seedWith(status));
+      if (url.endsWith('/requests')) return jsonResponse(200, { requests: [] });
+      return jsonResponse(200, seedWith(status));
     }),
   );
   renderBrookRunnerSeedPage();
@@ -55,10 +53,9 @@ function openPage(patch: () => Response) {
 describe('closing a seed offer', () => {
   it('shows the server’s refusal and leaves the offer open', async () => {
     openPage(() =>
-      json(
-        { error: { code: 'forbidden', message: 'Only the group’s coordinators may do that.' } },
-        403,
-      ),
+      jsonResponse(403, {
+        error: { code: 'forbidden', message: 'Only the group’s coordinators may do that.' },
+      }),
     );
     const close = await screen.findByRole('button', { name: 'Close the offer' });
     fireEvent.click(close);

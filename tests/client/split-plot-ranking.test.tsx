@@ -11,7 +11,8 @@ import { render, screen, waitFor } from '@testing-library/react';
 import { MemoryRouter, Route, Routes } from 'react-router-dom';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { Component as TrialAnalysis } from '../../src/features/analysis/routes/trial-analysis-route';
-import { analysisAnswer, jsonAnswer as json, massTrait, okraTrial } from '../support/analysis-page';
+import { analysisAnswer, massTrait, okraTrial } from '../support/analysis-page';
+import { jsonResponse } from '../support/record-log-fixture';
 
 const splitPlotTrial = okraTrial('rcbd', {
   title: 'Wend Hollow okra under two mulches',
@@ -33,14 +34,14 @@ function renderPage(address: string) {
     'fetch',
     vi.fn(async (input: string) => {
       const url = new URL(input, 'http://127.0.0.1');
-      if (url.pathname === '/api/trials/wend-hollow-okra') return json(splitPlotTrial);
+      if (url.pathname === '/api/trials/wend-hollow-okra') return jsonResponse(200, splitPlotTrial);
       if (url.pathname.endsWith('/analysis')) {
         analysis.push(url);
-        return json(mixedAnswer);
+        return jsonResponse(200, mixedAnswer);
       }
       if (url.pathname.endsWith('/ranking')) ranking.push(url);
       // The ranking's figures, the season and the session are not what this test is about.
-      return json({ error: { code: 'not_found', message: 'Not here.' } }, 404);
+      return jsonResponse(404, { error: { code: 'not_found', message: 'Not here.' } });
     }),
   );
   render(

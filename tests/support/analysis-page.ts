@@ -7,9 +7,9 @@ import { readFileSync } from 'node:fs';
 import type { AnalysisModel } from '../../common/contracts/analysis';
 import { trialActions } from '../../common/policy';
 import { analyzeCsv } from '../../server/analysis/engine/analyze';
+import { fixtureId as uuid } from './record-log-fixture';
 
 export const analysisCsv = readFileSync('fixtures/analysis/multisite-missing.csv', 'utf8');
-export const uuid = (n: number) => `00000000-0000-4000-8000-${String(n).padStart(12, '0')}`;
 
 /** A trait by mass per plot, higher is better. */
 export const massTrait = (n: number, key: string, label: string) => ({
@@ -76,9 +76,3 @@ export function analysisAnswer(model: AnalysisModel, design: 'crd' | 'rcbd' | 'm
     }),
   );
 }
-
-export const jsonAnswer = (body: unknown, status = 200) =>
-  new Response(JSON.stringify(body), {
-    status,
-    headers: { 'Content-Type': 'application/json' },
-  });
