@@ -601,8 +601,8 @@ export function analyzePlotRows(
     const counts = [...new Set(descs.map((d) => d.n))].sort((a, b) => a - b);
     warnings.push(
       counts.length > 1
-        ? `unequal replication (${counts.join(', ')} plots per entry): LSD and HSD differ by pair, single values are null`
-        : 'LSD and HSD differ by pair (each difference of adjusted means has its own standard error), single values are null',
+        ? `unequal replication (${counts.join(', ')} plots per entry): each pair of entries has its own LSD and HSD, so no single value is given`
+        : 'Each pair of entries has its own LSD and HSD (each difference of adjusted means has its own standard error), so no single value is given',
     );
   }
   for (const w of sep.warnings) if (!w.startsWith('unequal replication')) warnings.push(w);
