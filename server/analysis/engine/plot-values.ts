@@ -96,7 +96,10 @@ function normalise(a: Amount, plants: number, rowLengthM: number, areaM2: number
   };
 }
 
-/** One plot's harvests added up: by the database (GROUP BY plot) or by summariseHarvests. */
+/**
+ * One plot's harvests added up: as the database keeps them (plot_harvest_totals), or by
+ * summariseHarvests.
+ */
 export interface PlotHarvestTotals {
   plotId: string;
   marketable: Amount;
