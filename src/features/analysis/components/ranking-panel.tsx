@@ -48,7 +48,7 @@ export function RankingPanel({
     traits: chosen.map((t) => t.key),
     weights: chosen.map((t) => Number(settled[t.key])),
     alpha,
-    ...(model ? { model } : {}),
+    model,
   };
   const { data, error, isFetching } = useRanking(trial.slug, query);
   if (ranked.length === 0) return null;
