@@ -82,10 +82,9 @@ function fromSnapshot(s: ResultSnapshot, trait: ResultSnapshot['traits'][number]
   };
 }
 
-/** Which traits to analyse: every one, none (only list them), or one. */
-export type Analyse = 'all' | 'none' | { trait: string };
-const wanted = (analyse: Analyse, key: string) =>
-  analyse === 'all' || (analyse !== 'none' && analyse.trait === key);
+/** Which traits to analyse: every one, or one (listing them alone needs only `readTrial`). */
+export type Analyse = 'all' | { trait: string };
+const wanted = (analyse: Analyse, key: string) => analyse === 'all' || analyse.trait === key;
 
 /**
  * What this caller may see of the trial, or null when nothing: the trial's own records for its
