@@ -81,8 +81,8 @@ export async function sheetPage(
   let frozen: FrozenVersion;
   let offers: TrialOffer[];
   try {
-    // Both need only the trial, already read as published through its entry point: one round
-    // trip for the version's stamp and the trial's open offers.
+    // Both need only the trial, already read as published through its entry point, so the
+    // version's stamp and the trial's open offers are asked at once, not one after the other.
     [frozen, offers] = await Promise.all([
       frozenVersionOf(db, trial, sheet[1] ? Number(sheet[1]) : undefined),
       openOffersOf(db, trial.id),
