@@ -108,7 +108,7 @@ function About({ record, onEdit }: { record: VarietyRecord; onEdit?: () => void 
   const { data: groups } = useGroups(Boolean(me));
   const inGroup = groups?.groups.some((g) => g.id === v.group.id) ?? false;
   // The cover is one of the photos this page shows, each with the caption its uploader wrote.
-  const coverCaption = v.cover ? record.photos.find((p) => p.id === v.cover!.id)?.caption : '';
+  const coverCaption = record.photos.find((p) => p.id === v.cover?.id)?.caption;
   return (
     <>
       {v.cover ? (
