@@ -13,6 +13,7 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
+import { tooltipStyle } from '@/components/ui/chart-palette';
 import { ErrorPanel } from '@/components/ui/error-panel';
 import { Spinner } from '@/components/ui/spinner';
 import { useUnitSystem } from '@/lib/session';
@@ -21,7 +22,6 @@ import { useEntrySite, useHarvestCurve, useTraitAnalyses } from '../api/comparis
 import { EntrySiteChart, HarvestCurveChart } from '../components/comparison-charts';
 import { CellMeansTable } from '../components/cell-means-table';
 import { ComparisonTable } from '../components/comparison-table';
-import { tooltipStyle } from '@/components/ui/chart-palette';
 
 export function Component() {
   const { slug = '' } = useParams();
