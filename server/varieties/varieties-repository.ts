@@ -57,7 +57,6 @@ export function listVarieties(db: DB, groupIds: string[] | 'all', viewerId: stri
       'v.id',
       'cp.id as cover_id',
       'cp.is_cover as cover_is_sheet_cover',
-      'cp.deleted_at as cover_deleted_at',
       'ct.slug as cover_trial_slug',
       'ct.status as cover_trial_status',
       ...membershipColumns('ct.id', viewerId),

@@ -80,7 +80,8 @@ function coverVisible(actor: Actor, v: Awaited<ReturnType<typeof repo.listVariet
       member_role: v.member_role,
       member_site_ids: v.member_site_ids,
     },
-    { is_cover: v.cover_is_sheet_cover ?? false, deleted_at: v.cover_deleted_at },
+    // The list joins only a kept photo as the cover (see `listVarieties`).
+    { is_cover: v.cover_is_sheet_cover ?? false, deleted_at: null },
   );
 }
 
