@@ -54,6 +54,22 @@ const viewports = [
 const sheetTools = (page: Page) => page.getByRole('group', { name: 'Print and download' });
 
 /**
+ * Holds back the sheet's own code (its lazily loaded chunk) until `release()`, so the server's
+ * drawing is what the reader sees meanwhile; `held()` says whether the page asked for it.
+ */
+async function holdSheetCode(page: Page) {
+  let release!: () => void;
+  const released = new Promise<void>((resolve) => (release = resolve));
+  let held = false;
+  await page.route('**/assets/sheet-view-*.js', async (route) => {
+    held = true;
+    await released;
+    await route.continue();
+  });
+  return { release, held: () => held };
+}
+
+/**
  * Where the drawn sheet sits, measured from the top of the page (so scrolling does not count),
  * once the page's fonts are in: the ranking table, the sheet's title, the app's header and the
  * Print button; and the addresses of the toolbar's links.
@@ -285,14 +301,7 @@ describe('the sheet drawn on the server', () => {
       const errors = watchErrors(page);
       // The sheet's code is held back until the app has drawn several frames around the drawing
       // and has settled (the reader's session is known: the header offers to sign in).
-      let release!: () => void;
-      const released = new Promise<void>((resolve) => (release = resolve));
-      let held = false;
-      await page.route('**/assets/sheet-view-*.js', async (route) => {
-        held = true;
-        await released;
-        await route.continue();
-      });
+      const sheetCode = await holdSheetCode(page);
       await page.goto(`/r/${SLUG}`, { waitUntil: 'commit' });
       await page.locator('main #sheet-prerender').waitFor({ state: 'attached' });
       await page.getByRole('link', { name: 'Sign in' }).waitFor();
@@ -302,10 +311,10 @@ describe('the sheet drawn on the server', () => {
             (f) => f.app,
           ).length >= 5,
       );
-      expect(held).toBe(true);
+      expect(sheetCode.held()).toBe(true);
       const drawn = await sheetPlace(page);
       await expectNoSeriousA11yViolations(page, `drawn sheet at ${viewport.width}px`);
-      release();
+      sheetCode.release();
       // The client's sheet is in once its Print button works and the drawing is gone.
       const print = page.getByRole('button', { name: 'Print', disabled: false });
       await print.waitFor();
@@ -389,17 +398,12 @@ describe('the sheet drawn on the server', () => {
       const context = await contextAs(browser, live, null, viewport);
       const page = await context.newPage();
       const errors = watchErrors(page);
-      let release!: () => void;
-      const released = new Promise<void>((resolve) => (release = resolve));
-      await page.route('**/assets/sheet-view-*.js', async (route) => {
-        await released;
-        await route.continue();
-      });
+      const sheetCode = await holdSheetCode(page);
       await page.goto(`/r/${SLUG}/v/1`, { waitUntil: 'commit' });
       await page.locator('main #sheet-prerender').waitFor({ state: 'attached' });
       await page.getByRole('link', { name: 'Sign in' }).waitFor();
       const drawn = await sheetPlace(page);
-      release();
+      sheetCode.release();
       await page.getByRole('button', { name: 'Print', disabled: false }).waitFor();
       await page.getByRole('navigation', { name: 'Versions' }).getByRole('link').first().waitFor();
       await page
